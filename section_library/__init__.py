@@ -1,0 +1,1 @@
+"""The catalogue files shipped with sizer (package data: found with importlib.resources)."""

@@ -1,0 +1,1018 @@
+"""Member analysis: reactions, internal actions and displacements of one straight member.
+
+Method. A straight member splits into four uncoupled 1-D problems:
+
+- axial: ux, rigidity EA, loads fx and wx;
+- torsion: rx, rigidity GJ, loads mx (point) and mx per length;
+- bending in x-y: uy and rz = duy/dx, rigidity EIz, loads fy, mz and wy;
+- bending in x-z: uz and ry = -duz/dx, rigidity EIy, loads fz, my and wz.
+
+Each is solved by the stiffness method with nodes at both ends, every support, hinge, point load
+and line-load start and end, and exact (fixed-end) nodal loads for linearly varying line loads, so
+the nodal values are exact for Euler-Bernoulli theory. The x-z problem is solved as an x-y problem
+in (uz, theta = duz/dx) with the moment my entering as -my (it does work on ry = -theta).
+An internal hinge releases My and Mz: its node has separate rotation freedoms on each side in both
+bending problems. A support at a hinge holds the hinge pin, so its ry/rz restraints and rotational
+springs act on nothing (the moment is zero on both sides of a hinge); a hinge at an end releases the
+member's end from the support's rotational restraint in the same way.
+
+Internal actions at x come from the method of sections: every load and reaction on the left
+segment [0, x] is summed exactly (line loads in closed form). They are the actions on the +x face
+of the left segment (SPEC section 2): N, Vy, Vz, T, My, Mz, with
+    N = -sum fx,  Vy = -sum fy,  Vz = -sum fz,  T = -sum mx,
+    Mz = -sum mz - sum (a - x) fy,  My = -sum my + sum (a - x) fz.
+Beam convention for x-y loading: V = -Vy, M = Mz (sagging positive).
+
+Displacements inside an element: Hermite cubic from the nodal values plus the fixed-fixed particular
+solution for the element's linear line load (quintic in bending, cubic in axial and twist).
+
+Load combinations are superpositions of the solved cases; self weight is one unit (1 N/m) case
+scaled by mass per length * GRAVITY and the combination's factor on the self-weight case.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Sequence
+
+import numpy as np
+from numpy.typing import ArrayLike
+
+from sizer.errors import InputError
+from sizer.model import ACTIONS, FREEDOMS, LineLoad, Load, Member, PointLoad, Stiffness
+from sizer.units import GRAVITY
+
+SIDES: tuple[str, ...] = ("left", "right")
+POSITION_TOLERANCE = 1e-9  # relative to the member length: positions closer than this coincide
+ENGAGED_TOLERANCE = 1e-9  # relative work of a load on a free rigid-body motion that counts as a mechanism
+NULL_TOLERANCE = 1e-10  # relative singular value below which a rigid-body constraint set is deficient
+EXTREME_ACTIONS: tuple[str, ...] = ACTIONS + ("V", "M")
+
+# ----------------------------------------------------------------------------------------------
+# loads as arrays
+
+
+@dataclass(frozen=True)
+class _Points:
+    """Concentrated items: positions (k,) in m and forces (k, 6): Fx, Fy, Fz, Mx, My, Mz (N, N*m)."""
+
+    at: np.ndarray
+    forces: np.ndarray
+
+
+@dataclass(frozen=True)
+class _Lines:
+    """Line loads: start, end (J,) in m; q0 (J, 4) intensity at start and slope (J, 4) per m, for
+    (wx, wy, wz, mx) in N/m and N*m/m."""
+
+    start: np.ndarray
+    end: np.ndarray
+    q0: np.ndarray
+    slope: np.ndarray
+
+
+def _points_of(loads: Sequence[Load]) -> _Points:
+    """The point loads and moments among `loads` as arrays."""
+    points = [load for load in loads if isinstance(load, PointLoad)]
+    at = np.array([p.at for p in points], dtype=float)
+    forces = np.array([tuple(p.force) + tuple(p.moment) for p in points], dtype=float).reshape(-1, 6)
+    return _Points(at, forces)
+
+
+def _lines_of(loads: Sequence[Load]) -> _Lines:
+    """The line loads among `loads` (zero-length ones dropped) as arrays."""
+    lines = [load for load in loads if isinstance(load, LineLoad) and load.end > load.start]
+    start = np.array([ln.start for ln in lines], dtype=float)
+    end = np.array([ln.end for ln in lines], dtype=float)
+    q0 = np.array([ln.q_start for ln in lines], dtype=float).reshape(-1, 4)
+    q1 = np.array([ln.q_end for ln in lines], dtype=float).reshape(-1, 4)
+    slope = (q1 - q0) / (end - start)[:, None] if lines else np.zeros((0, 4))
+    return _Lines(start, end, q0, slope)
+
+
+def _concat_points(first: _Points, second: _Points) -> _Points:
+    return _Points(np.concatenate([first.at, second.at]), np.vstack([first.forces, second.forces]))
+
+
+def self_weight_load(member: Member, intensity: float = 1.0) -> LineLoad:
+    """Uniform line load of `intensity` N/m along member.gravity over the whole member, in
+    member.self_weight_case (case "" when the member has none)."""
+    axis, sign = member.gravity
+    q = [0.0, 0.0, 0.0, 0.0]
+    q[axis] = float(sign) * intensity
+    return LineLoad(member.self_weight_case or "", 0.0, member.length, tuple(q), tuple(q))
+
+
+# ----------------------------------------------------------------------------------------------
+# checks of the input
+
+
+def _tolerance(member: Member) -> float:
+    return POSITION_TOLERANCE * member.length
+
+
+def _load_key(member: Member, load: Load) -> str:
+    """'loads[i]' (1-based, as counted in the file) for a load of the member, else 'loads'."""
+    for index, candidate in enumerate(member.loads):
+        if candidate is load:
+            return f"loads[{index + 1}]"
+    return "loads"
+
+
+def _off_member(member: Member, value: float) -> bool:
+    tol = _tolerance(member)
+    return not np.isfinite(value) or value < -tol or value > member.length + tol
+
+
+def _check_geometry(member: Member) -> None:
+    """Length, supports, springs and hinges on the member; no two supports at one position."""
+    file, length = member.source, member.length
+    if not (np.isfinite(length) and length > 0):
+        raise InputError(file, "member.length", f"the length must be a positive finite value, got {length!r}", 'give e.g. "6 m"')
+    for index, support in enumerate(member.supports):
+        if _off_member(member, support.at):
+            raise InputError(file, f"supports[{index + 1}].at", f"the support at {support.at:g} m is off the member (0 to {length:g} m)",
+                             "place it between the member's ends")
+        for freedom, k in support.springs.items():
+            if freedom not in FREEDOMS or not (np.isfinite(k) and k > 0):
+                raise InputError(file, f"supports[{index + 1}].springs.{freedom}", f"a spring must be a positive finite stiffness on one of "
+                                 f"{', '.join(FREEDOMS)}, got {k!r}", 'give e.g. uy = "20 kN/mm"')
+    ats = sorted((s.at, i) for i, s in enumerate(member.supports))
+    for (a, _), (b, j) in zip(ats, ats[1:]):
+        if b - a <= _tolerance(member):
+            raise InputError(file, f"supports[{j + 1}].at", f"two supports at {b:g} m", "merge them into one support with the union of their freedoms")
+    for index, hinge in enumerate(member.hinges):
+        if _off_member(member, hinge.at):
+            raise InputError(file, f"hinges[{index + 1}].at", f"the hinge at {hinge.at:g} m is off the member (0 to {length:g} m)",
+                             "place it between the member's ends")
+
+
+def _check_loads(member: Member, loads: Sequence[Load]) -> None:
+    """Every load on the member and finite; no bending moment exactly at a hinge."""
+    file, length, tol = member.source, member.length, _tolerance(member)
+    hinges = np.array([h.at for h in member.hinges], dtype=float)
+    for load in loads:
+        key = _load_key(member, load)
+        if isinstance(load, PointLoad):
+            if not np.all(np.isfinite(np.r_[load.force, load.moment])):
+                raise InputError(file, key, "a load value is not finite", "give finite values")
+            if _off_member(member, load.at):
+                raise InputError(file, f"{key}.at", f"the load at {load.at:g} m is off the member (0 to {length:g} m)",
+                                 "place it between the member's ends")
+            if (load.moment[1] or load.moment[2]) and np.any(np.abs(hinges - load.at) <= tol):
+                raise InputError(file, f"{key}.at", f"a bending moment at {load.at:g} m acts on a hinge, which cannot take it",
+                                 "move it slightly to the side of the hinge where it acts")
+        else:
+            if not np.all(np.isfinite(np.r_[load.q_start, load.q_end])):
+                raise InputError(file, key, "a load value is not finite", "give finite values")
+            for name, value in (("from", load.start), ("to", load.end)):
+                if _off_member(member, value):
+                    raise InputError(file, f"{key}.{name}", f"the line load reaches {value:g} m, off the member (0 to {length:g} m)",
+                                     "keep `from` and `to` between the member's ends")
+            if load.end < load.start - tol:
+                raise InputError(file, f"{key}.to", f"the line load ends ({load.end:g} m) before it starts ({load.start:g} m)",
+                                 "give `to` greater than `from`")
+
+
+def _check_springs_need_stiffness(member: Member, stiffness: Stiffness | None) -> None:
+    if stiffness is None and any(s.springs for s in member.supports):
+        raise InputError(member.source, "member.section", "the support springs make the forces depend on the member's stiffness, "
+                         "and no section is given", "give a section")
+
+
+# ----------------------------------------------------------------------------------------------
+# the layout: nodes, hinges and the support freedoms of the four problems
+
+
+@dataclass(frozen=True)
+class _Layout:
+    """Nodes (m) and where supports and hinges sit on them."""
+
+    length: float
+    tol: float
+    nodes: np.ndarray  # (m,) sorted
+    split: np.ndarray  # (m,) bool: an interior hinge (separate rotations each side)
+    released: np.ndarray  # (m,) bool: any hinge (support rotations about y and z act on nothing)
+    support_nodes: np.ndarray  # (n_supports,) node index of each support
+
+    @property
+    def lengths(self) -> np.ndarray:
+        return np.diff(self.nodes)
+
+    def node_of(self, at: np.ndarray) -> np.ndarray:
+        """Index of the node nearest each position."""
+        at = np.atleast_1d(np.asarray(at, dtype=float))
+        right = np.clip(np.searchsorted(self.nodes, at), 1, len(self.nodes) - 1)
+        left = right - 1
+        return np.where(np.abs(self.nodes[left] - at) <= np.abs(self.nodes[right] - at), left, right)
+
+
+def _merge_positions(positions: np.ndarray, tol: float) -> np.ndarray:
+    """Sorted positions with those closer than `tol` to the previous kept one merged."""
+    ordered = np.sort(positions)
+    kept = [ordered[0]]
+    for value in ordered[1:]:
+        if value - kept[-1] > tol:
+            kept.append(value)
+    return np.array(kept)
+
+
+def _layout(member: Member, loads: Sequence[Load]) -> _Layout:
+    """Nodes at ends, supports, hinges, point loads and line-load ends."""
+    length, tol = member.length, _tolerance(member)
+    xs = [0.0, length] + [s.at for s in member.supports] + [h.at for h in member.hinges]
+    for load in loads:
+        xs += [load.at] if isinstance(load, PointLoad) else [load.start, load.end]
+    nodes = _merge_positions(np.clip(np.array(xs, dtype=float), 0.0, length), tol)
+    nodes[0], nodes[-1] = 0.0, length
+    layout = _Layout(length, tol, nodes, np.zeros(len(nodes), bool), np.zeros(len(nodes), bool), np.zeros(0, int))
+    hinge_nodes = layout.node_of(np.array([h.at for h in member.hinges], dtype=float)) if member.hinges else np.zeros(0, int)
+    released = np.zeros(len(nodes), bool)
+    released[hinge_nodes] = True
+    split = released.copy()
+    split[[0, -1]] = False
+    support_nodes = layout.node_of(np.array([s.at for s in member.supports], dtype=float)) if member.supports else np.zeros(0, int)
+    return _Layout(length, tol, nodes, split, released, support_nodes)
+
+
+# ----------------------------------------------------------------------------------------------
+# the four 1-D problems
+
+
+@dataclass(frozen=True)
+class _Problem:
+    """One 1-D stiffness problem. Freedoms: `translation[i]` and `rot_left[i]`, `rot_right[i]` of
+    node i (bending; equal except at a split hinge), or `translation[i]` only (axial, torsion)."""
+
+    name: str  # "axial", "torsion", "xy", "xz"
+    moving: tuple[str, ...]  # freedom names of the member: translation[, rotation]
+    stiffness: np.ndarray  # (n, n) member stiffness (springs not included)
+    held: np.ndarray  # (n,) bool: rigidly restrained
+    springs: np.ndarray  # (n,) spring stiffness on the freedom, 0 if none
+    modes: np.ndarray  # (n, r) free rigid-body motions (null space), zero on held or sprung freedoms
+    mode_parts: list[tuple[float, float]]  # extent (m) of each part between hinges
+    mode_params: np.ndarray  # (2 * n_parts, r): (a, b) of each part for each mode (v = a + b (x - c) / L)
+    translation: np.ndarray  # (m,) freedom index of each node's translation
+    rot_left: np.ndarray | None  # (m,) rotation freedom at the left side of each node
+    rot_right: np.ndarray | None  # (m,) rotation freedom at the right side of each node
+
+    @property
+    def size(self) -> int:
+        return len(self.held)
+
+    @property
+    def bending(self) -> bool:
+        return self.rot_left is not None
+
+
+# which freedoms of a support belong to which problem, and in which problem component
+_PROBLEM_FREEDOMS = {"axial": ("ux", None), "torsion": ("rx", None), "xy": ("uy", "rz"), "xz": ("uz", "ry")}
+_RIGIDITY = {"axial": "EA", "torsion": "GJ", "xy": "EIz", "xz": "EIy"}
+_LINE_COMPONENT = {"axial": 0, "torsion": 3, "xy": 1, "xz": 2}  # index into (wx, wy, wz, mx)
+_POINT_COMPONENT = {"axial": (0, None), "torsion": (3, None), "xy": (1, 5), "xz": (2, 4)}  # (force, moment) in 6-vectors
+_MOMENT_SIGN = {"xy": 1.0, "xz": -1.0}  # theta = rz in x-y; theta = -ry in x-z
+
+
+def _bar_stiffness(lengths: np.ndarray, rigidity: float) -> np.ndarray:
+    """Stiffness of a chain of two-node bar elements (N/m or N*m/rad)."""
+    m = len(lengths) + 1
+    k = rigidity / lengths
+    matrix = np.zeros((m, m))
+    idx = np.arange(m - 1)
+    np.add.at(matrix, (idx, idx), k)
+    np.add.at(matrix, (idx + 1, idx + 1), k)
+    np.add.at(matrix, (idx, idx + 1), -k)
+    np.add.at(matrix, (idx + 1, idx), -k)
+    return matrix
+
+
+def _beam_element_matrices(lengths: np.ndarray, rigidity: float) -> np.ndarray:
+    """(ne, 4, 4) Euler-Bernoulli element stiffness, freedoms (v1, theta1, v2, theta2)."""
+    le = lengths[:, None, None]
+    unit = np.array([[12, 6, -12, 6], [6, 4, -6, 2], [-12, -6, 12, -6], [6, 2, -6, 4]], dtype=float)
+    power = np.array([[3, 2, 3, 2], [2, 1, 2, 1], [3, 2, 3, 2], [2, 1, 2, 1]])
+    return rigidity * unit[None] / le ** power[None]
+
+
+def _beam_freedoms(layout: _Layout) -> tuple[np.ndarray, np.ndarray, np.ndarray, int]:
+    """Freedom numbers: translation, rotation left and right of each node; total count."""
+    m = len(layout.nodes)
+    translation, rot_left, rot_right = np.zeros(m, int), np.zeros(m, int), np.zeros(m, int)
+    count = 0
+    for i in range(m):
+        translation[i], rot_left[i] = count, count + 1
+        count += 2
+        if layout.split[i]:
+            rot_right[i] = count
+            count += 1
+        else:
+            rot_right[i] = rot_left[i]
+    return translation, rot_left, rot_right, count
+
+
+def _element_freedoms(translation: np.ndarray, rot_left: np.ndarray, rot_right: np.ndarray) -> np.ndarray:
+    """(ne, 4) freedoms (v1, theta1, v2, theta2) of each beam element."""
+    return np.stack([translation[:-1], rot_right[:-1], translation[1:], rot_left[1:]], axis=1)
+
+
+def _parts(layout: _Layout) -> list[tuple[float, float]]:
+    """Extents of the parts between interior hinges."""
+    cuts = [0.0] + [float(x) for x in layout.nodes[layout.split]] + [layout.length]
+    return list(zip(cuts[:-1], cuts[1:]))
+
+
+def _part_of(layout: _Layout, node: int, side: str) -> int:
+    """Index of the part holding `node` on `side`; a split hinge node is in two parts."""
+    x = layout.nodes[node]
+    hinges = layout.nodes[layout.split]
+    return int(np.sum(hinges < x - layout.tol) if side == "left" else np.sum(hinges <= x + layout.tol))
+
+
+def _rigid_modes(layout: _Layout, holds_translation: np.ndarray, holds_rotation: np.ndarray, bending: bool) -> np.ndarray:
+    """Orthonormal basis (2 * n_parts, r) of the rigid-body motions (a, b) of the parts allowed by the
+    hinges and the held (rigid or sprung) freedoms. v_j(x) = a_j + b_j (x - c_j) / L; rotation b_j / L.
+    For axial and torsion (no bending), one part that only translates (b = 0)."""
+    parts = _parts(layout) if bending else [(0.0, layout.length)]
+    centres = [(lo + hi) / 2 for lo, hi in parts]
+    n = 2 * len(parts)
+    rows: list[np.ndarray] = []
+
+    def translation_row(part: int, x: float) -> np.ndarray:
+        row = np.zeros(n)
+        row[2 * part], row[2 * part + 1] = 1.0, (x - centres[part]) / layout.length
+        return row
+
+    for k, (_, hi) in enumerate(parts[:-1]):
+        rows.append(translation_row(k, hi) - translation_row(k + 1, hi))
+    for node in np.flatnonzero(holds_translation):
+        rows.append(translation_row(_part_of(layout, node, "left"), float(layout.nodes[node])))
+    for node in np.flatnonzero(holds_rotation):
+        row = np.zeros(n)
+        row[2 * _part_of(layout, node, "left") + 1] = 1.0
+        rows.append(row)
+    if not bending:
+        for part in range(len(parts)):
+            row = np.zeros(n)
+            row[2 * part + 1] = 1.0
+            rows.append(row)
+    if not rows:
+        return np.eye(n)
+    _, singular, vh = np.linalg.svd(np.array(rows), full_matrices=True)
+    rank = int(np.sum(singular > NULL_TOLERANCE * max(1.0, singular[0])))
+    return vh[rank:].T
+
+
+def _modes_on_freedoms(layout: _Layout, params: np.ndarray, problem_freedoms: tuple[np.ndarray, np.ndarray | None, np.ndarray | None],
+                       size: int, bending: bool) -> np.ndarray:
+    """Rigid-body modes (size, r) evaluated on the freedoms of a problem."""
+    translation, rot_left, rot_right = problem_freedoms
+    parts = _parts(layout) if bending else [(0.0, layout.length)]
+    centres = np.array([(lo + hi) / 2 for lo, hi in parts])
+    modes = np.zeros((size, params.shape[1]))
+    for node, x in enumerate(layout.nodes):
+        left = _part_of(layout, node, "left") if bending else 0
+        modes[translation[node]] = params[2 * left] + params[2 * left + 1] * (x - centres[left]) / layout.length
+        if bending:
+            right = _part_of(layout, node, "right")
+            modes[rot_left[node]] = params[2 * left + 1] / layout.length
+            modes[rot_right[node]] = params[2 * right + 1] / layout.length
+    return modes
+
+
+def _support_holds(member: Member, layout: _Layout, freedom: str | None, rotation: bool) -> tuple[np.ndarray, np.ndarray]:
+    """Per node: rigidly held (bool) and spring stiffness on `freedom`. Rotations about y and z at a
+    hinge are released (the support holds the hinge pin only)."""
+    m = len(layout.nodes)
+    held, springs = np.zeros(m, bool), np.zeros(m)
+    if freedom is None:
+        return held, springs
+    for support, node in zip(member.supports, layout.support_nodes):
+        if rotation and freedom in ("ry", "rz") and layout.released[node]:
+            continue
+        if freedom in support.restrain:
+            held[node] = True
+        elif freedom in support.springs:
+            springs[node] += support.springs[freedom]
+    return held, springs
+
+
+def _build_problem(name: str, member: Member, layout: _Layout, rigidity: float) -> _Problem:
+    """Stiffness, supports and free rigid-body motions of one 1-D problem."""
+    main, rotation = _PROBLEM_FREEDOMS[name]
+    held_t, spring_t = _support_holds(member, layout, main, rotation=False)
+    held_r, spring_r = _support_holds(member, layout, rotation, rotation=True)
+    bending = rotation is not None
+    parts = _parts(layout) if bending else [(0.0, layout.length)]
+    params = _rigid_modes(layout, held_t | (spring_t > 0), held_r | (spring_r > 0), bending)
+    if bending:
+        translation, rot_left, rot_right, size = _beam_freedoms(layout)
+        matrix = np.zeros((size, size))
+        dofs = _element_freedoms(translation, rot_left, rot_right)
+        ke = _beam_element_matrices(layout.lengths, rigidity)
+        np.add.at(matrix, (dofs[:, :, None], dofs[:, None, :]), ke)
+        held, springs = np.zeros(size, bool), np.zeros(size)
+        held[translation], springs[translation] = held_t, spring_t
+        held[rot_left] |= held_r
+        springs[rot_left] += spring_r
+    else:
+        size = len(layout.nodes)
+        translation, rot_left, rot_right = np.arange(size), None, None
+        matrix = _bar_stiffness(layout.lengths, rigidity)
+        held, springs = held_t, spring_t
+    modes = _modes_on_freedoms(layout, params, (translation, rot_left, rot_right), size, bending)
+    return _Problem(name, (main,) + ((rotation,) if rotation else ()), matrix, held, springs, modes, parts, params,
+                    translation, rot_left, rot_right)
+
+
+def _build_problems(member: Member, layout: _Layout, stiffness: Stiffness) -> dict[str, _Problem]:
+    for name in _RIGIDITY:
+        value = getattr(stiffness, _RIGIDITY[name])
+        if not (np.isfinite(value) and value > 0):
+            raise ValueError(f"{_RIGIDITY[name]} must be positive and finite, got {value!r}")
+    return {name: _build_problem(name, member, layout, getattr(stiffness, _RIGIDITY[name])) for name in _RIGIDITY}
+
+
+# ----------------------------------------------------------------------------------------------
+# loads on the nodes
+
+
+def _element_line_loads(layout: _Layout, lines: _Lines) -> tuple[np.ndarray, np.ndarray]:
+    """(ne, 4) intensities of (wx, wy, wz, mx) at the start and end of each element (line loads
+    start and end on nodes, so each element is either wholly loaded by a line load or not)."""
+    x1, x2 = layout.nodes[:-1], layout.nodes[1:]
+    mid = (x1 + x2) / 2
+    cover = ((mid[:, None] > lines.start[None, :]) & (mid[:, None] < lines.end[None, :])).astype(float)
+    base = cover @ (lines.q0 - lines.slope * lines.start[:, None])
+    slope = cover @ lines.slope
+    return base + x1[:, None] * slope, base + x2[:, None] * slope
+
+
+def _load_vector(problem: _Problem, layout: _Layout, points: _Points, qa: np.ndarray, qb: np.ndarray) -> np.ndarray:
+    """Nodal load vector (size,) of one problem: point loads plus exact fixed-end line-load forces."""
+    vector = np.zeros(problem.size)
+    force_col, moment_col = _POINT_COMPONENT[problem.name]
+    nodes = layout.node_of(points.at) if len(points.at) else np.zeros(0, int)
+    np.add.at(vector, problem.translation[nodes], points.forces[:, force_col])
+    le = layout.lengths
+    component = _LINE_COMPONENT[problem.name]
+    a, b = qa[:, component], qb[:, component]
+    if problem.bending:
+        np.add.at(vector, problem.rot_left[nodes], _MOMENT_SIGN[problem.name] * points.forces[:, moment_col])
+        dofs = _element_freedoms(problem.translation, problem.rot_left, problem.rot_right)
+        equivalent = np.stack([le * (7 * a + 3 * b) / 20, le**2 * (3 * a + 2 * b) / 60,
+                               le * (3 * a + 7 * b) / 20, -(le**2) * (2 * a + 3 * b) / 60], axis=1)
+        np.add.at(vector, dofs, equivalent)
+    else:
+        np.add.at(vector, problem.translation[:-1], le * (2 * a + b) / 6)
+        np.add.at(vector, problem.translation[1:], le * (a + 2 * b) / 6)
+    return vector
+
+
+# ----------------------------------------------------------------------------------------------
+# solving and mechanisms
+
+
+def _engaged_modes(problem: _Problem, load: np.ndarray, length: float) -> np.ndarray | None:
+    """The rigid-body motion (a, b per part) that the load drives, or None when it does no work on
+    any free motion. `load`: (size,) nodal loads."""
+    if problem.modes.shape[1] == 0:
+        return None
+    is_rotation = np.ones(problem.size, bool)
+    is_rotation[problem.translation] = False
+    scale = np.sum(np.abs(load[~is_rotation])) + np.sum(np.abs(load[is_rotation])) / length
+    work = problem.modes.T @ load
+    if scale == 0 or np.max(np.abs(work)) <= ENGAGED_TOLERANCE * scale:
+        return None
+    return problem.mode_params @ work
+
+
+def _describe_motion(problem: _Problem, params: np.ndarray, length: float, tol: float) -> tuple[list[str], list[tuple[float, float]]]:
+    """Freedom names and part extents of a driven rigid-body motion."""
+    main = problem.moving[0]
+    if not problem.bending:
+        return [main], []
+    rotation = problem.moving[1]
+    size = np.max(np.abs(params))
+    names: list[str] = []
+    moving_parts: list[tuple[float, float]] = []
+    for part, (lo, hi) in enumerate(problem.mode_parts):
+        a, b = params[2 * part], params[2 * part + 1]
+        if max(abs(a), abs(b)) <= 1e-6 * size:
+            continue
+        moving_parts.append((lo, hi))
+        if abs(b) <= 1e-6 * size:
+            found = [main]
+        else:
+            centre = (lo + hi) / 2
+            pivot = centre - a * length / b
+            found = [rotation] if lo - tol <= pivot <= hi + tol else [main, rotation]
+        names += [name for name in found if name not in names]
+    return names, moving_parts
+
+
+_FIXES = {
+    "axial": "hold ux at one support (a pin or fixed), or remove the axial loads (fx, wx)",
+    "torsion": "hold rx at one support (fixed, pin and roller all hold it), or remove the torques (mx)",
+    "xy": "hold uy at two supports or add a fixed support (holds rz) on each part between hinges, or remove the fy, wy and mz loads",
+    "xz": "hold uz at two supports or add a fixed support (holds ry) on each part between hinges, or remove the fz, wz and my loads",
+}
+
+
+def _mechanism_error(member: Member, case: str, findings: list[tuple[_Problem, np.ndarray]], layout: _Layout) -> InputError:
+    """The InputError for the driven rigid-body motions found in one load case."""
+    names: list[str] = []
+    parts: list[tuple[float, float]] = []
+    for problem, params in findings:
+        found_names, found_parts = _describe_motion(problem, params, layout.length, layout.tol)
+        names += [name for name in found_names if name not in names]
+        parts += [part for part in found_parts if part not in parts and len(problem.mode_parts) > 1]
+    where = ""
+    if parts:
+        where = " (" + ", ".join(f"the part from {lo:g} m to {hi:g} m" for lo, hi in parts) + ")"
+    label = case if case else "(unnamed)"
+    fixes = "; ".join(_FIXES[problem.name] for problem, _ in findings)
+    return InputError(member.source, "supports", f"mechanism: the member is free to move in {', '.join(names)}{where} under load case '{label}'", fixes)
+
+
+def _solve_free(problem: _Problem, loads: np.ndarray) -> np.ndarray:
+    """Displacements (size, c) for load columns (size, c), zero component along free rigid-body
+    motions (which the loads must not drive). Diagonally scaled for conditioning."""
+    free = ~problem.held
+    matrix = problem.stiffness[np.ix_(free, free)] + np.diag(problem.springs[free])
+    scale = np.sqrt(np.diag(matrix))
+    scaled = matrix / np.outer(scale, scale)
+    rhs = loads[free] / scale[:, None]
+    modes = problem.modes[free] / scale[:, None]
+    r = modes.shape[1]
+    if r:
+        modes = modes / np.linalg.norm(modes, axis=0)
+        scaled = np.block([[scaled, modes], [modes.T, np.zeros((r, r))]])
+        rhs = np.vstack([rhs, np.zeros((r, rhs.shape[1]))])
+    solution = np.linalg.solve(scaled, rhs)[: int(free.sum())]
+    displacement = np.zeros(loads.shape)
+    displacement[free] = solution / scale[:, None]
+    return displacement
+
+
+# ----------------------------------------------------------------------------------------------
+# results of one case
+
+
+@dataclass(frozen=True)
+class _Field:
+    """Nodal displacements and element loads of one case, for displacements between nodes.
+    Node arrays (m,): ux, rx; uy, rz left/right; uz, theta = duz/dx left/right."""
+
+    nodes: np.ndarray
+    axial: np.ndarray
+    twist: np.ndarray
+    v: np.ndarray
+    rz_left: np.ndarray
+    rz_right: np.ndarray
+    w: np.ndarray
+    theta_left: np.ndarray
+    theta_right: np.ndarray
+    qa: np.ndarray  # (ne, 4) (wx, wy, wz, mx) at element starts
+    qb: np.ndarray  # (ne, 4) at element ends
+    stiffness: Stiffness
+    tol: float
+
+
+def _as_stations(x: ArrayLike, length: float, tol: float) -> np.ndarray:
+    """x as a 1-D float array, checked to lie on the member."""
+    xs = np.atleast_1d(np.asarray(x, dtype=float)).ravel()
+    if xs.size and (not np.all(np.isfinite(xs)) or xs.min() < -tol or xs.max() > length + tol):
+        raise ValueError(f"stations must lie on the member, 0 to {length:g} m")
+    return xs
+
+
+def _right_side(side: str | ArrayLike, n: int) -> np.ndarray:
+    """Bool (n,): True where the value just right of x is wanted. `side`: "left", "right" or an
+    array of those, one per station."""
+    if isinstance(side, str):
+        if side not in SIDES:
+            raise ValueError(f"side must be one of {SIDES}, got {side!r}")
+        return np.full(n, side == "right")
+    sides = np.asarray(side)
+    if sides.shape != (n,) or not np.all(np.isin(sides, SIDES)):
+        raise ValueError(f"side must be 'left', 'right' or an array of those with one per station ({n})")
+    return sides == "right"
+
+
+def _hermite(xi: np.ndarray, le: np.ndarray, v1, t1, v2, t2) -> tuple[np.ndarray, np.ndarray]:
+    """Cubic Hermite interpolation of end values and slopes: value and slope d/dx."""
+    xi2, xi3 = xi * xi, xi * xi * xi
+    value = (1 - 3 * xi2 + 2 * xi3) * v1 + le * (xi - 2 * xi2 + xi3) * t1 + (3 * xi2 - 2 * xi3) * v2 + le * (xi3 - xi2) * t2
+    slope = ((6 * xi2 - 6 * xi) * v1 + le * (1 - 4 * xi + 3 * xi2) * t1 + (6 * xi - 6 * xi2) * v2 + le * (3 * xi2 - 2 * xi) * t2) / le
+    return value, slope
+
+
+def _beam_particular(xi: np.ndarray, le: np.ndarray, qa: np.ndarray, qb: np.ndarray, rigidity: float) -> tuple[np.ndarray, np.ndarray]:
+    """Fixed-fixed deflection and slope of EI v'''' = q, q linear from qa to qb over the element."""
+    def shape(s):  # load rising from 0 to 1 over the element
+        return s * s * (s**3 - 3 * s + 2) / 120
+
+    def shape_slope(s):
+        return (5 * s**4 - 9 * s * s + 4 * s) / 120
+
+    value = le**4 / rigidity * (qa * shape(1 - xi) + qb * shape(xi))
+    slope = le**3 / rigidity * (-qa * shape_slope(1 - xi) + qb * shape_slope(xi))
+    return value, slope
+
+
+def _bar_particular(xi: np.ndarray, le: np.ndarray, qa: np.ndarray, qb: np.ndarray, rigidity: float) -> np.ndarray:
+    """Fixed-fixed solution of rigidity u'' = -q, q linear from qa to qb over the element."""
+    def shape(s):
+        return s * (1 - s * s) / 6
+
+    return le**2 / rigidity * (qa * shape(1 - xi) + qb * shape(xi))
+
+
+class CaseSolution:
+    """One solved load case: reactions, and actions and displacements at any x (m)."""
+
+    def __init__(self, case: str, length: float, positions: np.ndarray, reactions: np.ndarray, points: _Points, lines: _Lines,
+                 field: _Field | None, tol: float) -> None:
+        self.case = case
+        self.length = length
+        self.positions = positions
+        self.reactions = reactions
+        self.has_displacements = field is not None
+        self._loads = points
+        self._items = _concat_points(points, _Points(positions, reactions))
+        self._lines = lines
+        self._field = field
+        self._tol = tol
+        self._first_moments = self._items.at[:, None] * self._items.forces[:, :3]
+
+    def point_items(self) -> tuple[np.ndarray, np.ndarray]:
+        """Concentrated items: point loads (in the order given) then reactions (support order).
+        Returns positions (k,) in m and forces (k, 6): Fx, Fy, Fz, Mx, My, Mz (N, N*m).
+        Line loads are not included; see line_items()."""
+        return self._items.at.copy(), self._items.forces.copy()
+
+    def line_items(self) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
+        """Line loads: start (J,), end (J,), intensities at start and end (J, 4): wx, wy, wz, mx."""
+        lines = self._lines
+        return lines.start.copy(), lines.end.copy(), lines.q0.copy(), lines.q0 + lines.slope * (lines.end - lines.start)[:, None]
+
+    def actions(self, x: ArrayLike, side: str | ArrayLike = "right") -> np.ndarray:
+        """(n, 6) N, Vy, Vz, T, My, Mz (N, N*m) on the +x face of the left segment at each x, by the
+        method of sections. side "left": concentrated items at x excluded; "right": included."""
+        xs = _as_stations(x, self.length, self._tol)
+        right = _right_side(side, xs.size)
+        at = self._items.at
+        cut = np.where(right[:, None], at[None, :] <= xs[:, None] + self._tol, at[None, :] < xs[:, None] - self._tol).astype(float)
+        sums = cut @ self._items.forces  # (n, 6)
+        first = cut @ self._first_moments  # (n, 3): sum of a * F
+        lines = self._lines
+        if len(lines.start):
+            u = np.clip(xs[:, None], lines.start[None, :], lines.end[None, :]) - lines.start[None, :]
+            u2, u3 = u * u / 2, u**3 / 3
+            resultant = u @ lines.q0 + u2 @ lines.slope
+            moment = (u @ (lines.start[:, None] * lines.q0) + u2 @ (lines.start[:, None] * lines.slope + lines.q0) + u3 @ lines.slope)
+            sums[:, :4] += resultant
+            first += moment[:, :3]
+        out = np.empty((xs.size, 6))
+        out[:, :4] = -sums[:, :4]
+        out[:, 4] = -sums[:, 4] + first[:, 2] - xs * sums[:, 2]
+        out[:, 5] = -sums[:, 5] - first[:, 1] + xs * sums[:, 1]
+        return out
+
+    def displacements(self, x: ArrayLike, side: str | ArrayLike = "right") -> np.ndarray:
+        """(n, 6) ux, uy, uz (m) and rx, ry, rz (rad) at each x; side matters only for rotations at
+        hinges. Raises ValueError when the case was solved without the member's stiffness."""
+        if self._field is None:
+            raise ValueError("displacements need the member's stiffness (a section); this case was solved with unit rigidities")
+        f = self._field
+        xs = _as_stations(x, self.length, self._tol)
+        right = _right_side(side, xs.size)
+        count = np.where(right, np.searchsorted(f.nodes, xs + f.tol, "right"), np.searchsorted(f.nodes, xs - f.tol, "left"))
+        e = np.clip(count - 1, 0, len(f.nodes) - 2)
+        le = f.nodes[e + 1] - f.nodes[e]
+        xi = (xs - f.nodes[e]) / le
+        qa, qb = f.qa[e], f.qb[e]
+        k = f.stiffness
+        out = np.empty((xs.size, 6))
+        out[:, 0] = f.axial[e] * (1 - xi) + f.axial[e + 1] * xi + _bar_particular(xi, le, qa[:, 0], qb[:, 0], k.EA)
+        out[:, 3] = f.twist[e] * (1 - xi) + f.twist[e + 1] * xi + _bar_particular(xi, le, qa[:, 3], qb[:, 3], k.GJ)
+        v, rz = _hermite(xi, le, f.v[e], f.rz_right[e], f.v[e + 1], f.rz_left[e + 1])
+        pv, prz = _beam_particular(xi, le, qa[:, 1], qb[:, 1], k.EIz)
+        w, theta = _hermite(xi, le, f.w[e], f.theta_right[e], f.w[e + 1], f.theta_left[e + 1])
+        pw, ptheta = _beam_particular(xi, le, qa[:, 2], qb[:, 2], k.EIy)
+        out[:, 1], out[:, 5] = v + pv, rz + prz
+        out[:, 2], out[:, 4] = w + pw, -(theta + ptheta)
+        return out
+
+
+# ----------------------------------------------------------------------------------------------
+# solving cases
+
+
+def _reaction_values(problem: _Problem, displacement: np.ndarray, loads: np.ndarray) -> np.ndarray:
+    """Support reactions on the problem's freedoms (size, c): K u - F on held freedoms, -k u on
+    sprung ones, zero elsewhere. Moments in the problem's own sign (theta)."""
+    residual = problem.stiffness @ displacement - loads
+    out = np.zeros_like(displacement)
+    out[problem.held] = residual[problem.held]
+    sprung = problem.springs > 0
+    out[sprung] = -problem.springs[sprung, None] * displacement[sprung]
+    return out
+
+
+def _support_reactions(problems: dict[str, _Problem], layout: _Layout, values: dict[str, np.ndarray], column: int) -> np.ndarray:
+    """(n_supports, 6) reactions Fx, Fy, Fz, Mx, My, Mz for one load column."""
+    reactions = np.zeros((len(layout.support_nodes), 6))
+    nodes = layout.support_nodes
+    reactions[:, 0] = values["axial"][problems["axial"].translation[nodes], column]
+    reactions[:, 3] = values["torsion"][problems["torsion"].translation[nodes], column]
+    reactions[:, 1] = values["xy"][problems["xy"].translation[nodes], column]
+    reactions[:, 2] = values["xz"][problems["xz"].translation[nodes], column]
+    for name, col in (("xy", 5), ("xz", 4)):  # rotations at hinges are released: zero there
+        reactions[:, col] = _MOMENT_SIGN[name] * values[name][problems[name].rot_left[nodes], column]
+    return reactions
+
+
+@dataclass
+class _Solved:
+    """Solutions of several load columns, or the mechanism error of each column that has one."""
+
+    solutions: list[CaseSolution | None]
+    errors: list[InputError | None]
+
+
+def _solve_columns(member: Member, load_sets: Sequence[Sequence[Load]], names: Sequence[str], stiffness: Stiffness | None) -> _Solved:
+    """Solve several load sets on one member with one factorization per problem."""
+    _check_geometry(member)
+    all_loads = [load for loads in load_sets for load in loads]
+    _check_loads(member, all_loads)
+    _check_springs_need_stiffness(member, stiffness)
+    layout = _layout(member, all_loads)
+    problems = _build_problems(member, layout, stiffness or Stiffness.unit())
+    points = [_points_of(loads) for loads in load_sets]
+    lines = [_lines_of(loads) for loads in load_sets]
+    element_loads = [_element_line_loads(layout, ln) for ln in lines]
+    columns = {name: np.column_stack([_load_vector(problem, layout, p, qa, qb) for p, (qa, qb) in zip(points, element_loads)])
+               if load_sets else np.zeros((problem.size, 0)) for name, problem in problems.items()}
+    errors: list[InputError | None] = []
+    for column, case in enumerate(names):
+        findings = [(problem, driven) for name, problem in problems.items()
+                    if (driven := _engaged_modes(problem, columns[name][:, column], layout.length)) is not None]
+        errors.append(_mechanism_error(member, case, findings, layout) if findings else None)
+    displacement = {name: _solve_free(problem, columns[name]) for name, problem in problems.items()}
+    values = {name: _reaction_values(problem, displacement[name], columns[name]) for name, problem in problems.items()}
+    positions = np.array([s.at for s in member.supports], dtype=float)
+    solutions: list[CaseSolution | None] = []
+    for column, case in enumerate(names):
+        if errors[column] is not None:
+            solutions.append(None)
+            continue
+        field = None
+        if stiffness is not None:
+            field = _field(problems, layout, displacement, column, element_loads[column], stiffness)
+        reactions = _support_reactions(problems, layout, values, column)
+        solutions.append(CaseSolution(case, member.length, positions, reactions, points[column], lines[column], field, layout.tol))
+    return _Solved(solutions, errors)
+
+
+def _field(problems: dict[str, _Problem], layout: _Layout, displacement: dict[str, np.ndarray], column: int,
+           element_loads: tuple[np.ndarray, np.ndarray], stiffness: Stiffness) -> _Field:
+    """Nodal displacements of one column for interpolation."""
+    def at(name: str, freedoms: np.ndarray) -> np.ndarray:
+        return displacement[name][freedoms, column]
+
+    xy, xz = problems["xy"], problems["xz"]
+    return _Field(layout.nodes, at("axial", problems["axial"].translation), at("torsion", problems["torsion"].translation),
+                  at("xy", xy.translation), at("xy", xy.rot_left), at("xy", xy.rot_right),
+                  at("xz", xz.translation), at("xz", xz.rot_left), at("xz", xz.rot_right),
+                  element_loads[0], element_loads[1], stiffness, layout.tol)
+
+
+def solve_case(member: Member, loads: Sequence[Load], stiffness: Stiffness | None, case: str = "") -> CaseSolution:
+    """Solve one load case (loads all of that case). stiffness None: unit rigidities, forces only.
+    Raises InputError for a mechanism, for anything off the member, and when stiffness is None and
+    the member has springs (forces would depend on the stiffness)."""
+    solved = _solve_columns(member, [list(loads)], [case], stiffness)
+    if solved.errors[0] is not None:
+        raise solved.errors[0]
+    solution = solved.solutions[0]
+    assert solution is not None
+    return solution
+
+
+# ----------------------------------------------------------------------------------------------
+# every case and combinations
+
+
+def _case_names(member: Member) -> tuple[str, ...]:
+    """Load cases of the member, then any case named only in a combination."""
+    names = list(member.cases)
+    for factors in member.combinations.values():
+        names += [name for name in factors if name not in names]
+    return tuple(names)
+
+
+class MemberSolution:
+    """Every load case solved once, plus the unit self-weight case; combinations by superposition."""
+
+    def __init__(self, member: Member, cases: dict[str, CaseSolution], self_weight: CaseSolution | None,
+                 mass_per_length: float | None, stiffness: Stiffness | None, self_weight_error: InputError | None = None) -> None:
+        self.member = member
+        self.stiffness = stiffness
+        self.cases = cases
+        self.self_weight = self_weight
+        self.mass_per_length = mass_per_length
+        self.combination_names: tuple[str, ...] = tuple(member.combinations)
+        self._self_weight_error = self_weight_error
+
+    @property
+    def has_displacements(self) -> bool:
+        """True when solved with the member's stiffness (a section)."""
+        return self.stiffness is not None
+
+    def weights(self, mass_per_length: float | None = ...) -> np.ndarray:  # type: ignore[assignment]
+        """(n_combinations, n_cases + 1) factors on [each case in self.cases order..., unit self
+        weight]; the last column is factor(self_weight_case) * mass_per_length * GRAVITY (N/m per
+        unit case), 0 when mass is None. Default mass: self.mass_per_length."""
+        mass = self.mass_per_length if mass_per_length is ... else mass_per_length
+        names = list(self.cases)
+        table = np.zeros((len(self.combination_names), len(names) + 1))
+        sw_case = self.member.self_weight_case
+        for row, combination in enumerate(self.combination_names):
+            factors = self.member.combinations[combination]
+            table[row, : len(names)] = [factors.get(name, 0.0) for name in names]
+            if sw_case is not None and mass is not None:
+                table[row, -1] = factors.get(sw_case, 0.0) * mass * GRAVITY
+        if self._self_weight_error is not None and np.any(table[:, -1]):
+            raise self._self_weight_error
+        return table
+
+    def _row(self, combination: str) -> np.ndarray:
+        if combination not in self.member.combinations:
+            raise KeyError(f"no combination {combination!r}; there are {', '.join(self.combination_names)}")
+        return self.weights()[self.combination_names.index(combination)]
+
+    def case_actions(self, x: ArrayLike, side: str | ArrayLike = "right") -> np.ndarray:
+        """(n_cases + 1, n, 6) actions of each case, the last the unit self weight (zeros if none)."""
+        parts = [case.actions(x, side) for case in self.cases.values()]
+        n = np.atleast_1d(np.asarray(x, dtype=float)).size
+        parts.append(self.self_weight.actions(x, side) if self.self_weight is not None else np.zeros((n, 6)))
+        return np.stack(parts)
+
+    def case_displacements(self, x: ArrayLike, side: str | ArrayLike = "right") -> np.ndarray:
+        """(n_cases + 1, n, 6) displacements of each case, the last the unit self weight."""
+        if not self.has_displacements:
+            raise ValueError("displacements need the member's stiffness (a section)")
+        parts = [case.displacements(x, side) for case in self.cases.values()]
+        n = np.atleast_1d(np.asarray(x, dtype=float)).size
+        parts.append(self.self_weight.displacements(x, side) if self.self_weight is not None else np.zeros((n, 6)))
+        return np.stack(parts)
+
+    def actions(self, combination: str, x: ArrayLike, side: str | ArrayLike = "right") -> np.ndarray:
+        """(n, 6) N, Vy, Vz, T, My, Mz of one combination."""
+        return np.tensordot(self._row(combination), self.case_actions(x, side), axes=1)
+
+    def all_actions(self, x: ArrayLike, side: str | ArrayLike = "right", mass_per_length: float | None = ...) -> np.ndarray:  # type: ignore[assignment]
+        """(n_combinations, n, 6) = weights @ case_actions."""
+        return np.tensordot(self.weights(mass_per_length), self.case_actions(x, side), axes=1)
+
+    def reactions(self, combination: str) -> np.ndarray:
+        """(n_supports, 6) Fx, Fy, Fz, Mx, My, Mz of each support on the member."""
+        stack = [case.reactions for case in self.cases.values()]
+        stack.append(self.self_weight.reactions if self.self_weight is not None else np.zeros((len(self.member.supports), 6)))
+        return np.tensordot(self._row(combination), np.stack(stack), axes=1)
+
+    def displacements(self, combination: str, x: ArrayLike, side: str | ArrayLike = "right") -> np.ndarray:
+        """(n, 6) ux, uy, uz, rx, ry, rz of one combination; ValueError without stiffness."""
+        return np.tensordot(self._row(combination), self.case_displacements(x, side), axes=1)
+
+    def all_displacements(self, x: ArrayLike, side: str | ArrayLike = "right", mass_per_length: float | None = ...) -> np.ndarray:  # type: ignore[assignment]
+        """(n_combinations, n, 6) displacements of every combination."""
+        return np.tensordot(self.weights(mass_per_length), self.case_displacements(x, side), axes=1)
+
+
+def solve_member(member: Member, stiffness: Stiffness | None, mass_per_length: float | None) -> MemberSolution:
+    """Solve every case in member.cases (loads grouped by case; cases named only in combinations
+    too, as zero) and the unit self-weight case. A mechanism under the self weight alone is raised
+    only when the self weight is counted (mass_per_length given, or later in weights())."""
+    names = _case_names(member)
+    load_sets: list[list[Load]] = [[load for load in member.loads if load.case == name] for name in names]
+    sw_case = member.self_weight_case
+    columns = list(names)
+    if sw_case is not None:
+        load_sets.append([self_weight_load(member)])
+        columns.append(sw_case)
+    solved = _solve_columns(member, load_sets, columns, stiffness)
+    for error in solved.errors[: len(names)]:
+        if error is not None:
+            raise error
+    cases = {name: solution for name, solution in zip(names, solved.solutions) if solution is not None}
+    self_weight, self_weight_error = None, None
+    if sw_case is not None:
+        self_weight, self_weight_error = solved.solutions[-1], solved.errors[-1]
+        if self_weight_error is not None:
+            self_weight_error.problem += " (self weight)"
+            if mass_per_length is not None:
+                raise self_weight_error
+    return MemberSolution(member, cases, self_weight, mass_per_length, stiffness, self_weight_error)
+
+
+# ----------------------------------------------------------------------------------------------
+# stations, zero shear and extremes
+
+
+def _concentrated_positions(member: Member) -> np.ndarray:
+    """Sorted distinct positions of supports, hinges, point loads and line-load ends (m)."""
+    xs = [s.at for s in member.supports] + [h.at for h in member.hinges]
+    for load in member.loads:
+        xs += [load.at] if isinstance(load, PointLoad) else [load.start, load.end]
+    if not xs:
+        return np.zeros(0)
+    return _merge_positions(np.clip(np.array(xs, dtype=float), 0.0, member.length), _tolerance(member))
+
+
+def stations(member: Member, n_even: int = 200) -> tuple[np.ndarray, np.ndarray]:
+    """Stations for checking: x (m) sorted, and side (array of 'left'/'right'). Includes 0 (right)
+    and L (left), both sides of every support, hinge, point load and line-load end, and n_even
+    evenly spaced points (right side). Left comes before right at one position."""
+    length, tol = member.length, _tolerance(member)
+    special = _concentrated_positions(member)
+    inner = special[(special > tol) & (special < length - tol)]
+    even = np.linspace(0.0, length, max(n_even, 2))
+    even = even[np.all(np.abs(even[:, None] - special[None, :]) > tol, axis=1)] if special.size else even
+    even = even[(even > tol) & (even < length - tol)]
+    xs = np.concatenate([[0.0], inner, inner, even, [length]])
+    right = np.concatenate([[True], np.zeros(inner.size, bool), np.ones(inner.size, bool), np.ones(even.size, bool), [False]])
+    order = np.lexsort((right, xs))
+    return xs[order], np.where(right[order], "right", "left")
+
+
+def _quadratic_roots(v0: np.ndarray, vm: np.ndarray, v1: np.ndarray) -> list[np.ndarray]:
+    """Roots t in (0, 1) of the quadratic through (0, v0), (1/2, vm), (1, v1), per segment; returns
+    [segment index array, t array]."""
+    scale = np.maximum.reduce([np.abs(v0), np.abs(vm), np.abs(v1)])
+    safe = np.where(scale > 0, scale, 1.0)
+    c, vm_, v1_ = v0 / safe, vm / safe, v1 / safe
+    a = 2 * c - 4 * vm_ + 2 * v1_
+    b = -3 * c + 4 * vm_ - v1_
+    segments, roots = [], []
+    quadratic = np.abs(a) > 1e-12
+    linear = ~quadratic & (np.abs(b) > 1e-12)
+    idx = np.flatnonzero(linear & (scale > 0))
+    segments.append(idx)
+    roots.append(-c[idx] / b[idx])
+    disc = b * b - 4 * a * c
+    idx = np.flatnonzero(quadratic & (scale > 0) & (disc >= 0))
+    sq = np.sqrt(disc[idx])
+    q = -0.5 * (b[idx] + np.where(b[idx] >= 0, sq, -sq))
+    for t in (q / a[idx], np.divide(c[idx], q, out=np.full(idx.size, -1.0), where=q != 0)):
+        segments.append(idx)
+        roots.append(t)
+    seg, t = np.concatenate(segments), np.concatenate(roots)
+    inside = (t > 1e-12) & (t < 1 - 1e-12)
+    return [seg[inside], t[inside]]
+
+
+def zero_shear_points(solution: MemberSolution, combination: str, action: str = "Vy") -> np.ndarray:
+    """x (m) where the shear `action` ("Vy" or "Vz") of a combination crosses zero inside a segment
+    between concentrated items (supports, point loads, line-load ends): the shear is quadratic there
+    and its roots are found exactly. The bending moment has a local extreme at these points."""
+    if action not in ("Vy", "Vz"):
+        raise ValueError(f"action must be 'Vy' or 'Vz', got {action!r}")
+    member = solution.member
+    column = ACTIONS.index(action)
+    ends = np.unique(np.concatenate([[0.0, member.length], _concentrated_positions(member)]))
+    ends = _merge_positions(ends, _tolerance(member))
+    lo, hi = ends[:-1], ends[1:]
+    x = np.concatenate([lo, (lo + hi) / 2, hi])
+    side = np.array(["right"] * (2 * lo.size) + ["left"] * hi.size)
+    values = solution.actions(combination, x, side)[:, column].reshape(3, -1)
+    segment, t = _quadratic_roots(values[0], values[1], values[2])
+    return np.unique(lo[segment] + t * (hi[segment] - lo[segment]))
+
+
+@dataclass(frozen=True)
+class Extreme:
+    """Largest and smallest value of one action over the member (N or N*m) and where (m)."""
+
+    action: str
+    max_value: float
+    max_at: float
+    min_value: float
+    min_at: float
+
+
+def extremes(solution: MemberSolution, combination: str, n_even: int = 400) -> dict[str, Extreme]:
+    """Largest and smallest of N, Vy, Vz, T, My, Mz, V, M (beam convention V = -Vy, M = Mz) over the
+    stations including zero-shear points, both sides of every concentrated item."""
+    x, side = stations(solution.member, n_even)
+    extra = np.concatenate([zero_shear_points(solution, combination, "Vy"), zero_shear_points(solution, combination, "Vz")])
+    x = np.concatenate([x, extra])
+    side = np.concatenate([side, np.full(extra.size, "right")])
+    values = solution.actions(combination, x, side)
+    table = np.column_stack([values, -values[:, 1], values[:, 5]])
+    found: dict[str, Extreme] = {}
+    for column, name in enumerate(EXTREME_ACTIONS):
+        high, low = int(np.argmax(table[:, column])), int(np.argmin(table[:, column]))
+        found[name] = Extreme(name, float(table[high, column]), float(x[high]), float(table[low, column]), float(x[low]))
+    return found

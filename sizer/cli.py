@@ -1,0 +1,129 @@
+"""The `sizer` command: a thin typer layer. Heavy modules are imported inside the commands so that
+`sizer --help` starts at once. Every InputError becomes one line on stderr and exit code 2."""
+
+from __future__ import annotations
+
+import sys
+from enum import Enum
+from pathlib import Path
+from typing import Any, Callable, List, Optional
+
+import typer
+
+from sizer.errors import InputError
+
+app = typer.Typer(
+    name="sizer",
+    help="Internal forces, stress checks and sizing of one straight member, from a small TOML file.",
+    no_args_is_help=True,
+    add_completion=False,
+    pretty_exceptions_enable=False,
+)
+
+
+class UnitSystem(str, Enum):
+    si = "si"
+    us = "us"
+
+
+FILE_ARGUMENT = typer.Argument(..., help="Member file (TOML).", show_default=False)
+CATALOGUE_OPTION = typer.Option(None, "--catalogue", help="Catalogue file or folder; may repeat.")
+UNITS_OPTION = typer.Option(UnitSystem.si, "--units", help="Display units: si (kN, m, MPa) or us (kip, ft, ksi).")
+
+
+def run_guarded(work: Callable[[], int]) -> None:
+    """Run a command body; bad input -> one line on stderr, exit 2; otherwise exit with its code."""
+    try:
+        code = work()
+    except InputError as error:
+        typer.echo(f"sizer: {error}", err=True)
+        raise typer.Exit(2) from None
+    raise typer.Exit(code)
+
+
+def parse_cuts(values: list[str] | None) -> list[float]:
+    """--at values ("2.5m", "1500 mm") to metres."""
+    from sizer import units
+
+    return [units.parse(text, "length", "", "--at") for text in values or []]
+
+
+@app.command()
+def forces(
+    file: Path = FILE_ARGUMENT,
+    at: Optional[List[str]] = typer.Option(None, "--at", help='A cut position with its unit ("2.5m", "1500 mm"); may repeat.'),
+    combination: Optional[str] = typer.Option(None, "--combination", help="Only this combination."),
+    catalogue: Optional[List[Path]] = CATALOGUE_OPTION,
+    json_output: bool = typer.Option(False, "--json", help="JSON in SI base units on stdout."),
+    plot: Optional[Path] = typer.Option(None, "--plot", help="Draw the diagrams to a PNG or SVG file."),
+    units_system: UnitSystem = UNITS_OPTION,
+) -> None:
+    """Reactions, internal actions at cuts, extremes and deflections for every combination."""
+
+    def work() -> int:
+        from sizer.commands import run_forces
+
+        return run_forces(file, parse_cuts(at), combination, catalogue or [], json_output, plot, units_system.value)
+
+    run_guarded(work)
+
+
+@app.command()
+def check(
+    file: Path = FILE_ARGUMENT,
+    section: Optional[str] = typer.Option(None, "--section", help="Check this catalogue section instead of the member file's."),
+    catalogue: Optional[List[Path]] = CATALOGUE_OPTION,
+    json_output: bool = typer.Option(False, "--json", help="JSON in SI base units on stdout."),
+    plot: Optional[Path] = typer.Option(None, "--plot", help="Draw the diagrams to a PNG or SVG file."),
+    units_system: UnitSystem = UNITS_OPTION,
+) -> None:
+    """Every check for one section: demand, allowable, utilization, the governing case and the verdict.
+    Exit 0 passes, 1 fails, 2 bad input."""
+
+    def work() -> int:
+        from sizer.commands import run_check
+
+        return run_check(file, section, catalogue or [], json_output, plot, units_system.value)
+
+    run_guarded(work)
+
+
+@app.command()
+def size(
+    file: Path = FILE_ARGUMENT,
+    catalogue: Optional[List[Path]] = CATALOGUE_OPTION,
+    family: Optional[List[str]] = typer.Option(None, "--family", help="Only sections of this family; may repeat."),
+    max_depth: Optional[str] = typer.Option(None, "--max-depth", help='Largest depth as installed, e.g. "300 mm".'),
+    max_width: Optional[str] = typer.Option(None, "--max-width", help='Largest width as installed, e.g. "150 mm".'),
+    top: int = typer.Option(3, "--top", help="How many runners-up to show on each side of the choice."),
+    json_output: bool = typer.Option(False, "--json", help="JSON in SI base units on stdout."),
+    units_system: UnitSystem = UNITS_OPTION,
+) -> None:
+    """The lightest catalogue section that passes every check, and why each lighter one fails.
+    Exit 0 found, 1 nothing passes, 2 bad input."""
+
+    def work() -> int:
+        from sizer.commands import run_size
+
+        return run_size(file, catalogue or [], family or [], max_depth, max_width, top, json_output, units_system.value)
+
+    run_guarded(work)
+
+
+def _mount_optional_commands() -> None:
+    """Commands that live in their own modules."""
+    from sizer.cli_sections import app as sections_app
+
+    app.add_typer(sections_app, name="sections", help="Keep the catalogue: list, show, add, build, import.")
+
+
+_mount_optional_commands()
+
+
+def main() -> None:
+    """Console entry point."""
+    app()
+
+
+if __name__ == "__main__":  # pragma: no cover
+    main()

@@ -1,0 +1,240 @@
+"""`sizer sections`: keep the catalogue (list, show, add, build, import). Mounted by sizer.cli.
+
+Heavy modules (numpy, sectionproperties, matplotlib, tomlkit) are imported inside the commands.
+Bad input: one line on stderr, exit code 2, nothing written.
+"""
+
+from __future__ import annotations
+
+import sys
+from pathlib import Path
+from typing import Any, Callable, List, Optional
+
+import typer
+
+from sizer.errors import InputError
+
+app = typer.Typer(
+    help="Keep the section catalogue: list, show, add, build (precompute), import a CSV stock list.",
+    no_args_is_help=True,
+    add_completion=False,
+    pretty_exceptions_enable=False,
+)
+
+CATALOGUE_OPTION = typer.Option(None, "--catalogue", help="Catalogue file or folder; may repeat. Default: ./section_library/, else the shipped one.")
+UNITS_OPTION = typer.Option("si", "--units", help="Display units: si (mm, kg/m, MPa) or us (in, lb/ft, ksi).")
+JSON_OPTION = typer.Option(False, "--json", help="JSON in SI base units on stdout.")
+
+
+def _guarded(work: Callable[[], int]) -> None:
+    """Run a command body: bad input -> one line on stderr and exit 2; else exit with its code."""
+    try:
+        code = work()
+    except InputError as error:
+        typer.echo(f"sizer: {error}", err=True)
+        raise typer.Exit(2) from None
+    raise typer.Exit(code)
+
+
+def _system(value: str) -> str:
+    if value not in ("si", "us"):
+        raise InputError("", "--units", f"unknown unit system {value!r}", "use si or us")
+    return value
+
+
+def _catalogue(paths: list[Path] | None) -> Any:
+    from sizer.sections import default_catalogue_paths, load_catalogue
+
+    return load_catalogue(paths or default_catalogue_paths(None))
+
+
+def _console() -> Any:
+    """The terminal's console; 160 columns when writing to a file or pipe (tables stay readable)."""
+    from rich.console import Console
+
+    out = Console(highlight=False)
+    return out if out.is_terminal else Console(highlight=False, width=160)
+
+
+def _progress_bar(description: str) -> Any:
+    """A rich progress bar on stderr (kept off stdout so JSON and TOML stay clean)."""
+    from rich.console import Console
+    from rich.progress import BarColumn, MofNCompleteColumn, Progress, TextColumn, TimeElapsedColumn
+
+    return Progress(TextColumn(description), BarColumn(), MofNCompleteColumn(), TimeElapsedColumn(),
+                    TextColumn("{task.fields[section]}"), console=Console(stderr=True), transient=False)
+
+
+def _build(specs: list[Any], description: str) -> Any:
+    """Compute whatever the cache lacks, with a progress bar when there is work to do."""
+    from sizer.sections import build_catalogue
+
+    with _progress_bar(description) as bar:
+        task = bar.add_task(description, total=None, section="")
+
+        def report(done: int, total: int, name: str) -> None:
+            bar.update(task, completed=done, total=total, section=name)
+
+        return build_catalogue(specs, progress=report)
+
+
+def _with_mass(catalogue: Any, specs: list[Any]) -> list[tuple[Any, Any, Any, str]]:
+    """(spec, properties with the mass of its material, material name or None, note) per spec."""
+    from sizer.sections import section_properties
+
+    rows = []
+    for spec in specs:
+        material, note = catalogue.mass_material(spec)
+        props = section_properties(spec, material.density if material else None)
+        rows.append((spec, props, material.name if material else None, note))
+    return rows
+
+
+@app.command("list")
+def list_sections(
+    catalogue: Optional[List[Path]] = CATALOGUE_OPTION,
+    family: Optional[List[str]] = typer.Option(None, "--family", help="Only sections of this family; may repeat."),
+    json_output: bool = JSON_OPTION,
+    units_system: str = UNITS_OPTION,
+) -> None:
+    """The catalogue's sections: shape, dimensions, mass per length, area, Iz, Iy."""
+
+    def work() -> int:
+        from sizer.render.common import dumps
+        from sizer.render.sections import list_json, list_table
+
+        system = _system(units_system)
+        loaded = _catalogue(catalogue)
+        specs = loaded.select(family or [])
+        _build(specs, "Section properties")
+        rows = _with_mass(loaded, specs)
+        if json_output:
+            typer.echo(dumps(list_json([(spec, props, name) for spec, props, name, _ in rows])))
+        else:
+            _console().print(list_table([(spec, props, note) for spec, props, _, note in rows], system))
+        return 0
+
+    _guarded(work)
+
+
+@app.command("show")
+def show_section(
+    name: str = typer.Argument(..., help="Section name, as in `sizer sections list`."),
+    catalogue: Optional[List[Path]] = CATALOGUE_OPTION,
+    json_output: bool = JSON_OPTION,
+    plot: Optional[Path] = typer.Option(None, "--plot", help="Draw the shape with its centroid and shear centre (PNG or SVG)."),
+    units_system: str = UNITS_OPTION,
+) -> None:
+    """Every property of one section, with units."""
+
+    def work() -> int:
+        from sizer.render.common import dumps
+        from sizer.render.sections import section_json, show_renderables, write_section_plot
+
+        system = _system(units_system)
+        if plot is not None and plot.suffix.lower() not in (".png", ".svg"):
+            raise InputError("", "--plot", f"cannot draw to {plot.name!r}", "give a file ending in .png or .svg")
+        loaded = _catalogue(catalogue)
+        spec = loaded.get(name, "", "NAME")
+        [(spec, props, material, note)] = _with_mass(loaded, [spec])
+        if plot is not None:
+            write_section_plot(spec, props, plot)
+        if json_output:
+            typer.echo(dumps(section_json(spec, props, material, note)))
+        else:
+            out = _console()
+            for renderable in show_renderables(spec, props, note, system):
+                out.print(renderable)
+            if plot is not None:
+                out.print(f"Drawing written to {plot}")
+        return 0
+
+    _guarded(work)
+
+
+@app.command("build")
+def build_sections(
+    catalogue: Optional[List[Path]] = CATALOGUE_OPTION,
+    workers: Optional[int] = typer.Option(None, "--workers", help="Processes to use (default: one per core)."),
+) -> None:
+    """Precompute the properties and stress fields of a whole catalogue, in parallel, into the cache."""
+
+    def work() -> int:
+        from sizer.sections import build_catalogue
+        from sizer.sections.cache import cache_folder
+
+        if workers is not None and workers < 1:
+            raise InputError("", "--workers", f"{workers} is not a number of processes", "give 1 or more")
+        loaded = _catalogue(catalogue)
+        specs = list(loaded.sections.values())
+        with _progress_bar("Building") as bar:
+            task = bar.add_task("Building", total=None, section="")
+            summary = build_catalogue(specs, workers, lambda done, total, name: bar.update(task, completed=done, total=total, section=name))
+        typer.echo(f"{summary.sections} sections ({summary.geometries} distinct shapes): {summary.computed} computed "
+                   f"with {summary.workers} process(es), {summary.from_cache} already cached; {summary.seconds:.1f} s. "
+                   f"Cache: {cache_folder()}")
+        return 0
+
+    _guarded(work)
+
+
+@app.command("add")
+def add_section(
+    file: Path = typer.Argument(..., help="Catalogue file to append to (created if absent)."),
+    name: str = typer.Option(..., "--name", help="Section name, unique in the catalogue folder."),
+    shape: str = typer.Option(..., "--shape", help="rectangle, round, rectangular_tube, round_tube, i_beam, channel, tee or angle."),
+    depth: Optional[str] = typer.Option(None, "--depth", help='Depth with its unit, e.g. "200 mm".'),
+    width: Optional[str] = typer.Option(None, "--width", help="Width with its unit."),
+    thickness: Optional[str] = typer.Option(None, "--thickness", help="Wall thickness (tubes, angles)."),
+    flange_thickness: Optional[str] = typer.Option(None, "--flange-thickness", help="Flange thickness (i_beam, channel, tee)."),
+    web_thickness: Optional[str] = typer.Option(None, "--web-thickness", help="Web thickness (i_beam, channel, tee)."),
+    root_radius: Optional[str] = typer.Option(None, "--root-radius", help="Root radius (i_beam, channel, tee, angle)."),
+    outer_radius: Optional[str] = typer.Option(None, "--outer-radius", help="Outer corner radius (rectangular_tube)."),
+    diameter: Optional[str] = typer.Option(None, "--diameter", help="Outside diameter (round, round_tube)."),
+    family: Optional[str] = typer.Option(None, "--family", help="Family, for filters."),
+    material: Optional[str] = typer.Option(None, "--material", help="Default material, defined in the catalogue folder."),
+) -> None:
+    """Append one section to a catalogue file, keeping its comments and other entries."""
+
+    def work() -> int:
+        from sizer.sections.editing import add_section as append_section, ordered_table
+
+        if shape == "polygon":
+            raise InputError("", "--shape", "polygons cannot be given as options", "write the [[sections]] entry with its points in the file")
+        given = {"depth": depth, "width": width, "thickness": thickness, "flange_thickness": flange_thickness,
+                 "web_thickness": web_thickness, "root_radius": root_radius, "outer_radius": outer_radius, "diameter": diameter}
+        values = {key: value for key, value in given.items() if value is not None}
+        spec = append_section(file, ordered_table(name, shape, values, family, material))
+        typer.echo(f"Added {spec.name} ({spec.shape}) to {file}.")
+        return 0
+
+    _guarded(work)
+
+
+@app.command("import")
+def import_sections(
+    table: Path = typer.Argument(..., help="CSV stock list: a header row naming the shape's keys, one row per section."),
+    shape: str = typer.Option(..., "--shape", help="The shape of every row."),
+    into: Optional[Path] = typer.Option(None, "--into", help="Catalogue file to append to (created if absent); default: print TOML."),
+) -> None:
+    """Turn a spreadsheet stock list into catalogue entries, row by row. Columns: name, the shape's
+    dimensions (values with units, or a unit in the header such as "depth [mm]"), optional family and
+    material. Refused rows are listed on stderr with the reason. Exit 0 all rows taken, 1 some refused
+    (the others written), 2 none usable."""
+
+    def work() -> int:
+        from sizer.sections.editing import append_tables, catalogue_text, import_stock_list
+
+        result = import_stock_list(table, shape, into)
+        for error in result.refused:
+            typer.echo(f"sizer: refused: {error}", err=True)
+        if not result.tables:
+            raise InputError(str(table), "", f"no usable rows ({len(result.refused)} refused)", "mend the rows listed above")
+        if into is None:
+            sys.stdout.write(catalogue_text(result.tables, f"imported from {table.name} by `sizer sections import --shape {shape}`"))
+        else:
+            append_tables(into, result.tables)
+            typer.echo(f"Added {len(result.tables)} sections to {into}; {len(result.refused)} rows refused.")
+        return 1 if result.refused else 0
+
+    _guarded(work)

@@ -1,0 +1,102 @@
+"""From a member file to a solved design: the section and material it names, the rigidities that
+follow from them, the mass per length for self-weight, and the solution of every load case.
+
+Orientation (SPEC section 2): a catalogue section is drawn with its depth along y. "major": the
+member's x-y bending uses the section's Iz (major); "minor": the section is turned a quarter turn,
+so x-y bending uses the section's Iy (minor) and x-z bending its Iz.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any, Sequence
+
+from sizer.analysis import MemberSolution, solve_member
+from sizer.errors import InputError
+from sizer.model import Material, Member, Stiffness
+
+
+@dataclass
+class Design:
+    """A member with its section and material resolved and every load case solved."""
+
+    member: Member
+    solution: MemberSolution
+    material: Material | None = None
+    spec: Any = None  # sections.SectionSpec
+    props: Any = None  # sections.SectionProperties
+    stiffness: Stiffness | None = None
+    mass_per_length: float | None = None
+    notes: list[str] = field(default_factory=list)
+
+
+def catalogue_for(member: Member, catalogue_paths: Sequence[Path]) -> Any:
+    """The catalogue from --catalogue paths, else the member folder's section_library/, else the shipped one."""
+    from sizer.sections import default_catalogue_paths, load_catalogue
+
+    paths = list(catalogue_paths) or default_catalogue_paths(Path(member.source) if member.source else None)
+    return load_catalogue(paths)
+
+
+def resolve_material(member: Member, catalogue: Any | None) -> Material:
+    """The member's material: from the member file first, then from the catalogue files."""
+    if not member.material:
+        raise InputError(member.source, "member.material", "no material is given", 'add material = "mild-steel" (defined in [materials.NAME] here or in a catalogue file)')
+    if member.material in member.materials:
+        return member.materials[member.material]
+    if catalogue is not None and member.material in catalogue.materials:
+        return catalogue.materials[member.material]
+    known = sorted(set(member.materials) | set(catalogue.materials if catalogue is not None else ()))
+    raise InputError(member.source, "member.material", f"unknown material {member.material!r}",
+                     "define [materials." + member.material + "] or use one of: " + (", ".join(known) or "(none defined)"))
+
+
+def oriented_stiffness(props: Any, material: Material, orientation: str) -> Stiffness:
+    """Member rigidities from section properties: EA, GJ, EIz (x-y bending), EIy (x-z bending)."""
+    E, G = material.elastic_modulus, material.shear_modulus
+    major, minor = props.Iz, props.Iy
+    if orientation == "minor":
+        major, minor = minor, major
+    return Stiffness(EA=E * props.area, GJ=G * props.J, EIz=E * major, EIy=E * minor)
+
+
+def prepare(member: Member, catalogue_paths: Sequence[Path] = (), section: str | None = None,
+            need_section: bool = False) -> Design:
+    """Resolve section and material and solve. `section` overrides the member file's.
+
+    Without a section (and need_section False) the forces are solved with unit rigidities: self-weight
+    and deflections are left out, and a member with springs is refused (its forces depend on stiffness).
+    """
+    name = section or member.section
+    if name is None:
+        if need_section:
+            raise InputError(member.source, "member.section", "no section is given",
+                             'add section = "NAME" under [member] or pass --section NAME')
+        solution = solve_member(member, None, None)
+        notes = ["No section given: self-weight and deflections are left out; forces use unit rigidities, "
+                 "which is exact for these supports (no springs)."]
+        return Design(member, solution, notes=notes)
+    from sizer.sections import section_properties
+
+    catalogue = catalogue_for(member, catalogue_paths)
+    key = "member.section" if section is None else "--section"
+    spec = catalogue.get(name, member.source if section is None else "", key)
+    material = resolve_material(member, catalogue)
+    props = section_properties(spec, material.density)
+    stiffness = oriented_stiffness(props, material, member.orientation)
+    mass = props.area * material.density
+    solution = solve_member(member, stiffness, mass if member.self_weight_case else None)
+    notes = [f"Section {spec.name} ({spec.shape}) in {member.orientation} orientation, material {material.name} "
+             f"(E, G, density from {Path(material.source).name or 'the member file'})."]
+    if member.self_weight_case:
+        notes.append(f"Self-weight {mass:.3g} kg/m x g = 9.80665 m/s² applied along {_gravity_text(member)} in case '{member.self_weight_case}'.")
+    else:
+        notes.append("Self-weight is not included (self_weight = false).")
+    notes.append("Deflections by Euler-Bernoulli beam theory (no shear deformation), small displacements.")
+    return Design(member, solution, material, spec, props, stiffness, mass, notes)
+
+
+def _gravity_text(member: Member) -> str:
+    axis, sign = member.gravity
+    return ("+" if sign > 0 else "-") + "xyz"[axis]

@@ -1,0 +1,25 @@
+"""Files the tool writes are written whole or not at all: a temporary file beside the target, then
+an atomic rename."""
+
+from __future__ import annotations
+
+import os
+import tempfile
+from pathlib import Path
+
+
+def write_atomic(path: str | Path, data: bytes | str) -> None:
+    """Write `data` to `path` atomically (temp file in the same folder, fsync, os.replace)."""
+    path = Path(path)
+    payload = data.encode("utf-8") if isinstance(data, str) else data
+    path.parent.mkdir(parents=True, exist_ok=True)
+    handle, temporary = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=path.parent)
+    try:
+        with os.fdopen(handle, "wb") as stream:
+            stream.write(payload)
+            stream.flush()
+            os.fsync(stream.fileno())
+        os.replace(temporary, path)
+    except BaseException:
+        Path(temporary).unlink(missing_ok=True)
+        raise

@@ -1,0 +1,151 @@
+"""The member model: plain dataclasses, SI floats, no behaviour beyond small derived values.
+
+Axes and signs (SPEC section 2): x along the member from end A (x = 0) to end B (x = L); y is the
+section's depth direction (up for a horizontal beam); z completes a right-handed set. Forces and
+moments act along or about +x, +y, +z. Freedoms: ux, uy, uz (translations), rx (twist), ry, rz.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+FREEDOMS: tuple[str, ...] = ("ux", "uy", "uz", "rx", "ry", "rz")
+ACTIONS: tuple[str, ...] = ("N", "Vy", "Vz", "T", "My", "Mz")
+SUPPORT_TYPES: dict[str, frozenset[str]] = {
+    "fixed": frozenset(FREEDOMS),
+    "pin": frozenset({"ux", "uy", "uz", "rx"}),
+    "roller": frozenset({"uy", "uz", "rx"}),
+}
+DEFAULT_CASE = "load"
+DEFAULT_COMBINATION = "all"
+
+
+@dataclass(frozen=True)
+class Allowables:
+    """Allowable stresses entered by the user from the governing code, Pa; None where not given."""
+
+    tension: float | None = None
+    compression: float | None = None
+    bending: float | None = None
+    shear: float | None = None
+    equivalent: float | None = None
+
+
+@dataclass(frozen=True)
+class Material:
+    """An isotropic linear elastic material. Moduli and strengths in Pa, density in kg/m^3."""
+
+    name: str
+    elastic_modulus: float
+    shear_modulus: float
+    density: float
+    yield_strength: float | None = None
+    allowable: Allowables = field(default_factory=Allowables)
+    source: str = ""  # file it was read from
+
+
+@dataclass(frozen=True)
+class Support:
+    """A support at `at` (m). `restrain`: freedoms held rigidly. `springs`: freedom -> stiffness
+    (N/m for ux, uy, uz; N*m/rad for rx, ry, rz), elastic instead of rigid on those freedoms.
+    A freedom is never both in `restrain` and `springs`."""
+
+    at: float
+    restrain: frozenset[str]
+    springs: dict[str, float] = field(default_factory=dict)
+    label: str = ""  # e.g. "pin", "roller", "fixed", "custom"
+
+
+@dataclass(frozen=True)
+class Hinge:
+    """An internal hinge at `at` (m): releases both bending moments (My and Mz); N, Vy, Vz and T
+    pass through it."""
+
+    at: float
+
+
+@dataclass(frozen=True)
+class PointLoad:
+    """Concentrated force (N) and moment (N*m) at `at` (m), in load case `case`.
+    force = (fx, fy, fz), moment = (mx, my, mz); mx is a torque about the member axis."""
+
+    case: str
+    at: float
+    force: tuple[float, float, float] = (0.0, 0.0, 0.0)
+    moment: tuple[float, float, float] = (0.0, 0.0, 0.0)
+
+
+@dataclass(frozen=True)
+class LineLoad:
+    """Distributed load from `start` to `end` (m), varying linearly from `q_start` to `q_end`.
+    Each q is (wx, wy, wz, mx): forces per length (N/m) along x, y, z and torque per length (N*m/m)."""
+
+    case: str
+    start: float
+    end: float
+    q_start: tuple[float, float, float, float]
+    q_end: tuple[float, float, float, float]
+
+
+Load = PointLoad | LineLoad
+
+
+@dataclass(frozen=True)
+class CheckSettings:
+    """The `[checks]` table. Lengths in m; None means the documented default."""
+
+    deflection_limit: float | None = None  # span / limit
+    deflection_limit_overhang: float | None = None  # default: deflection_limit / 2
+    deflection_combinations: tuple[str, ...] | None = None  # default: every combination
+    buckling_length_major: float | None = None  # default: member length
+    buckling_length_minor: float | None = None  # default: member length
+    buckling_safety_factor: float = 2.0
+    buckling_safety_factor_given: bool = False
+
+
+@dataclass(frozen=True)
+class Member:
+    """One straight member as read from a member file. All lengths in m from end A."""
+
+    length: float
+    material: str
+    supports: tuple[Support, ...]
+    loads: tuple[Load, ...]
+    combinations: dict[str, dict[str, float]]
+    section: str | None = None
+    orientation: str = "major"  # "major" or "minor"
+    self_weight_case: str | None = "dead"  # None: no self-weight
+    gravity: tuple[int, int] = (1, -1)  # (axis index 0=x 1=y 2=z, sign)
+    hinges: tuple[Hinge, ...] = ()
+    checks: CheckSettings = field(default_factory=CheckSettings)
+    materials: dict[str, Material] = field(default_factory=dict)
+    title: str = ""
+    source: str = ""  # path of the member file
+    combinations_given: bool = False  # False: the default "all" combination was made
+
+    @property
+    def cases(self) -> tuple[str, ...]:
+        """Load case names in order of first appearance (loads first, then the self-weight case)."""
+        names: list[str] = []
+        for load in self.loads:
+            if load.case not in names:
+                names.append(load.case)
+        if self.self_weight_case and self.self_weight_case not in names:
+            names.append(self.self_weight_case)
+        return tuple(names)
+
+
+@dataclass(frozen=True)
+class Stiffness:
+    """Member rigidities: EA (N), GJ (N*m^2), EIz for bending in the x-y plane and EIy for bending
+    in the x-z plane (N*m^2), already accounting for the section's orientation on the member."""
+
+    EA: float
+    GJ: float
+    EIz: float
+    EIy: float
+
+    @staticmethod
+    def unit() -> "Stiffness":
+        """Unit rigidities: forces are right for any layout without springs; displacements are not."""
+        return Stiffness(1.0, 1.0, 1.0, 1.0)

@@ -1,0 +1,84 @@
+"""What every output shares: the cautions, the console, JSON conversion and the assumption notes."""
+
+from __future__ import annotations
+
+import json
+import math
+from typing import Any
+
+from sizer.model import Member
+
+CAUTIONS: tuple[str, ...] = (
+    "These results rest on the allowable stresses entered by the user and on linear elastic, "
+    "small-deflection (Euler-Bernoulli) beam theory.",
+    "Not checked by sizer: local buckling, lateral-torsional buckling, connections, bearing, "
+    "fatigue, fire and dynamic effects.",
+    "A qualified engineer must check these results against the governing local code before "
+    "anything is built.",
+)
+
+
+def console(stderr: bool = False) -> Any:
+    """A rich Console for the terminal (colour when the terminal supports it)."""
+    from rich.console import Console
+
+    return Console(stderr=stderr, highlight=False, soft_wrap=False)
+
+
+def cautions_panel() -> Any:
+    """The cautions in a visible panel."""
+    from rich.panel import Panel
+    from rich.text import Text
+
+    body = Text()
+    for index, caution in enumerate(CAUTIONS):
+        body.append(("\n" if index else "") + "• " + caution)
+    return Panel(body, title="[bold yellow]Cautions[/]", border_style="yellow", expand=True)
+
+
+def notes_panel(notes: list[str], title: str = "Assumptions made") -> Any:
+    """The assumptions the tool made, one per line, so that none is hidden."""
+    from rich.panel import Panel
+    from rich.text import Text
+
+    body = Text("\n".join("• " + note for note in notes))
+    return Panel(body, title=f"[bold cyan]{title}[/]", border_style="cyan", expand=True)
+
+
+def member_notes(member: Member) -> list[str]:
+    """Assumptions that follow from the member file alone."""
+    notes: list[str] = []
+    if not member.combinations_given:
+        notes.append("No [combinations] given: one combination 'all' with every load case x 1.0.")
+    used = {case for factors in member.combinations.values() for case in factors}
+    for case in member.cases:
+        if case not in used:
+            notes.append(f"Load case '{case}' is in no combination, so it is not in any result.")
+    if member.hinges:
+        notes.append("Internal hinges release both bending moments (My and Mz); axial force, shears and torque pass through.")
+    notes.append("Loads act through the shear centre; torsion comes only from loads given as torques.")
+    return notes
+
+
+def to_jsonable(value: Any) -> Any:
+    """Convert numpy scalars/arrays and tuples to plain JSON types; NaN/inf become null."""
+    try:
+        import numpy as np
+    except ImportError:  # pragma: no cover - numpy is a dependency
+        np = None
+    if isinstance(value, dict):
+        return {str(key): to_jsonable(item) for key, item in value.items()}
+    if isinstance(value, (list, tuple)):
+        return [to_jsonable(item) for item in value]
+    if np is not None and isinstance(value, np.ndarray):
+        return to_jsonable(value.tolist())
+    if np is not None and isinstance(value, np.generic):
+        value = value.item()
+    if isinstance(value, float):
+        return value if math.isfinite(value) else None
+    return value
+
+
+def dumps(document: dict) -> str:
+    """The JSON text of an output document (cautions always included by the caller)."""
+    return json.dumps(to_jsonable(document), indent=2, ensure_ascii=False)

@@ -1,0 +1,213 @@
+"""`sizer forces` output: reactions, actions at cuts, extremes and deflections (terminal and JSON)."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Any
+
+import numpy as np
+
+from sizer import units
+from sizer.analysis import MemberSolution, extremes
+from sizer.model import ACTIONS, LineLoad, Member, PointLoad
+from sizer.render.common import CAUTIONS, cautions_panel, notes_panel
+
+ACTION_KINDS = {"N": "force", "Vy": "force", "Vz": "force", "T": "moment", "My": "moment", "Mz": "moment", "V": "force", "M": "moment"}
+REACTION_NAMES = ("Fx", "Fy", "Fz", "Mx", "My", "Mz")
+REACTION_KINDS = ("force", "force", "force", "moment", "moment", "moment")
+TINY_FORCE = 1e-9  # N; smaller values are shown as zero (round-off)
+
+
+def is_planar(member: Member) -> bool:
+    """True when every load acts in the x-y plane (so V and M in the beam convention apply)."""
+    if member.self_weight_case and member.gravity[0] == 2:
+        return False
+    for load in member.loads:
+        if isinstance(load, PointLoad) and (load.force[2] or load.moment[0] or load.moment[1]):
+            return False
+        if isinstance(load, LineLoad) and (load.q_start[2] or load.q_end[2] or load.q_start[3] or load.q_end[3]):
+            return False
+    return True
+
+
+def concentrated_positions(member: Member) -> np.ndarray:
+    """Positions (m) where a point load, moment or support makes the actions jump."""
+    xs = [load.at for load in member.loads if isinstance(load, PointLoad)] + [support.at for support in member.supports]
+    return np.unique(np.asarray(xs, dtype=float))
+
+
+def default_cuts(member: Member) -> np.ndarray:
+    """Cuts shown when the user names none: ends, supports, hinges, point loads, line-load ends."""
+    xs = [0.0, member.length] + [s.at for s in member.supports] + [h.at for h in member.hinges]
+    for load in member.loads:
+        xs += [load.at] if isinstance(load, PointLoad) else [load.start, load.end]
+    return np.unique(np.round(np.asarray(xs, dtype=float), 12))
+
+
+@dataclass(frozen=True)
+class Cut:
+    """Actions at one cut; `left`/`right` differ only on a concentrated load or support."""
+
+    at: float
+    left: np.ndarray  # (6,) N, Vy, Vz, T, My, Mz just left of the cut
+    right: np.ndarray  # (6,) just right
+    jump: bool
+
+
+def cuts_for(solution: MemberSolution, combination: str, xs: np.ndarray) -> list[Cut]:
+    """Actions at each x, both sides."""
+    jumps = concentrated_positions(solution.member)
+    left = solution.actions(combination, xs, side="left")
+    right = solution.actions(combination, xs, side="right")
+    scale = max(solution.member.length, 1.0) * 1e-12
+    return [Cut(float(x), left[i], right[i], bool(np.any(np.abs(jumps - x) <= scale))) for i, x in enumerate(xs)]
+
+
+def _action_dict(values: np.ndarray) -> dict[str, float]:
+    out = {name: float(value) for name, value in zip(ACTIONS, values)}
+    out["V"] = -out["Vy"]
+    out["M"] = out["Mz"]
+    return out
+
+
+def deflection_summary(solution: MemberSolution, combination: str, n: int = 801) -> dict[str, float] | None:
+    """Largest transverse deflection sqrt(uy^2 + uz^2) (m) and where; None without a section."""
+    if not solution.has_displacements:
+        return None
+    xs = np.linspace(0.0, solution.member.length, n)
+    for support in solution.member.supports:
+        xs = np.append(xs, support.at)
+    xs = np.unique(xs)
+    moved = solution.displacements(combination, xs)
+    transverse = np.hypot(moved[:, 1], moved[:, 2])
+    index = int(np.argmax(transverse))
+    return {"max": float(transverse[index]), "at": float(xs[index]), "uy": float(moved[index, 1]), "uz": float(moved[index, 2])}
+
+
+def forces_document(solution: MemberSolution, combination: str, xs: np.ndarray) -> dict[str, Any]:
+    """SPEC section 6 `forces` object for one combination (SI base units)."""
+    reactions = solution.reactions(combination)
+    document: dict[str, Any] = {
+        "combination": combination,
+        "reactions": [
+            {"at": support.at, "type": support.label, **{name: float(v) for name, v in zip(REACTION_NAMES, reactions[i])}}
+            for i, support in enumerate(solution.member.supports)
+        ],
+        "cuts": [],
+        "deflection": deflection_summary(solution, combination),
+    }
+    for cut in cuts_for(solution, combination, xs):
+        entry: dict[str, Any] = {"at": cut.at, **_action_dict(cut.right)}
+        if cut.jump:
+            entry["left"] = _action_dict(cut.left)
+            entry["right"] = _action_dict(cut.right)
+        document["cuts"].append(entry)
+    return document
+
+
+def forces_json(solution: MemberSolution, combinations: list[str], xs: np.ndarray, notes: list[str]) -> dict[str, Any]:
+    """The whole --json document: one combination at top level, several under "combinations"."""
+    documents = [forces_document(solution, name, xs) for name in combinations]
+    head: dict[str, Any] = documents[0] if len(documents) == 1 else {"combinations": documents}
+    return {**head, "units": "SI base units (m, N, N*m, Pa, kg/m)", "assumptions": notes, "cautions": list(CAUTIONS)}
+
+
+# ----------------------------------------------------------------------------------------------
+# terminal
+
+def _fmt(value: float, kind: str, system: str) -> str:
+    return units.fmt(0.0 if abs(value) < TINY_FORCE else value, kind, system)
+
+
+def _shown_actions(planar: bool) -> tuple[str, ...]:
+    return ("N", "V", "M") if planar else ACTIONS
+
+
+def reactions_table(solution: MemberSolution, combination: str, system: str) -> Any:
+    from rich.table import Table
+
+    reactions = solution.reactions(combination)
+    shown = [i for i in range(6) if np.any(np.abs(reactions[:, i]) > TINY_FORCE)] or [1]
+    table = Table(title="Reactions (support on member)", title_justify="left", header_style="bold")
+    table.add_column("support")
+    table.add_column("at", justify="right")
+    for i in shown:
+        table.add_column(REACTION_NAMES[i], justify="right")
+    for index, support in enumerate(solution.member.supports):
+        cells = [_fmt(reactions[index, i], REACTION_KINDS[i], system) for i in shown]
+        table.add_row(support.label, units.fmt(support.at, "length", system), *cells)
+    return table
+
+
+def cuts_table(cuts: list[Cut], planar: bool, system: str) -> Any:
+    from rich.table import Table
+
+    table = Table(title="Internal actions at cuts (on the +x face of the left segment)", title_justify="left", header_style="bold")
+    table.add_column("x", justify="right")
+    table.add_column("side")
+    names = _shown_actions(planar)
+    for name in names:
+        table.add_column(name, justify="right")
+    for cut in cuts:
+        sides = (("x−", cut.left), ("x+", cut.right)) if cut.jump else (("", cut.right),)
+        for label, values in sides:
+            actions = _action_dict(values)
+            table.add_row(units.fmt(cut.at, "length", system), label, *(_fmt(actions[n], ACTION_KINDS[n], system) for n in names))
+    return table
+
+
+def extremes_table(solution: MemberSolution, combination: str, planar: bool, system: str) -> Any:
+    from rich.table import Table
+
+    found = extremes(solution, combination)
+    table = Table(title="Extremes along the member", title_justify="left", header_style="bold")
+    for column in ("action", "largest", "at", "smallest", "at"):
+        table.add_column(column, justify="left" if column == "action" else "right")
+    for name in _shown_actions(planar):
+        extreme = found[name]
+        kind = ACTION_KINDS[name]
+        table.add_row(name, _fmt(extreme.max_value, kind, system), units.fmt(extreme.max_at, "length", system),
+                      _fmt(extreme.min_value, kind, system), units.fmt(extreme.min_at, "length", system))
+    return table
+
+
+def governing_moment(solution: MemberSolution) -> tuple[str, float, float]:
+    """(combination, |M| largest, x) over all combinations: the headline figure."""
+    best = ("", -1.0, 0.0)
+    for name in solution.combination_names:
+        found = extremes(solution, name)
+        for action in ("Mz", "My"):
+            extreme = found[action]
+            for value, at in ((extreme.max_value, extreme.max_at), (extreme.min_value, extreme.min_at)):
+                if abs(value) > best[1]:
+                    best = (name, abs(value), at)
+    return best
+
+
+def print_forces(console: Any, solution: MemberSolution, combinations: list[str], xs: np.ndarray | None,
+                 notes: list[str], system: str, section_line: str) -> None:
+    """The terminal summary of `sizer forces`."""
+    from rich.rule import Rule
+
+    member = solution.member
+    planar = is_planar(member)
+    console.print(Rule(f"[bold]sizer forces[/] · {member.title or member.source}"))
+    console.print(f"Member length [bold]{units.fmt(member.length, 'length', system)}[/], "
+                  f"{len(member.supports)} support(s), {len(member.loads)} load(s), section: {section_line}")
+    if planar:
+        console.print("[dim]Planar member (x-y): V = −Vy (positive turns its segment clockwise), M = Mz (positive sagging).[/]")
+    name, moment, at = governing_moment(solution)
+    console.print(f"Largest bending moment: [bold magenta]{units.fmt(moment, 'moment', system)}[/] "
+                  f"at x = {units.fmt(at, 'length', system)} in combination [bold]{name}[/]")
+    for combination in combinations:
+        console.print(Rule(f"combination [bold]{combination}[/]", style="blue"))
+        console.print(reactions_table(solution, combination, system))
+        if xs is not None and len(xs):
+            console.print(cuts_table(cuts_for(solution, combination, xs), planar, system))
+        console.print(extremes_table(solution, combination, planar, system))
+        deflection = deflection_summary(solution, combination)
+        if deflection is not None:
+            console.print(f"Largest deflection: [bold]{units.fmt(deflection['max'], 'deflection', system)}[/] "
+                          f"at x = {units.fmt(deflection['at'], 'length', system)}")
+    console.print(notes_panel(notes))
+    console.print(cautions_panel())

@@ -1,0 +1,47 @@
+"""Catalogue sections: reading and checking catalogue files, their shapes, their properties and unit
+stress fields from sectionproperties, and the disk cache that makes repeated look-ups instant.
+
+Modules: shapes (keys and fit rules), catalogue (files -> SectionSpec, Catalogue), geometry
+(outlines and the mesh rule), properties (SectionProperties, UnitStressField, member axes; see its
+docstring for the axis mapping), cache (disk entries), editing (adding sections to files, CSV import).
+
+sectionproperties is imported only when something must be computed; a warm look-up reads the cache.
+"""
+
+from sizer.sections.catalogue import (
+    Catalogue,
+    SectionSpec,
+    default_catalogue_paths,
+    load_catalogue,
+    parse_material,
+    shipped_library,
+)
+from sizer.sections.properties import (
+    BuildSummary,
+    SectionProperties,
+    UnitStressField,
+    build_catalogue,
+    peak_unit_stresses,
+    section_properties,
+    section_properties_many,
+    unit_stress_field,
+)
+from sizer.sections.shapes import SHAPES
+
+__all__ = [
+    "SHAPES",
+    "BuildSummary",
+    "Catalogue",
+    "SectionProperties",
+    "SectionSpec",
+    "UnitStressField",
+    "build_catalogue",
+    "default_catalogue_paths",
+    "load_catalogue",
+    "parse_material",
+    "peak_unit_stresses",
+    "section_properties",
+    "section_properties_many",
+    "shipped_library",
+    "unit_stress_field",
+]

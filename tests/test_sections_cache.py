@@ -1,0 +1,127 @@
+"""The section cache: keys follow the geometry, damaged entries are rebuilt, warm look-ups need no
+sectionproperties, catalogues build in parallel."""
+
+from __future__ import annotations
+
+import io
+import json
+import math
+import subprocess
+import sys
+from dataclasses import replace
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+from sizer.sections import build_catalogue, section_properties, unit_stress_field
+from sizer.sections import cache
+from sizer.sections.catalogue import SectionSpec
+from sizer.sections.properties import SCALAR_NAMES, clear_memory
+
+FLAT = SectionSpec("flat 30x8", "rectangle", {"depth": 0.030, "width": 0.008}, source="test")
+
+
+@pytest.fixture()
+def cache_dir(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> Path:
+    monkeypatch.setenv("SIZER_CACHE_DIR", str(tmp_path))
+    clear_memory()
+    yield tmp_path / "sections"
+    clear_memory()
+
+
+def test_key_follows_geometry_not_name() -> None:
+    renamed = replace(FLAT, name="other name", family="flat", material="mild-steel")
+    deeper = replace(FLAT, dims={"depth": 0.0301, "width": 0.008})
+    assert cache.entry_key(renamed) == cache.entry_key(FLAT)
+    assert cache.entry_key(deeper) != cache.entry_key(FLAT)
+
+
+def test_entry_is_written_whole_and_read_back(cache_dir: Path) -> None:
+    first = section_properties(FLAT)
+    key = cache.entry_key(FLAT)
+    assert sorted(path.name for path in cache_dir.iterdir()) == [f"{key}.json", f"{key}.npz"]  # no temporary files left
+    clear_memory()
+    again = section_properties(FLAT)
+    assert again.area == first.area == pytest.approx(0.030 * 0.008)  # A = bh
+    assert again.mesh_nodes == unit_stress_field(FLAT).sigma.shape[1]
+
+
+def _damage_json(path: Path) -> None:
+    path.write_text("{ not json", encoding="utf-8")
+
+
+def _nan_in_scalars(path: Path) -> None:
+    entry = json.loads(path.read_text(encoding="utf-8"))
+    entry["scalars"]["J"] = math.nan
+    path.write_text(json.dumps(entry), encoding="utf-8")
+
+
+def _truncate_arrays(path: Path) -> None:
+    path.with_suffix(".npz").write_bytes(path.with_suffix(".npz").read_bytes()[:200])
+
+
+def _nan_in_arrays_with_matching_checksum(path: Path) -> None:
+    npz = path.with_suffix(".npz")
+    with np.load(npz) as archive:
+        arrays = {name: archive[name].copy() for name in archive.files}
+    arrays["sigma"][1, 3] = np.nan
+    buffer = io.BytesIO()
+    np.savez(buffer, **arrays)
+    npz.write_bytes(buffer.getvalue())
+    entry = json.loads(path.read_text(encoding="utf-8"))
+    import hashlib
+
+    entry["arrays_sha256"] = hashlib.sha256(buffer.getvalue()).hexdigest()
+    path.write_text(json.dumps(entry), encoding="utf-8")
+
+
+def _wrong_node_count(path: Path) -> None:
+    entry = json.loads(path.read_text(encoding="utf-8"))
+    entry["scalars"]["mesh_nodes"] += 1
+    path.write_text(json.dumps(entry), encoding="utf-8")
+
+
+@pytest.mark.parametrize("damage", [_damage_json, _nan_in_scalars, _truncate_arrays, _nan_in_arrays_with_matching_checksum, _wrong_node_count])
+def test_damaged_entry_is_recomputed_and_rewritten(cache_dir: Path, damage) -> None:
+    good = unit_stress_field(FLAT)
+    area = section_properties(FLAT).area
+    key = cache.entry_key(FLAT)
+    damage(cache_dir / f"{key}.json")
+    clear_memory()
+    rebuilt = unit_stress_field(FLAT)
+    assert np.array_equal(rebuilt.sigma, good.sigma) and np.array_equal(rebuilt.points, good.points)
+    assert section_properties(FLAT).area == area
+    entry = cache.read_entry(key, SCALAR_NAMES)
+    assert entry is not None and cache.read_arrays(key, entry) is not None  # the entry on disk is whole again
+
+
+def test_warm_lookup_does_not_import_sectionproperties(cache_dir: Path) -> None:
+    section_properties(FLAT)
+    script = (
+        "import sys\n"
+        "from sizer.sections import section_properties, peak_unit_stresses, unit_stress_field\n"
+        "from sizer.sections.catalogue import SectionSpec\n"
+        "spec = SectionSpec('flat 30x8', 'rectangle', {'depth': 0.030, 'width': 0.008})\n"
+        "p = section_properties(spec, 7850.0)\n"
+        "peak_unit_stresses(spec); unit_stress_field(spec)\n"
+        "assert 'sectionproperties' not in sys.modules, 'imported'\n"
+        "print(repr(p.area), repr(p.mass_per_length))\n"
+    )
+    env = {"SIZER_CACHE_DIR": str(cache_dir.parent), "PATH": "", "PYTHONDONTWRITEBYTECODE": "1"}
+    done = subprocess.run([sys.executable, "-c", script], capture_output=True, text=True, env=env, timeout=60)
+    assert done.returncode == 0, done.stderr
+    area, mass = map(float, done.stdout.split())
+    assert area == pytest.approx(0.030 * 0.008) and mass == pytest.approx(0.030 * 0.008 * 7850.0)  # A rho
+
+
+def test_parallel_build_then_all_from_cache(cache_dir: Path) -> None:
+    specs = [replace(FLAT, name=f"flat {depth}", dims={"depth": depth * 1e-3, "width": 0.008}) for depth in (20, 25, 35)]
+    seen: list[tuple[int, int]] = []
+    summary = build_catalogue(specs + [replace(specs[0], name="twin")], workers=2, progress=lambda done, total, name: seen.append((done, total)))
+    assert (summary.sections, summary.geometries, summary.computed, summary.workers) == (4, 3, 3, 2)
+    assert seen[-1] == (3, 3)
+    clear_memory()
+    again = build_catalogue(specs)
+    assert (again.computed, again.from_cache) == (0, 3)
+    assert section_properties(specs[2]).Iz == pytest.approx(0.008 * 0.035**3 / 12, rel=1e-6)  # bh^3/12
