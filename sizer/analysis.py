@@ -344,11 +344,14 @@ def _rigid_modes(layout: _Layout, holds_translation: np.ndarray, holds_rotation:
 
     for k, (_, hi) in enumerate(parts[:-1]):
         rows.append(translation_row(k, hi) - translation_row(k + 1, hi))
+    def part_at(node: int) -> int:
+        return _part_of(layout, node, "left") if bending else 0
+
     for node in np.flatnonzero(holds_translation):
-        rows.append(translation_row(_part_of(layout, node, "left"), float(layout.nodes[node])))
+        rows.append(translation_row(part_at(node), float(layout.nodes[node])))
     for node in np.flatnonzero(holds_rotation):
         row = np.zeros(n)
-        row[2 * _part_of(layout, node, "left") + 1] = 1.0
+        row[2 * part_at(node) + 1] = 1.0
         rows.append(row)
     if not bending:
         for part in range(len(parts)):

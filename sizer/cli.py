@@ -110,6 +110,24 @@ def size(
     run_guarded(work)
 
 
+@app.command()
+def report(
+    file: Path = FILE_ARGUMENT,
+    out: Path = typer.Option(..., "-o", "--out", help="The calculation record to write (.html)."),
+    section: Optional[str] = typer.Option(None, "--section", help="Report this catalogue section instead of the member file's."),
+    catalogue: Optional[List[Path]] = CATALOGUE_OPTION,
+    units_system: UnitSystem = UNITS_OPTION,
+) -> None:
+    """A self-contained HTML calculation record for a reviewer. Exit 0 passes, 1 fails, 2 bad input."""
+
+    def work() -> int:
+        from sizer.report_command import run_report
+
+        return run_report(file, out, section, catalogue or [], units_system.value)
+
+    run_guarded(work)
+
+
 def _mount_optional_commands() -> None:
     """Commands that live in their own modules."""
     from sizer.cli_sections import app as sections_app

@@ -56,20 +56,20 @@ def _console() -> Any:
     return out if out.is_terminal else Console(highlight=False, width=160)
 
 
-def _progress_bar(description: str) -> Any:
+def _progress_bar(description: str, transient: bool = False) -> Any:
     """A rich progress bar on stderr (kept off stdout so JSON and TOML stay clean)."""
     from rich.console import Console
     from rich.progress import BarColumn, MofNCompleteColumn, Progress, TextColumn, TimeElapsedColumn
 
     return Progress(TextColumn(description), BarColumn(), MofNCompleteColumn(), TimeElapsedColumn(),
-                    TextColumn("{task.fields[section]}"), console=Console(stderr=True), transient=False)
+                    TextColumn("{task.fields[section]}"), console=Console(stderr=True), transient=transient)
 
 
 def _build(specs: list[Any], description: str) -> Any:
-    """Compute whatever the cache lacks, with a progress bar when there is work to do."""
+    """Compute whatever the cache lacks, with a progress bar that goes when the work is done."""
     from sizer.sections import build_catalogue
 
-    with _progress_bar(description) as bar:
+    with _progress_bar(description, transient=True) as bar:
         task = bar.add_task(description, total=None, section="")
 
         def report(done: int, total: int, name: str) -> None:
@@ -100,7 +100,7 @@ def list_sections(
     """The catalogue's sections: shape, dimensions, mass per length, area, Iz, Iy."""
 
     def work() -> int:
-        from sizer.render.common import dumps
+        from sizer.render.common import cautions_panel, dumps
         from sizer.render.sections import list_json, list_table
 
         system = _system(units_system)
@@ -111,7 +111,9 @@ def list_sections(
         if json_output:
             typer.echo(dumps(list_json([(spec, props, name) for spec, props, name, _ in rows])))
         else:
-            _console().print(list_table([(spec, props, note) for spec, props, _, note in rows], system))
+            out = _console()
+            out.print(list_table([(spec, props, note) for spec, props, _, note in rows], system))
+            out.print(cautions_panel())
         return 0
 
     _guarded(work)
@@ -128,7 +130,7 @@ def show_section(
     """Every property of one section, with units."""
 
     def work() -> int:
-        from sizer.render.common import dumps
+        from sizer.render.common import cautions_panel, dumps
         from sizer.render.sections import section_json, show_renderables, write_section_plot
 
         system = _system(units_system)
@@ -145,6 +147,7 @@ def show_section(
             out = _console()
             for renderable in show_renderables(spec, props, note, system):
                 out.print(renderable)
+            out.print(cautions_panel())
             if plot is not None:
                 out.print(f"Drawing written to {plot}")
         return 0
@@ -217,10 +220,11 @@ def import_sections(
     shape: str = typer.Option(..., "--shape", help="The shape of every row."),
     into: Optional[Path] = typer.Option(None, "--into", help="Catalogue file to append to (created if absent); default: print TOML."),
 ) -> None:
-    """Turn a spreadsheet stock list into catalogue entries, row by row. Columns: name, the shape's
-    dimensions (values with units, or a unit in the header such as "depth [mm]"), optional family and
-    material. Refused rows are listed on stderr with the reason. Exit 0 all rows taken, 1 some refused
-    (the others written), 2 none usable."""
+    """Turn a spreadsheet stock list (CSV) into catalogue entries, row by row.
+
+    Columns: name, the shape's dimensions (values with units, or the unit in the header, as in
+    "depth (mm)" or "depth \\[mm]"), optional family and material. Refused rows are listed on stderr
+    with the reason. Exit 0 all rows taken, 1 some refused (the others written), 2 none usable."""
 
     def work() -> int:
         from sizer.sections.editing import append_tables, catalogue_text, import_stock_list

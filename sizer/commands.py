@@ -24,6 +24,10 @@ def run_forces(file: Path, cuts: list[float], combination: str | None, catalogue
     from sizer.render.common import console, dumps, member_notes
     from sizer.render.forces import default_cuts, forces_json, print_forces
 
+    if plot is not None:
+        from sizer.render.plots import check_plot_path
+
+        check_plot_path(plot)
     member = read_member_file(file)
     for x in cuts:
         if x < 0 or x > member.length * (1 + 1e-12):
@@ -55,6 +59,10 @@ def run_check(file: Path, section: str | None, catalogue: Sequence[Path], json_o
     from sizer.render.common import console, dumps, member_notes
     from sizer.sections import unit_stress_field
 
+    if plot is not None:
+        from sizer.render.plots import check_plot_path
+
+        check_plot_path(plot)
     member = read_member_file(file)
     design = prepare(member, catalogue, section, need_section=True)
     report = check_design(design, unit_stress_field(design.spec))

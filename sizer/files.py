@@ -15,6 +15,7 @@ def write_atomic(path: str | Path, data: bytes | str) -> None:
     path.parent.mkdir(parents=True, exist_ok=True)
     handle, temporary = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=path.parent)
     try:
+        os.chmod(temporary, 0o666 & ~_current_umask())  # mkstemp makes 0600; give the usual mode
         with os.fdopen(handle, "wb") as stream:
             stream.write(payload)
             stream.flush()
@@ -23,3 +24,10 @@ def write_atomic(path: str | Path, data: bytes | str) -> None:
     except BaseException:
         Path(temporary).unlink(missing_ok=True)
         raise
+
+
+def _current_umask() -> int:
+    """The process umask (read by setting and restoring it)."""
+    mask = os.umask(0)
+    os.umask(mask)
+    return mask

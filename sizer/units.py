@@ -158,6 +158,7 @@ def fmt_number(value: float, digits: int = 4) -> str:
         return "0" if value == 0 else str(value)
     if abs(value) >= 1e7 or abs(value) < 1e-4:
         return f"{value:.{digits - 1}e}"
+    value = float(f"{value:.{digits}g}")  # round first, so that 0.9999999 shows as 1.000
     decimals = max(0, digits - 1 - math.floor(math.log10(abs(value))))
     text = f"{value:.{decimals}f}"
     return "0" if float(text) == 0 else text

@@ -40,7 +40,8 @@ from sizer.model import Hinge, LineLoad, Member, PointLoad, Stiffness, Support, 
 # Iz = 604 cm^4, It = 20.1 cm^4; E = 200 GPa, G = 77 GPa (common practice).
 STEEL_IPE300 = Stiffness(EA=200e9 * 53.8e-4, GJ=77e9 * 20.1e-8, EIz=200e9 * 8356e-8, EIy=200e9 * 604e-8)
 GRID = 20  # supports and hinges sit on multiples of L / GRID
-RTOL = 1e-7  # equilibrium and superposition, relative to the scale of the problem
+LOAD_GRID = 400  # loads start, end or sit on multiples of L / LOAD_GRID (supports lie on it too)
+RTOL = 1e-6  # equilibrium and superposition, relative to the scale of the problem
 PROPERTY_SETTINGS = settings(
     max_examples=50, deadline=None, suppress_health_check=[HealthCheck.filter_too_much, HealthCheck.too_slow]
 )
@@ -69,9 +70,10 @@ def component() -> st.SearchStrategy[float]:
 
 
 @st.composite
-def point_loads(draw, case: str, length: float, support_positions: list[float]) -> PointLoad:
-    """A concentrated force and/or couple anywhere, sometimes exactly on a support."""
-    at = draw(st.one_of(st.floats(0.0, length), st.sampled_from(support_positions)))
+def point_loads(draw, case: str, length: float, hinge_positions: list[float]) -> PointLoad:
+    """A concentrated force and/or couple anywhere on the load grid (sometimes exactly on a
+    support), never on a hinge (a couple there would have no side to act on)."""
+    at = draw(st.integers(0, LOAD_GRID).map(lambda j: grid_position(j, length, LOAD_GRID)).filter(lambda a: a not in hinge_positions))
     kind = draw(st.sampled_from(["force", "couple", "both"]))
     force = tuple(draw(component()) for _ in range(3)) if kind != "couple" else (0.0, 0.0, 0.0)
     moment = tuple(draw(component()) for _ in range(3)) if kind != "force" else (0.0, 0.0, 0.0)
@@ -81,17 +83,17 @@ def point_loads(draw, case: str, length: float, support_positions: list[float]) 
 @st.composite
 def line_loads(draw, case: str, length: float) -> LineLoad:
     """A partial, linearly varying line load in wx, wy, wz and torque per length."""
-    start = draw(st.floats(0.0, 0.9)) * length
-    end = start + draw(st.floats(0.05, 1.0)) * (length - start)
-    end = min(end, length)
+    j_start = draw(st.integers(0, LOAD_GRID - 1))
+    j_end = draw(st.integers(j_start + 1, LOAD_GRID))
+    start, end = grid_position(j_start, length, LOAD_GRID), grid_position(j_end, length, LOAD_GRID)
     q_start = tuple(draw(component()) * 0.4 for _ in range(4))
     q_end = tuple(draw(component()) * 0.4 for _ in range(4))
     return LineLoad(case=case, start=start, end=end, q_start=q_start, q_end=q_end)
 
 
-def grid_position(k: int, length: float) -> float:
-    """Position of grid point k (m); the last one is exactly the end B."""
-    return length if k == GRID else k * length / GRID
+def grid_position(k: int, length: float, grid: int = GRID) -> float:
+    """Position of point k of a grid of `grid` intervals (m); the last one is exactly the end B."""
+    return length if k == grid else k * length / grid
 
 
 @st.composite
@@ -110,7 +112,7 @@ def layouts(draw) -> tuple[float, tuple[Support, ...], tuple[Hinge, ...]]:
     spring_index = draw(st.one_of(st.none(), st.integers(0, len(supports) - 1)))
     if spring_index is not None:
         old = supports[spring_index]
-        stiffness = draw(st.floats(1e5, 1e8))  # N/m
+        stiffness = draw(st.floats(1e6, 1e9))  # N/m: 1 to 1000 kN/mm
         supports[spring_index] = Support(
             at=old.at, restrain=old.restrain - {"uy"}, springs={"uy": stiffness}, label="spring"
         )
@@ -125,13 +127,13 @@ def layouts(draw) -> tuple[float, tuple[Support, ...], tuple[Hinge, ...]]:
 def problems(draw, min_cases: int = 2, max_cases: int = 3) -> Problem:
     """A random member with 2-3 load cases of 1-4 loads each."""
     length, supports, hinges = draw(layouts())
-    positions = [s.at for s in supports]
+    hinge_positions = [h.at for h in hinges]
     cases = tuple(f"case{i}" for i in range(draw(st.integers(min_cases, max_cases))))
     loads = []
     for case in cases:
         for _ in range(draw(st.integers(1, 4))):
             if draw(st.booleans()):
-                loads.append(draw(point_loads(case, length, positions)))
+                loads.append(draw(point_loads(case, length, hinge_positions)))
             else:
                 loads.append(draw(line_loads(case, length)))
     factors = {case: draw(st.floats(-1.5, 1.5)) for case in cases}
@@ -296,6 +298,13 @@ def breakpoints(member: Member, loads) -> np.ndarray:
     return np.array(sorted(points))
 
 
+def snap_to_items(x: float, positions: list[float], length: float) -> float:
+    """x moved onto an item closer than 1e-6 L: positions that close count as one (the analysis
+    merges positions within 1e-9 L; a cut between them has no meaning for a user)."""
+    near = [a for a in positions if abs(a - x) < 1e-6 * length]
+    return near[0] if near else x
+
+
 @st.composite
 def smooth_points(draw, member: Member, loads) -> tuple[float, float]:
     """A point x inside a gap between breakpoints and a step h with [x - 2h, x + 2h] in the gap."""
@@ -411,6 +420,7 @@ def test_either_segment_gives_the_same_actions(problem: Problem, data):
     force_scale, moment_scale = problem_scale(member, loads, reactions)
     for _ in range(4):
         x = data.draw(st.one_of(st.floats(0.0, member.length), st.sampled_from(positions)))
+        x = snap_to_items(x, positions, member.length)
         side = data.draw(st.sampled_from(SIDES))
         about = np.array([x, 0.0, 0.0])
         take = (lambda a: a > x) if side == "right" else (lambda a: a >= x)
@@ -460,7 +470,7 @@ def test_actions_follow_from_displacements(problem: Problem, data):
     expected = actions[[0, 3, 4, 5]]
     force_scale, moment_scale = problem_scale(member, loads, np.asarray(solution.reactions, dtype=float))
     atol = 1e-6 * np.array([force_scale, moment_scale, moment_scale, moment_scale])
-    np.testing.assert_allclose(from_disp, expected, rtol=0, atol=atol, err_msg="N, T, My, Mz from strains")
+    assert np.all(np.abs(from_disp - expected) <= atol), ("N, T, My, Mz from strains", from_disp, expected)
     rotations = np.array([slope[1], -slope[2]])
     scale = max(float(np.max(np.abs(disp[[1, 2]]))) / member.length, float(np.max(np.abs(disp[[4, 5]]))), 1e-12)
     np.testing.assert_allclose(rotations, disp[[5, 4]], rtol=0, atol=1e-6 * scale, err_msg="rz = duy/dx, ry = -duz/dx")
@@ -505,7 +515,7 @@ def test_superposition_of_cases(problem: Problem):
     reactions = np.asarray(together.reactions, dtype=float)
     force_scale, moment_scale = problem_scale(member, member.loads, reactions)
     atol = tolerance(force_scale, moment_scale)
-    np.testing.assert_allclose(sum(np.asarray(s.reactions) for s in apart), reactions, rtol=0, atol=np.tile(atol, (len(reactions), 1)))
+    assert np.all(np.abs(sum(np.asarray(s.reactions, dtype=float) for s in apart) - reactions) <= atol)
     for side in SIDES:
         expected = np.asarray(together.actions(stations, side=side), dtype=float)
         summed = sum(np.asarray(s.actions(stations, side=side), dtype=float) for s in apart)

@@ -3,6 +3,7 @@ sectionproperties, catalogues build in parallel."""
 
 from __future__ import annotations
 
+import hashlib
 import io
 import json
 import math
@@ -16,6 +17,7 @@ import pytest
 
 from sizer.sections import build_catalogue, section_properties, unit_stress_field
 from sizer.sections import cache
+from sizer.errors import InputError
 from sizer.sections.catalogue import SectionSpec
 from sizer.sections.properties import SCALAR_NAMES, clear_memory
 
@@ -70,8 +72,6 @@ def _nan_in_arrays_with_matching_checksum(path: Path) -> None:
     np.savez(buffer, **arrays)
     npz.write_bytes(buffer.getvalue())
     entry = json.loads(path.read_text(encoding="utf-8"))
-    import hashlib
-
     entry["arrays_sha256"] = hashlib.sha256(buffer.getvalue()).hexdigest()
     path.write_text(json.dumps(entry), encoding="utf-8")
 
@@ -116,12 +116,22 @@ def test_warm_lookup_does_not_import_sectionproperties(cache_dir: Path) -> None:
 
 
 def test_parallel_build_then_all_from_cache(cache_dir: Path) -> None:
-    specs = [replace(FLAT, name=f"flat {depth}", dims={"depth": depth * 1e-3, "width": 0.008}) for depth in (20, 25, 35)]
+    specs = [replace(FLAT, name=f"flat {depth}", dims={"depth": depth * 1e-3, "width": 0.008}) for depth in (20, 25, 35, 40)]
     seen: list[tuple[int, int]] = []
     summary = build_catalogue(specs + [replace(specs[0], name="twin")], workers=2, progress=lambda done, total, name: seen.append((done, total)))
-    assert (summary.sections, summary.geometries, summary.computed, summary.workers) == (4, 3, 3, 2)
-    assert seen[-1] == (3, 3)
+    assert (summary.sections, summary.geometries, summary.computed, summary.workers) == (5, 4, 4, 2)
+    assert seen[-1] == (4, 4)
     clear_memory()
     again = build_catalogue(specs)
-    assert (again.computed, again.from_cache) == (0, 3)
+    assert (again.computed, again.from_cache) == (0, 4)
     assert section_properties(specs[2]).Iz == pytest.approx(0.008 * 0.035**3 / 12, rel=1e-6)  # bh^3/12
+
+
+def test_a_shape_that_cannot_be_meshed_is_bad_input_from_any_worker(cache_dir: Path) -> None:
+    # built directly, past the catalogue's checks: a zero depth leaves nothing to mesh
+    flat = SectionSpec("no depth", "rectangle", {"depth": 0.0, "width": 0.008}, source="stock.toml", line=7)
+    others = [replace(FLAT, name=f"flat {depth}", dims={"depth": depth * 1e-3, "width": 0.008}) for depth in (21, 22, 23)]
+    for workers in (1, 2):
+        with pytest.raises(InputError) as caught:
+            build_catalogue(others + [flat], workers=workers)
+        assert (caught.value.file, caught.value.line) == ("stock.toml", 7) and "'no depth'" in caught.value.problem

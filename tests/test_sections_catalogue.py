@@ -73,7 +73,7 @@ def test_bad_entry_names_file_key_and_line(tmp_path: Path, entry: str, key: str,
         assert lines[error.line - 1].lstrip().startswith(key_name)  # the line of the key itself
 
 
-@pytest.mark.parametrize("entry, key, words", BAD_ENTRIES[:8])
+@pytest.mark.parametrize("entry, key, words", BAD_ENTRIES)
 def test_bad_entry_gives_one_line_and_exit_2(tmp_path: Path, entry: str, key: str, words: str) -> None:
     path = _write(tmp_path, "stock.toml", GOOD + "[[sections]]\n" + entry + "\n")
     result = CliRunner().invoke(app, ["list", "--catalogue", str(path)])
@@ -155,8 +155,11 @@ def test_default_paths_and_member_files_in_a_folder(tmp_path: Path) -> None:
     library.mkdir()
     _write(library, "stock.toml", GOOD)
     assert default_catalogue_paths(member) == [library]
-    catalogue = load_catalogue([tmp_path])  # beam.toml is a member file: skipped in a folder
-    assert catalogue.sections == {}
+    _write(tmp_path, "pyproject.toml", '[project]\nname = "shop-tools"\n')
+    catalogue = load_catalogue([tmp_path])  # a member file and a project file: skipped in a folder
+    assert catalogue.sections == {} and catalogue.files == ()
+    with pytest.raises(InputError, match="unknown key 'member'"):
+        load_catalogue([member])  # named on its own, a file must be a catalogue
     assert math.isclose(load_catalogue([library]).get("good").dims["depth"], 0.05)
 
 

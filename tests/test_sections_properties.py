@@ -7,7 +7,6 @@ Each check value names its source. Tolerances: 1 % for area and second moments, 
 from __future__ import annotations
 
 import math
-from pathlib import Path
 
 import numpy as np
 import pytest
@@ -58,6 +57,12 @@ depth = "200 mm"
 width = "80 mm"
 flange_thickness = "3 mm"
 web_thickness = "3 mm"
+
+[[sections]]
+name = "plate with a slot"
+shape = "polygon"
+points = [["0 mm", "0 mm"], ["60 mm", "0 mm"], ["60 mm", "40 mm"], ["0 mm", "40 mm"]]
+holes = [[["10 mm", "10 mm"], ["50 mm", "10 mm"], ["50 mm", "30 mm"], ["10 mm", "30 mm"]]]
 
 [[sections]]
 name = "sharp angle"
@@ -143,6 +148,15 @@ def test_rolled_sections_against_handbook(catalogue, name, area, i_major, w_majo
     assert p.J == pytest.approx(it * CM**4, rel=0.03)
     assert p.Iw == pytest.approx(iw * 1e3 * CM**6, rel=0.03)
     assert p.shear_centre == (0.0, 0.0) and p.centroid == (0.0, 0.0)  # doubly symmetric
+
+
+def test_polygon_with_a_hole(catalogue) -> None:
+    # outer rectangle minus the hole: A = BH - bh, I = (B H^3 - b h^3) / 12 (any mechanics text)
+    p = props(catalogue, "plate with a slot")
+    assert p.area == pytest.approx((60 * 40 - 40 * 20) * MM**2, rel=1e-6)
+    assert p.Iz == pytest.approx((60 * 40**3 - 40 * 20**3) / 12 * MM**4, rel=1e-6)
+    assert p.Iy == pytest.approx((40 * 60**3 - 20 * 40**3) / 12 * MM**4, rel=1e-6)
+    assert (p.depth, p.width) == pytest.approx((40 * MM, 60 * MM))
 
 
 def test_channel_shear_centre_against_thin_wall_theory(catalogue) -> None:

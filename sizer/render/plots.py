@@ -152,7 +152,7 @@ def build_figure(design: Design, combination: str, report: CheckReport | None = 
         for ax in axes.values():
             ax.set_xlim(-pad, member.length + pad)
         for plane, view in views.items():
-            draw_member_view(axes[plane], view, member, points, lines)
+            draw_member_view(axes[plane], view, member, points)
         _draw_diagrams(axes, design, combination, names, system, planar)
         governing = _governing_for(report)
         if governing is not None:
@@ -417,7 +417,7 @@ def _transverse_force(point: DrawnPoint, spec: PlaneSpec) -> float:
     return point.force[spec.transverse]
 
 
-def draw_member_view(ax: Any, view: MemberView, member: Member, points: list[DrawnPoint], lines: list[DrawnLine]) -> None:
+def draw_member_view(ax: Any, view: MemberView, member: Member, points: list[DrawnPoint]) -> None:
     """The member to scale with its supports, hinges and factored loads."""
     ax.set_ylim(-view.below, view.above)
     draw_beam(ax, 0.0, member.length)
@@ -606,14 +606,14 @@ def _band_arrows(ax: Any, view: MemberView, band: Band) -> None:
         if h < 0.03:
             continue
         if band.component == 0 or band.component == 3:
-            _axial_marks(ax, view, x, band.base + h / 2, math.copysign(1.0, q), band.component == 3, min(h, 0.12))
+            _axial_marks(ax, view, x, band.base + h / 2, math.copysign(1.0, q), band.component == 3)
         else:
             up = q * view.plane.page_sign > 0
             low, high = band.base, band.base + h
             draw_arrow(ax, (x, low if up else high), (x, high if up else low), lw=0.7)
 
 
-def _axial_marks(ax: Any, view: MemberView, x: float, y: float, sign: float, double: bool, size: float) -> None:
+def _axial_marks(ax: Any, view: MemberView, x: float, y: float, sign: float, double: bool) -> None:
     """Small arrows along x inside a band (double-headed for a torque per length)."""
     half = view.dx(0.08)
     draw_arrow(ax, (x - sign * half, y), (x + sign * half, y), lw=0.7)
@@ -934,7 +934,7 @@ def build_free_body_figure(design: Design, combination: str, x: float, side: str
             ax.set_xlim(-FREE_BODY_LEFT_PAD * m_per_inch, drawn_x + FREE_BODY_RIGHT * m_per_inch)
             ax.set_ylim(-view.below, view.above)
             ax.set_label("free body " + view.plane.name)
-            _draw_free_body_view(ax, view, design, points, lines, supports, actions, drawn_x, planar, system)
+            _draw_free_body_view(ax, view, design, points, supports, actions, drawn_x, planar, system)
             top -= view.height + GAP
         sign = "⁻" if side == "left" else "⁺"
         lines_of_text = ["Factored loads (blue); support reactions (green, thick arrows under the member);",
@@ -958,7 +958,7 @@ def _free_body_view(plane: str, m_per_inch: float, lines: list[DrawnLine], point
     return MemberView(spec, m_per_inch, bands, above + 0.1, FREE_BODY_BELOW, system)
 
 
-def _draw_free_body_view(ax: Any, view: MemberView, design: Design, points: list[DrawnPoint], lines: list[DrawnLine],
+def _draw_free_body_view(ax: Any, view: MemberView, design: Design, points: list[DrawnPoint],
                          supports: list[tuple[Support, np.ndarray]], actions: np.ndarray, drawn_x: float, planar: bool,
                          system: str) -> None:
     draw_beam(ax, 0.0, drawn_x)

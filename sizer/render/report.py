@@ -145,6 +145,7 @@ def check_report_path(path: str | Path) -> None:
         raise InputError("", "-o", f"cannot write a report to {str(path)!r}: the file name must end in .html (or .pdf)",
                          "give a file name such as record.html")
 
+
 def write_report(design: Design, report: CheckReport, notes: list[str], out_path: str | Path, system: str = "si") -> list[Path]:
     """Write the HTML record to `out_path` atomically; returns the files written. When `out_path`
     ends in .pdf, the HTML goes beside it (.html) and the PDF is made with weasyprint if that is
@@ -187,12 +188,12 @@ def report_html(design: Design, report: CheckReport, notes: list[str], system: s
         _reactions_section(design, document, combination, system),
         _diagrams_section(design, report, combination, system),
         _cut_section(design, report, combination, x, system),
-        _checks_section(design, document, system),
+        _checks_section(document, system),
         _final_verdict(document, system),
         _assumptions_section(notes),
         _cautions_box(final=True),
-        f"<footer>Calculation record made by sizer {_e(__version__)}. Units shown: SI display units (kN, kN·m, MPa, mm, m); "
-        "the embedded data (id sizer-data) is the <code>sizer check --json</code> document in SI base units.</footer>",
+        f"<footer>Calculation record made by sizer {_e(__version__)}, shown in {'SI' if system == 'si' else 'US customary'} "
+        "display units; the embedded data (id sizer-data) is the <code>sizer check --json</code> document in SI base units.</footer>",
     ]
     data = dumps(document).replace("</", "<\\/")
     return ("<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n"
@@ -816,7 +817,7 @@ def _check_row(entry: dict[str, Any], governing: str | None, system: str) -> str
     return _row(cells, css="governing" if entry["check"] == governing else "", attrs=attrs)
 
 
-def _checks_section(design: Design, document: dict[str, Any], system: str) -> str:
+def _checks_section(document: dict[str, Any], system: str) -> str:
     rows = [_check_row(entry, document["governing"], system) for entry in document["checks"]]
     table = _table(["check", "demand", "allowable", "utilization", "", "at", "combination", "status", "basis"], rows, (1, 2, 3, 5))
     text = ("<p>Stresses come from the full cross-section stress field (sectionproperties' unit stress fields at every mesh "

@@ -10,6 +10,7 @@ from typing import Any
 
 from sizer import units
 from sizer.files import write_atomic
+from sizer.render.common import CAUTIONS
 from sizer.sections import SectionProperties, SectionSpec
 
 AXES_NOTE = ("Member axes: y along the depth (up as drawn), z = -across (to the left as drawn, looking at "
@@ -133,7 +134,7 @@ def section_json(spec: SectionSpec, props: SectionProperties, mass_material: str
             "tau_per_Vy": props.tau_peak[0], "tau_per_Vz": props.tau_peak[1], "tau_per_T": props.tau_peak[2],
         },
         "mesh": {"elements": props.mesh_elements, "nodes": props.mesh_nodes, "max_element_area": props.max_element_area},
-        "source": spec.source, "line": spec.line, "axes": AXES_NOTE,
+        "source": spec.source, "line": spec.line, "axes": AXES_NOTE, "cautions": list(CAUTIONS),
     }
     if spec.shape == "polygon":
         data["points"] = [list(point) for point in spec.points]
@@ -141,12 +142,13 @@ def section_json(spec: SectionSpec, props: SectionProperties, mass_material: str
     return data
 
 
-def list_json(items: list[tuple[SectionSpec, SectionProperties, str | None]]) -> list[dict[str, Any]]:
-    """`sections list --json`: one small record per section, SI base units."""
-    return [{"name": spec.name, "shape": spec.shape, "family": spec.family, "dimensions": dict(spec.dims),
+def list_json(items: list[tuple[SectionSpec, SectionProperties, str | None]]) -> dict[str, Any]:
+    """`sections list --json`: {"sections": one small record per section, "cautions"}, SI base units."""
+    rows = [{"name": spec.name, "shape": spec.shape, "family": spec.family, "dimensions": dict(spec.dims),
              "mass_per_length": props.mass_per_length, "mass_material": mass_material,
              "area": props.area, "Iz": props.Iz, "Iy": props.Iy, "J": props.J, "depth": props.depth, "width": props.width}
             for spec, props, mass_material in items]
+    return {"sections": rows, "cautions": list(CAUTIONS)}
 
 
 def write_section_plot(spec: SectionSpec, props: SectionProperties, path: Path) -> None:

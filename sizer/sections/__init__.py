@@ -5,6 +5,9 @@ Modules: shapes (keys and fit rules), catalogue (files -> SectionSpec, Catalogue
 (outlines and the mesh rule), properties (SectionProperties, UnitStressField, member axes; see its
 docstring for the axis mapping), cache (disk entries), editing (adding sections to files, CSV import).
 
+Mesh rule (sizer.sections.geometry): largest element area min((t_min / 1.25)^2, A / 200) with t_min
+the thinnest wall; 8 points per root or corner radius; 96 per full circle.
+
 sectionproperties is imported only when something must be computed; a warm look-up reads the cache.
 """
 

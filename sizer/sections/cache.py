@@ -24,18 +24,22 @@ from sizer.files import write_atomic
 from sizer.sections.catalogue import SectionSpec
 from sizer.sections.geometry import mesh_settings
 
-SCHEMA_VERSION = 3
+SCHEMA_VERSION = 4
 ARRAY_NAMES = ("points", "sigma", "tau")
 
 
 def cache_folder() -> Path:
     """Where entries live: $SIZER_CACHE_DIR/sections, else the user's cache folder."""
-    root = os.environ.get("SIZER_CACHE_DIR")
+    return Path(_folder(os.environ.get("SIZER_CACHE_DIR", "")))
+
+
+@lru_cache(maxsize=8)
+def _folder(root: str) -> str:
     if not root:
         import platformdirs
 
         root = platformdirs.user_cache_dir("sizer")
-    return Path(root) / "sections"
+    return os.path.join(root, "sections")
 
 
 @lru_cache(maxsize=1)
@@ -48,14 +52,19 @@ def sectionproperties_version() -> str:
 
 def entry_key(spec: SectionSpec) -> str:
     """The cache key of a section's geometry under the current mesh settings and library version."""
-    text = json.dumps({"geometry": spec.geometry_key(), "mesh": mesh_settings(), "schema": SCHEMA_VERSION,
+    return _key_of_geometry(spec.geometry_key())
+
+
+@lru_cache(maxsize=4096)
+def _key_of_geometry(geometry_key: str) -> str:
+    text = json.dumps({"geometry": geometry_key, "mesh": mesh_settings(), "schema": SCHEMA_VERSION,
                        "sectionproperties": sectionproperties_version()}, sort_keys=True)
     return hashlib.sha256(text.encode()).hexdigest()[:32]
 
 
-def _paths(key: str) -> tuple[Path, Path]:
-    folder = cache_folder()
-    return folder / f"{key}.json", folder / f"{key}.npz"
+def _paths(key: str) -> tuple[str, str]:
+    folder = _folder(os.environ.get("SIZER_CACHE_DIR", ""))
+    return os.path.join(folder, f"{key}.json"), os.path.join(folder, f"{key}.npz")
 
 
 def read_entry(key: str, names: tuple[str, ...]) -> dict | None:
@@ -63,19 +72,18 @@ def read_entry(key: str, names: tuple[str, ...]) -> dict | None:
     `names` is a finite number; else None."""
     path, _ = _paths(key)
     try:
-        data = json.loads(path.read_text(encoding="utf-8"))
+        with open(path, "rb") as stream:
+            data = json.loads(stream.read())
         if data["key"] != key or data["schema"] != SCHEMA_VERSION or not isinstance(data["arrays_sha256"], str):
             return None
         scalars = data["scalars"]
-        if not all(_finite_number(scalars[name]) for name in names):
+        values = [scalars[name] for name in names]
+        # plain numbers only; a NaN or infinity anywhere makes the sum non-finite
+        if not {type(value) for value in values} <= {int, float} or not math.isfinite(sum(values)):
             return None
         return data
     except Exception:  # any damage at all: recompute
         return None
-
-
-def _finite_number(value: object) -> bool:
-    return isinstance(value, (int, float)) and not isinstance(value, bool) and math.isfinite(value)
 
 
 def read_arrays(key: str, entry: dict) -> dict[str, np.ndarray] | None:
@@ -83,7 +91,8 @@ def read_arrays(key: str, entry: dict) -> dict[str, np.ndarray] | None:
     shapes and finite values; else None."""
     _, path = _paths(key)
     try:
-        payload = path.read_bytes()
+        with open(path, "rb") as stream:
+            payload = stream.read()
         if hashlib.sha256(payload).hexdigest() != entry["arrays_sha256"]:
             return None
         with np.load(io.BytesIO(payload), allow_pickle=False) as archive:
@@ -108,7 +117,7 @@ def write_entry(key: str, scalars: dict[str, float], arrays: dict[str, np.ndarra
     entry = {"key": key, "schema": SCHEMA_VERSION, "arrays_sha256": hashlib.sha256(payload).hexdigest(), "scalars": scalars}
     try:
         write_atomic(npz_path, payload)
-        write_atomic(json_path, json.dumps(entry, indent=1))
+        write_atomic(json_path, json.dumps(entry))
     except OSError:
         return False
     return True

@@ -3,7 +3,8 @@ entries, read into SectionSpec and Material objects with errors that name file, 
 
 Every dimension is a string with its unit, read to metres. Section names are unique across all the
 files of a catalogue. A catalogue is any mix of files and folders; a folder contributes its *.toml
-files (not recursing), except member files (those with a [member] table), so a folder may hold both.
+files (not recursing), except files that are plainly something else (a member file's [member] table,
+pyproject.toml's [project] or [tool]), so a catalogue may share a folder with them.
 """
 
 from __future__ import annotations
@@ -14,6 +15,7 @@ import json
 import math
 import re
 from dataclasses import dataclass, field
+from functools import cached_property
 from pathlib import Path
 from typing import Any, Sequence
 
@@ -25,7 +27,7 @@ from sizer.sections.shapes import RADIUS_KEYS, SHAPES, allowed_keys, fit_problem
 SHIPPED_PACKAGE = "sizer.section_library"
 TOP_KEYS = ("title", "materials", "sections")
 DEFAULT_MATERIAL = "mild-steel"
-_MEMBER_TABLE = re.compile(r"^\s*\[\s*member\s*\]", re.MULTILINE)
+FOREIGN_TABLES = frozenset({"member", "project", "build-system", "tool"})  # member files, pyproject.toml
 
 Point = tuple[float, float]
 
@@ -51,6 +53,10 @@ class SectionSpec:
 
     def geometry_key(self) -> str:
         """A stable hash of the shape and its dimensions (not the name, family or material)."""
+        return self._geometry_key
+
+    @cached_property
+    def _geometry_key(self) -> str:
         text = json.dumps({"shape": self.shape, "dims": sorted(self.dims.items()),
                            "points": self.points, "holes": self.holes}, separators=(",", ":"))
         return hashlib.sha256(text.encode()).hexdigest()[:24]
@@ -171,9 +177,10 @@ def load_catalogue(paths: Sequence[Path]) -> Catalogue:
     files: list[Path] = []
     for path, from_folder in catalogue_files(paths):
         text = _read_text(path)
-        if from_folder and _MEMBER_TABLE.search(text):
-            continue  # a member file kept beside the catalogue files
-        content = parse_catalogue_text(text, path)
+        data = _parse_toml(text, path)
+        if from_folder and FOREIGN_TABLES & data.keys():
+            continue  # a member file or project file kept beside the catalogue files
+        content = parse_catalogue_text(text, path, data)
         files.append(path)
         for index, spec in enumerate(content.sections):
             if spec.name in sections:
@@ -200,16 +207,18 @@ def _read_text(path: Path) -> str:
         raise InputError(str(path), "", f"cannot read the file ({exc})", "check the path and that it is a UTF-8 text file") from None
 
 
-def read_catalogue_file(path: Path) -> CatalogueFile:
-    """One catalogue file."""
-    return parse_catalogue_text(_read_text(path), path)
+def _parse_toml(text: str, path: Path) -> dict:
+    from sizer.inputfile import parse_toml
+
+    return parse_toml(text, path)
 
 
-def parse_catalogue_text(text: str, path: Path) -> CatalogueFile:
-    """Catalogue-file text (read from `path`, for messages) to its sections and materials."""
-    from sizer.inputfile import Reader, parse_toml
+def parse_catalogue_text(text: str, path: Path, data: dict | None = None) -> CatalogueFile:
+    """Catalogue-file text (read from `path`, for messages; `data`: its parsed TOML when already
+    parsed) to its sections and materials."""
+    from sizer.inputfile import Reader
 
-    data = parse_toml(text, path)
+    data = _parse_toml(text, path) if data is None else data
     reader = Reader(path, text)
     reader.known_keys(data, TOP_KEYS, "")
     materials = {

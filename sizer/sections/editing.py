@@ -58,7 +58,7 @@ def check_entry(table: dict[str, Any], file: str, line: int | None) -> SectionSp
 
 def folder_catalogue(file: Path) -> tuple[dict[str, SectionSpec], dict[str, Material]]:
     """Sections and materials of the catalogue folder that holds `file` (empty if it has none)."""
-    folder = file.parent if str(file.parent) else Path(".")
+    folder = file.parent
     if not folder.is_dir() or not any(folder.glob("*.toml")):
         return {}, {}
     catalogue = load_catalogue([folder])
@@ -90,6 +90,7 @@ def _append(document: Any, tables: list[dict[str, Any]], file: Path | None = Non
         item = tomlkit.table()
         for key, value in table.items():
             item.add(key, value)
+        item.add(tomlkit.nl())  # a blank line after the entry, before whatever follows
         entries.append(item)
 
 
@@ -99,14 +100,16 @@ def write_catalogue(file: Path, document: Any) -> None:
 
     text = tomlkit.dumps(document)
     parse_catalogue_text(text, file)
-    mode = stat.S_IMODE(file.stat().st_mode) if file.exists() else None
+    mode = stat.S_IMODE(file.stat().st_mode) if file.exists() else _new_file_mode()
     write_atomic(file, text)
-    if mode is not None:
-        os.chmod(file, mode)
-    else:
-        umask = os.umask(0)
-        os.umask(umask)
-        os.chmod(file, 0o666 & ~umask)
+    os.chmod(file, mode)  # the temporary file's private mode would otherwise stay
+
+
+def _new_file_mode() -> int:
+    """The mode an ordinary new file gets (0o666 less the process's umask)."""
+    umask = os.umask(0)
+    os.umask(umask)
+    return 0o666 & ~umask
 
 
 def ordered_table(name: str, shape: str, values: dict[str, str], family: str | None, material: str | None) -> dict[str, Any]:

@@ -16,8 +16,9 @@ sigma = +My z / Iy for a symmetric section.
 SectionProperties fields (SI: m, m^2, m^3, m^4, m^6, kg/m, rad):
     area; centroid (y, z) from the centre of the bounding box; Iz, Iy, Iyz about the centroid;
     I11 >= I22 principal values, principal_angle in [-pi/2, pi/2) from the z axis to the 11
-    axis, positive about +x (so I11 = Iz cos^2 a + Iy sin^2 a + Iyz sin 2a); elastic moduli Sz_top = Iz / y_top, Sz_bottom = Iz / y_bottom (fibres at the top,
-    y > 0, and bottom), Sy_plus = Iy / z_plus, Sy_minus = Iy / z_minus (fibres at +z and -z);
+    axis, positive about +x (so I11 = Iz cos^2 a + Iy sin^2 a + Iyz sin 2a); elastic moduli
+    Sz_top = Iz / y_top, Sz_bottom = Iz / y_bottom (fibres at the top, y > 0, and bottom),
+    Sy_plus = Iy / z_plus, Sy_minus = Iy / z_minus (fibres at +z and -z);
     y_top, y_bottom, z_plus, z_minus: distances from the centroid to those extreme fibres;
     plastic moduli Zz, Zy; radii of gyration rz, ry; torsion constant J; warping constant Iw;
     shear_centre (ys, zs) from the centroid; shear areas Avy, Avz (for shear along y and z);
@@ -39,7 +40,7 @@ import time
 from collections import OrderedDict
 from dataclasses import dataclass, field
 from functools import cached_property
-from typing import Any, Callable, Sequence
+from typing import Any, Callable, Iterator, Sequence
 
 import numpy as np
 
@@ -56,6 +57,9 @@ SCALAR_NAMES: tuple[str, ...] = (
     "mesh_elements", "mesh_nodes", "max_element_area",
 )
 FIELD_MEMORY = 64  # unit stress fields kept in memory (least recently used dropped)
+# fewer missing sections than this are computed in this process: a worker's start-up and its
+# sectionproperties import (about 1 s) outweigh the gain
+PARALLEL_FROM = 4
 
 # unit actions in sectionproperties' units (N, N*mm) and sign mapping, see the module docstring
 _UNIT_ACTIONS = {"n": 1.0, "vx": -1.0, "vy": 1.0, "mxx": -1.0, "myy": 1.0, "mzz": 1.0}
@@ -239,8 +243,8 @@ def analyse(spec: SectionSpec) -> Any:
         section.calculate_geometric_properties()
         section.calculate_warping_properties()
         section.calculate_plastic_properties()
-    except (ValueError, RuntimeError, ZeroDivisionError, np.linalg.LinAlgError) as exc:
-        raise InputError(spec.source, "sections", f"section {spec.name!r}: sectionproperties could not analyse it ({exc})",
+    except Exception as exc:  # sectionproperties' failures on a mesh that was made
+        raise InputError(spec.source, "sections", f"section {spec.name!r}: sectionproperties could not analyse it ({type(exc).__name__}: {exc})",
                          "check the dimensions or the polygon's points", spec.line) from None
     return section
 
@@ -301,13 +305,16 @@ def _axis_angle(angle: float) -> float:
 
 def _without_noise(s: dict[str, float]) -> dict[str, float]:
     """Round-off and solver noise set to exactly zero: centroid and shear-centre offsets below
-    1e-5 of the section's size, a product of inertia below 1e-9 of sqrt(Iz Iy)."""
+    1e-5 of the section's size, a product of inertia below 1e-9 of sqrt(Iz Iy), a warping
+    constant below 1e-9 of (Iz + Iy) size^2 (a circle's)."""
     size = max(s["depth"], s["width"])
     for name in ("centroid_y", "centroid_z", "ys", "zs"):
         if abs(s[name]) < 1e-5 * size:
             s[name] = 0.0
     if abs(s["Iyz"]) < 1e-9 * math.sqrt(s["Iz"] * s["Iy"]):
         s["Iyz"] = 0.0
+    if abs(s["Iw"]) < 1e-9 * (s["Iz"] + s["Iy"]) * size**2:
+        s["Iw"] = 0.0
     return s
 
 
@@ -342,7 +349,7 @@ class BuildSummary:
 def build_catalogue(specs: Sequence[SectionSpec], workers: int | None = None,
                     progress: Callable[[int, int, str], None] | None = None, check_arrays: bool = True) -> BuildSummary:
     """Make sure every section's entry is cached, computing the missing ones in parallel (one
-    process per core by default). `progress(done, total, name)` is called as geometries finish.
+    process per core by default; in this process when fewer than PARALLEL_FROM are missing). `progress(done, total, name)` is called as geometries finish.
     `check_arrays`: also verify each cached entry's stress arrays (else only its scalars)."""
     start = time.perf_counter()
     unique = {cache.entry_key(spec): spec for spec in specs}
@@ -351,6 +358,8 @@ def build_catalogue(specs: Sequence[SectionSpec], workers: int | None = None,
     if progress:
         progress(done, total, "")
     workers = max(1, min(workers or os.cpu_count() or 1, len(missing)))
+    if len(missing) < PARALLEL_FROM:
+        workers = 1
     if workers == 1:
         for spec in missing:
             _compute_and_store(spec)
@@ -380,7 +389,7 @@ def _entry_ready(key: str, check_arrays: bool) -> bool:
     return True
 
 
-def _build_in_parallel(specs: list[SectionSpec], workers: int):
+def _build_in_parallel(specs: list[SectionSpec], workers: int) -> Iterator[SectionSpec]:
     """Compute `specs` in `workers` processes; yields each spec as it finishes."""
     import multiprocessing
     from concurrent.futures import ProcessPoolExecutor, as_completed

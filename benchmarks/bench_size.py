@@ -1,0 +1,260 @@
+"""Speed figures for `sizer size` on a catalogue of 1000 generated I-sections (a plain script; not part
+of the test suite).
+
+    .venv/bin/python benchmarks/bench_size.py [--workdir DIR] [--runs N] [--no-profile]
+
+Writes the catalogue and its own section cache into a temporary folder (or DIR, kept and reused:
+a second run skips the cold build), then prints:
+  cold build   `sizer sections build --catalogue DIR`, seconds per section
+  (a)          `sizer --help` wall time (median of N runs, subprocess)
+  (b)          `sizer size MEMBER --catalogue DIR` wall time (median, subprocess, warm cache), ratio to (a)
+  (c)          screening throughput: sections x combinations x stations / time of sizing.screen (in-process)
+  (d)          the naive way: full stress-field check of a sample of sections, extrapolated to the whole
+               catalogue, against the measured size_member time; and the naive answer on the sample
+               around the chosen section
+  profile      the top 25 lines of `python -m cProfile -s cumtime` over `sizer size`
+Targets (issue 5): (b)/(a) <= 2.5, (c) >= 50 million station-checks per second, (d) >= 100.
+"""
+
+from __future__ import annotations
+
+import argparse
+import itertools
+import os
+import statistics
+import subprocess
+import sys
+import tempfile
+import time
+from pathlib import Path
+
+VENV_BIN = Path(sys.executable).parent
+SIZER = str(VENV_BIN / "sizer")
+
+MATERIAL = """[materials.steel]
+elastic_modulus = "200 GPa"
+shear_modulus = "77 GPa"
+density = "7850 kg/m^3"
+yield_strength = "250 MPa"
+[materials.steel.allowable]
+tension = "150 MPa"
+compression = "150 MPa"
+bending = "165 MPa"
+shear = "100 MPa"
+equivalent = "170 MPa"
+"""
+
+# An invented member: a mezzanine edge beam continuous over three supports with a short overhang,
+# carrying floor loads, a wind load across it and a bracing force along it. 3 cases, 6 combinations.
+MEMBER = """title = "Generated-catalogue benchmark: mezzanine edge beam (invented)"
+
+[member]
+length = "7.5 m"
+material = "steel"
+self_weight = "dead"
+
+[[supports]]
+at = "0 m"
+type = "pin"
+[[supports]]
+at = "3.6 m"
+type = "roller"
+[[supports]]
+at = "6.6 m"
+type = "roller"
+
+[[loads]]
+type = "line"
+case = "dead"
+wy = "-3.2 kN/m"
+[[loads]]
+type = "line"
+case = "imposed"
+from = "0 m"
+to = "6.6 m"
+wy = "-7.5 kN/m"
+wy_end = "-5 kN/m"
+[[loads]]
+type = "point"
+case = "imposed"
+at = "1.8 m"
+fy = "-18 kN"
+[[loads]]
+type = "point"
+case = "imposed"
+at = "7.5 m"
+fy = "-6 kN"
+[[loads]]
+type = "line"
+case = "wind"
+wz = "1.2 kN/m"
+[[loads]]
+type = "point"
+case = "wind"
+at = "7.5 m"
+fx = "-30 kN"
+
+[combinations]
+"dead" = { dead = 1.0 }
+"dead + imposed" = { dead = 1.0, imposed = 1.0 }
+"dead + wind" = { dead = 1.0, wind = 1.0 }
+"dead + imposed + wind" = { dead = 1.0, imposed = 0.75, wind = 0.75 }
+"uplift" = { dead = 0.6, wind = 1.0 }
+"dead + imposed, factored" = { dead = 1.2, imposed = 1.6 }
+
+[checks]
+deflection_limit = 300
+deflection_combinations = ["dead + imposed", "dead + imposed + wind"]
+buckling_length_minor = "1.8 m"
+"""
+
+
+def generated_sections() -> list[str]:
+    """1000 [[sections]] entries of shape i_beam: 10 depths x 5 widths x 5 flange x 4 web thicknesses,
+    each a fixed fraction of the depth (so every name is unique), root radius 1.2 x web."""
+    depths = [200 + 50 * i for i in range(10)]  # mm
+    width_ratios = (0.35, 0.42, 0.5, 0.6, 0.75)
+    flange_ratios = (0.03, 0.038, 0.046, 0.055, 0.065)
+    web_ratios = (0.022, 0.027, 0.032, 0.038)
+    entries = []
+    for depth, wr, fr, ww in itertools.product(depths, width_ratios, flange_ratios, web_ratios):
+        width, flange, web = round(depth * wr), round(depth * fr, 1), round(depth * ww, 1)
+        radius = round(1.2 * web, 1)
+        entries.append(f'[[sections]]\nname = "GEN {depth}x{width}x{flange:g}x{web:g}"\nshape = "i_beam"\nfamily = "gen"\n'
+                       f'depth = "{depth} mm"\nwidth = "{width} mm"\nflange_thickness = "{flange:g} mm"\n'
+                       f'web_thickness = "{web:g} mm"\nroot_radius = "{radius:g} mm"\n')
+    return entries
+
+
+def write_inputs(workdir: Path) -> tuple[Path, Path, int]:
+    catalogue = workdir / "catalogue"
+    catalogue.mkdir(parents=True, exist_ok=True)
+    entries = generated_sections()
+    (catalogue / "generated.toml").write_text(MATERIAL + "\n" + "\n".join(entries), encoding="utf-8")
+    member = workdir / "mezzanine_beam.toml"
+    member.write_text(MEMBER, encoding="utf-8")
+    return catalogue, member, len(entries)
+
+
+def wall_time(command: list[str], env: dict[str, str], expect: tuple[int, ...] = (0,)) -> float:
+    start = time.perf_counter()
+    done = subprocess.run(command, env=env, stdout=subprocess.DEVNULL, stderr=subprocess.PIPE, text=True)
+    seconds = time.perf_counter() - start
+    if done.returncode not in expect:
+        raise SystemExit(f"{' '.join(command)} exited {done.returncode}: {done.stderr}")
+    return seconds
+
+
+def median_time(command: list[str], env: dict[str, str], runs: int, expect: tuple[int, ...] = (0, 1)) -> tuple[float, list[float]]:
+    times = [wall_time(command, env, expect) for _ in range(runs)]
+    return statistics.median(times), times
+
+
+def in_process_median(work, runs: int) -> float:
+    times = []
+    for _ in range(runs):
+        start = time.perf_counter()
+        work()
+        times.append(time.perf_counter() - start)
+    return statistics.median(times)
+
+
+def main() -> None:
+    parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    parser.add_argument("--workdir", type=Path, default=None, help="keep the catalogue and cache here (reused when present)")
+    parser.add_argument("--runs", type=int, default=5, help="runs per median")
+    parser.add_argument("--no-profile", action="store_true")
+    args = parser.parse_args()
+    workdir = args.workdir or Path(tempfile.mkdtemp(prefix="sizer-bench-size-"))
+    workdir.mkdir(parents=True, exist_ok=True)
+    catalogue, member, count = write_inputs(workdir)
+    env = dict(os.environ, SIZER_CACHE_DIR=str(workdir / "cache"), COLUMNS="120")
+    os.environ["SIZER_CACHE_DIR"] = env["SIZER_CACHE_DIR"]
+    print(f"cores: {os.cpu_count()}, catalogue: {count} i_beam sections in {catalogue}, cache: {env['SIZER_CACHE_DIR']}")
+
+    seconds = wall_time([SIZER, "sections", "build", "--catalogue", str(catalogue)], env)
+    print(f"build: {seconds:.1f} s = {seconds / count * 1e3:.1f} ms per section "
+          "(cold unless --workdir already held the cache; process start-up and imports included)")
+
+    help_time, help_runs = median_time([SIZER, "--help"], env, args.runs, (0,))
+    size_command = [SIZER, "size", str(member), "--catalogue", str(catalogue)]
+    size_time, size_runs = median_time(size_command, env, args.runs)
+    print(f"(a) sizer --help: median {help_time:.3f} s of {args.runs} ({', '.join(f'{t:.2f}' for t in help_runs)})")
+    print(f"(b) sizer size, 1000 sections, warm cache: median {size_time:.3f} s of {args.runs} ({', '.join(f'{t:.2f}' for t in size_runs)}); "
+          f"ratio to --help {size_time / help_time:.1f}x (target <= 2.5x)")
+
+    in_process_figures(member, catalogue, args.runs)
+    if not args.no_profile:
+        profile(size_command, env)
+
+
+def in_process_figures(member_path: Path, catalogue_path: Path, runs: int) -> None:
+    """(c) screening throughput and (d) the naive full-field way against size_member."""
+    from sizer.analysis import solve_member
+    from sizer.checks import check_design, check_stations
+    from sizer.design import Design, catalogue_for, resolve_material
+    from sizer.inputfile import read_member_file
+    from sizer.model import Stiffness
+    from sizer.sections import unit_stress_field
+    from sizer.sections.properties import clear_memory
+    from sizer.sizing import candidate_sections, design_for, screen, size_member
+
+    member = read_member_file(member_path)
+    catalogue = catalogue_for(member, [catalogue_path])
+    material = resolve_material(member, catalogue)
+    candidates = candidate_sections(catalogue, member, material, (), None, None)
+    base = Design(member, solve_member(member, Stiffness.unit(), None), material)
+    stations = len(check_stations(base)[0])
+    combinations = len(member.combinations)
+    screen(candidates, member, material, base)  # warm-up (arrays, first numpy calls)
+    screen_time = in_process_median(lambda: screen(candidates, member, material, base), runs)
+    work = len(candidates) * combinations * stations
+    print(f"(c) screen: {len(candidates)} sections x {combinations} combinations x {stations} stations = {work:,} station-checks "
+          f"in {screen_time * 1e3:.1f} ms (median of {runs}) = {work / screen_time / 1e6:.1f} million/s (target >= 50)")
+
+    result = size_member(member, catalogue, material)
+    size_time = in_process_median(lambda: size_member(member, catalogue, material), runs)
+    chosen = result.chosen
+    position = result.candidates.index(chosen) if chosen else len(result.candidates) // 2
+    print(f"    size_member in-process (warm, fields in memory after the first run): median {size_time:.3f} s; "
+          f"chosen {chosen.name if chosen else None} at position {position} of {len(result.candidates)} by mass, "
+          f"{result.full_checks} full stress-field checks")
+
+    fresh = candidate_sections(catalogue, member, material, (), None, None)
+    sample = fresh[max(0, position - 10):position + 10]
+
+    def naive_one(candidate, from_disk: bool) -> bool:
+        if from_disk:
+            clear_memory()
+        design = design_for(member, material, candidate)
+        return check_design(design, unit_stress_field(candidate.spec)).passes
+
+    for label, from_disk in (("unit fields read from the disk cache", True), ("unit fields already in memory", False)):
+        start = time.perf_counter()
+        verdicts = [naive_one(candidate, from_disk) for candidate in sample]
+        per_section = (time.perf_counter() - start) / len(sample)
+        naive_total = per_section * len(fresh)
+        print(f"(d) naive full-field check ({label}): {per_section * 1e3:.1f} ms per section x {len(fresh)} = {naive_total:.1f} s; "
+              f"size_member {size_time:.3f} s; ratio {naive_total / size_time:.0f}x (target >= 100x)")
+    naive_choice = next((c.name for c, passes in zip(sample, verdicts) if passes), None)
+    lighter_all_fail = not any(verdicts[:position - max(0, position - 10)])
+    print(f"    naive answer on the {len(sample)} sections around the choice: {naive_choice} "
+          f"({'same as' if naive_choice == (chosen.name if chosen else None) and lighter_all_fail else 'DIFFERENT FROM'} size_member)")
+
+
+def profile(size_command: list[str], env: dict[str, str]) -> None:
+    """The top 25 lines of cProfile's cumulative-time listing over one `sizer size` run."""
+    done = subprocess.run([sys.executable, "-m", "cProfile", "-s", "cumtime", *size_command], env=env,
+                          capture_output=True, text=True)
+    lines = done.stdout.splitlines()
+    start = next((i for i, line in enumerate(lines) if "ncalls" in line and "cumtime" in line), None)
+    if start is None:
+        print("profile: no cProfile listing found:", done.stderr[-500:])
+        return
+    header = next((line for line in lines[:start] if "function calls" in line), "")
+    print("profile of `sizer size` (python -m cProfile -s cumtime):", header.strip())
+    print("\n".join(lines[start:start + 26]))
+
+
+if __name__ == "__main__":
+    main()

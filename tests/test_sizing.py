@@ -1,0 +1,615 @@
+"""`sizer size`: the lightest passing section, against closed-form answers and against `sizer check`.
+
+Catalogues are small TOML files: solid rectangles and rounds, whose properties and stresses follow
+from closed forms, and (for the agreement with `sizer check`) a mix of tubes, an I-beam and a
+channel. Every expected answer is computed here from the closed forms, with the source named beside
+it, and the data keep every closed-form utilization at least 3 % away from 1.0, so the mesh error
+of the section properties (well under 1 % for these shapes) cannot flip a verdict.
+
+All catalogues draw on one small pool of geometries, built once for the module (the cache is keyed
+by geometry), so the sectionproperties work stays a few seconds.
+"""
+
+from __future__ import annotations
+
+import json
+import math
+from pathlib import Path
+from typing import Callable
+
+import pytest
+from scipy import constants
+from typer.testing import CliRunner
+
+from sizer.cli import app
+from sizer.sections import build_catalogue, load_catalogue
+
+MM = 1e-3
+KN = 1e3
+E_STEEL = 200e9  # Pa, structural steel (REFERENCES.md, common practice)
+DENSITY = 7850.0  # kg/m^3, structural steel (REFERENCES.md, common practice)
+GRAVITY = constants.g  # m/s^2, standard gravity (scipy.constants)
+BENDING_ALLOWABLE = 165e6  # Pa, 0.66 Fy for Fy = 250 MPa (REFERENCES.md, 1989 AISC ASD from memory)
+SHEAR_ALLOWABLE = 100e6  # Pa, 0.40 Fy for Fy = 250 MPa (REFERENCES.md, 1989 AISC ASD from memory)
+MARGIN = 0.03  # every closed-form utilization is at least this far from 1.0
+MESH_TOLERANCE = 0.01  # relative: sectionproperties against the closed forms for solid bars and tubes
+SAME = 1e-9  # relative: `sizer size` and `sizer check` make the same computation
+
+MATERIAL = """
+[materials.steel]
+elastic_modulus = "200 GPa"
+shear_modulus = "77 GPa"
+density = "7850 kg/m^3"
+yield_strength = "250 MPa"
+[materials.steel.allowable]
+tension = "150 MPa"
+compression = "150 MPa"
+bending = "165 MPa"
+shear = "100 MPa"
+equivalent = "170 MPa"
+"""
+
+Entries = dict[str, tuple[str, dict[str, str], str]]  # name -> (shape, dimensions, family)
+
+
+# ----------------------------------------------------------------------------------------------
+# closed forms (REFERENCES.md)
+
+def rectangle(width: float, depth: float) -> dict[str, float]:
+    """Solid rectangle b x h (m) bending about the axis parallel to b: A = bh, I = bh^3/12,
+    S = bh^2/6 (elementary beam theory, any mechanics of materials text)."""
+    return {"A": width * depth, "I": width * depth**3 / 12, "S": width * depth**2 / 6, "depth": depth, "width": width}
+
+
+def round_bar(diameter: float) -> dict[str, float]:
+    """Solid circle d (m): A = pi d^2/4, I = pi d^4/64, S = pi d^3/32 (REFERENCES.md)."""
+    return {"A": math.pi * diameter**2 / 4, "I": math.pi * diameter**4 / 64, "S": math.pi * diameter**3 / 32,
+            "depth": diameter, "width": diameter}
+
+
+def round_tube(diameter: float, thickness: float) -> dict[str, float]:
+    """Circular tube D x t (m): the solid circle less its bore, I = pi (D^4 - d^4)/64, S = 2I/D
+    (any mechanics of materials text, from memory)."""
+    bore = diameter - 2 * thickness
+    inertia = math.pi * (diameter**4 - bore**4) / 64
+    return {"A": math.pi * (diameter**2 - bore**2) / 4, "I": inertia, "S": 2 * inertia / diameter, "depth": diameter, "width": diameter}
+
+
+def self_weight(section: dict[str, float]) -> float:
+    """Weight per length (N/m): density x A x g."""
+    return DENSITY * section["A"] * GRAVITY
+
+
+def udl_bending_utilization(section: dict[str, float], w: float, span: float) -> float:
+    """Simply supported beam, uniform w (N/m): M max = wL^2/8 at midspan (AISC Table 3-23, from
+    memory); peak stress M/S against the bending allowable."""
+    return w * span**2 / 8 / section["S"] / BENDING_ALLOWABLE
+
+
+def udl_deflection_utilization(section: dict[str, float], w: float, span: float, limit: float) -> float:
+    """Simply supported beam, uniform w (N/m): deflection 5wL^4/(384EI) (AISC Table 3-23, from
+    memory) against span / limit."""
+    return 5 * w * span**4 / (384 * E_STEEL * section["I"]) / (span / limit)
+
+
+def udl_shear_utilization(section: dict[str, float], w: float, span: float) -> float:
+    """Simply supported beam, uniform w: V = wL/2 at the supports (AISC Table 3-23, from memory);
+    rectangle peak shear 1.5 V/A (REFERENCES.md) against the shear allowable."""
+    return 1.5 * (w * span / 2) / section["A"] / SHEAR_ALLOWABLE
+
+
+def lightest_passing(sections: dict[str, dict[str, float]], utilization: Callable[[dict[str, float]], float]) -> str | None:
+    """The name of the section of least area whose closed-form utilization is at most 1 (None: none)."""
+    values = {name: utilization(section) for name, section in sections.items()}
+    assert all(abs(value - 1.0) > MARGIN for value in values.values()), values  # the data keep clear of the limit
+    passing = [name for name, value in values.items() if value <= 1.0]
+    return min(passing, key=lambda name: sections[name]["A"]) if passing else None
+
+
+# ----------------------------------------------------------------------------------------------
+# catalogues: one pool of geometries
+
+def bars(sizes_mm: dict[str, tuple[float, float]], family: str = "bar") -> Entries:
+    """Rectangle entries from name -> (width, depth) in mm."""
+    return {name: ("rectangle", {"depth": f"{d:g} mm", "width": f"{b:g} mm"}, family) for name, (b, d) in sizes_mm.items()}
+
+
+def rods(diameters_mm: dict[str, float], family: str = "rod") -> Entries:
+    return {name: ("round", {"diameter": f"{d:g} mm"}, family) for name, d in diameters_mm.items()}
+
+
+def bar_forms(sizes_mm: dict[str, tuple[float, float]]) -> dict[str, dict[str, float]]:
+    return {name: rectangle(b * MM, d * MM) for name, (b, d) in sizes_mm.items()}
+
+
+STRENGTH_BARS = {"B 20x50": (20, 50), "B 20x60": (20, 60), "B 60x30": (60, 30), "B 30x60": (30, 60), "B 20x70": (20, 70), "B 40x60": (40, 60)}
+DEFLECTION_BARS = {"B 20x70": (20, 70), "B 20x80": (20, 80), "B 20x90": (20, 90), "B 40x60": (40, 60)}
+SELF_WEIGHT_BARS = {"B 20x70": (20, 70), "B 20x80": (20, 80), "B 20x90": (20, 90), "B 40x60": (40, 60)}
+NOTHING_BARS = {"B 20x50": (20, 50), "B 30x60": (30, 60), "B 20x80": (20, 80), "B 40x60": (40, 60)}
+FAMILY_FORMS = {"FL 60x30": rectangle(60 * MM, 30 * MM), "FL 60x40": rectangle(60 * MM, 40 * MM), "SQ 40x50": rectangle(40 * MM, 50 * MM),
+                "RD 40": round_bar(40 * MM), "RD 50": round_bar(50 * MM)}
+BIAXIAL_FORMS = {"RD 40": round_bar(40 * MM), "PIPE 60x2": round_tube(60 * MM, 2 * MM)}
+
+MIXED_SHAPES: Entries = {
+    **bars({"B 20x50": (20, 50), "B 30x60": (30, 60), "B 40x60": (40, 60)}),
+    **rods({"RD 40": 40, "RD 50": 50}),
+    "BOX 60x40x3": ("rectangular_tube", {"depth": "60 mm", "width": "40 mm", "thickness": "3 mm", "outer_radius": "6 mm"}, "box"),
+    "BOX 80x40x4": ("rectangular_tube", {"depth": "80 mm", "width": "40 mm", "thickness": "4 mm", "outer_radius": "8 mm"}, "box"),
+    "BOX 100x60x4": ("rectangular_tube", {"depth": "100 mm", "width": "60 mm", "thickness": "4 mm", "outer_radius": "8 mm"}, "box"),
+    "PIPE 60x4": ("round_tube", {"diameter": "60 mm", "thickness": "4 mm"}, "pipe"),
+    "PIPE 89x5": ("round_tube", {"diameter": "89 mm", "thickness": "5 mm"}, "pipe"),
+    "I 100x50": ("i_beam", {"depth": "100 mm", "width": "50 mm", "flange_thickness": "6 mm", "web_thickness": "4 mm", "root_radius": "6 mm"}, "i"),
+    "C 100x50": ("channel", {"depth": "100 mm", "width": "50 mm", "flange_thickness": "7 mm", "web_thickness": "5 mm", "root_radius": "7 mm"}, "channel"),
+}
+
+STOCKS: dict[str, Entries] = {
+    "strength": bars(STRENGTH_BARS),
+    "deflection": bars(DEFLECTION_BARS),
+    "self_weight": bars(SELF_WEIGHT_BARS),
+    "nothing": bars(NOTHING_BARS),
+    "families": {**bars({"FL 60x30": (60, 30), "FL 60x40": (60, 40), "SQ 40x50": (40, 50)}, family="flat"), **rods({"RD 40": 40, "RD 50": 50})},
+    "biaxial": {**rods({"RD 40": 40}), "PIPE 60x2": ("round_tube", {"diameter": "60 mm", "thickness": "2 mm"}, "pipe")},
+    "mixed": MIXED_SHAPES,
+}
+
+
+def catalogue_text(sections: Entries) -> str:
+    """A catalogue file: the material, then one [[sections]] entry per section."""
+    entries = [MATERIAL]
+    for name, (shape, dims, family) in sections.items():
+        lines = [f'name = "{name}"', f'shape = "{shape}"', f'family = "{family}"']
+        lines += [f'{key} = "{value}"' for key, value in dims.items()]
+        entries.append("[[sections]]\n" + "\n".join(lines) + "\n")
+    return "\n".join(entries)
+
+
+@pytest.fixture(scope="module")
+def stocks(tmp_path_factory: pytest.TempPathFactory) -> dict[str, Path]:
+    """A catalogue folder per entry of STOCKS, with every geometry built into the session's cache
+    (the folder tests/conftest.py names) in one parallel build."""
+    folders = {}
+    for name, sections in STOCKS.items():
+        folder = tmp_path_factory.mktemp(name)
+        (folder / "stock.toml").write_text(catalogue_text(sections), encoding="utf-8")
+        folders[name] = folder
+    with pytest.MonkeyPatch.context() as patch:
+        patch.setenv("SIZER_CACHE_DIR", str(tmp_path_factory.getbasetemp() / "section-cache"))
+        build_catalogue([spec for folder in folders.values() for spec in load_catalogue([folder]).sections.values()])
+    return folders
+
+
+# ----------------------------------------------------------------------------------------------
+# member files and runs
+
+def simple_beam(span: float, w: float, *, self_weight_case: str | None = None, deflection_limit: float | None = None,
+                orientation: str = "major", wz: float = 0.0) -> str:
+    """A member file: pin at 0, roller at L, uniform w (N/m, along -y) and wz (N/m, along +z) in case "imposed"."""
+    sw = f'"{self_weight_case}"' if self_weight_case else "false"
+    text = f"""
+[member]
+length = "{span} m"
+material = "steel"
+orientation = "{orientation}"
+self_weight = {sw}
+
+[[supports]]
+at = "0 m"
+type = "pin"
+
+[[supports]]
+at = "{span} m"
+type = "roller"
+
+[[loads]]
+type = "line"
+case = "imposed"
+wy = "{-w} N/m"
+wz = "{wz} N/m"
+"""
+    if deflection_limit is not None:
+        text += f"\n[checks]\ndeflection_limit = {deflection_limit:g}\n"
+    return text
+
+
+def write_member(folder: Path, text: str, name: str = "member.toml") -> Path:
+    path = folder / name
+    path.write_text(text, encoding="utf-8")
+    return path
+
+
+def run(*args: object):
+    """The CLI in-process, on a wide terminal so that no line of the summary wraps."""
+    return CliRunner().invoke(app, [str(arg) for arg in args], env={"COLUMNS": "250"})
+
+
+def size_json(member: Path, catalogue: Path, *options: object) -> tuple[int, dict]:
+    result = run("size", member, "--catalogue", catalogue, "--json", *options)
+    assert result.exit_code in (0, 1), result.stdout + result.stderr
+    return result.exit_code, json.loads(result.stdout)
+
+
+def check_json(member: Path, catalogue: Path, section: str) -> tuple[int, dict]:
+    result = run("check", member, "--catalogue", catalogue, "--section", section, "--json")
+    assert result.exit_code in (0, 1), result.stdout + result.stderr
+    return result.exit_code, json.loads(result.stdout)
+
+
+def named_check(document: dict, name: str) -> dict:
+    return next(entry for entry in document["checks"] if entry["check"] == name)
+
+
+def candidate(document: dict, name: str) -> dict:
+    return next(entry for entry in document["candidates"] if entry["section"] == name)
+
+
+# ----------------------------------------------------------------------------------------------
+# closed-form answers
+
+def test_strength_governs_lightest_bar_with_enough_modulus(stocks: dict[str, Path], tmp_path: Path) -> None:
+    span, w = 2.0, 5.0 * KN
+    sections = bar_forms(STRENGTH_BARS)
+    expected = lightest_passing(sections, lambda s: udl_bending_utilization(s, w, span))
+    assert expected == "B 20x70"  # wL^2/8 = 2.5 kN*m needs S >= 15.2 cm^3; 20x70 gives 16.3 (bh^2/6)
+    code, document = size_json(write_member(tmp_path, simple_beam(span, w)), stocks["strength"])
+    assert code == 0 and document["passes"] is True
+    assert document["section"] == expected and document["governing"] == "bending"
+    chosen = sections[expected]
+    assert document["utilization"] == pytest.approx(udl_bending_utilization(chosen, w, span), rel=MESH_TOLERANCE)
+    assert named_check(document, "bending")["at"] == pytest.approx(span / 2)  # midspan (AISC Table 3-23)
+    assert named_check(document, "shear")["utilization"] == pytest.approx(udl_shear_utilization(chosen, w, span), rel=MESH_TOLERANCE)
+    assert document["mass_per_length"] == pytest.approx(DENSITY * chosen["A"], rel=1e-9)  # rho b h
+    lighter = [c for c in document["candidates"] if sections[c["section"]]["A"] < chosen["A"]]
+    assert {c["section"] for c in lighter} == {"B 20x50", "B 20x60"}
+    for entry in lighter:
+        assert entry["passes"] is False and entry["governing"] == "bending"
+        assert entry["utilization"] == pytest.approx(udl_bending_utilization(sections[entry["section"]], w, span), rel=MESH_TOLERANCE)
+
+
+def test_max_depth_and_width_limit_the_choice(stocks: dict[str, Path], tmp_path: Path) -> None:
+    span, w = 2.0, 5.0 * KN
+    member = write_member(tmp_path, simple_beam(span, w))
+    shallow = {name: s for name, s in bar_forms(STRENGTH_BARS).items() if s["depth"] <= 65 * MM}
+    expected = lightest_passing(shallow, lambda s: udl_bending_utilization(s, w, span))
+    assert expected == "B 30x60"  # S = 18 cm^3; "B 60x30" has the same mass but S = 9 cm^3
+    code, document = size_json(member, stocks["strength"], "--max-depth", "65 mm")
+    assert code == 0 and document["section"] == expected
+    assert {c["section"] for c in document["candidates"]} <= set(shallow)
+    narrow = {name: s for name, s in shallow.items() if s["width"] <= 25 * MM}
+    assert lightest_passing(narrow, lambda s: udl_bending_utilization(s, w, span)) is None  # 20x50 and 20x60 only
+    code, document = size_json(member, stocks["strength"], "--max-depth", "65 mm", "--max-width", "25 mm")
+    assert code == 1 and document["passes"] is False and document["section"] is None
+    assert {c["section"] for c in document["candidates"]} == set(narrow)
+
+
+def test_deflection_governs(stocks: dict[str, Path], tmp_path: Path) -> None:
+    span, w, limit = 3.0, 1.6 * KN, 360  # span/360 (REFERENCES.md, building code practice)
+    sections = bar_forms(DEFLECTION_BARS)
+
+    def worst(section: dict[str, float]) -> float:
+        return max(udl_bending_utilization(section, w, span), udl_deflection_utilization(section, w, span, limit))
+
+    expected = lightest_passing(sections, worst)
+    assert expected == "B 20x90"
+    assert udl_bending_utilization(sections["B 20x80"], w, span) < 1.0  # the lighter bar is strong enough but too flexible
+    code, document = size_json(write_member(tmp_path, simple_beam(span, w, deflection_limit=limit)), stocks["deflection"])
+    assert code == 0 and document["section"] == expected and document["governing"] == "deflection"
+    deflection = named_check(document, "deflection")
+    assert deflection["demand"] == pytest.approx(5 * w * span**4 / (384 * E_STEEL * sections[expected]["I"]), rel=MESH_TOLERANCE)
+    assert deflection["allowable"] == pytest.approx(span / limit)
+    assert deflection["at"] == pytest.approx(span / 2)
+    failing = candidate(document, "B 20x80")
+    assert failing["passes"] is False and failing["governing"] == "deflection"
+    assert failing["utilization"] == pytest.approx(udl_deflection_utilization(sections["B 20x80"], w, span, limit), rel=MESH_TOLERANCE)
+
+
+def test_self_weight_tips_the_choice(stocks: dict[str, Path], tmp_path: Path) -> None:
+    span, w, limit = 4.0, 500.0, 360
+    sections = bar_forms(SELF_WEIGHT_BARS)
+
+    def worst(section: dict[str, float], with_weight: bool) -> float:
+        load = w + (self_weight(section) if with_weight else 0.0)
+        return max(udl_bending_utilization(section, load, span), udl_deflection_utilization(section, load, span, limit))
+
+    without = lightest_passing(sections, lambda s: worst(s, False))
+    with_weight = lightest_passing(sections, lambda s: worst(s, True))
+    assert (without, with_weight) == ("B 20x80", "B 20x90")  # 20x80: 0.88 without its own weight, 1.10 with it
+    code, document = size_json(write_member(tmp_path, simple_beam(span, w, deflection_limit=limit), "bare.toml"), stocks["self_weight"])
+    assert code == 0 and document["section"] == without
+    assert document["utilization"] == pytest.approx(worst(sections[without], False), rel=MESH_TOLERANCE)
+    member = write_member(tmp_path, simple_beam(span, w, self_weight_case="dead", deflection_limit=limit), "weighed.toml")
+    code, document = size_json(member, stocks["self_weight"])
+    assert code == 0 and document["section"] == with_weight
+    assert document["utilization"] == pytest.approx(worst(sections[with_weight], True), rel=MESH_TOLERANCE)
+    tipped = candidate(document, without)
+    assert tipped["passes"] is False and tipped["governing"] == "deflection"
+    assert tipped["utilization"] == pytest.approx(worst(sections[without], True), rel=MESH_TOLERANCE)
+
+
+@pytest.mark.parametrize(("options", "kept", "expected"), [
+    ((), ("FL 60x30", "FL 60x40", "SQ 40x50", "RD 40", "RD 50"), "RD 50"),  # a round is lighter than every passing flat
+    (("--family", "flat"), ("FL 60x30", "FL 60x40", "SQ 40x50"), "SQ 40x50"),
+    (("--family", "flat", "--family", "rod"), ("FL 60x30", "FL 60x40", "SQ 40x50", "RD 40", "RD 50"), "RD 50"),
+    (("--max-width", "45 mm"), ("SQ 40x50", "RD 40"), "SQ 40x50"),
+    (("--max-depth", "45 mm"), ("FL 60x30", "FL 60x40", "RD 40"), "FL 60x40"),
+])
+def test_families_and_size_limits(stocks: dict[str, Path], tmp_path: Path, options: tuple[str, ...], kept: tuple[str, ...], expected: str) -> None:
+    span, w = 2.0, 3.6 * KN
+    sections = {name: FAMILY_FORMS[name] for name in kept}
+    assert lightest_passing(sections, lambda s: udl_bending_utilization(s, w, span)) == expected
+    code, document = size_json(write_member(tmp_path, simple_beam(span, w)), stocks["families"], *options)
+    assert code == 0 and document["section"] == expected
+    assert {c["section"] for c in document["candidates"]} <= set(kept)
+    assert document["utilization"] == pytest.approx(udl_bending_utilization(sections[expected], w, span), rel=MESH_TOLERANCE)
+
+
+@pytest.mark.parametrize("families", [("rods",), ("flat", "rods")])
+def test_unknown_family_is_bad_input(stocks: dict[str, Path], tmp_path: Path, families: tuple[str, ...]) -> None:
+    """SPEC section 8: bad input gets one line naming the key and the fix, exit 2. A mistyped family
+    ("rods" for "rod") must not quietly narrow the search to the other families given."""
+    options = [part for family in families for part in ("--family", family)]
+    result = run("size", write_member(tmp_path, simple_beam(2.0, 3.6 * KN)), "--catalogue", stocks["families"], *options)
+    assert result.exit_code == 2, result.stdout
+    lines = result.stderr.strip().splitlines()
+    assert len(lines) == 1 and "--family" in lines[0] and "rods" in lines[0]
+    assert result.stdout == ""
+
+
+def test_minor_orientation_uses_the_other_axis_and_the_installed_depth(stocks: dict[str, Path], tmp_path: Path) -> None:
+    """orientation = "minor": the section turns a quarter turn, so a b x h entry bends with S = h b^2/6
+    (the rectangle's other axis, REFERENCES.md), and --max-depth limits the installed depth, which is
+    the catalogue width."""
+    span, w = 2.0, 3.6 * KN
+    turned = {"FL 60x30": rectangle(30 * MM, 60 * MM), "FL 60x40": rectangle(40 * MM, 60 * MM),  # width and depth swap
+              "SQ 40x50": rectangle(50 * MM, 40 * MM), "RD 40": round_bar(40 * MM), "RD 50": round_bar(50 * MM)}
+    member = write_member(tmp_path, simple_beam(span, w, orientation="minor"))
+    expected = lightest_passing(turned, lambda s: udl_bending_utilization(s, w, span))
+    assert expected == "FL 60x30"  # on edge: S = 30 x 60^2 / 6 = 18 cm^3 (lying flat it fails, above)
+    code, document = size_json(member, stocks["families"])
+    assert code == 0 and document["section"] == expected
+    assert document["utilization"] == pytest.approx(udl_bending_utilization(turned[expected], w, span), rel=MESH_TOLERANCE)
+    shallow = {name: s for name, s in turned.items() if s["depth"] <= 45 * MM}
+    expected = lightest_passing(shallow, lambda s: udl_bending_utilization(s, w, span))
+    assert expected == "SQ 40x50"
+    code, document = size_json(member, stocks["families"], "--max-depth", "45 mm")
+    assert code == 0 and document["section"] == expected
+    assert document["utilization"] == pytest.approx(udl_bending_utilization(shallow[expected], w, span), rel=MESH_TOLERANCE)
+
+
+def test_nothing_passes_names_the_strongest_and_its_governing_check(stocks: dict[str, Path], tmp_path: Path) -> None:
+    span, w, limit = 3.0, 6.0 * KN, 360
+    sections = bar_forms(NOTHING_BARS)
+
+    def utilizations(section: dict[str, float]) -> dict[str, float]:
+        load = w + self_weight(section)
+        return {"bending": udl_bending_utilization(section, load, span), "deflection": udl_deflection_utilization(section, load, span, limit),
+                "shear": udl_shear_utilization(section, load, span)}
+
+    assert lightest_passing(sections, lambda s: max(utilizations(s).values())) is None
+    strongest = min(sections, key=lambda name: max(utilizations(sections[name]).values()))
+    assert strongest == "B 20x80"  # stiffer than the heavier 40x60 (I = bh^3/12)
+    values = utilizations(sections[strongest])
+    governing = max(values, key=values.get)
+    assert governing == "deflection"
+    member = write_member(tmp_path, simple_beam(span, w, self_weight_case="dead", deflection_limit=limit))
+    code, document = size_json(member, stocks["nothing"])
+    assert code == 1 and document["passes"] is False and document["section"] is None
+    assert document["strongest"]["section"] == strongest and document["strongest"]["governing"] == governing
+    assert document["strongest"]["utilization"] == pytest.approx(values[governing], rel=MESH_TOLERANCE)
+    assert [c["section"] for c in document["candidates"]] == sorted(sections, key=lambda name: sections[name]["A"])
+    assert all(c["passes"] is False for c in document["candidates"])
+    result = run("size", member, "--catalogue", stocks["nothing"])
+    assert result.exit_code == 1
+    text = " ".join(result.stdout.split())
+    assert "No section passes" in text and f"{strongest} fails {governing}" in text
+
+
+def test_strongest_is_the_least_utilized_even_when_the_screen_rejected_it(stocks: dict[str, Path], tmp_path: Path) -> None:
+    """Equal loads along -y and +z: resultant w sqrt(2). A round has the same S and I in every
+    direction, so its bending and deflection follow from the resultant (REFERENCES.md: S = pi d^3/32,
+    deflection 5wL^4/(384EI)). The solid round fails deflection only (1.11); the thin pipe passes
+    deflection but fails bending (1.17). The round is the strongest the catalogue has."""
+    span, w, limit = 2.0, 1.4 * KN, 135
+    resultant = w * math.sqrt(2)
+
+    def utilizations(section: dict[str, float]) -> dict[str, float]:
+        return {"bending": udl_bending_utilization(section, resultant, span), "deflection": udl_deflection_utilization(section, resultant, span, limit)}
+
+    values = {name: utilizations(section) for name, section in BIAXIAL_FORMS.items()}
+    assert lightest_passing(BIAXIAL_FORMS, lambda s: max(utilizations(s).values())) is None
+    assert values["RD 40"]["bending"] < 1.0 < values["RD 40"]["deflection"] < values["PIPE 60x2"]["bending"]
+    assert values["PIPE 60x2"]["deflection"] < 1.0
+    member = write_member(tmp_path, simple_beam(span, w, deflection_limit=limit, wz=w))
+    code, document = size_json(member, stocks["biaxial"])
+    assert code == 1
+    assert candidate(document, "RD 40")["utilization"] == pytest.approx(values["RD 40"]["deflection"], rel=MESH_TOLERANCE)
+    assert candidate(document, "PIPE 60x2")["utilization"] == pytest.approx(values["PIPE 60x2"]["bending"], rel=MESH_TOLERANCE)
+    assert document["strongest"]["section"] == "RD 40"
+    assert document["strongest"]["governing"] == "deflection"
+
+
+# ----------------------------------------------------------------------------------------------
+# the answer is what `sizer check` says
+
+BEAM_COLUMN = """
+[member]
+length = "2.4 m"
+material = "steel"
+orientation = "{orientation}"
+
+[[supports]]
+at = "0 m"
+type = "pin"
+
+[[supports]]
+at = "2.4 m"
+type = "roller"
+
+[[loads]]
+type = "line"
+case = "dead"
+wy = "-0.8 kN/m"
+
+[[loads]]
+type = "line"
+case = "imposed"
+wy = "-2.5 kN/m"
+
+[[loads]]
+type = "point"
+case = "imposed"
+at = "2.4 m"
+fx = "-15 kN"
+
+[[loads]]
+type = "line"
+case = "wind"
+wz = "0.6 kN/m"
+
+[combinations]
+"dead + imposed" = {{ dead = 1.0, imposed = 1.0 }}
+"dead + imposed + wind" = {{ dead = 1.0, imposed = 0.75, wind = 0.75 }}
+"dead + wind" = {{ dead = 1.0, wind = 1.0 }}
+
+[checks]
+deflection_limit = 250
+"""
+
+POST = """
+[member]
+length = "3 m"
+material = "steel"
+gravity = "-x"
+
+[[supports]]
+at = "0 m"
+type = "fixed"
+
+[[loads]]
+type = "point"
+case = "imposed"
+at = "3 m"
+fx = "-12 kN"
+fy = "0.6 kN"
+
+[[loads]]
+type = "line"
+case = "wind"
+wz = "0.5 kN/m"
+
+[[loads]]
+type = "moment"
+case = "wind"
+at = "3 m"
+mx = "0.05 kN*m"
+
+[combinations]
+"dead + imposed" = { dead = 1.0, imposed = 1.0 }
+"dead + wind" = { dead = 1.0, wind = 1.0 }
+
+[checks]
+deflection_limit = 150
+buckling_length_major = "6 m"
+buckling_length_minor = "6 m"
+"""
+
+SPRUNG_OVERHANG = """
+[member]
+length = "4 m"
+material = "steel"
+
+[[supports]]
+at = "0 m"
+type = "fixed"
+
+[[supports]]
+at = "1 m"
+type = "roller"
+
+[[supports]]
+at = "3 m"
+type = "roller"
+springs = { uy = "1.5 kN/mm" }
+
+[[hinges]]
+at = "1.5 m"
+
+[[loads]]
+type = "line"
+case = "imposed"
+wy = "-2 kN/m"
+wy_end = "-1 kN/m"
+
+[[loads]]
+type = "point"
+case = "imposed"
+at = "4 m"
+fy = "-0.5 kN"
+fx = "3 kN"
+
+[combinations]
+"factored" = { dead = 1.35, imposed = 1.5 }
+"service" = { dead = 1.0, imposed = 1.0 }
+
+[checks]
+deflection_limit = 200
+deflection_combinations = ["service"]
+"""
+
+AGREEMENT_MEMBERS = {
+    "beam-column": BEAM_COLUMN.format(orientation="major"),
+    "beam-column, minor": BEAM_COLUMN.format(orientation="minor"),
+    "post with torque": POST,
+    "springs, hinge, overhang": SPRUNG_OVERHANG,
+}
+
+
+@pytest.mark.parametrize("variant", list(AGREEMENT_MEMBERS))
+def test_size_agrees_with_check_on_every_section(stocks: dict[str, Path], tmp_path: Path, variant: str) -> None:
+    """`sizer check --section` on every catalogue section is the reference (common practice: the
+    lightest section that passes every check is the answer). --top 1 leaves lighter sections to
+    the screen, whose rejections must also be failures in `sizer check`."""
+    member = write_member(tmp_path, AGREEMENT_MEMBERS[variant])
+    code, sized = size_json(member, stocks["mixed"], "--top", "1")
+    checked = {}
+    for name in MIXED_SHAPES:
+        check_code, document = check_json(member, stocks["mixed"], name)
+        assert check_code == (0 if document["passes"] else 1)
+        checked[name] = document
+    by_mass = sorted(checked, key=lambda name: (checked[name]["mass_per_length"], name))
+    lightest = next((name for name in by_mass if checked[name]["passes"]), None)
+    assert sized["section"] == lightest
+    assert code == (0 if lightest else 1)
+    masses = [entry["mass_per_length"] for entry in sized["candidates"]]
+    assert masses == sorted(masses)
+    full = [entry for entry in sized["candidates"] if entry["basis"] == "full stress field"]
+    assert full, "at least the choice rests on the full field"
+    for entry in sized["candidates"]:
+        reference = checked[entry["section"]]
+        assert entry["mass_per_length"] == pytest.approx(reference["mass_per_length"], rel=SAME)
+        if entry["basis"] == "full stress field":
+            assert entry["passes"] is reference["passes"]
+            assert entry["utilization"] == pytest.approx(reference["utilization"], rel=SAME)
+            assert entry["governing"] == reference["governing"]
+        else:  # rejected by an exact part of the screen (axial, buckling or deflection)
+            assert reference["passes"] is False
+            exact = named_check(reference, entry["governing"])
+            assert entry["utilization"] == pytest.approx(exact["utilization"], rel=SAME)
+    listed = {entry["section"] for entry in sized["candidates"]}
+    if lightest is not None:
+        assert sized["utilization"] == pytest.approx(checked[lightest]["utilization"], rel=SAME)
+        assert sized["checks"] == checked[lightest]["checks"]
+        assert listed >= set(by_mass[:by_mass.index(lightest)])  # every lighter section, with why it fails
+    else:
+        assert listed == set(by_mass)
+
+
+def test_lighter_sections_are_listed_with_their_governing_check(stocks: dict[str, Path], tmp_path: Path) -> None:
+    """SPEC section 6: candidates "include the lighter sections that fail, with their governing
+    check". The governing check is the one `sizer check` names; a section rejected by the screen's
+    exact part must not be listed with a lesser check and a lower utilization than it really has."""
+    member = write_member(tmp_path, AGREEMENT_MEMBERS["beam-column"])
+    _, sized = size_json(member, stocks["mixed"], "--top", "1")
+    for entry in sized["candidates"]:
+        _, reference = check_json(member, stocks["mixed"], entry["section"])
+        assert entry["governing"] == reference["governing"], entry["section"]
+        assert entry["utilization"] == pytest.approx(reference["utilization"], rel=SAME), entry["section"]
