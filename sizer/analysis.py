@@ -7,9 +7,13 @@ Method. A straight member splits into four uncoupled 1-D problems:
 - bending in x-y: uy and rz = duy/dx, rigidity EIz, loads fy, mz and wy;
 - bending in x-z: uz and ry = -duz/dx, rigidity EIy, loads fz, my and wz.
 
-Each is solved by the stiffness method with nodes at both ends, every support, hinge, point load
-and line-load start and end, and exact (fixed-end) nodal loads for linearly varying line loads, so
-the nodal values are exact for Euler-Bernoulli theory. The x-z problem is solved as an x-y problem
+Each is solved by the stiffness method with nodes at both ends, every support and every hinge.
+Point loads and (partial, linearly varying) line loads between nodes enter through their exact
+fixed-end forces, written with singularity (Macaulay) functions, so the nodal values are exact for
+Euler-Bernoulli theory. (Nodes at load positions as well would be no more exact, and a node very
+close to another makes a very stiff short element whose stiffness swamps the long element next to
+it in floating point: k_short + k_long == k_short once the gap is below about 1e-5 of the span.)
+The x-z problem is solved as an x-y problem
 in (uz, theta = duz/dx) with the moment my entering as -my (it does work on ry = -theta).
 An internal hinge releases My and Mz: its node has separate rotation freedoms on each side in both
 bending problems. A support at a hinge holds the hinge pin, so its ry/rz restraints and rotational
@@ -23,8 +27,8 @@ of the left segment (SPEC section 2): N, Vy, Vz, T, My, Mz, with
     Mz = -sum mz - sum (a - x) fy,  My = -sum my + sum (a - x) fz.
 Beam convention for x-y loading: V = -Vy, M = Mz (sagging positive).
 
-Displacements inside an element: Hermite cubic from the nodal values plus the fixed-fixed particular
-solution for the element's linear line load (quintic in bending, cubic in axial and twist).
+Displacements inside an element: Hermite cubic (linear for axial and twist) from the nodal values
+plus the fixed-fixed particular solution of the element's loads, in singularity functions.
 
 Load combinations are superpositions of the solved cases; self weight is one unit (1 N/m) case
 scaled by mass per length * GRAVITY and the combination's factor on the self-weight case.
@@ -217,12 +221,10 @@ def _merge_positions(positions: np.ndarray, tol: float) -> np.ndarray:
     return np.array(kept)
 
 
-def _layout(member: Member, loads: Sequence[Load]) -> _Layout:
-    """Nodes at ends, supports, hinges, point loads and line-load ends."""
+def _layout(member: Member) -> _Layout:
+    """Nodes at the ends, supports and hinges."""
     length, tol = member.length, _tolerance(member)
     xs = [0.0, length] + [s.at for s in member.supports] + [h.at for h in member.hinges]
-    for load in loads:
-        xs += [load.at] if isinstance(load, PointLoad) else [load.start, load.end]
     nodes = _merge_positions(np.clip(np.array(xs, dtype=float), 0.0, length), tol)
     nodes[0], nodes[-1] = 0.0, length
     layout = _Layout(length, tol, nodes, np.zeros(len(nodes), bool), np.zeros(len(nodes), bool), np.zeros(0, int))
@@ -245,6 +247,7 @@ class _Problem:
     node i (bending; equal except at a split hinge), or `translation[i]` only (axial, torsion)."""
 
     name: str  # "axial", "torsion", "xy", "xz"
+    rigidity: float  # EA, GJ, EIz or EIy
     moving: tuple[str, ...]  # freedom names of the member: translation[, rotation]
     stiffness: np.ndarray  # (n, n) member stiffness (springs not included)
     held: np.ndarray  # (n,) bool: rigidly restrained
@@ -268,7 +271,6 @@ class _Problem:
 # which freedoms of a support belong to which problem, and in which problem component
 _PROBLEM_FREEDOMS = {"axial": ("ux", None), "torsion": ("rx", None), "xy": ("uy", "rz"), "xz": ("uz", "ry")}
 _RIGIDITY = {"axial": "EA", "torsion": "GJ", "xy": "EIz", "xz": "EIy"}
-_LINE_COMPONENT = {"axial": 0, "torsion": 3, "xy": 1, "xz": 2}  # index into (wx, wy, wz, mx)
 _POINT_COMPONENT = {"axial": (0, None), "torsion": (3, None), "xy": (1, 5), "xz": (2, 4)}  # (force, moment) in 6-vectors
 _MOMENT_SIGN = {"xy": 1.0, "xz": -1.0}  # theta = rz in x-y; theta = -ry in x-z
 
@@ -423,7 +425,7 @@ def _build_problem(name: str, member: Member, layout: _Layout, rigidity: float) 
         matrix = _bar_stiffness(layout.lengths, rigidity)
         held, springs = held_t, spring_t
     modes = _modes_on_freedoms(layout, params, (translation, rot_left, rot_right), size, bending)
-    return _Problem(name, (main,) + ((rotation,) if rotation else ()), matrix, held, springs, modes, parts, params,
+    return _Problem(name, rigidity, (main,) + ((rotation,) if rotation else ()), matrix, held, springs, modes, parts, params,
                     translation, rot_left, rot_right)
 
 
@@ -439,35 +441,116 @@ def _build_problems(member: Member, layout: _Layout, stiffness: Stiffness) -> di
 # loads on the nodes
 
 
-def _element_line_loads(layout: _Layout, lines: _Lines) -> tuple[np.ndarray, np.ndarray]:
-    """(ne, 4) intensities of (wx, wy, wz, mx) at the start and end of each element (line loads
-    start and end on nodes, so each element is either wholly loaded by a line load or not)."""
-    x1, x2 = layout.nodes[:-1], layout.nodes[1:]
-    mid = (x1 + x2) / 2
-    cover = ((mid[:, None] > lines.start[None, :]) & (mid[:, None] < lines.end[None, :])).astype(float)
-    base = cover @ (lines.q0 - lines.slope * lines.start[:, None])
-    slope = cover @ lines.slope
-    return base + x1[:, None] * slope, base + x2[:, None] * slope
+@dataclass(frozen=True)
+class _Terms:
+    """The loads between nodes as singularity-function terms, element by element.
+
+    Term i acts in element `element[i]` at local position `at[i]` (m from the element start) with
+    order `power[i]`: the load resultant on [0, s] of the element is sum coef <s - at>^power / power!
+    (power 0: point force; 1: uniform line load from `at` on; 2: line load rising from `at` on with
+    slope coef; -1: a couple, which adds only to the moment). Columns of `coef` are the problems in
+    _PROBLEM_ORDER: axial force, torque, force along y, force along z; a couple's coefficient is
+    -mz in the x-y column and +my in the x-z column (moment about the cut = sum of coef <s - at>^0)."""
+
+    element: np.ndarray
+    at: np.ndarray
+    power: np.ndarray
+    coef: np.ndarray
+
+    def values(self, s: np.ndarray, elements: np.ndarray, shift: int) -> np.ndarray:
+        """(n, 4) sum over the terms in elements[j] of coef <s_j - at>^(power + shift) / (power + shift)!:
+        shift 0: load resultant; 1: its moment about s (or, for bars, its integral); 2, 3: further
+        integrals from the element start."""
+        order = self.power[None, :] + shift
+        gap = s[:, None] - self.at[None, :]
+        inside = (self.element[None, :] == elements[:, None]) & (gap > 0) & (order >= 0)
+        powers = np.where(inside, np.maximum(gap, 0.0) ** np.maximum(order, 0) / _FACTORIAL[np.maximum(order, 0)], 0.0)
+        return powers @ self.coef
 
 
-def _load_vector(problem: _Problem, layout: _Layout, points: _Points, qa: np.ndarray, qb: np.ndarray) -> np.ndarray:
-    """Nodal load vector (size,) of one problem: point loads plus exact fixed-end line-load forces."""
+_PROBLEM_ORDER: tuple[str, ...] = ("axial", "torsion", "xy", "xz")
+_FACTORIAL = np.array([1.0, 1.0, 2.0, 6.0, 24.0, 120.0])
+
+
+def _case_terms(layout: _Layout, loads: Sequence[Load]) -> tuple[np.ndarray, _Terms]:
+    """Point loads on nodes (m, 6) and the singularity terms of the loads between nodes."""
+    nodal = np.zeros((len(layout.nodes), 6))
+    element, at, power, coef = [], [], [], []
+
+    def add(e: int, position: float, order: int, values: np.ndarray) -> None:
+        element.append(e)
+        at.append(position)
+        power.append(order)
+        coef.append(values)
+
+    x = layout.nodes
+    for load in loads:
+        if isinstance(load, PointLoad):
+            values = np.array(tuple(load.force) + tuple(load.moment), dtype=float)
+            node = int(layout.node_of(np.array([load.at]))[0])
+            if abs(x[node] - load.at) <= layout.tol:
+                nodal[node] += values
+                continue
+            e = int(np.searchsorted(x, load.at) - 1)
+            add(e, load.at - x[e], 0, values[[0, 3, 1, 2]])
+            add(e, load.at - x[e], -1, np.array([0.0, 0.0, -values[5], values[4]]))
+            continue
+        if load.end <= load.start:
+            continue
+        q0, q1 = np.array(load.q_start, dtype=float), np.array(load.q_end, dtype=float)
+        slope = ((q1 - q0) / (load.end - load.start))[[0, 3, 1, 2]]
+        for e in np.flatnonzero((x[1:] > load.start) & (x[:-1] < load.end)):
+            lo, hi = max(load.start, x[e]), min(load.end, x[e + 1])
+            q_lo = (q0 + (q1 - q0) * (lo - load.start) / (load.end - load.start))[[0, 3, 1, 2]]
+            q_hi = q_lo + slope * (hi - lo)
+            add(e, lo - x[e], 1, q_lo)
+            add(e, lo - x[e], 2, slope)
+            add(e, hi - x[e], 1, -q_hi)
+            add(e, hi - x[e], 2, -slope)
+    terms = _Terms(np.array(element, dtype=int), np.array(at, dtype=float), np.array(power, dtype=int),
+                   np.array(coef, dtype=float).reshape(-1, 4))
+    return nodal, terms
+
+
+def _fixed_end_forces(layout: _Layout, terms: _Terms) -> np.ndarray:
+    """(ne, 4 problems, 4) forces that rigid clamps at both element ends exert on the element under
+    its loads: (R0, C0, R1, C1) at the start and end (bending, in the x-y form; x-z in theta), or
+    (R0, 0, R1, 0) for axial and torsion. Bending: with v(0) = v'(0) = 0, the end conditions
+    v'(l) = v(l) = 0 on EI v'' = M(s) = -C0 + R0 s + (moment of the loads about s) give
+    R0 = 12 (F3 - F2 l / 2) / l^3 and C0 = (R0 l^2 / 2 + F2) / l; equilibrium gives the far end.
+    Bars: u(l) = 0 on EA u' = -R0 - (load resultant) gives R0 = -F1 / l."""
+    le = layout.lengths
+    elements = np.arange(len(le))
+    f0, f1, f2, f3 = (terms.values(le, elements, shift) for shift in range(4))
+    out = np.zeros((len(le), 4, 4))
+    l = le[:, None]
+    r0 = 12 * (f3 - f2 * l / 2) / l**3
+    c0 = (r0 * l**2 / 2 + f2) / l
+    bar_r0 = -f1 / l
+    for column, name in enumerate(_PROBLEM_ORDER):
+        if name in ("xy", "xz"):
+            out[:, column] = np.stack([r0[:, column], c0[:, column], -r0[:, column] - f0[:, column],
+                                       -c0[:, column] + le * r0[:, column] + f1[:, column]], axis=1)
+        else:
+            out[:, column, 0] = bar_r0[:, column]
+            out[:, column, 2] = -bar_r0[:, column] - f0[:, column]
+    return out
+
+
+def _load_vector(problem: _Problem, nodal: np.ndarray, fixed: np.ndarray) -> np.ndarray:
+    """Nodal load vector (size,) of one problem: loads on nodes plus the element loads as minus
+    their fixed-end forces."""
     vector = np.zeros(problem.size)
     force_col, moment_col = _POINT_COMPONENT[problem.name]
-    nodes = layout.node_of(points.at) if len(points.at) else np.zeros(0, int)
-    np.add.at(vector, problem.translation[nodes], points.forces[:, force_col])
-    le = layout.lengths
-    component = _LINE_COMPONENT[problem.name]
-    a, b = qa[:, component], qb[:, component]
+    forces = fixed[:, _PROBLEM_ORDER.index(problem.name)]
+    vector[problem.translation] += nodal[:, force_col]
     if problem.bending:
-        np.add.at(vector, problem.rot_left[nodes], _MOMENT_SIGN[problem.name] * points.forces[:, moment_col])
+        np.add.at(vector, problem.rot_left, _MOMENT_SIGN[problem.name] * nodal[:, moment_col])
         dofs = _element_freedoms(problem.translation, problem.rot_left, problem.rot_right)
-        equivalent = np.stack([le * (7 * a + 3 * b) / 20, le**2 * (3 * a + 2 * b) / 60,
-                               le * (3 * a + 7 * b) / 20, -(le**2) * (2 * a + 3 * b) / 60], axis=1)
-        np.add.at(vector, dofs, equivalent)
+        np.add.at(vector, dofs, -forces)
     else:
-        np.add.at(vector, problem.translation[:-1], le * (2 * a + b) / 6)
-        np.add.at(vector, problem.translation[1:], le * (a + 2 * b) / 6)
+        np.add.at(vector, problem.translation[:-1], -forces[:, 0])
+        np.add.at(vector, problem.translation[1:], -forces[:, 2])
     return vector
 
 
@@ -575,8 +658,8 @@ class _Field:
     w: np.ndarray
     theta_left: np.ndarray
     theta_right: np.ndarray
-    qa: np.ndarray  # (ne, 4) (wx, wy, wz, mx) at element starts
-    qb: np.ndarray  # (ne, 4) at element ends
+    terms: _Terms
+    fixed: np.ndarray  # (ne, 4, 4) fixed-end forces, see _fixed_end_forces
     stiffness: Stiffness
     tol: float
 
@@ -610,25 +693,38 @@ def _hermite(xi: np.ndarray, le: np.ndarray, v1, t1, v2, t2) -> tuple[np.ndarray
     return value, slope
 
 
-def _beam_particular(xi: np.ndarray, le: np.ndarray, qa: np.ndarray, qb: np.ndarray, rigidity: float) -> tuple[np.ndarray, np.ndarray]:
-    """Fixed-fixed deflection and slope of EI v'''' = q, q linear from qa to qb over the element."""
-    def shape(s):  # load rising from 0 to 1 over the element
-        return s * s * (s**3 - 3 * s + 2) / 120
-
-    def shape_slope(s):
-        return (5 * s**4 - 9 * s * s + 4 * s) / 120
-
-    value = le**4 / rigidity * (qa * shape(1 - xi) + qb * shape(xi))
-    slope = le**3 / rigidity * (-qa * shape_slope(1 - xi) + qb * shape_slope(xi))
+def _particular(field: _Field, e: np.ndarray, s: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """Fixed-fixed solutions at local positions s of elements e under the element loads: (n, 4)
+    values (ux, rx, uy, uz) and (n, 4) slopes (-, -, duy/dx, duz/dx). Bending:
+    EI v = -C0 s^2 / 2 + R0 s^3 / 6 + F3(s); bars: EA u = -R0 s - F1(s)."""
+    k = field.stiffness
+    rigidity = np.array([k.EA, k.GJ, k.EIz, k.EIy])
+    f1, f2, f3 = (field.terms.values(s, e, shift) for shift in (1, 2, 3))
+    r0, c0 = field.fixed[e, :, 0], field.fixed[e, :, 1]
+    col = s[:, None]
+    value = np.where([False, False, True, True], -c0 * col**2 / 2 + r0 * col**3 / 6 + f3, -r0 * col - f1) / rigidity
+    slope = (-c0 * col + r0 * col**2 / 2 + f2) / rigidity
     return value, slope
 
 
-def _bar_particular(xi: np.ndarray, le: np.ndarray, qa: np.ndarray, qb: np.ndarray, rigidity: float) -> np.ndarray:
-    """Fixed-fixed solution of rigidity u'' = -q, q linear from qa to qb over the element."""
-    def shape(s):
-        return s * (1 - s * s) / 6
-
-    return le**2 / rigidity * (qa * shape(1 - xi) + qb * shape(xi))
+def _section_actions(items: _Points, lines: _Lines, xs: np.ndarray, right: np.ndarray, tol: float) -> np.ndarray:
+    """(n, 6) N, Vy, Vz, T, My, Mz on the +x face of the left segment [0, x]: minus the resultant of
+    the concentrated items (at a < x, or a <= x where `right`) and line loads on it, moments taken
+    about the cut: Mz = -sum mz - sum (a - x) Fy, My = -sum my + sum (a - x) Fz."""
+    at = items.at
+    cut = np.where(right[:, None], at[None, :] <= xs[:, None] + tol, at[None, :] < xs[:, None] - tol).astype(float)
+    sums = cut @ items.forces  # (n, 6)
+    first = cut @ (at[:, None] * items.forces[:, :3])  # (n, 3): sum of a * F
+    if len(lines.start):
+        u = np.clip(xs[:, None], lines.start[None, :], lines.end[None, :]) - lines.start[None, :]
+        u2, u3 = u * u / 2, u**3 / 3
+        sums[:, :4] += u @ lines.q0 + u2 @ lines.slope
+        first += (u @ (lines.start[:, None] * lines.q0) + u2 @ (lines.start[:, None] * lines.slope + lines.q0) + u3 @ lines.slope)[:, :3]
+    out = np.empty((xs.size, 6))
+    out[:, :4] = -sums[:, :4]
+    out[:, 4] = -sums[:, 4] + first[:, 2] - xs * sums[:, 2]
+    out[:, 5] = -sums[:, 5] - first[:, 1] + xs * sums[:, 1]
+    return out + 0.0  # no negative zeros
 
 
 class CaseSolution:
@@ -646,7 +742,6 @@ class CaseSolution:
         self._lines = lines
         self._field = field
         self._tol = tol
-        self._first_moments = self._items.at[:, None] * self._items.forces[:, :3]
 
     def point_items(self) -> tuple[np.ndarray, np.ndarray]:
         """Concentrated items: point loads (in the order given) then reactions (support order).
@@ -663,24 +758,7 @@ class CaseSolution:
         """(n, 6) N, Vy, Vz, T, My, Mz (N, N*m) on the +x face of the left segment at each x, by the
         method of sections. side "left": concentrated items at x excluded; "right": included."""
         xs = _as_stations(x, self.length, self._tol)
-        right = _right_side(side, xs.size)
-        at = self._items.at
-        cut = np.where(right[:, None], at[None, :] <= xs[:, None] + self._tol, at[None, :] < xs[:, None] - self._tol).astype(float)
-        sums = cut @ self._items.forces  # (n, 6)
-        first = cut @ self._first_moments  # (n, 3): sum of a * F
-        lines = self._lines
-        if len(lines.start):
-            u = np.clip(xs[:, None], lines.start[None, :], lines.end[None, :]) - lines.start[None, :]
-            u2, u3 = u * u / 2, u**3 / 3
-            resultant = u @ lines.q0 + u2 @ lines.slope
-            moment = (u @ (lines.start[:, None] * lines.q0) + u2 @ (lines.start[:, None] * lines.slope + lines.q0) + u3 @ lines.slope)
-            sums[:, :4] += resultant
-            first += moment[:, :3]
-        out = np.empty((xs.size, 6))
-        out[:, :4] = -sums[:, :4]
-        out[:, 4] = -sums[:, 4] + first[:, 2] - xs * sums[:, 2]
-        out[:, 5] = -sums[:, 5] - first[:, 1] + xs * sums[:, 1]
-        return out
+        return _section_actions(self._items, self._lines, xs, _right_side(side, xs.size), self._tol)
 
     def displacements(self, x: ArrayLike, side: str | ArrayLike = "right") -> np.ndarray:
         """(n, 6) ux, uy, uz (m) and rx, ry, rz (rad) at each x; side matters only for rotations at
@@ -693,47 +771,100 @@ class CaseSolution:
         count = np.where(right, np.searchsorted(f.nodes, xs + f.tol, "right"), np.searchsorted(f.nodes, xs - f.tol, "left"))
         e = np.clip(count - 1, 0, len(f.nodes) - 2)
         le = f.nodes[e + 1] - f.nodes[e]
-        xi = (xs - f.nodes[e]) / le
-        qa, qb = f.qa[e], f.qb[e]
-        k = f.stiffness
+        s = np.clip(xs - f.nodes[e], 0.0, le)
+        xi = s / le
+        value, slope = _particular(f, e, s)
         out = np.empty((xs.size, 6))
-        out[:, 0] = f.axial[e] * (1 - xi) + f.axial[e + 1] * xi + _bar_particular(xi, le, qa[:, 0], qb[:, 0], k.EA)
-        out[:, 3] = f.twist[e] * (1 - xi) + f.twist[e + 1] * xi + _bar_particular(xi, le, qa[:, 3], qb[:, 3], k.GJ)
+        out[:, 0] = f.axial[e] * (1 - xi) + f.axial[e + 1] * xi + value[:, 0]
+        out[:, 3] = f.twist[e] * (1 - xi) + f.twist[e + 1] * xi + value[:, 1]
         v, rz = _hermite(xi, le, f.v[e], f.rz_right[e], f.v[e + 1], f.rz_left[e + 1])
-        pv, prz = _beam_particular(xi, le, qa[:, 1], qb[:, 1], k.EIz)
         w, theta = _hermite(xi, le, f.w[e], f.theta_right[e], f.w[e + 1], f.theta_left[e + 1])
-        pw, ptheta = _beam_particular(xi, le, qa[:, 2], qb[:, 2], k.EIy)
-        out[:, 1], out[:, 5] = v + pv, rz + prz
-        out[:, 2], out[:, 4] = w + pw, -(theta + ptheta)
-        return out
+        out[:, 1], out[:, 5] = v + value[:, 2], rz + slope[:, 2]
+        out[:, 2], out[:, 4] = w + value[:, 3], -(theta + slope[:, 3])
+        return out + 0.0
 
 
 # ----------------------------------------------------------------------------------------------
 # solving cases
 
 
-def _reaction_values(problem: _Problem, displacement: np.ndarray, loads: np.ndarray) -> np.ndarray:
-    """Support reactions on the problem's freedoms (size, c): K u - F on held freedoms, -k u on
-    sprung ones, zero elsewhere. Moments in the problem's own sign (theta)."""
-    residual = problem.stiffness @ displacement - loads
-    out = np.zeros_like(displacement)
-    out[problem.held] = residual[problem.held]
-    sprung = problem.springs > 0
-    out[sprung] = -problem.springs[sprung, None] * displacement[sprung]
+def _element_start_actions(problem: _Problem, layout: _Layout, u: np.ndarray, fixed: np.ndarray, elements: np.ndarray) -> np.ndarray:
+    """(len(elements), 2) internal (force, moment) actions of the problem just right of each element's
+    start node, from the force the node exerts on the element: k u + fixed-end force (N, N*m; the
+    global sign of the action, My for the x-z problem)."""
+    le = layout.lengths[elements]
+    forces = fixed[elements, _PROBLEM_ORDER.index(problem.name)]
+    out = np.zeros((len(elements), 2))
+    if problem.bending:
+        dofs = _element_freedoms(problem.translation, problem.rot_left, problem.rot_right)[elements]
+        ke = _beam_element_matrices(le, problem.rigidity)
+        end_forces = np.einsum("eij,ej->ei", ke[:, :2, :], u[dofs]) + forces[:, :2]
+        out[:, 0] = -end_forces[:, 0]
+        out[:, 1] = -_MOMENT_SIGN[problem.name] * end_forces[:, 1]
+    else:
+        nodes = problem.translation
+        out[:, 0] = -(problem.rigidity / le * (u[nodes[elements]] - u[nodes[elements + 1]]) + forces[:, 0])
     return out
 
 
-def _support_reactions(problems: dict[str, _Problem], layout: _Layout, values: dict[str, np.ndarray], column: int) -> np.ndarray:
-    """(n_supports, 6) reactions Fx, Fy, Fz, Mx, My, Mz for one load column."""
-    reactions = np.zeros((len(layout.support_nodes), 6))
+def _active_supports(problem: _Problem, layout: _Layout) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Supports acting in this problem, by position: indices, and whether each holds (rigidly or by
+    a spring) the translation and the rotation."""
     nodes = layout.support_nodes
-    reactions[:, 0] = values["axial"][problems["axial"].translation[nodes], column]
-    reactions[:, 3] = values["torsion"][problems["torsion"].translation[nodes], column]
-    reactions[:, 1] = values["xy"][problems["xy"].translation[nodes], column]
-    reactions[:, 2] = values["xz"][problems["xz"].translation[nodes], column]
-    for name, col in (("xy", 5), ("xz", 4)):  # rotations at hinges are released: zero there
-        reactions[:, col] = _MOMENT_SIGN[name] * values[name][problems[name].rot_left[nodes], column]
-    return reactions
+    holds = problem.held | (problem.springs > 0)
+    translation = holds[problem.translation[nodes]]
+    rotation = holds[problem.rot_left[nodes]] if problem.bending else np.zeros(len(nodes), bool)
+    active = np.flatnonzero(translation | rotation)
+    active = active[np.argsort(layout.nodes[nodes[active]], kind="stable")]
+    return active, translation[active], rotation[active]
+
+
+def _problem_reactions(problem: _Problem, layout: _Layout, u: np.ndarray, loads: tuple[_Points, _Lines], fixed: np.ndarray,
+                       positions: np.ndarray) -> np.ndarray:
+    """(n_supports, 2) reactions (force, moment) of each support in this problem.
+
+    Computed by statics, bay by bay: between two neighbouring acting supports, the actions just
+    right of the start of the bay's longest element (from its end forces, well conditioned) give
+    the resultant of all reactions to its left; before the first support it is zero and after the
+    last it balances the loads. Each reaction is the difference of neighbouring resultants. (The
+    residual K u - F would lose digits on short elements.)"""
+    out = np.zeros((len(positions), 2))
+    active, holds_translation, holds_rotation = _active_supports(problem, layout)
+    if not len(active):
+        return out
+    force_col, moment_col = _POINT_COMPONENT[problem.name]
+    nodes = layout.support_nodes[active]
+    starts, stops = nodes[:-1], nodes[1:]
+    lengths = layout.lengths
+    longest = np.array([start + int(np.argmax(lengths[start:stop])) for start, stop in zip(starts, stops)], dtype=int)
+    xs = np.concatenate([layout.nodes[longest], [layout.length]])
+    elastic = np.vstack([_element_start_actions(problem, layout, u, fixed, longest), np.zeros((1, 2))])
+    from_loads = _section_actions(*loads, xs, np.ones(xs.size, bool), layout.tol)
+    columns = [force_col] + ([moment_col] if moment_col is not None else [])
+    of_reactions = elastic[:, : len(columns)] - from_loads[:, columns]
+    force = np.concatenate([[0.0], -of_reactions[:, 0]])  # resultant force of the reactions left of each bay
+    reaction_force = np.diff(force)
+    out[active, 0] = np.where(holds_translation, reaction_force, 0.0)
+    if moment_col is not None:
+        # moment about the origin of the reactions left of each bay: -M(x) + x F (Mz) or -M(x) - x F (My)
+        lever = 1.0 if moment_col == 5 else -1.0
+        moment = np.concatenate([[0.0], -of_reactions[:, 1] + lever * xs * force[1:]])
+        reaction_moment = np.diff(moment) - lever * positions[active] * reaction_force
+        out[active, 1] = np.where(holds_rotation, reaction_moment, 0.0)
+    return out
+
+
+def _reactions(problems: dict[str, _Problem], layout: _Layout, displacement: dict[str, np.ndarray], column: int,
+               loads: tuple[_Points, _Lines], fixed: np.ndarray, positions: np.ndarray) -> np.ndarray:
+    """(n_supports, 6) reactions Fx, Fy, Fz, Mx, My, Mz of each support for one load column."""
+    reactions = np.zeros((len(positions), 6))
+    for name, problem in problems.items():
+        values = _problem_reactions(problem, layout, displacement[name][:, column], loads, fixed, positions)
+        force_col, moment_col = _POINT_COMPONENT[name]
+        reactions[:, force_col] = values[:, 0]
+        if moment_col is not None:
+            reactions[:, moment_col] = values[:, 1]
+    return reactions + 0.0
 
 
 @dataclass
@@ -747,15 +878,15 @@ class _Solved:
 def _solve_columns(member: Member, load_sets: Sequence[Sequence[Load]], names: Sequence[str], stiffness: Stiffness | None) -> _Solved:
     """Solve several load sets on one member with one factorization per problem."""
     _check_geometry(member)
-    all_loads = [load for loads in load_sets for load in loads]
-    _check_loads(member, all_loads)
+    _check_loads(member, [load for loads in load_sets for load in loads])
     _check_springs_need_stiffness(member, stiffness)
-    layout = _layout(member, all_loads)
+    layout = _layout(member)
     problems = _build_problems(member, layout, stiffness or Stiffness.unit())
     points = [_points_of(loads) for loads in load_sets]
     lines = [_lines_of(loads) for loads in load_sets]
-    element_loads = [_element_line_loads(layout, ln) for ln in lines]
-    columns = {name: np.column_stack([_load_vector(problem, layout, p, qa, qb) for p, (qa, qb) in zip(points, element_loads)])
+    terms = [_case_terms(layout, loads) for loads in load_sets]
+    fixed = [_fixed_end_forces(layout, element_terms) for _, element_terms in terms]
+    columns = {name: np.column_stack([_load_vector(problem, nodal, f) for (nodal, _), f in zip(terms, fixed)])
                if load_sets else np.zeros((problem.size, 0)) for name, problem in problems.items()}
     errors: list[InputError | None] = []
     for column, case in enumerate(names):
@@ -763,7 +894,6 @@ def _solve_columns(member: Member, load_sets: Sequence[Sequence[Load]], names: S
                     if (driven := _engaged_modes(problem, columns[name][:, column], layout.length)) is not None]
         errors.append(_mechanism_error(member, case, findings, layout) if findings else None)
     displacement = {name: _solve_free(problem, columns[name]) for name, problem in problems.items()}
-    values = {name: _reaction_values(problem, displacement[name], columns[name]) for name, problem in problems.items()}
     positions = np.array([s.at for s in member.supports], dtype=float)
     solutions: list[CaseSolution | None] = []
     for column, case in enumerate(names):
@@ -772,14 +902,14 @@ def _solve_columns(member: Member, load_sets: Sequence[Sequence[Load]], names: S
             continue
         field = None
         if stiffness is not None:
-            field = _field(problems, layout, displacement, column, element_loads[column], stiffness)
-        reactions = _support_reactions(problems, layout, values, column)
+            field = _field(problems, layout, displacement, column, terms[column][1], fixed[column], stiffness)
+        reactions = _reactions(problems, layout, displacement, column, (points[column], lines[column]), fixed[column], positions)
         solutions.append(CaseSolution(case, member.length, positions, reactions, points[column], lines[column], field, layout.tol))
     return _Solved(solutions, errors)
 
 
 def _field(problems: dict[str, _Problem], layout: _Layout, displacement: dict[str, np.ndarray], column: int,
-           element_loads: tuple[np.ndarray, np.ndarray], stiffness: Stiffness) -> _Field:
+           terms: _Terms, fixed: np.ndarray, stiffness: Stiffness) -> _Field:
     """Nodal displacements of one column for interpolation."""
     def at(name: str, freedoms: np.ndarray) -> np.ndarray:
         return displacement[name][freedoms, column]
@@ -788,7 +918,7 @@ def _field(problems: dict[str, _Problem], layout: _Layout, displacement: dict[st
     return _Field(layout.nodes, at("axial", problems["axial"].translation), at("torsion", problems["torsion"].translation),
                   at("xy", xy.translation), at("xy", xy.rot_left), at("xy", xy.rot_right),
                   at("xz", xz.translation), at("xz", xz.rot_left), at("xz", xz.rot_right),
-                  element_loads[0], element_loads[1], stiffness, layout.tol)
+                  terms, fixed, stiffness, layout.tol)
 
 
 def solve_case(member: Member, loads: Sequence[Load], stiffness: Stiffness | None, case: str = "") -> CaseSolution:

@@ -129,24 +129,23 @@ class StationStresses:
 
 
 def full_field_stresses(actions: np.ndarray, unit_field: Any, area: float) -> StationStresses:
-    """Peak stresses over the mesh nodes at each (combination, station); actions in section axes."""
+    """Peak stresses over the mesh nodes at each (combination, station); actions in section axes.
+    Each block of stations is one matrix product per stress component: (n, 3) @ (3, nodes)."""
     flat = actions.reshape(-1, 6)
-    sigma, tau = np.asarray(unit_field.sigma), np.asarray(unit_field.tau)
-    nodes = sigma.shape[1]
-    rows = max(1, CHUNK_VALUES // max(nodes, 1))
-    bending = np.empty(len(flat))
-    shear = np.empty(len(flat))
-    equivalent = np.empty(len(flat))
+    sigma = np.asarray(unit_field.sigma)  # (3, p): N, My, Mz
+    tau = np.asarray(unit_field.tau)  # (3, p, 2): Vy, Vz, T
+    tau_y, tau_z = np.ascontiguousarray(tau[..., 0]), np.ascontiguousarray(tau[..., 1])
+    rows = max(1, CHUNK_VALUES // max(sigma.shape[1], 1))
+    bending, shear, equivalent = (np.empty(len(flat)) for _ in range(3))
     for start in range(0, len(flat), rows):
         part = flat[start:start + rows]
-        bend = part[:, 4:5] * sigma[1] + part[:, 5:6] * sigma[2]
+        bend = part[:, 4:6] @ sigma[1:3]
         normal = bend + part[:, 0:1] * sigma[0]
-        tau_y = part[:, 1:2] * tau[0, :, 0] + part[:, 2:3] * tau[1, :, 0] + part[:, 3:4] * tau[2, :, 0]
-        tau_z = part[:, 1:2] * tau[0, :, 1] + part[:, 2:3] * tau[1, :, 1] + part[:, 3:4] * tau[2, :, 1]
-        tau_sq = tau_y**2 + tau_z**2
-        bending[start:start + rows] = np.abs(bend).max(axis=1)
-        shear[start:start + rows] = np.sqrt(tau_sq.max(axis=1))
-        equivalent[start:start + rows] = np.sqrt((normal**2 + 3.0 * tau_sq).max(axis=1))
+        shear_sq = (part[:, 1:4] @ tau_y) ** 2 + (part[:, 1:4] @ tau_z) ** 2
+        block = slice(start, start + len(part))
+        bending[block] = np.abs(bend).max(axis=1)
+        shear[block] = np.sqrt(shear_sq.max(axis=1))
+        equivalent[block] = np.sqrt((normal * normal + 3.0 * shear_sq).max(axis=1))
     shape = actions.shape[:2]
     return StationStresses(actions[..., 0] / area, bending.reshape(shape), shear.reshape(shape), equivalent.reshape(shape))
 

@@ -5,7 +5,22 @@ from __future__ import annotations
 
 import os
 import tempfile
+from functools import lru_cache
 from pathlib import Path
+
+
+def cache_root() -> Path:
+    """The folder for sizer's caches: $SIZER_CACHE_DIR, else the user's cache folder (platformdirs)."""
+    return Path(_cache_root(os.environ.get("SIZER_CACHE_DIR", "")))
+
+
+@lru_cache(maxsize=8)
+def _cache_root(override: str) -> str:
+    if override:
+        return override
+    import platformdirs
+
+    return platformdirs.user_cache_dir("sizer")
 
 
 def write_atomic(path: str | Path, data: bytes | str) -> None:

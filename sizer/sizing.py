@@ -3,15 +3,16 @@
 Speed by design:
 1. Superposition: each load case is solved once with unit rigidities, plus one unit self-weight
    solution. A section's actions are A_loads + m * A_unit_weight (m: its mass per length); its
-   displacements are the unit-rigidity ones divided by its own EA, EIz, EIy, GJ per component.
-   Exact without springs; with springs the forces depend on stiffness and each section is solved.
-2. Screen: all sections x combinations x stations at once with numpy, using conservative bounds
-   from the per-unit-action peak stresses (|sigma| <= sum |action_i| * peak_i). Axial, buckling and
-   deflection are exact in the screen.
-3. Confirm: the final choice, the runners-up shown, and every section the screen cannot decide
-   rest on the full stress-field check (checks.check_design), the same as `sizer check` gives.
-A section whose screen bound passes cannot fail the full check at the screen's stations; a section
-whose exact screen part (axial, buckling, deflection) fails cannot pass. Everything else is confirmed.
+   displacements are the unit-rigidity ones divided by its own EIz, EIy per component. Exact
+   without springs; with springs the forces depend on stiffness and each section is solved.
+2. Screen: every section x combination x station at once with numpy. Upper bounds of each stress
+   from the per-unit-action peaks (|sigma| <= sum |action_i| * peak_i); axial, buckling and
+   deflection are exact.
+3. Lower bound: where the upper bound says "fails", the full stress field at the screen's worst
+   stations (stations the full check also uses) gives a true lower bound of the full check; above
+   1.0 the section certainly fails.
+4. Confirm: the choice, the runners-up shown, and every section the bounds cannot decide rest on
+   the full stress-field check (checks.check_design), the same as `sizer check`.
 """
 
 from __future__ import annotations
@@ -21,14 +22,15 @@ from typing import Any, Sequence
 
 import numpy as np
 
-from sizer.analysis import MemberSolution, solve_member
-from sizer.checks import CheckReport, buckling_axes, check_design, check_stations, critical_stress, member_actions, spans, to_section_axes
+from sizer.analysis import solve_member, stations
+from sizer.checks import (CheckReport, StationStresses, check_design, critical_stress, full_field_stresses, spans,
+                          to_section_axes)
 from sizer.design import Design, oriented_stiffness
 from sizer.errors import InputError
 from sizer.model import Material, Member, Stiffness
-from sizer.units import GRAVITY
 
-EXACT_IN_SCREEN = ("axial", "buckling", "deflection")
+SCREEN_CHUNK = 2_000_000  # section x combination x station values screened at once
+STRESS_CHECKS = ("bending", "interaction", "shear", "equivalent")
 
 
 @dataclass
@@ -39,12 +41,11 @@ class Candidate:
     spec: Any
     props: Any
     mass_per_length: float
-    screen_utilization: float = 0.0  # conservative upper bound over every check
-    screen_governing: str = ""
-    exact_utilization: float = 0.0  # exact checks of the screen (axial, buckling, deflection)
-    exact_governing: str = ""
+    upper: dict[str, float] = field(default_factory=dict)  # check -> upper bound of its utilization
+    lower: dict[str, float] = field(default_factory=dict)  # check -> proven lower bound (exact for axial, buckling, deflection)
+    worst: dict[str, tuple[int, int]] = field(default_factory=dict)  # check -> (combination, station) of the upper bound
+    buckling_stress: float = np.inf  # Pa, smallest flexural buckling stress of the principal axes
     report: CheckReport | None = None  # full check, where made
-    design: Design | None = None
 
     @property
     def decided_by(self) -> str:
@@ -52,19 +53,30 @@ class Candidate:
 
     @property
     def passes(self) -> bool:
-        if self.report is not None:
-            return self.report.passes
-        return False
+        return self.report.passes if self.report is not None else False
+
+    @property
+    def screen_utilization(self) -> float:
+        return max(self.upper.values(), default=0.0)
+
+    @property
+    def lower_bound(self) -> tuple[str, float]:
+        """(check, utilization) of the largest proven lower bound."""
+        return max(self.lower.items(), key=lambda item: item[1], default=("", 0.0))
+
+    @property
+    def certainly_fails(self) -> bool:
+        return self.report is None and self.lower_bound[1] > 1.0
 
     @property
     def utilization(self) -> float:
-        return self.report.utilization if self.report is not None else self.exact_utilization
+        return self.report.utilization if self.report is not None else self.lower_bound[1]
 
     @property
     def governing(self) -> str:
-        if self.report is not None and self.report.governing is not None:
-            return self.report.governing.check
-        return self.exact_governing
+        if self.report is not None:
+            return self.report.governing.check if self.report.governing is not None else ""
+        return self.lower_bound[0]
 
 
 @dataclass
@@ -73,9 +85,12 @@ class SizingResult:
     material: Material
     candidates: list[Candidate]  # every candidate after filters, by mass per length
     chosen: Candidate | None
-    strongest: Candidate | None = None  # when nothing passes: the best the catalogue has
+    strongest: Candidate | None = None  # when nothing passes: the least utilized on the full check
     notes: list[str] = field(default_factory=list)
-    full_checks: int = 0
+
+    @property
+    def full_checks(self) -> int:
+        return sum(1 for c in self.candidates if c.report is not None)
 
 
 # ----------------------------------------------------------------------------------------------
@@ -83,13 +98,11 @@ class SizingResult:
 
 def candidate_sections(catalogue: Any, member: Member, material: Material, families: Sequence[str],
                        max_depth: float | None, max_width: float | None) -> list[Candidate]:
-    """Catalogue sections after the filters, with properties (cached), sorted by mass per length."""
+    """Catalogue sections after the filters, with properties (cached), sorted by mass per length.
+    Depth and width are as installed (a minor orientation swaps them)."""
     from sizer.sections import section_properties_many
 
-    specs = [spec for spec in catalogue.sections.values() if not families or spec.family in families]
-    if not specs:
-        raise InputError("", "--family", "no catalogue section is in the families " + ", ".join(families),
-                         "use a family from `sizer sections list`, or drop --family")
+    specs = catalogue.select(families)
     properties = section_properties_many(specs, material.density)
     candidates = []
     for spec, props in zip(specs, properties):
@@ -117,124 +130,128 @@ def design_for(member: Member, material: Material, candidate: Candidate) -> Desi
     return Design(member, solution, material, candidate.spec, candidate.props, stiffness, candidate.mass_per_length)
 
 
+def full_check(member: Member, material: Material, candidate: Candidate) -> CheckReport:
+    """The full stress-field check of one candidate (the same as `sizer check`)."""
+    from sizer.sections import unit_stress_field
+
+    if candidate.report is None:
+        candidate.report = check_design(design_for(member, material, candidate), unit_stress_field(candidate.spec))
+    return candidate.report
+
+
 # ----------------------------------------------------------------------------------------------
 # screen
 
 @dataclass(frozen=True)
-class ScreenArrays:
-    """Per-section arrays for the screen (one entry per candidate)."""
+class ScreenData:
+    """What the screen needs, for all candidates and the shared stations."""
 
-    area: np.ndarray
-    mass: np.ndarray
-    sigma_peak: np.ndarray  # (s, 3) |sigma| per unit N, My, Mz (section axes)
-    tau_peak: np.ndarray  # (s, 3) |tau| per unit Vy, Vz, T
-    stiffness: np.ndarray  # (s, 4) EA, GJ, EIz, EIy
-    buckling_stress: np.ndarray  # (s,) smallest critical stress of the two principal axes
+    xs: np.ndarray
+    sides: np.ndarray
+    loads: np.ndarray  # (C, N, 6) actions from the loads alone, member axes
+    per_mass: np.ndarray  # (C, N, 6) actions per kg/m of self-weight
+    area: np.ndarray  # (S,)
+    mass: np.ndarray  # (S,)
+    sigma_peak: np.ndarray  # (S, 3) |sigma| per unit N, My, Mz (section axes)
+    tau_peak: np.ndarray  # (S, 3) |tau| per unit Vy, Vz, T
+    buckling_stress: np.ndarray  # (S,) smallest critical stress of the two principal axes
 
 
-def screen_arrays(candidates: list[Candidate], member: Member, material: Material) -> ScreenArrays:
+def screen_data(candidates: list[Candidate], member: Member, material: Material, base: Design, n_even: int) -> ScreenData:
+    """Actions at the section-independent stations (all of which the full check also uses)."""
     from sizer.sections import peak_unit_stresses
 
-    peaks = [peak_unit_stresses(c.spec) for c in candidates]
-    stiffness = [oriented_stiffness(c.props, material, member.orientation) for c in candidates]
-    buckling = []
-    for c in candidates:
-        lengths = (member.checks.buckling_length_major or member.length, member.checks.buckling_length_minor or member.length)
-        radii = (np.sqrt(c.props.I11 / c.props.area), np.sqrt(c.props.I22 / c.props.area))
-        buckling.append(min(critical_stress(l / r, material.elastic_modulus, material.yield_strength)[0] for l, r in zip(lengths, radii)))
-    return ScreenArrays(
-        area=np.array([c.props.area for c in candidates]),
-        mass=np.array([c.mass_per_length for c in candidates]),
-        sigma_peak=np.array([p[0] for p in peaks]),
-        tau_peak=np.array([p[1] for p in peaks]),
-        stiffness=np.array([[s.EA, s.GJ, s.EIz, s.EIy] for s in stiffness]),
-        buckling_stress=np.array(buckling),
-    )
-
-
-def screen(candidates: list[Candidate], member: Member, material: Material, base: Design, n_even: int = 200) -> None:
-    """Fill screen_utilization/governing (upper bounds) and exact_utilization/governing of each candidate."""
-    arrays = screen_arrays(candidates, member, material)
-    xs, sides = check_stations(base, n_even)
-    loads_actions, weight_actions = _split_actions(base, xs, sides)
-    allow = material.allowable
-    names, upper, exact = [], [], []
-    for s in range(len(candidates)):
-        actions = to_section_axes(loads_actions + arrays.mass[s] * weight_actions, member.orientation)
-        checks = _screen_one(actions, arrays, s, allow, member, material)
-        names = list(checks)
-        upper.append([checks[n][0] for n in names])
-        exact.append([checks[n][1] for n in names])
-    deflection = screen_deflection(candidates, member, base, arrays)
-    for s, candidate in enumerate(candidates):
-        values = dict(zip(names, upper[s]))
-        exacts = {n: e for n, e in zip(names, exact[s]) if e is not None}
-        if deflection is not None:
-            values["deflection"] = exacts["deflection"] = float(deflection[s])
-        candidate.screen_governing, candidate.screen_utilization = max(values.items(), key=lambda item: item[1])
-        if exacts:
-            candidate.exact_governing, candidate.exact_utilization = max(exacts.items(), key=lambda item: item[1])
-
-
-def _split_actions(base: Design, xs: np.ndarray, sides: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-    """Actions (n_comb, n_st, 6) from the loads alone, and per kg/m of self-weight."""
-    solution = base.solution
-    total_zero = np.empty((len(solution.combination_names), len(xs), 6))
-    total_one = np.empty_like(total_zero)
+    xs, sides = stations(member, n_even)
+    loads = np.empty((len(base.solution.combination_names), len(xs), 6))
+    with_unit_mass = np.empty_like(loads)
     for side in ("left", "right"):
         mask = sides == side
         if mask.any():
-            total_zero[:, mask] = solution.all_actions(xs[mask], side, mass_per_length=None)
-            total_one[:, mask] = solution.all_actions(xs[mask], side, mass_per_length=1.0)
-    return total_zero, total_one - total_zero
+            loads[:, mask] = base.solution.all_actions(xs[mask], side, mass_per_length=None)
+            with_unit_mass[:, mask] = base.solution.all_actions(xs[mask], side, mass_per_length=1.0)
+    peaks = [peak_unit_stresses(c.spec) for c in candidates]
+    lengths = (member.checks.buckling_length_major or member.length, member.checks.buckling_length_minor or member.length)
+    buckling = [min(critical_stress(length / np.sqrt(inertia / c.props.area), material.elastic_modulus, material.yield_strength)[0]
+                    for length, inertia in zip(lengths, (c.props.I11, c.props.I22))) for c in candidates]
+    return ScreenData(xs, sides, loads, with_unit_mass - loads,
+                      np.array([c.props.area for c in candidates]), np.array([c.mass_per_length for c in candidates]),
+                      np.array([p[0] for p in peaks]), np.array([p[1] for p in peaks]), np.array(buckling))
 
 
-def _screen_one(actions: np.ndarray, arrays: ScreenArrays, s: int, allow: Any, member: Member, material: Material) -> dict[str, tuple[float, float | None]]:
-    """Upper-bound and exact utilizations of one section: check -> (upper, exact or None)."""
-    area = arrays.area[s]
-    sp, tp = arrays.sigma_peak[s], arrays.tau_peak[s]
+def screen(candidates: list[Candidate], member: Member, material: Material, base: Design, n_even: int = 200) -> ScreenData:
+    """Upper bounds (and exact axial, buckling, deflection) for every candidate, in chunks of sections."""
+    data = screen_data(candidates, member, material, base, n_even)
+    per_section = data.loads.size // 6
+    chunk = max(1, SCREEN_CHUNK // max(per_section, 1))
+    for start in range(0, len(candidates), chunk):
+        block = slice(start, min(start + chunk, len(candidates)))
+        actions = to_section_axes(data.loads[None] + data.mass[block, None, None, None] * data.per_mass[None], member.orientation)
+        for name, (values, positions) in screen_block(actions, data, block, material, member).items():
+            for offset, candidate in enumerate(candidates[block]):
+                candidate.upper[name] = float(values[offset])
+                candidate.worst[name] = positions[offset]
+                if name in ("axial", "buckling"):
+                    candidate.lower[name] = float(values[offset])
+    for candidate, stress in zip(candidates, data.buckling_stress):
+        candidate.buckling_stress = float(stress)
+    deflection = screen_deflection(candidates, member, base, data)
+    if deflection is not None:
+        for candidate, value in zip(candidates, deflection):
+            candidate.upper["deflection"] = candidate.lower["deflection"] = float(value)
+    return data
+
+
+def _largest(values: np.ndarray) -> tuple[np.ndarray, list[tuple[int, int]]]:
+    """Per section (first axis) the largest value of a (S, C, N) array, and its (combination, station)."""
+    flat = values.reshape(len(values), -1)
+    index = flat.argmax(axis=1)
+    combos, points = np.unravel_index(index, values.shape[1:])
+    return flat[np.arange(len(flat)), index], list(zip(combos.tolist(), points.tolist()))
+
+
+def screen_block(actions: np.ndarray, data: ScreenData, block: slice, material: Material, member: Member) -> dict[str, tuple[np.ndarray, list]]:
+    """check -> (utilization bound per section, worst (combination, station)) for a block of sections.
+    Axial and buckling are exact; bending, shear, equivalent and interaction are upper bounds."""
+    allow = material.allowable
+    area = data.area[block, None, None]
+    sp, tp = data.sigma_peak[block, None, None, :], data.tau_peak[block, None, None, :]
     fa = actions[..., 0] / area
-    fb = np.abs(actions[..., 4]) * sp[1] + np.abs(actions[..., 5]) * sp[2]
-    fv = np.abs(actions[..., 1]) * tp[0] + np.abs(actions[..., 2]) * tp[1] + np.abs(actions[..., 3]) * tp[2]
-    out: dict[str, tuple[float, float | None]] = {}
-    tension, compression = np.maximum(fa, 0).max(), np.maximum(-fa, 0).max()
-    axial = max(tension / allow.tension if tension > 0 and allow.tension else 0.0,
-                compression / allow.compression if compression > 0 and allow.compression else 0.0)
-    out["axial"] = (axial, axial)
+    fb = np.abs(actions[..., 4]) * sp[..., 1] + np.abs(actions[..., 5]) * sp[..., 2]
+    fv = np.abs(actions[..., 1]) * tp[..., 0] + np.abs(actions[..., 2]) * tp[..., 1] + np.abs(actions[..., 3]) * tp[..., 2]
+    tension, compression = np.maximum(fa, 0.0), np.maximum(-fa, 0.0)
+    buckling_allow = data.buckling_stress[block, None, None] / member.checks.buckling_safety_factor
+    out = {"axial": _largest(np.maximum(tension / (allow.tension or np.inf), compression / (allow.compression or np.inf))),
+           "buckling": _largest(compression * area / (buckling_allow * area))}
     if allow.bending:
-        out["bending"] = (fb.max() / allow.bending, None)
+        out["bending"] = _largest(fb / allow.bending)
+        has_axial = np.abs(fa).max(axis=(1, 2)) > 0
+        interaction = tension / (allow.tension or np.inf) + compression / np.minimum(allow.compression or np.inf, buckling_allow) + fb / allow.bending
+        values, positions = _largest(interaction)
+        out["interaction"] = (np.where(has_axial, values, 0.0), positions)
     if allow.shear:
-        out["shear"] = (fv.max() / allow.shear, None)
+        out["shear"] = _largest(fv / allow.shear)
     if allow.equivalent:
-        out["equivalent"] = (np.sqrt((np.abs(fa) + fb) ** 2 + 3 * fv**2).max() / allow.equivalent, None)
-    factor = member.checks.buckling_safety_factor
-    buckling_allow = arrays.buckling_stress[s] / factor
-    buckling = compression / buckling_allow if compression > 0 else 0.0
-    out["buckling"] = (buckling, buckling)
-    if allow.bending and (tension > 0 or compression > 0):
-        fa_allow_c = min(allow.compression or np.inf, buckling_allow)
-        ratio = np.where(fa >= 0, fa / (allow.tension or np.inf), -fa / fa_allow_c) + fb / allow.bending
-        out["interaction"] = (ratio.max(), None)
-    return {name: (float(u), None if e is None else float(e)) for name, (u, e) in out.items()}
+        out["equivalent"] = _largest(np.sqrt((np.abs(fa) + fb) ** 2 + 3.0 * fv**2) / allow.equivalent)
+    return out
 
 
-def screen_deflection(candidates: list[Candidate], member: Member, base: Design, arrays: ScreenArrays, n: int = 201) -> np.ndarray | None:
-    """Exact deflection utilization of every candidate from the unit-rigidity solution (no springs)."""
+def screen_deflection(candidates: list[Candidate], member: Member, base: Design, data: ScreenData, n: int = 201) -> np.ndarray | None:
+    """Exact deflection utilization of every candidate from the unit-rigidity solution (no springs);
+    the same points and reference (chord between supports, or the overhang's support) as the check."""
     settings = member.checks
     if settings.deflection_limit is None:
         return None
     combos = list(settings.deflection_combinations or base.solution.combination_names)
     index = [base.solution.combination_names.index(name) for name in combos]
     overhang_limit = settings.deflection_limit_overhang or settings.deflection_limit / 2
+    stiffness = np.array([[s.EIz, s.EIy] for s in (oriented_stiffness(c.props, base.material, member.orientation) for c in candidates)])
     worst = np.zeros(len(candidates))
     for span in spans(member):
-        xs = np.linspace(span.start, span.end, n)
-        points = np.append(xs, span.base if span.overhang else span.start)
+        points = np.append(np.linspace(span.start, span.end, n), span.base if span.overhang else span.start)
         zero = base.solution.all_displacements(points, mass_per_length=None)[index][..., 1:3]
         unit = base.solution.all_displacements(points, mass_per_length=1.0)[index][..., 1:3] - zero
         relative_zero, relative_unit = _relative(zero, span), _relative(unit, span)
-        ei = arrays.stiffness[:, [2, 3]]  # EIz for uy, EIy for uz
-        moved = (relative_zero[None] + arrays.mass[:, None, None, None] * relative_unit[None]) / ei[:, None, None, :]
+        moved = (relative_zero[None] + data.mass[:, None, None, None] * relative_unit[None]) / stiffness[:, None, None, :]
         size = np.hypot(moved[..., 0], moved[..., 1]).max(axis=(1, 2))
         limit = overhang_limit if span.overhang else settings.deflection_limit
         worst = np.maximum(worst, size / (span.length / limit))
@@ -250,47 +267,88 @@ def _relative(moved: np.ndarray, span: Any) -> np.ndarray:
     return body - ((1 - t) * body[:, :1] + t * body[:, -1:])
 
 
-# ----------------------------------------------------------------------------------------------
-# search
-
-def full_check(member: Member, material: Material, candidate: Candidate) -> CheckReport:
-    """The full stress-field check of one candidate (the same as `sizer check`)."""
+def prove_lower_bounds(candidate: Candidate, data: ScreenData, member: Member, material: Material) -> None:
+    """The full stress field at the screen's worst stations of each stress check: true lower bounds of
+    the full check (it uses these stations too)."""
     from sizer.sections import unit_stress_field
 
-    if candidate.report is None:
-        candidate.design = design_for(member, material, candidate)
-        candidate.report = check_design(candidate.design, unit_stress_field(candidate.spec))
-    return candidate.report
+    allow = material.allowable
+    wanted = [name for name in STRESS_CHECKS if candidate.upper.get(name, 0.0) > 1.0]
+    if not wanted:
+        return
+    points = sorted({candidate.worst[name] for name in wanted})
+    actions = np.stack([data.loads[c, n] + candidate.mass_per_length * data.per_mass[c, n] for c, n in points])[None]
+    stress = full_field_stresses(to_section_axes(actions, member.orientation), unit_stress_field(candidate.spec), candidate.props.area)
+    for name in wanted:
+        k = points.index(candidate.worst[name])
+        candidate.lower[name] = _stress_utilization(name, stress, k, allow, candidate, member)
 
+
+def _stress_utilization(name: str, stress: StationStresses, k: int, allow: Any, candidate: Candidate, member: Member) -> float:
+    """Utilization of one stress check at station k of `stress` (same formulas as checks.py)."""
+    if name == "bending":
+        return float(stress.bending[0, k] / allow.bending)
+    if name == "shear":
+        return float(stress.shear[0, k] / allow.shear)
+    if name == "equivalent":
+        return float(stress.equivalent[0, k] / allow.equivalent)
+    fa = float(stress.axial[0, k])  # interaction: this station's fa and fb together
+    buckling = candidate.buckling_stress / member.checks.buckling_safety_factor
+    fa_allow = (allow.tension or np.inf) if fa >= 0 else min(allow.compression or np.inf, buckling)
+    return float(abs(fa) / fa_allow + stress.bending[0, k] / allow.bending)
+
+
+# ----------------------------------------------------------------------------------------------
+# search
 
 def size_member(member: Member, catalogue: Any, material: Material, families: Sequence[str] = (),
                 max_depth: float | None = None, max_width: float | None = None, top: int = 3) -> SizingResult:
     """The lightest candidate that passes every check on the full stress field, with runners-up."""
     candidates = candidate_sections(catalogue, member, material, families, max_depth, max_width)
-    notes = [f"{len(candidates)} candidate sections after filters, each with its own self-weight, in material {material.name} (the member's)."]
+    notes = [f"{len(candidates)} candidate sections after filters, each with its own self-weight, in material "
+             f"{material.name} (the member's)."]
     if has_springs(member):
         for candidate in candidates:
             full_check(member, material, candidate)
         notes.append("Spring supports: forces depend on stiffness, so every candidate was solved and checked in full.")
+        data = None
     else:
         base = Design(member, solve_member(member, Stiffness.unit(), None), material)
-        screen(candidates, member, material, base)
-        notes.append("Screened with conservative per-unit peak stresses (superposition of one solve per load case and one unit "
-                     "self-weight solve); every verdict shown rests on the full stress-field check.")
-    chosen = None
-    for index, candidate in enumerate(candidates):
-        if candidate.report is None and candidate.exact_utilization > 1.0:
-            continue  # an exact check (axial, buckling or deflection) already fails
-        if full_check(member, material, candidate).passes:
-            chosen = candidate
-            break
+        data = screen(candidates, member, material, base)
+        notes.append("Screened all candidates at once (one solve per load case and one unit self-weight solve, "
+                     "superposed); a lighter section is ruled out only by a proven lower bound of its full check; "
+                     "every verdict of a section shown in full rests on the full stress-field check.")
+    chosen = first_passing(candidates, member, material, data)
     confirm_runners_up(member, material, candidates, chosen, top)
-    strongest = None
-    if chosen is None:
-        strongest = min(candidates, key=lambda c: c.report.utilization if c.report else c.screen_utilization)
-        full_check(member, material, strongest)
-    full = sum(1 for c in candidates if c.report is not None)
-    return SizingResult(member, material, candidates, chosen, strongest, notes, full)
+    strongest = None if chosen is not None else least_utilized(candidates, member, material)
+    return SizingResult(member, material, candidates, chosen, strongest, notes)
+
+
+def first_passing(candidates: list[Candidate], member: Member, material: Material, data: ScreenData | None) -> Candidate | None:
+    """Walk up by mass: skip sections a lower bound rules out, fully check the rest until one passes."""
+    for candidate in candidates:
+        if data is not None and candidate.report is None:
+            if candidate.certainly_fails:
+                continue
+            prove_lower_bounds(candidate, data, member, material)
+            if candidate.certainly_fails:
+                continue
+        if full_check(member, material, candidate).passes:
+            return candidate
+    return None
+
+
+def least_utilized(candidates: list[Candidate], member: Member, material: Material) -> Candidate:
+    """When nothing passes: the candidate with the smallest full-check utilization. Sections are
+    fully checked in order of their lower bound until no lower bound can beat the best found."""
+    best: Candidate | None = None
+    for candidate in sorted(candidates, key=lambda c: c.utilization):
+        if best is not None and candidate.utilization >= best.utilization:
+            break
+        full_check(member, material, candidate)
+        if best is None or candidate.utilization < best.utilization:
+            best = candidate
+    return best
 
 
 def confirm_runners_up(member: Member, material: Material, candidates: list[Candidate], chosen: Candidate | None, top: int) -> None:
@@ -304,7 +362,7 @@ def confirm_runners_up(member: Member, material: Material, candidates: list[Cand
     for candidate in candidates[position + 1:]:
         if heavier >= top:
             break
-        if candidate.exact_utilization > 1.0:
+        if candidate.certainly_fails:
             continue
         if full_check(member, material, candidate).passes:
             heavier += 1

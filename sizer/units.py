@@ -8,6 +8,7 @@ Display uses fixed, exact conversion factors (no pint needed).
 from __future__ import annotations
 
 import math
+import re
 from dataclasses import dataclass
 from functools import lru_cache
 from typing import Any
@@ -43,17 +44,93 @@ def registry() -> Any:
     return ureg
 
 
+_NUMBER_AND_UNIT = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(\S.*?)\s*$")
+_UNIT_FACTORS: dict[str, float | None] | None = None  # "unit|kind" -> factor to SI, None: wrong dimension
+UNIT_CACHE_NAME = "units-v1.json"
+
+
 def parse(value: object, kind: str, file: str = "", key: str = "", line: int | None = None) -> float:
     """Parse `value` (a string with its unit) as `kind` (a key of KINDS); return the SI float.
 
     Raises InputError naming file, key and line for a bare number, an unknown unit, the wrong
-    dimension, or a NaN or infinite value.
+    dimension, or a NaN or infinite value. Plain "number unit" strings use the factor pint gave
+    for that unit before (kept in a small file in the cache folder), so a warm run needs no pint.
     """
     si_unit, words, example = KINDS[kind]
     if isinstance(value, bool) or not isinstance(value, (str, int, float)):
         raise InputError(file, key, f"expected {words} as a string with its unit", f"write e.g. {example}", line)
     if not isinstance(value, str):
         raise InputError(file, key, f"the number {value!r} has no unit", f"write it as a string with its unit, e.g. {example}", line)
+    match = _NUMBER_AND_UNIT.match(value)
+    if match:
+        factor = unit_factor(match.group(2), kind)
+        if factor is not None:
+            number = float(match.group(1)) * factor
+            if math.isfinite(number):
+                return number
+    return _parse_with_pint(value, kind, file, key, line)
+
+
+def unit_factor(unit: str, kind: str) -> float | None:
+    """SI units per one `unit` for `kind`, or None when `unit` is not of that kind or unknown.
+    Learned from pint once and remembered on disk."""
+    global _UNIT_FACTORS
+    if _UNIT_FACTORS is None:
+        _UNIT_FACTORS = _read_unit_cache()
+    entry = f"{unit}|{kind}"
+    if entry not in _UNIT_FACTORS:
+        _UNIT_FACTORS[entry] = _factor_from_pint(unit, kind)
+        _write_unit_cache(_UNIT_FACTORS)
+    return _UNIT_FACTORS[entry]
+
+
+def _factor_from_pint(unit: str, kind: str) -> float | None:
+    import pint
+
+    ureg = registry()
+    try:
+        quantity = ureg.Quantity(1.0, unit)
+        if quantity.dimensionless and kind != "rotational_stiffness":
+            return None
+        factor = float(quantity.to(KINDS[kind][0]).magnitude)
+    except (pint.errors.PintError, ValueError, TypeError, AttributeError, SyntaxError, AssertionError):
+        return None
+    return factor if math.isfinite(factor) and factor > 0 else None
+
+
+def _unit_cache_path() -> Any:
+    from sizer.files import cache_root
+
+    return cache_root() / UNIT_CACHE_NAME
+
+
+def _read_unit_cache() -> dict[str, float | None]:
+    """The remembered unit factors; anything unreadable is ignored (pint recomputes it)."""
+    import json
+
+    try:
+        data = json.loads(_unit_cache_path().read_text(encoding="utf-8"))
+    except (OSError, ValueError):
+        return {}
+    if not isinstance(data, dict):
+        return {}
+    return {k: v for k, v in data.items() if isinstance(k, str) and (v is None or (isinstance(v, float) and math.isfinite(v) and v > 0))}
+
+
+def _write_unit_cache(factors: dict[str, float | None]) -> None:
+    import json
+
+    from sizer.files import write_atomic
+
+    try:
+        write_atomic(_unit_cache_path(), json.dumps(factors, sort_keys=True))
+    except OSError:
+        pass  # a read-only cache folder only costs speed
+
+
+def _parse_with_pint(value: str, kind: str, file: str, key: str, line: int | None) -> float:
+    """The general path: any expression pint understands; every error becomes an InputError."""
+    si_unit, words, example = KINDS[kind]
     ureg = registry()
     import pint
 

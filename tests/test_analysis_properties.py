@@ -279,8 +279,9 @@ def problem_scale(member: Member, loads, reactions: np.ndarray) -> tuple[float, 
             total = (np.abs(load.q_start) + np.abs(load.q_end)) * (load.end - load.start)
             force += np.sum(total[:3])
             moment += total[3]
-    force = max(force, 1.0)
-    return force, moment + force * member.length
+    # Couples make forces of order couple / length and forces make moments of order force * length.
+    force_scale = max(force + moment / member.length, 1.0)
+    return force_scale, force_scale * member.length
 
 
 def tolerance(force_scale: float, moment_scale: float) -> np.ndarray:
@@ -523,7 +524,7 @@ def test_superposition_of_cases(problem: Problem):
         disp = np.asarray(together.displacements(stations, side=side), dtype=float)
         disp_sum = sum(np.asarray(s.displacements(stations, side=side), dtype=float) for s in apart)
         scale = max(float(np.max(np.abs(disp))), 1e-15)
-        np.testing.assert_allclose(disp_sum, disp, rtol=0, atol=1e-8 * scale)
+        np.testing.assert_allclose(disp_sum, disp, rtol=0, atol=RTOL * scale)
 
 
 @PROPERTY_SETTINGS
@@ -545,7 +546,7 @@ def test_combinations_add_the_cases_with_their_factors(problem: Problem):
     assert np.all(np.abs(np.asarray(solution.actions("mixed", stations), dtype=float) - expected_actions) <= atol)
     assert np.all(np.abs(np.asarray(solution.reactions("mixed"), dtype=float) - expected_reactions) <= atol)
     disp_scale = max(float(np.max(np.abs(expected_disp))), 1e-15)
-    np.testing.assert_allclose(solution.displacements("mixed", stations), expected_disp, rtol=0, atol=1e-9 * disp_scale)
+    np.testing.assert_allclose(solution.displacements("mixed", stations), expected_disp, rtol=0, atol=RTOL * disp_scale)
     stacked = np.asarray(solution.all_actions(stations, "right"), dtype=float)
     names = list(solution.combination_names)
     assert sorted(names) == ["all", "mixed"]

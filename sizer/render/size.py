@@ -27,7 +27,8 @@ def candidate_entry(candidate: Candidate) -> dict[str, Any]:
         "utilization": candidate.utilization,
         "passes": candidate.passes,
         "governing": candidate.governing,
-        "basis": candidate.decided_by if candidate.report is not None else f"screen: exact {candidate.exact_governing} check fails",
+        "basis": candidate.decided_by,
+        "utilization_is_lower_bound": candidate.report is None,
     }
 
 
@@ -61,8 +62,8 @@ def runners_up_table(result: SizingResult, top: int, system: str) -> Any:
     from rich.table import Table
 
     table = Table(title="Candidates by mass per length", title_justify="left", header_style="bold", box=box.SIMPLE_HEAD,
-                  pad_edge=False, caption="basis: 'full' = full stress-field check; 'screen' = an exact axial, buckling or "
-                  "deflection check already fails", caption_justify="left")
+                  pad_edge=False, caption="basis: 'full' = the full stress-field check; 'screen' = ruled out by a proven lower "
+                  "bound of that check (the true utilization is at least the one shown)", caption_justify="left")
     table.add_column("section", no_wrap=True)
     table.add_column("mass", justify="right", no_wrap=True)
     table.add_column("utilization", no_wrap=True, min_width=BAR_WIDTH + 7)

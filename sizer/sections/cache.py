@@ -20,7 +20,7 @@ from pathlib import Path
 
 import numpy as np
 
-from sizer.files import write_atomic
+from sizer.files import cache_root, write_atomic
 from sizer.sections.catalogue import SectionSpec
 from sizer.sections.geometry import mesh_settings
 
@@ -30,16 +30,7 @@ ARRAY_NAMES = ("points", "sigma", "tau")
 
 def cache_folder() -> Path:
     """Where entries live: $SIZER_CACHE_DIR/sections, else the user's cache folder."""
-    return Path(_folder(os.environ.get("SIZER_CACHE_DIR", "")))
-
-
-@lru_cache(maxsize=8)
-def _folder(root: str) -> str:
-    if not root:
-        import platformdirs
-
-        root = platformdirs.user_cache_dir("sizer")
-    return os.path.join(root, "sections")
+    return cache_root() / "sections"
 
 
 @lru_cache(maxsize=1)
@@ -63,7 +54,7 @@ def _key_of_geometry(geometry_key: str) -> str:
 
 
 def _paths(key: str) -> tuple[str, str]:
-    folder = _folder(os.environ.get("SIZER_CACHE_DIR", ""))
+    folder = str(cache_folder())
     return os.path.join(folder, f"{key}.json"), os.path.join(folder, f"{key}.npz")
 
 
