@@ -150,6 +150,54 @@ def full_field_stresses(actions: np.ndarray, unit_field: Any, area: float) -> St
     return StationStresses(actions[..., 0] / area, bending.reshape(shape), shear.reshape(shape), equivalent.reshape(shape))
 
 
+class FieldPeaks:
+    """Exact largest stresses over all mesh nodes and all (combination, station) rows, found without
+    evaluating every row: rows are taken in order of a conservative upper bound (|sigma| <= sum of
+    |action_i| x the unit field's peak_i, likewise for shear) and evaluation stops as soon as no
+    remaining bound can beat the best exact value. The result equals evaluating every row."""
+
+    BATCH = 48
+
+    def __init__(self, actions: np.ndarray, unit_field: Any, area: float) -> None:
+        self.shape = actions.shape[:2]
+        self.flat = actions.reshape(-1, 6)
+        self.unit_field = unit_field
+        self.area = area
+        self.axial = actions[..., 0] / area  # (C, N) exact, signed
+        sigma_peak = np.abs(np.asarray(unit_field.sigma)).max(axis=1)
+        tau = np.asarray(unit_field.tau)
+        tau_peak = np.sqrt(tau[..., 0] ** 2 + tau[..., 1] ** 2).max(axis=1)
+        size = np.abs(self.flat)
+        self.bending_upper = size[:, 4] * sigma_peak[1] + size[:, 5] * sigma_peak[2]
+        self.shear_upper = size[:, 1:4] @ tau_peak
+        self.equivalent_upper = np.sqrt((size[:, 0] * sigma_peak[0] + self.bending_upper) ** 2 + 3.0 * self.shear_upper**2)
+        self._exact: dict[int, tuple[float, float, float]] = {}
+
+    def exact(self, rows: np.ndarray) -> np.ndarray:
+        """(len(rows), 3) exact bending, shear and equivalent stress (Pa) of the given flat rows."""
+        missing = [row for row in rows.tolist() if row not in self._exact]
+        if missing:
+            stress = full_field_stresses(self.flat[missing][None], self.unit_field, self.area)
+            for k, row in enumerate(missing):
+                self._exact[row] = (stress.bending[0, k], stress.shear[0, k], stress.equivalent[0, k])
+        return np.array([self._exact[row] for row in rows.tolist()]).reshape(-1, 3)
+
+    def largest(self, upper: np.ndarray, value: Any) -> tuple[float, tuple[int, int]]:
+        """(largest exact value, (combination, station)); `value(rows, exact)` gives the exact values
+        of rows from their exact stresses, and `upper` bounds them row by row."""
+        order = np.lexsort((np.arange(len(upper)), -upper))
+        best, best_row = -np.inf, 0
+        for start in range(0, len(order), self.BATCH):
+            rows = order[start:start + self.BATCH]
+            if upper[rows[0]] * (1 + 1e-9) + 1e-12 < best:
+                break
+            values = value(rows, self.exact(rows))
+            for row, candidate in zip(rows.tolist(), values.tolist()):
+                if candidate > best or (candidate == best and row < best_row):
+                    best, best_row = candidate, row
+        return float(best), tuple(int(i) for i in np.unravel_index(best_row, self.shape))
+
+
 # ----------------------------------------------------------------------------------------------
 # buckling
 
@@ -197,6 +245,12 @@ def buckling_axes(design: Design) -> list[BucklingAxis]:
 # ----------------------------------------------------------------------------------------------
 # the checks
 
+def _place(found: tuple[float, tuple[int, int]], xs: np.ndarray, names: tuple[str, ...]) -> tuple[float, float, str]:
+    """(value, x, combination) from FieldPeaks.largest's answer."""
+    value, (c, n) = found
+    return value, float(xs[n]), names[c]
+
+
 def _locate(values: np.ndarray, xs: np.ndarray, names: tuple[str, ...]) -> tuple[float, float, str]:
     """(largest value, x, combination) of a (n_combinations, n_stations) array."""
     c, s = np.unravel_index(int(np.argmax(values)), values.shape)
@@ -212,7 +266,7 @@ def _needs_allowable(member: Member, material: Any, which: str, check: str) -> f
     return value
 
 
-def axial_check(stress: StationStresses, xs: np.ndarray, names: tuple[str, ...], design: Design) -> CheckResult:
+def axial_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], design: Design) -> CheckResult:
     """N / A against the tension or compression allowable, whichever governs."""
     member, material = design.member, design.material
     results = []
@@ -228,12 +282,12 @@ def axial_check(stress: StationStresses, xs: np.ndarray, names: tuple[str, ...],
     return max(results, key=lambda r: r.utilization)
 
 
-def bending_check(stress: StationStresses, xs: np.ndarray, names: tuple[str, ...], design: Design) -> CheckResult:
+def bending_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], design: Design) -> CheckResult:
     """Peak bending stress from My and Mz together (full field) against the bending allowable."""
-    if stress.bending.max() <= 0.0:
+    if stress.bending_upper.max() <= 0.0:
         return CheckResult("bending", None, detail="no bending moment")
     allowable = _needs_allowable(design.member, design.material, "bending", "bending")
-    value, at, combination = _locate(stress.bending, xs, names)
+    value, at, combination = _place(stress.largest(stress.bending_upper, lambda rows, exact: exact[:, 0]), xs, names)
     return CheckResult("bending", value / allowable, value, allowable, at, combination, detail="My and Mz together")
 
 
@@ -244,44 +298,46 @@ def compression_allowable(design: Design, axes: list[BucklingAxis]) -> float:
     return min(allowable, buckling)
 
 
-def interaction_check(stress: StationStresses, xs: np.ndarray, names: tuple[str, ...], design: Design,
+def interaction_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], design: Design,
                       axes: list[BucklingAxis]) -> CheckResult:
     """fa/Fa + fb/Fb at every station (linear interaction); Fa in compression reduced for buckling."""
     has_axial = np.abs(stress.axial).max() * design.props.area > ZERO_ACTION
-    if not has_axial or stress.bending.max() <= 0.0:
+    if not has_axial or stress.bending_upper.max() <= 0.0:
         return CheckResult("interaction", None, detail="needs axial force and bending together")
     bending_allowable = _needs_allowable(design.member, design.material, "bending", "interaction")
     tension = design.material.allowable.tension
     compression = compression_allowable(design, axes) if (stress.axial < 0).any() else math.inf
     if tension is None and (stress.axial > 0).any():
         tension = _needs_allowable(design.member, design.material, "tension", "interaction")
-    fa_ratio = np.where(stress.axial >= 0, stress.axial / (tension or math.inf), -stress.axial / compression)
-    ratio = fa_ratio + stress.bending / bending_allowable
-    value, at, combination = _locate(ratio, xs, names)
-    c, s = np.unravel_index(int(np.argmax(ratio)), ratio.shape)
-    detail = f"fa = {stress.axial[c, s] / 1e6:.3g} MPa, fb = {stress.bending[c, s] / 1e6:.3g} MPa, Fa = {(compression if stress.axial[c, s] < 0 else tension) / 1e6:.4g} MPa"
+    fa_ratio = np.where(stress.axial >= 0, stress.axial / (tension or math.inf), -stress.axial / compression).reshape(-1)
+    found = stress.largest(fa_ratio + stress.bending_upper / bending_allowable,
+                           lambda rows, exact: fa_ratio[rows] + exact[:, 0] / bending_allowable)
+    value, at, combination = _place(found, xs, names)
+    c, s = found[1]
+    fb = float(stress.exact(np.array([c * stress.shape[1] + s]))[0, 0])
+    detail = f"fa = {stress.axial[c, s] / 1e6:.3g} MPa, fb = {fb / 1e6:.3g} MPa, Fa = {(compression if stress.axial[c, s] < 0 else tension) / 1e6:.4g} MPa"
     return CheckResult("interaction", value, value, 1.0, at, combination, quantity="ratio", detail=detail)
 
 
-def shear_check(stress: StationStresses, xs: np.ndarray, names: tuple[str, ...], design: Design) -> CheckResult:
+def shear_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], design: Design) -> CheckResult:
     """Peak shear stress from Vy, Vz and T together (full field) against the shear allowable."""
-    if stress.shear.max() <= 0.0:
+    if stress.shear_upper.max() <= 0.0:
         return CheckResult("shear", None, detail="no shear force or torque")
     allowable = _needs_allowable(design.member, design.material, "shear", "shear")
-    value, at, combination = _locate(stress.shear, xs, names)
+    value, at, combination = _place(stress.largest(stress.shear_upper, lambda rows, exact: exact[:, 1]), xs, names)
     return CheckResult("shear", value / allowable, value, allowable, at, combination, detail="Vy, Vz and T together")
 
 
-def equivalent_check(stress: StationStresses, xs: np.ndarray, names: tuple[str, ...], design: Design) -> CheckResult:
+def equivalent_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], design: Design) -> CheckResult:
     """Peak von Mises stress against the `equivalent` allowable, where given (optional check)."""
     allowable = design.material.allowable.equivalent
     if allowable is None:
         return CheckResult("equivalent", None, detail="no 'equivalent' allowable given for the material")
-    value, at, combination = _locate(stress.equivalent, xs, names)
+    value, at, combination = _place(stress.largest(stress.equivalent_upper, lambda rows, exact: exact[:, 2]), xs, names)
     return CheckResult("equivalent", value / allowable, value, allowable, at, combination, detail="von Mises")
 
 
-def buckling_check(stress: StationStresses, xs: np.ndarray, names: tuple[str, ...], design: Design,
+def buckling_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], design: Design,
                    axes: list[BucklingAxis]) -> CheckResult:
     """Largest axial compression against the flexural buckling load / safety factor, each principal axis."""
     compression = np.maximum(-stress.axial * design.props.area, 0.0)
@@ -329,21 +385,20 @@ def spans(member: Member) -> list[Span]:
 def span_deflections(design: Design, span: Span, combinations: Iterable[str], n: int = 201) -> tuple[float, float, str]:
     """Largest transverse deflection (m) relative to the span's supports (chord between them; for an
     overhang, relative to its support's displacement), with x and combination."""
+    names = design.solution.combination_names
+    chosen = [names.index(name) for name in combinations]
     xs = np.linspace(span.start, span.end, n)
-    best = (-1.0, span.start, "")
-    for name in combinations:
-        moved = design.solution.displacements(name, xs)[:, 1:3]
-        if span.overhang:
-            reference = design.solution.displacements(name, np.array([span.base]))[0, 1:3]
-            relative = moved - reference
-        else:
-            t = (xs - span.start) / span.length
-            relative = moved - ((1 - t)[:, None] * moved[0] + t[:, None] * moved[-1])
-        size = np.hypot(relative[:, 0], relative[:, 1])
-        index = int(np.argmax(size))
-        if size[index] > best[0]:
-            best = (float(size[index]), float(xs[index]), name)
-    return best
+    points = np.append(xs, span.base if span.overhang else span.start)
+    moved = design.solution.all_displacements(points)[chosen][..., 1:3]  # (c, n + 1, 2): uy, uz
+    body = moved[:, :-1]
+    if span.overhang:
+        relative = body - moved[:, -1:]
+    else:
+        t = ((xs - span.start) / span.length)[None, :, None]
+        relative = body - ((1 - t) * body[:, :1] + t * body[:, -1:])
+    size = np.hypot(relative[..., 0], relative[..., 1])
+    c, k = np.unravel_index(int(np.argmax(size)), size.shape)
+    return float(size[c, k]), float(xs[k]), names[chosen[c]]
 
 
 def deflection_check(design: Design) -> CheckResult:
@@ -373,7 +428,7 @@ def check_design(design: Design, unit_field: Any, n_even: int = 200) -> CheckRep
     xs, sides = check_stations(design, n_even)
     names = design.solution.combination_names
     actions = to_section_axes(member_actions(design, xs, sides), design.member.orientation)
-    stress = full_field_stresses(actions, unit_field, design.props.area)
+    stress = FieldPeaks(actions, unit_field, design.props.area)
     axes = buckling_axes(design)
     checks = [
         axial_check(stress, xs, names, design),
