@@ -13,8 +13,8 @@ fixed-end forces, written with singularity (Macaulay) functions, so the nodal va
 Euler-Bernoulli theory. (Nodes at load positions as well would be no more exact, and a node very
 close to another makes a very stiff short element whose stiffness swamps the long element next to
 it in floating point: k_short + k_long == k_short once the gap is below about 1e-5 of the span.)
-The x-z problem is solved as an x-y problem
-in (uz, theta = duz/dx) with the moment my entering as -my (it does work on ry = -theta).
+The x-z problem is solved as an x-y problem in (uz, theta = duz/dx) with the moment my entering as
+-my (it does work on ry = -theta).
 An internal hinge releases My and Mz: its node has separate rotation freedoms on each side in both
 bending problems. A support at a hinge holds the hinge pin, so its ry/rz restraints and rotational
 springs act on nothing (the moment is zero on both sides of a hinge); a hinge at an end releases the
@@ -344,11 +344,11 @@ def _rigid_modes(layout: _Layout, holds_translation: np.ndarray, holds_rotation:
         row[2 * part], row[2 * part + 1] = 1.0, (x - centres[part]) / layout.length
         return row
 
-    for k, (_, hi) in enumerate(parts[:-1]):
-        rows.append(translation_row(k, hi) - translation_row(k + 1, hi))
     def part_at(node: int) -> int:
         return _part_of(layout, node, "left") if bending else 0
 
+    for k, (_, hi) in enumerate(parts[:-1]):
+        rows.append(translation_row(k, hi) - translation_row(k + 1, hi))
     for node in np.flatnonzero(holds_translation):
         rows.append(translation_row(part_at(node), float(layout.nodes[node])))
     for node in np.flatnonzero(holds_rotation):
@@ -438,7 +438,7 @@ def _build_problems(member: Member, layout: _Layout, stiffness: Stiffness) -> di
 
 
 # ----------------------------------------------------------------------------------------------
-# loads on the nodes
+# loads between nodes: singularity terms and fixed-end forces
 
 
 @dataclass(frozen=True)
@@ -455,17 +455,30 @@ class _Terms:
     element: np.ndarray
     at: np.ndarray
     power: np.ndarray
-    coef: np.ndarray
+    coef: np.ndarray  # (T, ..., 4)
 
-    def values(self, s: np.ndarray, elements: np.ndarray, shift: int) -> np.ndarray:
-        """(n, 4) sum over the terms in elements[j] of coef <s_j - at>^(power + shift) / (power + shift)!:
-        shift 0: load resultant; 1: its moment about s (or, for bars, its integral); 2, 3: further
-        integrals from the element start."""
-        order = self.power[None, :] + shift
+    def values(self, s: np.ndarray, elements: np.ndarray, shifts: Sequence[int]) -> list[np.ndarray]:
+        """For each shift: (n, ..., 4) sums over the terms in elements[j] of
+        coef <s_j - at>^(power + shift) / (power + shift)!. Shift 0: load resultant on [0, s];
+        1: its moment about s (for bars: its integral); 2, 3: further integrals from the element start."""
         gap = s[:, None] - self.at[None, :]
-        inside = (self.element[None, :] == elements[:, None]) & (gap > 0) & (order >= 0)
-        powers = np.where(inside, np.maximum(gap, 0.0) ** np.maximum(order, 0) / _FACTORIAL[np.maximum(order, 0)], 0.0)
-        return powers @ self.coef
+        inside = (self.element[None, :] == elements[:, None]) & (gap > 0)
+        gap = np.where(inside, gap, 0.0)
+        out = []
+        for shift in shifts:
+            order = self.power + shift
+            powers = np.where(inside & (order >= 0), gap ** np.maximum(order, 0) / _FACTORIAL[np.maximum(order, 0)], 0.0)
+            out.append(np.tensordot(powers, self.coef, axes=(1, 0)))
+        return out
+
+    def weighted(self, factors: np.ndarray) -> "_Terms":
+        """The terms of one case (coef (T, 4)) with coef scaled by each factor: coef (T, len(factors), 4)."""
+        return _Terms(self.element, self.at, self.power, self.coef[:, None, :] * factors[None, :, None])
+
+
+def _concat_terms(parts: Sequence[_Terms]) -> _Terms:
+    return _Terms(np.concatenate([t.element for t in parts]), np.concatenate([t.at for t in parts]),
+                  np.concatenate([t.power for t in parts]), np.concatenate([t.coef for t in parts]))
 
 
 _PROBLEM_ORDER: tuple[str, ...] = ("axial", "torsion", "xy", "xz")
@@ -521,7 +534,7 @@ def _fixed_end_forces(layout: _Layout, terms: _Terms) -> np.ndarray:
     Bars: u(l) = 0 on EA u' = -R0 - (load resultant) gives R0 = -F1 / l."""
     le = layout.lengths
     elements = np.arange(len(le))
-    f0, f1, f2, f3 = (terms.values(le, elements, shift) for shift in range(4))
+    f0, f1, f2, f3 = terms.values(le, elements, range(4))
     out = np.zeros((len(le), 4, 4))
     l = le[:, None]
     r0 = 12 * (f3 - f2 * l / 2) / l**3
@@ -646,8 +659,9 @@ def _solve_free(problem: _Problem, loads: np.ndarray) -> np.ndarray:
 
 @dataclass(frozen=True)
 class _Field:
-    """Nodal displacements and element loads of one case, for displacements between nodes.
-    Node arrays (m,): ux, rx; uy, rz left/right; uz, theta = duz/dx left/right."""
+    """Nodal displacements and element loads of C load sets (cases or combinations) on one layout,
+    for displacements between nodes. Node arrays (m, C): ux, rx; uy, rz left/right; uz and
+    theta = duz/dx left/right. terms.coef (T, C, 4); fixed (ne, C, 4, 4), see _fixed_end_forces."""
 
     nodes: np.ndarray
     axial: np.ndarray
@@ -659,9 +673,43 @@ class _Field:
     theta_left: np.ndarray
     theta_right: np.ndarray
     terms: _Terms
-    fixed: np.ndarray  # (ne, 4, 4) fixed-end forces, see _fixed_end_forces
+    fixed: np.ndarray
     stiffness: Stiffness
     tol: float
+
+
+_NODAL_FIELDS = ("axial", "twist", "v", "rz_left", "rz_right", "w", "theta_left", "theta_right")
+
+
+def _combine_fields(fields: Sequence[_Field], weights: np.ndarray) -> _Field:
+    """The field of the combinations weights (C, S) @ fields (S fields of one load set each)."""
+    first = fields[0]
+    nodal = {name: np.column_stack([getattr(f, name)[:, 0] for f in fields]) @ weights.T for name in _NODAL_FIELDS}
+    terms = _concat_terms([_Terms(f.terms.element, f.terms.at, f.terms.power, f.terms.coef[:, 0, :]).weighted(weights[:, j])
+                           for j, f in enumerate(fields)])
+    fixed = np.einsum("cs,senk->ecnk", weights, np.stack([f.fixed[:, 0] for f in fields]))
+    return _Field(first.nodes, **nodal, terms=terms, fixed=fixed, stiffness=first.stiffness, tol=first.tol)
+
+
+def _field_displacements(f: _Field, xs: np.ndarray, right: np.ndarray) -> np.ndarray:
+    """(C, n, 6) ux, uy, uz, rx, ry, rz of each load set of the field at stations xs."""
+    count = np.where(right, np.searchsorted(f.nodes, xs + f.tol, "right"), np.searchsorted(f.nodes, xs - f.tol, "left"))
+    e = np.clip(count - 1, 0, len(f.nodes) - 2)
+    le = (f.nodes[e + 1] - f.nodes[e])[:, None]
+    s = np.clip(xs[:, None] - f.nodes[e][:, None], 0.0, le)
+    s = np.where(s <= f.tol, 0.0, np.where(s >= le - f.tol, le, s))  # on a node: exactly the nodal values
+    xi = s / le
+    value, slope = _particular(f, e, s[:, 0])
+    interior = ((s > 0) & (s < le))[:, :, None]  # the particular solution vanishes at the nodes
+    value, slope = value * interior, slope * interior
+    out = np.empty((f.axial.shape[1], xs.size, 6))
+    out[:, :, 0] = (f.axial[e] * (1 - xi) + f.axial[e + 1] * xi + value[:, :, 0]).T
+    out[:, :, 3] = (f.twist[e] * (1 - xi) + f.twist[e + 1] * xi + value[:, :, 1]).T
+    v, rz = _hermite(xi, le, f.v[e], f.rz_right[e], f.v[e + 1], f.rz_left[e + 1])
+    w, theta = _hermite(xi, le, f.w[e], f.theta_right[e], f.w[e + 1], f.theta_left[e + 1])
+    out[:, :, 1], out[:, :, 5] = (v + value[:, :, 2]).T, (rz + slope[:, :, 2]).T
+    out[:, :, 2], out[:, :, 4] = (w + value[:, :, 3]).T, (-(theta + slope[:, :, 3])).T
+    return out + 0.0
 
 
 def _as_stations(x: ArrayLike, length: float, tol: float) -> np.ndarray:
@@ -694,36 +742,49 @@ def _hermite(xi: np.ndarray, le: np.ndarray, v1, t1, v2, t2) -> tuple[np.ndarray
 
 
 def _particular(field: _Field, e: np.ndarray, s: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-    """Fixed-fixed solutions at local positions s of elements e under the element loads: (n, 4)
-    values (ux, rx, uy, uz) and (n, 4) slopes (-, -, duy/dx, duz/dx). Bending:
+    """Fixed-fixed solutions at local positions s (n,) of elements e under the element loads:
+    (n, C, 4) values (ux, rx, uy, uz) and slopes (-, -, duy/dx, duz/dx). Bending:
     EI v = -C0 s^2 / 2 + R0 s^3 / 6 + F3(s); bars: EA u = -R0 s - F1(s)."""
     k = field.stiffness
     rigidity = np.array([k.EA, k.GJ, k.EIz, k.EIy])
-    f1, f2, f3 = (field.terms.values(s, e, shift) for shift in (1, 2, 3))
-    r0, c0 = field.fixed[e, :, 0], field.fixed[e, :, 1]
-    col = s[:, None]
+    f1, f2, f3 = field.terms.values(s, e, (1, 2, 3))
+    r0, c0 = field.fixed[e, :, :, 0], field.fixed[e, :, :, 1]
+    col = s[:, None, None]
     value = np.where([False, False, True, True], -c0 * col**2 / 2 + r0 * col**3 / 6 + f3, -r0 * col - f1) / rigidity
     slope = (-c0 * col + r0 * col**2 / 2 + f2) / rigidity
     return value, slope
 
 
-def _section_actions(items: _Points, lines: _Lines, xs: np.ndarray, right: np.ndarray, tol: float) -> np.ndarray:
-    """(n, 6) N, Vy, Vz, T, My, Mz on the +x face of the left segment [0, x]: minus the resultant of
-    the concentrated items (at a < x, or a <= x where `right`) and line loads on it, moments taken
-    about the cut: Mz = -sum mz - sum (a - x) Fy, My = -sum my + sum (a - x) Fz."""
-    at = items.at
+def _section_actions(sources: Sequence[tuple[_Points, _Lines] | None], weights: np.ndarray, xs: np.ndarray, right: np.ndarray,
+                     tol: float) -> np.ndarray:
+    """(C, n, 6) N, Vy, Vz, T, My, Mz on the +x face of the left segment [0, x] for the C load sets
+    weights (C, S) @ sources (S sets of concentrated items and line loads; None: nothing).
+    Minus the resultant of the items (at a < x, or a <= x where `right`) and line loads on [0, x],
+    moments about the cut: Mz = -sum mz - sum (a - x) Fy, My = -sum my + sum (a - x) Fz."""
+    n_sets = weights.shape[0]
+    used = [(j, src) for j, src in enumerate(sources) if src is not None]
+    at = np.concatenate([src[0].at for _, src in used]) if used else np.zeros(0)
+    forces = np.concatenate([src[0].forces[:, None, :] * weights[:, j][None, :, None] for j, src in used]) if used else np.zeros((0, n_sets, 6))
     cut = np.where(right[:, None], at[None, :] <= xs[:, None] + tol, at[None, :] < xs[:, None] - tol).astype(float)
-    sums = cut @ items.forces  # (n, 6)
-    first = cut @ (at[:, None] * items.forces[:, :3])  # (n, 3): sum of a * F
-    if len(lines.start):
-        u = np.clip(xs[:, None], lines.start[None, :], lines.end[None, :]) - lines.start[None, :]
+    sums = np.tensordot(cut, forces, axes=(1, 0))  # (n, C, 6)
+    first = np.tensordot(cut, at[:, None, None] * forces[:, :, :3], axes=(1, 0))  # (n, C, 3): sum of a * F
+    lines = [(j, src[1]) for j, src in used if len(src[1].start)]
+    if lines:
+        start = np.concatenate([ln.start for _, ln in lines])
+        end = np.concatenate([ln.end for _, ln in lines])
+        q0 = np.concatenate([ln.q0[:, None, :] * weights[:, j][None, :, None] for j, ln in lines])  # (J, C, 4)
+        slope = np.concatenate([ln.slope[:, None, :] * weights[:, j][None, :, None] for j, ln in lines])
+        u = np.clip(xs[:, None], start[None, :], end[None, :]) - start[None, :]
         u2, u3 = u * u / 2, u**3 / 3
-        sums[:, :4] += u @ lines.q0 + u2 @ lines.slope
-        first += (u @ (lines.start[:, None] * lines.q0) + u2 @ (lines.start[:, None] * lines.slope + lines.q0) + u3 @ lines.slope)[:, :3]
-    out = np.empty((xs.size, 6))
-    out[:, :4] = -sums[:, :4]
-    out[:, 4] = -sums[:, 4] + first[:, 2] - xs * sums[:, 2]
-    out[:, 5] = -sums[:, 5] - first[:, 1] + xs * sums[:, 1]
+        sums[:, :, :4] += np.tensordot(u, q0, axes=(1, 0)) + np.tensordot(u2, slope, axes=(1, 0))
+        lever = start[:, None, None]
+        first += (np.tensordot(u, lever * q0, axes=(1, 0)) + np.tensordot(u2, lever * slope + q0, axes=(1, 0))
+                  + np.tensordot(u3, slope, axes=(1, 0)))[:, :, :3]
+    out = np.empty((n_sets, xs.size, 6))
+    x = xs[:, None]
+    out[:, :, :4] = -sums[:, :, :4].transpose(1, 0, 2)
+    out[:, :, 4] = (-sums[:, :, 4] + first[:, :, 2] - x * sums[:, :, 2]).T
+    out[:, :, 5] = (-sums[:, :, 5] - first[:, :, 1] + x * sums[:, :, 1]).T
     return out + 0.0  # no negative zeros
 
 
@@ -737,7 +798,6 @@ class CaseSolution:
         self.positions = positions
         self.reactions = reactions
         self.has_displacements = field is not None
-        self._loads = points
         self._items = _concat_points(points, _Points(positions, reactions))
         self._lines = lines
         self._field = field
@@ -758,30 +818,23 @@ class CaseSolution:
         """(n, 6) N, Vy, Vz, T, My, Mz (N, N*m) on the +x face of the left segment at each x, by the
         method of sections. side "left": concentrated items at x excluded; "right": included."""
         xs = _as_stations(x, self.length, self._tol)
-        return _section_actions(self._items, self._lines, xs, _right_side(side, xs.size), self._tol)
+        return _section_actions([self.sources()], np.ones((1, 1)), xs, _right_side(side, xs.size), self._tol)[0]
+
+    def sources(self) -> tuple[_Points, _Lines]:
+        """Concentrated items (loads and reactions) and line loads of this case, for sections."""
+        return self._items, self._lines
 
     def displacements(self, x: ArrayLike, side: str | ArrayLike = "right") -> np.ndarray:
         """(n, 6) ux, uy, uz (m) and rx, ry, rz (rad) at each x; side matters only for rotations at
         hinges. Raises ValueError when the case was solved without the member's stiffness."""
         if self._field is None:
             raise ValueError("displacements need the member's stiffness (a section); this case was solved with unit rigidities")
-        f = self._field
         xs = _as_stations(x, self.length, self._tol)
-        right = _right_side(side, xs.size)
-        count = np.where(right, np.searchsorted(f.nodes, xs + f.tol, "right"), np.searchsorted(f.nodes, xs - f.tol, "left"))
-        e = np.clip(count - 1, 0, len(f.nodes) - 2)
-        le = f.nodes[e + 1] - f.nodes[e]
-        s = np.clip(xs - f.nodes[e], 0.0, le)
-        xi = s / le
-        value, slope = _particular(f, e, s)
-        out = np.empty((xs.size, 6))
-        out[:, 0] = f.axial[e] * (1 - xi) + f.axial[e + 1] * xi + value[:, 0]
-        out[:, 3] = f.twist[e] * (1 - xi) + f.twist[e + 1] * xi + value[:, 1]
-        v, rz = _hermite(xi, le, f.v[e], f.rz_right[e], f.v[e + 1], f.rz_left[e + 1])
-        w, theta = _hermite(xi, le, f.w[e], f.theta_right[e], f.w[e + 1], f.theta_left[e + 1])
-        out[:, 1], out[:, 5] = v + value[:, 2], rz + slope[:, 2]
-        out[:, 2], out[:, 4] = w + value[:, 3], -(theta + slope[:, 3])
-        return out + 0.0
+        return _field_displacements(self._field, xs, _right_side(side, xs.size))[0]
+
+    def field(self) -> _Field | None:
+        """The displacement field of this case (None without stiffness), for combining."""
+        return self._field
 
 
 # ----------------------------------------------------------------------------------------------
@@ -839,7 +892,7 @@ def _problem_reactions(problem: _Problem, layout: _Layout, u: np.ndarray, loads:
     longest = np.array([start + int(np.argmax(lengths[start:stop])) for start, stop in zip(starts, stops)], dtype=int)
     xs = np.concatenate([layout.nodes[longest], [layout.length]])
     elastic = np.vstack([_element_start_actions(problem, layout, u, fixed, longest), np.zeros((1, 2))])
-    from_loads = _section_actions(*loads, xs, np.ones(xs.size, bool), layout.tol)
+    from_loads = _section_actions([loads], np.ones((1, 1)), xs, np.ones(xs.size, bool), layout.tol)[0]
     columns = [force_col] + ([moment_col] if moment_col is not None else [])
     of_reactions = elastic[:, : len(columns)] - from_loads[:, columns]
     force = np.concatenate([[0.0], -of_reactions[:, 0]])  # resultant force of the reactions left of each bay
@@ -912,13 +965,13 @@ def _field(problems: dict[str, _Problem], layout: _Layout, displacement: dict[st
            terms: _Terms, fixed: np.ndarray, stiffness: Stiffness) -> _Field:
     """Nodal displacements of one column for interpolation."""
     def at(name: str, freedoms: np.ndarray) -> np.ndarray:
-        return displacement[name][freedoms, column]
+        return displacement[name][freedoms, column][:, None]
 
     xy, xz = problems["xy"], problems["xz"]
     return _Field(layout.nodes, at("axial", problems["axial"].translation), at("torsion", problems["torsion"].translation),
                   at("xy", xy.translation), at("xy", xy.rot_left), at("xy", xy.rot_right),
                   at("xz", xz.translation), at("xz", xz.rot_left), at("xz", xz.rot_right),
-                  terms, fixed, stiffness, layout.tol)
+                  terms.weighted(np.ones(1)), fixed[:, None], stiffness, layout.tol)
 
 
 def solve_case(member: Member, loads: Sequence[Load], stiffness: Stiffness | None, case: str = "") -> CaseSolution:
@@ -985,43 +1038,64 @@ class MemberSolution:
             raise KeyError(f"no combination {combination!r}; there are {', '.join(self.combination_names)}")
         return self.weights()[self.combination_names.index(combination)]
 
+    def _stations(self, x: ArrayLike, side: str | ArrayLike) -> tuple[np.ndarray, np.ndarray]:
+        tol = _tolerance(self.member)
+        xs = _as_stations(x, self.member.length, tol)
+        return xs, _right_side(side, xs.size)
+
+    def _solutions(self) -> list[CaseSolution | None]:
+        """The case solutions in weights' column order: cases, then the unit self weight."""
+        return list(self.cases.values()) + [self.self_weight]
+
+    def weighted_actions(self, weights: np.ndarray, x: ArrayLike, side: str | ArrayLike = "right") -> np.ndarray:
+        """(C, n, 6) actions of the load sets weights (C, n_cases + 1) @ [cases..., unit self weight],
+        in one pass over the stations."""
+        xs, right = self._stations(x, side)
+        sources = [None if solution is None else solution.sources() for solution in self._solutions()]
+        return _section_actions(sources, np.atleast_2d(weights), xs, right, _tolerance(self.member))
+
+    def weighted_displacements(self, weights: np.ndarray, x: ArrayLike, side: str | ArrayLike = "right") -> np.ndarray:
+        """(C, n, 6) displacements of the load sets weights (C, n_cases + 1) @ [cases..., unit self
+        weight]; ValueError without stiffness."""
+        if not self.has_displacements:
+            raise ValueError("displacements need the member's stiffness (a section)")
+        weights = np.atleast_2d(weights)
+        xs, right = self._stations(x, side)
+        kept = [(j, solution.field()) for j, solution in enumerate(self._solutions()) if solution is not None]
+        if not kept:
+            return np.zeros((weights.shape[0], xs.size, 6))
+        field = _combine_fields([f for _, f in kept], weights[:, [j for j, _ in kept]])
+        return _field_displacements(field, xs, right)
+
     def case_actions(self, x: ArrayLike, side: str | ArrayLike = "right") -> np.ndarray:
         """(n_cases + 1, n, 6) actions of each case, the last the unit self weight (zeros if none)."""
-        parts = [case.actions(x, side) for case in self.cases.values()]
-        n = np.atleast_1d(np.asarray(x, dtype=float)).size
-        parts.append(self.self_weight.actions(x, side) if self.self_weight is not None else np.zeros((n, 6)))
-        return np.stack(parts)
+        return self.weighted_actions(np.eye(len(self.cases) + 1), x, side)
 
     def case_displacements(self, x: ArrayLike, side: str | ArrayLike = "right") -> np.ndarray:
         """(n_cases + 1, n, 6) displacements of each case, the last the unit self weight."""
-        if not self.has_displacements:
-            raise ValueError("displacements need the member's stiffness (a section)")
-        parts = [case.displacements(x, side) for case in self.cases.values()]
-        n = np.atleast_1d(np.asarray(x, dtype=float)).size
-        parts.append(self.self_weight.displacements(x, side) if self.self_weight is not None else np.zeros((n, 6)))
-        return np.stack(parts)
+        return self.weighted_displacements(np.eye(len(self.cases) + 1), x, side)
 
     def actions(self, combination: str, x: ArrayLike, side: str | ArrayLike = "right") -> np.ndarray:
         """(n, 6) N, Vy, Vz, T, My, Mz of one combination."""
-        return np.tensordot(self._row(combination), self.case_actions(x, side), axes=1)
+        return self.weighted_actions(self._row(combination)[None, :], x, side)[0]
 
     def all_actions(self, x: ArrayLike, side: str | ArrayLike = "right", mass_per_length: float | None = ...) -> np.ndarray:  # type: ignore[assignment]
         """(n_combinations, n, 6) = weights @ case_actions."""
-        return np.tensordot(self.weights(mass_per_length), self.case_actions(x, side), axes=1)
+        return self.weighted_actions(self.weights(mass_per_length), x, side)
 
     def reactions(self, combination: str) -> np.ndarray:
         """(n_supports, 6) Fx, Fy, Fz, Mx, My, Mz of each support on the member."""
         stack = [case.reactions for case in self.cases.values()]
         stack.append(self.self_weight.reactions if self.self_weight is not None else np.zeros((len(self.member.supports), 6)))
-        return np.tensordot(self._row(combination), np.stack(stack), axes=1)
+        return np.tensordot(self._row(combination), np.stack(stack), axes=1) + 0.0
 
     def displacements(self, combination: str, x: ArrayLike, side: str | ArrayLike = "right") -> np.ndarray:
         """(n, 6) ux, uy, uz, rx, ry, rz of one combination; ValueError without stiffness."""
-        return np.tensordot(self._row(combination), self.case_displacements(x, side), axes=1)
+        return self.weighted_displacements(self._row(combination)[None, :], x, side)[0]
 
     def all_displacements(self, x: ArrayLike, side: str | ArrayLike = "right", mass_per_length: float | None = ...) -> np.ndarray:  # type: ignore[assignment]
         """(n_combinations, n, 6) displacements of every combination."""
-        return np.tensordot(self.weights(mass_per_length), self.case_displacements(x, side), axes=1)
+        return self.weighted_displacements(self.weights(mass_per_length), x, side)
 
 
 def solve_member(member: Member, stiffness: Stiffness | None, mass_per_length: float | None) -> MemberSolution:

@@ -512,3 +512,27 @@ def test_stations_cover_both_sides_of_every_concentrated_item():
     assert np.all(np.diff(x) >= 0)
     found = extremes(solve_member(member, STEEL, None), "all")
     assert isinstance(found["Mz"], Extreme)
+
+
+def test_self_weight_mechanism_counts_only_when_the_weight_does():
+    # A post on two rollers with gravity along -x slides under its own weight (nothing holds ux), but
+    # without a mass per length (no section: self weight left out) the transverse load still solves.
+    length = 4.0
+    member = Member(length=length, material="steel", supports=(support(0.0, "roller"), support(length, "roller")),
+                    loads=(point(2.0, fy=-1e3),), combinations={"all": {"load": 1.0, "dead": 1.0}},
+                    self_weight_case="dead", gravity=(0, -1), source="post.toml")
+    solution = solve_member(member, None, None)
+    assert solution.actions("all", np.array([2.0]))[0, MZ] == pytest.approx(1e3 * length / 4, rel=STATICS)  # AISC case 7
+    with pytest.raises(InputError, match="ux"):
+        solution.weights(10.0)
+    with pytest.raises(InputError, match="self weight"):
+        solve_member(member, STEEL, 10.0)
+
+
+def test_point_items_are_the_loads_then_the_reactions():
+    length, p = 4.0, 8e3
+    s = solve(length, [support(0.0, "pin"), support(length, "roller")], [point(1.0, fy=-p)])
+    at, forces = s.point_items()
+    np.testing.assert_allclose(at, [1.0, 0.0, length])
+    # Statics: R = P b / L and P a / L (AISC Table 3-23 case 8).
+    np.testing.assert_allclose(forces[:, FY], [-p, p * 3.0 / length, p * 1.0 / length], rtol=STATICS)
