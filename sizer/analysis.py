@@ -461,14 +461,14 @@ class _Terms:
         """For each shift: (n, ..., 4) sums over the terms in elements[j] of
         coef <s_j - at>^(power + shift) / (power + shift)!. Shift 0: load resultant on [0, s];
         1: its moment about s (for bars: its integral); 2, 3: further integrals from the element start."""
-        gap = s[:, None] - self.at[None, :]
-        inside = (self.element[None, :] == elements[:, None]) & (gap > 0)
-        gap = np.where(inside, gap, 0.0)
-        out = []
-        for shift in shifts:
-            order = self.power + shift
-            powers = np.where(inside & (order >= 0), gap ** np.maximum(order, 0) / _FACTORIAL[np.maximum(order, 0)], 0.0)
-            out.append(np.tensordot(powers, self.coef, axes=(1, 0)))
+        out = [np.zeros((len(s),) + self.coef.shape[1:]) for _ in shifts]
+        for element in np.intersect1d(elements, self.element):  # one element at a time: small blocks
+            rows, cols = np.flatnonzero(elements == element), np.flatnonzero(self.element == element)
+            gap = np.maximum(s[rows, None] - self.at[None, cols], 0.0)
+            for values, shift in zip(out, shifts):
+                order = self.power[cols] + shift
+                powers = np.where((gap > 0) & (order >= 0), gap ** np.maximum(order, 0) / _FACTORIAL[np.maximum(order, 0)], 0.0)
+                values[rows] = np.tensordot(powers, self.coef[cols], axes=(1, 0))
         return out
 
     def weighted(self, factors: np.ndarray) -> "_Terms":

@@ -3,14 +3,12 @@
 
 from __future__ import annotations
 
-import sys
-from enum import Enum
 from pathlib import Path
-from typing import Any, Callable, List, Optional
+from typing import List, Optional
 
 import typer
 
-from sizer.errors import InputError
+from sizer.cli_common import UnitSystem, run_guarded
 
 app = typer.Typer(
     name="sizer",
@@ -21,24 +19,9 @@ app = typer.Typer(
 )
 
 
-class UnitSystem(str, Enum):
-    si = "si"
-    us = "us"
-
-
 FILE_ARGUMENT = typer.Argument(..., help="Member file (TOML).", show_default=False)
 CATALOGUE_OPTION = typer.Option(None, "--catalogue", help="Catalogue file or folder; may repeat.")
 UNITS_OPTION = typer.Option(UnitSystem.si, "--units", help="Display units: si (kN, m, MPa) or us (kip, ft, ksi).")
-
-
-def run_guarded(work: Callable[[], int]) -> None:
-    """Run a command body; bad input -> one line on stderr, exit 2; otherwise exit with its code."""
-    try:
-        code = work()
-    except InputError as error:
-        typer.echo(f"sizer: {error}", err=True)
-        raise typer.Exit(2) from None
-    raise typer.Exit(code)
 
 
 def parse_cuts(values: list[str] | None) -> list[float]:

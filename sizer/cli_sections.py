@@ -8,10 +8,11 @@ from __future__ import annotations
 
 import sys
 from pathlib import Path
-from typing import Any, Callable, List, Optional
+from typing import Any, List, Optional
 
 import typer
 
+from sizer.cli_common import run_guarded
 from sizer.errors import InputError
 
 app = typer.Typer(
@@ -24,16 +25,6 @@ app = typer.Typer(
 CATALOGUE_OPTION = typer.Option(None, "--catalogue", help="Catalogue file or folder; may repeat. Default: ./section_library/, else the shipped one.")
 UNITS_OPTION = typer.Option("si", "--units", help="Display units: si (mm, kg/m, MPa) or us (in, lb/ft, ksi).")
 JSON_OPTION = typer.Option(False, "--json", help="JSON in SI base units on stdout.")
-
-
-def _guarded(work: Callable[[], int]) -> None:
-    """Run a command body: bad input -> one line on stderr and exit 2; else exit with its code."""
-    try:
-        code = work()
-    except InputError as error:
-        typer.echo(f"sizer: {error}", err=True)
-        raise typer.Exit(2) from None
-    raise typer.Exit(code)
 
 
 def _system(value: str) -> str:
@@ -116,7 +107,7 @@ def list_sections(
             out.print(cautions_panel())
         return 0
 
-    _guarded(work)
+    run_guarded(work)
 
 
 @app.command("show")
@@ -152,7 +143,7 @@ def show_section(
                 out.print(f"Drawing written to {plot}")
         return 0
 
-    _guarded(work)
+    run_guarded(work)
 
 
 @app.command("build")
@@ -178,7 +169,7 @@ def build_sections(
                    f"Cache: {cache_folder()}")
         return 0
 
-    _guarded(work)
+    run_guarded(work)
 
 
 @app.command("add")
@@ -211,7 +202,7 @@ def add_section(
         typer.echo(f"Added {spec.name} ({spec.shape}) to {file}.")
         return 0
 
-    _guarded(work)
+    run_guarded(work)
 
 
 @app.command("import")
@@ -241,4 +232,4 @@ def import_sections(
             typer.echo(f"Added {len(result.tables)} sections to {into}; {len(result.refused)} rows refused.")
         return 1 if result.refused else 0
 
-    _guarded(work)
+    run_guarded(work)
