@@ -49,7 +49,8 @@ ALLOWABLE_KEYS = ("tension", "compression", "bending", "shear", "equivalent")
 
 
 class KeyLines:
-    """Finds the line of a dotted key such as "loads[2].fy" in TOML text (best effort, for messages)."""
+    """Finds the line of a dotted key such as "loads[2].fy" (the second [[loads]] entry; entries count
+    from 1) in TOML text (best effort, for messages)."""
 
     _array = re.compile(r"^\s*\[\[\s*([^\]]+?)\s*\]\]")
     _table = re.compile(r"^\s*\[\s*([^\]]+?)\s*\]")
@@ -62,7 +63,7 @@ class KeyLines:
         for number, line in enumerate(text.splitlines(), start=1):
             if match := self._array.match(line):
                 name = _unquote_dotted(match.group(1))
-                counts[name] = counts.get(name, -1) + 1
+                counts[name] = counts.get(name, 0) + 1  # entries count from 1, as a reader counts them
                 prefix = f"{name}[{counts[name]}]"
                 self.lines.setdefault(prefix, number)
             elif match := self._table.match(line):
@@ -227,7 +228,7 @@ def _array_of_tables(reader: Reader, value: Any, name: str) -> list[dict]:
 
 def _read_supports(reader: Reader, value: Any, length: float) -> list[Support]:
     supports: list[Support] = []
-    for index, table in enumerate(_array_of_tables(reader, value, "supports")):
+    for index, table in enumerate(_array_of_tables(reader, value, "supports"), start=1):
         prefix = f"supports[{index}]"
         reader.known_keys(table, SUPPORT_KEYS, prefix)
         at = reader.position(table, "at", prefix, length)
@@ -281,7 +282,7 @@ def _read_springs(reader: Reader, value: Any, prefix: str) -> dict[str, float]:
 
 def _read_hinges(reader: Reader, value: Any, length: float) -> list[Hinge]:
     hinges = []
-    for index, table in enumerate(_array_of_tables(reader, value, "hinges")):
+    for index, table in enumerate(_array_of_tables(reader, value, "hinges"), start=1):
         prefix = f"hinges[{index}]"
         reader.known_keys(table, {"at"}, prefix)
         at = reader.position(table, "at", prefix, length)
@@ -301,7 +302,7 @@ def _case_name(reader: Reader, table: dict, prefix: str) -> str:
 
 def _read_loads(reader: Reader, value: Any, length: float) -> list[Load]:
     loads: list[Load] = []
-    for index, table in enumerate(_array_of_tables(reader, value, "loads")):
+    for index, table in enumerate(_array_of_tables(reader, value, "loads"), start=1):
         prefix = f"loads[{index}]"
         kind = table.get("type")
         if kind not in LOAD_KEYS:

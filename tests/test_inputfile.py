@@ -78,21 +78,21 @@ def test_spring_replaces_rigid_freedom(tmp_path):
 
 BAD_CASES = [
     # (replace this, with this, key expected in the message)
-    ('fy = "-12 kN"', 'fy = "-12"', "loads[0].fy"),  # a value without a unit
-    ('fy = "-12 kN"', "fy = -12", "loads[0].fy"),  # a bare number
-    ('fy = "-12 kN"', 'fy = "-12 kN/m"', "loads[0].fy"),  # the wrong dimension
-    ('at = "2 m"', 'at = "7 m"', "loads[0].at"),  # a load off the member
-    ('at = "6 m"', 'at = "6.5 m"', "supports[1].at"),  # a support off the member
+    ('fy = "-12 kN"', 'fy = "-12"', "loads[1].fy"),  # a value without a unit
+    ('fy = "-12 kN"', "fy = -12", "loads[1].fy"),  # a bare number
+    ('fy = "-12 kN"', 'fy = "-12 kN/m"', "loads[1].fy"),  # the wrong dimension
+    ('at = "2 m"', 'at = "7 m"', "loads[1].at"),  # a load off the member
+    ('at = "6 m"', 'at = "6.5 m"', "supports[2].at"),  # a support off the member
     ('length = "6 m"', 'length = "-6 m"', "member.length"),  # a negative dimension
     ('length = "6 m"', 'length = "0 m"', "member.length"),  # a zero dimension
-    ('fy = "-12 kN"', 'fy = "nan kN"', "loads[0].fy"),  # NaN
-    ('fy = "-12 kN"', 'fy = "inf kN"', "loads[0].fy"),  # infinity
-    ('type = "pin"', 'type = "hinge"', "supports[0].type"),  # an unknown support type
-    ('type = "point"', 'type = "pressure"', "loads[0].type"),  # an unknown load type
-    ('fy = "-12 kN"', 'fy = "-12 kN"\nfq = "1 kN"', "loads[0].fq"),  # an unknown key
+    ('fy = "-12 kN"', 'fy = "nan kN"', "loads[1].fy"),  # NaN
+    ('fy = "-12 kN"', 'fy = "inf kN"', "loads[1].fy"),  # infinity
+    ('type = "pin"', 'type = "hinge"', "supports[1].type"),  # an unknown support type
+    ('type = "point"', 'type = "pressure"', "loads[1].type"),  # an unknown load type
+    ('fy = "-12 kN"', 'fy = "-12 kN"\nfq = "1 kN"', "loads[1].fq"),  # an unknown key
     ('self_weight = false', 'self_weight = "dead"\n[combinations]\n"imposed only" = { imposed = 1.0 }', "member.self_weight"),
     ('self_weight = false', 'self_weight = false\n[combinations]\nc1 = { wind = 1.0 }', "combinations.c1.wind"),
-    ('wy_end = "-4 kN/m"', 'wy_end = "-4 kN/m"\nfrom = "5 m"\nto = "2 m"', "loads[1].to"),
+    ('wy_end = "-4 kN/m"', 'wy_end = "-4 kN/m"\nfrom = "5 m"\nto = "2 m"', "loads[2].to"),
 ]
 
 

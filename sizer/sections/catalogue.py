@@ -182,7 +182,7 @@ def load_catalogue(paths: Sequence[Path]) -> Catalogue:
             continue  # a member file or project file kept beside the catalogue files
         content = parse_catalogue_text(text, path, data)
         files.append(path)
-        for index, spec in enumerate(content.sections):
+        for index, spec in enumerate(content.sections, start=1):
             if spec.name in sections:
                 first = sections[spec.name]
                 raise InputError(str(path), f"sections[{index}].name", f"section name {spec.name!r} is also used in {_place(first.source, first.line)}",
@@ -230,7 +230,7 @@ def parse_catalogue_text(text: str, path: Path, data: dict | None = None) -> Cat
         raise reader.error("sections", "expected [[sections]] entries", 'write each section as [[sections]] with name = "..." and shape = "..."')
     sections: list[SectionSpec] = []
     lines: dict[str, int | None] = {}
-    for index, entry in enumerate(entries):
+    for index, entry in enumerate(entries, start=1):
         spec = parse_section(entry, reader, f"sections[{index}]")
         if spec.name in lines:
             raise reader.error(f"sections[{index}].name", f"section name {spec.name!r} is used twice in this file (first at line {lines[spec.name]})",
