@@ -29,7 +29,7 @@ from sizer.design import Design, oriented_stiffness
 from sizer.errors import InputError
 from sizer.model import Material, Member, Stiffness
 
-SCREEN_CHUNK = 2_000_000  # section x combination x station values screened at once
+SCREEN_CHUNK = 30_000  # section x combination x station values screened at once (fits the CPU caches)
 STRESS_CHECKS = ("bending", "interaction", "shear", "equivalent")
 
 
