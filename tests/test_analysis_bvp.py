@@ -403,6 +403,22 @@ def test_cantilever_with_end_spring_and_point_moment():
     compare_xy_bending(member, loads, ref)
 
 
+def test_end_held_by_a_rotational_spring():
+    """Pin with a rotational spring 8 MN*m/rad about z at 0, roller at 7 m; partial uniform load
+    9 kN/m down from 1 m to 6 m. The spring's couple is -k_r rz (Hooke's law)."""
+    length, k_r, w = 7.0, 8e6, -9e3
+    loads = [LineLoad(case="load", start=1.0, end=6.0, q_start=(0, w, 0, 0), q_end=(0, w, 0, 0))]
+    end_a = Support(at=0.0, restrain=SUPPORT_TYPES["pin"], springs={"rz": k_r}, label="spring")
+    member = make_member(length, [end_a, support(length, "roller")], loads)
+    nodes = [Node(0.0, rigid_w=True, spring_r=k_r), Node(1.0), Node(6.0), Node(length, rigid_w=True)]
+    chain = Chain(length, nodes, linear_load(1.0, 6.0, w, w), STEEL_IPE300.EIz, q_ref=abs(w))
+    ref = solve_chain(chain)
+    compare_xy_bending(member, loads, ref)
+    rotation = ref.states(np.array([0.0]))[0, 1]
+    reactions = solve_case(member, loads, STEEL_IPE300, "load").reactions
+    assert reactions[0, 5] == pytest.approx(-k_r * rotation, rel=RTOL)
+
+
 def test_beam_with_internal_hinge():
     """Fixed at 0, hinge at 3 m, rollers at 6 m and 10 m (once indeterminate); uniform 12 kN/m
     over the whole length and 30 kN at 8 m."""

@@ -361,6 +361,24 @@ def test_simply_supported_beam_fixes_the_signs():
     assert deflection == pytest.approx(-5 * w * length**4 / (384 * STEEL_IPE300.EIz), rel=1e-9)
 
 
+@pytest.mark.parametrize("gap", [1e-2, 1e-3, 1e-4])
+def test_load_close_to_a_spring_support_keeps_equilibrium(gap: float):
+    """Pin at 0, spring 1 kN/mm on uy at 4 m, 10 kN down at `gap` m before the spring. The beam
+    is statically determinate, so the spring reaction is P a / L by statics (moments about the
+    pin; common practice), whatever the stiffness. A load a fraction of a millimetre off a
+    support is ordinary input (a rounded position)."""
+    length, k, force = 4.0, 1e6, -10e3
+    at = length - gap
+    loads = (PointLoad(case="p", at=at, force=(0.0, force, 0.0)),)
+    spring = Support(at=length, restrain=frozenset({"uz", "rx"}), springs={"uy": k}, label="spring")
+    member = Member(
+        length=length, material="steel", supports=(Support(0.0, SUPPORT_TYPES["pin"], label="pin"), spring),
+        loads=loads, combinations={"all": {"p": 1.0}}, self_weight_case=None,
+    )
+    reactions = solve_case(member, loads, STEEL_IPE300, "p").reactions
+    np.testing.assert_allclose(reactions[:, 1], [-force * (length - at) / length, -force * at / length], rtol=1e-6)
+
+
 # --------------------------------------------------------------------------------------------
 # Properties
 # --------------------------------------------------------------------------------------------

@@ -60,6 +60,16 @@ def member_notes(member: Member) -> list[str]:
     return notes
 
 
+def without_round_off(values: Any, scale: float | None = None, relative: float = 1e-9) -> Any:
+    """`values` (an array) with entries smaller than `relative` x `scale` (default: its largest entry)
+    set to exactly 0: the round-off of sums that are zero in exact arithmetic."""
+    import numpy as np
+
+    values = np.asarray(values, dtype=float)
+    scale = np.abs(values).max(initial=0.0) if scale is None else scale
+    return np.where(np.abs(values) <= relative * scale, 0.0, values)
+
+
 def to_jsonable(value: Any) -> Any:
     """Convert numpy scalars/arrays and tuples to plain JSON types; NaN/inf become null."""
     try:

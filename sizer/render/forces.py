@@ -10,7 +10,7 @@ import numpy as np
 from sizer import units
 from sizer.analysis import MemberSolution, extremes
 from sizer.model import ACTIONS, LineLoad, Member, PointLoad
-from sizer.render.common import CAUTIONS, cautions_panel, notes_panel
+from sizer.render.common import CAUTIONS, cautions_panel, notes_panel, without_round_off
 
 ACTION_KINDS = {"N": "force", "Vy": "force", "Vz": "force", "T": "moment", "My": "moment", "Mz": "moment", "V": "force", "M": "moment"}
 REACTION_NAMES = ("Fx", "Fy", "Fz", "Mx", "My", "Mz")
@@ -86,7 +86,7 @@ def deflection_summary(solution: MemberSolution, combination: str, n: int = 801)
 
 def forces_document(solution: MemberSolution, combination: str, xs: np.ndarray) -> dict[str, Any]:
     """SPEC section 6 `forces` object for one combination (SI base units)."""
-    reactions = solution.reactions(combination)
+    reactions = without_round_off(solution.reactions(combination))
     document: dict[str, Any] = {
         "combination": combination,
         "reactions": [
@@ -126,7 +126,7 @@ def _shown_actions(planar: bool) -> tuple[str, ...]:
 def reactions_table(solution: MemberSolution, combination: str, system: str) -> Any:
     from rich.table import Table
 
-    reactions = solution.reactions(combination)
+    reactions = without_round_off(solution.reactions(combination))
     shown = [i for i in range(6) if np.any(np.abs(reactions[:, i]) > TINY_FORCE)] or [1]
     table = Table(title="Reactions (support on member)", title_justify="left", header_style="bold")
     table.add_column("support")

@@ -29,14 +29,13 @@ from sizer.errors import InputError
 from sizer.files import write_atomic
 from sizer.model import FREEDOMS, LineLoad, PointLoad
 from sizer.render.check import check_json
-from sizer.render.common import CAUTIONS, dumps
+from sizer.render.common import CAUTIONS, dumps, without_round_off
 from sizer.render.forces import REACTION_KINDS, REACTION_NAMES, governing_moment, is_planar
 from sizer.render.plots import build_figure, build_free_body_figure, figure_bytes, style
 
 QUANTITY_KINDS = {"stress": "stress", "deflection": "deflection", "force": "force"}
 ACTION_NAMES = ("N", "Vy", "Vz", "T", "My", "Mz")
 ACTION_KINDS = ("force", "force", "force", "moment", "moment", "moment")
-ROUND_OFF = 1e-9  # relative size of sums treated as zero
 CHECK_ACTIONS = {"axial": (0,), "buckling": (0,), "bending": (4, 5), "shear": (1, 2, 3)}  # actions that drive a check
 
 STYLE = """
@@ -672,11 +671,6 @@ def segment_balance(design: Design, combination: str, x: float, side: str) -> Se
     analysis = design.solution.actions(combination, [x], side)[0]
     scale = max([float(np.abs(item.vector).max()) for item in items] + [float(np.abs(analysis).max()), 1.0])
     return SegmentBalance(combination, x, side, items, without_round_off(found, scale), without_round_off(analysis, scale))
-
-
-def without_round_off(values: np.ndarray, scale: float) -> np.ndarray:
-    """`values` with those below 1e-9 of `scale` (round-off of the sums) set to zero."""
-    return np.where(np.abs(values) < ROUND_OFF * scale, 0.0, values)
 
 
 def cut_side(design: Design, report: CheckReport, combination: str, x: float) -> str:
