@@ -191,7 +191,7 @@ def main() -> None:
 def in_process_figures(member_path: Path, catalogue_path: Path, runs: int) -> None:
     """(c) screening throughput and (d) the naive full-field way against size_member."""
     from sizer.analysis import solve_member
-    from sizer.checks import check_design, check_stations
+    from sizer.checks import check_design, check_stations, deflection_check, full_field_stresses, member_actions, to_section_axes
     from sizer.design import Design, catalogue_for, resolve_material
     from sizer.inputfile import read_member_file
     from sizer.model import Stiffness
@@ -236,18 +236,32 @@ def in_process_figures(member_path: Path, catalogue_path: Path, runs: int) -> No
     sample = fresh[max(0, position - 10):position + 10]
 
     def naive_one(candidate, from_disk: bool) -> bool:
+        """The naive way: solve this section, then the full stress field at every node of every
+        station of every combination (no bounds, no pruning), deflections, and the verdict."""
         if from_disk:
             clear_memory()
         design = design_for(member, material, candidate)
-        return check_design(design, unit_stress_field(candidate.spec)).passes
+        xs, sides = check_stations(design)
+        actions = to_section_axes(member_actions(design, xs, sides), member.orientation)
+        stress = full_field_stresses(actions, unit_stress_field(candidate.spec), candidate.props.area)
+        allow = material.allowable
+        worst = max(stress.bending.max() / allow.bending, stress.shear.max() / allow.shear,
+                    stress.equivalent.max() / allow.equivalent, abs(stress.axial).max() / allow.compression,
+                    deflection_check(design).utilization or 0.0)
+        return check_design(design, unit_stress_field(candidate.spec)).passes if worst <= 1.0 else False
 
     for label, from_disk in (("unit fields read from the disk cache", True), ("unit fields already in memory", False)):
         start = time.perf_counter()
         verdicts = [naive_one(candidate, from_disk) for candidate in sample]
         per_section = (time.perf_counter() - start) / len(sample)
         naive_total = per_section * len(fresh)
-        print(f"(d) naive full-field check ({label}): {per_section * 1e3:.1f} ms per section x {len(fresh)} = {naive_total:.1f} s; "
-              f"size_member {size_time:.3f} s; ratio {naive_total / size_time:.0f}x (target >= 100x)")
+        print(f"(d) naive way, every node at every station ({label}): {per_section * 1e3:.1f} ms per section x {len(fresh)} = "
+              f"{naive_total:.1f} s; size_member {size_time:.3f} s; ratio {naive_total / size_time:.0f}x (target >= 100x)")
+    start = time.perf_counter()
+    for candidate in sample:
+        check_design(design_for(member, material, candidate), unit_stress_field(candidate.spec))
+    ordered = (time.perf_counter() - start) / len(sample)
+    print(f"    for comparison, sizer's own full check (stations in order of their stress bound): {ordered * 1e3:.1f} ms per section")
     naive_choice = next((c.name for c, passes in zip(sample, verdicts) if passes), None)  # the lightest passing in the sample
     agrees = naive_choice == (chosen.name if chosen else None)
     print(f"    naive answer on the {len(sample)} sections around the choice (by mass): {naive_choice} "

@@ -40,7 +40,7 @@ from sizer.model import Hinge, LineLoad, Member, PointLoad, Stiffness, Support, 
 # Iz = 604 cm^4, It = 20.1 cm^4; E = 200 GPa, G = 77 GPa (common practice).
 STEEL_IPE300 = Stiffness(EA=200e9 * 53.8e-4, GJ=77e9 * 20.1e-8, EIz=200e9 * 8356e-8, EIy=200e9 * 604e-8)
 GRID = 20  # supports and hinges sit on multiples of L / GRID
-LOAD_GRID = 400  # loads start, end or sit on multiples of L / LOAD_GRID (supports lie on it too)
+LOAD_GRID = 4000  # loads start, end or sit on multiples of L / LOAD_GRID (supports lie on it too)
 RTOL = 1e-6  # equilibrium and superposition, relative to the scale of the problem
 PROPERTY_SETTINGS = settings(
     max_examples=50, deadline=None, suppress_health_check=[HealthCheck.filter_too_much, HealthCheck.too_slow]
@@ -115,7 +115,7 @@ def layouts(draw) -> tuple[float, tuple[Support, ...], tuple[Hinge, ...]]:
     spring_index = draw(st.one_of(st.none(), st.integers(0, len(supports) - 1)))
     if spring_index is not None:
         old = supports[spring_index]
-        stiffness = draw(st.floats(1e6, 1e9))  # N/m: 1 to 1000 kN/mm
+        stiffness = draw(st.floats(1e5, 1e9))  # N/m: 0.1 to 1000 kN/mm
         supports[spring_index] = Support(
             at=old.at, restrain=old.restrain - {"uy"}, springs={"uy": stiffness}, label="spring"
         )
