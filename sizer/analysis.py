@@ -1198,6 +1198,35 @@ def zero_shear_points(solution: MemberSolution, combination: str, action: str = 
     return np.unique(lo[segment] + t * (hi[segment] - lo[segment]))
 
 
+def load_sign_change_points(solution: MemberSolution, combination: str) -> np.ndarray:
+    """x (m) where a combination's summed line load wx, wy, wz or mx changes sign inside a stretch
+    between line-load ends: there N, Vy, Vz or T has a local extreme (dN/dx = -wx, and so on)."""
+    weights = solution._row(combination)
+    pieces = []
+    for weight, case in zip(weights, solution._solutions()):
+        if case is None or weight == 0.0:
+            continue
+        start, end, q_start, q_end = case.line_items()
+        pieces.append((start, end, weight * q_start, weight * q_end))
+    if not pieces:
+        return np.empty(0)
+    start, end, q_start, q_end = (np.concatenate(parts) for parts in zip(*pieces))
+    ends = _merge_positions(np.unique(np.concatenate([[0.0, solution.member.length], start, end])), _tolerance(solution.member))
+    lo, hi = ends[:-1], ends[1:]
+    slope = (q_end - q_start) / np.where(end > start, end - start, 1.0)[:, None]
+
+    def intensity(x: np.ndarray) -> np.ndarray:  # (stretches, 4) summed over loads covering each stretch
+        covers = (start[None, :] <= lo[:, None] + 1e-12) & (end[None, :] >= hi[:, None] - 1e-12)
+        values = q_start[None] + slope[None] * (x[:, None] - start[None, :])[..., None]
+        return (values * covers[..., None]).sum(axis=1)
+
+    at_lo, at_hi = intensity(lo), intensity(hi)
+    crossing = (at_lo * at_hi) < 0
+    stretch, _ = np.nonzero(crossing)
+    t = at_lo[crossing] / (at_lo[crossing] - at_hi[crossing])
+    return np.unique(lo[stretch] + t * (hi[stretch] - lo[stretch]))
+
+
 @dataclass(frozen=True)
 class Extreme:
     """Largest and smallest value of one action over the member (N or N*m) and where (m)."""
@@ -1211,9 +1240,11 @@ class Extreme:
 
 def extremes(solution: MemberSolution, combination: str, n_even: int = 400) -> dict[str, Extreme]:
     """Largest and smallest of N, Vy, Vz, T, My, Mz, V, M (beam convention V = -Vy, M = Mz) over the
-    stations including zero-shear points, both sides of every concentrated item."""
+    stations including zero-shear points and the points where a line load changes sign, both sides
+    of every concentrated item."""
     x, side = stations(solution.member, n_even)
-    extra = np.concatenate([zero_shear_points(solution, combination, "Vy"), zero_shear_points(solution, combination, "Vz")])
+    extra = np.concatenate([zero_shear_points(solution, combination, "Vy"), zero_shear_points(solution, combination, "Vz"),
+                            load_sign_change_points(solution, combination)])
     x = np.concatenate([x, extra])
     side = np.concatenate([side, np.full(extra.size, "right")])
     values = solution.actions(combination, x, side)

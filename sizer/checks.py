@@ -18,7 +18,7 @@ from typing import Any, Iterable
 
 import numpy as np
 
-from sizer.analysis import stations, zero_shear_points
+from sizer.analysis import load_sign_change_points, stations, zero_shear_points
 from sizer.design import Design
 from sizer.errors import InputError
 from sizer.model import Member
@@ -84,10 +84,13 @@ class CheckReport:
 # stations and actions
 
 def check_stations(design: Design, n_even: int = 200) -> tuple[np.ndarray, np.ndarray]:
-    """Stations x (m) and sides: supports, loads, hinges (both sides), even spacing, and the zero-shear
-    points of every combination (local extremes of the bending moments)."""
+    """Stations x (m) and sides: supports, loads, hinges (both sides), even spacing, the zero-shear
+    points of every combination (local extremes of the bending moments) and the points where a line
+    load changes sign (local extremes of the shear forces, axial force and torque)."""
     xs, sides = stations(design.member, n_even)
-    extra = [zero_shear_points(design.solution, name, action) for name in design.solution.combination_names for action in ("Vy", "Vz")]
+    names = design.solution.combination_names
+    extra = [zero_shear_points(design.solution, name, action) for name in names for action in ("Vy", "Vz")]
+    extra += [load_sign_change_points(design.solution, name) for name in names]
     extra = np.unique(np.concatenate(extra)) if extra else np.empty(0)
     xs = np.concatenate([xs, extra])
     sides = np.concatenate([sides, np.full(extra.shape, "right")])

@@ -27,15 +27,15 @@ from scipy.integrate import solve_bvp
 from sizer.analysis import solve_case
 from sizer.model import Hinge, LineLoad, Member, PointLoad, Stiffness, Support, SUPPORT_TYPES
 
-# IPE 300 handbook properties from REFERENCES.md (from memory): A = 53.8 cm^2, Iy = 8356 cm^4,
-# Iz = 604 cm^4, It = 20.1 cm^4; steel E = 200 GPa, G = 77 GPa (common practice).
+# IPE 300 handbook properties from REFERENCES.md (from memory; European axis names): A = 53.8 cm^2,
+# strong axis 8356 cm^4 (our EIz), weak axis 604 cm^4 (our EIy), It = 20.1 cm^4; steel E = 200 GPa,
+# G = 77 GPa (common practice).
 E_STEEL = 200e9
 G_STEEL = 77e9
 STEEL_IPE300 = Stiffness(
     EA=E_STEEL * 53.8e-4, GJ=G_STEEL * 20.1e-8, EIz=E_STEEL * 8356e-8, EIy=E_STEEL * 604e-8
 )
 RTOL = 1e-6  # agreement asked for, relative to the largest value of each quantity
-FREE = frozenset({"ux", "rx"})  # holds only axial sliding and twist: the plane problem is apart
 
 
 # --------------------------------------------------------------------------------------------
