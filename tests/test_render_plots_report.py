@@ -33,23 +33,12 @@ from sizer.render.plots import DPI, FIG_WIDTH, build_figure, check_plot_path, pl
 from sizer.render.report import report_html, section_outline, segment_balance, write_report
 from sizer.report_command import run_report
 from sizer.sections import unit_stress_field
+from steel import STEEL_TOML
 
 GRAVITY = 9.80665  # m/s², standard gravity (ISO 80000-3)
 DEPTH, WIDTH = 0.120, 0.040  # m, the test flat
 DENSITY = 7850.0  # kg/m³, steel (common practice)
-CATALOGUE = """
-[materials.steel]
-elastic_modulus = "200 GPa"
-shear_modulus = "77 GPa"
-density = "7850 kg/m^3"
-yield_strength = "250 MPa"
-[materials.steel.allowable]
-tension = "150 MPa"
-compression = "150 MPa"
-bending = "165 MPa"
-shear = "100 MPa"
-equivalent = "170 MPa"
-
+CATALOGUE = STEEL_TOML + """
 [[sections]]
 name = "Flat 120x40"
 shape = "rectangle"

@@ -23,6 +23,7 @@ from typer.testing import CliRunner
 
 from sizer.cli import app
 from sizer.sections import build_catalogue, load_catalogue
+from steel import STEEL_TOML
 
 MM = 1e-3
 KN = 1e3
@@ -35,19 +36,7 @@ MARGIN = 0.03  # every closed-form utilization is at least this far from 1.0
 MESH_TOLERANCE = 0.01  # relative: sectionproperties against the closed forms for solid bars and tubes
 SAME = 1e-9  # relative: `sizer size` and `sizer check` make the same computation
 
-MATERIAL = """
-[materials.steel]
-elastic_modulus = "200 GPa"
-shear_modulus = "77 GPa"
-density = "7850 kg/m^3"
-yield_strength = "250 MPa"
-[materials.steel.allowable]
-tension = "150 MPa"
-compression = "150 MPa"
-bending = "165 MPa"
-shear = "100 MPa"
-equivalent = "170 MPa"
-"""
+MATERIAL = STEEL_TOML
 
 Entries = dict[str, tuple[str, dict[str, str], str]]  # name -> (shape, dimensions, family)
 
