@@ -124,15 +124,16 @@ def _shown_actions(planar: bool) -> tuple[str, ...]:
 
 
 def reactions_table(solution: MemberSolution, combination: str, system: str) -> Any:
+    from rich import box
     from rich.table import Table
 
     reactions = without_round_off(solution.reactions(combination))
     shown = [i for i in range(6) if np.any(np.abs(reactions[:, i]) > TINY_FORCE)] or [1]
-    table = Table(title="Reactions (support on member)", title_justify="left", header_style="bold")
-    table.add_column("support")
-    table.add_column("at", justify="right")
+    table = Table(title="Reactions (support on member)", title_justify="left", header_style="bold", box=box.SIMPLE_HEAD, pad_edge=False)
+    table.add_column("support", no_wrap=True)
+    table.add_column("at", justify="right", no_wrap=True)
     for i in shown:
-        table.add_column(REACTION_NAMES[i], justify="right")
+        table.add_column(REACTION_NAMES[i], justify="right", no_wrap=True)
     for index, support in enumerate(solution.member.supports):
         cells = [_fmt(reactions[index, i], REACTION_KINDS[i], system) for i in shown]
         table.add_row(support.label, units.fmt(support.at, "length", system), *cells)
@@ -140,29 +141,35 @@ def reactions_table(solution: MemberSolution, combination: str, system: str) -> 
 
 
 def cuts_table(cuts: list[Cut], planar: bool, system: str) -> Any:
+    """Actions at the requested cuts; the unit of each column is in its header."""
+    from rich import box
     from rich.table import Table
 
-    table = Table(title="Internal actions at cuts (on the +x face of the left segment)", title_justify="left", header_style="bold")
-    table.add_column("x", justify="right")
-    table.add_column("side")
+    table = Table(title="Internal actions at cuts (+x face of the left segment)", title_justify="left",
+                  header_style="bold", box=box.SIMPLE_HEAD, pad_edge=False)
+    table.add_column(f"x ({units.unit_label('length', system)})", justify="right", no_wrap=True)
+    table.add_column("side", no_wrap=True)
     names = _shown_actions(planar)
     for name in names:
-        table.add_column(name, justify="right")
+        table.add_column(f"{name} ({units.unit_label(ACTION_KINDS[name], system)})", justify="right", no_wrap=True)
     for cut in cuts:
         sides = (("x−", cut.left), ("x+", cut.right)) if cut.jump else (("", cut.right),)
         for label, values in sides:
             actions = _action_dict(values)
-            table.add_row(units.fmt(cut.at, "length", system), label, *(_fmt(actions[n], ACTION_KINDS[n], system) for n in names))
+            cells = [units.fmt_number(units.to_display(0.0 if abs(actions[n]) < TINY_FORCE else actions[n], ACTION_KINDS[n], system))
+                     for n in names]
+            table.add_row(units.fmt_number(units.to_display(cut.at, "length", system)), label, *cells)
     return table
 
 
 def extremes_table(solution: MemberSolution, combination: str, planar: bool, system: str) -> Any:
+    from rich import box
     from rich.table import Table
 
     found = extremes(solution, combination)
-    table = Table(title="Extremes along the member", title_justify="left", header_style="bold")
+    table = Table(title="Extremes along the member", title_justify="left", header_style="bold", box=box.SIMPLE_HEAD, pad_edge=False)
     for column in ("action", "largest", "at", "smallest", "at"):
-        table.add_column(column, justify="left" if column == "action" else "right")
+        table.add_column(column, justify="left" if column == "action" else "right", no_wrap=True)
     for name in _shown_actions(planar):
         extreme = found[name]
         kind = ACTION_KINDS[name]
