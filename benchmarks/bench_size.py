@@ -169,6 +169,7 @@ def main() -> None:
     workdir.mkdir(parents=True, exist_ok=True)
     catalogue, member, count = write_inputs(workdir)
     env = dict(os.environ, SIZER_CACHE_DIR=str(workdir / "cache"), COLUMNS="120")
+    env.pop("PYTHONDONTWRITEBYTECODE", None)  # as on a user's machine: compiled modules are kept between runs
     os.environ["SIZER_CACHE_DIR"] = env["SIZER_CACHE_DIR"]
     print(f"cores: {os.cpu_count()}, catalogue: {count} i_beam sections in {catalogue}, cache: {env['SIZER_CACHE_DIR']}")
 

@@ -47,28 +47,6 @@ def _console() -> Any:
     return out if out.is_terminal else Console(highlight=False, width=160)
 
 
-def _progress_bar(description: str, transient: bool = False) -> Any:
-    """A rich progress bar on stderr (kept off stdout so JSON and TOML stay clean)."""
-    from rich.console import Console
-    from rich.progress import BarColumn, MofNCompleteColumn, Progress, TextColumn, TimeElapsedColumn
-
-    return Progress(TextColumn(description), BarColumn(), MofNCompleteColumn(), TimeElapsedColumn(),
-                    TextColumn("{task.fields[section]}"), console=Console(stderr=True), transient=transient)
-
-
-def _build(specs: list[Any], description: str) -> Any:
-    """Compute whatever the cache lacks, with a progress bar that goes when the work is done."""
-    from sizer.sections import build_catalogue
-
-    with _progress_bar(description, transient=True) as bar:
-        task = bar.add_task(description, total=None, section="")
-
-        def report(done: int, total: int, name: str) -> None:
-            bar.update(task, completed=done, total=total, section=name)
-
-        return build_catalogue(specs, progress=report)
-
-
 def _with_mass(catalogue: Any, specs: list[Any]) -> list[tuple[Any, Any, Any, str]]:
     """(spec, properties with the mass of its material, material name or None, note) per spec."""
     from sizer.sections import section_properties
@@ -92,12 +70,12 @@ def list_sections(
 
     def work() -> int:
         from sizer.render.common import cautions_panel, dumps
-        from sizer.render.sections import list_json, list_table
+        from sizer.render.sections import build_with_progress, list_json, list_table
 
         system = _system(units_system)
         loaded = _catalogue(catalogue)
         specs = loaded.select(family or [])
-        _build(specs, "Section properties")
+        build_with_progress(specs, "Section properties")
         rows = _with_mass(loaded, specs)
         if json_output:
             typer.echo(dumps(list_json([(spec, props, name) for spec, props, name, _ in rows])))
@@ -161,7 +139,9 @@ def build_sections(
             raise InputError("", "--workers", f"{workers} is not a number of processes", "give 1 or more")
         loaded = _catalogue(catalogue)
         specs = list(loaded.sections.values())
-        with _progress_bar("Building") as bar:
+        from sizer.render.common import progress_bar
+
+        with progress_bar("Building") as bar:
             task = bar.add_task("Building", total=None, section="")
             summary = build_catalogue(specs, workers, lambda done, total, name: bar.update(task, completed=done, total=total, section=name))
         typer.echo(f"{summary.sections} sections ({summary.geometries} distinct shapes): {summary.computed} computed "

@@ -25,6 +25,15 @@ def console(stderr: bool = False) -> Any:
     return Console(stderr=stderr, highlight=False, soft_wrap=False)
 
 
+def progress_bar(description: str, transient: bool = False) -> Any:
+    """A rich progress bar on stderr (kept off stdout so JSON and TOML stay clean)."""
+    from rich.console import Console
+    from rich.progress import BarColumn, MofNCompleteColumn, Progress, TextColumn, TimeElapsedColumn
+
+    return Progress(TextColumn(description), BarColumn(), MofNCompleteColumn(), TimeElapsedColumn(),
+                    TextColumn("{task.fields[section]}"), console=Console(stderr=True), transient=transient)
+
+
 def cautions_panel() -> Any:
     """The cautions in a visible panel."""
     from rich.panel import Panel

@@ -187,3 +187,27 @@ def write_section_plot(spec: SectionSpec, props: SectionProperties, path: Path) 
     buffer = io.BytesIO()
     figure.savefig(buffer, format=path.suffix.lower().lstrip("."), bbox_inches="tight")
     write_atomic(path, buffer.getvalue())
+
+
+def build_with_progress(specs: list[Any], description: str, check_arrays: bool = True) -> Any:
+    """Compute whatever the cache lacks, with a progress bar on stderr (only when there is work; it
+    goes when the work is done)."""
+    from sizer.render.common import progress_bar
+    from sizer.sections import build_catalogue
+
+    shown: dict[str, Any] = {}
+
+    def report(done: int, total: int, name: str) -> None:
+        if "bar" not in shown:
+            if done >= total:
+                return
+            shown["bar"] = progress_bar(description, transient=True)
+            shown["bar"].start()
+            shown["task"] = shown["bar"].add_task(description, total=total, section="")
+        shown["bar"].update(shown["task"], completed=done, total=total, section=name)
+
+    try:
+        return build_catalogue(specs, progress=report, check_arrays=check_arrays)
+    finally:
+        if "bar" in shown:
+            shown["bar"].stop()
