@@ -12,7 +12,7 @@ from sizer.render.common import CAUTIONS, cautions_panel, notes_panel, without_r
 from sizer.render.forces import REACTION_KINDS, REACTION_NAMES, TINY_FORCE
 
 QUANTITY_KINDS = {"stress": "stress", "deflection": "deflection", "force": "force"}
-BAR_WIDTH = 8
+BAR_WIDTH = 6
 
 
 def check_json(design: Design, report: CheckReport, notes: list[str]) -> dict[str, Any]:
