@@ -100,12 +100,7 @@ def check_stations(design: Design, n_even: int = 200) -> tuple[np.ndarray, np.nd
 
 def member_actions(design: Design, xs: np.ndarray, sides: np.ndarray) -> np.ndarray:
     """(n_combinations, n_stations, 6) actions N, Vy, Vz, T, My, Mz at each station, each on its side."""
-    out = np.empty((len(design.solution.combination_names), len(xs), 6))
-    for side in ("left", "right"):
-        mask = sides == side
-        if mask.any():
-            out[:, mask, :] = design.solution.all_actions(xs[mask], side)
-    return out
+    return design.solution.all_actions(xs, sides)
 
 
 def to_section_axes(actions: np.ndarray, orientation: str) -> np.ndarray:
@@ -167,9 +162,7 @@ class FieldPeaks:
         self.unit_field = unit_field
         self.area = area
         self.axial = actions[..., 0] / area  # (C, N) exact, signed
-        sigma_peak = np.abs(np.asarray(unit_field.sigma)).max(axis=1)
-        tau = np.asarray(unit_field.tau)
-        tau_peak = np.sqrt(tau[..., 0] ** 2 + tau[..., 1] ** 2).max(axis=1)
+        sigma_peak, tau_peak = unit_field.sigma_peak, unit_field.tau_peak
         size = np.abs(self.flat)
         self.bending_upper = size[:, 4] * sigma_peak[1] + size[:, 5] * sigma_peak[2]
         self.shear_upper = size[:, 1:4] @ tau_peak
@@ -230,10 +223,9 @@ def critical_stress(slenderness: float, modulus: float, yield_strength: float | 
     return yield_strength * (1.0 - slenderness**2 / (2.0 * transition**2)), "Johnson"
 
 
-def buckling_axes(design: Design) -> list[BucklingAxis]:
+def buckling_axes(member: Member, props: Any, material: Any) -> list[BucklingAxis]:
     """Buckling about the section's principal axes: major (I11) with buckling_length_major, minor (I22)
     with buckling_length_minor; defaults: the member length."""
-    member, props, material = design.member, design.props, design.material
     settings = member.checks
     axes = []
     for axis, inertia, length in (("major", props.I11, settings.buckling_length_major), ("minor", props.I22, settings.buckling_length_minor)):
@@ -385,6 +377,17 @@ def spans(member: Member) -> list[Span]:
     return found
 
 
+def relative_to_supports(moved: np.ndarray, span: Span) -> np.ndarray:
+    """(c, n, 2) transverse displacements at n points evenly spaced over the span, relative to its
+    supports: the chord between the span's ends, or, for an overhang, its base support. `moved` is
+    (c, n + 1, 2): the n points, then the displacement at the base (overhang) or start (span)."""
+    body = moved[:, :-1]
+    if span.overhang:
+        return body - moved[:, -1:]
+    t = np.linspace(0.0, 1.0, body.shape[1])[None, :, None]
+    return body - ((1 - t) * body[:, :1] + t * body[:, -1:])
+
+
 def span_deflections(design: Design, span: Span, combinations: Iterable[str], n: int = 201) -> tuple[float, float, str]:
     """Largest transverse deflection (m) relative to the span's supports (chord between them; for an
     overhang, relative to its support's displacement), with x and combination."""
@@ -393,12 +396,7 @@ def span_deflections(design: Design, span: Span, combinations: Iterable[str], n:
     xs = np.linspace(span.start, span.end, n)
     points = np.append(xs, span.base if span.overhang else span.start)
     moved = design.solution.all_displacements(points)[chosen][..., 1:3]  # (c, n + 1, 2): uy, uz
-    body = moved[:, :-1]
-    if span.overhang:
-        relative = body - moved[:, -1:]
-    else:
-        t = ((xs - span.start) / span.length)[None, :, None]
-        relative = body - ((1 - t) * body[:, :1] + t * body[:, -1:])
+    relative = relative_to_supports(moved, span)
     size = np.hypot(relative[..., 0], relative[..., 1])
     c, k = np.unravel_index(int(np.argmax(size)), size.shape)
     return float(size[c, k]), float(xs[k]), names[chosen[c]]
@@ -432,7 +430,7 @@ def check_design(design: Design, unit_field: Any, n_even: int = 200) -> CheckRep
     names = design.solution.combination_names
     actions = to_section_axes(member_actions(design, xs, sides), design.member.orientation)
     stress = FieldPeaks(actions, unit_field, design.props.area)
-    axes = buckling_axes(design)
+    axes = buckling_axes(design.member, design.props, design.material)
     checks = [
         axial_check(stress, xs, names, design),
         bending_check(stress, xs, names, design),

@@ -3,12 +3,13 @@
 from __future__ import annotations
 
 from pathlib import Path
-from typing import Sequence
+from typing import Any, Sequence
 
 from sizer.errors import InputError
 
 
-def _write_or_print(text: str) -> None:
+def _print_document(text: str) -> None:
+    """A JSON document on stdout."""
     import sys
 
     sys.stdout.write(text + "\n")
@@ -43,43 +44,48 @@ def run_forces(file: Path, cuts: list[float], combination: str | None, catalogue
 
         plot_member(design, plot, combinations[0])
     if json_output:
-        _write_or_print(dumps(forces_json(design.solution, combinations, xs, notes)))
+        _print_document(dumps(forces_json(design.solution, combinations, xs, notes)))
         return 0
     section_line = design.spec.name if design.spec is not None else "none (forces only)"
     print_forces(console(), design.solution, combinations, np.asarray(cuts) if cuts else None, notes, system, section_line)
     return 0
 
 
-def run_check(file: Path, section: str | None, catalogue: Sequence[Path], json_output: bool, plot: Path | None, system: str) -> int:
-    """`sizer check`: exit 0 when the section passes every check, 1 when it fails."""
+def checked_design(file: Path, section: str | None, catalogue: Sequence[Path]) -> tuple[Any, Any, list[str]]:
+    """Read, resolve, solve and check one section: (design, check report, every assumption made).
+    Shared by `sizer check` and `sizer report`, so both say the same."""
     from sizer.checks import check_design
     from sizer.design import prepare
     from sizer.inputfile import read_member_file
-    from sizer.render.check import check_json, print_check
-    from sizer.render.common import console, dumps, member_notes
+    from sizer.render.common import member_notes
     from sizer.sections import unit_stress_field
+
+    member = read_member_file(file)
+    design = prepare(member, catalogue, section, need_section=True)
+    report = check_design(design, unit_stress_field(design.spec))
+    return design, report, member_notes(member) + design.notes + report.notes
+
+
+def run_check(file: Path, section: str | None, catalogue: Sequence[Path], json_output: bool, plot: Path | None, system: str) -> int:
+    """`sizer check`: exit 0 when the section passes every check, 1 when it fails."""
+    from sizer.render.check import check_json, print_check
+    from sizer.render.common import console, dumps
 
     if plot is not None:
         from sizer.render.plots import check_plot_path
 
         check_plot_path(plot)
-    member = read_member_file(file)
-    design = prepare(member, catalogue, section, need_section=True)
-    report = check_design(design, unit_stress_field(design.spec))
-    notes = member_notes(member) + design.notes + report.notes
+    design, report, notes = checked_design(file, section, catalogue)
     if plot is not None:
         from sizer.render.plots import plot_member
 
-        plot_member(design, plot, report.governing.combination if report.governing else member_first_combination(member), report)
+        governing = report.governing.combination if report.governing else design.solution.combination_names[0]
+        plot_member(design, plot, governing, report)
     if json_output:
-        _write_or_print(dumps(check_json(design, report, notes)))
+        _print_document(dumps(check_json(design, report, notes)))
     else:
         print_check(console(), design, report, notes, system)
     return 0 if report.passes else 1
-
-
-def member_first_combination(member) -> str:
-    return next(iter(member.combinations))
 
 
 def run_size(file: Path, catalogue: Sequence[Path], families: list[str], max_depth: str | None, max_width: str | None,
@@ -106,7 +112,7 @@ def run_size(file: Path, catalogue: Sequence[Path], families: list[str], max_dep
     if result.chosen is not None:
         notes += result.chosen.report.notes
     if json_output:
-        _write_or_print(dumps(size_json(result, notes)))
+        _print_document(dumps(size_json(result, notes)))
     else:
         print_size(console(), result, notes, top, system)
     return 0 if result.chosen is not None else 1

@@ -4,6 +4,7 @@ an atomic rename."""
 from __future__ import annotations
 
 import os
+import stat
 import tempfile
 from functools import lru_cache
 from pathlib import Path
@@ -24,13 +25,14 @@ def _cache_root(override: str) -> str:
 
 
 def write_atomic(path: str | Path, data: bytes | str) -> None:
-    """Write `data` to `path` atomically (temp file in the same folder, fsync, os.replace)."""
+    """Write `data` to `path` atomically (temp file in the same folder, fsync, os.replace). A file
+    that is replaced keeps its permissions; a new one gets the usual mode (0o666 less the umask)."""
     path = Path(path)
     payload = data.encode("utf-8") if isinstance(data, str) else data
     path.parent.mkdir(parents=True, exist_ok=True)
     handle, temporary = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=path.parent)
     try:
-        os.chmod(temporary, 0o666 & ~_current_umask())  # mkstemp makes 0600; give the usual mode
+        os.chmod(temporary, _mode_for(path))  # mkstemp makes 0600
         with os.fdopen(handle, "wb") as stream:
             stream.write(payload)
             stream.flush()
@@ -41,8 +43,11 @@ def write_atomic(path: str | Path, data: bytes | str) -> None:
         raise
 
 
-def _current_umask() -> int:
-    """The process umask (read by setting and restoring it)."""
-    mask = os.umask(0)
-    os.umask(mask)
-    return mask
+def _mode_for(path: Path) -> int:
+    """The mode the written file should have: the existing file's, else 0o666 less the umask."""
+    try:
+        return stat.S_IMODE(path.stat().st_mode)
+    except OSError:
+        mask = os.umask(0)
+        os.umask(mask)
+        return 0o666 & ~mask

@@ -10,18 +10,11 @@ from typing import Sequence
 def run_report(file: Path, out: Path, section: str | None, catalogue: Sequence[Path], system: str) -> int:
     """Write the calculation record of `file` to `out` (.html, or .pdf with weasyprint beside the HTML).
     Exit code 0 when the section passes every check, 1 when it fails; InputError for bad input."""
-    from sizer.checks import check_design
-    from sizer.design import prepare
-    from sizer.inputfile import read_member_file
-    from sizer.render.common import member_notes
+    from sizer.commands import checked_design
     from sizer.render.report import check_report_path, write_report
-    from sizer.sections import unit_stress_field
 
     check_report_path(out)
-    member = read_member_file(file)
-    design = prepare(member, catalogue, section, need_section=True)
-    report = check_design(design, unit_stress_field(design.spec))
-    notes = member_notes(member) + design.notes + report.notes
+    design, report, notes = checked_design(file, section, catalogue)
     written = write_report(design, report, notes, out, system)
     verdict = "passes" if report.passes else "FAILS"
     governing = report.governing

@@ -23,7 +23,7 @@ from typing import Any, Sequence
 import numpy as np
 
 from sizer.analysis import solve_member, stations
-from sizer.checks import (CheckReport, StationStresses, check_design, critical_stress, full_field_stresses, spans,
+from sizer.checks import (CheckReport, StationStresses, buckling_axes, check_design, full_field_stresses, relative_to_supports, spans,
                           to_section_axes)
 from sizer.design import Design, oriented_stiffness
 from sizer.errors import InputError
@@ -111,7 +111,8 @@ def candidate_sections(catalogue: Any, member: Member, material: Material, famil
             continue
         if max_width is not None and width > max_width * (1 + 1e-9):
             continue
-        candidates.append(Candidate(spec.name, spec, props, props.area * material.density))
+        weakest = min(axis.critical_stress for axis in buckling_axes(member, props, material))
+        candidates.append(Candidate(spec.name, spec, props, props.area * material.density, buckling_stress=weakest))
     if not candidates:
         raise InputError("", "--max-depth", "no catalogue section fits the depth and width limits", "relax --max-depth / --max-width")
     candidates.sort(key=lambda c: (c.mass_per_length, c.name))
@@ -157,30 +158,29 @@ class ScreenData:
     buckling_stress: np.ndarray  # (S,) smallest critical stress of the two principal axes
 
 
-def screen_data(candidates: list[Candidate], member: Member, material: Material, base: Design, n_even: int) -> ScreenData:
+def load_and_weight_factors(base: Design) -> np.ndarray:
+    """(2C, n_cases + 1) combination factors: the loads alone (rows 0..C-1), then the self-weight
+    per kg/m (rows C..2C-1), for MemberSolution.weighted_actions / weighted_displacements."""
+    loads = base.solution.weights(None)
+    return np.vstack([loads, base.solution.weights(1.0) - loads])
+
+
+def screen_data(candidates: list[Candidate], member: Member, base: Design, n_even: int) -> ScreenData:
     """Actions at the section-independent stations (all of which the full check also uses)."""
     from sizer.sections import peak_unit_stresses
 
     xs, sides = stations(member, n_even)
-    loads = np.empty((len(base.solution.combination_names), len(xs), 6))
-    with_unit_mass = np.empty_like(loads)
-    for side in ("left", "right"):
-        mask = sides == side
-        if mask.any():
-            loads[:, mask] = base.solution.all_actions(xs[mask], side, mass_per_length=None)
-            with_unit_mass[:, mask] = base.solution.all_actions(xs[mask], side, mass_per_length=1.0)
+    loads, per_mass = np.split(base.solution.weighted_actions(load_and_weight_factors(base), xs, sides), 2)
     peaks = [peak_unit_stresses(c.spec) for c in candidates]
-    lengths = (member.checks.buckling_length_major or member.length, member.checks.buckling_length_minor or member.length)
-    buckling = [min(critical_stress(length / np.sqrt(inertia / c.props.area), material.elastic_modulus, material.yield_strength)[0]
-                    for length, inertia in zip(lengths, (c.props.I11, c.props.I22))) for c in candidates]
-    return ScreenData(xs, sides, loads, with_unit_mass - loads,
+    return ScreenData(xs, sides, loads, per_mass,
                       np.array([c.props.area for c in candidates]), np.array([c.mass_per_length for c in candidates]),
-                      np.array([p[0] for p in peaks]), np.array([p[1] for p in peaks]), np.array(buckling))
+                      np.array([p[0] for p in peaks]), np.array([p[1] for p in peaks]),
+                      np.array([c.buckling_stress for c in candidates]))
 
 
 def screen(candidates: list[Candidate], member: Member, material: Material, base: Design, n_even: int = 200) -> ScreenData:
     """Upper bounds (and exact axial, buckling, deflection) for every candidate, in chunks of sections."""
-    data = screen_data(candidates, member, material, base, n_even)
+    data = screen_data(candidates, member, base, n_even)
     per_section = data.loads.size // 6
     chunk = max(1, SCREEN_CHUNK // max(per_section, 1))
     for start in range(0, len(candidates), chunk):
@@ -192,8 +192,6 @@ def screen(candidates: list[Candidate], member: Member, material: Material, base
                 candidate.worst[name] = positions[offset]
                 if name in ("axial", "buckling"):
                     candidate.lower[name] = float(values[offset])
-    for candidate, stress in zip(candidates, data.buckling_stress):
-        candidate.buckling_stress = float(stress)
     deflection = screen_deflection(candidates, member, base, data)
     if deflection is not None:
         for candidate, value in zip(candidates, deflection):
@@ -248,23 +246,13 @@ def screen_deflection(candidates: list[Candidate], member: Member, base: Design,
     worst = np.zeros(len(candidates))
     for span in spans(member):
         points = np.append(np.linspace(span.start, span.end, n), span.base if span.overhang else span.start)
-        zero = base.solution.all_displacements(points, mass_per_length=None)[index][..., 1:3]
-        unit = base.solution.all_displacements(points, mass_per_length=1.0)[index][..., 1:3] - zero
-        relative_zero, relative_unit = _relative(zero, span), _relative(unit, span)
+        zero, unit = np.split(base.solution.weighted_displacements(load_and_weight_factors(base), points)[..., 1:3], 2)
+        relative_zero, relative_unit = relative_to_supports(zero[index], span), relative_to_supports(unit[index], span)
         moved = (relative_zero[None] + data.mass[:, None, None, None] * relative_unit[None]) / stiffness[:, None, None, :]
         size = np.hypot(moved[..., 0], moved[..., 1]).max(axis=(1, 2))
         limit = overhang_limit if span.overhang else settings.deflection_limit
         worst = np.maximum(worst, size / (span.length / limit))
     return worst
-
-
-def _relative(moved: np.ndarray, span: Any) -> np.ndarray:
-    """(c, n, 2) displacements relative to the span's supports (last point: the overhang's base)."""
-    body = moved[:, :-1]
-    if span.overhang:
-        return body - moved[:, -1:, :]
-    t = np.linspace(0.0, 1.0, body.shape[1])[None, :, None]
-    return body - ((1 - t) * body[:, :1] + t * body[:, -1:])
 
 
 def prove_lower_bounds(candidate: Candidate, data: ScreenData, member: Member, material: Material) -> None:

@@ -12,7 +12,6 @@ from __future__ import annotations
 
 import json
 import math
-import textwrap
 from pathlib import Path
 
 import numpy as np
@@ -68,34 +67,24 @@ def make_catalogue(folder: Path, yield_strength: bool = False, bending: bool = T
     return path
 
 
-def member_file(folder: Path, body: str) -> Path:
+def member_file(folder: Path, section: str, length: float, loads: str, *, cantilever: bool = False,
+                orientation: str = "major", extra: str = "") -> Path:
+    """A member of `section` in steel, without self-weight: pin at 0 and roller at L, or a fixed end
+    at 0 (cantilever); `loads` and `extra` are TOML text added as given."""
+    supports = ('[[supports]]\nat = "0 m"\ntype = "fixed"\n' if cantilever else
+                f'[[supports]]\nat = "0 m"\ntype = "pin"\n[[supports]]\nat = "{length} m"\ntype = "roller"\n')
     path = folder / "member.toml"
-    path.write_text(textwrap.dedent(body))
+    path.write_text(f'[member]\nlength = "{length} m"\nmaterial = "steel"\nsection = "{section}"\n'
+                    f'orientation = "{orientation}"\nself_weight = false\n' + supports
+                    + loads + extra)
     return path
 
 
 def simple_beam(folder: Path, section: str = "R 50x100", w: str = "-5 kN/m", length: float = 2.0, extra: str = "",
                 orientation: str = "major", deflection_limit: int = 360) -> Path:
-    return member_file(folder, f"""
-        [member]
-        length = "{length} m"
-        material = "steel"
-        section = "{section}"
-        orientation = "{orientation}"
-        self_weight = false
-        [[supports]]
-        at = "0 m"
-        type = "pin"
-        [[supports]]
-        at = "{length} m"
-        type = "roller"
-        [[loads]]
-        type = "line"
-        wy = "{w}"
-        {extra}
-        [checks]
-        deflection_limit = {deflection_limit}
-        """)
+    loads = f'[[loads]]\ntype = "line"\nwy = "{w}"\n'
+    return member_file(folder, section, length, loads + extra + "\n", orientation=orientation,
+                       extra=f"[checks]\ndeflection_limit = {deflection_limit}\n")
 
 
 def run_check(path: Path, *extra: str) -> tuple[int, dict]:
@@ -142,20 +131,7 @@ def test_verdict_on_each_side_of_the_limit(tmp_path, ratio, expected_exit):
 
 def test_torsion_of_a_round_bar(tmp_path):
     make_catalogue(tmp_path)
-    path = member_file(tmp_path, """
-        [member]
-        length = "1 m"
-        material = "steel"
-        section = "RD 40"
-        self_weight = false
-        [[supports]]
-        at = "0 m"
-        type = "fixed"
-        [[loads]]
-        type = "moment"
-        at = "1 m"
-        mx = "0.5 kN*m"
-        """)
+    path = member_file(tmp_path, "RD 40", 1.0, '[[loads]]\ntype = "moment"\nat = "1 m"\nmx = "0.5 kN*m"\n', cantilever=True)
     _, document = run_check(path)
     d, torque = 0.04, 500.0
     assert by_name(document, "shear")["demand"] == pytest.approx(16 * torque / (math.pi * d**3), rel=0.02)  # 16T/(pi d^3)
@@ -164,7 +140,7 @@ def test_torsion_of_a_round_bar(tmp_path):
 
 def test_axial_and_bending_together(tmp_path):
     make_catalogue(tmp_path)
-    path = simple_beam(tmp_path, extra='[[loads]]\n        type = "point"\n        at = "2 m"\n        fx = "100 kN"')
+    path = simple_beam(tmp_path, extra='[[loads]]\ntype = "point"\nat = "2 m"\nfx = "100 kN"')
     _, document = run_check(path)
     b, h, L, w, P = 0.05, 0.1, 2.0, 5e3, 100e3
     fa, fb = P / (b * h), w * L**2 / 8 / (b * h**2 / 6)
@@ -176,23 +152,7 @@ def test_axial_and_bending_together(tmp_path):
 
 
 def strut(folder: Path, section: str, length: float, force_kn: float) -> Path:
-    return member_file(folder, f"""
-        [member]
-        length = "{length} m"
-        material = "steel"
-        section = "{section}"
-        self_weight = false
-        [[supports]]
-        at = "0 m"
-        type = "pin"
-        [[supports]]
-        at = "{length} m"
-        type = "roller"
-        [[loads]]
-        type = "point"
-        at = "{length} m"
-        fx = "{-force_kn} kN"
-        """)
+    return member_file(folder, section, length, f'[[loads]]\ntype = "point"\nat = "{length} m"\nfx = "{-force_kn} kN"\n')
 
 
 def test_euler_buckling_of_a_slender_strut(tmp_path):
@@ -239,20 +199,7 @@ def polygon_principal(points: np.ndarray) -> tuple[float, float, float, np.ndarr
 
 def test_angle_bends_about_its_principal_axes(tmp_path):
     make_catalogue(tmp_path)
-    path = member_file(tmp_path, """
-        [member]
-        length = "1 m"
-        material = "steel"
-        section = "L 80x80x8"
-        self_weight = false
-        [[supports]]
-        at = "0 m"
-        type = "fixed"
-        [[loads]]
-        type = "point"
-        at = "1 m"
-        fy = "-2 kN"
-        """)
+    path = member_file(tmp_path, "L 80x80x8", 1.0, '[[loads]]\ntype = "point"\nat = "1 m"\nfy = "-2 kN"\n', cantilever=True)
     _, document = run_check(path)
     # angle outline in (y up, z): legs along y and z, sharp corners
     t, a = 0.008, 0.08

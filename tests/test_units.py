@@ -1,5 +1,7 @@
-"""units: parsing at the edge and display. Conversion factors: NIST Special Publication 811
-(1 in = 0.0254 m, 1 ft = 0.3048 m exactly; 1 lbf = 4.448222 N; 1 psi = 6894.757 Pa)."""
+"""units: parsing at the edge and display. Conversion factors: NIST Special Publication 811, Guide
+for the Use of the International System of Units, appendix B (1 in = 0.0254 m and 1 ft = 0.3048 m
+exactly; 1 lbf = 4.448222 N; 1 psi = 6894.757 Pa; from memory). SI prefixes (k = 1e3, M = 1e6,
+G = 1e9, m = 1e-3): the SI Brochure, common practice."""
 
 from __future__ import annotations
 

@@ -403,7 +403,7 @@ def _settings_table(design: Design, system: str) -> str:
     rows = [_row(["<th>Deflection limits</th>", f"<td>{_e(deflection)}</td>"]),
             _row(["<th>Buckling safety factor</th>",
                   f"<td>{settings.buckling_safety_factor:g} ({'given' if settings.buckling_safety_factor_given else 'default'})</td>"])]
-    axes = buckling_axes(design)
+    axes = buckling_axes(design.member, design.props, design.material)
     axis_rows = [_row([f"<td>{_e(a.axis)}</td>", _cell(_fmt(a.length, "length", system), a.length),
                        _cell(_fmt(a.radius, "dimension", system), a.radius), _cell(f"{a.slenderness:.1f}", a.slenderness),
                        f"<td>{_e(a.formula)}</td>", _cell(_fmt(a.critical_stress, "stress", system), a.critical_stress)])

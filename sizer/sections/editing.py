@@ -9,9 +9,7 @@ replaces the old one, and the write is atomic.
 from __future__ import annotations
 
 import csv
-import os
 import re
-import stat
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
@@ -95,21 +93,12 @@ def _append(document: Any, tables: list[dict[str, Any]], file: Path | None = Non
 
 
 def write_catalogue(file: Path, document: Any) -> None:
-    """Read the new text back as a catalogue, then replace the file atomically, keeping its mode."""
+    """Read the new text back as a catalogue, then replace the file atomically (keeping its mode)."""
     import tomlkit
 
     text = tomlkit.dumps(document)
     parse_catalogue_text(text, file)
-    mode = stat.S_IMODE(file.stat().st_mode) if file.exists() else _new_file_mode()
     write_atomic(file, text)
-    os.chmod(file, mode)  # the temporary file's private mode would otherwise stay
-
-
-def _new_file_mode() -> int:
-    """The mode an ordinary new file gets (0o666 less the process's umask)."""
-    umask = os.umask(0)
-    os.umask(umask)
-    return 0o666 & ~umask
 
 
 def ordered_table(name: str, shape: str, values: dict[str, str], family: str | None, material: str | None) -> dict[str, Any]:
