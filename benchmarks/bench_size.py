@@ -191,9 +191,9 @@ def main() -> None:
 
 def in_process_figures(member_path: Path, catalogue_path: Path, runs: int) -> None:
     """(c) screening throughput and (d) the naive full-field way against size_member."""
-    from sizer.analysis import solve_member
+    from sizer.analysis import solve_member, stations
     from sizer.checks import check_design, check_stations, deflection_check, full_field_stresses, member_actions, to_section_axes
-    from sizer.design import Design, catalogue_for, resolve_material
+    from sizer.design import catalogue_for, resolve_material
     from sizer.inputfile import read_member_file
     from sizer.model import Stiffness
     from sizer.sections import unit_stress_field
@@ -210,19 +210,19 @@ def in_process_figures(member_path: Path, catalogue_path: Path, runs: int) -> No
     material = resolve_material(member, catalogue)
     phases["read catalogue (TOML, units)"] = time.perf_counter() - start
     start = time.perf_counter()
-    candidates = candidate_sections(catalogue, member, material, (), None, None)
-    phases["section properties from the disk cache"] = time.perf_counter() - start
+    candidates, table = candidate_sections(catalogue, member, material, (), None, None)
+    phases["section table from the disk cache"] = time.perf_counter() - start
     start = time.perf_counter()
-    base = Design(member, solve_member(member, Stiffness.unit(), None), material)
+    base = solve_member(member, Stiffness.unit(), None)
     phases["unit-rigidity solve"] = time.perf_counter() - start
     print("    in-process phases before the screen (warm disk cache, memory cleared): "
           + "; ".join(f"{name} {seconds * 1e3:.0f} ms" for name, seconds in phases.items()))
-    stations = len(check_stations(base)[0])
+    n_stations = len(stations(member)[0])
     combinations = len(member.combinations)
-    screen(candidates, member, material, base)  # warm-up (arrays, first numpy calls)
-    screen_time = in_process_median(lambda: screen(candidates, member, material, base), runs)
-    work = len(candidates) * combinations * stations
-    print(f"(c) screen: {len(candidates)} sections x {combinations} combinations x {stations} stations = {work:,} station-checks "
+    screen(table, member, material, base)  # warm-up (arrays, first numpy calls)
+    screen_time = in_process_median(lambda: screen(table, member, material, base), runs)
+    work = len(candidates) * combinations * n_stations
+    print(f"(c) screen: {len(candidates)} sections x {combinations} combinations x {n_stations} stations = {work:,} station-checks "
           f"in {screen_time * 1e3:.1f} ms (median of {runs}) = {work / screen_time / 1e6:.1f} million/s (target >= 50)")
 
     result = size_member(member, catalogue, material)
@@ -233,7 +233,7 @@ def in_process_figures(member_path: Path, catalogue_path: Path, runs: int) -> No
           f"chosen {chosen.name if chosen else None} at position {position} of {len(result.candidates)} by mass, "
           f"{result.full_checks} full stress-field checks")
 
-    fresh = candidate_sections(catalogue, member, material, (), None, None)
+    fresh = candidate_sections(catalogue, member, material, (), None, None)[0]
     sample = fresh[max(0, position - 10):position + 10]
 
     def naive_one(candidate, from_disk: bool) -> bool:

@@ -36,7 +36,8 @@ scaled by mass per length * GRAVITY and the combination's factor on the self-wei
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+import copy
+from dataclasses import dataclass, replace
 from typing import Sequence
 
 import numpy as np
@@ -209,6 +210,13 @@ class _Layout:
         right = np.clip(np.searchsorted(self.nodes, at), 1, len(self.nodes) - 1)
         left = right - 1
         return np.where(np.abs(self.nodes[left] - at) <= np.abs(self.nodes[right] - at), left, right)
+
+
+def distinct(values: ArrayLike) -> np.ndarray:
+    """Sorted distinct values of a 1-D array: np.unique without its masked-array test, which imports
+    numpy.ma (about 7 ms of every command's start-up)."""
+    ordered = np.sort(np.asarray(values).ravel())
+    return ordered[np.concatenate([[True], ordered[1:] != ordered[:-1]])] if ordered.size else ordered
 
 
 def _merge_positions(positions: np.ndarray, tol: float) -> np.ndarray:
@@ -462,7 +470,7 @@ class _Terms:
         coef <s_j - at>^(power + shift) / (power + shift)!. Shift 0: load resultant on [0, s];
         1: its moment about s (for bars: its integral); 2, 3: further integrals from the element start."""
         out = [np.zeros((len(s),) + self.coef.shape[1:]) for _ in shifts]
-        for element in np.intersect1d(elements, self.element):  # one element at a time: small blocks
+        for element in sorted(set(elements.tolist()) & set(self.element.tolist())):  # one element at a time: small blocks
             rows, cols = np.flatnonzero(elements == element), np.flatnonzero(self.element == element)
             gap = np.maximum(s[rows, None] - self.at[None, cols], 0.0)
             for values, shift in zip(out, shifts):
@@ -691,6 +699,15 @@ def _combine_fields(fields: Sequence[_Field], weights: np.ndarray) -> _Field:
     return _Field(first.nodes, **nodal, terms=terms, fixed=fixed, stiffness=first.stiffness, tol=first.tol)
 
 
+def _rescaled_field(f: _Field, stiffness: Stiffness) -> _Field:
+    """The field of the same loads on rigidities `stiffness`: with no springs each of the four problems
+    has stiffness matrix rigidity x (its unit-rigidity matrix), so its displacements scale as 1 / rigidity."""
+    axial, torsion, xy, xz = (old / new for old, new in ((f.stiffness.EA, stiffness.EA), (f.stiffness.GJ, stiffness.GJ),
+                                                        (f.stiffness.EIz, stiffness.EIz), (f.stiffness.EIy, stiffness.EIy)))
+    return replace(f, axial=f.axial * axial, twist=f.twist * torsion, v=f.v * xy, rz_left=f.rz_left * xy, rz_right=f.rz_right * xy,
+                   w=f.w * xz, theta_left=f.theta_left * xz, theta_right=f.theta_right * xz, stiffness=stiffness)
+
+
 def _field_displacements(f: _Field, xs: np.ndarray, right: np.ndarray) -> np.ndarray:
     """(C, n, 6) ux, uy, uz, rx, ry, rz of each load set of the field at stations xs."""
     count = np.where(right, np.searchsorted(f.nodes, xs + f.tol, "right"), np.searchsorted(f.nodes, xs - f.tol, "left"))
@@ -835,6 +852,15 @@ class CaseSolution:
     def field(self) -> _Field | None:
         """The displacement field of this case (None without stiffness), for combining."""
         return self._field
+
+    def on_rigidities(self, stiffness: Stiffness) -> "CaseSolution":
+        """This case on other rigidities (see MemberSolution.for_section): the same forces, the
+        displacements scaled by old / new rigidity, problem by problem."""
+        if self._field is None:
+            raise ValueError("this case was solved without rigidities; solve it with Stiffness.unit() to rescale it")
+        moved = copy.copy(self)
+        moved._field = _rescaled_field(self._field, stiffness)
+        return moved
 
 
 # ----------------------------------------------------------------------------------------------
@@ -1016,6 +1042,22 @@ class MemberSolution:
         """True when solved with the member's stiffness (a section)."""
         return self.stiffness is not None
 
+    def for_section(self, stiffness: Stiffness, mass_per_length: float | None) -> "MemberSolution":
+        """The solution for a section of rigidities `stiffness` and mass per length (kg/m, None: no
+        self weight), without solving again. Exact when no support has a spring: the reactions and
+        internal actions do not depend on uniform rigidities, and the displacements scale as
+        1 / rigidity. Needs a solution made with rigidities (e.g. Stiffness.unit()); ValueError with
+        springs, whose forces depend on the stiffness."""
+        if any(support.springs for support in self.member.supports):
+            raise ValueError("a member with springs must be solved for each stiffness")
+        if self.stiffness is None:
+            raise ValueError("rescaling needs a solution made with rigidities, e.g. Stiffness.unit()")
+        if mass_per_length is not None and self._self_weight_error is not None:
+            raise self._self_weight_error
+        cases = {name: case.on_rigidities(stiffness) for name, case in self.cases.items()}
+        self_weight = self.self_weight.on_rigidities(stiffness) if self.self_weight is not None else None
+        return MemberSolution(self.member, cases, self_weight, mass_per_length, stiffness, self._self_weight_error)
+
     def weights(self, mass_per_length: float | None = ...) -> np.ndarray:  # type: ignore[assignment]
         """(n_combinations, n_cases + 1) factors on [each case in self.cases order..., unit self
         weight]; the last column is factor(self_weight_case) * mass_per_length * GRAVITY (N/m per
@@ -1034,9 +1076,15 @@ class MemberSolution:
         return table
 
     def _row(self, combination: str) -> np.ndarray:
-        if combination not in self.member.combinations:
-            raise KeyError(f"no combination {combination!r}; there are {', '.join(self.combination_names)}")
-        return self.weights()[self.combination_names.index(combination)]
+        return self.combination_weights([combination])[0]
+
+    def combination_weights(self, combinations: Sequence[str]) -> np.ndarray:
+        """(len(combinations), n_cases + 1) rows of weights() for the named combinations, for
+        weighted_actions and weighted_displacements; KeyError for an unknown name."""
+        for combination in combinations:
+            if combination not in self.member.combinations:
+                raise KeyError(f"no combination {combination!r}; there are {', '.join(self.combination_names)}")
+        return self.weights()[[self.combination_names.index(name) for name in combinations]]
 
     def _stations(self, x: ArrayLike, side: str | ArrayLike) -> tuple[np.ndarray, np.ndarray]:
         tol = _tolerance(self.member)
@@ -1180,51 +1228,73 @@ def _quadratic_roots(v0: np.ndarray, vm: np.ndarray, v1: np.ndarray) -> list[np.
     return [seg[inside], t[inside]]
 
 
-def zero_shear_points(solution: MemberSolution, combination: str, action: str = "Vy") -> np.ndarray:
-    """x (m) where the shear `action` ("Vy" or "Vz") of a combination crosses zero inside a segment
-    between concentrated items (supports, point loads, line-load ends): the shear is quadratic there
-    and its roots are found exactly. The bending moment has a local extreme at these points."""
-    if action not in ("Vy", "Vz"):
-        raise ValueError(f"action must be 'Vy' or 'Vz', got {action!r}")
-    member = solution.member
-    column = ACTIONS.index(action)
-    ends = np.unique(np.concatenate([[0.0, member.length], _concentrated_positions(member)]))
+def _segments(member: Member) -> tuple[np.ndarray, np.ndarray]:
+    """Starts and ends (m) of the segments between concentrated items (supports, hinges, point loads,
+    line-load ends) and the member's ends."""
+    ends = distinct(np.concatenate([[0.0, member.length], _concentrated_positions(member)]))
     ends = _merge_positions(ends, _tolerance(member))
-    lo, hi = ends[:-1], ends[1:]
+    return ends[:-1], ends[1:]
+
+
+def zero_shear_positions(solution: MemberSolution, combinations: Sequence[str], actions: Sequence[str] = ("Vy", "Vz")) -> np.ndarray:
+    """Sorted distinct x (m) where the shear `actions` ("Vy", "Vz") of any of the combinations cross
+    zero inside a segment between concentrated items (supports, point loads, line-load ends): the
+    shear is quadratic there and its roots are found exactly, for every combination in one pass.
+    The bending moments have their local extremes at these points."""
+    for action in actions:
+        if action not in ("Vy", "Vz"):
+            raise ValueError(f"action must be 'Vy' or 'Vz', got {action!r}")
+    if not combinations or not actions:
+        return np.empty(0)
+    lo, hi = _segments(solution.member)
     x = np.concatenate([lo, (lo + hi) / 2, hi])
     side = np.array(["right"] * (2 * lo.size) + ["left"] * hi.size)
-    values = solution.actions(combination, x, side)[:, column].reshape(3, -1)
+    weights = solution.combination_weights(combinations)
+    values = solution.weighted_actions(weights, x, side)[:, :, [ACTIONS.index(action) for action in actions]]  # (C, 3m, a)
+    values = values.reshape(len(combinations), 3, lo.size, len(actions)).transpose(1, 0, 3, 2).reshape(3, -1)
     segment, t = _quadratic_roots(values[0], values[1], values[2])
-    return np.unique(lo[segment] + t * (hi[segment] - lo[segment]))
+    segment = segment % lo.size
+    return distinct(lo[segment] + t * (hi[segment] - lo[segment]))
 
 
-def load_sign_change_points(solution: MemberSolution, combination: str) -> np.ndarray:
-    """x (m) where a combination's summed line load wx, wy, wz or mx changes sign inside a stretch
-    between line-load ends: there N, Vy, Vz or T has a local extreme (dN/dx = -wx, and so on)."""
-    weights = solution._row(combination)
+def zero_shear_points(solution: MemberSolution, combination: str, action: str = "Vy") -> np.ndarray:
+    """x (m) where the shear `action` ("Vy" or "Vz") of one combination crosses zero (see
+    zero_shear_positions)."""
+    return zero_shear_positions(solution, [combination], [action])
+
+
+def load_sign_change_positions(solution: MemberSolution, combinations: Sequence[str]) -> np.ndarray:
+    """Sorted distinct x (m) where the summed line load wx, wy, wz or mx of any of the combinations
+    changes sign inside a stretch between line-load ends: there N, Vy, Vz or T has a local extreme
+    (dN/dx = -wx, and so on)."""
     pieces = []
-    for weight, case in zip(weights, solution._solutions()):
-        if case is None or weight == 0.0:
-            continue
-        start, end, q_start, q_end = case.line_items()
-        pieces.append((start, end, weight * q_start, weight * q_end))
-    if not pieces:
+    for column, case in enumerate(solution._solutions()):
+        if case is not None:
+            start, end, q_start, q_end = case.line_items()
+            pieces.append((start, end, q_start, q_end, np.full(start.size, column)))
+    start, end, q_start, q_end, column = (np.concatenate(parts) for parts in zip(*pieces)) if pieces else (np.empty(0),) * 5
+    if not combinations or not start.size:
         return np.empty(0)
-    start, end, q_start, q_end = (np.concatenate(parts) for parts in zip(*pieces))
-    ends = _merge_positions(np.unique(np.concatenate([[0.0, solution.member.length], start, end])), _tolerance(solution.member))
+    weights = solution.combination_weights(combinations)[:, column.astype(int)]  # (C, J)
+    ends = _merge_positions(distinct(np.concatenate([[0.0, solution.member.length], start, end])), _tolerance(solution.member))
     lo, hi = ends[:-1], ends[1:]
     slope = (q_end - q_start) / np.where(end > start, end - start, 1.0)[:, None]
+    covers = (start[None, :] <= lo[:, None] + 1e-12) & (end[None, :] >= hi[:, None] - 1e-12)  # (stretches, J)
 
-    def intensity(x: np.ndarray) -> np.ndarray:  # (stretches, 4) summed over loads covering each stretch
-        covers = (start[None, :] <= lo[:, None] + 1e-12) & (end[None, :] >= hi[:, None] - 1e-12)
-        values = q_start[None] + slope[None] * (x[:, None] - start[None, :])[..., None]
-        return (values * covers[..., None]).sum(axis=1)
+    def intensity(x: np.ndarray) -> np.ndarray:  # (C, stretches, 4) summed over the loads covering each stretch
+        values = (q_start[None] + slope[None] * (x[:, None] - start[None, :])[..., None]) * covers[..., None]
+        return np.einsum("cj,sjk->csk", weights, values)
 
     at_lo, at_hi = intensity(lo), intensity(hi)
     crossing = (at_lo * at_hi) < 0
-    stretch, _ = np.nonzero(crossing)
+    _, stretch, _ = np.nonzero(crossing)
     t = at_lo[crossing] / (at_lo[crossing] - at_hi[crossing])
-    return np.unique(lo[stretch] + t * (hi[stretch] - lo[stretch]))
+    return distinct(lo[stretch] + t * (hi[stretch] - lo[stretch]))
+
+
+def load_sign_change_points(solution: MemberSolution, combination: str) -> np.ndarray:
+    """x (m) where one combination's summed line load changes sign (see load_sign_change_positions)."""
+    return load_sign_change_positions(solution, [combination])
 
 
 @dataclass(frozen=True)
@@ -1243,8 +1313,7 @@ def extremes(solution: MemberSolution, combination: str, n_even: int = 400) -> d
     stations including zero-shear points and the points where a line load changes sign, both sides
     of every concentrated item."""
     x, side = stations(solution.member, n_even)
-    extra = np.concatenate([zero_shear_points(solution, combination, "Vy"), zero_shear_points(solution, combination, "Vz"),
-                            load_sign_change_points(solution, combination)])
+    extra = np.concatenate([zero_shear_positions(solution, [combination]), load_sign_change_positions(solution, [combination])])
     x = np.concatenate([x, extra])
     side = np.concatenate([side, np.full(extra.size, "right")])
     values = solution.actions(combination, x, side)

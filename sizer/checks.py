@@ -18,7 +18,7 @@ from typing import Any, Iterable
 
 import numpy as np
 
-from sizer.analysis import load_sign_change_points, stations, zero_shear_points
+from sizer.analysis import distinct, load_sign_change_positions, stations, zero_shear_positions
 from sizer.design import Design
 from sizer.errors import InputError
 from sizer.model import Member
@@ -89,9 +89,7 @@ def check_stations(design: Design, n_even: int = 200) -> tuple[np.ndarray, np.nd
     load changes sign (local extremes of the shear forces, axial force and torque)."""
     xs, sides = stations(design.member, n_even)
     names = design.solution.combination_names
-    extra = [zero_shear_points(design.solution, name, action) for name in names for action in ("Vy", "Vz")]
-    extra += [load_sign_change_points(design.solution, name) for name in names]
-    extra = np.unique(np.concatenate(extra)) if extra else np.empty(0)
+    extra = distinct(np.concatenate([zero_shear_positions(design.solution, names), load_sign_change_positions(design.solution, names)]))
     xs = np.concatenate([xs, extra])
     sides = np.concatenate([sides, np.full(extra.shape, "right")])
     order = np.argsort(xs, kind="stable")
@@ -154,7 +152,7 @@ class FieldPeaks:
     |action_i| x the unit field's peak_i, likewise for shear) and evaluation stops as soon as no
     remaining bound can beat the best exact value. The result equals evaluating every row."""
 
-    BATCH = 48
+    FIRST_BATCH = 8  # rows evaluated first; each later batch is twice the one before
 
     def __init__(self, actions: np.ndarray, unit_field: Any, area: float) -> None:
         self.shape = actions.shape[:2]
@@ -183,14 +181,16 @@ class FieldPeaks:
         of rows from their exact stresses, and `upper` bounds them row by row."""
         order = np.lexsort((np.arange(len(upper)), -upper))
         best, best_row = -np.inf, 0
-        for start in range(0, len(order), self.BATCH):
-            rows = order[start:start + self.BATCH]
+        start, batch = 0, self.FIRST_BATCH
+        while start < len(order):
+            rows = order[start:start + batch]
             if upper[rows[0]] * (1 + 1e-9) + 1e-12 < best:
                 break
             values = value(rows, self.exact(rows))
             for row, candidate in zip(rows.tolist(), values.tolist()):
                 if candidate > best or (candidate == best and row < best_row):
                     best, best_row = candidate, row
+            start, batch = start + batch, 2 * batch
         return float(best), tuple(int(i) for i in np.unravel_index(best_row, self.shape))
 
 
@@ -209,27 +209,53 @@ class BucklingAxis:
     formula: str  # "Euler" or "Johnson"
 
 
+def _transition_slenderness(modulus: float, yield_strength: float | None) -> float:
+    """Cc = pi sqrt(2 E / Fy), where the Johnson parabola meets Euler's curve (0 without a yield
+    strength: Euler's curve throughout)."""
+    return math.pi * math.sqrt(2.0 * modulus / yield_strength) if yield_strength else 0.0
+
+
+def critical_stresses(slenderness: np.ndarray, modulus: float, yield_strength: float | None) -> np.ndarray:
+    """Flexural buckling stress (Pa) for each slenderness: Euler pi^2 E / lambda^2, or the Johnson
+    parabola Fy (1 - lambda^2 / (2 Cc^2)) below the transition slenderness Cc (see
+    _transition_slenderness); lambda <= 0 (no length): Fy, or infinite without a yield strength."""
+    slenderness = np.asarray(slenderness, dtype=float)
+    transition = _transition_slenderness(modulus, yield_strength)
+    with np.errstate(divide="ignore"):
+        stress = math.pi**2 * modulus / slenderness**2
+    if yield_strength:
+        johnson = yield_strength * (1.0 - slenderness**2 / (2.0 * transition**2))
+        stress = np.where(slenderness >= transition, stress, johnson)
+    return np.where(slenderness <= 0, yield_strength or math.inf, stress)
+
+
 def critical_stress(slenderness: float, modulus: float, yield_strength: float | None) -> tuple[float, str]:
-    """Flexural buckling stress (Pa): Euler pi^2 E / lambda^2, or the Johnson parabola
-    Fy (1 - lambda^2 / (2 Cc^2)) below the transition slenderness Cc = pi sqrt(2 E / Fy)."""
+    """Flexural buckling stress (Pa, see critical_stresses) and the formula that gives it."""
+    stress = float(critical_stresses(np.array([slenderness]), modulus, yield_strength)[0])
     if slenderness <= 0:
-        return (yield_strength if yield_strength else math.inf), "short"
-    euler = math.pi**2 * modulus / slenderness**2
-    if yield_strength is None:
-        return euler, "Euler"
-    transition = math.pi * math.sqrt(2.0 * modulus / yield_strength)
-    if slenderness >= transition:
-        return euler, "Euler"
-    return yield_strength * (1.0 - slenderness**2 / (2.0 * transition**2)), "Johnson"
+        return stress, "short"
+    return stress, "Euler" if slenderness >= _transition_slenderness(modulus, yield_strength) else "Johnson"
+
+
+def buckling_lengths(member: Member) -> tuple[float, float]:
+    """Buckling lengths (m) about the major (I11) and minor (I22) principal axes; default: the member length."""
+    settings = member.checks
+    return tuple(length if length is not None else member.length
+                 for length in (settings.buckling_length_major, settings.buckling_length_minor))  # type: ignore[return-value]
+
+
+def weakest_buckling_stresses(member: Member, area: np.ndarray, i11: np.ndarray, i22: np.ndarray, material: Any) -> np.ndarray:
+    """Smaller flexural buckling stress (Pa) of the two principal axes, for arrays of sections."""
+    major, minor = buckling_lengths(member)
+    return np.minimum(critical_stresses(major / np.sqrt(i11 / area), material.elastic_modulus, material.yield_strength),
+                      critical_stresses(minor / np.sqrt(i22 / area), material.elastic_modulus, material.yield_strength))
 
 
 def buckling_axes(member: Member, props: Any, material: Any) -> list[BucklingAxis]:
     """Buckling about the section's principal axes: major (I11) with buckling_length_major, minor (I22)
     with buckling_length_minor; defaults: the member length."""
-    settings = member.checks
     axes = []
-    for axis, inertia, length in (("major", props.I11, settings.buckling_length_major), ("minor", props.I22, settings.buckling_length_minor)):
-        length = length if length is not None else member.length
+    for axis, inertia, length in zip(("major", "minor"), (props.I11, props.I22), buckling_lengths(member)):
         radius = math.sqrt(inertia / props.area)
         slenderness = length / radius
         stress, formula = critical_stress(slenderness, material.elastic_modulus, material.yield_strength)
@@ -388,18 +414,26 @@ def relative_to_supports(moved: np.ndarray, span: Span) -> np.ndarray:
     return body - ((1 - t) * body[:, :1] + t * body[:, -1:])
 
 
-def span_deflections(design: Design, span: Span, combinations: Iterable[str], n: int = 201) -> tuple[float, float, str]:
-    """Largest transverse deflection (m) relative to the span's supports (chord between them; for an
-    overhang, relative to its support's displacement), with x and combination."""
-    names = design.solution.combination_names
-    chosen = [names.index(name) for name in combinations]
-    xs = np.linspace(span.start, span.end, n)
-    points = np.append(xs, span.base if span.overhang else span.start)
-    moved = design.solution.all_displacements(points)[chosen][..., 1:3]  # (c, n + 1, 2): uy, uz
-    relative = relative_to_supports(moved, span)
-    size = np.hypot(relative[..., 0], relative[..., 1])
-    c, k = np.unravel_index(int(np.argmax(size)), size.shape)
-    return float(size[c, k]), float(xs[k]), names[chosen[c]]
+def span_points(span: Span, n: int = 201) -> np.ndarray:
+    """n points evenly over the span, then its reference point: the overhang's base support, or the
+    span's start (see relative_to_supports)."""
+    return np.append(np.linspace(span.start, span.end, n), span.base if span.overhang else span.start)
+
+
+def span_deflections(design: Design, span_list: list[Span], combinations: Iterable[str], n: int = 201) -> list[tuple[float, float, str]]:
+    """For each span: the largest transverse deflection (m) relative to its supports (chord between
+    them; for an overhang, relative to its support's displacement), with x and combination. One
+    displacement evaluation for all spans."""
+    names = list(combinations)
+    points = np.concatenate([span_points(span, n) for span in span_list])
+    moved = design.solution.weighted_displacements(design.solution.combination_weights(names), points)[..., 1:3]  # (c, spans x (n + 1), 2): uy, uz
+    found = []
+    for span, part in zip(span_list, np.split(moved, len(span_list), axis=1)):
+        relative = relative_to_supports(part, span)
+        size = np.hypot(relative[..., 0], relative[..., 1])
+        c, k = np.unravel_index(int(np.argmax(size)), size.shape)
+        found.append((float(size[c, k]), float(np.linspace(span.start, span.end, n)[k]), names[c]))
+    return found
 
 
 def deflection_check(design: Design) -> CheckResult:
@@ -409,15 +443,15 @@ def deflection_check(design: Design) -> CheckResult:
         return CheckResult("deflection", None, quantity="deflection", detail="no deflection_limit in [checks]")
     combinations = settings.deflection_combinations or design.solution.combination_names
     overhang_limit = settings.deflection_limit_overhang or settings.deflection_limit / 2
+    span_list = spans(design.member)
+    if not span_list:
+        return CheckResult("deflection", None, quantity="deflection", detail="no support holds a transverse movement")
     results = []
-    for index, span in enumerate(spans(design.member)):
+    for span, (value, at, name) in zip(span_list, span_deflections(design, span_list, combinations)):
         limit = overhang_limit if span.overhang else settings.deflection_limit
         allowable = span.length / limit
-        value, at, name = span_deflections(design, span, combinations)
         label = f"{'overhang' if span.overhang else 'span'} {span.start:g}–{span.end:g} m, limit L/{limit:g}"
         results.append(CheckResult("deflection", value / allowable, value, allowable, at, name, quantity="deflection", detail=label))
-    if not results:
-        return CheckResult("deflection", None, quantity="deflection", detail="no support holds a transverse movement")
     return max(results, key=lambda r: r.utilization)
 
 

@@ -95,7 +95,7 @@ def run_size(file: Path, catalogue: Sequence[Path], families: list[str], max_dep
     from sizer.design import catalogue_for, resolve_material
     from sizer.inputfile import read_member_file
     from sizer.render.common import console, dumps, member_notes
-    from sizer.render.sections import build_with_progress
+    from sizer.render.sections import with_build_progress
     from sizer.render.size import print_size, size_json
     from sizer.sizing import size_member
 
@@ -106,8 +106,8 @@ def run_size(file: Path, catalogue: Sequence[Path], families: list[str], max_dep
         raise InputError("", "--top", "must be zero or more", "give e.g. --top 3")
     catalogue_data = catalogue_for(member, catalogue)
     material = resolve_material(member, catalogue_data)
-    build_with_progress(catalogue_data.select(families), "Section properties (first use of these shapes)", check_arrays=False)
-    result = size_member(member, catalogue_data, material, families, depth, width, top)
+    result = with_build_progress("Section properties (first use of these shapes)",
+                                 lambda progress: size_member(member, catalogue_data, material, families, depth, width, top, progress))
     notes = member_notes(member) + result.notes
     if result.chosen is not None:
         notes += result.chosen.report.notes

@@ -32,7 +32,7 @@ from hypothesis import HealthCheck, Phase, assume, given, settings
 from hypothesis import strategies as st
 from scipy.integrate import quad_vec
 
-from sizer.analysis import extremes, solve_case, solve_member, zero_shear_points
+from sizer.analysis import extremes, load_sign_change_points, load_sign_change_positions, solve_case, solve_member, zero_shear_points, zero_shear_positions
 from sizer.errors import InputError
 from sizer.model import Hinge, LineLoad, Member, PointLoad, Stiffness, Support, SUPPORT_TYPES
 
@@ -677,6 +677,46 @@ def test_zero_shear_points_are_all_found_and_real(problem: Problem):
             crossings = np.flatnonzero((np.sign(v[:-1]) * np.sign(v[1:]) < 0) & (np.abs(v[:-1]) > tol) & (np.abs(v[1:]) > tol))
             for i in crossings:
                 assert np.any((found >= x[i]) & (found <= x[i + 1])), (action, x[i], x[i + 1], found)
+
+
+@PROPERTY_SETTINGS
+@given(problems())
+def test_zero_shear_and_load_sign_change_positions_of_all_combinations_at_once(problem: Problem):
+    """The batched searches (every combination in one pass, as the check uses them) find exactly the
+    union of what the one-combination searches find."""
+    assume(stable(problem))
+    solution = solve_member(problem.member, STEEL_IPE300, None)
+    names = list(solution.combination_names)
+    one_by_one = np.unique(np.concatenate([zero_shear_points(solution, name, action) for name in names for action in ("Vy", "Vz")]))
+    np.testing.assert_allclose(zero_shear_positions(solution, names), one_by_one, rtol=0, atol=1e-12 * problem.member.length)
+    one_by_one = np.unique(np.concatenate([load_sign_change_points(solution, name) for name in names]))
+    np.testing.assert_allclose(load_sign_change_positions(solution, names), one_by_one, rtol=0, atol=1e-12 * problem.member.length)
+
+
+@PROPERTY_SETTINGS
+@given(problems(), st.floats(0.05, 20.0), st.floats(0.05, 20.0))
+def test_a_unit_rigidity_solution_rescaled_equals_solving_with_the_section(problem: Problem, bending_ratio: float, axial_ratio: float):
+    """Without springs every stiffness matrix is rigidity x its unit-rigidity matrix (common practice:
+    linear stiffness method), so for_section (no new solve) gives the same reactions and actions and
+    displacements scaled by 1 / rigidity; with a spring it refuses."""
+    assume(stable(problem))
+    member = problem.member
+    section = Stiffness(EA=STEEL_IPE300.EA * axial_ratio, GJ=STEEL_IPE300.GJ, EIz=STEEL_IPE300.EIz, EIy=STEEL_IPE300.EIy * bending_ratio)
+    unit = solve_member(member, Stiffness.unit(), None)
+    if any(support.springs for support in member.supports):
+        with pytest.raises(ValueError):
+            unit.for_section(section, None)
+        return
+    rescaled, solved = unit.for_section(section, None), solve_member(member, section, None)
+    x = np.linspace(0.0, member.length, 37)
+    force_scale, moment_scale = problem_scale(member, member.loads, np.asarray(solved.reactions("all"), dtype=float))
+    atol = tolerance(force_scale, moment_scale)
+    for name in solved.combination_names:
+        assert np.all(np.abs(rescaled.actions(name, x) - solved.actions(name, x)) <= atol)
+        assert np.all(np.abs(rescaled.reactions(name) - solved.reactions(name)) <= atol)
+        expected = solved.displacements(name, x)
+        disp_tolerance = RTOL * np.max(np.abs(expected), axis=0) + displacement_noise(member, force_scale)
+        assert np.all(np.abs(rescaled.displacements(name, x) - expected) <= disp_tolerance)
 
 
 EXTREME_NAMES = ("N", "Vy", "Vz", "T", "My", "Mz", "V", "M")

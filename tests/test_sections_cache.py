@@ -1,5 +1,5 @@
-"""The section cache: keys follow the geometry, damaged entries are rebuilt, warm look-ups need no
-sectionproperties, catalogues build in parallel.
+"""The section cache: keys follow the geometry (and stay those of earlier versions), damaged entries
+are rebuilt, warm look-ups need no sectionproperties, catalogues build in parallel.
 
 Check values: rectangle A = bh, I = bh^3/12 (elementary beam theory, any mechanics of materials
 text, e.g. Gere & Timoshenko, from memory); mass per length = A x density with steel at 7850 kg/m^3
@@ -41,6 +41,34 @@ def test_key_follows_geometry_not_name() -> None:
     deeper = replace(FLAT, dims={"depth": 0.0301, "width": 0.008})
     assert cache.entry_key(renamed) == cache.entry_key(FLAT)
     assert cache.entry_key(deeper) != cache.entry_key(FLAT)
+
+
+def test_key_is_the_one_earlier_caches_were_written_under() -> None:
+    from importlib.metadata import version
+
+    from sizer.sections.geometry import mesh_settings
+
+    text = json.dumps({"geometry": FLAT.geometry_key(), "mesh": mesh_settings(), "schema": cache.SCHEMA_VERSION,
+                       "sectionproperties": version("sectionproperties")}, sort_keys=True)
+    assert cache.entry_key(FLAT) == hashlib.sha256(text.encode()).hexdigest()[:32]
+
+
+def test_version_is_read_from_the_dist_info_folder(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
+    from importlib.metadata import version
+
+    assert cache.sectionproperties_version() == version("sectionproperties")
+    empty, plain, egg, twice = (tmp_path / name for name in ("empty", "plain", "egg", "twice"))
+    for folder, names in ((empty, ["numpy-2.0.0.dist-info"]), (plain, ["sectionproperties-9.8.7.dist-info"]),
+                          (egg, ["sectionproperties-1.0.egg-info"]),
+                          (twice, ["sectionproperties-1.0.dist-info", "sectionproperties-2.0.dist-info"])):
+        for name in names:
+            (folder / name).mkdir(parents=True)
+    find = cache._version_from_dist_info
+    assert find("sectionproperties", [str(tmp_path / "absent"), str(empty), str(plain), str(egg)]) == "9.8.7"
+    assert find("sectionproperties", [str(egg), str(plain)]) is None  # importlib.metadata decides
+    assert find("sectionproperties", [str(twice)]) is None and find("sectionproperties", [str(empty)]) is None
+    monkeypatch.setattr(cache, "_version_from_dist_info", lambda *args: None)
+    assert cache.sectionproperties_version.__wrapped__() == version("sectionproperties")  # the metadata fallback
 
 
 def test_entry_is_written_whole_and_read_back(cache_dir: Path) -> None:

@@ -6,12 +6,14 @@ from __future__ import annotations
 import io
 import math
 from pathlib import Path
-from typing import Any
+from typing import Any, Callable, TypeVar
 
 from sizer import units
 from sizer.files import write_atomic
 from sizer.render.common import CAUTIONS
 from sizer.sections import SectionProperties, SectionSpec
+
+T = TypeVar("T")
 
 AXES_NOTE = ("Member axes: y along the depth (up as drawn), z = -across (to the left as drawn, looking at "
              "the +x cut face), x along the member. Iz is about the horizontal (major) axis.")
@@ -189,11 +191,10 @@ def write_section_plot(spec: SectionSpec, props: SectionProperties, path: Path) 
     write_atomic(path, buffer.getvalue())
 
 
-def build_with_progress(specs: list[Any], description: str, check_arrays: bool = True) -> Any:
-    """Compute whatever the cache lacks, with a progress bar on stderr (only when there is work; it
-    goes when the work is done)."""
+def with_build_progress(description: str, work: Callable[[Callable[[int, int, str], None]], T]) -> T:
+    """work(progress) with a progress bar on stderr for the section properties it computes (shown
+    only when there is something to compute; it goes when the work is done)."""
     from sizer.render.common import progress_bar
-    from sizer.sections import build_catalogue
 
     shown: dict[str, Any] = {}
 
@@ -207,7 +208,7 @@ def build_with_progress(specs: list[Any], description: str, check_arrays: bool =
         shown["bar"].update(shown["task"], completed=done, total=total, section=name)
 
     try:
-        return build_catalogue(specs, progress=report, check_arrays=check_arrays)
+        return work(report)
     finally:
         if "bar" in shown:
             shown["bar"].stop()

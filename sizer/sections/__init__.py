@@ -1,14 +1,18 @@
 """Catalogue sections: reading and checking catalogue files, their shapes, their properties and unit
 stress fields from sectionproperties, and the disk cache that makes repeated look-ups instant.
 
-Modules: shapes (keys and fit rules), catalogue (files -> SectionSpec, Catalogue), geometry
-(outlines and the mesh rule), properties (SectionProperties, UnitStressField, member axes; see its
-docstring for the axis mapping), cache (disk entries), editing (adding sections to files, CSV import).
+Modules: shapes (keys and fit rules), catalogue (files -> SectionSpec, Catalogue), catalogue_cache
+(parsed catalogue files remembered on disk), geometry (outlines and the mesh rule), properties
+(SectionProperties, UnitStressField, member axes, section_table: the scalars of many sections as one
+array; see its docstring for the axis mapping), cache (disk entries and tables), editing (adding
+sections to files, CSV import).
 
 Mesh rule (sizer.sections.geometry): largest element area min((t_min / 1.25)^2, A / 200) with t_min
 the thinnest wall; 8 points per root or corner radius; 96 per full circle.
 
-sectionproperties is imported only when something must be computed; a warm look-up reads the cache.
+sectionproperties is imported only when something must be computed; a warm look-up reads the cache:
+an unchanged catalogue file is one remembered parse, and a list of sections tabled before is one
+array file.
 """
 
 from sizer.sections.catalogue import (
@@ -27,6 +31,7 @@ from sizer.sections.properties import (
     peak_unit_stresses,
     section_properties,
     section_properties_many,
+    section_table,
     unit_stress_field,
 )
 from sizer.sections.shapes import SHAPES
@@ -45,6 +50,7 @@ __all__ = [
     "peak_unit_stresses",
     "section_properties",
     "section_properties_many",
+    "section_table",
     "shipped_library",
     "unit_stress_field",
 ]

@@ -1,11 +1,17 @@
-"""The on-disk cache of section results: one small JSON of scalars and one .npz of the unit stress
-fields per geometry, in platformdirs.user_cache_dir("sizer")/sections, or $SIZER_CACHE_DIR/sections.
+"""The on-disk cache of section results, in platformdirs.user_cache_dir("sizer"), or $SIZER_CACHE_DIR:
 
-Key: a hash of the geometry (shape and dimensions), the mesh settings, the sectionproperties
-version and SCHEMA_VERSION. Files are written atomically (arrays first, then the JSON that names
-the arrays' checksum), so an entry is whole or absent. Reading trusts nothing: any entry that fails
-to load, has missing or non-finite values, the wrong shapes or the wrong checksum is reported as
-absent, and the caller recomputes and rewrites it.
+- sections/: one small JSON of scalars and one .npz of the unit stress fields per geometry (an entry);
+- section-tables/: the scalars of a whole list of sections in one .npy array (a table), so that a
+  large catalogue's properties are one file read instead of one per section.
+
+Entry key: a hash of the geometry (shape and dimensions), the mesh settings, the sectionproperties
+version and SCHEMA_VERSION. Table key: a hash of its sections' geometry keys, in row order, its
+column names, and the same mesh settings, version and schema. Files are written atomically (an
+entry's arrays first, then the JSON that names the arrays' checksum), so an entry or a table is
+whole or absent. Reading trusts nothing: an entry that fails to load, has missing or non-finite
+values, the wrong shapes or the wrong checksum is reported as absent, and so is a table that fails
+to load, has the wrong shape or type or a non-finite value; the caller recomputes and rewrites it
+(a table from its entries).
 """
 
 from __future__ import annotations
@@ -15,8 +21,10 @@ import io
 import json
 import math
 import os
+import sys
 from functools import lru_cache
 from pathlib import Path
+from typing import Sequence
 
 import numpy as np
 
@@ -26,6 +34,7 @@ from sizer.sections.geometry import mesh_settings
 
 SCHEMA_VERSION = 4
 ARRAY_NAMES = ("points", "sigma", "tau")
+_GEOMETRY_MARK = "GEOMETRY"  # stands for the geometry key in the key text built once per process
 
 
 def cache_folder() -> Path:
@@ -33,12 +42,43 @@ def cache_folder() -> Path:
     return cache_root() / "sections"
 
 
+def table_folder() -> Path:
+    """Where tables live: $SIZER_CACHE_DIR/section-tables, else the user's cache folder."""
+    return cache_root() / "section-tables"
+
+
 @lru_cache(maxsize=1)
 def sectionproperties_version() -> str:
-    """The installed sectionproperties version (from package metadata: no import)."""
+    """The installed sectionproperties version, without importing it: from the name of its
+    `sectionproperties-<version>.dist-info` folder on sys.path (PEP 376/427) when that settles it,
+    else from importlib.metadata (about 10 ms to import)."""
+    found = _version_from_dist_info("sectionproperties", sys.path)
+    if found is not None:
+        return found
     from importlib.metadata import version
 
     return version("sectionproperties")
+
+
+def _version_from_dist_info(distribution: str, folders: Sequence[str]) -> str | None:
+    """The version in the name of `distribution`'s `<name>-<version>.dist-info` folder in the first
+    of `folders` that holds any metadata of it (.dist-info, .egg-info, .egg); None when there is
+    none, or when that folder's is not exactly one .dist-info (importlib.metadata decides then)."""
+    name = distribution.replace("-", "_").lower()
+    for folder in folders:
+        try:
+            names = os.listdir(folder or ".")
+        except OSError:
+            continue
+        candidates = [entry for entry in names if entry.lower().startswith((f"{name}-", f"{name}."))
+                      and entry.endswith((".dist-info", ".egg-info", ".egg"))]
+        if not candidates:
+            continue
+        if len(candidates) != 1 or not candidates[0].endswith(".dist-info"):
+            return None
+        version = candidates[0][len(name) + 1:-len(".dist-info")]
+        return version if version and "-" not in version else None
+    return None
 
 
 def entry_key(spec: SectionSpec) -> str:
@@ -48,8 +88,26 @@ def entry_key(spec: SectionSpec) -> str:
 
 @lru_cache(maxsize=4096)
 def _key_of_geometry(geometry_key: str) -> str:
-    text = json.dumps({"geometry": geometry_key, "mesh": mesh_settings(), "schema": SCHEMA_VERSION,
+    """sha256 of the JSON {"geometry", "mesh", "schema", "sectionproperties"} (sorted keys): the text
+    around the geometry key is built once per process."""
+    before, after = _key_text_around_geometry()
+    return hashlib.sha256(f"{before}{geometry_key}{after}".encode()).hexdigest()[:32]
+
+
+@lru_cache(maxsize=1)
+def _key_text_around_geometry() -> tuple[str, str]:
+    """The key's JSON text before and after the geometry key (a hex string: JSON writes it as is)."""
+    text = json.dumps({"geometry": _GEOMETRY_MARK, "mesh": mesh_settings(), "schema": SCHEMA_VERSION,
                        "sectionproperties": sectionproperties_version()}, sort_keys=True)
+    before, after = text.split(_GEOMETRY_MARK)
+    return before, after
+
+
+def table_key(geometry_keys: Sequence[str], columns: Sequence[str]) -> str:
+    """The cache key of a table: a hash of its sections' geometry keys, in row order, its column
+    names, in order, and what each entry key adds (mesh settings, schema, sectionproperties version)."""
+    before, after = _key_text_around_geometry()
+    text = "\n".join([before + after, ",".join(columns), *geometry_keys])
     return hashlib.sha256(text.encode()).hexdigest()[:32]
 
 
@@ -109,6 +167,33 @@ def write_entry(key: str, scalars: dict[str, float], arrays: dict[str, np.ndarra
     try:
         write_atomic(npz_path, payload)
         write_atomic(json_path, json.dumps(entry))
+    except OSError:
+        return False
+    return True
+
+
+def _table_path(key: str) -> str:
+    return os.path.join(str(table_folder()), f"{key}.npy")
+
+
+def read_table(key: str, shape: tuple[int, int]) -> np.ndarray | None:
+    """The table stored under `key` if it loads as a float64 array of `shape` with every value
+    finite; else None."""
+    try:
+        table = np.load(_table_path(key), allow_pickle=False)
+        if table.dtype != np.float64 or table.shape != shape or not np.isfinite(table).all():
+            return None
+        return table
+    except Exception:  # any damage at all: rebuild from the entries
+        return None
+
+
+def write_table(key: str, table: np.ndarray) -> bool:
+    """Store a table atomically (.npy). False when the cache folder cannot be written."""
+    buffer = io.BytesIO()
+    np.save(buffer, np.asarray(table, dtype=np.float64), allow_pickle=False)
+    try:
+        write_atomic(_table_path(key), buffer.getvalue())
     except OSError:
         return False
     return True

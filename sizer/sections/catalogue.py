@@ -5,6 +5,9 @@ Every dimension is a string with its unit, read to metres. Section names are uni
 files of a catalogue. A catalogue is any mix of files and folders; a folder contributes its *.toml
 files (not recursing), except files that are plainly something else (a member file's [member] table,
 pyproject.toml's [project] or [tool]), so a catalogue may share a folder with them.
+
+An unchanged file is not parsed again: its sections and materials are remembered on disk
+(sizer.sections.catalogue_cache), keyed by its path, its text and the code that parses it.
 """
 
 from __future__ import annotations
@@ -14,15 +17,19 @@ import hashlib
 import json
 import math
 import re
+import sys
 from dataclasses import dataclass, field
 from functools import cached_property
 from pathlib import Path
-from typing import Any, Sequence
+from typing import TYPE_CHECKING, Any, Sequence
 
 from sizer import units
 from sizer.errors import InputError
 from sizer.model import Material
 from sizer.sections.shapes import RADIUS_KEYS, SHAPES, allowed_keys, fit_problems
+
+if TYPE_CHECKING:
+    from sizer.sections.catalogue_cache import ParsedFile
 
 SHIPPED_PACKAGE = "sizer.section_library"
 TOP_KEYS = ("title", "materials", "sections")
@@ -176,11 +183,9 @@ def load_catalogue(paths: Sequence[Path]) -> Catalogue:
     materials: dict[str, Material] = {}
     files: list[Path] = []
     for path, from_folder in catalogue_files(paths):
-        text = _read_text(path)
-        data = _parse_toml(text, path)
-        if from_folder and FOREIGN_TABLES & data.keys():
+        content = _catalogue_file(path, from_folder)
+        if content.foreign:
             continue  # a member file or project file kept beside the catalogue files
-        content = parse_catalogue_text(text, path, data)
         files.append(path)
         for index, spec in enumerate(content.sections, start=1):
             if spec.name in sections:
@@ -194,6 +199,32 @@ def load_catalogue(paths: Sequence[Path]) -> Catalogue:
                                  "material names must be unique across the catalogue: rename or remove one")
             materials[name] = material
     return Catalogue(sections, materials, tuple(files))
+
+
+def _catalogue_file(path: Path, from_folder: bool) -> ParsedFile:
+    """The sections and materials of one file: remembered when its text (and path, and the code)
+    are unchanged, else parsed now and remembered. `foreign` only for a file `from_folder`."""
+    from sizer.sections import catalogue_cache
+
+    text = _read_text(path)
+    digest = catalogue_cache.content_digest(path, text)
+    remembered = catalogue_cache.read_parsed(path, digest)
+    if remembered is not None and (from_folder or not remembered.foreign):
+        return remembered
+    parsed = _parse_file(path, text, from_folder)
+    catalogue_cache.write_parsed(path, digest, parsed)
+    return parsed
+
+
+def _parse_file(path: Path, text: str, from_folder: bool) -> ParsedFile:
+    """Parse one file; a folder's file with a table of FOREIGN_TABLES is marked foreign, unread."""
+    from sizer.sections.catalogue_cache import ParsedFile
+
+    data = _parse_toml(text, path)
+    if from_folder and FOREIGN_TABLES & data.keys():
+        return ParsedFile(True, [], {})
+    content = parse_catalogue_text(text, path, data)
+    return ParsedFile(False, content.sections, content.materials)
 
 
 def _place(file: str, line: int | None) -> str:
@@ -261,6 +292,7 @@ def parse_section(table: dict, reader: Any, prefix: str) -> SectionSpec:
         hint = f"did you mean {close[0]!r}? " if close else ""
         raise reader.error(f"{prefix}.shape", f"{label}: unknown shape {shape!r}" if shape is not None else f"{label}: shape is missing",
                            hint + "use one of: " + ", ".join(SHAPES))
+    shape = sys.intern(shape)  # one object per text: remembered catalogues (catalogue_cache) are smaller
     allowed = allowed_keys(shape)
     for key in table:
         if key not in allowed:
@@ -286,7 +318,7 @@ def _optional_text(table: dict, key: str, reader: Any, prefix: str, label: str) 
         return None
     if not isinstance(value, str) or not value.strip():
         raise reader.error(f"{prefix}.{key}", f"{label}: {key} must be a non-empty string, got {value!r}", f'write e.g. {key} = "tube"')
-    return value
+    return sys.intern(value)  # a family or material repeats: one object per text, as for shapes
 
 
 def _length(value: Any, reader: Any, key: str, label: str) -> float:

@@ -150,8 +150,13 @@ class SectionProperties:
 # ----------------------------------------------------------------------------------------------
 # public look-ups
 
-_ENTRIES: dict[str, dict[str, float]] = {}
+# In memory, by geometry key (an entry key adds only what is fixed within a process): the scalars
+# as a row in SCALAR_NAMES order (plain floats; a section table's row until first used), and the
+# unit stress fields last used.
+_ENTRIES: dict[str, list[float] | np.ndarray] = {}
 _FIELDS: OrderedDict[str, UnitStressField] = OrderedDict()
+_SIGMA_PEAK_COLUMNS = tuple(SCALAR_NAMES.index(name) for name in ("sigma_peak_N", "sigma_peak_My", "sigma_peak_Mz"))
+_TAU_PEAK_COLUMNS = tuple(SCALAR_NAMES.index(name) for name in ("tau_peak_Vy", "tau_peak_Vz", "tau_peak_T"))
 
 
 def section_properties(spec: SectionSpec, density: float | None = None) -> SectionProperties:
@@ -162,31 +167,56 @@ def section_properties(spec: SectionSpec, density: float | None = None) -> Secti
 
 def section_properties_many(specs: Sequence[SectionSpec], density: float | None = None, workers: int | None = None,
                             progress: Callable[[int, int, str], None] | None = None) -> list[SectionProperties]:
-    """Properties of many sections; those not cached are computed in parallel first."""
-    build_catalogue(specs, workers, progress, check_arrays=False)
+    """Properties of many sections, read through section_table (those not cached are computed in
+    parallel first)."""
+    section_table(specs, workers, progress)
     return [section_properties(spec, density) for spec in specs]
+
+
+def section_table(specs: Sequence[SectionSpec], workers: int | None = None,
+                  progress: Callable[[int, int, str], None] | None = None) -> np.ndarray:
+    """The scalars of `specs` as a float64 array (len(specs), len(SCALAR_NAMES)): row i is specs[i],
+    columns in SCALAR_NAMES order, SI units and member axes as in SectionProperties.
+
+    Read from one file when this list of sections was tabled before; else gathered from memory and
+    the entries (missing ones computed in parallel, as build_catalogue does; `progress` as there)
+    and stored as one file. Afterwards section_properties and peak_unit_stresses of these sections
+    read no file."""
+    geometry_keys = [spec.geometry_key() for spec in specs]
+    key = cache.table_key(geometry_keys, SCALAR_NAMES)
+    table = cache.read_table(key, (len(specs), len(SCALAR_NAMES)))
+    if table is None:
+        build_catalogue(specs, workers, progress, check_arrays=False)
+        table = np.array([_scalars(spec) for spec in specs], dtype=np.float64).reshape(len(specs), len(SCALAR_NAMES))
+        cache.write_table(key, table)
+    else:
+        _ENTRIES.update(zip(geometry_keys, table.copy()))  # rows of a private copy: the caller may change `table`
+        if progress:
+            geometries = len(set(geometry_keys))
+            progress(geometries, geometries, "")  # as build_catalogue reports a catalogue with nothing to compute
+    return table
 
 
 def peak_unit_stresses(spec: SectionSpec) -> tuple[np.ndarray, np.ndarray]:
     """(sigma_peak (3,), tau_peak (3,)): largest |stress| (Pa) per unit N, My, Mz and Vy, Vz, T."""
-    scalars = _scalars(spec)
-    return (np.array([scalars["sigma_peak_N"], scalars["sigma_peak_My"], scalars["sigma_peak_Mz"]]),
-            np.array([scalars["tau_peak_Vy"], scalars["tau_peak_Vz"], scalars["tau_peak_T"]]))
+    row = _scalars(spec)
+    return np.array([row[i] for i in _SIGMA_PEAK_COLUMNS]), np.array([row[i] for i in _TAU_PEAK_COLUMNS])
 
 
 def unit_stress_field(spec: SectionSpec) -> UnitStressField:
     """The unit stress fields of `spec` (memory, then disk, else recomputed and stored)."""
+    geometry = spec.geometry_key()
+    if geometry in _FIELDS:
+        _FIELDS.move_to_end(geometry)
+        return _FIELDS[geometry]
     key = cache.entry_key(spec)
-    if key in _FIELDS:
-        _FIELDS.move_to_end(key)
-        return _FIELDS[key]
     entry = cache.read_entry(key, SCALAR_NAMES)
     arrays = cache.read_arrays(key, entry) if entry is not None else None
     if arrays is None:
         _compute_and_store(spec)
-        return _FIELDS[key]
-    _ENTRIES[key] = entry["scalars"]
-    return _remember_field(key, arrays)
+        return _FIELDS[geometry]
+    _ENTRIES[geometry] = _row(entry["scalars"])
+    return _remember_field(geometry, arrays)
 
 
 def clear_memory() -> None:
@@ -195,28 +225,39 @@ def clear_memory() -> None:
     _FIELDS.clear()
 
 
-def _remember_field(key: str, arrays: dict[str, np.ndarray]) -> UnitStressField:
+def _remember_field(geometry: str, arrays: dict[str, np.ndarray]) -> UnitStressField:
     unit_field = UnitStressField(arrays["points"], arrays["sigma"], arrays["tau"])
-    _FIELDS[key] = unit_field
-    _FIELDS.move_to_end(key)
+    _FIELDS[geometry] = unit_field
+    _FIELDS.move_to_end(geometry)
     while len(_FIELDS) > FIELD_MEMORY:
         _FIELDS.popitem(last=False)
     return unit_field
 
 
-def _scalars(spec: SectionSpec) -> dict[str, float]:
-    key = cache.entry_key(spec)
-    if key not in _ENTRIES:
-        entry = cache.read_entry(key, SCALAR_NAMES)
-        if entry is None:
-            _compute_and_store(spec)
-        else:
-            _ENTRIES[key] = entry["scalars"]
-    return _ENTRIES[key]
+def _row(scalars: dict[str, float]) -> list[float]:
+    """An entry's scalars as floats in SCALAR_NAMES order."""
+    return [float(scalars[name]) for name in SCALAR_NAMES]
 
 
-def _assemble(spec: SectionSpec, s: dict[str, float], density: float | None) -> SectionProperties:
-    plain = {name: float(s[name]) for name in SCALAR_NAMES}
+def _scalars(spec: SectionSpec) -> list[float]:
+    """The section's row of scalars (SCALAR_NAMES order): memory, then disk, else computed."""
+    geometry = spec.geometry_key()
+    row = _ENTRIES.get(geometry)
+    if type(row) is list:
+        return row
+    if row is not None:
+        _ENTRIES[geometry] = row = row.tolist()  # a section table's row: plain floats from now on
+        return row
+    entry = cache.read_entry(cache.entry_key(spec), SCALAR_NAMES)
+    if entry is None:
+        _compute_and_store(spec)
+    else:
+        _ENTRIES[geometry] = _row(entry["scalars"])
+    return _ENTRIES[geometry]
+
+
+def _assemble(spec: SectionSpec, row: list[float], density: float | None) -> SectionProperties:
+    plain = dict(zip(SCALAR_NAMES, row))
     return SectionProperties(
         name=spec.name, shape=spec.shape, area=plain["area"], centroid=(plain["centroid_y"], plain["centroid_z"]),
         Iz=plain["Iz"], Iy=plain["Iy"], Iyz=plain["Iyz"], I11=plain["I11"], I22=plain["I22"],
@@ -324,11 +365,10 @@ def compute(spec: SectionSpec) -> tuple[dict[str, float], dict[str, np.ndarray]]
 
 
 def _compute_and_store(spec: SectionSpec) -> None:
-    key = cache.entry_key(spec)
     scalars, arrays = compute(spec)
-    cache.write_entry(key, scalars, arrays)
-    _ENTRIES[key] = scalars
-    _remember_field(key, arrays)
+    cache.write_entry(cache.entry_key(spec), scalars, arrays)
+    _ENTRIES[spec.geometry_key()] = _row(scalars)
+    _remember_field(spec.geometry_key(), arrays)
 
 
 # ----------------------------------------------------------------------------------------------
@@ -352,8 +392,8 @@ def build_catalogue(specs: Sequence[SectionSpec], workers: int | None = None,
     process per core by default; in this process when fewer than PARALLEL_FROM are missing). `progress(done, total, name)` is called as geometries finish.
     `check_arrays`: also verify each cached entry's stress arrays (else only its scalars)."""
     start = time.perf_counter()
-    unique = {cache.entry_key(spec): spec for spec in specs}
-    missing = [spec for key, spec in unique.items() if not _entry_ready(key, check_arrays)]
+    unique = {spec.geometry_key(): spec for spec in specs}
+    missing = [spec for spec in unique.values() if not _entry_ready(spec, check_arrays)]
     total, done = len(unique), len(unique) - len(missing)
     if progress:
         progress(done, total, "")
@@ -374,9 +414,11 @@ def build_catalogue(specs: Sequence[SectionSpec], workers: int | None = None,
     return BuildSummary(len(specs), total, len(missing), total - len(missing), workers, time.perf_counter() - start)
 
 
-def _entry_ready(key: str, check_arrays: bool) -> bool:
-    if key in _ENTRIES and (not check_arrays or key in _FIELDS):
+def _entry_ready(spec: SectionSpec, check_arrays: bool) -> bool:
+    geometry = spec.geometry_key()
+    if geometry in _ENTRIES and (not check_arrays or geometry in _FIELDS):
         return True
+    key = cache.entry_key(spec)
     entry = cache.read_entry(key, SCALAR_NAMES)
     if entry is None:
         return False
@@ -384,8 +426,8 @@ def _entry_ready(key: str, check_arrays: bool) -> bool:
         arrays = cache.read_arrays(key, entry)
         if arrays is None:
             return False
-        _remember_field(key, arrays)
-    _ENTRIES[key] = entry["scalars"]
+        _remember_field(geometry, arrays)
+    _ENTRIES[geometry] = _row(entry["scalars"])
     return True
 
 
@@ -398,22 +440,22 @@ def _build_in_parallel(specs: list[SectionSpec], workers: int) -> Iterator[Secti
     with ProcessPoolExecutor(max_workers=workers, mp_context=multiprocessing.get_context("spawn")) as pool:
         futures = {pool.submit(_worker, spec): spec for spec in specs}
         for future in as_completed(futures):
-            key, scalars, arrays, error = future.result()
+            scalars, arrays, error = future.result()
             if error is not None:
                 pool.shutdown(cancel_futures=True)
                 raise InputError(*error)
-            _ENTRIES[key] = scalars
-            _remember_field(key, arrays)
-            yield futures[future]
+            spec = futures[future]
+            _ENTRIES[spec.geometry_key()] = _row(scalars)
+            _remember_field(spec.geometry_key(), arrays)
+            yield spec
 
 
-def _worker(spec: SectionSpec) -> tuple[str, dict | None, dict | None, tuple | None]:
+def _worker(spec: SectionSpec) -> tuple[dict | None, dict | None, tuple | None]:
     """Process-pool task: compute and store one entry. Bad input comes back as InputError fields
     (the dataclass exception does not survive pickling)."""
-    key = cache.entry_key(spec)
     try:
         scalars, arrays = compute(spec)
     except InputError as error:
-        return key, None, None, (error.file, error.key, error.problem, error.fix, error.line)
-    cache.write_entry(key, scalars, arrays)
-    return key, scalars, arrays, None
+        return None, None, (error.file, error.key, error.problem, error.fix, error.line)
+    cache.write_entry(cache.entry_key(spec), scalars, arrays)
+    return scalars, arrays, None
