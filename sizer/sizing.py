@@ -7,7 +7,9 @@ Speed by design:
    Exact without springs; with springs the forces depend on stiffness and each section is solved.
 2. Screen, every section x combination x station at once, one block of sections at a time. Each
    action of a block is one matrix product [c_s, c_s m_s] @ [A_loads; A_unit_weight]. Axial force,
-   buckling and deflection are exact (double precision). Bending, shear, interaction and equivalent
+   buckling and deflection are the check's own values (double precision) at the screen's stations,
+   which the check uses too: true lower bounds, and exact unless a distributed axial load makes N
+   peak between them (the check adds such points). Bending, shear, interaction and equivalent
    stress are estimated from the per-unit-action peaks (|sigma| <= sum |action_i| * peak_i) in single
    precision: these estimates only choose which checks to prove and at which station.
 3. Lower bound: where an estimate says "fails", the full stress field (double precision) at the
@@ -58,7 +60,7 @@ class CandidateTable:
 class Screen:
     """What the screen found for every candidate (rows as in CandidateTable)."""
 
-    exact: dict[str, np.ndarray]  # check -> (S,) exact utilization: axial, buckling, deflection
+    exact: dict[str, np.ndarray]  # check -> (S,) the check's own value at the screen's stations: axial, buckling, deflection
     estimate: dict[str, np.ndarray]  # stress check -> (S,) largest utilization from the peaks (single precision)
     worst: dict[str, np.ndarray]  # stress check -> (S,) flat (combination x station) row of that estimate
     loads: np.ndarray  # (C x N, 6) actions of the loads alone at the stations, section axes
@@ -87,7 +89,8 @@ class Candidate:
 
     @property
     def bounds(self) -> dict[str, float]:
-        """check -> proven lower bound of its utilization (exact for axial, buckling and deflection)."""
+        """check -> proven lower bound of its utilization (the screen's axial, buckling and deflection values, and
+        the full field at single stations)."""
         exact = {name: float(values[self.index]) for name, values in self.screen.exact.items()} if self.screen else {}
         return {**exact, **self.proven}
 
@@ -218,7 +221,7 @@ def _scaled(coefficient: np.ndarray, mass: np.ndarray, pair: np.ndarray) -> np.n
 
 def stress_screen(table: CandidateTable, loads: np.ndarray, per_mass: np.ndarray, material: Material,
                   member: Member) -> tuple[dict[str, np.ndarray], dict[str, np.ndarray], dict[str, np.ndarray]]:
-    """(exact axial and buckling utilizations, stress-check estimates, their worst rows) of every
+    """(axial and buckling utilizations at the stations, stress-check estimates, their worst rows) of every
     candidate; loads and per_mass (K, 6) in section axes. Blocks of sections keep each array in cache."""
     allow = material.allowable
     count, rows = len(table.mass), loads.shape[0]
@@ -383,7 +386,7 @@ def first_passing(candidates: list[Candidate], member: Member, material: Materia
 
 
 def passes_in_full(candidate: Candidate, member: Member, material: Material, base: MemberSolution | None) -> bool:
-    """False at once when a proven lower bound rules the candidate out (the exact parts of the screen,
+    """False at once when a proven lower bound rules the candidate out (the double-precision parts of the screen,
     then the full field at the screen's worst stations); else the verdict of the full check."""
     if candidate.screen is not None and candidate.report is None:
         if candidate.certainly_fails:

@@ -17,6 +17,7 @@ import math
 from pathlib import Path
 from typing import Callable
 
+import numpy as np
 import pytest
 from scipy import constants
 from typer.testing import CliRunner
@@ -595,6 +596,46 @@ def test_size_agrees_with_check_on_every_section(stocks: dict[str, Path], tmp_pa
         assert listed >= set(by_mass[:by_mass.index(lightest)])  # every lighter section, with why it fails
     else:
         assert listed == set(by_mass)
+
+
+@pytest.mark.parametrize("variant", [name for name in AGREEMENT_MEMBERS if "springs" not in name])
+def test_screen_matches_the_full_check_on_every_section(stocks: dict[str, Path], tmp_path: Path, variant: str) -> None:
+    """The screen against `sizer check`'s own computation (checks.check_design on a section solved on
+    its own), section by section. Axial, buckling and deflection: the check's values (rel 1e-9; these
+    members have no distributed axial load, so N peaks at concentrated items, which are screen
+    stations). Stress estimates from the per-unit-action peaks: never below the full field at the
+    screen's stations (|sum a_i s_i| <= sum |a_i| max|s_i|, common practice), save for
+    single-precision round-off."""
+    from sizer.analysis import solve_member, stations
+    from sizer.checks import buckling_axes, check_design, compression_allowable, full_field_stresses, to_section_axes
+    from sizer.design import catalogue_for, resolve_material
+    from sizer.inputfile import read_member_file
+    from sizer.model import Stiffness
+    from sizer.sections import unit_stress_field
+    from sizer.sizing import candidate_sections, design_for, screen
+
+    member = read_member_file(write_member(tmp_path, AGREEMENT_MEMBERS[variant]))
+    catalogue = catalogue_for(member, [stocks["mixed"]])
+    material = resolve_material(member, catalogue)
+    allow = material.allowable
+    candidates, table = candidate_sections(catalogue, member, material, (), None, None)
+    found = screen(table, member, material, solve_member(member, Stiffness.unit(), None))
+    xs, sides = stations(member)
+    for candidate in candidates:
+        design = design_for(member, material, candidate)
+        report = check_design(design, unit_stress_field(candidate.spec))
+        checked = {result.check: result.utilization or 0.0 for result in report.checks}
+        for name, values in found.exact.items():
+            assert values[candidate.index] == pytest.approx(checked[name], rel=SAME, abs=1e-12), (candidate.name, name)
+        field = full_field_stresses(to_section_axes(design.solution.all_actions(xs, sides), member.orientation),
+                                    unit_stress_field(candidate.spec), candidate.props.area)
+        fa_allow = np.where(field.axial >= 0, allow.tension, compression_allowable(design, buckling_axes(member, candidate.props, material)))
+        at_stations = {"bending": field.bending.max() / allow.bending, "shear": field.shear.max() / allow.shear,
+                       "equivalent": field.equivalent.max() / allow.equivalent,
+                       "interaction": (np.abs(field.axial) / fa_allow + field.bending / allow.bending).max()}
+        for name, values in found.estimate.items():
+            assert values[candidate.index] >= at_stations[name] * (1 - 1e-5), (candidate.name, name)
+            assert values[candidate.index] <= 3 * checked[name] + 1e-9, (candidate.name, name)  # an estimate, not a wild one
 
 
 def test_lighter_sections_are_listed_with_their_governing_check(stocks: dict[str, Path], tmp_path: Path) -> None:

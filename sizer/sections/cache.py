@@ -1,6 +1,7 @@
 """The on-disk cache of section results, in platformdirs.user_cache_dir("sizer"), or $SIZER_CACHE_DIR:
 
-- sections/: one small JSON of scalars and one .npz of the unit stress fields per geometry (an entry);
+- sections/: one small JSON of scalars and one raw array file (.f64: little-endian float64, the
+  unit stress fields' points, sigma and tau one after the other) per geometry (an entry);
 - section-tables/: the scalars of a whole list of sections in one .npy array (a table), so that a
   large catalogue's properties are one file read instead of one per section.
 
@@ -32,8 +33,9 @@ from sizer.files import cache_root, write_atomic
 from sizer.sections.catalogue import SectionSpec
 from sizer.sections.geometry import mesh_settings
 
-SCHEMA_VERSION = 4
+SCHEMA_VERSION = 5
 ARRAY_NAMES = ("points", "sigma", "tau")
+RAW = np.dtype("<f8")
 _GEOMETRY_MARK = "GEOMETRY"  # stands for the geometry key in the key text built once per process
 
 
@@ -113,7 +115,7 @@ def table_key(geometry_keys: Sequence[str], columns: Sequence[str]) -> str:
 
 def _paths(key: str) -> tuple[str, str]:
     folder = str(cache_folder())
-    return os.path.join(folder, f"{key}.json"), os.path.join(folder, f"{key}.npz")
+    return os.path.join(folder, f"{key}.json"), os.path.join(folder, f"{key}.f64")
 
 
 def read_entry(key: str, names: tuple[str, ...]) -> dict | None:
@@ -144,28 +146,29 @@ def read_arrays(key: str, entry: dict) -> dict[str, np.ndarray] | None:
             payload = stream.read()
         if hashlib.sha256(payload).hexdigest() != entry["arrays_sha256"]:
             return None
-        with np.load(io.BytesIO(payload), allow_pickle=False) as archive:
-            arrays = {name: np.array(archive[name], dtype=float) for name in ARRAY_NAMES}
         nodes = int(entry["scalars"]["mesh_nodes"])
-        shapes_ok = (arrays["points"].shape == (nodes, 2) and arrays["sigma"].shape == (3, nodes)
-                     and arrays["tau"].shape == (3, nodes, 2))
-        if not shapes_ok or not all(np.isfinite(array).all() for array in arrays.values()):
+        values = np.frombuffer(payload, dtype=RAW).astype(float)
+        if values.size != 11 * nodes or not np.isfinite(values).all():  # 2 + 3 + 6 values per node
             return None
-        return arrays
+        return _split_arrays(values, nodes)
     except Exception:  # any damage at all: recompute
         return None
+
+
+def _split_arrays(values: np.ndarray, nodes: int) -> dict[str, np.ndarray]:
+    """points (nodes, 2), sigma (3, nodes), tau (3, nodes, 2) from their values one after the other."""
+    points, sigma, tau = np.split(values, [2 * nodes, 5 * nodes])
+    return {"points": points.reshape(nodes, 2), "sigma": sigma.reshape(3, nodes), "tau": tau.reshape(3, nodes, 2)}
 
 
 def write_entry(key: str, scalars: dict[str, float], arrays: dict[str, np.ndarray]) -> bool:
     """Store an entry atomically (arrays, then the JSON naming their checksum). False when the
     cache folder cannot be written (results then live in memory only)."""
-    json_path, npz_path = _paths(key)
-    buffer = io.BytesIO()
-    np.savez(buffer, **{name: arrays[name] for name in ARRAY_NAMES})
-    payload = buffer.getvalue()
+    json_path, arrays_path = _paths(key)
+    payload = np.concatenate([np.asarray(arrays[name], dtype=RAW).ravel() for name in ARRAY_NAMES]).tobytes()
     entry = {"key": key, "schema": SCHEMA_VERSION, "arrays_sha256": hashlib.sha256(payload).hexdigest(), "scalars": scalars}
     try:
-        write_atomic(npz_path, payload)
+        write_atomic(arrays_path, payload)
         write_atomic(json_path, json.dumps(entry))
     except OSError:
         return False
