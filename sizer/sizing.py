@@ -148,6 +148,9 @@ def candidate_sections(catalogue: Any, member: Member, material: Material, famil
     from sizer.sections.properties import SCALAR_NAMES, section_table
 
     specs = catalogue.select(families)
+    if not specs:
+        files = ", ".join(str(path) for path in catalogue.files) or "the catalogue"
+        raise InputError(files, "sections", "the catalogue holds no sections", "add [[sections]] entries, or pass --catalogue with a stock list")
     table = section_table(specs, progress=progress)
     column = {name: table[:, k] for k, name in enumerate(SCALAR_NAMES)}
     depth, width = (column["depth"], column["width"]) if member.orientation == "major" else (column["width"], column["depth"])

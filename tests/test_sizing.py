@@ -344,6 +344,15 @@ def test_unknown_family_is_bad_input(stocks: dict[str, Path], tmp_path: Path, fa
     assert result.stdout == ""
 
 
+def test_a_catalogue_without_sections_is_bad_input(tmp_path: Path) -> None:
+    """SPEC section 8: one line naming the file and the fix, exit 2, nothing on stdout."""
+    (tmp_path / "stock.toml").write_text(MATERIAL, encoding="utf-8")
+    result = run("size", write_member(tmp_path, simple_beam(2.0, 3.6 * KN)), "--catalogue", tmp_path / "stock.toml")
+    assert result.exit_code == 2 and result.stdout == ""
+    lines = result.stderr.strip().splitlines()
+    assert len(lines) == 1 and "stock.toml" in lines[0] and "no sections" in lines[0]
+
+
 def test_minor_orientation_uses_the_other_axis_and_the_installed_depth(stocks: dict[str, Path], tmp_path: Path) -> None:
     """orientation = "minor": the section turns a quarter turn, so a b x h entry bends with S = h b^2/6
     (the rectangle's other axis, REFERENCES.md), and --max-depth limits the installed depth, which is
