@@ -180,7 +180,7 @@ def _check_loads(member: Member, loads: Sequence[Load]) -> None:
 
 
 def _check_springs_need_stiffness(member: Member, stiffness: Stiffness | None) -> None:
-    if stiffness is None and any(s.springs for s in member.supports):
+    if stiffness is None and member.has_springs:
         raise InputError(member.source, "member.section", "the support springs make the forces depend on the member's stiffness, "
                          "and no section is given", "give a section")
 
@@ -1048,7 +1048,7 @@ class MemberSolution:
         internal actions do not depend on uniform rigidities, and the displacements scale as
         1 / rigidity. Needs a solution made with rigidities (e.g. Stiffness.unit()); ValueError with
         springs, whose forces depend on the stiffness."""
-        if any(support.springs for support in self.member.supports):
+        if self.member.has_springs:
             raise ValueError("a member with springs must be solved for each stiffness")
         if self.stiffness is None:
             raise ValueError("rescaling needs a solution made with rigidities, e.g. Stiffness.unit()")
@@ -1272,10 +1272,12 @@ def load_sign_change_positions(solution: MemberSolution, combinations: Sequence[
         if case is not None:
             start, end, q_start, q_end = case.line_items()
             pieces.append((start, end, q_start, q_end, np.full(start.size, column)))
-    start, end, q_start, q_end, column = (np.concatenate(parts) for parts in zip(*pieces)) if pieces else (np.empty(0),) * 5
-    if not combinations or not start.size:
+    if not combinations or not pieces:
         return np.empty(0)
-    weights = solution.combination_weights(combinations)[:, column.astype(int)]  # (C, J)
+    start, end, q_start, q_end, column = (np.concatenate(parts) for parts in zip(*pieces))
+    if not start.size:
+        return np.empty(0)
+    weights = solution.combination_weights(combinations)[:, column]  # (C, J)
     ends = _merge_positions(distinct(np.concatenate([[0.0, solution.member.length], start, end])), _tolerance(solution.member))
     lo, hi = ends[:-1], ends[1:]
     slope = (q_end - q_start) / np.where(end > start, end - start, 1.0)[:, None]

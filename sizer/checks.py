@@ -425,14 +425,14 @@ def span_deflections(design: Design, span_list: list[Span], combinations: Iterab
     them; for an overhang, relative to its support's displacement), with x and combination. One
     displacement evaluation for all spans."""
     names = list(combinations)
-    points = np.concatenate([span_points(span, n) for span in span_list])
-    moved = design.solution.weighted_displacements(design.solution.combination_weights(names), points)[..., 1:3]  # (c, spans x (n + 1), 2): uy, uz
+    points = [span_points(span, n) for span in span_list]
+    moved = design.solution.weighted_displacements(design.solution.combination_weights(names), np.concatenate(points))[..., 1:3]  # (c, spans x (n + 1), 2): uy, uz
     found = []
-    for span, part in zip(span_list, np.split(moved, len(span_list), axis=1)):
+    for span, xs, part in zip(span_list, points, np.split(moved, len(span_list), axis=1)):
         relative = relative_to_supports(part, span)
         size = np.hypot(relative[..., 0], relative[..., 1])
         c, k = np.unravel_index(int(np.argmax(size)), size.shape)
-        found.append((float(size[c, k]), float(np.linspace(span.start, span.end, n)[k]), names[c]))
+        found.append((float(size[c, k]), float(xs[k]), names[c]))
     return found
 
 

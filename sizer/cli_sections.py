@@ -71,12 +71,12 @@ def list_sections(
     def work() -> int:
         from sizer.render.common import cautions_panel, dumps
         from sizer.render.sections import list_json, list_table, with_build_progress
-        from sizer.sections import build_catalogue
+        from sizer.sections import section_table
 
         system = _system(units_system)
         loaded = _catalogue(catalogue)
         specs = loaded.select(family or [])
-        with_build_progress("Section properties", lambda progress: build_catalogue(specs, progress=progress))
+        with_build_progress("Section properties", lambda progress: section_table(specs, progress=progress))
         rows = _with_mass(loaded, specs)
         if json_output:
             typer.echo(dumps(list_json([(spec, props, name) for spec, props, name, _ in rows])))

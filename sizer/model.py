@@ -124,6 +124,11 @@ class Member:
     combinations_given: bool = False  # False: the default "all" combination was made
 
     @property
+    def has_springs(self) -> bool:
+        """True when a support has a spring: the forces then depend on the member's stiffness."""
+        return any(support.springs for support in self.supports)
+
+    @property
     def cases(self) -> tuple[str, ...]:
         """Load case names in order of first appearance (loads first, then the self-weight case)."""
         names: list[str] = []

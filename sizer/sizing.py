@@ -54,6 +54,7 @@ class CandidateTable:
     sigma_peak: np.ndarray  # (S, 3) |sigma| per unit N, My, Mz (section axes)
     tau_peak: np.ndarray  # (S, 3) |tau| per unit Vy, Vz, T
     buckling_stress: np.ndarray  # smaller flexural buckling stress of the two principal axes
+    compression_allowable: np.ndarray  # Fa for the interaction: the compression allowable, reduced to sigma_cr / safety factor where lower
 
 
 @dataclass
@@ -145,7 +146,7 @@ def candidate_sections(catalogue: Any, member: Member, material: Material, famil
     """Catalogue sections after the filters, sorted by mass per length, and their table (from the
     cached properties; any not cached are computed first, reporting to `progress`). Depth and width
     are as installed (a minor orientation swaps them)."""
-    from sizer.sections.properties import SCALAR_NAMES, section_table
+    from sizer.sections.properties import SCALAR_NAMES, SIGMA_PEAK_NAMES, TAU_PEAK_NAMES, section_table
 
     specs = catalogue.select(families)
     if not specs:
@@ -165,15 +166,11 @@ def candidate_sections(catalogue: Any, member: Member, material: Material, famil
     order = sorted(np.flatnonzero(keep).tolist(), key=lambda i: (mass[i], specs[i].name))
     rows = {name: values[order] for name, values in column.items()}
     candidates = [Candidate(specs[i].name, specs[i], float(mass[i]), material.density, k) for k, i in enumerate(order)]
-    peaks = ("sigma_peak_N", "sigma_peak_My", "sigma_peak_Mz"), ("tau_peak_Vy", "tau_peak_Vz", "tau_peak_T")
+    buckling = weakest_buckling_stresses(member, rows["area"], rows["I11"], rows["I22"], material)
     return candidates, CandidateTable(
         rows["area"], rows["J"], rows["Iz"], rows["Iy"], rows["I11"], rows["I22"], mass[order],
-        np.column_stack([rows[name] for name in peaks[0]]), np.column_stack([rows[name] for name in peaks[1]]),
-        weakest_buckling_stresses(member, rows["area"], rows["I11"], rows["I22"], material))
-
-
-def has_springs(member: Member) -> bool:
-    return any(support.springs for support in member.supports)
+        np.column_stack([rows[name] for name in SIGMA_PEAK_NAMES]), np.column_stack([rows[name] for name in TAU_PEAK_NAMES]),
+        buckling, np.minimum(material.allowable.compression or np.inf, buckling / member.checks.buckling_safety_factor))
 
 
 def design_for(member: Member, material: Material, candidate: Candidate, base: MemberSolution | None = None) -> Design:
@@ -237,7 +234,6 @@ def stress_screen(table: CandidateTable, loads: np.ndarray, per_mass: np.ndarray
     n_max, n_min = np.empty(count), np.empty(count)
     estimate = {name: np.zeros(count) for name in wanted}
     worst = {name: np.zeros(count, int) for name in wanted}
-    fa_allow = np.minimum(allow.compression or np.inf, table.buckling_stress / member.checks.buckling_safety_factor)
     step = max(1, SCREEN_BLOCK // max(rows, 1))
     for start in range(0, count, step):
         block = slice(start, min(start + step, count))
@@ -250,7 +246,7 @@ def stress_screen(table: CandidateTable, loads: np.ndarray, per_mass: np.ndarray
         fa = _scaled(1.0 / table.area[block], mass, pairs[0])
         fb = _peak_sum(table.sigma_peak[block], [1, 2], [4, 5], mass, pairs, present)
         fv = _peak_sum(table.tau_peak[block], [0, 1, 2], [1, 2, 3], mass, pairs, present)
-        for name, (values, scale) in _stress_estimates(fa, fb, fv, allow, fa_allow[block], wanted):
+        for name, (values, scale) in _stress_estimates(fa, fb, fv, allow, table.compression_allowable[block], wanted):
             at = values.argmax(axis=1)
             estimate[name][block], worst[name][block] = scale(values[np.arange(len(at)), at]), at
     tension, compression = np.maximum(n_max, 0.0) / table.area, np.maximum(-n_min, 0.0) / table.area
@@ -322,7 +318,7 @@ def deflection_screen(table: CandidateTable, member: Member, material: Material,
     return np.hypot((a[at, 0] + m * b[at, 0]) / stiffness.EIz, (a[at, 1] + m * b[at, 1]) / stiffness.EIy)
 
 
-def prove_lower_bounds(candidate: Candidate, member: Member, material: Material) -> None:
+def prove_lower_bounds(candidate: Candidate, material: Material) -> None:
     """The full stress field at the screen's worst station of each stress check estimated to fail:
     true lower bounds of the full check (it uses these stations too)."""
     from sizer.sections import unit_stress_field
@@ -334,13 +330,13 @@ def prove_lower_bounds(candidate: Candidate, member: Member, material: Material)
     rows = sorted({int(screen_result.worst[name][candidate.index]) for name in wanted})
     actions = (screen_result.loads[rows] + candidate.mass_per_length * screen_result.per_mass[rows])[None]
     stress = full_field_stresses(actions, unit_stress_field(candidate.spec), float(screen_result.table.area[candidate.index]))
-    buckling_allowable = float(screen_result.table.buckling_stress[candidate.index]) / member.checks.buckling_safety_factor
+    compression = float(screen_result.table.compression_allowable[candidate.index])
     for name in wanted:
         k = rows.index(int(screen_result.worst[name][candidate.index]))
-        candidate.proven[name] = _stress_utilization(name, stress, k, material.allowable, buckling_allowable)
+        candidate.proven[name] = _stress_utilization(name, stress, k, material.allowable, compression)
 
 
-def _stress_utilization(name: str, stress: StationStresses, k: int, allow: Any, buckling_allowable: float) -> float:
+def _stress_utilization(name: str, stress: StationStresses, k: int, allow: Any, compression_allowable: float) -> float:
     """Utilization of one stress check at station k of `stress` (same formulas as checks.py)."""
     if name == "bending":
         return float(stress.bending[0, k] / allow.bending)
@@ -349,7 +345,7 @@ def _stress_utilization(name: str, stress: StationStresses, k: int, allow: Any, 
     if name == "equivalent":
         return float(stress.equivalent[0, k] / allow.equivalent)
     fa = float(stress.axial[0, k])  # interaction: this station's fa and fb together
-    fa_allow = (allow.tension or np.inf) if fa >= 0 else min(allow.compression or np.inf, buckling_allowable)
+    fa_allow = (allow.tension or np.inf) if fa >= 0 else compression_allowable
     return float(abs(fa) / fa_allow + stress.bending[0, k] / allow.bending)
 
 
@@ -365,7 +361,7 @@ def size_member(member: Member, catalogue: Any, material: Material, families: Se
     notes = [f"{len(candidates)} candidate sections after filters, each with its own self-weight, in material "
              f"{material.name} (the member's)."]
     base = None
-    if has_springs(member):
+    if member.has_springs:
         for candidate in candidates:
             full_check(member, material, candidate, None)
         notes.append("Spring supports: forces depend on stiffness, so every candidate was solved and checked in full.")
@@ -394,7 +390,7 @@ def passes_in_full(candidate: Candidate, member: Member, material: Material, bas
     if candidate.screen is not None and candidate.report is None:
         if candidate.certainly_fails:
             return False
-        prove_lower_bounds(candidate, member, material)
+        prove_lower_bounds(candidate, material)
         if candidate.certainly_fails:
             return False
     return full_check(member, material, candidate, base).passes

@@ -56,6 +56,8 @@ SCALAR_NAMES: tuple[str, ...] = (
     "sigma_peak_N", "sigma_peak_My", "sigma_peak_Mz", "tau_peak_Vy", "tau_peak_Vz", "tau_peak_T",
     "mesh_elements", "mesh_nodes", "max_element_area",
 )
+SIGMA_PEAK_NAMES = ("sigma_peak_N", "sigma_peak_My", "sigma_peak_Mz")  # per unit N, My, Mz
+TAU_PEAK_NAMES = ("tau_peak_Vy", "tau_peak_Vz", "tau_peak_T")  # per unit Vy, Vz, T
 FIELD_MEMORY = 64  # unit stress fields kept in memory (least recently used dropped)
 # fewer missing sections than this are computed in this process: a worker's start-up and its
 # sectionproperties import (about 1 s) outweigh the gain
@@ -155,8 +157,8 @@ class SectionProperties:
 # unit stress fields last used.
 _ENTRIES: dict[str, list[float] | np.ndarray] = {}
 _FIELDS: OrderedDict[str, UnitStressField] = OrderedDict()
-_SIGMA_PEAK_COLUMNS = tuple(SCALAR_NAMES.index(name) for name in ("sigma_peak_N", "sigma_peak_My", "sigma_peak_Mz"))
-_TAU_PEAK_COLUMNS = tuple(SCALAR_NAMES.index(name) for name in ("tau_peak_Vy", "tau_peak_Vz", "tau_peak_T"))
+_SIGMA_PEAK_COLUMNS = tuple(SCALAR_NAMES.index(name) for name in SIGMA_PEAK_NAMES)
+_TAU_PEAK_COLUMNS = tuple(SCALAR_NAMES.index(name) for name in TAU_PEAK_NAMES)
 
 
 def section_properties(spec: SectionSpec, density: float | None = None) -> SectionProperties:
