@@ -1,0 +1,93 @@
+"""Support reactions by statics, bay by bay between neighbouring acting supports, from the
+well-conditioned end forces of each bay's longest element (no K u - F cancellation). Forces in N,
+moments in N*m, each along or about +x, +y, +z on the member.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from sizer.analysis.cuts import section_actions
+from sizer.analysis.element_loads import PROBLEM_ORDER
+from sizer.analysis.layout import Layout
+from sizer.analysis.loads import Lines, Points
+from sizer.analysis.problems import MOMENT_SIGN, POINT_COMPONENT, Problem, beam_element_matrices, element_freedoms
+
+
+def _element_start_actions(problem: Problem, layout: Layout, u: np.ndarray, fixed: np.ndarray, elements: np.ndarray) -> np.ndarray:
+    """(len(elements), 2) internal (force, moment) actions of the problem just right of each element's
+    start node, from the force the node exerts on the element: k u + fixed-end force (N, N*m; the
+    global sign of the action, My for the x-z problem)."""
+    le = layout.lengths[elements]
+    forces = fixed[elements, PROBLEM_ORDER.index(problem.name)]
+    out = np.zeros((len(elements), 2))
+    if problem.bending:
+        dofs = element_freedoms(problem.translation, problem.rot_left, problem.rot_right)[elements]
+        ke = beam_element_matrices(le, problem.rigidity)
+        end_forces = np.einsum("eij,ej->ei", ke[:, :2, :], u[dofs]) + forces[:, :2]
+        out[:, 0] = -end_forces[:, 0]
+        out[:, 1] = -MOMENT_SIGN[problem.name] * end_forces[:, 1]
+    else:
+        nodes = problem.translation
+        out[:, 0] = -(problem.rigidity / le * (u[nodes[elements]] - u[nodes[elements + 1]]) + forces[:, 0])
+    return out
+
+
+def _active_supports(problem: Problem, layout: Layout) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Supports acting in this problem, by position: indices, and whether each holds (rigidly or by
+    a spring) the translation and the rotation."""
+    nodes = layout.support_nodes
+    holds = problem.held | (problem.springs > 0)
+    translation = holds[problem.translation[nodes]]
+    rotation = holds[problem.rot_left[nodes]] if problem.bending else np.zeros(len(nodes), bool)
+    active = np.flatnonzero(translation | rotation)
+    active = active[np.argsort(layout.nodes[nodes[active]], kind="stable")]
+    return active, translation[active], rotation[active]
+
+
+def _problem_reactions(problem: Problem, layout: Layout, u: np.ndarray, loads: tuple[Points, Lines], fixed: np.ndarray,
+                       positions: np.ndarray) -> np.ndarray:
+    """(n_supports, 2) reactions (force, moment) of each support in this problem.
+
+    Computed by statics, bay by bay: between two neighbouring acting supports, the actions just
+    right of the start of the bay's longest element (from its end forces, well conditioned) give
+    the resultant of all reactions to its left; before the first support it is zero and after the
+    last it balances the loads. Each reaction is the difference of neighbouring resultants. (The
+    residual K u - F would lose digits on short elements.)"""
+    out = np.zeros((len(positions), 2))
+    active, holds_translation, holds_rotation = _active_supports(problem, layout)
+    if not len(active):
+        return out
+    force_col, moment_col = POINT_COMPONENT[problem.name]
+    nodes = layout.support_nodes[active]
+    starts, stops = nodes[:-1], nodes[1:]
+    lengths = layout.lengths
+    longest = np.array([start + int(np.argmax(lengths[start:stop])) for start, stop in zip(starts, stops)], dtype=int)
+    xs = np.concatenate([layout.nodes[longest], [layout.length]])
+    elastic = np.vstack([_element_start_actions(problem, layout, u, fixed, longest), np.zeros((1, 2))])
+    from_loads = section_actions([loads], np.ones((1, 1)), xs, np.ones(xs.size, bool), layout.tol)[0]
+    columns = [force_col] + ([moment_col] if moment_col is not None else [])
+    of_reactions = elastic[:, : len(columns)] - from_loads[:, columns]
+    force = np.concatenate([[0.0], -of_reactions[:, 0]])  # resultant force of the reactions left of each bay
+    reaction_force = np.diff(force)
+    out[active, 0] = np.where(holds_translation, reaction_force, 0.0)
+    if moment_col is not None:
+        # moment about the origin of the reactions left of each bay: -M(x) + x F (Mz) or -M(x) - x F (My)
+        lever = 1.0 if moment_col == 5 else -1.0
+        moment = np.concatenate([[0.0], -of_reactions[:, 1] + lever * xs * force[1:]])
+        reaction_moment = np.diff(moment) - lever * positions[active] * reaction_force
+        out[active, 1] = np.where(holds_rotation, reaction_moment, 0.0)
+    return out
+
+
+def case_reactions(problems: dict[str, Problem], layout: Layout, displacement: dict[str, np.ndarray], column: int,
+               loads: tuple[Points, Lines], fixed: np.ndarray, positions: np.ndarray) -> np.ndarray:
+    """(n_supports, 6) reactions Fx, Fy, Fz, Mx, My, Mz of each support for one load column."""
+    reactions = np.zeros((len(positions), 6))
+    for name, problem in problems.items():
+        values = _problem_reactions(problem, layout, displacement[name][:, column], loads, fixed, positions)
+        force_col, moment_col = POINT_COMPONENT[name]
+        reactions[:, force_col] = values[:, 0]
+        if moment_col is not None:
+            reactions[:, moment_col] = values[:, 1]
+    return reactions + 0.0
