@@ -104,7 +104,7 @@ def report(
     """A self-contained HTML calculation record for a reviewer. Exit 0 passes, 1 fails, 2 bad input."""
 
     def work() -> int:
-        from sizer.report_command import run_report
+        from sizer.commands import run_report
 
         return run_report(file, out, section, catalogue or [], units_system.value)
 

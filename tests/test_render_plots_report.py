@@ -1,4 +1,4 @@
-"""Diagrams (sizer.render.plots) and the calculation record (sizer.render.report, sizer.report_command).
+"""Diagrams (sizer.render.plots) and the calculation record (sizer.render.report, sizer.commands.run_report).
 
 Outside references: the simply supported beam with a central point load P and a uniform load w has
 reactions P/2 + wL/2 and a midspan moment PL/4 + wL²/8; a cantilever with a tip force F and a tip
@@ -31,7 +31,7 @@ from sizer.render.check import check_json
 from sizer.render.common import CAUTIONS, member_notes, to_jsonable
 from sizer.render.plots import DPI, FIG_WIDTH, build_figure, check_plot_path, plot_member
 from sizer.render.report import report_html, section_outline, segment_balance, write_report
-from sizer.report_command import run_report
+from sizer.commands import run_report
 from sizer.sections import unit_stress_field
 from steel import STEEL_TOML
 

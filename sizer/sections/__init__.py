@@ -1,8 +1,9 @@
 """Catalogue sections: reading and checking catalogue files, their shapes, their properties and unit
 stress fields from sectionproperties, and the disk cache that makes repeated look-ups instant.
 
-Modules: shapes (keys and fit rules), catalogue (files -> SectionSpec, Catalogue), catalogue_cache
-(parsed catalogue files remembered on disk), geometry (outlines and the mesh rule), properties
+Modules, each importing only those before it: spec (SectionSpec, the data), shapes (keys and fit
+rules), catalogue_cache (parsed catalogue files remembered on disk), catalogue (files -> SectionSpec,
+Catalogue), geometry (outlines and the mesh rule), properties
 (SectionProperties, UnitStressField, member axes, section_table: the scalars of many sections as one
 array; see its docstring for the axis mapping), cache (disk entries and tables), editing (adding
 sections to files, CSV import).

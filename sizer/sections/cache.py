@@ -30,8 +30,8 @@ from typing import Sequence
 import numpy as np
 
 from sizer.files import cache_root, write_atomic
-from sizer.sections.catalogue import SectionSpec
 from sizer.sections.geometry import mesh_settings
+from sizer.sections.spec import SectionSpec
 
 SCHEMA_VERSION = 5
 ARRAY_NAMES = ("points", "sigma", "tau")

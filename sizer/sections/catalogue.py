@@ -13,64 +13,25 @@ An unchanged file is not parsed again: its sections and materials are remembered
 from __future__ import annotations
 
 import difflib
-import hashlib
-import json
 import math
 import re
 import sys
-from dataclasses import dataclass, field
-from functools import cached_property
+from dataclasses import dataclass
 from pathlib import Path
-from typing import TYPE_CHECKING, Any, Sequence
+from typing import Any, Sequence
 
 from sizer import units
 from sizer.errors import InputError
 from sizer.model import Material
+from sizer.sections import catalogue_cache
+from sizer.sections.catalogue_cache import ParsedFile
 from sizer.sections.shapes import RADIUS_KEYS, SHAPES, allowed_keys, fit_problems
-
-if TYPE_CHECKING:
-    from sizer.sections.catalogue_cache import ParsedFile
+from sizer.sections.spec import Point, SectionSpec
 
 SHIPPED_PACKAGE = "sizer.section_library"
 TOP_KEYS = ("title", "materials", "sections")
 DEFAULT_MATERIAL = "mild-steel"
 FOREIGN_TABLES = frozenset({"member", "project", "build-system", "tool"})  # member files, pyproject.toml
-
-Point = tuple[float, float]
-
-
-@dataclass(frozen=True)
-class SectionSpec:
-    """One catalogue section as the user wrote it, in SI (m).
-
-    dims: every dimension key of the shape (absent radii are 0.0). Polygons carry `points` (the
-    outline) and `holes` instead, each point (across, up) as drawn: up is the depth direction
-    (member y); across points to member -z (see sizer.sections for the axes).
-    """
-
-    name: str
-    shape: str
-    dims: dict[str, float] = field(default_factory=dict)
-    points: tuple[Point, ...] = ()
-    holes: tuple[tuple[Point, ...], ...] = ()
-    family: str | None = None
-    material: str | None = None
-    source: str = ""
-    line: int | None = None
-
-    def geometry_key(self) -> str:
-        """A stable hash of the shape and its dimensions (not the name, family or material)."""
-        return self._geometry_key
-
-    @cached_property
-    def _geometry_key(self) -> str:
-        text = json.dumps({"shape": self.shape, "dims": sorted(self.dims.items()),
-                           "points": self.points, "holes": self.holes}, separators=(",", ":"))
-        return hashlib.sha256(text.encode()).hexdigest()[:24]
-
-    def __hash__(self) -> int:
-        return hash((self.name, self.geometry_key()))
-
 
 @dataclass
 class Catalogue:
@@ -204,8 +165,6 @@ def load_catalogue(paths: Sequence[Path]) -> Catalogue:
 def _catalogue_file(path: Path, from_folder: bool) -> ParsedFile:
     """The sections and materials of one file: remembered when its text (and path, and the code)
     are unchanged, else parsed now and remembered. `foreign` only for a file `from_folder`."""
-    from sizer.sections import catalogue_cache
-
     text = _read_text(path)
     digest = catalogue_cache.content_digest(path, text)
     remembered = catalogue_cache.read_parsed(path, digest)
@@ -218,8 +177,6 @@ def _catalogue_file(path: Path, from_folder: bool) -> ParsedFile:
 
 def _parse_file(path: Path, text: str, from_folder: bool) -> ParsedFile:
     """Parse one file; a folder's file with a table of FOREIGN_TABLES is marked foreign, unread."""
-    from sizer.sections.catalogue_cache import ParsedFile
-
     data = _parse_toml(text, path)
     if from_folder and FOREIGN_TABLES & data.keys():
         return ParsedFile(True, [], {})
@@ -274,7 +231,8 @@ def parse_catalogue_text(text: str, path: Path, data: dict | None = None) -> Cat
 def parse_material(name: str, table: dict, file: str, key_prefix: str, text: str = "") -> Material:
     """A [materials.NAME] table (SPEC section 3 form) to a Material; `text` (the file's text, when
     known) gives line numbers. The one reader shared with member files (sizer.inputfile)."""
-    from sizer.inputfile import Reader, parse_material as read_material
+    from sizer.inputfile import Reader
+    from sizer.inputfile import parse_material as read_material
 
     return read_material(name, table, Reader(Path(file), text), key_prefix)
 

@@ -29,11 +29,11 @@ from pathlib import Path
 
 from sizer.files import cache_root, write_atomic
 from sizer.model import Allowables, Material
-from sizer.sections.catalogue import SectionSpec
+from sizer.sections.spec import SectionSpec
 
 # the modules whose code shapes a catalogue file's parse result, relative to the sizer package
 FINGERPRINT_SOURCES = (
-    "sections/catalogue.py", "sections/catalogue_cache.py", "sections/shapes.py", "model.py", "units.py", "inputfile.py",
+    "sections/catalogue.py", "sections/catalogue_cache.py", "sections/shapes.py", "sections/spec.py", "model.py", "units.py", "inputfile.py",
 )
 
 

@@ -23,8 +23,8 @@ from __future__ import annotations
 from typing import Any
 
 from sizer.errors import InputError
-from sizer.sections.catalogue import SectionSpec
 from sizer.sections.shapes import thinnest_wall
+from sizer.sections.spec import SectionSpec
 
 N_RADIUS = 8
 N_CIRCLE = 96

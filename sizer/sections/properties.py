@@ -46,8 +46,8 @@ import numpy as np
 
 from sizer.errors import InputError
 from sizer.sections import cache
-from sizer.sections.catalogue import SectionSpec
 from sizer.sections.geometry import MM, max_element_area, meshed_section
+from sizer.sections.spec import SectionSpec
 
 SCALAR_NAMES: tuple[str, ...] = (
     "area", "centroid_y", "centroid_z", "Iz", "Iy", "Iyz", "I11", "I22", "principal_angle",
