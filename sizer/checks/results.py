@@ -1,0 +1,64 @@
+"""What a check gives: one CheckResult per check (utilization = demand / allowable, 1.0 at the
+limit; demand and allowable in Pa, m or N as `quantity` says) and the CheckReport of a section
+with its governing check and verdict.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+CHECK_NAMES = ("axial", "bending", "interaction", "shear", "equivalent", "deflection", "buckling")
+CHUNK_VALUES = 4_000_000  # station x node values evaluated at once (memory bound, ~32 MB per array)
+ZERO_ACTION = 1e-9  # N or N*m: below this an action is treated as absent (round-off)
+
+
+@dataclass(frozen=True)
+class CheckResult:
+    """One check. utilization None: not made (reason says why). demand/allowable in Pa for stresses,
+    m for deflection, N for buckling (see `quantity`)."""
+
+    check: str
+    utilization: float | None
+    demand: float | None = None
+    allowable: float | None = None
+    at: float | None = None
+    combination: str | None = None
+    quantity: str = "stress"  # "stress", "deflection", "force", "ratio"
+    detail: str = ""  # what the numbers are, e.g. "compression", "about the minor axis", "span 2"
+
+    @property
+    def made(self) -> bool:
+        return self.utilization is not None
+
+    @property
+    def passes(self) -> bool:
+        return self.utilization is None or self.utilization <= 1.0
+
+
+@dataclass
+class CheckReport:
+    """Every check of one section, the governing one and the verdict."""
+
+    section: str
+    checks: list[CheckResult]
+    notes: list[str] = field(default_factory=list)
+    stations_checked: int = 0
+    nodes: int = 0
+
+    @property
+    def made(self) -> list[CheckResult]:
+        return [c for c in self.checks if c.made]
+
+    @property
+    def governing(self) -> CheckResult | None:
+        made = self.made
+        return max(made, key=lambda c: c.utilization) if made else None
+
+    @property
+    def utilization(self) -> float:
+        governing = self.governing
+        return governing.utilization if governing else 0.0
+
+    @property
+    def passes(self) -> bool:
+        return all(c.passes for c in self.checks)

@@ -1,0 +1,39 @@
+"""Where the checks look and what acts there: the check stations along the member (m) and the six
+internal actions N, Vy, Vz, T (N, N*m), My, Mz (N*m) of every combination at them, in member or
+section axes.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from sizer.analysis import distinct, load_sign_change_positions, stations, zero_shear_positions
+from sizer.design import Design
+
+
+def check_stations(design: Design, n_even: int = 200) -> tuple[np.ndarray, np.ndarray]:
+    """Stations x (m) and sides: supports, loads, hinges (both sides), even spacing, the zero-shear
+    points of every combination (local extremes of the bending moments) and the points where a line
+    load changes sign (local extremes of the shear forces, axial force and torque)."""
+    xs, sides = stations(design.member, n_even)
+    names = design.solution.combination_names
+    extra = distinct(np.concatenate([zero_shear_positions(design.solution, names), load_sign_change_positions(design.solution, names)]))
+    xs = np.concatenate([xs, extra])
+    sides = np.concatenate([sides, np.full(extra.shape, "right")])
+    order = np.argsort(xs, kind="stable")
+    return xs[order], sides[order]
+
+
+def member_actions(design: Design, xs: np.ndarray, sides: np.ndarray) -> np.ndarray:
+    """(n_combinations, n_stations, 6) actions N, Vy, Vz, T, My, Mz at each station, each on its side."""
+    return design.solution.all_actions(xs, sides)
+
+
+def to_section_axes(actions: np.ndarray, orientation: str) -> np.ndarray:
+    """Actions in the section's own axes (identity for "major"; quarter turn for "minor")."""
+    if orientation != "minor":
+        return actions
+    turned = actions.copy()
+    turned[..., 1], turned[..., 2] = actions[..., 2], -actions[..., 1]
+    turned[..., 4], turned[..., 5] = actions[..., 5], -actions[..., 4]
+    return turned

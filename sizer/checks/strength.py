@@ -1,0 +1,125 @@
+"""The stress checks (SPEC section 7): axial, bending, interaction, shear, equivalent, and axial
+compression against the buckling load. Each reads the full-field peaks and the user's allowables
+(Pa); a missing allowable is bad input only when the check has a demand.
+"""
+
+from __future__ import annotations
+
+import math
+from typing import Any
+
+import numpy as np
+
+from sizer.checks.buckling import BucklingAxis
+from sizer.checks.field import FieldPeaks
+from sizer.checks.results import ZERO_ACTION, CheckResult
+from sizer.design import Design
+from sizer.errors import InputError
+from sizer.model import Member
+
+
+def _place(found: tuple[float, tuple[int, int]], xs: np.ndarray, names: tuple[str, ...]) -> tuple[float, float, str]:
+    """(value, x, combination) from FieldPeaks.largest's answer."""
+    value, (c, n) = found
+    return value, float(xs[n]), names[c]
+
+
+def _locate(values: np.ndarray, xs: np.ndarray, names: tuple[str, ...]) -> tuple[float, float, str]:
+    """(largest value, x, combination) of a (n_combinations, n_stations) array."""
+    c, s = np.unravel_index(int(np.argmax(values)), values.shape)
+    return float(values[c, s]), float(xs[s]), names[c]
+
+
+def _needs_allowable(member: Member, material: Any, which: str, check: str) -> float:
+    value = getattr(material.allowable, which)
+    if value is None:
+        raise InputError(material.source or member.source, f"materials.{material.name}.allowable.{which}",
+                         f"the {check} check needs the '{which}' allowable stress, which is not given",
+                         f'add {which} = "... MPa" from your governing code under [materials.{material.name}.allowable]')
+    return value
+
+
+def axial_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], design: Design) -> CheckResult:
+    """N / A against the tension or compression allowable, whichever governs."""
+    member, material = design.member, design.material
+    results = []
+    for sense, which in ((1.0, "tension"), (-1.0, "compression")):
+        demand = np.maximum(sense * stress.axial, 0.0)
+        if demand.max() * design.props.area <= ZERO_ACTION:
+            continue
+        allowable = _needs_allowable(member, material, which, "axial")
+        value, at, combination = _locate(demand, xs, names)
+        results.append(CheckResult("axial", value / allowable, value, allowable, at, combination, detail=which))
+    if not results:
+        return CheckResult("axial", None, detail="no axial force")
+    return max(results, key=lambda r: r.utilization)
+
+
+def bending_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], design: Design) -> CheckResult:
+    """Peak bending stress from My and Mz together (full field) against the bending allowable."""
+    if stress.bending_upper.max() <= 0.0:
+        return CheckResult("bending", None, detail="no bending moment")
+    allowable = _needs_allowable(design.member, design.material, "bending", "bending")
+    value, at, combination = _place(stress.largest(stress.bending_upper, lambda rows, exact: exact[:, 0]), xs, names)
+    return CheckResult("bending", value / allowable, value, allowable, at, combination, detail="My and Mz together")
+
+
+def compression_allowable(design: Design, axes: list[BucklingAxis]) -> float:
+    """Fa for the interaction: the compression allowable, reduced to sigma_cr / safety factor where lower."""
+    allowable = _needs_allowable(design.member, design.material, "compression", "interaction")
+    buckling = min(axis.critical_stress for axis in axes) / design.member.checks.buckling_safety_factor
+    return min(allowable, buckling)
+
+
+def interaction_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], design: Design,
+                      axes: list[BucklingAxis]) -> CheckResult:
+    """fa/Fa + fb/Fb at every station (linear interaction); Fa in compression reduced for buckling."""
+    has_axial = np.abs(stress.axial).max() * design.props.area > ZERO_ACTION
+    if not has_axial or stress.bending_upper.max() <= 0.0:
+        return CheckResult("interaction", None, detail="needs axial force and bending together")
+    bending_allowable = _needs_allowable(design.member, design.material, "bending", "interaction")
+    tension = design.material.allowable.tension
+    compression = compression_allowable(design, axes) if (stress.axial < 0).any() else math.inf
+    if tension is None and (stress.axial > 0).any():
+        tension = _needs_allowable(design.member, design.material, "tension", "interaction")
+    fa_ratio = np.where(stress.axial >= 0, stress.axial / (tension or math.inf), -stress.axial / compression).reshape(-1)
+    found = stress.largest(fa_ratio + stress.bending_upper / bending_allowable,
+                           lambda rows, exact: fa_ratio[rows] + exact[:, 0] / bending_allowable)
+    value, at, combination = _place(found, xs, names)
+    c, s = found[1]
+    fb = float(stress.exact(np.array([c * stress.shape[1] + s]))[0, 0])
+    detail = f"fa = {stress.axial[c, s] / 1e6:.3g} MPa, fb = {fb / 1e6:.3g} MPa, Fa = {(compression if stress.axial[c, s] < 0 else tension) / 1e6:.4g} MPa"
+    return CheckResult("interaction", value, value, 1.0, at, combination, quantity="ratio", detail=detail)
+
+
+def shear_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], design: Design) -> CheckResult:
+    """Peak shear stress from Vy, Vz and T together (full field) against the shear allowable."""
+    if stress.shear_upper.max() <= 0.0:
+        return CheckResult("shear", None, detail="no shear force or torque")
+    allowable = _needs_allowable(design.member, design.material, "shear", "shear")
+    value, at, combination = _place(stress.largest(stress.shear_upper, lambda rows, exact: exact[:, 1]), xs, names)
+    return CheckResult("shear", value / allowable, value, allowable, at, combination, detail="Vy, Vz and T together")
+
+
+def equivalent_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], design: Design) -> CheckResult:
+    """Peak von Mises stress against the `equivalent` allowable, where given (optional check)."""
+    allowable = design.material.allowable.equivalent
+    if allowable is None:
+        return CheckResult("equivalent", None, detail="no 'equivalent' allowable given for the material")
+    value, at, combination = _place(stress.largest(stress.equivalent_upper, lambda rows, exact: exact[:, 2]), xs, names)
+    return CheckResult("equivalent", value / allowable, value, allowable, at, combination, detail="von Mises")
+
+
+def buckling_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], design: Design,
+                   axes: list[BucklingAxis]) -> CheckResult:
+    """Largest axial compression against the flexural buckling load / safety factor, each principal axis."""
+    compression = np.maximum(-stress.axial * design.props.area, 0.0)
+    if compression.max() <= ZERO_ACTION:
+        return CheckResult("buckling", None, detail="no axial compression")
+    value, at, combination = _locate(compression, xs, names)
+    factor = design.member.checks.buckling_safety_factor
+    weakest = min(axes, key=lambda axis: axis.critical_stress)
+    allowable = weakest.critical_stress * design.props.area / factor
+    detail = (f"{weakest.formula} about the {weakest.axis} axis, KL/r = {weakest.slenderness:.0f}, "
+              f"P_cr = {weakest.critical_stress * design.props.area / 1e3:.4g} kN, safety factor {factor:g}")
+    return CheckResult("buckling", value / allowable, value, allowable, at, combination, quantity="force", detail=detail)
