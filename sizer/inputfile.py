@@ -18,7 +18,10 @@ from sizer.model import (
     DEFAULT_CASE,
     DEFAULT_COMBINATION,
     FREEDOMS,
+    HEIGHT_FACES,
+    RESTRAINT_HOLDS,
     SUPPORT_TYPES,
+    WARPING_CHOICES,
     Allowables,
     CheckSettings,
     Hinge,
@@ -27,17 +30,19 @@ from sizer.model import (
     Material,
     Member,
     PointLoad,
+    Restraint,
     Support,
 )
 
 GRAVITY_DIRECTIONS = {"-x": (0, -1), "+x": (0, 1), "-y": (1, -1), "+y": (1, 1), "-z": (2, -1), "+z": (2, 1)}
-TOP_KEYS = {"title", "member", "supports", "hinges", "loads", "combinations", "checks", "materials"}
+TOP_KEYS = {"title", "member", "supports", "hinges", "restraints", "loads", "combinations", "checks", "materials"}
 MEMBER_KEYS = {"length", "material", "section", "orientation", "self_weight", "gravity"}
-SUPPORT_KEYS = {"at", "type", "restrain", "springs"}
+SUPPORT_KEYS = {"at", "type", "restrain", "springs", "warping"}
+RESTRAINT_KEYS = {"at", "from", "to", "hold", "height"}
 LOAD_KEYS = {
-    "point": {"type", "case", "at", "fx", "fy", "fz"},
+    "point": {"type", "case", "at", "fx", "fy", "fz", "height"},
     "moment": {"type", "case", "at", "mx", "my", "mz"},
-    "line": {"type", "case", "from", "to", "wx", "wy", "wz", "mx", "wx_end", "wy_end", "wz_end", "mx_end"},
+    "line": {"type", "case", "from", "to", "wx", "wy", "wz", "mx", "wx_end", "wy_end", "wz_end", "mx_end", "height"},
 }
 LINE_COMPONENTS = (("wx", "force_per_length"), ("wy", "force_per_length"), ("wz", "force_per_length"), ("mx", "moment_per_length"))
 CHECK_KEYS = {
@@ -177,6 +182,7 @@ def parse_member_text(text: str, path: Path) -> Member:
         raise reader.error("member.length", "the length must be greater than zero", 'give e.g. length = "6 m"')
     supports = tuple(_read_supports(reader, data.get("supports", []), length))
     hinges = tuple(_read_hinges(reader, data.get("hinges", []), length))
+    restraints = tuple(_read_restraints(reader, data.get("restraints", []), length))
     loads = tuple(_read_loads(reader, data.get("loads", []), length))
     self_weight_case = _read_self_weight(reader, member_table)
     combinations, given = _read_combinations(reader, data.get("combinations"), loads, self_weight_case)
@@ -195,6 +201,7 @@ def parse_member_text(text: str, path: Path) -> Member:
         self_weight_case=self_weight_case,
         gravity=GRAVITY_DIRECTIONS[_read_choice(reader, member_table, "gravity", tuple(GRAVITY_DIRECTIONS), "-y")],
         hinges=hinges,
+        restraints=restraints,
         checks=_read_checks(reader, data.get("checks", {}), length, combinations),
         materials=materials,
         title=_optional_string(reader, data, "title", "") or "",
@@ -241,7 +248,9 @@ def _read_supports(reader: Reader, value: Any, length: float) -> list[Support]:
             if abs(other.at - at) <= 1e-9 * length:
                 raise reader.error(f"{prefix}.at", f"two supports at {units.fmt(at, 'length')}",
                                    "merge them into one support with the freedoms of both")
-        supports.append(Support(at=at, restrain=frozenset(restrain), springs=springs, label=label if not springs else f"{label} + springs"))
+        warping = _read_warping(reader, table, prefix)
+        supports.append(Support(at=at, restrain=frozenset(restrain), springs=springs, label=label if not springs else f"{label} + springs",
+                                warping=warping))
     return supports
 
 
@@ -293,6 +302,62 @@ def _read_hinges(reader: Reader, value: Any, length: float) -> list[Hinge]:
     return hinges
 
 
+def _read_warping(reader: Reader, table: dict, prefix: str) -> str | None:
+    """A support's `warping` ("free" or "held"), None when not given."""
+    value = table.get("warping")
+    if value is not None and value not in WARPING_CHOICES:
+        raise reader.error(f"{prefix}.warping", f"{value!r} is not a warping condition", 'use warping = "free" or "held"')
+    return value
+
+
+def read_height(reader: Reader, table: dict, prefix: str, default: str | None) -> str | float | None:
+    """`height`: "top", "centre", "bottom", or a length from the shear centre along the depth (m,
+    positive towards the top); `default` when absent."""
+    if "height" not in table:
+        return default
+    value = table["height"]
+    if isinstance(value, str) and value.strip() in HEIGHT_FACES:
+        return value.strip()
+    fix = 'use "top", "centre", "bottom" or a distance from the shear centre such as "+80 mm" or "-40 mm"'
+    if not isinstance(value, str):
+        raise reader.error(f"{prefix}.height", f"{value!r} is not a height", fix)
+    try:
+        return reader.quantity(table, "height", "length", prefix)
+    except InputError as error:
+        error.fix = fix
+        raise
+
+
+def _read_restraints(reader: Reader, value: Any, length: float) -> list[Restraint]:
+    """[[restraints]]: at a point (`at`) or continuous (`from`, `to`), holding lateral and/or twist."""
+    restraints = []
+    for index, table in enumerate(_array_of_tables(reader, value, "restraints"), start=1):
+        prefix = f"restraints[{index}]"
+        reader.known_keys(table, RESTRAINT_KEYS, prefix)
+        if "at" in table and ("from" in table or "to" in table):
+            raise reader.error(f"{prefix}.at", "give either at (a point restraint) or from and to (a continuous one), not both", "remove one")
+        if "at" in table:
+            start = end = reader.position(table, "at", prefix, length)
+        elif "from" in table or "to" in table:
+            start = reader.position(table, "from", prefix, length, default=0.0)
+            end = reader.position(table, "to", prefix, length, default=length)
+            if end <= start:
+                raise reader.error(f"{prefix}.to", "'to' must be beyond 'from'", "give from < to along the member, or use at for a point")
+        else:
+            raise reader.error(prefix, "the restraint has no position", 'give at = "3 m", or from = "0 m" and to = "6 m" for a deck')
+        holds = table.get("hold")
+        if (not isinstance(holds, list) or not holds or not all(isinstance(item, str) for item in holds)
+                or not set(holds) <= set(RESTRAINT_HOLDS)):
+            raise reader.error(f"{prefix}.hold", f"expected a list of {' and/or '.join(RESTRAINT_HOLDS)}, got {holds!r}",
+                               'write e.g. hold = ["lateral", "twist"]')
+        if "height" in table and "lateral" not in holds:
+            raise reader.error(f"{prefix}.height", "a height is where a lateral hold acts, and this restraint holds only twist",
+                               'remove height, or add "lateral" to hold')
+        height = read_height(reader, table, prefix, "centre")
+        restraints.append(Restraint(start, end, "lateral" in holds, "twist" in holds, height))
+    return restraints
+
+
 def _case_name(reader: Reader, table: dict, prefix: str) -> str:
     case = table.get("case", DEFAULT_CASE)
     if not isinstance(case, str) or not case.strip():
@@ -326,7 +391,7 @@ def _read_point_load(reader: Reader, table: dict, prefix: str, case: str, kind: 
     if not any(name in table for name in names):
         raise reader.error(prefix, f"the {kind} load has no components", f"give at least one of {', '.join(names)}")
     if kind == "point":
-        return PointLoad(case=case, at=at, force=values)
+        return PointLoad(case=case, at=at, force=values, height=read_height(reader, table, prefix, None))
     return PointLoad(case=case, at=at, moment=values)
 
 
@@ -343,7 +408,7 @@ def _read_line_load(reader: Reader, table: dict, prefix: str, case: str, length:
         if f"{name}_end" in table and name not in table:
             raise reader.error(f"{prefix}.{name}_end", f"'{name}_end' given without '{name}'", f"give {name} (the value at 'from') too")
         q_end.append(reader.quantity(table, f"{name}_end", kind, prefix, first))
-    return LineLoad(case=case, start=start, end=end, q_start=q_start, q_end=tuple(q_end))
+    return LineLoad(case=case, start=start, end=end, q_start=q_start, q_end=tuple(q_end), height=read_height(reader, table, prefix, None))
 
 
 def _read_self_weight(reader: Reader, member_table: dict) -> str | None:

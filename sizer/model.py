@@ -16,6 +16,9 @@ SUPPORT_TYPES: dict[str, frozenset[str]] = {
     "pin": frozenset({"ux", "uy", "uz", "rx"}),
     "roller": frozenset({"uy", "uz", "rx"}),
 }
+HEIGHT_FACES: tuple[str, ...] = ("top", "centre", "bottom")
+WARPING_CHOICES: tuple[str, ...] = ("free", "held")
+RESTRAINT_HOLDS: tuple[str, ...] = ("lateral", "twist")
 DEFAULT_CASE = "load"
 DEFAULT_COMBINATION = "all"
 
@@ -54,6 +57,7 @@ class Support:
     restrain: frozenset[str]
     springs: dict[str, float] = field(default_factory=dict)
     label: str = ""  # e.g. "pin", "roller", "fixed", "custom"
+    warping: str | None = None  # for stability: "free" or "held"; None: held by fixed supports, free otherwise
 
 
 @dataclass(frozen=True)
@@ -73,6 +77,7 @@ class PointLoad:
     at: float
     force: tuple[float, float, float] = (0.0, 0.0, 0.0)
     moment: tuple[float, float, float] = (0.0, 0.0, 0.0)
+    height: str | float | None = None  # where a transverse force acts on the section (see Restraint); None: default
 
 
 @dataclass(frozen=True)
@@ -85,9 +90,30 @@ class LineLoad:
     end: float
     q_start: tuple[float, float, float, float]
     q_end: tuple[float, float, float, float]
+    height: str | float | None = None  # where the transverse load acts on the section (see Restraint); None: default
 
 
 Load = PointLoad | LineLoad
+
+
+@dataclass(frozen=True)
+class Restraint:
+    """Bracing that holds the member against buckling, at a point (start == end, m) or continuously
+    from start to end (a deck, sheeting). `lateral`: holds the sideways movement (across the
+    section's depth, along its weak-axis direction) of the point at `height`; `twist`: holds the
+    rotation about the member axis. `height`: "top", "centre" (the shear centre), "bottom", or metres
+    from the shear centre along the section's depth (positive towards the top). The same form gives
+    the height of a transverse load on the section."""
+
+    start: float
+    end: float
+    lateral: bool
+    twist: bool
+    height: str | float = "centre"
+
+    @property
+    def continuous(self) -> bool:
+        return self.end > self.start
 
 
 @dataclass(frozen=True)
@@ -117,6 +143,7 @@ class Member:
     self_weight_case: str | None = "dead"  # None: no self-weight
     gravity: tuple[int, int] = (1, -1)  # (axis index 0=x 1=y 2=z, sign)
     hinges: tuple[Hinge, ...] = ()
+    restraints: tuple[Restraint, ...] = ()
     checks: CheckSettings = field(default_factory=CheckSettings)
     materials: dict[str, Material] = field(default_factory=dict)
     title: str = ""

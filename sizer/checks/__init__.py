@@ -14,12 +14,13 @@ Orientation "minor" turns the section a quarter turn on the member: section axes
 Units: stresses in Pa, forces in N, lengths in m. Utilization = demand / allowable (1.0 = at limit).
 """
 
+from sizer.analysis.section_axes import to_section_axes
 from sizer.checks.buckling import BucklingAxis, buckling_axes, weakest_buckling_stresses
 from sizer.checks.deflection import Span, deflection_check, relative_to_supports, span_deflections, span_points, spans
 from sizer.checks.design_check import check_design, check_notes
 from sizer.checks.field import FieldPeaks, StationStresses, full_field_stresses
 from sizer.checks.results import CHECK_NAMES, ZERO_ACTION, CheckReport, CheckResult
-from sizer.checks.stations import check_stations, member_actions, to_section_axes
+from sizer.checks.stations import check_stations, member_actions
 from sizer.checks.strength import compression_allowable
 
 __all__ = [

@@ -7,11 +7,12 @@ from typing import Any
 
 import numpy as np
 
+from sizer.analysis.section_axes import to_section_axes
 from sizer.checks.buckling import BucklingAxis, buckling_axes
 from sizer.checks.deflection import deflection_check
 from sizer.checks.field import FieldPeaks
 from sizer.checks.results import CheckReport
-from sizer.checks.stations import check_stations, member_actions, to_section_axes
+from sizer.checks.stations import check_stations, member_actions
 from sizer.checks.strength import axial_check, bending_check, buckling_check, equivalent_check, interaction_check, shear_check
 from sizer.design import Design
 

@@ -27,13 +27,3 @@ def check_stations(design: Design, n_even: int = 200) -> tuple[np.ndarray, np.nd
 def member_actions(design: Design, xs: np.ndarray, sides: np.ndarray) -> np.ndarray:
     """(n_combinations, n_stations, 6) actions N, Vy, Vz, T, My, Mz at each station, each on its side."""
     return design.solution.all_actions(xs, sides)
-
-
-def to_section_axes(actions: np.ndarray, orientation: str) -> np.ndarray:
-    """Actions in the section's own axes (identity for "major"; quarter turn for "minor")."""
-    if orientation != "minor":
-        return actions
-    turned = actions.copy()
-    turned[..., 1], turned[..., 2] = actions[..., 2], -actions[..., 1]
-    turned[..., 4], turned[..., 5] = actions[..., 5], -actions[..., 4]
-    return turned
