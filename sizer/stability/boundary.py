@@ -1,0 +1,144 @@
+"""How supports, springs and restraints hold the stability fields, in the section's own axes.
+
+Supports: for stability every pin and roller is a fork (sideways movement and twist held, warping
+and sideways rotation free, as its freedoms say); a support holding rx, ry and rz (fixed) also holds
+warping; `warping = "free" | "held"` on a support overrides that. A warping hold acts only where
+the section's warping length sqrt(EIw / GJ) reaches the next element (see warping_rows). A freedom held in the member's
+analysis is held here too; springs add their stiffness. Orientation "major": v = uy, v' = rz,
+w = uz, w' = -ry; "minor" (the section turned a quarter turn): v = uz, v' = -ry, w = -uy, w' = -rz.
+A support at a hinge holds the hinge pin only (no rotation), as in the analysis.
+
+Restraints: a lateral hold at height h (m above the shear centre) holds the sideways movement of
+that fibre, w + h phi = 0; a twist hold, phi = 0. A continuous restraint also holds the slopes
+(w' + h phi' = 0, phi' = 0) at every node of its zone, which holds it exactly along the whole zone
+(both fields are cubic Hermite with the same shape functions).
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+import numpy as np
+
+from sizer.model import Member
+from sizer.stability.mesh import Mesh
+
+V, W, PHI = 0, 1, 2
+_FREEDOMS = {"major": {V: ("uy", "rz"), W: ("uz", "ry")}, "minor": {V: ("uz", "ry"), W: ("uy", "rz")}}
+Row = dict[int, float]
+
+
+def warping_held(support: Any) -> bool:
+    """True when the support holds warping: as given, else when it holds rx, ry and rz (built in)."""
+    if support.warping is not None:
+        return support.warping == "held"
+    return {"rx", "ry", "rz"} <= set(support.restrain)
+
+
+def height_value(height: str | float, section: Any) -> float:
+    """A restraint's or load's height above the shear centre (m): a face or a number."""
+    return float(section.face_height(height)) if isinstance(height, str) else float(height)
+
+
+def _hinge_nodes(member: Member, mesh: Mesh) -> set[int]:
+    return {mesh.node_at(h.at) for h in member.hinges}
+
+
+def support_rows(member: Member, mesh: Mesh, orientation: str) -> list[Row]:
+    """Constraint rows (freedom -> coefficient, each row = 0) of the supports."""
+    rows: list[Row] = []
+    released = _hinge_nodes(member, mesh)
+    for support in member.supports:
+        node = mesh.node_at(support.at)
+        held = set(support.restrain)
+        for field, (translation, rotation) in _FREEDOMS[orientation].items():
+            if translation in held:
+                rows.append({int(mesh.value[node, field]): 1.0})
+            if rotation in held and node not in released:
+                rows += _slope_rows(mesh, node, field)
+        if "rx" in held:
+            rows.append({int(mesh.value[node, PHI]): 1.0})
+    return rows
+
+
+def warping_rows(member: Member, mesh: Mesh, section: Any) -> list[Row]:
+    """Constraint rows of the supports that hold warping (phi' = 0). A hold is left out where the
+    section's warping length sqrt(EIw / GJ) is shorter than the elements next to the support: there
+    warping restraint acts only in a boundary layer the elements cannot follow, and holding phi'
+    there would stiffen them falsely (leaving it free is on the safe side)."""
+    rows: list[Row] = []
+    warping_length = float(np.sqrt(max(float(section.EIw), 0.0) / float(section.GJ)))
+    lengths = mesh.lengths
+    for support in member.supports:
+        if not warping_held(support):
+            continue
+        node = mesh.node_at(support.at)
+        next_to = lengths[max(node - 1, 0):node + 1].max()
+        if warping_length >= next_to:
+            rows += _slope_rows(mesh, node, PHI)
+    return rows
+
+
+def _slope_rows(mesh: Mesh, node: int, field: int) -> list[Row]:
+    left, right = int(mesh.slope_left[node, field]), int(mesh.slope_right[node, field])
+    return [{left: 1.0}] + ([{right: 1.0}] if right != left else [])
+
+
+def restraint_rows(member: Member, mesh: Mesh, section: Any) -> list[Row]:
+    """Constraint rows of the restraints (heights from `section`)."""
+    rows: list[Row] = []
+    for restraint in member.restraints:
+        h = height_value(restraint.height, section)
+        inside = np.flatnonzero((mesh.nodes >= restraint.start - mesh.tol) & (mesh.nodes <= restraint.end + mesh.tol))
+        for node in inside:
+            sides = []
+            if restraint.continuous:  # the slopes on the sides of the node that lie inside the zone
+                sides = ([] if node == inside[0] else [mesh.slope_left]) + ([] if node == inside[-1] else [mesh.slope_right])
+            if restraint.lateral:
+                rows.append(_combined(int(mesh.value[node, W]), int(mesh.value[node, PHI]), h))
+                rows += [_combined(int(side[node, W]), int(side[node, PHI]), h) for side in sides]
+            if restraint.twist:
+                rows.append({int(mesh.value[node, PHI]): 1.0})
+                rows += [{int(side[node, PHI]): 1.0} for side in sides]
+    return rows
+
+
+def _combined(w: int, phi: int, h: float) -> Row:
+    """w + h phi = 0 (the sideways movement of the fibre at height h)."""
+    return {w: 1.0, phi: h} if h else {w: 1.0}
+
+
+def spring_diagonal(member: Member, mesh: Mesh, orientation: str) -> np.ndarray:
+    """(size,) stiffness of the supports' springs on the freedoms they act on (N/m, N*m/rad)."""
+    out = np.zeros(mesh.size)
+    released = _hinge_nodes(member, mesh)
+    for support in member.supports:
+        node = mesh.node_at(support.at)
+        for field, (translation, rotation) in _FREEDOMS[orientation].items():
+            out[mesh.value[node, field]] += support.springs.get(translation, 0.0)
+            if node not in released:
+                out[mesh.slope_left[node, field]] += support.springs.get(rotation, 0.0)
+        out[mesh.value[node, PHI]] += support.springs.get("rx", 0.0)
+    return out
+
+
+def admissible_basis(size: int, rows: list[Row]) -> np.ndarray:
+    """(size, k) orthonormal basis of the freedoms that satisfy every row (its null space), built
+    only over the freedoms the rows touch."""
+    touched = sorted({dof for row in rows for dof in row})
+    free = np.setdiff1d(np.arange(size), touched)
+    basis = np.zeros((size, 0))
+    if touched:
+        matrix = np.zeros((len(rows), len(touched)))
+        column = {dof: k for k, dof in enumerate(touched)}
+        for r, row in enumerate(rows):
+            for dof, coefficient in row.items():
+                matrix[r, column[dof]] += coefficient
+        _, singular, vh = np.linalg.svd(matrix)
+        rank = int(np.sum(singular > 1e-12 * max(1.0, singular.max(initial=0.0))))
+        null = vh[rank:].T
+        basis = np.zeros((size, null.shape[1]))
+        basis[touched] = null
+    identity = np.zeros((size, len(free)))
+    identity[free, np.arange(len(free))] = 1.0
+    return np.hstack([identity, basis])

@@ -1,0 +1,87 @@
+"""Where transverse loads act on the section, for the stability solver: each load along the depth
+(the section's y) at height a above the shear centre adds 1/2 q a phi^2 to the second-order work
+(1/2 P a phi^2 at a point): a downward load above the shear centre lowers the buckling load, below
+it raises it.
+
+Heights: a load's `height` ("top", "centre" = the shear centre, "bottom", or metres above the
+shear centre), else the face it pushes on (top for a downward load, bottom for an upward one: the
+unfavourable side). Self-weight acts at the centroid. The matrices come keyed by the section scalar
+that weights them: "top" (y_top - y0), "bottom" (-y_bottom - y0), "centroid" (-y0), and "fixed"
+(numbers given in the member file, already included).
+"""
+
+from __future__ import annotations
+
+from typing import Sequence
+
+import numpy as np
+
+from sizer.model import LineLoad, Member, PointLoad
+from sizer.stability.elements import Quadrature, integral, point_value_matrix
+
+PHI = 2
+HEIGHT_KEYS: tuple[str, ...] = ("top", "bottom", "centroid", "fixed")
+
+
+def depth_axis(orientation: str) -> int:
+    """The member axis (1 y, 2 z) along the section's depth: y for "major", z for "minor"."""
+    return 1 if orientation == "major" else 2
+
+
+def height_terms(quad: Quadrature, member: Member, orientation: str, weights: np.ndarray, cases: Sequence[str]) -> dict[str, np.ndarray]:
+    """The load-height matrices of one load set: `weights` (n_cases + 1,) factors on `cases` and, last,
+    on the unit self-weight (N/m along gravity), as MemberSolution.weights gives them."""
+    axis = depth_axis(orientation)
+    out = {key: np.zeros((quad.mesh.size, quad.mesh.size)) for key in HEIGHT_KEYS}
+    factor = dict(zip(cases, weights[:-1]))
+    for load in member.loads:
+        f = float(factor.get(load.case, 0.0))
+        if f == 0.0:
+            continue
+        if isinstance(load, PointLoad):
+            _add_point(out, quad, f * load.force[axis], load.at, load.height)
+        elif isinstance(load, LineLoad):
+            _add_line(out, quad, f, load, axis)
+    gravity_axis, sign = member.gravity
+    if gravity_axis == axis and weights[-1] != 0.0:
+        out["centroid"] += integral(quad, np.full_like(quad.x, sign * float(weights[-1])), (PHI, "value"), (PHI, "value"))
+    return out
+
+
+def _add(out: dict[str, np.ndarray], matrix: np.ndarray, height: str | float | None, default: str) -> None:
+    """Add a load's matrix (already times its intensity) under its height's key."""
+    if height is None:
+        out[default] += matrix
+    elif isinstance(height, str):
+        if height != "centre":
+            out[height] += matrix
+    else:
+        out["fixed"] += height * matrix
+
+
+def _add_point(out: dict[str, np.ndarray], quad: Quadrature, force: float, at: float, height: str | float | None) -> None:
+    if force == 0.0:
+        return
+    matrix = force * point_value_matrix(quad.mesh, PHI, quad.mesh.node_at(at))
+    _add(out, matrix, height, "top" if force < 0 else "bottom")
+
+
+def _add_line(out: dict[str, np.ndarray], quad: Quadrature, factor: float, load: LineLoad, axis: int) -> None:
+    q0, q1 = load.q_start[axis], load.q_end[axis]
+    if q0 == 0.0 and q1 == 0.0:
+        return
+    middle = (quad.mesh.nodes[:-1] + quad.mesh.nodes[1:]) / 2
+    inside = ((middle > load.start) & (middle < load.end))[:, None]
+    q = factor * (q0 + (q1 - q0) * (quad.x - load.start) / (load.end - load.start)) * inside
+    if load.height is not None:
+        _add(out, integral(quad, q, (PHI, "value"), (PHI, "value")), load.height, "top")
+        return
+    # the mesh has a node where q changes sign, so each part is a polynomial on its elements
+    _add(out, integral(quad, np.minimum(q, 0.0), (PHI, "value"), (PHI, "value")), None, "top")
+    _add(out, integral(quad, np.maximum(q, 0.0), (PHI, "value"), (PHI, "value")), None, "bottom")
+
+
+def height_coefficients(section: object) -> dict[str, object]:
+    """The section scalars that weight the height matrices (m)."""
+    return {"top": section.face_height("top"), "bottom": section.face_height("bottom"),
+            "centroid": section.face_height("centroid"), "fixed": 1.0}

@@ -1,0 +1,111 @@
+"""The stability of one member: its mesh, the elastic matrices, the supports' constraints, and the
+geometric matrices of any load set, from the member solution's internal actions at the Gauss points
+(exact between nodes: the method of sections).
+
+Two solves per load set (a combination, with its self-weight):
+- axial: the axial force alone (flexural buckling about either axis, torsional and
+  flexural-torsional buckling, with the member's supports and restraints);
+- lateral: the bending moment about the section's major axis with the heights of the transverse
+  loads (lateral-torsional buckling); the axial force enters the checks through the interaction.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from sizer.analysis import MemberSolution
+from sizer.analysis.section_axes import to_section_axes
+from sizer.model import Member
+from sizer.stability.boundary import admissible_basis, restraint_rows, spring_diagonal, support_rows, warping_rows
+from sizer.stability.elements import quadrature
+from sizer.stability.heights import height_coefficients, height_terms
+from sizer.stability.mesh import ELEMENTS_PER_LENGTH, FIELDS, build_mesh
+from sizer.stability.section import StabilitySection
+from sizer.stability.solve import Buckling, lowest_buckling
+from sizer.stability.terms import axial_coefficients, axial_terms, elastic_coefficients, elastic_terms, moment_coefficients, moment_terms, weighted_sum
+
+N, MY, MZ = 0, 4, 5
+
+
+class MemberStability:
+    """Everything about one member's stability that does not depend on the section."""
+
+    def __init__(self, member: Member, solution: MemberSolution, per_length: int = ELEMENTS_PER_LENGTH) -> None:
+        self.member = member
+        self.solution = solution
+        self.orientation = member.orientation
+        self.mesh = build_mesh(member, per_length)
+        self.quad = quadrature(self.mesh)
+        self.elastic = elastic_terms(self.quad)
+        self.springs = spring_diagonal(member, self.mesh, self.orientation)
+        self.supports = support_rows(member, self.mesh, self.orientation)
+        self.cases = list(solution.cases)
+
+    def actions(self, weights: np.ndarray) -> np.ndarray:
+        """(E, G, 6) internal actions in the section's axes at the Gauss points of the load set
+        `weights` (n_cases + 1,), as MemberSolution.weights gives a row."""
+        values = self.solution.weighted_actions(np.asarray(weights)[None, :], self.quad.points)[0]
+        return to_section_axes(values, self.orientation).reshape(self.quad.x.shape + (6,))
+
+    def stiffness(self, section: StabilitySection) -> np.ndarray:
+        """K (size, size): the elastic matrices weighted by the section's rigidities, plus springs."""
+        return weighted_sum(self.elastic, elastic_coefficients(section)) + np.diag(self.springs)
+
+    def basis(self, section: StabilitySection) -> np.ndarray:
+        """The admissible freedoms: supports and restraints (heights and warping holds depend on the section)."""
+        rows = self.supports + warping_rows(self.member, self.mesh, section) + restraint_rows(self.member, self.mesh, section)
+        return admissible_basis(self.mesh.size, rows)
+
+    def axial_geometry(self, section: StabilitySection, weights: np.ndarray) -> np.ndarray:
+        """B = -G of the axial force of a load set."""
+        terms = axial_terms(self.quad, self.actions(weights)[..., N])
+        return -weighted_sum(terms, axial_coefficients(section))
+
+    def lateral_geometry(self, section: StabilitySection, weights: np.ndarray) -> np.ndarray:
+        """B = -G of the major-axis bending moment of a load set and its loads' heights."""
+        actions = self.actions(weights)
+        terms = moment_terms(self.quad, actions[..., MZ], np.zeros_like(actions[..., MZ]))
+        heights = height_terms(self.quad, self.member, self.orientation, np.asarray(weights), self.cases)
+        return -(weighted_sum(terms, moment_coefficients(section)) + weighted_sum(heights, height_coefficients(section)))
+
+    def axial_buckling(self, section: StabilitySection, weights: np.ndarray) -> Buckling:
+        """The lowest load factor of a load set's axial force (flexural, torsional, flexural-torsional)."""
+        return lowest_buckling(self.stiffness(section), self.axial_geometry(section, weights), self.basis(section))
+
+    def lateral_buckling(self, section: StabilitySection, weights: np.ndarray) -> Buckling:
+        """The lowest load factor of a load set's major-axis bending (lateral-torsional)."""
+        return lowest_buckling(self.stiffness(section), self.lateral_geometry(section, weights), self.basis(section))
+
+    def energy_shares(self, section: StabilitySection, mode: np.ndarray) -> dict[str, float]:
+        """Share of a buckled shape's strain energy in each field: "v" (bending in the depth plane),
+        "w" (sideways bending) and "phi" (twisting and warping)."""
+        elastic = self.elastic
+        parts = {
+            "v": section.EIz * mode @ elastic["EIz"] @ mode,
+            "w": section.EIy * mode @ elastic["EIy"] @ mode,
+            "phi": section.GJ * mode @ elastic["GJ"] @ mode + section.EIw * mode @ elastic["EIw"] @ mode,
+        }
+        total = sum(parts.values()) or 1.0
+        return {name: float(value / total) for name, value in parts.items()}
+
+    def shape(self, mode: np.ndarray, xs: np.ndarray) -> dict[str, np.ndarray]:
+        """The buckled shape's fields v, w (m per unit mode) and phi (rad) at positions xs (m)."""
+        from sizer.stability.elements import hermite
+
+        nodes = self.mesh.nodes
+        e = np.clip(np.searchsorted(nodes, xs, side="right") - 1, 0, len(nodes) - 2)
+        le = nodes[e + 1] - nodes[e]
+        shapes = hermite((xs - nodes[e]) / le, le)[0]
+        return {name: np.einsum("ni,ni->n", shapes, mode[self.mesh.element_freedoms(k)[e]]) for k, name in enumerate(FIELDS)}
+
+
+def mode_name(shares: dict[str, float]) -> str:
+    """The name of an axial buckling mode from its energy shares."""
+    if shares["phi"] >= 0.9:
+        return "torsional"
+    if shares["v"] >= 0.9:
+        return "flexural major"
+    if shares["w"] >= 0.9:
+        return "flexural minor"
+    return "flexural-torsional"
+

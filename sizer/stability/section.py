@@ -1,0 +1,79 @@
+"""What the stability solver needs of a section, in the section's own axes (y along the depth,
+towards the top; z across), SI units. Fields may be floats (one section) or arrays (many sections
+at once, for the sizing screen): every derived value below is elementwise.
+
+Rigidities: EIz (major: bending in the depth plane), EIy (minor), EIyz (product), N*m^2; GJ
+(N*m^2), EIw (N*m^4). Geometry: area (m^2); Iz, Iy, Iyz (m^4) about the centroid; shear-centre
+offsets y0, z0 (m) from the centroid; Py = integral of y (y^2 + z^2) dA and Pz = integral of
+z (y^2 + z^2) dA (m^5, from sectionproperties' monosymmetry integrals); y_top and y_bottom (m), the
+distances from the centroid to the top and bottom fibres.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Any
+
+import numpy as np
+
+
+@dataclass(frozen=True)
+class StabilitySection:
+    """A section's stiffness and geometry for the stability solver (see the module docstring)."""
+
+    EIz: Any
+    EIy: Any
+    EIyz: Any
+    GJ: Any
+    EIw: Any
+    area: Any
+    Iz: Any
+    Iy: Any
+    Iyz: Any
+    y0: Any
+    z0: Any
+    Py: Any
+    Pz: Any
+    y_top: Any
+    y_bottom: Any
+
+    @property
+    def polar_radius_squared(self) -> Any:
+        """r0^2 = (Iz + Iy) / A + y0^2 + z0^2 (m^2): polar radius of gyration about the shear centre."""
+        return (self.Iz + self.Iy) / self.area + self.y0**2 + self.z0**2
+
+    @property
+    def wagner_major(self) -> Any:
+        """d W / d Mz (m), where W = integral of sigma ((y - y0)^2 + (z - z0)^2) dA is the Wagner
+        coefficient of the twist rate squared: -beta_y for a section symmetric about y, with
+        beta_y = Py / Iz - 2 y0 the monosymmetry constant (negative when the larger flange is on top)."""
+        det = self.Iz * self.Iy - self.Iyz**2
+        return (-self.Iy * self.Py + self.Iyz * self.Pz) / det + 2 * self.y0
+
+    @property
+    def wagner_minor(self) -> Any:
+        """d W / d My (m): beta_z = Pz / Iy - 2 z0 for a section symmetric about z."""
+        det = self.Iz * self.Iy - self.Iyz**2
+        return (-self.Iyz * self.Py + self.Iz * self.Pz) / det - 2 * self.z0
+
+    def face_height(self, face: str) -> Any:
+        """Height (m) above the shear centre of a face: "top", "centre" (the shear centre itself),
+        "bottom" or "centroid"."""
+        return {"top": self.y_top - self.y0, "bottom": -self.y_bottom - self.y0, "centre": 0.0 * self.y0,
+                "centroid": -self.y0}[face]
+
+
+def stability_section(props: Any, elastic_modulus: float, shear_modulus: float) -> StabilitySection:
+    """The StabilitySection of one catalogue section (sizer.sections.SectionProperties, whose axes are
+    the section's own whatever its orientation on the member) in a material (E, G in Pa)."""
+    E, G = elastic_modulus, shear_modulus
+    y0, z0 = props.shear_centre
+    return StabilitySection(
+        EIz=E * props.Iz, EIy=E * props.Iy, EIyz=E * props.Iyz, GJ=G * props.J, EIw=E * props.Iw, area=props.area,
+        Iz=props.Iz, Iy=props.Iy, Iyz=props.Iyz, y0=y0, z0=z0, Py=props.Py, Pz=props.Pz, y_top=props.y_top, y_bottom=props.y_bottom)
+
+
+def minor_axis_is_weaker(section: StabilitySection, tolerance: float = 1e-3) -> Any:
+    """True where bending about the section's z axis is about its stronger axis by more than
+    `tolerance` (relative): only such a member can buckle sideways."""
+    return np.asarray(section.Iz) > np.asarray(section.Iy) * (1 + tolerance)
