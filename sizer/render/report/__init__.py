@@ -1,0 +1,33 @@
+"""`sizer report`: one self-contained HTML calculation record for a reviewer.
+
+Contents: the verdict and the cautions first; the inputs (member, supports, loads, cases and
+combinations, material and allowables, the section with its properties and outline); reactions;
+the diagrams; the method of sections at the governing cut (free body of the left segment, each
+load and reaction on it, the equilibrium equations with the numbers put in, and the actions they
+give beside the analysis's); every check; the verdict; the assumptions; the cautions again.
+
+Every check number shown is taken from render.check.check_json (the `sizer check --json`
+document), which is also embedded whole as <script type="application/json" id="sizer-data">,
+so the record and the JSON cannot disagree. Pictures are inline (base64 SVG), styles inline.
+
+Modules, each importing only those above it:
+  markup           style sheet, escaping, display-unit values, cells, tables, inline pictures
+  section_picture  the section's outline on the cut face and its picture
+  inputs           1. inputs: member, supports, loads, combinations, material, section, settings
+  segment          the governing cut and the left segment's items and equilibrium, in numbers
+  equilibrium      2. reactions and overall equilibrium; 4. the method of sections at the cut
+  checks           the verdict and 5. the checks
+  document         the whole record (header, contents, diagrams, assumptions) and writing it
+"""
+
+from sizer.render.report.document import check_report_path, report_html, write_report
+from sizer.render.report.section_picture import section_outline
+from sizer.render.report.segment import segment_balance
+
+__all__ = [
+    "check_report_path",
+    "report_html",
+    "section_outline",
+    "segment_balance",
+    "write_report",
+]
