@@ -1,3 +1,31 @@
-"""sizer: internal forces, stresses, allowable-stress checks and sizing of one straight member."""
+"""sizer: internal forces, stresses, allowable-stress checks and sizing of one straight member.
+
+The Python API (sizer.api) is reached from here and imported on first use, so that the command line
+starts at once:
+
+    import sizer
+    member = sizer.read_member("examples/platform_joist.toml")
+    result = sizer.check(member, section="IPE 220")
+    result.passes, result.utilization, result.governing
+"""
+
+from __future__ import annotations
+
+from typing import Any
 
 __version__ = "0.1.0"
+
+API_NAMES = (
+    "CandidateSummary", "CheckOutcome", "ForcesOutcome", "SizeOutcome",
+    "as_member", "check", "forces", "member_from_text", "read_member", "size",
+)
+__all__ = ["__version__", *API_NAMES]
+
+
+def __getattr__(name: str) -> Any:
+    """The API names, imported from sizer.api when first asked for."""
+    if name in API_NAMES:
+        from sizer import api
+
+        return getattr(api, name)
+    raise AttributeError(f"module 'sizer' has no attribute {name!r}")

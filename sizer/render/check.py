@@ -43,6 +43,7 @@ def check_entry(result: CheckResult) -> dict[str, Any]:
         "made": result.made,
         "quantity": result.quantity,
         "detail": result.detail,
+        **result.extra,
     }
 
 
@@ -127,9 +128,8 @@ def check_basis_caption(report: CheckReport) -> str:
 
 
 def reactions_table(design: Design, system: str) -> Any:
-    from rich.table import Table
-
     import numpy as np
+    from rich.table import Table
 
     combos = design.solution.combination_names
     all_reactions = np.stack([design.solution.reactions(name) for name in combos])
@@ -180,14 +180,16 @@ def design_summary(design: Design, system: str) -> str:
             f"Material: {material.name}, E = {units.fmt(material.elastic_modulus, 'modulus', system)}; allowables: {allowables or 'none'}")
 
 
-def print_check(console: Any, design: Design, report: CheckReport, notes: list[str], system: str) -> None:
-    """The terminal summary of `sizer check`."""
+def check_renderables(design: Design, report: CheckReport, notes: list[str], system: str) -> list[Any]:
+    """The terminal summary of `sizer check`, as rich renderables in order."""
     from rich.rule import Rule
 
-    console.print(Rule(f"[bold]sizer check[/] · {design.member.title or design.member.source}"))
-    console.print(design_summary(design, system))
-    console.print(verdict_panel(report, system))
-    console.print(checks_table(report, system))
-    console.print(reactions_table(design, system))
-    console.print(notes_panel(notes))
-    console.print(cautions_panel())
+    return [Rule(f"[bold]sizer check[/] · {design.member.title or design.member.source}"), design_summary(design, system),
+            verdict_panel(report, system), checks_table(report, system), reactions_table(design, system),
+            notes_panel(notes), cautions_panel()]
+
+
+def print_check(console: Any, design: Design, report: CheckReport, notes: list[str], system: str) -> None:
+    """The terminal summary of `sizer check`."""
+    for renderable in check_renderables(design, report, notes, system):
+        console.print(renderable)

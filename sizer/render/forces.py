@@ -191,30 +191,36 @@ def governing_moment(solution: MemberSolution) -> tuple[str, float, float]:
     return best
 
 
-def print_forces(console: Any, solution: MemberSolution, combinations: list[str], xs: np.ndarray | None,
-                 notes: list[str], system: str, section_line: str) -> None:
-    """The terminal summary of `sizer forces`."""
+def forces_renderables(solution: MemberSolution, combinations: list[str], xs: np.ndarray | None,
+                       notes: list[str], system: str, section_line: str) -> list[Any]:
+    """The terminal summary of `sizer forces`, as rich renderables in order."""
     from rich.rule import Rule
 
     member = solution.member
     planar = is_planar(member)
-    console.print(Rule(f"[bold]sizer forces[/] · {member.title or member.source}"))
-    console.print(f"Member length [bold]{units.fmt(member.length, 'length', system)}[/], "
-                  f"{len(member.supports)} support(s), {len(member.loads)} load(s), section: {section_line}")
+    out: list[Any] = [Rule(f"[bold]sizer forces[/] · {member.title or member.source}"),
+                      f"Member length [bold]{units.fmt(member.length, 'length', system)}[/], "
+                      f"{len(member.supports)} support(s), {len(member.loads)} load(s), section: {section_line}"]
     if planar:
-        console.print("[dim]Planar member (x-y): V = −Vy (positive turns its segment clockwise), M = Mz (positive sagging).[/]")
+        out.append("[dim]Planar member (x-y): V = −Vy (positive turns its segment clockwise), M = Mz (positive sagging).[/]")
     name, moment, at = governing_moment(solution)
-    console.print(f"Largest bending moment: [bold magenta]{units.fmt(moment, 'moment', system)}[/] "
-                  f"at x = {units.fmt(at, 'length', system)} in combination [bold]{name}[/]")
+    out.append(f"Largest bending moment: [bold magenta]{units.fmt(moment, 'moment', system)}[/] "
+               f"at x = {units.fmt(at, 'length', system)} in combination [bold]{name}[/]")
     for combination in combinations:
-        console.print(Rule(f"combination [bold]{combination}[/]", style="blue"))
-        console.print(reactions_table(solution, combination, system))
+        out.append(Rule(f"combination [bold]{combination}[/]", style="blue"))
+        out.append(reactions_table(solution, combination, system))
         if xs is not None and len(xs):
-            console.print(cuts_table(cuts_for(solution, combination, xs), planar, system))
-        console.print(extremes_table(solution, combination, planar, system))
+            out.append(cuts_table(cuts_for(solution, combination, xs), planar, system))
+        out.append(extremes_table(solution, combination, planar, system))
         deflection = deflection_summary(solution, combination)
         if deflection is not None:
-            console.print(f"Largest deflection: [bold]{units.fmt(deflection['max'], 'deflection', system)}[/] "
-                          f"at x = {units.fmt(deflection['at'], 'length', system)}")
-    console.print(notes_panel(notes))
-    console.print(cautions_panel())
+            out.append(f"Largest deflection: [bold]{units.fmt(deflection['max'], 'deflection', system)}[/] "
+                       f"at x = {units.fmt(deflection['at'], 'length', system)}")
+    return out + [notes_panel(notes), cautions_panel()]
+
+
+def print_forces(console: Any, solution: MemberSolution, combinations: list[str], xs: np.ndarray | None,
+                 notes: list[str], system: str, section_line: str) -> None:
+    """The terminal summary of `sizer forces`."""
+    for renderable in forces_renderables(solution, combinations, xs, notes, system, section_line):
+        console.print(renderable)

@@ -32,15 +32,20 @@ def candidate_entry(candidate: Candidate) -> dict[str, Any]:
     }
 
 
+def listed_candidates(result: SizingResult) -> list[Candidate]:
+    """Every section lighter than the choice (each with its governing check), the choice, and the
+    heavier sections confirmed to pass; every candidate when nothing passes."""
+    chosen = result.chosen
+    if chosen is None:
+        return list(result.candidates)
+    position = result.candidates.index(chosen)
+    return result.candidates[:position + 1] + [c for c in result.candidates[position + 1:] if c.report is not None and c.report.passes]
+
+
 def size_json(result: SizingResult, notes: list[str]) -> dict[str, Any]:
     """SPEC section 6 `size` document (SI base units). Candidates: every lighter section (each with its
     governing check), the choice, and the heavier sections confirmed to pass."""
     chosen = result.chosen
-    if chosen is not None:
-        position = result.candidates.index(chosen)
-        listed = result.candidates[:position + 1] + [c for c in result.candidates[position + 1:] if c.report is not None and c.report.passes]
-    else:
-        listed = result.candidates
     document: dict[str, Any] = {
         "section": chosen.name if chosen else None,
         "passes": chosen is not None,
@@ -48,7 +53,7 @@ def size_json(result: SizingResult, notes: list[str]) -> dict[str, Any]:
         "utilization": chosen.utilization if chosen else None,
         "governing": chosen.governing if chosen else None,
         "checks": [check_entry(c) for c in chosen.report.checks] if chosen else [],
-        "candidates": [candidate_entry(c) for c in listed],
+        "candidates": [candidate_entry(c) for c in listed_candidates(result)],
     }
     if chosen is None and result.strongest is not None:
         document["strongest"] = candidate_entry(result.strongest)
@@ -81,32 +86,36 @@ def runners_up_table(result: SizingResult, top: int, system: str) -> Any:
     return table
 
 
-def print_size(console: Any, result: SizingResult, notes: list[str], top: int, system: str) -> None:
-    """The terminal summary of `sizer size`."""
+def size_renderables(result: SizingResult, notes: list[str], top: int, system: str) -> list[Any]:
+    """The terminal summary of `sizer size`, as rich renderables in order."""
     from rich.panel import Panel
     from rich.rule import Rule
 
     member = result.member
-    console.print(Rule(f"[bold]sizer size[/] · {member.title or member.source}"))
-    console.print(f"Member length {units.fmt(member.length, 'length', system)}, material {result.material.name}, "
-                  f"{len(result.candidates)} candidates, {result.full_checks} checked on the full stress field")
+    out: list[Any] = [Rule(f"[bold]sizer size[/] · {member.title or member.source}"),
+                      f"Member length {units.fmt(member.length, 'length', system)}, material {result.material.name}, "
+                      f"{len(result.candidates)} candidates, {result.full_checks} checked on the full stress field"]
     chosen = result.chosen
     if chosen is not None:
         governing = chosen.report.governing
-        console.print(Panel(
+        out.append(Panel(
             f"[bold green]{chosen.name}[/]  {units.fmt(chosen.mass_per_length, 'mass_per_length', system)}  "
             f"utilization [{utilization_style(chosen.utilization)}]{chosen.utilization:.3f}[/] "
             f"({governing.check} at x = {units.fmt(governing.at, 'length', system)}, combination {governing.combination})",
             title="Lightest passing section", border_style="green"))
-        console.print(checks_table(chosen.report, system))
+        out.append(checks_table(chosen.report, system))
     else:
         strongest = result.strongest
         governing = strongest.report.governing
         over = (strongest.utilization - 1.0) * 100
-        console.print(Panel(
+        out.append(Panel(
             f"[bold red]No section passes.[/] Even {strongest.name} fails [bold]{governing.check}[/] with utilization "
             f"{strongest.utilization:.3f} ({over:.0f} % over) at x = {units.fmt(governing.at, 'length', system)}, "
             f"combination {governing.combination}.", title="Nothing passes", border_style="red"))
-    console.print(runners_up_table(result, top, system))
-    console.print(notes_panel(notes))
-    console.print(cautions_panel())
+    return out + [runners_up_table(result, top, system), notes_panel(notes), cautions_panel()]
+
+
+def print_size(console: Any, result: SizingResult, notes: list[str], top: int, system: str) -> None:
+    """The terminal summary of `sizer size`."""
+    for renderable in size_renderables(result, notes, top, system):
+        console.print(renderable)

@@ -18,16 +18,21 @@ Modules, each importing only those above it:
   equilibrium      2. reactions and overall equilibrium; 4. the method of sections at the cut
   checks           the verdict and 5. the checks
   document         the whole record (header, contents, diagrams, assumptions) and writing it
+  notebook         short HTML summaries of the API's results for notebooks, from the same pieces
 """
 
 from sizer.render.report.document import check_report_path, report_html, write_report
+from sizer.render.report.notebook import check_summary_html, forces_summary_html, size_summary_html
 from sizer.render.report.section_picture import section_outline
 from sizer.render.report.segment import segment_balance
 
 __all__ = [
     "check_report_path",
+    "check_summary_html",
+    "forces_summary_html",
     "report_html",
     "section_outline",
     "segment_balance",
+    "size_summary_html",
     "write_report",
 ]

@@ -1,0 +1,265 @@
+"""The Python face of sizer (`from sizer import ...`) for notebooks and scripts, and the one path the
+command line takes too: read or build a member, find its forces, check one section, size from a
+catalogue.
+
+Inputs: a Member (sizer.model), a member file's path, or member-file text through member_from_text;
+lengths as SI floats (m) or strings with their unit ("300 mm"). Results are plain dataclasses in SI
+(m, N, N*m, Pa, kg/m) that show themselves as rich text in a terminal (`rich.print(result)`) and as
+HTML in a notebook; `to_json()` gives the same document as the command's `--json`.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any, Callable, Iterator, Sequence
+
+from sizer.model import Member
+from sizer.render.common import CAUTIONS
+
+MemberLike = Member | str | Path
+Progress = Callable[[int, int, str], None]
+
+
+def read_member(path: str | Path) -> Member:
+    """A member file (TOML) read into a Member; InputError (one line: file, key, fix) for bad input."""
+    from sizer.inputfile import read_member_file
+
+    return read_member_file(path)
+
+
+def member_from_text(text: str, name: str = "member.toml") -> Member:
+    """Member-file text (the TOML of a member file) to a Member; `name` stands for the file in
+    messages and its folder is where a local section_library/ is looked for."""
+    from sizer.inputfile import parse_member_text
+
+    return parse_member_text(text, Path(name))
+
+
+def as_member(member: MemberLike) -> Member:
+    """A Member as given, or read from the path given."""
+    return member if isinstance(member, Member) else read_member(member)
+
+
+def _length_limit(value: float | str | None, key: str) -> float | None:
+    """A length limit in m: a float as is, a string with its unit parsed, None for no limit."""
+    if value is None or isinstance(value, (int, float)):
+        return value
+    from sizer import units
+
+    return units.parse(value, "length", "", key)
+
+
+# ----------------------------------------------------------------------------------------------
+# forces
+
+@dataclass
+class ForcesOutcome:
+    """Reactions, internal actions and deflections of every combination (SI)."""
+
+    member: Member
+    combinations: tuple[str, ...]
+    notes: list[str]
+    design: Any = field(repr=False)
+    cautions: tuple[str, ...] = CAUTIONS
+    units: str = "si"
+
+    @property
+    def section(self) -> str | None:
+        return self.design.spec.name if self.design.spec is not None else None
+
+    def actions(self, x: float | str, combination: str | None = None) -> dict[str, float]:
+        """N, Vy, Vz, T, My, Mz (and V = -Vy, M = Mz) at x (m or a length string), just right of x
+        (just left at the member's end B), in N and N*m."""
+        from sizer.model import ACTIONS
+
+        at = _length_limit(x, "x")
+        side = "left" if at >= self.member.length else "right"
+        values = self.design.solution.actions(combination or self.combinations[0], [at], side)[0]
+        found = {name: float(value) for name, value in zip(ACTIONS, values)}
+        return {**found, "V": -found["Vy"], "M": found["Mz"]}
+
+    def reactions(self, combination: str | None = None) -> list[dict[str, float]]:
+        """Each support's reactions on the member: at (m), Fx, Fy, Fz (N), Mx, My, Mz (N*m)."""
+        from sizer.render.forces import REACTION_NAMES
+
+        values = self.design.solution.reactions(combination or self.combinations[0])
+        return [{"at": support.at, **{name: float(v) for name, v in zip(REACTION_NAMES, row)}}
+                for support, row in zip(self.member.supports, values)]
+
+    def to_json(self, cuts: Sequence[float] | None = None) -> dict[str, Any]:
+        """The `sizer forces --json` document (cuts in m; default: ends, supports, loads)."""
+        import numpy as np
+
+        from sizer.render.forces import default_cuts, forces_json
+
+        xs = np.asarray(cuts, dtype=float) if cuts is not None else default_cuts(self.member)
+        return forces_json(self.design.solution, list(self.combinations), xs, self.notes)
+
+    def __rich_console__(self, console: Any, options: Any) -> Iterator[Any]:
+        from sizer.render.forces import forces_renderables
+
+        yield from forces_renderables(self.design.solution, list(self.combinations), None, self.notes, self.units,
+                                      self.section or "none (forces only)")
+
+    def _repr_html_(self) -> str:
+        from sizer.render.report import forces_summary_html
+
+        return forces_summary_html(self.design, list(self.combinations), self.notes, self.units)
+
+
+def forces(member: MemberLike, section: str | None = None, catalogue: Sequence[str | Path] = (),
+           combination: str | None = None, units: str = "si") -> ForcesOutcome:
+    """Solve the member: reactions, actions anywhere, deflections (with a section) for every
+    combination, or only `combination`."""
+    from sizer.design import prepare
+    from sizer.errors import InputError
+    from sizer.render.common import member_notes
+
+    member = as_member(member)
+    if combination is not None and combination not in member.combinations:
+        raise InputError("", "--combination", f"no combination is named {combination!r}", "use one of: " + ", ".join(member.combinations))
+    design = prepare(member, [Path(path) for path in catalogue], section)
+    names = (combination,) if combination else tuple(member.combinations)
+    return ForcesOutcome(member, names, member_notes(member) + design.notes, design, units=units)
+
+
+# ----------------------------------------------------------------------------------------------
+# check
+
+@dataclass
+class CheckOutcome:
+    """Every check of one section: the verdict, the governing check and each check's numbers (SI)."""
+
+    section: str
+    passes: bool
+    utilization: float
+    governing: str | None
+    checks: list[Any]  # sizer.checks.CheckResult
+    notes: list[str]
+    design: Any = field(repr=False)
+    report: Any = field(repr=False)
+    cautions: tuple[str, ...] = CAUTIONS
+    units: str = "si"
+
+    def to_json(self) -> dict[str, Any]:
+        """The `sizer check --json` document."""
+        from sizer.render.check import check_json
+
+        return check_json(self.design, self.report, self.notes)
+
+    def __rich_console__(self, console: Any, options: Any) -> Iterator[Any]:
+        from sizer.render.check import check_renderables
+
+        yield from check_renderables(self.design, self.report, self.notes, self.units)
+
+    def _repr_html_(self) -> str:
+        from sizer.render.report import check_summary_html
+
+        return check_summary_html(self.design, self.report, self.notes, self.units)
+
+
+def check_outcome(design: Any, report: Any, notes: list[str], units: str = "si") -> CheckOutcome:
+    """A CheckOutcome of a checked design (sizer.design.Design and sizer.checks.CheckReport)."""
+    governing = report.governing
+    return CheckOutcome(report.section, report.passes, report.utilization, governing.check if governing else None,
+                        list(report.checks), notes, design, report, units=units)
+
+
+def check(member: MemberLike, section: str | None = None, catalogue: Sequence[str | Path] = (), units: str = "si") -> CheckOutcome:
+    """Every check of one section (the member's own, or `section` from the catalogue), on its full
+    cross-section stress field."""
+    from sizer.checks import check_design
+    from sizer.design import prepare
+    from sizer.render.common import member_notes
+    from sizer.sections import unit_stress_field
+
+    member = as_member(member)
+    design = prepare(member, [Path(path) for path in catalogue], section, need_section=True)
+    report = check_design(design, unit_stress_field(design.spec))
+    return check_outcome(design, report, member_notes(member) + design.notes + report.notes, units)
+
+
+# ----------------------------------------------------------------------------------------------
+# size
+
+@dataclass(frozen=True)
+class CandidateSummary:
+    """One catalogue section in a sizing: mass per length (kg/m), utilization (a proven lower bound
+    where `basis` is "screen"), verdict and governing check."""
+
+    section: str
+    mass_per_length: float
+    utilization: float
+    passes: bool
+    governing: str
+    basis: str  # "full stress field" or "screen"
+
+
+@dataclass
+class SizeOutcome:
+    """The lightest passing section, its full check, and the candidates around it."""
+
+    section: str | None
+    passes: bool
+    mass_per_length: float | None
+    utilization: float | None
+    governing: str | None
+    candidates: list[CandidateSummary]
+    chosen: CheckOutcome | None
+    notes: list[str]
+    result: Any = field(repr=False)  # sizer.sizing.SizingResult
+    top: int = 3
+    cautions: tuple[str, ...] = CAUTIONS
+    units: str = "si"
+
+    def to_json(self) -> dict[str, Any]:
+        """The `sizer size --json` document."""
+        from sizer.render.size import size_json
+
+        return size_json(self.result, self.notes)
+
+    def __rich_console__(self, console: Any, options: Any) -> Iterator[Any]:
+        from sizer.render.size import size_renderables
+
+        yield from size_renderables(self.result, self.notes, self.top, self.units)
+
+    def _repr_html_(self) -> str:
+        from sizer.render.report import size_summary_html
+
+        return size_summary_html(self.result, self.notes, self.top, self.units)
+
+
+def size(member: MemberLike, catalogue: Sequence[str | Path] = (), families: Sequence[str] = (),
+         max_depth: float | str | None = None, max_width: float | str | None = None, top: int = 3, units: str = "si",
+         progress: Progress | None = None) -> SizeOutcome:
+    """The lightest catalogue section that passes every check, the lighter ones that fail (why) and
+    the next heavier ones that pass (`top` each side). `progress(done, total, name)` hears of
+    section properties computed first."""
+    from sizer.design import catalogue_for, resolve_material
+    from sizer.errors import InputError
+    from sizer.render.common import member_notes
+    from sizer.render.size import candidate_entry, listed_candidates
+    from sizer.sizing import size_member
+
+    member = as_member(member)
+    depth, width = _length_limit(max_depth, "--max-depth"), _length_limit(max_width, "--max-width")
+    if top < 0:
+        raise InputError("", "--top", "must be zero or more", "give e.g. --top 3")
+    catalogue_data = catalogue_for(member, [Path(path) for path in catalogue])
+    material = resolve_material(member, catalogue_data)
+    result = size_member(member, catalogue_data, material, families, depth, width, top, progress)
+    notes = member_notes(member) + result.notes
+    chosen = result.chosen
+    if chosen is not None:
+        notes += chosen.report.notes
+    summaries = [CandidateSummary(**{key: entry[key] for key in ("section", "mass_per_length", "utilization", "passes", "governing", "basis")})
+                 for entry in map(candidate_entry, listed_candidates(result))]
+    chosen_check = None
+    if chosen is not None:
+        from sizer.sizing import design_for
+
+        chosen_check = check_outcome(design_for(member, material, chosen), chosen.report, notes, units)
+    return SizeOutcome(chosen.name if chosen else None, chosen is not None, chosen.mass_per_length if chosen else None,
+                       chosen.utilization if chosen else None, chosen.governing if chosen else None, summaries, chosen_check,
+                       notes, result, top, units=units)
