@@ -122,8 +122,18 @@ _mount_optional_commands()
 
 
 def main() -> None:
-    """Console entry point."""
+    """Console entry point. The linear algebra here is many small matrices, where a multi-threaded
+    BLAS only spins: one thread each unless the user's environment says otherwise."""
+    single_threaded_blas()
     app()
+
+
+def single_threaded_blas() -> None:
+    """Ask OpenBLAS, MKL and OpenMP for one thread (before numpy is imported), unless already set."""
+    import os
+
+    for name in ("OPENBLAS_NUM_THREADS", "MKL_NUM_THREADS", "OMP_NUM_THREADS"):
+        os.environ.setdefault(name, "1")
 
 
 if __name__ == "__main__":  # pragma: no cover

@@ -2,7 +2,12 @@
 
 from __future__ import annotations
 
-import pytest
+import os
+
+for _name in ("OPENBLAS_NUM_THREADS", "MKL_NUM_THREADS", "OMP_NUM_THREADS"):  # as the sizer command does (sizer.cli.main)
+    os.environ.setdefault(_name, "1")
+
+import pytest  # noqa: E402
 
 
 @pytest.fixture(autouse=True)

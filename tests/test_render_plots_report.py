@@ -26,7 +26,7 @@ from sizer import units
 from sizer.checks import check_design
 from sizer.design import prepare
 from sizer.errors import InputError
-from sizer.model import SUPPORT_TYPES, LineLoad, Member, PointLoad, Support
+from sizer.model import SUPPORT_TYPES, LineLoad, Member, PointLoad, Restraint, Support
 from sizer.render.check import check_json
 from sizer.render.common import CAUTIONS, member_notes, to_jsonable
 from sizer.render.plots import DPI, FIG_WIDTH, build_figure, check_plot_path, plot_member
@@ -57,9 +57,11 @@ def catalogue(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> Path:
 
 
 def simple_beam(length: float = 4.0, force: float = -10e3) -> Member:
-    """Pin and roller, a central point load (case imposed) and self-weight (case dead)."""
+    """Pin and roller, a central point load (case imposed) and self-weight (case dead); held
+    sideways and in twist along its top (a deck), so that strength governs."""
     supports = (Support(0.0, SUPPORT_TYPES["pin"], label="pin"), Support(length, SUPPORT_TYPES["roller"], label="roller"))
     return Member(length=length, material="steel", section="Flat 120x40", supports=supports,
+                  restraints=(Restraint(0.0, length, True, True, "top"),),
                   loads=(PointLoad("imposed", length / 2, (0.0, force, 0.0)),),
                   combinations={"dead + imposed": {"dead": 1.0, "imposed": 1.0}}, title="Test beam")
 

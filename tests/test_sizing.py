@@ -173,7 +173,8 @@ def stocks(tmp_path_factory: pytest.TempPathFactory) -> dict[str, Path]:
 
 def simple_beam(span: float, w: float, *, self_weight_case: str | None = None, deflection_limit: float | None = None,
                 orientation: str = "major", wz: float = 0.0) -> str:
-    """A member file: pin at 0, roller at L, uniform w (N/m, along -y) and wz (N/m, along +z) in case "imposed"."""
+    """A member file: pin at 0, roller at L, uniform w (N/m, along -y) and wz (N/m, along +z) in case "imposed";
+    held sideways and in twist along its whole length (the closed forms here are for strength and stiffness)."""
     sw = f'"{self_weight_case}"' if self_weight_case else "false"
     text = f"""
 [member]
@@ -189,6 +190,11 @@ type = "pin"
 [[supports]]
 at = "{span} m"
 type = "roller"
+
+[[restraints]]
+from = "0 m"
+to = "{span} m"
+hold = ["lateral", "twist"]
 
 [[loads]]
 type = "line"

@@ -15,17 +15,20 @@ Units: stresses in Pa, forces in N, lengths in m. Utilization = demand / allowab
 """
 
 from sizer.analysis.section_axes import to_section_axes
-from sizer.checks.buckling import BucklingAxis, buckling_axes, weakest_buckling_stresses
+from sizer.checks.buckling import BucklingAxis, ColumnBuckling, buckling_axes, column_buckling, given_length_axes, weakest_buckling_stresses
 from sizer.checks.deflection import Span, deflection_check, relative_to_supports, span_deflections, span_points, spans
 from sizer.checks.design_check import check_design, check_notes
 from sizer.checks.field import FieldPeaks, StationStresses, full_field_stresses
 from sizer.checks.results import CHECK_NAMES, ZERO_ACTION, CheckReport, CheckResult
 from sizer.checks.stations import check_stations, member_actions
-from sizer.checks.strength import compression_allowable
+from sizer.checks.lateral import LateralBuckling, lateral_buckling
+from sizer.checks.stability import StabilityReport, stability_report
+from sizer.checks.strength import compression_allowables
 
 __all__ = [
-    "CHECK_NAMES", "ZERO_ACTION", "BucklingAxis", "CheckReport", "CheckResult", "FieldPeaks", "Span", "StationStresses",
-    "buckling_axes", "check_design", "check_notes", "check_stations", "compression_allowable", "deflection_check",
+    "CHECK_NAMES", "ZERO_ACTION", "BucklingAxis", "CheckReport", "CheckResult", "ColumnBuckling", "FieldPeaks", "LateralBuckling", "Span",
+    "StabilityReport", "StationStresses", "buckling_axes", "check_design", "check_notes", "check_stations", "column_buckling",
+    "compression_allowables", "deflection_check", "given_length_axes", "lateral_buckling", "stability_report",
     "full_field_stresses", "member_actions", "relative_to_supports", "span_deflections", "span_points", "spans",
     "to_section_axes", "weakest_buckling_stresses",
 ]

@@ -1,6 +1,9 @@
-"""Flexural buckling of the member as a column: Euler's load on the buckling length about each
-principal axis, with the Johnson parabola below the transition slenderness Cc = pi sqrt(2 E / Fy).
-Lengths in m, stresses in Pa.
+"""Buckling of the member as a column (SPEC sections 7 and 10): the lowest elastic buckling load of
+each combination from the eigen-solve on the member (flexural about either axis, torsional,
+flexural-torsional, with its supports and restraints), beside Euler's load on any buckling length the
+user gives (the lower governs and the output says which), reduced by the Johnson parabola below the
+transition slenderness Cc = pi sqrt(2 E / Fy) (sigma = Fy (1 - Fy / (4 sigma_e)) above Fy / 2) and
+divided by the safety factor. Lengths in m, stresses in Pa, loads in N.
 """
 
 from __future__ import annotations
@@ -11,7 +14,12 @@ from typing import Any
 
 import numpy as np
 
+from sizer.checks.reduction import johnson
+from sizer.checks.results import CheckResult
+from sizer.checks.stability import StabilityReport
+from sizer.design import Design
 from sizer.model import Member
+from sizer.stability import mode_name
 
 
 @dataclass(frozen=True)
@@ -78,3 +86,76 @@ def buckling_axes(member: Member, props: Any, material: Any) -> list[BucklingAxi
         stress, formula = critical_stress(slenderness, material.elastic_modulus, material.yield_strength)
         axes.append(BucklingAxis(axis, length, radius, slenderness, stress, formula))
     return axes
+
+
+def given_length_axes(member: Member, props: Any, material: Any) -> list[BucklingAxis]:
+    """Flexural buckling on the lengths the user gave (buckling_length_major about I11,
+    buckling_length_minor about I22); empty when none is given."""
+    settings = member.checks
+    given = (("major", props.I11, settings.buckling_length_major), ("minor", props.I22, settings.buckling_length_minor))
+    axes = []
+    for axis, inertia, length in given:
+        if length is None:
+            continue
+        radius = math.sqrt(inertia / props.area)
+        stress, formula = critical_stress(length / radius, material.elastic_modulus, material.yield_strength)
+        axes.append(BucklingAxis(axis, length, radius, length / radius, stress, formula))
+    return axes
+
+
+@dataclass(frozen=True)
+class ColumnBuckling:
+    """One combination's column buckling: peak compression (N) and where (m), the elastic critical
+    load (N) and its mode, the buckling stress after the Johnson parabola (Pa) and the allowable
+    load (N) = that stress x area / safety factor."""
+
+    combination: str
+    compression: float
+    at: float
+    critical_load: float
+    mode: str
+    stress: float
+    formula: str
+    allowable: float
+
+    @property
+    def utilization(self) -> float:
+        return self.compression / self.allowable if self.allowable > 0 else math.inf
+
+
+def column_buckling(design: Design, report: StabilityReport, given: list[BucklingAxis]) -> list[ColumnBuckling | None]:
+    """Per combination (None where it has no compression): the lower of the eigen-solve's load and
+    Euler's on each given length."""
+    area, material = design.props.area, design.material
+    factor = design.member.checks.buckling_safety_factor
+    found: list[ColumnBuckling | None] = []
+    for entry in report.combinations:
+        if entry.axial is None:
+            found.append(None)
+            continue
+        load, mode = entry.axial.load_factor * entry.compression, "none"
+        if entry.axial.mode is not None:
+            mode = mode_name(report.model.energy_shares(report.section, entry.axial.mode))
+        for axis in given:
+            euler = math.pi**2 * material.elastic_modulus * axis.radius**2 * area / axis.length**2
+            if euler < load:
+                load, mode = euler, f"flexural {axis.axis} (given length {axis.length:g} m)"
+        elastic = load / area
+        stress = float(johnson(elastic, material.yield_strength))
+        formula = "Euler" if stress == elastic else "Johnson"
+        found.append(ColumnBuckling(entry.combination, entry.compression, entry.compression_at, load, mode, stress, formula,
+                                    stress * area / factor))
+    return found
+
+
+def buckling_check(columns: list[ColumnBuckling | None], design: Design) -> CheckResult:
+    """Peak axial compression of each combination against its allowable buckling load."""
+    made = [column for column in columns if column is not None]
+    if not made:
+        return CheckResult("buckling", None, detail="no axial compression")
+    worst = max(made, key=lambda column: column.utilization)
+    factor = design.member.checks.buckling_safety_factor
+    detail = (f"{worst.mode}, P_cr = {worst.critical_load / 1e3:.4g} kN ({worst.formula}: "
+              f"{worst.stress / 1e6:.4g} MPa), safety factor {factor:g}")
+    return CheckResult("buckling", worst.utilization, worst.compression, worst.allowable, worst.at, worst.combination, quantity="force",
+                       detail=detail, extra={"critical_load": worst.critical_load, "mode": worst.mode})

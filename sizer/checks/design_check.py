@@ -8,53 +8,118 @@ from typing import Any
 import numpy as np
 
 from sizer.analysis.section_axes import to_section_axes
-from sizer.checks.buckling import BucklingAxis, buckling_axes
+from sizer.checks.buckling import BucklingAxis, buckling_check, column_buckling, given_length_axes
 from sizer.checks.deflection import deflection_check
 from sizer.checks.field import FieldPeaks
+from sizer.checks.lateral import lateral_buckling, lateral_check
 from sizer.checks.results import CheckReport
+from sizer.checks.stability import StabilityReport, stability_report
 from sizer.checks.stations import check_stations, member_actions
-from sizer.checks.strength import axial_check, bending_check, buckling_check, equivalent_check, interaction_check, shear_check
+from sizer.checks.strength import (axial_check, bending_check, compression_allowables, equivalent_check, interaction_check, needs_allowable,
+                                   shear_check)
 from sizer.design import Design
+from sizer.stability import MemberStability
 
 
-def check_design(design: Design, unit_field: Any, n_even: int = 200) -> CheckReport:
-    """Every check of SPEC section 7 for the design's section, on the full stress field."""
+def check_design(design: Design, unit_field: Any, n_even: int = 200, stability: MemberStability | None = None) -> CheckReport:
+    """Every check of SPEC section 7 for the design's section, on the full stress field. `stability`:
+    the member's MemberStability to reuse (sizing checks many sections of one member)."""
     xs, sides = check_stations(design, n_even)
     names = design.solution.combination_names
     actions = to_section_axes(member_actions(design, xs, sides), design.member.orientation)
     stress = FieldPeaks(actions, unit_field, design.props.area)
-    axes = buckling_axes(design.member, design.props, design.material)
+    report = stability_report(design, actions, xs, stability)
+    given = given_length_axes(design.member, design.props, design.material)
+    columns = column_buckling(design, report, given)
+    fb = _bending_allowable(design, report)
+    laterals = lateral_buckling(design, report, fb) if fb is not None else [None] * len(names)
+    fb_allowed = np.array([fb if entry is None else entry.allowable for entry in laterals]) if fb is not None else np.full(len(names), np.inf)
     checks = [
         axial_check(stress, xs, names, design),
         bending_check(stress, xs, names, design),
-        interaction_check(stress, xs, names, design, axes),
+        interaction_check(stress, xs, names, design, compression_allowables(design, columns), fb_allowed),
         shear_check(stress, xs, names, design),
         equivalent_check(stress, xs, names, design),
         deflection_check(design),
-        buckling_check(stress, xs, names, design, axes),
+        buckling_check(columns, design),
+        lateral_check(laterals, report, design),
     ]
     nodes = np.asarray(unit_field.sigma).shape[1]
-    notes = check_notes(design, axes, len(xs), len(names), nodes)
-    return CheckReport(design.spec.name, checks, notes, len(xs), nodes)
+    notes = check_notes(design, report, given, len(xs), len(names), nodes)
+    return CheckReport(design.spec.name, checks, notes, len(xs), nodes, stability=report)
 
 
-def check_notes(design: Design, axes: list[BucklingAxis], n_stations: int, n_combinations: int, nodes: int) -> list[str]:
+def _bending_allowable(design: Design, report: StabilityReport) -> float | None:
+    """Fb where some combination bends the member about its major axis (then it is needed), else
+    the given one or None."""
+    if any(entry.lateral is not None for entry in report.combinations):
+        return needs_allowable(design.member, design.material, "bending", "lateral-torsional")
+    return design.material.allowable.bending
+
+
+def check_notes(design: Design, report: StabilityReport, given: list[BucklingAxis], n_stations: int, n_combinations: int,
+                nodes: int) -> list[str]:
     """The assumptions behind the checks, stated so that none is hidden."""
     settings = design.member.checks
     factor_text = "default" if not settings.buckling_safety_factor_given else "given"
     notes = [
         f"Verdict from the full cross-section stress field: {n_stations} stations x {n_combinations} combinations, "
         f"each on all {nodes} mesh nodes (sectionproperties unit stress fields, combined linearly).",
-        "Buckling lengths: " + ", ".join(f"{a.axis} {a.length:g} m (KL/r {a.slenderness:.0f}, {a.formula})" for a in axes)
-        + f"; safety factor {settings.buckling_safety_factor:g} ({factor_text}).",
+        stability_note(design, report, given) + f" Safety factor {settings.buckling_safety_factor:g} ({factor_text}).",
         "Interaction: fa/Fa + fb/Fb with fb the peak bending stress from My and Mz together; Fa in compression is "
-        "the compression allowable reduced to σcr / safety factor where lower.",
+        "the compression allowable reduced to the combination's buckling stress / safety factor where lower; Fb is the "
+        "bending allowable reduced for lateral-torsional buckling.",
     ]
+    notes += restraint_notes(design)
     if design.material.yield_strength is None:
-        notes.append("No yield strength given: Euler buckling only (no Johnson parabola); unsafe for stocky members.")
+        notes.append("No yield strength given: elastic buckling only (no Johnson parabola); unsafe for stocky members.")
     if settings.deflection_limit is not None:
         overhang = settings.deflection_limit_overhang or settings.deflection_limit / 2
         chosen = ", ".join(settings.deflection_combinations or design.solution.combination_names)
         notes.append(f"Deflection limits: span/{settings.deflection_limit:g}, overhang/{overhang:g}, "
                      f"relative to the supports, combinations: {chosen}.")
     return notes
+
+
+def stability_note(design: Design, report: StabilityReport, given: list[BucklingAxis]) -> str:
+    """How the buckling loads were found."""
+    model = report.model
+    text = (f"Buckling: eigen-solves on the member as it is ({len(model.mesh.nodes) - 1} thin-walled beam elements: "
+            "sideways and in-plane bending, twist and warping), for each combination under its axial force "
+            "(flexural, torsional, flexural-torsional) and under its major-axis bending with the loads' heights "
+            "(lateral-torsional); the load factor scales the whole combination, self-weight included.")
+    if given:
+        text += " Euler loads on the given buckling lengths (" + ", ".join(f"{a.axis} {a.length:g} m" for a in given) + ") are kept beside them; the lower governs."
+    return text
+
+
+def restraint_notes(design: Design) -> list[str]:
+    """The restraints, load heights and support conditions the stability solves used."""
+    member = design.member
+    notes = []
+    supports = ", ".join(f"{s.label} at {s.at:g} m (warping {'held' if _warping(s) else 'free'})" for s in member.supports)
+    notes.append(f"Supports for stability: {supports}; pins and rollers are forks (sideways movement and twist held).")
+    if member.restraints:
+        parts = []
+        for r in member.restraints:
+            holds = " and ".join(name for name, on in (("lateral", r.lateral), ("twist", r.twist)) if on)
+            where = f"{r.start:g} m" if not r.continuous else f"{r.start:g} m to {r.end:g} m (continuous)"
+            height = f" at height {r.height if isinstance(r.height, str) else f'{r.height * 1e3:+g} mm'}" if r.lateral else ""
+            parts.append(f"{holds} at {where}{height}")
+        notes.append("Restraints: " + "; ".join(parts) + ".")
+    else:
+        notes.append("Restraints: none given: the member is held against buckling at its supports only.")
+    heights = sorted({_height_text(load.height) for load in member.loads if hasattr(load, "height") and load.height is not None})
+    text = "Load heights: transverse loads act on the face they push on (top for a downward load) unless given"
+    notes.append(text + (f" ({', '.join(heights)} given)" if heights else "") + "; self-weight at the centroid.")
+    return notes
+
+
+def _warping(support: Any) -> bool:
+    from sizer.stability.boundary import warping_held
+
+    return warping_held(support)
+
+
+def _height_text(height: str | float) -> str:
+    return height if isinstance(height, str) else f"{height * 1e3:+g} mm"

@@ -6,8 +6,9 @@ with its governing check and verdict.
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from typing import Any
 
-CHECK_NAMES = ("axial", "bending", "interaction", "shear", "equivalent", "deflection", "buckling")
+CHECK_NAMES = ("axial", "bending", "interaction", "shear", "equivalent", "deflection", "buckling", "lateral-torsional", "local")
 CHUNK_VALUES = 4_000_000  # station x node values evaluated at once (memory bound, ~32 MB per array)
 ZERO_ACTION = 1e-9  # N or N*m: below this an action is treated as absent (round-off)
 
@@ -25,6 +26,7 @@ class CheckResult:
     combination: str | None = None
     quantity: str = "stress"  # "stress", "deflection", "force", "ratio"
     detail: str = ""  # what the numbers are, e.g. "compression", "about the minor axis", "span 2"
+    extra: dict = field(default_factory=dict)  # check-specific values (SPEC section 6), e.g. critical_load, mode
 
     @property
     def made(self) -> bool:
@@ -44,6 +46,7 @@ class CheckReport:
     notes: list[str] = field(default_factory=list)
     stations_checked: int = 0
     nodes: int = 0
+    stability: Any = None  # sizer.checks.stability.StabilityReport: load factors and buckled shapes
 
     @property
     def made(self) -> list[CheckResult]:

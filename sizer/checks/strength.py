@@ -1,5 +1,4 @@
-"""The stress checks (SPEC section 7): axial, bending, interaction, shear, equivalent, and axial
-compression against the buckling load. Each reads the full-field peaks and the user's allowables
+"""The stress checks (SPEC section 7): axial, bending, interaction, shear and equivalent. Each reads the full-field peaks and the user's allowables
 (Pa); a missing allowable is bad input only when the check has a demand.
 """
 
@@ -10,7 +9,6 @@ from typing import Any
 
 import numpy as np
 
-from sizer.checks.buckling import BucklingAxis
 from sizer.checks.field import FieldPeaks
 from sizer.checks.results import ZERO_ACTION, CheckResult
 from sizer.design import Design
@@ -30,7 +28,7 @@ def _locate(values: np.ndarray, xs: np.ndarray, names: tuple[str, ...]) -> tuple
     return float(values[c, s]), float(xs[s]), names[c]
 
 
-def _needs_allowable(member: Member, material: Any, which: str, check: str) -> float:
+def needs_allowable(member: Member, material: Any, which: str, check: str) -> float:
     value = getattr(material.allowable, which)
     if value is None:
         raise InputError(material.source or member.source, f"materials.{material.name}.allowable.{which}",
@@ -47,7 +45,7 @@ def axial_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], desi
         demand = np.maximum(sense * stress.axial, 0.0)
         if demand.max() * design.props.area <= ZERO_ACTION:
             continue
-        allowable = _needs_allowable(member, material, which, "axial")
+        allowable = needs_allowable(member, material, which, "axial")
         value, at, combination = _locate(demand, xs, names)
         results.append(CheckResult("axial", value / allowable, value, allowable, at, combination, detail=which))
     if not results:
@@ -59,36 +57,43 @@ def bending_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], de
     """Peak bending stress from My and Mz together (full field) against the bending allowable."""
     if stress.bending_upper.max() <= 0.0:
         return CheckResult("bending", None, detail="no bending moment")
-    allowable = _needs_allowable(design.member, design.material, "bending", "bending")
+    allowable = needs_allowable(design.member, design.material, "bending", "bending")
     value, at, combination = _place(stress.largest(stress.bending_upper, lambda rows, exact: exact[:, 0]), xs, names)
     return CheckResult("bending", value / allowable, value, allowable, at, combination, detail="My and Mz together")
 
 
-def compression_allowable(design: Design, axes: list[BucklingAxis]) -> float:
-    """Fa for the interaction: the compression allowable, reduced to sigma_cr / safety factor where lower."""
-    allowable = _needs_allowable(design.member, design.material, "compression", "interaction")
-    buckling = min(axis.critical_stress for axis in axes) / design.member.checks.buckling_safety_factor
-    return min(allowable, buckling)
+def compression_allowables(design: Design, columns: list) -> np.ndarray:
+    """Fa of each combination for the interaction (Pa): the compression allowable, reduced to the
+    combination's buckling stress / safety factor where lower; infinite without compression."""
+    factor = design.member.checks.buckling_safety_factor
+    if all(column is None for column in columns):
+        return np.full(len(columns), math.inf)
+    allowable = needs_allowable(design.member, design.material, "compression", "interaction")
+    return np.array([math.inf if column is None else min(allowable, column.stress / factor) for column in columns])
 
 
 def interaction_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], design: Design,
-                      axes: list[BucklingAxis]) -> CheckResult:
-    """fa/Fa + fb/Fb at every station (linear interaction); Fa in compression reduced for buckling."""
+                      fa_allowed: np.ndarray, fb_allowed: np.ndarray) -> CheckResult:
+    """fa/Fa + fb/Fb at every station (linear interaction); Fa and Fb per combination (arrays of
+    (C,) Pa): Fa in compression reduced for column buckling, Fb for lateral-torsional buckling."""
     has_axial = np.abs(stress.axial).max() * design.props.area > ZERO_ACTION
     if not has_axial or stress.bending_upper.max() <= 0.0:
         return CheckResult("interaction", None, detail="needs axial force and bending together")
-    bending_allowable = _needs_allowable(design.member, design.material, "bending", "interaction")
+    needs_allowable(design.member, design.material, "bending", "interaction")
     tension = design.material.allowable.tension
-    compression = compression_allowable(design, axes) if (stress.axial < 0).any() else math.inf
     if tension is None and (stress.axial > 0).any():
-        tension = _needs_allowable(design.member, design.material, "tension", "interaction")
+        tension = needs_allowable(design.member, design.material, "tension", "interaction")
+    stations = stress.shape[1]
+    compression = np.repeat(fa_allowed, stations).reshape(stress.shape)
+    bending = np.repeat(fb_allowed, stations)
     fa_ratio = np.where(stress.axial >= 0, stress.axial / (tension or math.inf), -stress.axial / compression).reshape(-1)
-    found = stress.largest(fa_ratio + stress.bending_upper / bending_allowable,
-                           lambda rows, exact: fa_ratio[rows] + exact[:, 0] / bending_allowable)
+    found = stress.largest(fa_ratio + stress.bending_upper / bending, lambda rows, exact: fa_ratio[rows] + exact[:, 0] / bending[rows])
     value, at, combination = _place(found, xs, names)
     c, s = found[1]
-    fb = float(stress.exact(np.array([c * stress.shape[1] + s]))[0, 0])
-    detail = f"fa = {stress.axial[c, s] / 1e6:.3g} MPa, fb = {fb / 1e6:.3g} MPa, Fa = {(compression if stress.axial[c, s] < 0 else tension) / 1e6:.4g} MPa"
+    fb = float(stress.exact(np.array([c * stations + s]))[0, 0])
+    fa_used = compression[c, s] if stress.axial[c, s] < 0 else tension
+    detail = (f"fa = {stress.axial[c, s] / 1e6:.3g} MPa, fb = {fb / 1e6:.3g} MPa, Fa = {fa_used / 1e6:.4g} MPa, "
+              f"Fb = {fb_allowed[c] / 1e6:.4g} MPa")
     return CheckResult("interaction", value, value, 1.0, at, combination, quantity="ratio", detail=detail)
 
 
@@ -96,7 +101,7 @@ def shear_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], desi
     """Peak shear stress from Vy, Vz and T together (full field) against the shear allowable."""
     if stress.shear_upper.max() <= 0.0:
         return CheckResult("shear", None, detail="no shear force or torque")
-    allowable = _needs_allowable(design.member, design.material, "shear", "shear")
+    allowable = needs_allowable(design.member, design.material, "shear", "shear")
     value, at, combination = _place(stress.largest(stress.shear_upper, lambda rows, exact: exact[:, 1]), xs, names)
     return CheckResult("shear", value / allowable, value, allowable, at, combination, detail="Vy, Vz and T together")
 
@@ -108,18 +113,3 @@ def equivalent_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...],
         return CheckResult("equivalent", None, detail="no 'equivalent' allowable given for the material")
     value, at, combination = _place(stress.largest(stress.equivalent_upper, lambda rows, exact: exact[:, 2]), xs, names)
     return CheckResult("equivalent", value / allowable, value, allowable, at, combination, detail="von Mises")
-
-
-def buckling_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], design: Design,
-                   axes: list[BucklingAxis]) -> CheckResult:
-    """Largest axial compression against the flexural buckling load / safety factor, each principal axis."""
-    compression = np.maximum(-stress.axial * design.props.area, 0.0)
-    if compression.max() <= ZERO_ACTION:
-        return CheckResult("buckling", None, detail="no axial compression")
-    value, at, combination = _locate(compression, xs, names)
-    factor = design.member.checks.buckling_safety_factor
-    weakest = min(axes, key=lambda axis: axis.critical_stress)
-    allowable = weakest.critical_stress * design.props.area / factor
-    detail = (f"{weakest.formula} about the {weakest.axis} axis, KL/r = {weakest.slenderness:.0f}, "
-              f"P_cr = {weakest.critical_stress * design.props.area / 1e3:.4g} kN, safety factor {factor:g}")
-    return CheckResult("buckling", value / allowable, value, allowable, at, combination, quantity="force", detail=detail)

@@ -33,7 +33,7 @@ from sizer.files import cache_root, write_atomic
 from sizer.sections.geometry import mesh_settings
 from sizer.sections.spec import SectionSpec
 
-SCHEMA_VERSION = 5
+SCHEMA_VERSION = 6
 ARRAY_NAMES = ("points", "sigma", "tau")
 RAW = np.dtype("<f8")
 _GEOMETRY_MARK = "GEOMETRY"  # stands for the geometry key in the key text built once per process

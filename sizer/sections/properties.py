@@ -21,7 +21,9 @@ SectionProperties fields (SI: m, m^2, m^3, m^4, m^6, kg/m, rad):
     Sy_plus = Iy / z_plus, Sy_minus = Iy / z_minus (fibres at +z and -z);
     y_top, y_bottom, z_plus, z_minus: distances from the centroid to those extreme fibres;
     plastic moduli Zz, Zy; radii of gyration rz, ry; torsion constant J; warping constant Iw;
-    shear_centre (ys, zs) from the centroid; shear areas Avy, Avz (for shear along y and z);
+    shear_centre (ys, zs) from the centroid; Py = integral y (y^2 + z^2) dA and Pz = integral
+    z (y^2 + z^2) dA (m^5) about the centroid, the integrals of the monosymmetry constants
+    (beta_y = Py / Iz - 2 ys; sectionproperties' beta_x_minus); shear areas Avy, Avz (for shear along y and z);
     depth and width of the bounding box; perimeter; sigma_peak (3,) max |sigma| (Pa) per unit
     N (N), My (N*m), Mz (N*m); tau_peak (3,) max |tau| (Pa) per unit Vy (N), Vz (N), T (N*m);
     mass_per_length = area * density (None without a density).
@@ -52,7 +54,7 @@ from sizer.sections.spec import SectionSpec
 SCALAR_NAMES: tuple[str, ...] = (
     "area", "centroid_y", "centroid_z", "Iz", "Iy", "Iyz", "I11", "I22", "principal_angle",
     "Sz_top", "Sz_bottom", "Sy_plus", "Sy_minus", "y_top", "y_bottom", "z_plus", "z_minus",
-    "Zz", "Zy", "rz", "ry", "J", "Iw", "ys", "zs", "Avy", "Avz", "depth", "width", "perimeter",
+    "Zz", "Zy", "rz", "ry", "J", "Iw", "ys", "zs", "Py", "Pz", "Avy", "Avz", "depth", "width", "perimeter",
     "sigma_peak_N", "sigma_peak_My", "sigma_peak_Mz", "tau_peak_Vy", "tau_peak_Vz", "tau_peak_T",
     "mesh_elements", "mesh_nodes", "max_element_area",
 )
@@ -129,6 +131,8 @@ class SectionProperties:
     J: float
     Iw: float
     shear_centre: tuple[float, float]
+    Py: float
+    Pz: float
     Avy: float
     Avz: float
     depth: float
@@ -266,7 +270,7 @@ def _assemble(spec: SectionSpec, row: list[float], density: float | None) -> Sec
         principal_angle=plain["principal_angle"], Sz_top=plain["Sz_top"], Sz_bottom=plain["Sz_bottom"],
         Sy_plus=plain["Sy_plus"], Sy_minus=plain["Sy_minus"], y_top=plain["y_top"], y_bottom=plain["y_bottom"],
         z_plus=plain["z_plus"], z_minus=plain["z_minus"], Zz=plain["Zz"], Zy=plain["Zy"], rz=plain["rz"], ry=plain["ry"],
-        J=plain["J"], Iw=plain["Iw"], shear_centre=(plain["ys"], plain["zs"]), Avy=plain["Avy"], Avz=plain["Avz"],
+        J=plain["J"], Iw=plain["Iw"], shear_centre=(plain["ys"], plain["zs"]), Py=plain["Py"], Pz=plain["Pz"], Avy=plain["Avy"], Avz=plain["Avz"],
         depth=plain["depth"], width=plain["width"], perimeter=plain["perimeter"],
         sigma_peak=(plain["sigma_peak_N"], plain["sigma_peak_My"], plain["sigma_peak_Mz"]),
         tau_peak=(plain["tau_peak_Vy"], plain["tau_peak_Vz"], plain["tau_peak_T"]),
@@ -331,7 +335,9 @@ def section_results(spec: SectionSpec, section: Any) -> tuple[dict[str, float], 
         "y_top": (ymax - cy) * length, "y_bottom": (cy - ymin) * length, "z_plus": (cx - xmin) * length, "z_minus": (xmax - cx) * length,
         "Zz": sxx * modulus, "Zy": syy * modulus, "rz": rx * length, "ry": ry * length,
         "J": section.get_j() * inertia, "Iw": section.get_gamma() / MM**6,
-        "ys": props.y_se * length, "zs": -props.x_se * length, "Avy": a_sy * area, "Avz": a_sx * area,
+        "ys": props.y_se * length, "zs": -props.x_se * length,
+        "Py": (props.beta_x_minus + 2 * props.y_se) * ixx / MM**5, "Pz": -(props.beta_y_minus + 2 * props.x_se) * iyy / MM**5,
+        "Avy": a_sy * area, "Avz": a_sx * area,
         "depth": (ymax - ymin) * length, "width": (xmax - xmin) * length, "perimeter": section.get_perimeter() * length,
         "sigma_peak_N": unit.sigma_peak[0], "sigma_peak_My": unit.sigma_peak[1], "sigma_peak_Mz": unit.sigma_peak[2],
         "tau_peak_Vy": unit.tau_peak[0], "tau_peak_Vz": unit.tau_peak[1], "tau_peak_T": unit.tau_peak[2],
@@ -349,7 +355,8 @@ def _axis_angle(angle: float) -> float:
 def _without_noise(s: dict[str, float]) -> dict[str, float]:
     """Round-off and solver noise set to exactly zero: centroid and shear-centre offsets below
     1e-5 of the section's size, a product of inertia below 1e-9 of sqrt(Iz Iy), a warping
-    constant below 1e-9 of (Iz + Iy) size^2 (a circle's)."""
+    constant below 1e-9 of (Iz + Iy) size^2 (a circle's), monosymmetry integrals below 1e-7 of
+    (Iz + Iy) size (a symmetric section's)."""
     size = max(s["depth"], s["width"])
     for name in ("centroid_y", "centroid_z", "ys", "zs"):
         if abs(s[name]) < 1e-5 * size:
@@ -358,6 +365,9 @@ def _without_noise(s: dict[str, float]) -> dict[str, float]:
         s["Iyz"] = 0.0
     if abs(s["Iw"]) < 1e-9 * (s["Iz"] + s["Iy"]) * size**2:
         s["Iw"] = 0.0
+    for name in ("Py", "Pz"):
+        if abs(s[name]) < 1e-7 * (s["Iz"] + s["Iy"]) * size:
+            s[name] = 0.0
     return s
 
 

@@ -1,0 +1,75 @@
+"""Lateral-torsional buckling (SPEC sections 7 and 10): the bending allowable reduced for sideways
+buckling, from the eigen-solve on the member as it is.
+
+For each combination with major-axis bending: critical_moment = load_factor x the peak |Mz| along the
+member; sigma_cr = critical_moment / the elastic modulus of the fibre it compresses; the reduced
+allowable Fb_LT = min(Fb, Fb sigma_J / Fy, sigma_cr / SF) (sizer.checks.reduction; Fb_LT = Fb where
+the member cannot buckle sideways); demand = the peak major-axis bending stress, |Mz| x the section's
+largest stress per unit Mz (exact: the field is linear). Stresses in Pa, moments in N*m.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+from sizer.checks.reduction import reduced_allowable
+from sizer.checks.results import CheckResult
+from sizer.checks.stability import StabilityReport
+from sizer.design import Design
+
+
+@dataclass(frozen=True)
+class LateralBuckling:
+    """One combination's lateral-torsional buckling (see the module docstring)."""
+
+    combination: str
+    moment: float  # peak |Mz|, N*m
+    at: float  # m
+    load_factor: float  # math.inf where it cannot buckle sideways
+    critical_moment: float  # N*m
+    critical_stress: float  # Pa
+    allowable: float  # Fb_LT, Pa
+    demand: float  # Pa
+
+    @property
+    def utilization(self) -> float:
+        return self.demand / self.allowable if self.allowable > 0 else math.inf
+
+
+def lateral_buckling(design: Design, report: StabilityReport, bending_allowable: float) -> list[LateralBuckling | None]:
+    """Per combination (None where it has no major-axis bending or the check does not apply)."""
+    props, material, settings = design.props, design.material, design.member.checks
+    per_unit = props.sigma_peak[2]  # largest |stress| per unit Mz (section axes), Pa per N*m
+    found: list[LateralBuckling | None] = []
+    for entry in report.combinations:
+        if entry.lateral is None:
+            found.append(None)
+            continue
+        critical = entry.lateral.load_factor * entry.moment
+        modulus = props.Sz_top if entry.moment_sign > 0 else props.Sz_bottom
+        sigma_cr = critical / modulus
+        allowable = float(reduced_allowable(bending_allowable, sigma_cr, material.yield_strength, settings.buckling_safety_factor))
+        found.append(LateralBuckling(entry.combination, entry.moment, entry.moment_at, entry.lateral.load_factor, critical, sigma_cr,
+                                     allowable, entry.moment * per_unit))
+    return found
+
+
+def lateral_check(entries: list[LateralBuckling | None], report: StabilityReport, design: Design) -> CheckResult:
+    """The largest utilization of any combination against its Fb_LT."""
+    if report.lateral_reason:
+        return CheckResult("lateral-torsional", None, detail=report.lateral_reason)
+    made = [entry for entry in entries if entry is not None]
+    if not made:
+        return CheckResult("lateral-torsional", None, detail="no bending about the section's major axis")
+    worst = max(made, key=lambda entry: entry.utilization)
+    factor = design.member.checks.buckling_safety_factor
+    if math.isinf(worst.load_factor):
+        detail = "no sideways buckling mode: the restraints hold the member along its length; Fb_LT = Fb"
+    else:
+        detail = (f"load factor {worst.load_factor:.3g} on the combination, M_cr = {worst.critical_moment / 1e3:.4g} kN·m, "
+                  f"σcr = {worst.critical_stress / 1e6:.4g} MPa, Fb_LT = {worst.allowable / 1e6:.4g} MPa (safety factor {factor:g})")
+    extra = {"critical_moment": worst.critical_moment if math.isfinite(worst.critical_moment) else None,
+             "load_factor": worst.load_factor if math.isfinite(worst.load_factor) else None, "mode": "lateral-torsional"}
+    return CheckResult("lateral-torsional", worst.utilization, worst.demand, worst.allowable, worst.at, worst.combination, detail=detail,
+                       extra=extra)

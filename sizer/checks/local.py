@@ -1,0 +1,403 @@
+"""Local buckling of the flat walls of catalogue shapes (SPEC sections 7 and 10, check "local").
+
+Each flat wall (flange outstand, web, stem, angle leg, tube wall) is a long plate with its own edge
+conditions: "internal" (both long edges joined to other walls: taken as simply supported) or
+"outstand" (one edge joined, one free). Its elastic buckling stress is Bryan's
+    sigma_cr = k pi^2 E / (12 (1 - nu^2)) (t / b)^2      (Timoshenko & Gere, ch. 9)
+with k from the published coefficients for its edges and its stress ratio psi = sigma2 / sigma1
+(compression positive, sigma1 the larger edge compression at mid-thickness), EN 1993-1-5 Tables
+4.1 and 4.2, and nu = E / (2 G) - 1. The rotational restraint a wall gets from its neighbours is
+neglected (the simply supported edge is the lower bound) and no post-buckling reserve is counted.
+
+Widths b are the clear flat widths (common practice): the part of the wall between the fillets or
+corners, at mid-thickness: i_beam and tee flange outstands (width - web_thickness) / 2 - root_radius;
+channel flanges width - web_thickness - root_radius; webs between flanges depth - 2 flange_thickness
+- 2 root_radius; a tee's stem depth - flange_thickness - root_radius (an outstand); angle legs
+leg - thickness - root_radius (outstands); rectangular_tube walls outer dimension - 2 max(outer_radius,
+thickness) (internal).
+
+Allowable (sizer.checks.reduction): F_red = min(F, F sigma_J / Fy, sigma_cr / SF), F the larger of
+the user's compression and bending allowables, SF the buckling safety factor. Demand: the peak
+compression over the wall's four corners (its two long edges, each face). Utilization = demand /
+F_red, for every wall, combination and station; a wall counts as compressed where sigma1 x the
+section's area exceeds ZERO_ACTION (round-off below that is no compression).
+
+Normal stress over the section is exactly linear in the actions (section axes, SPEC section 2):
+    sigma(y, z) = N / A + a y + b z,   -Mz = a Iz + b Iyz,   My = a Iyz + b Iy   (tension positive),
+so the stress at any point of a wall is known without the mesh. Positions (y, z) are in m from the
+centroid in the section's own axes (y up along the depth as drawn in the catalogue, z = -X of
+sectionproperties' drawing); names ("top", "+z side") refer to the section as drawn.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from typing import Any, Sequence
+
+import numpy as np
+
+from sizer.checks.reduction import johnson, reduced_allowable
+from sizer.checks.results import ZERO_ACTION, CheckResult
+from sizer.design import Design
+from sizer.errors import InputError
+
+INTERNAL, OUTSTAND = "internal", "outstand"
+PSI_LOWEST_INTERNAL = -3.0  # below: k grows, so the clamp is on the safe side
+PSI_LOWEST_FREE_EDGE = -3.0
+PSI_LOWEST_SUPPORTED_EDGE = -1.0
+BLOCK_VALUES = 400_000  # (section, row, wall) values at once: about 15 float64 arrays, under ~50 MB
+ASSUMPTIONS = ("Local buckling: each flat wall is a long plate, simply supported where it joins another wall "
+               "and free at an outstand's tip, over its clear flat width; k from EN 1993-1-5 Tables 4.1 and 4.2 "
+               "for the wall's stress ratio; no restraint from neighbouring walls and no post-buckling reserve.")
+
+Point = tuple[float, float]
+
+
+@dataclass(frozen=True)
+class Wall:
+    """One flat wall as a plate. Positions (y, z) in m from the centroid, section axes.
+
+    supported, far: the mid-thickness points of the two long edges (for an outstand `far` is the
+    free edge); across: unit (y, z) vector through the thickness; thickness t and clear flat width b (m).
+    """
+
+    name: str
+    kind: str  # INTERNAL or OUTSTAND
+    supported: Point
+    far: Point
+    across: Point
+    thickness: float
+    width: float
+
+
+def no_walls_reason(shape: str) -> str | None:
+    """Why the local check is not made for `shape` (None: it is made)."""
+    reasons = {
+        "round": "a round bar has no flat walls: not made",
+        "round_tube": "a round tube's walls are curved (shell buckling, not plate buckling): not made",
+        "polygon": "a polygon's walls and their edge conditions are not known to sizer: not made; check its local buckling by hand",
+        "rectangle": "a solid rectangular bar has no thin walls to buckle locally: not made",
+    }
+    return reasons.get(shape)
+
+
+def section_walls(spec: Any, centroid: Point) -> list[Wall]:
+    """The flat walls of a catalogue section (sections.SectionSpec, dims in m); `centroid` = (y, z) of
+    the centroid from the bounding-box centre (SectionProperties.centroid). Empty for the shapes of
+    no_walls_reason."""
+    builder = _BUILDERS.get(spec.shape)
+    if builder is None:
+        return []
+    cy, cz = centroid
+    return [Wall(w.name, w.kind, (w.supported[0] + cy, w.supported[1] - cz), (w.far[0] - cy, w.far[1] - cz),
+                 w.across, w.thickness, w.width) for w in builder(spec.dims)]
+
+
+def _flange_outstands(prefix: str, y: float, root: float, tip: float, t: float) -> list[Wall]:
+    """Two outstands at height y, each from +/-root (supported) to +/-tip (free), bbox-centre axes."""
+    return [Wall(f"{prefix} (+z side)", OUTSTAND, (y, root), (y, tip), (1.0, 0.0), t, tip - root),
+            Wall(f"{prefix} (-z side)", OUTSTAND, (y, -root), (y, -tip), (1.0, 0.0), t, tip - root)]
+
+
+def _i_beam_walls(d: dict[str, float]) -> list[Wall]:
+    depth, width, tf, tw, r = d["depth"], d["width"], d["flange_thickness"], d["web_thickness"], d["root_radius"]
+    root, tip, web_end = tw / 2 + r, width / 2, depth / 2 - tf - r
+    return (_flange_outstands("top flange outstand", depth / 2 - tf / 2, root, tip, tf)
+            + _flange_outstands("bottom flange outstand", -(depth / 2 - tf / 2), root, tip, tf)
+            + [Wall("web", INTERNAL, (web_end, 0.0), (-web_end, 0.0), (0.0, 1.0), tw, 2 * web_end)])
+
+
+def _channel_walls(d: dict[str, float]) -> list[Wall]:
+    """The web is on the +z side (sectionproperties draws it at X = 0), the flanges point to -z."""
+    depth, width, tf, tw, r = d["depth"], d["width"], d["flange_thickness"], d["web_thickness"], d["root_radius"]
+    root, tip, web_z, web_end, y = width / 2 - tw - r, -width / 2, width / 2 - tw / 2, depth / 2 - tf - r, depth / 2 - tf / 2
+    flat = width - tw - r
+    return [Wall("top flange", OUTSTAND, (y, root), (y, tip), (1.0, 0.0), tf, flat),
+            Wall("bottom flange", OUTSTAND, (-y, root), (-y, tip), (1.0, 0.0), tf, flat),
+            Wall("web", INTERNAL, (web_end, web_z), (-web_end, web_z), (0.0, 1.0), tw, 2 * web_end)]
+
+
+def _tee_walls(d: dict[str, float]) -> list[Wall]:
+    """Flange at the top, stem down to the bottom (sectionproperties' tee_section)."""
+    depth, width, tf, tw, r = d["depth"], d["width"], d["flange_thickness"], d["web_thickness"], d["root_radius"]
+    stem_root = depth / 2 - tf - r
+    return (_flange_outstands("flange outstand", depth / 2 - tf / 2, tw / 2 + r, width / 2, tf)
+            + [Wall("stem", OUTSTAND, (stem_root, 0.0), (-depth / 2, 0.0), (0.0, 1.0), tw, depth - tf - r)])
+
+
+def _angle_walls(d: dict[str, float]) -> list[Wall]:
+    """The heel at the bottom, +z side: one leg up along the depth, one across to -z (sectionproperties'
+    angle_section draws the legs along X = 0 and Y = 0)."""
+    depth, width, t, r = d["depth"], d["width"], d["thickness"], d["root_radius"]
+    up, across = ("long ", "short ") if depth > width else ("short ", "long ") if depth < width else ("", "")
+    leg_z, leg_y = width / 2 - t / 2, -depth / 2 + t / 2
+    return [Wall(f"{up}leg (along the depth)", OUTSTAND, (-depth / 2 + t + r, leg_z), (depth / 2, leg_z), (0.0, 1.0), t, depth - t - r),
+            Wall(f"{across}leg (across)", OUTSTAND, (leg_y, width / 2 - t - r), (leg_y, -width / 2), (1.0, 0.0), t, width - t - r)]
+
+
+def _tube_walls(d: dict[str, float]) -> list[Wall]:
+    depth, width, t = d["depth"], d["width"], d["thickness"]
+    corner = max(d["outer_radius"], t)
+    y, z, y_end, z_end = depth / 2 - t / 2, width / 2 - t / 2, depth / 2 - corner, width / 2 - corner
+    return [Wall("top wall", INTERNAL, (y, z_end), (y, -z_end), (1.0, 0.0), t, width - 2 * corner),
+            Wall("bottom wall", INTERNAL, (-y, z_end), (-y, -z_end), (1.0, 0.0), t, width - 2 * corner),
+            Wall("side wall (+z side)", INTERNAL, (y_end, z), (-y_end, z), (0.0, 1.0), t, depth - 2 * corner),
+            Wall("side wall (-z side)", INTERNAL, (y_end, -z), (-y_end, -z), (0.0, 1.0), t, depth - 2 * corner)]
+
+
+_BUILDERS = {"i_beam": _i_beam_walls, "channel": _channel_walls, "tee": _tee_walls, "angle": _angle_walls,
+             "rectangular_tube": _tube_walls}
+
+
+# ----------------------------------------------------------------------------------------------
+# the plate
+
+def plate_coefficient(kind: Any, psi: Any, free_edge_more_compressed: Any) -> np.ndarray:
+    """Plate buckling coefficient k of a long plate, elementwise (kind, psi and the flag broadcast).
+
+    psi = sigma2 / sigma1 (compression positive, sigma1 the larger compression, so psi <= 1).
+    Internal (both long edges simply supported), EN 1993-1-5 Table 4.1 (from memory):
+        8.2 / (1.05 + psi) for 1 >= psi >= 0; 7.81 - 6.29 psi + 9.78 psi^2 for 0 > psi > -1;
+        5.98 (1 - psi)^2 for -1 >= psi >= -3 (psi clamped at -3).
+    Outstand (one edge simply supported, one free), EN 1993-1-5 Table 4.2 (from memory):
+        free edge more compressed: 0.57 - 0.21 psi + 0.07 psi^2 (psi clamped at -3);
+        supported edge more compressed: 0.578 / (psi + 0.34) for 1 >= psi >= 0,
+        1.7 - 5 psi + 17.1 psi^2 for 0 > psi >= -1 (psi clamped at -1).
+    k grows as psi falls, so each clamp is on the safe side.
+    """
+    psi = np.minimum(np.asarray(psi, dtype=float), 1.0)
+    internal = np.asarray(kind) == INTERNAL
+    free_more = np.asarray(free_edge_more_compressed, dtype=bool)
+    p = np.maximum(psi, PSI_LOWEST_INTERNAL)
+    k_internal = np.where(p >= 0.0, 8.2 / (1.05 + np.maximum(p, 0.0)),
+                          np.where(p > -1.0, 7.81 - 6.29 * p + 9.78 * p * p, 5.98 * (1.0 - p) ** 2))
+    p = np.maximum(psi, PSI_LOWEST_FREE_EDGE)
+    k_free = 0.57 - 0.21 * p + 0.07 * p * p
+    p = np.maximum(psi, PSI_LOWEST_SUPPORTED_EDGE)
+    k_supported = np.where(p >= 0.0, 0.578 / (np.maximum(p, 0.0) + 0.34), 1.7 - 5.0 * p + 17.1 * p * p)
+    return np.where(internal, k_internal, np.where(free_more, k_free, k_supported))
+
+
+def elastic_plate_stress(k: Any, E: Any, nu: Any, t: Any, b: Any) -> Any:
+    """Bryan's sigma_cr = k pi^2 E / (12 (1 - nu^2)) (t / b)^2 (Pa; E in Pa, t and b in m)."""
+    return k * math.pi**2 * E / (12.0 * (1.0 - nu * nu)) * (t / b) ** 2
+
+
+def poisson_ratio(design: Design) -> float:
+    """nu = E / (2 G) - 1 of the design's material; bad input outside 0 to 0.5."""
+    material = design.material
+    nu = material.elastic_modulus / (2.0 * material.shear_modulus) - 1.0
+    if not 0.0 <= nu < 0.5:
+        raise InputError(material.source or design.member.source, f"materials.{material.name}.shear_modulus",
+                         f"E / (2 G) - 1 gives Poisson's ratio {nu:.3g}, outside 0 to 0.5; the local check needs it",
+                         "check elastic_modulus and shear_modulus (steel: 200 GPa and 77 GPa), or give poisson_ratio")
+    return nu
+
+
+def wall_allowable(design: Design) -> float:
+    """F: the larger of the compression and bending allowables given (Pa); bad input when neither is."""
+    allowable, material = design.material.allowable, design.material
+    given = [value for value in (allowable.compression, allowable.bending) if value is not None]
+    if not given:
+        raise InputError(material.source or design.member.source, f"materials.{material.name}.allowable.compression",
+                         "the local check needs the 'compression' or 'bending' allowable stress, and neither is given",
+                         f'add compression = "... MPa" and bending = "... MPa" from your governing code under [materials.{material.name}.allowable]')
+    return max(given)
+
+
+# ----------------------------------------------------------------------------------------------
+# stresses in the walls
+
+def stress_plane(actions: np.ndarray, area: Any, Iz: Any, Iy: Any, Iyz: Any) -> np.ndarray:
+    """(..., 3): (N / A, a, b) of sigma = N / A + a y + b z (Pa, Pa/m; tension positive) for actions
+    (..., 6) N, Vy, Vz, T, My, Mz in section axes; section scalars broadcast against actions[..., 0]."""
+    actions = np.asarray(actions, dtype=float)
+    n, my, mz = actions[..., 0], actions[..., 4], actions[..., 5]
+    det = Iz * Iy - Iyz * Iyz
+    a = (-mz * Iy - Iyz * my) / det
+    b = (Iz * my + Iyz * mz) / det
+    return np.stack([n / area, a, b], axis=-1)
+
+
+@dataclass(frozen=True)
+class WallStresses:
+    """Compression (Pa, positive) in each wall (last axis): at the supported and far edges at
+    mid-thickness, and the peak over the wall's four corners."""
+
+    supported: np.ndarray
+    far: np.ndarray
+    peak: np.ndarray
+
+
+def wall_stresses(walls: Sequence[Wall], actions: np.ndarray, area: float, Iz: float, Iy: float, Iyz: float) -> WallStresses:
+    """Compressions in `walls` (..., n_walls) for actions (..., 6) in section axes."""
+    table = _table([list(walls)])
+    plane = stress_plane(actions, area, Iz, Iy, Iyz)[..., None, :]  # (..., 1, 3)
+    supported, far, gradient = _edge_compressions(table.supported[0], table.far[0], table.across[0], plane)
+    return WallStresses(supported, far, _corner_peak(supported, far, gradient, table.thickness[0]))
+
+
+def _edge_compressions(supported: np.ndarray, far: np.ndarray, across: np.ndarray, plane: np.ndarray) -> tuple[np.ndarray, ...]:
+    """Compression at the supported and far edges, and the compression gradient through the thickness
+    (Pa/m along `across`); points (..., W, 2), plane (..., 1, 3)."""
+    c0, a, b = plane[..., 0], plane[..., 1], plane[..., 2]
+    at_supported = -(c0 + a * supported[..., 0] + b * supported[..., 1])
+    at_far = -(c0 + a * far[..., 0] + b * far[..., 1])
+    gradient = a * across[..., 0] + b * across[..., 1]
+    return at_supported, at_far, gradient
+
+
+def _corner_peak(supported: np.ndarray, far: np.ndarray, gradient: np.ndarray, thickness: np.ndarray) -> np.ndarray:
+    """Peak compression over a wall's four corners: the more compressed edge plus the through-thickness
+    gradient over half the thickness (the stress is linear, so the peak is at a corner)."""
+    return np.maximum(supported, far) + np.abs(gradient) * thickness / 2.0
+
+
+# ----------------------------------------------------------------------------------------------
+# many sections at once
+
+@dataclass(frozen=True)
+class WallTable:
+    """The walls of many sections, padded to the most walls of any (S sections, W walls): kind (S, W),
+    supported/far/across (S, W, 2) in m from each centroid, thickness and width (S, W) in m, mask (S, W)
+    True for a real wall, names per section."""
+
+    kind: np.ndarray
+    supported: np.ndarray
+    far: np.ndarray
+    across: np.ndarray
+    thickness: np.ndarray
+    width: np.ndarray
+    mask: np.ndarray
+    names: tuple[tuple[str, ...], ...]
+
+
+def wall_table(specs: Sequence[Any], centroids: Sequence[Point] | np.ndarray) -> WallTable:
+    """The WallTable of `specs` with their centroids (y, z) from the bounding-box centre (m)."""
+    return _table([section_walls(spec, (float(c[0]), float(c[1]))) for spec, c in zip(specs, centroids)])
+
+
+def _table(sections: list[list[Wall]]) -> WallTable:
+    count, most = len(sections), max([1] + [len(walls) for walls in sections])
+    kind = np.full((count, most), INTERNAL, dtype=object)
+    supported, far, across = (np.zeros((count, most, 2)) for _ in range(3))
+    thickness, width = np.ones((count, most)), np.ones((count, most))
+    mask = np.zeros((count, most), dtype=bool)
+    for s, walls in enumerate(sections):
+        for w, wall in enumerate(walls):
+            kind[s, w], supported[s, w], far[s, w], across[s, w] = wall.kind, wall.supported, wall.far, wall.across
+            thickness[s, w], width[s, w], mask[s, w] = wall.thickness, wall.width, True
+    return WallTable(kind.astype(str), supported, far, across, thickness, width, mask,
+                     tuple(tuple(wall.name for wall in walls) for walls in sections))
+
+
+@dataclass(frozen=True)
+class PlateNumbers:
+    """Every wall's numbers at every row (sections, rows, walls); Pa except psi and k."""
+
+    compressed: np.ndarray  # bool: a real wall with sigma1 x area > ZERO_ACTION
+    psi: np.ndarray
+    k: np.ndarray
+    critical: np.ndarray  # sigma_cr
+    allowable: np.ndarray  # F_red
+    demand: np.ndarray  # peak corner compression
+    utilization: np.ndarray  # demand / F_red where compressed, else -inf
+
+
+def _compressions(table: WallTable, sections: slice, plane: np.ndarray, area: np.ndarray) -> tuple[np.ndarray, ...]:
+    """(sigma1, sigma2, free edge more compressed, demand, compressed) for plane (Sb, K, 3)."""
+    part = (sections, None)
+    supported, far, gradient = _edge_compressions(table.supported[part], table.far[part], table.across[part], plane[..., None, :])
+    sigma1 = np.maximum(supported, far)
+    demand = _corner_peak(supported, far, gradient, table.thickness[part])
+    compressed = table.mask[part] & (sigma1 * area[:, None, None] > ZERO_ACTION)
+    return sigma1, np.minimum(supported, far), far >= supported, demand, compressed
+
+
+def _plate_numbers(table: WallTable, sections: slice, plane: np.ndarray, area: np.ndarray, E: np.ndarray, nu: np.ndarray,
+                   yield_strength: float | None, allowable: np.ndarray, safety_factor: float) -> PlateNumbers:
+    """PlateNumbers of table rows `sections` under plane (Sb, K, 3); per-section arrays (Sb,)."""
+    sigma1, sigma2, free_more, demand, compressed = _compressions(table, sections, plane, area)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        psi = np.where(compressed, sigma2 / sigma1, 1.0)
+    part = (sections, None)
+    k = plate_coefficient(table.kind[part], psi, free_more)
+    per = (slice(None), None, None)
+    critical = elastic_plate_stress(k, E[per], nu[per], table.thickness[part], table.width[part])
+    reduced = reduced_allowable(allowable[per], critical, yield_strength, safety_factor)
+    utilization = np.where(compressed, demand / reduced, -np.inf)
+    return PlateNumbers(compressed, psi, k, critical, reduced, demand, utilization)
+
+
+def local_utilizations(table: WallTable, actions: np.ndarray, area: Any, Iz: Any, Iy: Any, Iyz: Any, E: Any, nu: Any,
+                       yield_strength: float | None, allowable: Any, safety_factor: float,
+                       block_values: int = BLOCK_VALUES) -> tuple[np.ndarray, np.ndarray]:
+    """Largest local utilization of each section (S,) over rows and walls, and the row where it is
+    (S,) int; 0.0 and row -1 where no wall is ever in compression (or the section has no walls).
+
+    actions: (K, 6) rows shared by every section, or (S, K, 6), section axes (N, N*m); area, Iz, Iy,
+    Iyz (S,) (m^2, m^4); E, nu and the allowable F (Pa) scalars or (S,); yield_strength Fy (Pa) or
+    None; safety_factor SF. Same numbers as local_check at the same rows. Blocks of sections and
+    rows keep at most `block_values` (section, row, wall) values at once."""
+    count, walls = table.mask.shape
+    actions = np.asarray(actions, dtype=float)
+    rows = actions.shape[-2]
+    if actions.ndim == 2:
+        actions = np.broadcast_to(actions, (count, rows, 6))
+    scalars = [np.broadcast_to(np.asarray(v, dtype=float), (count,)) for v in (area, Iz, Iy, Iyz, E, nu, allowable)]
+    best, where = np.full(count, -np.inf), np.full(count, -1, dtype=np.int64)
+    row_block = max(1, min(rows, block_values // walls))
+    section_block = max(1, block_values // (row_block * walls))
+    for start in range(0, count, section_block):
+        sections = slice(start, min(start + section_block, count))
+        a, iz, iy, iyz, e, n, f = (v[sections] for v in scalars)
+        for first in range(0, rows, row_block):
+            plane = stress_plane(actions[sections, first:first + row_block], a[:, None], iz[:, None], iy[:, None], iyz[:, None])
+            found = _plate_numbers(table, sections, plane, a, e, n, yield_strength, f, safety_factor).utilization.max(axis=2)
+            at = found.argmax(axis=1)
+            value = found[np.arange(len(at)), at]
+            better = value > best[sections]
+            best[sections] = np.where(better, value, best[sections])
+            where[sections] = np.where(better, first + at, where[sections])
+    return np.where(np.isfinite(best), best, 0.0), np.where(np.isfinite(best), where, -1)
+
+
+# ----------------------------------------------------------------------------------------------
+# the check of one section
+
+def local_check(design: Design, actions: np.ndarray, xs: np.ndarray, names: Sequence[str]) -> CheckResult:
+    """The local check of the design's section: actions (C, S, 6) in section axes at stations xs (S,)
+    (m) of combinations `names`. The governing wall's demand, allowable and place; extra holds
+    critical_stress (Pa) and element (the wall's name)."""
+    reason = no_walls_reason(design.spec.shape)
+    if reason:
+        return CheckResult("local", None, detail=reason)
+    props = design.props
+    table = _table([section_walls(design.spec, props.centroid)])
+    rows = np.asarray(actions, dtype=float).reshape(1, -1, 6)
+    area = np.array([props.area])
+    plane = stress_plane(rows, area[:, None], props.Iz, props.Iy, props.Iyz)
+    if not _compressions(table, slice(0, 1), plane, area)[4].any():
+        return CheckResult("local", None, detail="no compression in any wall")
+    E, nu, F = design.material.elastic_modulus, poisson_ratio(design), wall_allowable(design)
+    safety_factor, yield_strength = design.member.checks.buckling_safety_factor, design.material.yield_strength
+    numbers = _plate_numbers(table, slice(0, 1), plane, area, np.array([E]), np.array([nu]), yield_strength,
+                             np.array([F]), safety_factor)
+    _, row, w = np.unravel_index(int(np.argmax(numbers.utilization)), numbers.utilization.shape)
+    c, s = divmod(int(row), len(xs))
+    pick = (0, row, w)
+    critical, reduced = float(numbers.critical[pick]), float(numbers.allowable[pick])
+    wall = table.names[0][w]
+    detail = (f"{wall}, k = {numbers.k[pick]:.3g} (psi = {numbers.psi[pick]:.2f}), sigma_cr = {critical / 1e6:.4g} MPa, "
+              f"allowable {reduced / 1e6:.4g} MPa ({_governing_term(F, critical, yield_strength, safety_factor)}, SF {safety_factor:g})")
+    return CheckResult("local", float(numbers.utilization[pick]), float(numbers.demand[pick]), reduced, float(xs[s]), names[c],
+                       detail=detail, extra={"critical_stress": critical, "element": wall})
+
+
+def _governing_term(allowable: float, critical: float, yield_strength: float | None, safety_factor: float) -> str:
+    """Which term of F_red = min(F, F sigma_J / Fy, sigma_cr / SF) governs, in words."""
+    terms = {"not reduced": allowable, "sigma_cr / SF": critical / safety_factor}
+    if yield_strength:
+        terms["Johnson"] = allowable * float(johnson(critical, yield_strength)) / yield_strength
+    return min(terms, key=terms.get)
