@@ -32,8 +32,9 @@ sectionproperties' drawing); names ("top", "+z side") refer to the section as dr
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 from dataclasses import dataclass
-from typing import Any, Sequence
+from typing import Any
 
 import numpy as np
 
@@ -41,6 +42,7 @@ from sizer.checks.reduction import johnson, reduced_allowable
 from sizer.checks.results import ZERO_ACTION, CheckResult
 from sizer.design import Design
 from sizer.errors import InputError
+from sizer.model import Material
 
 INTERNAL, OUTSTAND = "internal", "outstand"
 PSI_LOWEST_INTERNAL = -3.0  # below: k grows, so the clamp is on the safe side
@@ -90,7 +92,7 @@ def section_walls(spec: Any, centroid: Point) -> list[Wall]:
     if builder is None:
         return []
     cy, cz = centroid
-    return [Wall(w.name, w.kind, (w.supported[0] + cy, w.supported[1] - cz), (w.far[0] - cy, w.far[1] - cz),
+    return [Wall(w.name, w.kind, (w.supported[0] - cy, w.supported[1] - cz), (w.far[0] - cy, w.far[1] - cz),
                  w.across, w.thickness, w.width) for w in builder(spec.dims)]
 
 
@@ -184,23 +186,23 @@ def elastic_plate_stress(k: Any, E: Any, nu: Any, t: Any, b: Any) -> Any:
     return k * math.pi**2 * E / (12.0 * (1.0 - nu * nu)) * (t / b) ** 2
 
 
-def poisson_ratio(design: Design) -> float:
-    """nu = E / (2 G) - 1 of the design's material; bad input outside 0 to 0.5."""
-    material = design.material
+def poisson_ratio(material: Material, file: str = "") -> float:
+    """nu = E / (2 G) - 1 of `material`; bad input outside 0 to 0.5 (`file`: where the material was
+    named, for the message when the material has no file of its own)."""
     nu = material.elastic_modulus / (2.0 * material.shear_modulus) - 1.0
     if not 0.0 <= nu < 0.5:
-        raise InputError(material.source or design.member.source, f"materials.{material.name}.shear_modulus",
+        raise InputError(material.source or file, f"materials.{material.name}.shear_modulus",
                          f"E / (2 G) - 1 gives Poisson's ratio {nu:.3g}, outside 0 to 0.5; the local check needs it",
                          "check elastic_modulus and shear_modulus (steel: 200 GPa and 77 GPa), or give poisson_ratio")
     return nu
 
 
-def wall_allowable(design: Design) -> float:
-    """F: the larger of the compression and bending allowables given (Pa); bad input when neither is."""
-    allowable, material = design.material.allowable, design.material
-    given = [value for value in (allowable.compression, allowable.bending) if value is not None]
+def wall_allowable(material: Material, file: str = "") -> float:
+    """F: the larger of the compression and bending allowables given (Pa); bad input when neither is
+    (`file` as for poisson_ratio)."""
+    given = [value for value in (material.allowable.compression, material.allowable.bending) if value is not None]
     if not given:
-        raise InputError(material.source or design.member.source, f"materials.{material.name}.allowable.compression",
+        raise InputError(material.source or file, f"materials.{material.name}.allowable.compression",
                          "the local check needs the 'compression' or 'bending' allowable stress, and neither is given",
                          f'add compression = "... MPa" and bending = "... MPa" from your governing code under [materials.{material.name}.allowable]')
     return max(given)
@@ -232,7 +234,7 @@ class WallStresses:
 
 def wall_stresses(walls: Sequence[Wall], actions: np.ndarray, area: float, Iz: float, Iy: float, Iyz: float) -> WallStresses:
     """Compressions in `walls` (..., n_walls) for actions (..., 6) in section axes."""
-    table = _table([list(walls)])
+    table = table_of_walls([list(walls)])
     plane = stress_plane(actions, area, Iz, Iy, Iyz)[..., None, :]  # (..., 1, 3)
     supported, far, gradient = _edge_compressions(table.supported[0], table.far[0], table.across[0], plane)
     return WallStresses(supported, far, _corner_peak(supported, far, gradient, table.thickness[0]))
@@ -275,10 +277,10 @@ class WallTable:
 
 def wall_table(specs: Sequence[Any], centroids: Sequence[Point] | np.ndarray) -> WallTable:
     """The WallTable of `specs` with their centroids (y, z) from the bounding-box centre (m)."""
-    return _table([section_walls(spec, (float(c[0]), float(c[1]))) for spec, c in zip(specs, centroids)])
+    return table_of_walls([section_walls(spec, (float(c[0]), float(c[1]))) for spec, c in zip(specs, centroids)])
 
 
-def _table(sections: list[list[Wall]]) -> WallTable:
+def table_of_walls(sections: list[list[Wall]]) -> WallTable:
     count, most = len(sections), max([1] + [len(walls) for walls in sections])
     kind = np.full((count, most), INTERNAL, dtype=object)
     supported, far, across = (np.zeros((count, most, 2)) for _ in range(3))
@@ -374,14 +376,15 @@ def local_check(design: Design, actions: np.ndarray, xs: np.ndarray, names: Sequ
     if reason:
         return CheckResult("local", None, detail=reason)
     props = design.props
-    table = _table([section_walls(design.spec, props.centroid)])
+    table = table_of_walls([section_walls(design.spec, props.centroid)])
     rows = np.asarray(actions, dtype=float).reshape(1, -1, 6)
     area = np.array([props.area])
     plane = stress_plane(rows, area[:, None], props.Iz, props.Iy, props.Iyz)
     if not _compressions(table, slice(0, 1), plane, area)[4].any():
         return CheckResult("local", None, detail="no compression in any wall")
-    E, nu, F = design.material.elastic_modulus, poisson_ratio(design), wall_allowable(design)
-    safety_factor, yield_strength = design.member.checks.buckling_safety_factor, design.material.yield_strength
+    material, file = design.material, design.member.source
+    E, nu, F = material.elastic_modulus, poisson_ratio(material, file), wall_allowable(material, file)
+    safety_factor, yield_strength = design.member.checks.buckling_safety_factor, material.yield_strength
     numbers = _plate_numbers(table, slice(0, 1), plane, area, np.array([E]), np.array([nu]), yield_strength,
                              np.array([F]), safety_factor)
     _, row, w = np.unravel_index(int(np.argmax(numbers.utilization)), numbers.utilization.shape)
