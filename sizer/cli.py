@@ -116,6 +116,8 @@ def _mount_optional_commands() -> None:
     from sizer.cli_sections import app as sections_app
 
     app.add_typer(sections_app, name="sections", help="Keep the catalogue: list, show, add, build, import.")
+    from sizer.cli_many import register
+    register(app)
 
 
 _mount_optional_commands()

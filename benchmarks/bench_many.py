@@ -1,0 +1,149 @@
+"""Speed figures for `sizer schedule` and `sizer span-table` (a plain script; not part of the test suite).
+
+    .venv/bin/python benchmarks/bench_many.py [--workdir DIR] [--members 200] [--spans 20] [--jobs 2]
+
+Writes a schedule of generated members (invented floor beams: each its own span, loads and support
+layout; two in three sized against the shipped catalogue, the rest checked) into a temporary folder
+(or DIR), then prints, for the command line as a user runs it (subprocess, wall time, the kept rows
+of earlier runs removed first so every row is worked out):
+  (a)  `sizer schedule` with --jobs 1
+  (b)  the same with --jobs N (default: every core), and the speed-up (a) / (b)
+  (c)  `sizer span-table` for the whole shipped catalogue, mode "load" at `--spans` spans, with --jobs N,
+       and the full checks it made
+Target (issue 16): (a) / (b) >= 1.8 on 2 cores.
+The section cache is the user's (or SIZER_CACHE_DIR); run once to warm it if the catalogue is new there.
+"""
+
+from __future__ import annotations
+
+import argparse
+import json
+import os
+import shutil
+import subprocess
+import sys
+import tempfile
+import time
+from pathlib import Path
+
+VENV_BIN = Path(sys.executable).parent
+SIZER = str(VENV_BIN / "sizer")
+
+
+def member_text(index: int) -> str:
+    """An invented floor beam: span 2.5 to 7.4 m, a propped end or an overhang on some, two cases."""
+    length = 2.5 + (index * 37 % 50) / 10
+    dead = 0.6 + (index % 7) * 0.15
+    imposed = 1.5 + (index % 11) * 0.4
+    end = length if index % 3 else length * 0.85
+    section = '\nsection = "IPE 240"' if index % 3 == 0 else ""
+    return f"""title = "Generated floor beam {index} (invented)"
+[member]
+length = "{length:.2f} m"
+material = "mild-steel"{section}
+
+[[supports]]
+at = "0 m"
+type = "pin"
+[[supports]]
+at = "{end:.3f} m"
+type = "roller"
+
+[[restraints]]
+from = "0 m"
+to = "{length:.2f} m"
+hold = ["lateral", "twist"]
+height = "top"
+
+[[loads]]
+type = "line"
+case = "dead"
+wy = "-{dead:.2f} kN/m"
+[[loads]]
+type = "line"
+case = "imposed"
+wy = "-{imposed:.2f} kN/m"
+[[loads]]
+type = "point"
+case = "imposed"
+at = "{length / 2:.3f} m"
+fy = "-{1 + index % 5} kN"
+
+[combinations]
+"dead + imposed" = {{ dead = 1.0, imposed = 1.0 }}
+
+[checks]
+deflection_limit = 300
+"""
+
+
+SPAN_TABLE = """title = "Benchmark: the shipped catalogue as simply supported floor beams"
+[span_table]
+layout = "simple"
+material = "mild-steel"
+restraint = "continuous"
+mode = "load"
+lengths = [{lengths}]
+[span_table.checks]
+deflection_limit = 360
+"""
+
+
+def write_schedule(folder: Path, members: int) -> Path:
+    (folder / "members").mkdir(parents=True, exist_ok=True)
+    rows = []
+    for index in range(members):
+        (folder / "members" / f"m{index:03d}.toml").write_text(member_text(index))
+        rows.append(f'[[members]]\nmark = "M{index:03d}"\nfile = "members/m{index:03d}.toml"\nquantity = {1 + index % 4}\n')
+    path = folder / "schedule.toml"
+    path.write_text('title = "Benchmark schedule (invented)"\n' + "".join(rows))
+    return path
+
+
+def forget_kept_rows() -> None:
+    from sizer.files import cache_root
+    from sizer.parallel import RUNS_FOLDER
+
+    shutil.rmtree(cache_root() / RUNS_FOLDER, ignore_errors=True)
+
+
+def timed(arguments: list[str]) -> tuple[float, dict]:
+    """Wall time of one `sizer` run (kept rows removed first) and its JSON document."""
+    forget_kept_rows()
+    start = time.perf_counter()
+    done = subprocess.run([SIZER, *arguments, "--json"], capture_output=True, text=True, env={**os.environ, "OPENBLAS_NUM_THREADS": "1"})
+    elapsed = time.perf_counter() - start
+    if done.returncode not in (0, 1):
+        sys.exit(f"sizer failed ({done.returncode}): {done.stderr.strip()}")
+    return elapsed, json.loads(done.stdout)
+
+
+def main() -> None:
+    parser = argparse.ArgumentParser(description=__doc__.split("\n")[0])
+    parser.add_argument("--workdir", type=Path)
+    parser.add_argument("--members", type=int, default=200)
+    parser.add_argument("--spans", type=int, default=20)
+    parser.add_argument("--jobs", type=int, default=os.cpu_count() or 2)
+    options = parser.parse_args()
+    folder = options.workdir or Path(tempfile.mkdtemp(prefix="sizer-bench-many-"))
+    schedule = write_schedule(folder, options.members)
+    print(f"workdir {folder}; {options.members} members; {options.jobs} jobs; cores {os.cpu_count()}")
+
+    one, document = timed(["schedule", str(schedule), "--jobs", "1"])
+    sized = sum(row["do"] == "size" for row in document["members"])
+    print(f"(a) schedule --jobs 1:  {one:7.1f} s  ({sized} sized, {len(document['members']) - sized} checked)")
+    many, again = timed(["schedule", str(schedule), "--jobs", str(options.jobs)])
+    same = [(r["section"], r["utilization"]) for r in document["members"]] == [(r["section"], r["utilization"]) for r in again["members"]]
+    print(f"(b) schedule --jobs {options.jobs}:  {many:7.1f} s  speed-up {one / many:.2f} (target >= 1.8); rows identical: {same}")
+
+    table = folder / "span_table.toml"
+    table.write_text(SPAN_TABLE.format(lengths=", ".join(f'"{1 + 0.5 * k:g} m"' for k in range(options.spans))))
+    seconds, spans = timed(["span-table", str(table), "--jobs", str(options.jobs)])
+    cells = sum(len(entry["rows"]) for entry in spans["sections"])
+    checks = sum(row["checks_made"] for entry in spans["sections"] for row in entry["rows"])
+    print(f"(c) span-table, {len(spans['sections'])} sections x {options.spans} spans = {cells} cells: {seconds:7.1f} s "
+          f"({checks} full checks, {checks / cells:.1f} per cell, {seconds / checks * 1e3 * options.jobs:.1f} ms per check per core)")
+
+
+if __name__ == "__main__":
+    main()

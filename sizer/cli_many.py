@@ -1,0 +1,146 @@
+"""`sizer schedule` and `sizer span-table`: many members or many cells in one run, on the local cores
+(--jobs) or on a Dask cluster (--cluster). Thin typer layer; the work is in sizer.schedule,
+sizer.span_table and sizer.parallel, the output in sizer.render.schedule."""
+
+from __future__ import annotations
+
+import sys
+from pathlib import Path
+from typing import List, Optional
+
+import typer
+
+from sizer.cli_common import run_guarded
+from sizer.errors import InputError
+
+CATALOGUE_OPTION = typer.Option(None, "--catalogue", help="Catalogue file or folder; may repeat.")
+JOBS_OPTION = typer.Option(None, "--jobs", help="Local processes to use (default: every core).", show_default=False)
+CLUSTER_OPTION = typer.Option(None, "--cluster", help="Run on the Dask scheduler at this address, e.g. tcp://10.0.0.5:8786 "
+                              "(pip install 'sizer[cluster]'; the workers need sizer installed).")
+JSON_OPTION = typer.Option(False, "--json", help="JSON in SI base units on stdout.")
+CSV_OPTION = typer.Option(None, "--csv", help="Also write the rows as CSV (SI base units) to this file.")
+
+
+def register(app: typer.Typer) -> None:
+    """Add the commands to the main app."""
+    app.command(name="schedule")(schedule)
+    app.command(name="span-table")(span_table)
+
+
+def _check_output(path: Optional[Path], suffixes: tuple[str, ...], option: str) -> None:
+    if path is not None and path.suffix.lower() not in suffixes:
+        raise InputError("", option, f"cannot write {str(path)!r}: the file name must end in {' or '.join(suffixes)}",
+                         f"give a name such as out{suffixes[0]}")
+
+
+def schedule(
+    file: Path = typer.Argument(..., help="Schedule file (TOML, or CSV with a header row).", show_default=False),
+    catalogue: Optional[List[Path]] = CATALOGUE_OPTION,
+    jobs: Optional[int] = JOBS_OPTION,
+    cluster: Optional[str] = CLUSTER_OPTION,
+    keep_going: bool = typer.Option(False, "--keep-going", help="Run the good rows when some are bad; list the bad ones at the end (exit 2)."),
+    json_output: bool = JSON_OPTION,
+    csv_out: Optional[Path] = CSV_OPTION,
+    out: Optional[Path] = typer.Option(None, "-o", "--out", help="Write an HTML record of the schedule, linking each member's calculation record."),
+) -> None:
+    """Size or check every member of a schedule: one table, totals by section, the cautions.
+    Exit 0 all pass, 1 a member fails, 2 bad input."""
+
+    def work() -> int:
+        return run_schedule_command(file, catalogue or [], jobs, cluster, keep_going, json_output, csv_out, out)
+
+    run_guarded(work)
+
+
+def span_table(
+    file: Path = typer.Argument(..., help="Span-table file (TOML).", show_default=False),
+    catalogue: Optional[List[Path]] = CATALOGUE_OPTION,
+    family: Optional[List[str]] = typer.Option(None, "--family", help="Only sections of this family; may repeat."),
+    jobs: Optional[int] = JOBS_OPTION,
+    cluster: Optional[str] = CLUSTER_OPTION,
+    json_output: bool = JSON_OPTION,
+    csv_out: Optional[Path] = CSV_OPTION,
+    plot: Optional[Path] = typer.Option(None, "--plot", help="Draw load against span, one curve per section, to a PNG or SVG file."),
+) -> None:
+    """For each catalogue section, the longest span for each load, or the largest load at each span,
+    found on the full check. Exit 0 done, 2 bad input."""
+
+    def work() -> int:
+        return run_span_table_command(file, catalogue or [], family or [], jobs, cluster, json_output, csv_out, plot)
+
+    run_guarded(work)
+
+
+# ----------------------------------------------------------------------------------------------
+# bodies
+
+def run_schedule_command(file: Path, catalogue: list[Path], jobs: int | None, cluster: str | None, keep_going: bool,
+                         json_output: bool, csv_out: Path | None, out: Path | None) -> int:
+    """Read, run, then write every output; exit 2 with bad rows (--keep-going), else 1 when a member fails."""
+    from sizer.render.common import console, dumps
+    from sizer.render.schedule import schedule_csv, schedule_renderables
+    from sizer.schedule import read_schedule, run_schedule, schedule_json
+
+    _check_output(csv_out, (".csv",), "--csv")
+    _check_output(out, (".html", ".htm"), "-o")
+    plan = read_schedule(file)
+    result = run_schedule(plan, catalogue, jobs, cluster, keep_going, record=out is not None)
+    document = schedule_json(result)
+    if csv_out is not None:
+        _write(csv_out, schedule_csv(document))
+    if out is not None:
+        _write_schedule_record(out, document, result.records)
+    if json_output:
+        sys.stdout.write(dumps(document) + "\n")
+    else:
+        terminal = console()
+        for part in schedule_renderables(document):
+            terminal.print(part)
+    if result.errors:
+        return 2
+    return 0 if document["totals"]["passes"] else 1
+
+
+def _write(path: Path, text: str) -> None:
+    from sizer.files import write_atomic
+
+    write_atomic(path, text)
+
+
+def _write_schedule_record(out: Path, document: dict, records: dict[str, str]) -> None:
+    """OUT.html and, beside it in OUT_records/, each member's calculation record."""
+    from sizer.render.schedule import record_names, schedule_html
+
+    folder = out.with_name(out.stem + "_records")
+    names = record_names([row["mark"] for row in document["members"] if row["mark"] in records])
+    for mark, name in names.items():
+        _write(folder / name, records[mark])
+    _write(out, schedule_html(document, {mark: f"{folder.name}/{name}" for mark, name in names.items()}))
+
+
+def run_span_table_command(file: Path, catalogue: list[Path], families: list[str], jobs: int | None, cluster: str | None,
+                           json_output: bool, csv_out: Path | None, plot: Path | None) -> int:
+    """Read, run every cell, then write every output; exit 0 (a span table has nothing to fail)."""
+    from sizer.render.common import console, dumps
+    from sizer.render.schedule import span_table_csv, span_table_document, span_table_renderables, write_span_plot
+    from sizer.span_table import read_span_table, run_span_table
+
+    _check_output(csv_out, (".csv",), "--csv")
+    if plot is not None:
+        from sizer.render.plots import check_plot_path
+
+        check_plot_path(plot)
+    spec = read_span_table(file)
+    result = run_span_table(spec, catalogue, families, jobs, cluster)
+    document = span_table_document(spec.title, spec.mode, result.sections, result.notes, spec.resolution)
+    if csv_out is not None:
+        _write(csv_out, span_table_csv(document))
+    if plot is not None:
+        write_span_plot(document, plot)
+    if json_output:
+        sys.stdout.write(dumps(document) + "\n")
+    else:
+        terminal = console()
+        for part in span_table_renderables(document, terminal.width):
+            terminal.print(part)
+    return 0

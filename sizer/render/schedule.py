@@ -1,0 +1,334 @@
+"""Output of `sizer schedule` and `sizer span-table`: terminal tables, JSON, CSV, the schedule's HTML
+record (linking each member's own calculation record) and the span-table plot.
+
+Everything here works on the JSON documents (plain dicts in SI base units), so every form shows the
+same numbers.
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import math
+import re
+from pathlib import Path
+from typing import Any, Sequence
+
+from sizer import units
+from sizer.render.common import CAUTIONS, cautions_panel, notes_panel
+
+UNITS_NOTE = "SI base units (m, N, N*m, Pa, kg/m, kg)"
+SCHEDULE_CSV_COLUMNS = (("mark", "mark"), ("file", "file"), ("do", "do"), ("section", "section"), ("passes", "passes"),
+                        ("utilization", "utilization"), ("governing", "governing"), ("mass_per_length", "mass_per_length_kg_per_m"),
+                        ("quantity", "quantity"), ("length", "length_m"), ("total_mass", "total_mass_kg"))
+CHECK_SHORT = {"axial": "axial", "bending": "bend", "interaction": "inter", "shear": "shear", "equivalent": "equiv",
+               "deflection": "defl", "buckling": "buck", "lateral-torsional": "LTB", "local": "local"}
+
+
+# ----------------------------------------------------------------------------------------------
+# schedule: documents
+
+def schedule_document(title: str, rows: list[dict], totals: dict, errors: list[dict], notes: list[str]) -> dict:
+    """SPEC section 11 `schedule` document: members, totals, bad rows, assumptions and cautions."""
+    return {"title": title, "members": rows, "totals": totals, "bad_rows": errors, "units": UNITS_NOTE,
+            "assumptions": notes, "cautions": list(CAUTIONS)}
+
+
+def schedule_csv(document: dict) -> str:
+    """One line per member (SI base units; the column names carry the units), then the cautions as
+    comment lines."""
+    out = io.StringIO()
+    writer = csv.writer(out, lineterminator="\n")
+    writer.writerow([header for _, header in SCHEDULE_CSV_COLUMNS])
+    for row in document["members"]:
+        writer.writerow(["" if row[key] is None else _csv_value(row[key]) for key, _ in SCHEDULE_CSV_COLUMNS])
+    for error in document["bad_rows"]:
+        writer.writerow([error["mark"], "", "", "", "", "", f"bad input: {error['message']}"])
+    for caution in CAUTIONS:
+        writer.writerow([f"# {caution}"])
+    return out.getvalue()
+
+
+def _csv_value(value: Any) -> Any:
+    return repr(value) if isinstance(value, float) else value
+
+
+# ----------------------------------------------------------------------------------------------
+# schedule: terminal
+
+def schedule_renderables(document: dict) -> list[Any]:
+    """The members table, totals by section, bad rows, assumptions and cautions."""
+    from rich.text import Text
+
+    parts: list[Any] = [Text(document["title"] or "Schedule", style="bold"), _members_table(document["members"]), _totals_table(document["totals"])]
+    totals = document["totals"]
+    parts.append(Text("Every member passes." if totals["passes"] else f"FAILING: {', '.join(totals['failing'])}.", style="bold"))
+    if document["bad_rows"]:
+        parts.append(notes_panel([error["message"] for error in document["bad_rows"]], "Bad rows (not run)"))
+    parts.append(notes_panel(shown_notes(document["members"], document["assumptions"])))
+    parts.append(cautions_panel())
+    return parts
+
+
+def shown_notes(rows: list[dict], run_notes: list[str], every_member: bool = False) -> list[str]:
+    """The assumptions once each: those every member shares, the schedule's own (overrides), the run's;
+    with `every_member`, each member's own too (marked). Without it, a last line says where they are."""
+    shared = set.intersection(*(set(row["assumptions"]) for row in rows)) if rows else set()
+    notes = [note for note in rows[0]["assumptions"] if note in shared] if rows else []
+    for row in rows:
+        own = [note for note in row["assumptions"] if note not in shared]
+        marked = [note for note in own if note.startswith(f"{row['mark']}: ")]
+        notes += marked + ([f"{row['mark']}: {note}" for note in own if note not in marked] if every_member else [])
+    if not every_member and rows:
+        notes.append("Each member's own assumptions (its section and self-weight, supports and restraints for stability, deflection "
+                     "limits, stations and mesh) are listed with it in --json and in its calculation record (-o).")
+    return list(dict.fromkeys(notes + run_notes))
+
+
+def _members_table(rows: list[dict]) -> Any:
+    from rich import box
+    from rich.table import Table
+
+    table = Table(title="Members", title_justify="left", header_style="bold", box=box.SIMPLE_HEAD, pad_edge=False, padding=0, show_edge=False)
+    for name, justify in (("mark", "left"), ("do", "left"), ("section", "left"), ("util.", "right"), ("governing", "left"),
+                          ("verdict", "left"), ("kg/m", "right"), ("qty", "right"), ("length", "right"), ("mass", "right")):
+        table.add_column(name, justify=justify, no_wrap=True, overflow="ellipsis")
+    for row in rows:
+        utilization = row["utilization"]
+        verdict = "ok" if row["passes"] else ("[reverse]none[/]" if row["section"] is None else "[reverse]FAILS[/]")
+        table.add_row(row["mark"], row["do"], row["section"] or "none passes", _utilization_text(utilization),
+                      row["governing"] or "—", verdict, _number(row["mass_per_length"], 1), str(row["quantity"]),
+                      units.fmt(row["length"], "length", digits=3), f"{_number(row['total_mass'], 0)} kg" if row["total_mass"] is not None else "—")
+    return table
+
+
+def _utilization_text(value: float | None) -> str:
+    """The utilization to 3 decimals, emphasised as `sizer check` does where it fails."""
+    from sizer.render.check import utilization_style
+
+    if value is None:
+        return "—"
+    style = utilization_style(value)
+    return f"[{style}]{value:.3f}[/]" if style else f"{value:.3f}"
+
+
+def _totals_table(totals: dict) -> Any:
+    from rich import box
+    from rich.table import Table
+
+    table = Table(title="Totals by section (for ordering)", title_justify="left", header_style="bold", box=box.SIMPLE_HEAD, pad_edge=False)
+    for name, justify in (("section", "left"), ("pieces", "right"), ("total length", "right"), ("mass", "right")):
+        table.add_column(name, justify=justify, no_wrap=True)
+    for entry in totals["by_section"]:
+        table.add_row(entry["section"], str(entry["quantity"]), units.fmt(entry["length"], "length"), f"{_number(entry['mass'], 0)} kg")
+    table.add_row("[bold]all[/]", str(sum(e["quantity"] for e in totals["by_section"])),
+                  units.fmt(sum(e["length"] for e in totals["by_section"]), "length"), f"[bold]{_number(totals['mass'], 0)} kg[/]")
+    return table
+
+
+def _number(value: float | None, decimals: int) -> str:
+    return "—" if value is None else f"{value:,.{decimals}f}"
+
+
+# ----------------------------------------------------------------------------------------------
+# schedule: HTML record
+
+def record_names(marks: Sequence[str]) -> dict[str, str]:
+    """A file name for each member's calculation record (from its mark; unique)."""
+    names: dict[str, str] = {}
+    for index, mark in enumerate(marks, start=1):
+        stem = re.sub(r"[^A-Za-z0-9._-]+", "_", mark).strip("._") or "member"
+        name = f"{stem}.html"
+        if name.lower() in {known.lower() for known in names.values()}:
+            name = f"{stem}-{index}.html"
+        names[mark] = name
+    return names
+
+
+def schedule_html(document: dict, links: dict[str, str]) -> str:
+    """The schedule's HTML record: verdict, cautions, the members (each linking its calculation record
+    where made), totals, bad rows and assumptions; the JSON document embedded whole."""
+    from sizer import __version__
+    from sizer.render.common import dumps
+    from sizer.render.report.markup import STYLE, _e
+
+    title = document["title"] or "Schedule"
+    totals = document["totals"]
+    verdict = ("<div class=\"verdict pass\"><span class=\"word\">ALL PASS</span>every member passes every check</div>" if totals["passes"]
+               else f"<div class=\"verdict fail\"><span class=\"word\">FAILING</span>{_e(', '.join(totals['failing']))}</div>")
+    cautions = "".join(f"<li>{_e(c)}</li>" for c in CAUTIONS)
+    member_rows = "".join(_member_html_row(row, links.get(row["mark"])) for row in document["members"])
+    total_rows = "".join(f"<tr><td>{_e(e['section'])}</td><td class=\"num\">{e['quantity']}</td><td class=\"num\">{_e(units.fmt(e['length'], 'length'))}</td>"
+                         f"<td class=\"num\">{_number(e['mass'], 0)} kg</td></tr>" for e in totals["by_section"])
+    bad = "".join(f"<li>{_e(error['message'])}</li>" for error in document["bad_rows"])
+    notes = "".join(f"<li>{_e(note)}</li>" for note in shown_notes(document["members"], document["assumptions"], every_member=True))
+    data = dumps(document).replace("</", "<\\/")
+    body = (f"<header><h1>Schedule: {_e(title)}</h1><p class=\"meta\">made by sizer {_e(__version__)}</p></header>{verdict}"
+            f"<section class=\"cautions\"><h2>⚠ Cautions</h2><ul>{cautions}</ul></section>"
+            "<h2>Members</h2><table><tr><th>mark</th><th>do</th><th>section</th><th class=\"num\">utilization</th><th>governing</th>"
+            "<th>verdict</th><th class=\"num\">kg/m</th><th class=\"num\">quantity</th><th class=\"num\">length</th><th class=\"num\">mass</th>"
+            f"<th>calculation record</th></tr>{member_rows}</table>"
+            "<h2>Totals by section</h2><table><tr><th>section</th><th class=\"num\">pieces</th><th class=\"num\">total length</th>"
+            f"<th class=\"num\">mass</th></tr>{total_rows}<tr><td><b>all</b></td><td></td><td></td><td class=\"num\"><b>{_number(totals['mass'], 0)} kg</b></td></tr></table>"
+            + (f"<h2>Bad rows (not run)</h2><ul class=\"notes\">{bad}</ul>" if bad else "")
+            + f"<h2>Assumptions</h2><ul class=\"notes\">{notes}</ul>"
+            f"<section class=\"cautions\"><h2>⚠ Cautions</h2><ul>{cautions}</ul></section>"
+            "<footer>The embedded data (id sizer-data) is the <code>sizer schedule --json</code> document in SI base units.</footer>")
+    return ("<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n"
+            f"<title>Schedule: {_e(title)}</title>\n<style>{STYLE}</style>\n</head>\n<body>\n<main>\n{body}\n</main>\n"
+            f"<script type=\"application/json\" id=\"sizer-data\">{data}</script>\n</body>\n</html>\n")
+
+
+def _member_html_row(row: dict, link: str | None) -> str:
+    from sizer.render.report.markup import _e
+
+    utilization = row["utilization"]
+    verdict = ("<td class=\"ok\">passes</td>" if row["passes"]
+               else f"<td class=\"fails\">{'nothing passes' if row['section'] is None else 'FAILS'}</td>")
+    record = f"<a href=\"{_e(link)}\">{_e(link)}</a>" if link else "— (no section passes)" if row["section"] is None else "—"
+    return (f"<tr><td>{_e(row['mark'])}</td><td>{_e(row['do'])}</td><td>{_e(row['section'] or '—')}</td>"
+            f"<td class=\"num\">{f'{utilization:.3f}' if utilization is not None else '—'}</td><td>{_e(row['governing'] or '—')}</td>{verdict}"
+            f"<td class=\"num\">{_number(row['mass_per_length'], 1)}</td><td class=\"num\">{row['quantity']}</td>"
+            f"<td class=\"num\">{_e(units.fmt(row['length'], 'length'))}</td><td class=\"num\">{_number(row['total_mass'], 0)} kg</td><td>{record}</td></tr>")
+
+
+# ----------------------------------------------------------------------------------------------
+# span table
+
+def span_table_document(title: str, mode: str, sections: list[dict], notes: list[str], resolution: float | None) -> dict:
+    """SPEC section 11 `span-table` document; `resolution` (m) is the span step of mode "span"."""
+    return {"title": title, "mode": mode, "resolution": resolution if mode == "span" else None,
+            "sections": [_public_section(entry, mode) for entry in sections], "units": UNITS_NOTE, "assumptions": notes,
+            "cautions": list(CAUTIONS)}
+
+
+def _public_section(entry: dict, mode: str) -> dict:
+    keys = ("load", "kind", "longest_span", "governing", "beyond_limit", "checks_made") if mode == "span" else \
+        ("length", "kind", "largest_load", "governing", "beyond_limit", "checks_made")
+    return {"section": entry["section"], "mass_per_length": entry["mass_per_length"], "rows": [{key: row[key] for key in keys} for row in entry["rows"]]}
+
+
+def _load_text(value: float, kind: str) -> str:
+    return units.fmt(value, "force_per_length" if kind == "line" else "force", digits=3)
+
+
+def _columns(document: dict) -> list[str]:
+    """Column headings: the loads (mode span) or the spans (mode load)."""
+    first = document["sections"][0]["rows"] if document["sections"] else []
+    if document["mode"] == "span":
+        return [_load_text(row["load"], row["kind"]) for row in first]
+    return [units.fmt(row["length"], "length", digits=3) for row in first]
+
+
+def _span_text(value: float, resolution: float) -> str:
+    """A span in m with as many decimals as the resolution needs (10 mm: 2)."""
+    decimals = max(0, math.ceil(-math.log10(resolution) - 1e-9))
+    return f"{value:.{decimals}f} m"
+
+
+def _cell_text(row: dict, mode: str, resolution: float | None) -> str:
+    value = row["longest_span"] if mode == "span" else row["largest_load"]
+    if value is None:
+        return "none"
+    text = _span_text(value, resolution) if mode == "span" else _load_text(value, row["kind"])
+    if row["beyond_limit"]:
+        return "≥ " + text
+    return f"{text} {CHECK_SHORT.get(row['governing'], row['governing'] or '')}"
+
+
+def span_table_renderables(document: dict, width: int = 80) -> list[Any]:
+    """The table (sections down, columns across, split to fit `width`), the key, assumptions, cautions."""
+    from rich import box
+    from rich.table import Table
+    from rich.text import Text
+
+    mode = document["mode"]
+    headings = _columns(document)
+    per_table = max(1, (width - 26) // 17)
+    what = "Longest span for each load" if mode == "span" else "Largest load at each span"
+    parts: list[Any] = [Text(f"{document['title'] or 'Span table'}: {what.lower()}", style="bold")]
+    for first in range(0, len(headings), per_table):
+        shown = range(first, min(first + per_table, len(headings)))
+        table = Table(title=what if first == 0 else None, title_justify="left", header_style="bold", box=box.SIMPLE_HEAD, pad_edge=False)
+        table.add_column("section", no_wrap=True)
+        table.add_column("kg/m", justify="right", no_wrap=True)
+        for k in shown:
+            table.add_column(headings[k], justify="right", no_wrap=True)
+        for entry in document["sections"]:
+            table.add_row(entry["section"], f"{entry['mass_per_length']:.1f}", *(_cell_text(entry["rows"][k], mode, document["resolution"]) for k in shown))
+        parts.append(table)
+    key = ", ".join(f"{short} = {name}" for name, short in CHECK_SHORT.items() if short != name)
+    parts.append(Text(f"After each value: the check that fails just beyond it ({key}); ≥: still passing at the search limit; "
+                      "none: fails even at the smallest step.", style="dim"))
+    parts.append(notes_panel(document["assumptions"]))
+    parts.append(cautions_panel())
+    return parts
+
+
+def span_table_csv(document: dict) -> str:
+    """One line per cell (SI base units in the column names), then the cautions as comment lines."""
+    out = io.StringIO()
+    writer = csv.writer(out, lineterminator="\n")
+    mode = document["mode"]
+    if mode == "span":
+        writer.writerow(["section", "mass_per_length_kg_per_m", "load_kind", "load_N_per_m_or_N", "longest_span_m", "governing", "beyond_limit"])
+    else:
+        writer.writerow(["section", "mass_per_length_kg_per_m", "length_m", "load_kind", "largest_load_N_per_m_or_N", "governing", "beyond_limit"])
+    for entry in document["sections"]:
+        for row in entry["rows"]:
+            found = row["longest_span"] if mode == "span" else row["largest_load"]
+            first = [row["kind"], repr(row["load"])] if mode == "span" else [repr(row["length"]), row["kind"]]
+            writer.writerow([entry["section"], repr(entry["mass_per_length"]), *first, "" if found is None else repr(found),
+                             row["governing"] or "", row["beyond_limit"]])
+    for caution in CAUTIONS:
+        writer.writerow([f"# {caution}"])
+    return out.getvalue()
+
+
+def span_curves(document: dict) -> list[tuple[str, list[float], list[float]]]:
+    """(section, spans in m, load magnitudes in N/m or N) for each section, cells with a value only."""
+    curves = []
+    for entry in document["sections"]:
+        points = [(row["longest_span"], abs(row["load"])) if document["mode"] == "span" else (row["length"], abs(row["largest_load"]))
+                  for row in entry["rows"] if (row["longest_span"] if document["mode"] == "span" else row["largest_load"]) is not None]
+        points.sort()
+        curves.append((entry["section"], [p[0] for p in points], [p[1] for p in points]))
+    return curves
+
+
+def span_plot_bytes(document: dict, image_format: str) -> bytes:
+    """Load against span, one curve per section (matplotlib, imported here)."""
+    import matplotlib
+
+    matplotlib.use("Agg")
+    from matplotlib.figure import Figure
+
+    kinds = {row["kind"] for entry in document["sections"] for row in entry["rows"]}
+    kind = "force_per_length" if kinds == {"line"} else "force" if kinds == {"point"} else None
+    figure = Figure(figsize=(8, 5.5), dpi=120)
+    axes = figure.add_subplot()
+    curves = span_curves(document)
+    palette = matplotlib.colormaps["viridis"]
+    for index, (name, spans, loads) in enumerate(curves):
+        if spans:
+            axes.plot(spans, [units.to_display(v, kind) if kind else v for v in loads], marker="osD^v"[index % 5], markersize=3.5,
+                      linewidth=1.2, color=palette(0.92 * index / max(1, len(curves) - 1)), label=name)
+    axes.set_xlabel("span (m)")
+    axes.set_ylabel(f"load, downward ({units.unit_label(kind)})" if kind else "load, downward (N/m for uniform, N for point loads)")
+    axes.set_title(("Longest span for each load" if document["mode"] == "span" else "Largest load at each span")
+                   + " — every check passes on and below each curve", fontsize=10)
+    axes.grid(True, linewidth=0.4, alpha=0.6)
+    if len(document["sections"]) <= 30:
+        axes.legend(fontsize=7, ncol=2 if len(document["sections"]) > 12 else 1, loc="upper right")
+    figure.text(0.01, 0.005, "Check against the governing code before use; see the cautions in the table's output.", fontsize=7, color="0.35")
+    buffer = io.BytesIO()
+    figure.savefig(buffer, format=image_format, bbox_inches="tight")
+    return buffer.getvalue()
+
+
+def write_span_plot(document: dict, path: Path) -> None:
+    """The span-table plot to a PNG or SVG file (written whole)."""
+    from sizer.files import write_atomic
+    from sizer.render.plots import check_plot_path
+
+    write_atomic(path, span_plot_bytes(document, check_plot_path(path)))
