@@ -372,7 +372,7 @@ def test_missing_allowables_are_bad_input_only_with_compression(tmp_path: Path) 
 
 def test_vectorized_form_equals_the_check_of_each_section(tmp_path: Path) -> None:
     """local_utilizations (blocks of sections and rows, per-section and shared actions) gives each
-    section's local_check utilization and place, on a small mixed catalogue."""
+    section's local_check utilization and place (the first of tied rows), on a small mixed catalogue."""
     designs = [design_of(tmp_path, name) for name in MIXED]
     rng = np.random.default_rng(11)
     xs, names = np.linspace(0.0, 2.0, 5), ("one", "two")
@@ -381,19 +381,24 @@ def test_vectorized_form_equals_the_check_of_each_section(tmp_path: Path) -> Non
     table = wall_table([d.spec for d in designs], [p.centroid for p in props])
     scalars = [np.array([getattr(p, key) for p in props]) for key in ("area", "Iz", "Iy", "Iyz")]
     common = {"E": E, "nu": NU, "yield_strength": FY, "allowable": F, "safety_factor": SF}
-    for rows in (actions.reshape(len(MIXED), -1, 6), actions[0].reshape(-1, 6)):
-        shared = rows.ndim == 2
-        found, at = local_utilizations(table, rows, *scalars, **common, block_values=7)
-        whole, whole_at = local_utilizations(table, rows, *scalars, **common)
-        np.testing.assert_array_equal(at, whole_at)
-        np.testing.assert_allclose(found, whole, rtol=1e-15)
-        for s, design in enumerate(designs):
-            result = local_check(design, actions[0 if shared else s], xs, names)
-            if not result.made:
-                assert found[s] == 0.0 and at[s] == -1
-                continue
-            assert found[s] == pytest.approx(result.utilization, rel=1e-12)
-            assert (names[at[s] // len(xs)], xs[at[s] % len(xs)]) == (result.combination, result.at)
+    tied = 0.1 * actions
+    tied[:, 1, 4] = tied[:, 1, 2] = actions[:, 0, 0]  # the same, largest actions at two stations: the first governs
+    for table_actions in (actions, tied):
+        for rows in (table_actions.reshape(len(MIXED), -1, 6), table_actions[0].reshape(-1, 6)):
+            shared = rows.ndim == 2
+            found, at = local_utilizations(table, rows, *scalars, **common, block_values=7)
+            whole, whole_at = local_utilizations(table, rows, *scalars, **common)
+            np.testing.assert_array_equal(at, whole_at)
+            np.testing.assert_allclose(found, whole, rtol=1e-15)
+            for s, design in enumerate(designs):
+                result = local_check(design, table_actions[0 if shared else s], xs, names)
+                if not result.made:
+                    assert found[s] == 0.0 and at[s] == -1
+                    continue
+                assert found[s] == pytest.approx(result.utilization, rel=1e-12)
+                assert (names[at[s] // len(xs)], xs[at[s] % len(xs)]) == (result.combination, result.at)
+                if table_actions is tied:
+                    assert (result.combination, result.at) == ("two", xs[2])
 
 
 def _synthetic_table() -> tuple:

@@ -48,7 +48,7 @@ INTERNAL, OUTSTAND = "internal", "outstand"
 PSI_LOWEST_INTERNAL = -3.0  # below: k grows, so the clamp is on the safe side
 PSI_LOWEST_FREE_EDGE = -3.0
 PSI_LOWEST_SUPPORTED_EDGE = -1.0
-BLOCK_VALUES = 400_000  # (section, row, wall) values at once: about 15 float64 arrays, under ~50 MB
+BLOCK_VALUES = 200_000  # (section, row, wall) values at once: about 20 float64 arrays of 1.6 MB, ~17 MB at peak
 ASSUMPTIONS = ("Local buckling: each flat wall is a long plate, simply supported where it joins another wall "
                "and free at an outstand's tip, over its clear flat width; k from EN 1993-1-5 Tables 4.1 and 4.2 "
                "for the wall's stress ratio; no restraint from neighbouring walls and no post-buckling reserve.")
@@ -233,27 +233,39 @@ class WallStresses:
 
 
 def wall_stresses(walls: Sequence[Wall], actions: np.ndarray, area: float, Iz: float, Iy: float, Iyz: float) -> WallStresses:
-    """Compressions in `walls` (..., n_walls) for actions (..., 6) in section axes."""
-    table = table_of_walls([list(walls)])
-    plane = stress_plane(actions, area, Iz, Iy, Iyz)[..., None, :]  # (..., 1, 3)
-    supported, far, gradient = _edge_compressions(table.supported[0], table.far[0], table.across[0], plane)
-    return WallStresses(supported, far, _corner_peak(supported, far, gradient, table.thickness[0]))
+    """Compressions in `walls` (..., n_walls) for actions (..., 6) in section axes (the arithmetic
+    local_check and local_utilizations use)."""
+    actions = np.asarray(actions, dtype=float)
+    terms = _wall_terms(table_of_walls([list(walls)]), slice(0, 1), stress_plane(actions.reshape(1, -1, 6), area, Iz, Iy, Iyz))
+    shape = actions.shape[:-1] + (len(walls),)
+    edges = (terms.middle + terms.spread, terms.middle - terms.spread, terms.peak)
+    return WallStresses(*(values.reshape(shape) for values in edges))
 
 
-def _edge_compressions(supported: np.ndarray, far: np.ndarray, across: np.ndarray, plane: np.ndarray) -> tuple[np.ndarray, ...]:
-    """Compression at the supported and far edges, and the compression gradient through the thickness
-    (Pa/m along `across`); points (..., W, 2), plane (..., 1, 3)."""
-    c0, a, b = plane[..., 0], plane[..., 1], plane[..., 2]
-    at_supported = -(c0 + a * supported[..., 0] + b * supported[..., 1])
-    at_far = -(c0 + a * far[..., 0] + b * far[..., 1])
-    gradient = a * across[..., 0] + b * across[..., 1]
-    return at_supported, at_far, gradient
+@dataclass(frozen=True)
+class WallTerms:
+    """Compression (Pa) in the walls of a block of sections (sections, rows, walls), at mid-thickness:
+    `middle` at the middle of the wall's width, the supported edge middle + spread and the far edge
+    middle - spread; sigma1 = middle + |spread| the larger edge; peak = sigma1 + |through-thickness
+    gradient| t / 2, the largest over the four corners (the stress is linear, so it peaks at a corner)."""
+
+    middle: np.ndarray
+    spread: np.ndarray
+    sigma1: np.ndarray
+    peak: np.ndarray
 
 
-def _corner_peak(supported: np.ndarray, far: np.ndarray, gradient: np.ndarray, thickness: np.ndarray) -> np.ndarray:
-    """Peak compression over a wall's four corners: the more compressed edge plus the through-thickness
-    gradient over half the thickness (the stress is linear, so the peak is at a corner)."""
-    return np.maximum(supported, far) + np.abs(gradient) * thickness / 2.0
+def _wall_terms(table: WallTable, sections: slice, plane: np.ndarray) -> WallTerms:
+    """WallTerms of table rows `sections` under plane (Sb, K, 3)."""
+    part = (sections, None)
+    centre = (table.supported[part] + table.far[part]) / 2.0
+    back = (table.far[part] - table.supported[part]) / 2.0  # minus half the width vector: compression, not tension
+    c0, a, b = plane[..., 0:1], plane[..., 1:2], plane[..., 2:3]
+    middle = -c0 - a * centre[..., 0] - b * centre[..., 1]
+    spread = a * back[..., 0] + b * back[..., 1]
+    gradient = np.abs(a * table.across[part][..., 0] + b * table.across[part][..., 1])
+    sigma1 = middle + np.abs(spread)
+    return WallTerms(middle, spread, sigma1, sigma1 + gradient * (table.thickness[part] / 2.0))
 
 
 # ----------------------------------------------------------------------------------------------
@@ -281,6 +293,7 @@ def wall_table(specs: Sequence[Any], centroids: Sequence[Point] | np.ndarray) ->
 
 
 def table_of_walls(sections: list[list[Wall]]) -> WallTable:
+    """The WallTable of each section's walls (an empty list for a section without walls)."""
     count, most = len(sections), max([1] + [len(walls) for walls in sections])
     kind = np.full((count, most), INTERNAL, dtype=object)
     supported, far, across = (np.zeros((count, most, 2)) for _ in range(3))
@@ -307,41 +320,73 @@ class PlateNumbers:
     utilization: np.ndarray  # demand / F_red where compressed, else -inf
 
 
-def _compressions(table: WallTable, sections: slice, plane: np.ndarray, area: np.ndarray) -> tuple[np.ndarray, ...]:
-    """(sigma1, sigma2, free edge more compressed, demand, compressed) for plane (Sb, K, 3)."""
-    part = (sections, None)
-    supported, far, gradient = _edge_compressions(table.supported[part], table.far[part], table.across[part], plane[..., None, :])
-    sigma1 = np.maximum(supported, far)
-    demand = _corner_peak(supported, far, gradient, table.thickness[part])
-    compressed = table.mask[part] & (sigma1 * area[:, None, None] > ZERO_ACTION)
-    return sigma1, np.minimum(supported, far), far >= supported, demand, compressed
+def _compressed(table: WallTable, sections: slice, terms: WallTerms, area: np.ndarray) -> np.ndarray:
+    """(Sb, K, W) True for a real wall whose larger edge compression x the area exceeds ZERO_ACTION."""
+    return table.mask[sections, None] & (terms.sigma1 > (ZERO_ACTION / area)[:, None, None])
 
 
-def _plate_numbers(table: WallTable, sections: slice, plane: np.ndarray, area: np.ndarray, E: np.ndarray, nu: np.ndarray,
-                   yield_strength: float | None, allowable: np.ndarray, safety_factor: float) -> PlateNumbers:
-    """PlateNumbers of table rows `sections` under plane (Sb, K, 3); per-section arrays (Sb,)."""
-    sigma1, sigma2, free_more, demand, compressed = _compressions(table, sections, plane, area)
+def _plate_values(kind: np.ndarray, middle: np.ndarray, spread: np.ndarray, demand: np.ndarray, thickness: np.ndarray,
+                  width: np.ndarray, E: Any, nu: Any, allowable: Any, yield_strength: float | None,
+                  safety_factor: float) -> tuple[np.ndarray, ...]:
+    """(psi, k, sigma_cr, F_red, utilization) elementwise for compressed walls: the one formula the
+    check and the screen both use. psi = (middle - |spread|) / (middle + |spread|); the free edge is the
+    more compressed (or equal) where spread <= 0."""
+    larger = middle + np.abs(spread)
     with np.errstate(divide="ignore", invalid="ignore"):
-        psi = np.where(compressed, sigma2 / sigma1, 1.0)
-    part = (sections, None)
-    k = plate_coefficient(table.kind[part], psi, free_more)
-    per = (slice(None), None, None)
-    critical = elastic_plate_stress(k, E[per], nu[per], table.thickness[part], table.width[part])
-    reduced = reduced_allowable(allowable[per], critical, yield_strength, safety_factor)
-    utilization = np.where(compressed, demand / reduced, -np.inf)
-    return PlateNumbers(compressed, psi, k, critical, reduced, demand, utilization)
+        psi = (middle - np.abs(spread)) / larger
+    k = plate_coefficient(kind, psi, spread <= 0.0)
+    critical = elastic_plate_stress(k, E, nu, thickness, width)
+    reduced = reduced_allowable(allowable, critical, yield_strength, safety_factor)
+    return psi, k, critical, reduced, demand / reduced
+
+
+def _plate_numbers(table: WallTable, sections: slice, terms: WallTerms, compressed: np.ndarray, E: np.ndarray, nu: np.ndarray,
+                   yield_strength: float | None, allowable: np.ndarray, safety_factor: float) -> PlateNumbers:
+    """PlateNumbers of table rows `sections` from their WallTerms and compressed walls; per-section arrays (Sb,)."""
+    part, per = (sections, None), (slice(None), None, None)
+    psi, k, critical, reduced, utilization = _plate_values(
+        table.kind[part], terms.middle, terms.spread, terms.peak, table.thickness[part], table.width[part],
+        E[per], nu[per], allowable[per], yield_strength, safety_factor)
+    return PlateNumbers(compressed, psi, k, critical, reduced, terms.peak, np.where(compressed, utilization, -np.inf))
+
+
+def _lowest_allowables(table: WallTable, sections: slice, E: np.ndarray, nu: np.ndarray, yield_strength: float | None,
+                       allowable: np.ndarray, safety_factor: float) -> np.ndarray:
+    """(Sb, 1, W): each wall's F_red at its smallest k (uniform compression, psi = 1; k never falls as
+    psi falls), so demand / this bounds the utilization from above at every row."""
+    kind = table.kind[sections]
+    k = np.minimum(plate_coefficient(kind, 1.0, True), plate_coefficient(kind, 1.0, False))
+    per = (slice(None), None)
+    critical = elastic_plate_stress(k, E[per], nu[per], table.thickness[sections], table.width[sections])
+    return reduced_allowable(allowable[per], critical, yield_strength, safety_factor)[:, None, :]
+
+
+@dataclass(frozen=True)
+class _Block:
+    """One block of sections of local_utilizations: where it starts in the table and its per-section
+    values (Sb,), the wall terms of a block of rows and which walls are compressed."""
+
+    start: int
+    E: np.ndarray
+    nu: np.ndarray
+    allowable: np.ndarray
+    terms: WallTerms
+    compressed: np.ndarray
 
 
 def local_utilizations(table: WallTable, actions: np.ndarray, area: Any, Iz: Any, Iy: Any, Iyz: Any, E: Any, nu: Any,
                        yield_strength: float | None, allowable: Any, safety_factor: float,
                        block_values: int = BLOCK_VALUES) -> tuple[np.ndarray, np.ndarray]:
     """Largest local utilization of each section (S,) over rows and walls, and the row where it is
-    (S,) int; 0.0 and row -1 where no wall is ever in compression (or the section has no walls).
+    (S,) int (the first such row); 0.0 and row -1 where no wall is ever in compression (or the section
+    has no walls).
 
     actions: (K, 6) rows shared by every section, or (S, K, 6), section axes (N, N*m); area, Iz, Iy,
     Iyz (S,) (m^2, m^4); E, nu and the allowable F (Pa) scalars or (S,); yield_strength Fy (Pa) or
-    None; safety_factor SF. Same numbers as local_check at the same rows. Blocks of sections and
-    rows keep at most `block_values` (section, row, wall) values at once."""
+    None; safety_factor SF. Same numbers as local_check at the same rows (the same elementwise
+    formulas). Each wall's demand over its allowable at psi = 1 bounds its utilization from above; the
+    exact value is computed only where that bound reaches the exact value at the section's largest
+    bound. Blocks of sections and rows keep at most `block_values` (section, row, wall) values at once."""
     count, walls = table.mask.shape
     actions = np.asarray(actions, dtype=float)
     rows = actions.shape[-2]
@@ -354,15 +399,52 @@ def local_utilizations(table: WallTable, actions: np.ndarray, area: Any, Iz: Any
     for start in range(0, count, section_block):
         sections = slice(start, min(start + section_block, count))
         a, iz, iy, iyz, e, n, f = (v[sections] for v in scalars)
+        lowest = _lowest_allowables(table, sections, e, n, yield_strength, f, safety_factor)
         for first in range(0, rows, row_block):
             plane = stress_plane(actions[sections, first:first + row_block], a[:, None], iz[:, None], iy[:, None], iyz[:, None])
-            found = _plate_numbers(table, sections, plane, a, e, n, yield_strength, f, safety_factor).utilization.max(axis=2)
-            at = found.argmax(axis=1)
-            value = found[np.arange(len(at)), at]
+            terms = _wall_terms(table, sections, plane)
+            block = _Block(start, e, n, f, terms, _compressed(table, sections, terms, a))
+            bound = np.where(block.compressed, terms.peak / lowest, -np.inf)
+            top = np.unravel_index(bound.reshape(len(a), -1).argmax(axis=1), bound.shape[1:])
+            value, row = _largest_exact(table, block, bound >= _exact_at(table, block, top, yield_strength, safety_factor)[:, None, None],
+                                        yield_strength, safety_factor)
             better = value > best[sections]
             best[sections] = np.where(better, value, best[sections])
-            where[sections] = np.where(better, first + at, where[sections])
+            where[sections] = np.where(better, first + row, where[sections])
     return np.where(np.isfinite(best), best, 0.0), np.where(np.isfinite(best), where, -1)
+
+
+def _exact_at(table: WallTable, block: _Block, place: tuple[np.ndarray, np.ndarray], yield_strength: float | None,
+              safety_factor: float) -> np.ndarray:
+    """(Sb,) exact utilization at one (row, wall) of each section of a block; +inf where that wall is
+    not compressed (then no wall of the section is, in these rows: nothing to find)."""
+    entries = (np.arange(len(block.E)), *place)
+    return np.where(block.compressed[entries], _values_at(table, block, entries, yield_strength, safety_factor), np.inf)
+
+
+def _largest_exact(table: WallTable, block: _Block, candidates: np.ndarray, yield_strength: float | None,
+                   safety_factor: float) -> tuple[np.ndarray, np.ndarray]:
+    """(Sb,) largest exact utilization among the candidate (section, row, wall) entries of a block and
+    its row (the first on ties); -inf and -1 where a section has no candidate."""
+    entries = np.nonzero(candidates & block.compressed)
+    values = _values_at(table, block, entries, yield_strength, safety_factor)
+    value, row = np.full(len(block.E), -np.inf), np.full(len(block.E), -1, dtype=np.int64)
+    order = np.lexsort((entries[1], -values, entries[0]))  # by section, then largest value, then first row
+    sections = entries[0][order]
+    head = order[np.r_[True, sections[1:] != sections[:-1]]] if len(order) else order
+    value[entries[0][head]], row[entries[0][head]] = values[head], entries[1][head]
+    return value, row
+
+
+def _values_at(table: WallTable, block: _Block, entries: tuple[np.ndarray, ...], yield_strength: float | None,
+               safety_factor: float) -> np.ndarray:
+    """Exact utilizations at (section in block, row, wall) entries, elementwise as _plate_numbers."""
+    s, _, w = entries
+    wall = (block.start + s, w)
+    terms = block.terms
+    return _plate_values(table.kind[wall], terms.middle[entries], terms.spread[entries], terms.peak[entries],
+                         table.thickness[wall], table.width[wall], block.E[s], block.nu[s], block.allowable[s],
+                         yield_strength, safety_factor)[4]
 
 
 # ----------------------------------------------------------------------------------------------
@@ -379,13 +461,14 @@ def local_check(design: Design, actions: np.ndarray, xs: np.ndarray, names: Sequ
     table = table_of_walls([section_walls(design.spec, props.centroid)])
     rows = np.asarray(actions, dtype=float).reshape(1, -1, 6)
     area = np.array([props.area])
-    plane = stress_plane(rows, area[:, None], props.Iz, props.Iy, props.Iyz)
-    if not _compressions(table, slice(0, 1), plane, area)[4].any():
+    terms = _wall_terms(table, slice(0, 1), stress_plane(rows, area[:, None], props.Iz, props.Iy, props.Iyz))
+    compressed = _compressed(table, slice(0, 1), terms, area)
+    if not compressed.any():
         return CheckResult("local", None, detail="no compression in any wall")
     material, file = design.material, design.member.source
     E, nu, F = material.elastic_modulus, poisson_ratio(material, file), wall_allowable(material, file)
     safety_factor, yield_strength = design.member.checks.buckling_safety_factor, material.yield_strength
-    numbers = _plate_numbers(table, slice(0, 1), plane, area, np.array([E]), np.array([nu]), yield_strength,
+    numbers = _plate_numbers(table, slice(0, 1), terms, compressed, np.array([E]), np.array([nu]), yield_strength,
                              np.array([F]), safety_factor)
     _, row, w = np.unravel_index(int(np.argmax(numbers.utilization)), numbers.utilization.shape)
     c, s = divmod(int(row), len(xs))
