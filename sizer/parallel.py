@@ -20,7 +20,7 @@ from __future__ import annotations
 import hashlib
 import json
 import os
-from dataclasses import asdict, dataclass, field
+from dataclasses import asdict, dataclass, field, fields, is_dataclass
 from functools import lru_cache
 from pathlib import Path
 from typing import Any, Callable, Sequence
@@ -84,9 +84,21 @@ class ShippedCatalogue:
 # keys
 
 def content_hash(*parts: Any) -> str:
-    """sha256 of the parts' JSON (sorted keys; anything not JSON by its repr)."""
-    text = json.dumps(parts, sort_keys=True, default=repr, ensure_ascii=False)
+    """sha256 of the parts' canonical JSON: sorted keys, dataclasses as their fields, sets sorted, so the
+    same content gives the same key in every process (set order varies with string hashing)."""
+    text = json.dumps(parts, sort_keys=True, default=_canonical, ensure_ascii=False)
     return hashlib.sha256(text.encode("utf-8")).hexdigest()
+
+
+def _canonical(value: Any) -> Any:
+    """A JSON-ready stand-in for what json cannot write itself."""
+    if is_dataclass(value) and not isinstance(value, type):
+        return {"__type__": type(value).__name__, **{item.name: getattr(value, item.name) for item in fields(value)}}
+    if isinstance(value, (set, frozenset)):
+        return sorted(value, key=lambda item: json.dumps(item, sort_keys=True, default=_canonical))
+    if isinstance(value, Path):
+        return str(value)
+    raise TypeError(f"no canonical form for {type(value).__name__}")
 
 
 @lru_cache(maxsize=1)

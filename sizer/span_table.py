@@ -372,8 +372,7 @@ def user_combinations(spec: SpanTableSpec) -> dict[str, dict]:
 
 def _arrangements(spans: int) -> list[tuple[int, ...]]:
     """Every non-empty set of loaded spans (0-based), all spans first."""
-    found = [tuple(chosen) for size in range(spans, 0, -1) for chosen in subsets(range(spans), size)]
-    return found
+    return [tuple(chosen) for size in range(spans, 0, -1) for chosen in subsets(range(spans), size)]
 
 
 def _arrangement_name(name: str, loaded: tuple[int, ...], spans: int) -> str:

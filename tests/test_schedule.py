@@ -238,3 +238,18 @@ def test_a_length_override_moves_every_position_in_proportion(length):
     assert [s.at for s in scaled.supports] == pytest.approx([s.at * k for s in member.supports])
     assert scaled.loads[1].at == pytest.approx(1.0 * k) and scaled.loads[0].end == pytest.approx(length)
     assert (scaled.restraints[0].start, scaled.restraints[0].end) == pytest.approx((0.0, length))
+
+
+def test_row_keys_are_the_same_in_every_process(project):
+    """Resume across runs needs the same key for the same content in any interpreter (string hashing,
+    and so set order, changes from one process to the next unless seeded)."""
+    import os
+    import subprocess
+    import sys
+
+    code = ("from sizer.schedule import read_schedule, row_task, row_key; import sys; s = read_schedule(sys.argv[1]); c = {}; "
+            "print([row_key(row_task(s, r, [sys.argv[2]], False, c)[0]) for r in s.rows])")
+    keys = [subprocess.run([sys.executable, "-c", code, str(project / "schedule.toml"), str(project / "catalogue.toml")],
+                           capture_output=True, text=True, check=True, env={**os.environ, "PYTHONHASHSEED": seed}).stdout
+            for seed in ("1", "2")]
+    assert keys[0] == keys[1] and len(eval(keys[0])) == 4
