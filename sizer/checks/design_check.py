@@ -9,9 +9,11 @@ import numpy as np
 
 from sizer.analysis.section_axes import to_section_axes
 from sizer.checks.buckling import BucklingAxis, buckling_check, column_buckling, given_length_axes
-from sizer.checks.deflection import deflection_check
+from sizer.checks.deflection import deflection_check, deflection_limits
 from sizer.checks.field import FieldPeaks
 from sizer.checks.lateral import lateral_buckling, lateral_check
+from sizer.checks.local import ASSUMPTIONS as LOCAL_ASSUMPTIONS
+from sizer.checks.local import local_check
 from sizer.checks.results import CheckReport
 from sizer.checks.stability import StabilityReport, stability_report
 from sizer.checks.stations import check_stations, member_actions
@@ -43,6 +45,7 @@ def check_design(design: Design, unit_field: Any, n_even: int = 200, stability: 
         deflection_check(design),
         buckling_check(columns, design),
         lateral_check(laterals, report, design),
+        local_check(design, actions, xs, names),
     ]
     nodes = np.asarray(unit_field.sigma).shape[1]
     notes = check_notes(design, report, given, len(xs), len(names), nodes)
@@ -71,12 +74,14 @@ def check_notes(design: Design, report: StabilityReport, given: list[BucklingAxi
         "bending allowable reduced for lateral-torsional buckling.",
     ]
     notes += restraint_notes(design)
+    notes.append(LOCAL_ASSUMPTIONS)
     if design.material.yield_strength is None:
         notes.append("No yield strength given: elastic buckling only (no Johnson parabola); unsafe for stocky members.")
-    if settings.deflection_limit is not None:
-        overhang = settings.deflection_limit_overhang or settings.deflection_limit / 2
+    span_limit, overhang_limit = deflection_limits(settings)
+    if overhang_limit is not None:
         chosen = ", ".join(settings.deflection_combinations or design.solution.combination_names)
-        notes.append(f"Deflection limits: span/{settings.deflection_limit:g}, overhang/{overhang:g}, "
+        spans_text = f"span/{span_limit:g}" if span_limit is not None else "spans not checked (no deflection_limit)"
+        notes.append(f"Deflection limits: {spans_text}, overhang/{overhang_limit:g}, "
                      f"relative to the supports, combinations: {chosen}.")
     return notes
 

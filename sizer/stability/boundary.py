@@ -37,6 +37,8 @@ def warping_held(support: Any) -> bool:
 
 def height_value(height: str | float, section: Any) -> float:
     """A restraint's or load's height above the shear centre (m): a face or a number."""
+    if height == "centre":
+        return 0.0
     return float(section.face_height(height)) if isinstance(height, str) else float(height)
 
 
@@ -61,13 +63,14 @@ def support_rows(member: Member, mesh: Mesh, orientation: str) -> list[Row]:
     return rows
 
 
-def warping_rows(member: Member, mesh: Mesh, section: Any) -> list[Row]:
+def warping_rows(member: Member, mesh: Mesh, section: Any | None) -> list[Row]:
     """Constraint rows of the supports that hold warping (phi' = 0). A hold is left out where the
     section's warping length sqrt(EIw / GJ) is shorter than the elements next to the support: there
     warping restraint acts only in a boundary layer the elements cannot follow, and holding phi'
-    there would stiffen them falsely (leaving it free is on the safe side)."""
+    there would stiffen them falsely (leaving it free is on the safe side). `section` None: every
+    hold acts (the strictest constraints, for shapes allowed for any section)."""
     rows: list[Row] = []
-    warping_length = float(np.sqrt(max(float(section.EIw), 0.0) / float(section.GJ)))
+    warping_length = np.inf if section is None else float(np.sqrt(max(float(section.EIw), 0.0) / float(section.GJ)))
     lengths = mesh.lengths
     for support in member.supports:
         if not warping_held(support):

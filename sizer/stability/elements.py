@@ -70,11 +70,3 @@ def integral(quad: Quadrature, f: np.ndarray, first: tuple[int, str], second: tu
     if symmetric and first != second:
         out = out + out.T
     return out
-
-
-def point_value_matrix(mesh: Mesh, field: int, node: int) -> np.ndarray:
-    """(size, size) matrix of the form value(x_node)^2 for one field: 1 on its diagonal entry."""
-    out = np.zeros((mesh.size, mesh.size))
-    dof = mesh.value[node, field]
-    out[dof, dof] = 1.0
-    return out

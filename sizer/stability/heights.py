@@ -17,7 +17,7 @@ from typing import Sequence
 import numpy as np
 
 from sizer.model import LineLoad, Member, PointLoad
-from sizer.stability.elements import Quadrature, integral, point_value_matrix
+from sizer.stability.elements import Quadrature, integral
 
 PHI = 2
 HEIGHT_KEYS: tuple[str, ...] = ("top", "bottom", "centroid", "fixed")
@@ -32,7 +32,7 @@ def height_terms(quad: Quadrature, member: Member, orientation: str, weights: np
     """The load-height matrices of one load set: `weights` (n_cases + 1,) factors on `cases` and, last,
     on the unit self-weight (N/m along gravity), as MemberSolution.weights gives them."""
     axis = depth_axis(orientation)
-    out = {key: np.zeros((quad.mesh.size, quad.mesh.size)) for key in HEIGHT_KEYS}
+    out = _Sums(quad.mesh.size)
     factor = dict(zip(cases, weights[:-1]))
     for load in member.loads:
         f = float(factor.get(load.case, 0.0))
@@ -45,10 +45,26 @@ def height_terms(quad: Quadrature, member: Member, orientation: str, weights: np
     gravity_axis, sign = member.gravity
     if gravity_axis == axis and weights[-1] != 0.0:
         out["centroid"] += integral(quad, np.full_like(quad.x, sign * float(weights[-1])), (PHI, "value"), (PHI, "value"))
-    return out
+    return dict(out.sums)
 
 
-def _add(out: dict[str, np.ndarray], matrix: np.ndarray, height: str | float | None, default: str) -> None:
+class _Sums:
+    """Matrices by height key, made on first use; point terms go straight onto the diagonal."""
+
+    def __init__(self, size: int) -> None:
+        self.size = size
+        self.sums: dict[str, np.ndarray] = {}
+
+    def __getitem__(self, key: str) -> np.ndarray:
+        if key not in self.sums:
+            self.sums[key] = np.zeros((self.size, self.size))
+        return self.sums[key]
+
+    def __setitem__(self, key: str, value: np.ndarray) -> None:
+        self.sums[key] = value
+
+
+def _add(out: "_Sums", matrix: np.ndarray, height: str | float | None, default: str) -> None:
     """Add a load's matrix (already times its intensity) under its height's key."""
     if height is None:
         out[default] += matrix
@@ -59,14 +75,16 @@ def _add(out: dict[str, np.ndarray], matrix: np.ndarray, height: str | float | N
         out["fixed"] += height * matrix
 
 
-def _add_point(out: dict[str, np.ndarray], quad: Quadrature, force: float, at: float, height: str | float | None) -> None:
-    if force == 0.0:
+def _add_point(out: "_Sums", quad: Quadrature, force: float, at: float, height: str | float | None) -> None:
+    if force == 0.0 or height == "centre":
         return
-    matrix = force * point_value_matrix(quad.mesh, PHI, quad.mesh.node_at(at))
-    _add(out, matrix, height, "top" if force < 0 else "bottom")
+    key = ("top" if force < 0 else "bottom") if height is None else (height if isinstance(height, str) else "fixed")
+    scale = height if isinstance(height, float) else 1.0
+    dof = quad.mesh.value[quad.mesh.node_at(at), PHI]
+    out[key][dof, dof] += force * scale
 
 
-def _add_line(out: dict[str, np.ndarray], quad: Quadrature, factor: float, load: LineLoad, axis: int) -> None:
+def _add_line(out: "_Sums", quad: Quadrature, factor: float, load: LineLoad, axis: int) -> None:
     q0, q1 = load.q_start[axis], load.q_end[axis]
     if q0 == 0.0 and q1 == 0.0:
         return

@@ -70,11 +70,15 @@ class MemberStability:
 
     def axial_buckling(self, section: StabilitySection, weights: np.ndarray) -> Buckling:
         """The lowest load factor of a load set's axial force (flexural, torsional, flexural-torsional)."""
-        return lowest_buckling(self.stiffness(section), self.axial_geometry(section, weights), self.basis(section))
+        return self.for_section(section).axial(weights)
 
     def lateral_buckling(self, section: StabilitySection, weights: np.ndarray) -> Buckling:
         """The lowest load factor of a load set's major-axis bending (lateral-torsional)."""
-        return lowest_buckling(self.stiffness(section), self.lateral_geometry(section, weights), self.basis(section))
+        return self.for_section(section).lateral(weights)
+
+    def for_section(self, section: StabilitySection) -> "SectionStability":
+        """The solves of one section, its stiffness and admissible freedoms made once."""
+        return SectionStability(self, section, self.stiffness(section), self.basis(section))
 
     def energy_shares(self, section: StabilitySection, mode: np.ndarray) -> dict[str, float]:
         """Share of a buckled shape's strain energy in each field: "v" (bending in the depth plane),
@@ -97,6 +101,19 @@ class MemberStability:
         le = nodes[e + 1] - nodes[e]
         shapes = hermite((xs - nodes[e]) / le, le)[0]
         return {name: np.einsum("ni,ni->n", shapes, mode[self.mesh.element_freedoms(k)[e]]) for k, name in enumerate(FIELDS)}
+
+
+class SectionStability:
+    """One section on the member: K and the admissible freedoms made once, for any load set."""
+
+    def __init__(self, model: MemberStability, section: StabilitySection, stiffness: np.ndarray, basis: np.ndarray) -> None:
+        self.model, self.section, self.K, self.Z = model, section, stiffness, basis
+
+    def axial(self, weights: np.ndarray) -> Buckling:
+        return lowest_buckling(self.K, self.model.axial_geometry(self.section, weights), self.Z)
+
+    def lateral(self, weights: np.ndarray) -> Buckling:
+        return lowest_buckling(self.K, self.model.lateral_geometry(self.section, weights), self.Z)
 
 
 def mode_name(shares: dict[str, float]) -> str:

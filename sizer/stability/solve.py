@@ -34,6 +34,12 @@ class Buckling:
 
 def lowest_buckling(K: np.ndarray, B: np.ndarray, basis: np.ndarray) -> Buckling:
     """Solve K d = lam B d on the admissible freedoms d = basis @ r (see the module docstring)."""
+    return lowest_modes(K, B, basis, 1)[0]
+
+
+def lowest_modes(K: np.ndarray, B: np.ndarray, basis: np.ndarray, count: int) -> list[Buckling]:
+    """The `count` lowest positive load factors and their shapes (fewer where fewer exist; one
+    Buckling(inf, None) when none does)."""
     from scipy.linalg import eigh
 
     k = basis.T @ K @ basis
@@ -44,35 +50,37 @@ def lowest_buckling(K: np.ndarray, B: np.ndarray, basis: np.ndarray) -> Buckling
     k, b = k * np.outer(scale, scale), b * np.outer(scale, scale)
     size = np.abs(b).max(initial=0.0)
     if size == 0.0:
-        return Buckling(math.inf, None)
-    active = np.abs(b).max(axis=1) > ZERO_GEOMETRY * size
-    passive = ~active
+        return [Buckling(math.inf, None)]
     free = _free_movements(k)
     if free is not None:
         driven = np.abs(free.T @ b @ free).max(initial=0.0) > ZERO_GEOMETRY * size or np.abs(b @ free).max(initial=0.0) > 1e-8 * size
         if driven:
-            return Buckling(0.0, _full(basis, scale, free[:, 0]), free_movement=True)
-        keep = _complement(free)
-        reduced = lowest_buckling(k, b, keep)
-        return reduced if reduced.mode is None else Buckling(reduced.load_factor, _full(basis, scale, reduced.mode), reduced.free_movement)
+            return [Buckling(0.0, _full(basis, scale, free[:, 0]), free_movement=True)]
+        found = lowest_modes(k, b, _complement(free), count)
+        return [item if item.mode is None else Buckling(item.load_factor, _full(basis, scale, item.mode)) for item in found]
+    active = np.abs(b).max(axis=1) > ZERO_GEOMETRY * size
+    passive = ~active
     kaa = k[np.ix_(active, active)]
+    coupling = np.zeros((int(passive.sum()), int(active.sum())))
     if passive.any():
         kap = k[np.ix_(active, passive)]
         if np.abs(kap).max(initial=0.0) > 0.0:
             coupling = np.linalg.solve(k[np.ix_(passive, passive)], kap.T)
             kaa = kaa - kap @ coupling
-        else:
-            coupling = np.zeros((int(passive.sum()), int(active.sum())))
     baa = b[np.ix_(active, active)]
     n = kaa.shape[0]
-    mu, vector = eigh(baa, kaa, subset_by_index=[n - 1, n - 1], check_finite=False)
-    if mu[0] <= NO_BUCKLING * np.abs(baa).max():
-        return Buckling(math.inf, None)
-    reduced = np.zeros(k.shape[0])
-    reduced[active] = vector[:, 0]
-    if passive.any():
-        reduced[passive] = -coupling @ vector[:, 0]
-    return Buckling(1.0 / float(mu[0]), _full(basis, scale, reduced))
+    wanted = min(count, n)
+    mu, vectors = eigh(baa, kaa, subset_by_index=[n - wanted, n - 1], check_finite=False)
+    threshold = NO_BUCKLING * np.abs(baa).max()
+    found = []
+    for value, vector in zip(mu[::-1], vectors.T[::-1]):
+        if value <= threshold:
+            break
+        reduced = np.zeros(k.shape[0])
+        reduced[active] = vector
+        reduced[passive] = -coupling @ vector
+        found.append(Buckling(1.0 / float(value), _full(basis, scale, reduced)))
+    return found or [Buckling(math.inf, None)]
 
 
 def _free_movements(k: np.ndarray) -> np.ndarray | None:

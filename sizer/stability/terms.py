@@ -74,10 +74,10 @@ def moment_coefficients(section: object) -> dict[str, object]:
     return {"Mz": 1.0, "My": 1.0, "wagner_Mz": section.wagner_major, "wagner_My": section.wagner_minor}
 
 
-def weighted_sum(terms: dict[str, np.ndarray], coefficients: dict[str, object]) -> np.ndarray:
-    """sum of coefficient x matrix over the terms present in both."""
-    names = [name for name in terms if name in coefficients]
-    out = np.zeros_like(next(iter(terms.values())))
-    for name in names:
-        out += float(coefficients[name]) * terms[name]
+def weighted_sum(terms: dict[str, np.ndarray], coefficients: dict[str, object]) -> np.ndarray | float:
+    """sum of coefficient x matrix over the terms present in both (0.0 when there are none)."""
+    out: np.ndarray | float = 0.0
+    for name, matrix in terms.items():
+        if name in coefficients:
+            out = out + float(coefficients[name]) * matrix
     return out

@@ -1,0 +1,151 @@
+"""The candidates of a sizing: the catalogue's sections after the filters, in order of mass per
+length, with their scalars as one table (SI: m^2, m^4, kg/m, Pa per unit action), and a Design of
+any one of them solved without a new solve (the unit-rigidity solution rescaled, when no support
+has a spring).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from functools import cached_property
+from typing import Any, Callable, Sequence
+
+import numpy as np
+
+from sizer.analysis import MemberSolution, solve_member
+from sizer.checks import CheckReport
+from sizer.design import Design, oriented_stiffness
+from sizer.errors import InputError
+from sizer.model import Material, Member
+from sizer.stability import StabilitySection
+
+
+@dataclass(frozen=True, eq=False)
+class CandidateTable:
+    """One row per candidate, in candidate order: every scalar of sizer.sections.properties.SCALAR_NAMES
+    by name (`column`), the mass per length (kg/m) and the peak stresses per unit action."""
+
+    column: dict[str, np.ndarray]
+    mass: np.ndarray
+    specs: tuple[Any, ...] = ()  # the candidates' SectionSpecs, in order
+
+    @cached_property
+    def walls(self) -> Any:
+        """The flat walls of every candidate for local buckling (sizer.checks.local.WallTable)."""
+        from sizer.checks.local import wall_table
+
+        return wall_table(self.specs, np.column_stack([self.column["centroid_y"], self.column["centroid_z"]]))
+
+    def __getattr__(self, name: str) -> np.ndarray:
+        column = self.__dict__.get("column", {})
+        if name in column:
+            return column[name]
+        raise AttributeError(name)
+
+    @property
+    def sigma_peak(self) -> np.ndarray:
+        """(S, 3) |sigma| per unit N, My, Mz (section axes)."""
+        from sizer.sections.properties import SIGMA_PEAK_NAMES
+
+        return np.column_stack([self.column[name] for name in SIGMA_PEAK_NAMES])
+
+    @property
+    def tau_peak(self) -> np.ndarray:
+        """(S, 3) |tau| per unit Vy, Vz, T."""
+        from sizer.sections.properties import TAU_PEAK_NAMES
+
+        return np.column_stack([self.column[name] for name in TAU_PEAK_NAMES])
+
+    def stability_sections(self, material: Material) -> StabilitySection:
+        """Every candidate as one StabilitySection of arrays (the section's own axes)."""
+        E, G, c = material.elastic_modulus, material.shear_modulus, self.column
+        return StabilitySection(EIz=E * c["Iz"], EIy=E * c["Iy"], EIyz=E * c["Iyz"], GJ=G * c["J"], EIw=E * c["Iw"], area=c["area"],
+                                Iz=c["Iz"], Iy=c["Iy"], Iyz=c["Iyz"], y0=c["ys"], z0=c["zs"], Py=c["Py"], Pz=c["Pz"],
+                                y_top=c["y_top"], y_bottom=c["y_bottom"])
+
+
+@dataclass
+class Candidate:
+    """One catalogue section in the sizing run."""
+
+    name: str
+    spec: Any
+    mass_per_length: float
+    density: float
+    index: int  # row in the CandidateTable and the Screen
+    bounds: dict[str, float] = field(default_factory=dict)  # check -> proven lower bound of its utilization
+    report: CheckReport | None = None  # full check, where made
+
+    @cached_property
+    def props(self) -> Any:
+        from sizer.sections import section_properties
+
+        return section_properties(self.spec, self.density)
+
+    @property
+    def decided_by(self) -> str:
+        return "full stress field" if self.report is not None else "screen"
+
+    @property
+    def passes(self) -> bool:
+        return self.report.passes if self.report is not None else False
+
+    @property
+    def lower_bound(self) -> tuple[str, float]:
+        """(check, utilization) of the largest proven lower bound."""
+        return max(self.bounds.items(), key=lambda item: item[1], default=("", 0.0))
+
+    @property
+    def certainly_fails(self) -> bool:
+        return self.report is None and self.lower_bound[1] > 1.0
+
+    @property
+    def utilization(self) -> float:
+        return self.report.utilization if self.report is not None else self.lower_bound[1]
+
+    @property
+    def governing(self) -> str:
+        if self.report is not None:
+            return self.report.governing.check if self.report.governing is not None else ""
+        return self.lower_bound[0]
+
+    def raise_bound(self, check: str, value: float) -> None:
+        """Keep the larger of two proven lower bounds of one check."""
+        self.bounds[check] = max(self.bounds.get(check, 0.0), float(value))
+
+
+def candidate_sections(catalogue: Any, member: Member, material: Material, families: Sequence[str],
+                       max_depth: float | None, max_width: float | None,
+                       progress: Callable[[int, int, str], None] | None = None) -> tuple[list[Candidate], CandidateTable]:
+    """Catalogue sections after the filters, sorted by mass per length, and their table (from the
+    cached properties; any not cached are computed first, reporting to `progress`). Depth and width
+    are as installed (a minor orientation swaps them)."""
+    from sizer.sections.properties import SCALAR_NAMES, section_table
+
+    specs = catalogue.select(families)
+    if not specs:
+        files = ", ".join(str(path) for path in catalogue.files) or "the catalogue"
+        raise InputError(files, "sections", "the catalogue holds no sections", "add [[sections]] entries, or pass --catalogue with a stock list")
+    table = section_table(specs, progress=progress)
+    column = {name: table[:, k] for k, name in enumerate(SCALAR_NAMES)}
+    depth, width = (column["depth"], column["width"]) if member.orientation == "major" else (column["width"], column["depth"])
+    keep = np.ones(len(specs), bool)
+    if max_depth is not None:
+        keep &= depth <= max_depth * (1 + 1e-9)
+    if max_width is not None:
+        keep &= width <= max_width * (1 + 1e-9)
+    if not keep.any():
+        raise InputError("", "--max-depth", "no catalogue section fits the depth and width limits", "relax --max-depth / --max-width")
+    mass = column["area"] * material.density
+    order = sorted(np.flatnonzero(keep).tolist(), key=lambda i: (mass[i], specs[i].name))
+    candidates = [Candidate(specs[i].name, specs[i], float(mass[i]), material.density, k) for k, i in enumerate(order)]
+    return candidates, CandidateTable({name: values[order] for name, values in column.items()}, mass[order], tuple(specs[i] for i in order))
+
+
+def design_for(member: Member, material: Material, candidate: Candidate, base: MemberSolution | None = None) -> Design:
+    """A solved Design for one candidate (its own stiffness and self-weight): the unit-rigidity
+    solution `base` rescaled when given (no springs), else solved."""
+    stiffness = oriented_stiffness(candidate.props, material, member.orientation)
+    mass = candidate.mass_per_length if member.self_weight_case else None
+    solution = base.for_section(stiffness, mass) if base is not None else solve_member(member, stiffness, mass)
+    return Design(member, solution, material, candidate.spec, candidate.props, stiffness, candidate.mass_per_length)

@@ -1,0 +1,258 @@
+"""The screen: every candidate x combination x station at once, one block of sections at a time.
+
+Each action of a block is one matrix product [c_s, c_s m_s] @ [A_loads; A_per_mass] over the
+section-independent stations (all of which the full check uses too). Axial force, deflection and
+the demands of the stability checks (each combination's peak compression and peak major-axis
+moment) are exact there, in double precision: true lower bounds of the full check. Bending,
+shear, interaction and equivalent stress are estimated from the per-unit-action peaks (|sigma| <=
+sum |action_i| * peak_i) in single precision: the estimates only choose which checks to prove and
+at which station; the proof is the full stress field at that station (prove_lower_bounds).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Any, Callable, Iterator
+
+import numpy as np
+
+from sizer.analysis import MemberSolution, stations
+from sizer.analysis.section_axes import to_section_axes
+from sizer.checks import StationStresses, full_field_stresses, relative_to_supports, span_points, spans
+from sizer.checks.buckling import critical_stresses
+from sizer.design import oriented_stiffness
+from sizer.model import Material, Member
+from sizer.sizing.candidates import Candidate, CandidateTable
+
+SCREEN_BLOCK = 65_536  # station values per block of sections (single precision: fits the CPU caches)
+STRESS_CHECKS = ("bending", "interaction", "shear", "equivalent")
+SINGLE = np.float32
+N, MZ = 0, 5
+
+
+@dataclass
+class Screen:
+    """What the screen found for every candidate (rows as in CandidateTable)."""
+
+    exact: dict[str, np.ndarray]  # check -> (S,) the check's own value at the screen's stations: axial, deflection
+    lower: dict[str, np.ndarray]  # check -> (S,) the check's own formula at the screen's stations, which miss the moment peaks: local
+    estimate: dict[str, np.ndarray]  # stress check -> (S,) largest utilization from the peaks (single precision)
+    worst: dict[str, np.ndarray]  # stress check -> (S,) flat (combination x station) row of that estimate
+    compression: np.ndarray  # (C, S) peak axial compression of each combination at the stations, N (>= 0)
+    moment: np.ndarray  # (C, S) peak |Mz| (section axes) of each combination at the stations, N*m
+    loads: np.ndarray  # (C x K, 6) actions of the loads alone at the stations, section axes
+    per_mass: np.ndarray  # (C x K, 6) actions per kg/m of self weight, section axes
+    table: CandidateTable
+    fa_allowed: np.ndarray  # (S,) upper bound of Fa for the interaction: compression allowable, reduced on given lengths
+
+
+def load_and_weight_factors(base: MemberSolution) -> np.ndarray:
+    """(2C, n_cases + 1) combination factors: the loads alone (rows 0..C-1), then the self-weight
+    per kg/m (rows C..2C-1), for MemberSolution.weighted_actions / weighted_displacements."""
+    loads = base.weights(None)
+    return np.vstack([loads, base.weights(1.0) - loads])
+
+
+def screen(table: CandidateTable, member: Member, material: Material, base: MemberSolution, n_even: int = 200) -> Screen:
+    """Exact axial, deflection and stability demands, and the stress estimates, of every candidate
+    at the section-independent stations (all of which the full check also uses)."""
+    xs, sides = stations(member, n_even)
+    loads, per_mass = (to_section_axes(part, member.orientation).reshape(-1, 6)
+                       for part in np.split(base.weighted_actions(load_and_weight_factors(base), xs, sides), 2))
+    fa_allowed = given_length_compression(table, member, material)
+    exact, estimate, worst = stress_screen(table, loads, per_mass, material, fa_allowed)
+    deflection = deflection_screen(table, member, material, base)
+    if deflection is not None:
+        exact["deflection"] = deflection
+    local = local_screen(table, member, material, loads, per_mass)
+    lower = {"local": local} if local is not None else {}
+    combinations = len(base.combination_names)
+    compression = -peaks(loads[:, N].reshape(combinations, -1), per_mass[:, N].reshape(combinations, -1), table.mass, np.minimum)
+    moment = peaks(loads[:, MZ].reshape(combinations, -1), per_mass[:, MZ].reshape(combinations, -1), table.mass, None)
+    return Screen(exact, lower, estimate, worst, np.maximum(compression, 0.0), moment, loads, per_mass, table, fa_allowed)
+
+
+def local_screen(table: CandidateTable, member: Member, material: Material, loads: np.ndarray, per_mass: np.ndarray) -> np.ndarray | None:
+    """(S,) the local check's own value at the screen's stations (exact: the wall stresses are linear
+    in the actions); None when it cannot be made here (no allowable for the walls: the full check says why)."""
+    from sizer.checks.local import local_utilizations, poisson_ratio, wall_allowable
+    from sizer.errors import InputError
+
+    try:
+        nu, allowable = poisson_ratio(material, member.source), wall_allowable(material, member.source)
+    except InputError:
+        return None
+    walls, count = table.walls, len(table.mass)
+    out = np.zeros(count)
+    step = max(1, SCREEN_BLOCK // max(loads.shape[0], 1))
+    for start in range(0, count, step):
+        block = slice(start, min(start + step, count))
+        actions = loads[None] + table.mass[block, None, None] * per_mass[None]
+        part = _walls_of(walls, block)
+        out[block] = local_utilizations(part, actions, table.area[block], table.Iz[block], table.Iy[block], table.Iyz[block],
+                                        material.elastic_modulus, nu, material.yield_strength, allowable,
+                                        member.checks.buckling_safety_factor)[0]
+    return out
+
+
+def _walls_of(walls: Any, block: slice) -> Any:
+    """The rows `block` of a WallTable."""
+    from dataclasses import fields, replace
+
+    return replace(walls, **{f.name: getattr(walls, f.name)[block] for f in fields(walls)})
+
+
+def peaks(loads: np.ndarray, per_mass: np.ndarray, mass: np.ndarray, reduce: Callable | None) -> np.ndarray:
+    """(C, S) over the stations of loads + mass x per_mass ((C, K) each, mass (S,)): the smallest value
+    (reduce np.minimum) or the largest absolute value (reduce None)."""
+    values = loads[:, None, :] + mass[None, :, None] * per_mass[:, None, :]
+    return values.min(axis=2) if reduce is np.minimum else np.abs(values).max(axis=2)
+
+
+def given_length_compression(table: CandidateTable, member: Member, material: Material) -> np.ndarray:
+    """(S,) Fa for the interaction, an upper bound of the check's: the compression allowable, reduced
+    to the Johnson/Euler buckling stress on each buckling length the user gives / safety factor
+    (the check's buckling load is at most these)."""
+    allowable = material.allowable.compression or np.inf
+    settings = member.checks
+    stress = np.full(len(table.mass), np.inf)
+    for length, inertia in ((settings.buckling_length_major, table.I11), (settings.buckling_length_minor, table.I22)):
+        if length is not None:
+            stress = np.minimum(stress, critical_stresses(length / np.sqrt(inertia / table.area), material.elastic_modulus,
+                                                          material.yield_strength))
+    return np.minimum(allowable, stress / settings.buckling_safety_factor)
+
+
+def _scaled(coefficient: np.ndarray, mass: np.ndarray, pair: np.ndarray) -> np.ndarray:
+    """(S, K) coefficient_s * (loads_k + mass_s * per_mass_k) as one matrix product; pair is (2, K)."""
+    return np.column_stack([coefficient, coefficient * mass]).astype(pair.dtype) @ pair
+
+
+def stress_screen(table: CandidateTable, loads: np.ndarray, per_mass: np.ndarray, material: Material,
+                  fa_allowed: np.ndarray) -> tuple[dict[str, np.ndarray], dict[str, np.ndarray], dict[str, np.ndarray]]:
+    """(axial utilization at the stations, stress-check estimates, their worst rows) of every
+    candidate; loads and per_mass (K, 6) in section axes. Blocks of sections keep each array in cache."""
+    allow = material.allowable
+    count, rows = len(table.mass), loads.shape[0]
+    pairs64 = [np.stack([loads[:, j], per_mass[:, j]]) for j in range(6)]
+    present = [bool(np.any(pair)) for pair in pairs64]
+    pairs = [pair.astype(SINGLE) for pair in pairs64]
+    wanted = [name for name in STRESS_CHECKS if _allowable(allow, name)]
+    if not present[0] or not (present[4] or present[5]):
+        wanted = [name for name in wanted if name != "interaction"]  # the check needs axial force and bending together
+    n_max, n_min = np.empty(count), np.empty(count)
+    estimate = {name: np.zeros(count) for name in wanted}
+    worst = {name: np.zeros(count, int) for name in wanted}
+    step = max(1, SCREEN_BLOCK // max(rows, 1))
+    sigma_peak, tau_peak = table.sigma_peak, table.tau_peak
+    for start in range(0, count, step):
+        block = slice(start, min(start + step, count))
+        mass = table.mass[block]
+        if present[0]:
+            axial = _scaled(np.ones(len(mass)), mass, pairs64[0])  # N, exact
+            n_max[block], n_min[block] = axial.max(axis=1), axial.min(axis=1)
+        else:
+            n_max[block] = n_min[block] = 0.0
+        fa = _scaled(1.0 / table.area[block], mass, pairs[0])
+        fb = _peak_sum(sigma_peak[block], [1, 2], [4, 5], mass, pairs, present)
+        fv = _peak_sum(tau_peak[block], [0, 1, 2], [1, 2, 3], mass, pairs, present)
+        for name, (values, scale) in _stress_estimates(fa, fb, fv, allow, fa_allowed[block], wanted):
+            at = values.argmax(axis=1)
+            estimate[name][block], worst[name][block] = scale(values[np.arange(len(at)), at]), at
+    tension, compression = np.maximum(n_max, 0.0) / table.area, np.maximum(-n_min, 0.0) / table.area
+    exact = {"axial": np.maximum(tension / (allow.tension or np.inf), compression / (allow.compression or np.inf))}
+    return exact, estimate, worst
+
+
+def _allowable(allow: Any, check: str) -> float | None:
+    return allow.bending if check in ("bending", "interaction") else getattr(allow, check)
+
+
+def _peak_sum(peaks_: np.ndarray, peak_columns: list[int], action_columns: list[int], mass: np.ndarray, pairs: list[np.ndarray],
+              present: list[bool]) -> np.ndarray:
+    """(S, K) sum over the given actions of |action| * the section's peak stress per unit action."""
+    total = np.zeros((len(mass), pairs[0].shape[1]), SINGLE)
+    for peak, action in zip(peak_columns, action_columns):
+        if present[action]:
+            total += np.abs(_scaled(peaks_[:, peak], mass, pairs[action]))
+    return total
+
+
+def _stress_estimates(fa: np.ndarray, fb: np.ndarray, fv: np.ndarray, allow: Any, fa_allow: np.ndarray,
+                      wanted: list[str]) -> Iterator[tuple[str, tuple[np.ndarray, Callable[[np.ndarray], np.ndarray]]]]:
+    """For each wanted stress check: (S, K) values whose largest marks the worst row, and the map from
+    that value to the utilization estimate (same formulas as the checks). Consumes fa, fb and fv."""
+    if "bending" in wanted:
+        yield "bending", (fb, lambda value: value / allow.bending)
+    if "shear" in wanted:
+        yield "shear", (fv, lambda value: value / allow.shear)
+    if "interaction" in wanted:
+        interaction = np.maximum(fa * SINGLE(1.0 / (allow.tension or np.inf)), fa * (-1.0 / fa_allow).astype(SINGLE)[:, None])
+        interaction += fb * SINGLE(1.0 / allow.bending)
+        yield "interaction", (interaction, lambda value: value)
+    if "equivalent" in wanted:  # (|fa| + fb)^2 + 3 fv^2, in place
+        normal = np.abs(fa, out=fa)
+        normal += fb
+        normal *= normal
+        fv *= fv
+        fv *= SINGLE(3.0)
+        normal += fv
+        yield "equivalent", (normal, lambda value: np.sqrt(value) / allow.equivalent)
+
+
+def deflection_screen(table: CandidateTable, member: Member, material: Material, base: MemberSolution, n: int = 201) -> np.ndarray | None:
+    """Deflection utilization of every candidate from the unit-rigidity solution (no springs), at the
+    same points and relative to the same reference (chord between supports, or the overhang's
+    support) as the check. The worst point of each section is found with the squared deflection
+    expanded as one matrix product, then its deflection is computed directly: the value at a point
+    the check uses (a true lower bound of the check, and its exact value save for round-off in
+    choosing the point)."""
+    settings = member.checks
+    span_list = spans(member)
+    if settings.deflection_limit is None or not span_list:
+        return None
+    combos = [base.combination_names.index(name) for name in (settings.deflection_combinations or base.combination_names)]
+    overhang_limit = settings.deflection_limit_overhang or settings.deflection_limit / 2
+    moved = base.weighted_displacements(load_and_weight_factors(base), np.concatenate([span_points(span, n) for span in span_list]))
+    zero, unit = (np.split(part[combos][..., 1:3], len(span_list), axis=1) for part in np.split(moved, 2))  # uy, uz per span
+    per_allowable = [(overhang_limit if span.overhang else settings.deflection_limit) / span.length for span in span_list]
+    a, b = (np.concatenate([relative_to_supports(part, span).reshape(-1, 2) * scale for part, span, scale in zip(parts, span_list, per_allowable)])
+            for parts in (zero, unit))  # (points, 2): loads alone and per kg/m, over allowable, at unit rigidities
+    stiffness = oriented_stiffness(table, material, member.orientation)
+    u, v, m = 1.0 / stiffness.EIz**2, 1.0 / stiffness.EIy**2, table.mass
+    terms = np.stack([a[:, 0] ** 2, a[:, 0] * b[:, 0], b[:, 0] ** 2, a[:, 1] ** 2, a[:, 1] * b[:, 1], b[:, 1] ** 2])
+    weights = np.column_stack([u, 2 * u * m, u * m * m, v, 2 * v * m, v * m * m])
+    step = max(1, SCREEN_BLOCK // 2 // len(a))  # double precision: half the values of a stress block
+    at = np.concatenate([(weights[start:start + step] @ terms).argmax(axis=1) for start in range(0, len(m), step)])
+    return np.hypot((a[at, 0] + m * b[at, 0]) / stiffness.EIz, (a[at, 1] + m * b[at, 1]) / stiffness.EIy)
+
+
+def prove_lower_bounds(candidate: Candidate, found: Screen, material: Material) -> None:
+    """The full stress field at the screen's worst station of each stress check estimated to fail:
+    true lower bounds of the full check (it uses these stations too; the interaction with upper
+    bounds of its allowables: Fa on the given buckling lengths only, Fb unreduced)."""
+    from sizer.sections import unit_stress_field
+
+    wanted = [name for name, values in found.estimate.items() if values[candidate.index] > 1.0 and name not in candidate.bounds]
+    if not wanted:
+        return
+    rows = sorted({int(found.worst[name][candidate.index]) for name in wanted})
+    actions = (found.loads[rows] + candidate.mass_per_length * found.per_mass[rows])[None]
+    stress = full_field_stresses(actions, unit_stress_field(candidate.spec), float(found.table.area[candidate.index]))
+    compression = float(found.fa_allowed[candidate.index])
+    for name in wanted:
+        k = rows.index(int(found.worst[name][candidate.index]))
+        candidate.raise_bound(name, stress_utilization(name, stress, k, material.allowable, compression))
+
+
+def stress_utilization(name: str, stress: StationStresses, k: int, allow: Any, compression_allowable: float) -> float:
+    """Utilization of one stress check at station k of `stress` (same formulas as the checks)."""
+    if name == "bending":
+        return float(stress.bending[0, k] / allow.bending)
+    if name == "shear":
+        return float(stress.shear[0, k] / allow.shear)
+    if name == "equivalent":
+        return float(stress.equivalent[0, k] / allow.equivalent)
+    fa = float(stress.axial[0, k])  # interaction: this station's fa and fb together
+    fa_allow = (allow.tension or np.inf) if fa >= 0 else compression_allowable
+    return float(abs(fa) / fa_allow + stress.bending[0, k] / allow.bending)

@@ -1,0 +1,105 @@
+"""Proven lower bounds of the buckling and lateral-torsional checks of every candidate at once.
+
+Each check's utilization rises with its demand (the peak compression, or the peak major-axis
+moment) and falls with the buckling load factor (sizer.checks.buckling and .lateral: the elastic
+branch does not depend on the demand, the Johnson branch and the unreduced allowable rise with
+it). So the screen's demands (exact at the screen's stations, which the check also uses: a lower
+bound of the check's) with an upper bound of the load factor give a lower bound of the
+utilization. The upper bounds are Rayleigh-Ritz bounds (sizer.stability.ritz) over trial shapes:
+the buckled shapes that the full checks made so far found, projected onto the shapes every section
+allows; each full check adds its shapes, so the bounds close in as the search goes on. Euler loads
+on buckling lengths the user gives are exact bounds from the start.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from sizer.analysis import MemberSolution
+from sizer.checks.reduction import johnson, reduced_allowable
+from sizer.checks.results import ZERO_ACTION
+from sizer.checks.stability import StabilityReport
+from sizer.model import Material, Member
+from sizer.sizing.candidates import CandidateTable
+from sizer.sizing.screen import Screen, load_and_weight_factors
+from sizer.stability import MemberStability, minor_axis_is_weaker
+from sizer.stability.boundary import admissible_basis
+from sizer.stability.ritz import largest_inverse, projected, strict_rows, term_coefficients, term_matrices
+
+KINDS = {"axial": "buckling", "lateral": "lateral-torsional"}
+
+
+class StabilityBounds:
+    """Lower bounds of the stability checks of every candidate (see the module docstring)."""
+
+    def __init__(self, model: MemberStability, base: MemberSolution, table: CandidateTable, found: Screen, member: Member,
+                 material: Material) -> None:
+        self.model, self.table, self.member, self.material = model, table, member, material
+        self.sections = table.stability_sections(material)
+        factors = load_and_weight_factors(base)
+        loads, per_mass = np.split(factors, 2)
+        self.demand = {"axial": found.compression, "lateral": found.moment}
+        self.lateral_applies = minor_axis_is_weaker(self.sections)
+        self.basis = admissible_basis(model.mesh.size, strict_rows(model))
+        self.terms = {}
+        for kind, demand in self.demand.items():
+            for c in range(len(base.combination_names)):
+                if np.any(demand[c] > ZERO_ACTION):
+                    self.terms[(kind, c)] = (term_matrices(model, kind, loads[c]), term_matrices(model, kind, per_mass[c]))
+        self.shapes: dict[tuple[str, int], list[np.ndarray]] = {key: [] for key in self.terms}
+        self.factor = {key: np.full(len(table.mass), np.inf) for key in self.terms}
+        self.stale: set[tuple[str, int]] = set()
+
+    def add(self, report: StabilityReport) -> None:
+        """Take a full check's buckled shapes as trial shapes (projected onto every section's allowed shapes)."""
+        for c, entry in enumerate(report.combinations):
+            for kind, found in (("axial", entry.axial), ("lateral", entry.lateral)):
+                if (kind, c) in self.terms and found is not None and found.mode is not None:
+                    self.shapes[(kind, c)].append(self.basis @ (self.basis.T @ found.mode))
+                    self.stale.add((kind, c))
+
+    def lower_bounds(self) -> dict[str, np.ndarray]:
+        """check -> (S,) proven lower bound of its utilization, with the trial shapes so far."""
+        for key in sorted(self.stale):
+            self.factor[key] = self._ritz(*key)
+        self.stale.clear()
+        return {"buckling": self._buckling(), "lateral-torsional": self._lateral()}
+
+    def _ritz(self, kind: str, c: int) -> np.ndarray:
+        terms_loads, terms_mass = self.terms[(kind, c)]
+        stiffness, geometric = projected(self.model, np.column_stack(self.shapes[(kind, c)]), terms_loads, terms_mass,
+                                         self.sections, self.table.mass, term_coefficients(kind, self.sections))
+        return largest_inverse(stiffness, geometric)
+
+    def _buckling(self) -> np.ndarray:
+        table, material, settings = self.table, self.material, self.member.checks
+        given = np.full(len(table.mass), np.inf)
+        for length, inertia in ((settings.buckling_length_major, table.I11), (settings.buckling_length_minor, table.I22)):
+            if length is not None:
+                given = np.minimum(given, np.pi**2 * material.elastic_modulus * inertia / length**2)
+        worst = np.zeros(len(table.mass))
+        for c, compression in enumerate(self.demand["axial"]):
+            factor = self.factor.get(("axial", c), np.full(len(table.mass), np.inf))
+            with np.errstate(divide="ignore", invalid="ignore"):
+                load = np.minimum(np.where(compression > ZERO_ACTION, factor * compression, np.inf), given)
+                allowable = johnson(load / table.area, material.yield_strength) * table.area / settings.buckling_safety_factor
+                value = np.where(compression > ZERO_ACTION, compression / allowable, 0.0)
+            worst = np.maximum(worst, np.nan_to_num(value, nan=0.0))
+        return worst
+
+    def _lateral(self) -> np.ndarray:
+        table, material = self.table, self.material
+        worst = np.zeros(len(table.mass))
+        bending = material.allowable.bending
+        if bending is None:
+            return worst
+        modulus = np.minimum(table.Sz_top, table.Sz_bottom)
+        for c, moment in enumerate(self.demand["lateral"]):
+            factor = self.factor.get(("lateral", c), np.full(len(table.mass), np.inf))
+            with np.errstate(invalid="ignore", over="ignore"):
+                allowable = reduced_allowable(bending, np.where(moment > ZERO_ACTION, factor * moment, np.inf) / modulus, material.yield_strength,
+                                              self.member.checks.buckling_safety_factor)
+                value = np.where((moment > ZERO_ACTION) & self.lateral_applies, moment * table.sigma_peak_Mz / allowable, 0.0)
+            worst = np.maximum(worst, np.nan_to_num(value, nan=0.0))
+        return worst
+

@@ -1,0 +1,96 @@
+"""Upper bounds on the lowest buckling load factor of many sections at once (Rayleigh-Ritz).
+
+For any shape d that the supports and restraints allow, with d^T B d > 0, the Rayleigh quotient
+d^T K d / d^T B d is at least the lowest positive load factor (K positive definite, B = -G
+indefinite: the lowest positive lam is the minimum of the quotient over the allowed shapes).
+The minimum over a few trial shapes D (n x k) is the largest eigenvalue problem of the k x k
+matrices D^T K D and D^T B D: a closer bound, still an upper bound.
+
+K and B depend on a section only through a few scalars (rigidities, shear-centre offsets, Wagner
+coefficients, face heights, mass per length), so D^T K D and D^T B D are weighted sums of fixed
+k x k matrices, and the bound of every section is one small batched eigen-solve. The trial shapes
+must be allowed for every section: buckled shapes of some sections, projected onto the shapes that
+the strictest form of the constraints allows (warping held wherever a support holds it; a lateral
+restraint at a face holding both the sideways movement and the twist there: strict_rows).
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from sizer.stability.boundary import restraint_rows, warping_rows
+from sizer.stability.heights import height_coefficients, height_terms
+from sizer.stability.problem import MZ, N, MemberStability
+from sizer.stability.section import StabilitySection
+from sizer.stability.terms import axial_coefficients, axial_terms, elastic_coefficients, moment_coefficients, moment_terms
+
+KINDS = ("axial", "lateral")
+
+
+def strict_rows(model: MemberStability) -> list[dict[int, float]]:
+    """Constraint rows allowed for every section: the supports, every warping hold, and for a
+    lateral restraint at a face both its sideways movement and its twist held."""
+    from dataclasses import replace
+
+    member = model.member
+    faced = tuple(replace(r, twist=True, height="centre") if r.lateral and isinstance(r.height, str) and r.height != "centre" else r
+                  for r in member.restraints)
+    strict = replace(member, restraints=faced)
+    return model.supports + warping_rows(member, model.mesh, None) + restraint_rows(strict, model.mesh, None)
+
+
+def term_matrices(model: MemberStability, kind: str, weights: np.ndarray) -> dict[str, np.ndarray]:
+    """The geometric term matrices G_t of one load set (weights (n_cases + 1,)) for a kind of solve."""
+    actions = model.actions(weights)
+    if kind == "axial":
+        return axial_terms(model.quad, actions[..., N])
+    terms = moment_terms(model.quad, actions[..., MZ], np.zeros_like(actions[..., MZ]))
+    terms = {name: terms[name] for name in ("Mz", "wagner_Mz")}
+    terms.update(height_terms(model.quad, model.member, model.orientation, np.asarray(weights), model.cases))
+    return terms
+
+
+def term_coefficients(kind: str, section: StabilitySection) -> dict[str, object]:
+    """The section scalars (arrays) that weight each term matrix."""
+    if kind == "axial":
+        return axial_coefficients(section)
+    return {**moment_coefficients(section), **height_coefficients(section)}
+
+
+def projected(model: MemberStability, shapes: np.ndarray, terms_loads: dict[str, np.ndarray], terms_mass: dict[str, np.ndarray],
+              sections: StabilitySection, masses: np.ndarray, coefficients: dict[str, object]) -> tuple[np.ndarray, np.ndarray]:
+    """(S, k, k) stiffness D^T K D and geometry D^T B D of every section over the trial shapes
+    `shapes` (n, k'), orthonormalized to D; B = -sum coefficient x (G_loads + mass x G_per_mass)."""
+    trial = _independent(shapes)
+    count = len(np.atleast_1d(masses))
+    stiffness = trial.T @ np.diag(model.springs) @ trial + np.zeros((count, 1, 1))
+    for name, value in elastic_coefficients(sections).items():
+        stiffness = stiffness + np.multiply.outer(np.broadcast_to(np.asarray(value, float), (count,)), trial.T @ model.elastic[name] @ trial)
+    geometric = np.zeros_like(stiffness)
+    zero = np.zeros((model.mesh.size, model.mesh.size))
+    for name in set(terms_loads) | set(terms_mass):
+        weight = np.broadcast_to(np.asarray(coefficients[name], float), (count,))
+        geometric -= np.multiply.outer(weight, trial.T @ terms_loads.get(name, zero) @ trial)
+        geometric -= np.multiply.outer(weight * masses, trial.T @ terms_mass.get(name, zero) @ trial)
+    return stiffness, geometric
+
+
+def _independent(shapes: np.ndarray) -> np.ndarray:
+    """An orthonormal basis of the columns' span (nearly dependent columns dropped)."""
+    q, r = np.linalg.qr(shapes)
+    keep = np.abs(np.diag(r)) > 1e-8 * np.abs(np.diag(r)).max()
+    return q[:, keep]
+
+
+def largest_inverse(stiffness: np.ndarray, geometric: np.ndarray) -> np.ndarray:
+    """(S,) 1 / the largest mu of geometric r = mu stiffness r per section (inf where mu <= 0)."""
+    try:
+        lower = np.linalg.cholesky(stiffness)
+    except np.linalg.LinAlgError:
+        return np.full(stiffness.shape[0], np.inf)
+    half = np.linalg.solve(lower, geometric)
+    reduced = np.linalg.solve(lower, np.swapaxes(half, 1, 2))
+    mu = np.linalg.eigvalsh((reduced + np.swapaxes(reduced, 1, 2)) / 2)[:, -1]
+    scale = np.abs(reduced).max(axis=(1, 2))
+    with np.errstate(divide="ignore"):
+        return np.where(mu > 1e-12 * scale, 1.0 / mu, np.inf)
