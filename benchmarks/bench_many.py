@@ -19,6 +19,7 @@ from __future__ import annotations
 import argparse
 import json
 import os
+import resource
 import shutil
 import subprocess
 import sys
@@ -107,38 +108,48 @@ def forget_kept_rows() -> None:
     shutil.rmtree(cache_root() / RUNS_FOLDER, ignore_errors=True)
 
 
-def timed(arguments: list[str]) -> tuple[float, dict]:
-    """Wall time of one `sizer` run (kept rows removed first) and its JSON document."""
+def timed(arguments: list[str]) -> tuple[float, float, dict]:
+    """Wall time and CPU time (the run and its worker processes) of one `sizer` run (kept rows removed
+    first), and its JSON document. On a machine shared with other work the wall time depends on the
+    load; the CPU time shows the parallel overhead apart from it."""
     forget_kept_rows()
+    before = resource.getrusage(resource.RUSAGE_CHILDREN)
     start = time.perf_counter()
     done = subprocess.run([SIZER, *arguments, "--json"], capture_output=True, text=True, env={**os.environ, "OPENBLAS_NUM_THREADS": "1"})
     elapsed = time.perf_counter() - start
+    after = resource.getrusage(resource.RUSAGE_CHILDREN)
     if done.returncode not in (0, 1):
         sys.exit(f"sizer failed ({done.returncode}): {done.stderr.strip()}")
-    return elapsed, json.loads(done.stdout)
+    cpu = after.ru_utime + after.ru_stime - before.ru_utime - before.ru_stime
+    return elapsed, cpu, json.loads(done.stdout)
 
 
 def main() -> None:
     parser = argparse.ArgumentParser(description=__doc__.split("\n")[0])
     parser.add_argument("--workdir", type=Path)
     parser.add_argument("--members", type=int, default=200)
-    parser.add_argument("--spans", type=int, default=20)
+    parser.add_argument("--spans", type=int, default=20, help="spans of the span table (0: no span table)")
     parser.add_argument("--jobs", type=int, default=os.cpu_count() or 2)
     options = parser.parse_args()
     folder = options.workdir or Path(tempfile.mkdtemp(prefix="sizer-bench-many-"))
     schedule = write_schedule(folder, options.members)
     print(f"workdir {folder}; {options.members} members; {options.jobs} jobs; cores {os.cpu_count()}")
 
-    one, document = timed(["schedule", str(schedule), "--jobs", "1"])
+    print(f"load average before: {os.getloadavg()[0]:.1f} (other work on the machine slows the wall times)")
+    one, one_cpu, document = timed(["schedule", str(schedule), "--jobs", "1"])
     sized = sum(row["do"] == "size" for row in document["members"])
-    print(f"(a) schedule --jobs 1:  {one:7.1f} s  ({sized} sized, {len(document['members']) - sized} checked)")
-    many, again = timed(["schedule", str(schedule), "--jobs", str(options.jobs)])
+    print(f"(a) schedule --jobs 1:  {one:7.1f} s wall, {one_cpu:6.1f} s CPU  ({sized} sized, {len(document['members']) - sized} checked)")
+    many, many_cpu, again = timed(["schedule", str(schedule), "--jobs", str(options.jobs)])
     same = [(r["section"], r["utilization"]) for r in document["members"]] == [(r["section"], r["utilization"]) for r in again["members"]]
-    print(f"(b) schedule --jobs {options.jobs}:  {many:7.1f} s  speed-up {one / many:.2f} (target >= 1.8); rows identical: {same}")
+    print(f"(b) schedule --jobs {options.jobs}:  {many:7.1f} s wall, {many_cpu:6.1f} s CPU  speed-up {one / many:.2f} (target >= 1.8); "
+          f"CPU overhead of the processes {many_cpu / one_cpu - 1:+.0%}; rows identical: {same}")
+    print(f"    load average after: {os.getloadavg()[0]:.1f}")
 
+    if options.spans < 1:
+        return
     table = folder / "span_table.toml"
     table.write_text(SPAN_TABLE.format(lengths=", ".join(f'"{1 + 0.5 * k:g} m"' for k in range(options.spans))))
-    seconds, spans = timed(["span-table", str(table), "--jobs", str(options.jobs)])
+    seconds, _, spans = timed(["span-table", str(table), "--jobs", str(options.jobs)])
     cells = sum(len(entry["rows"]) for entry in spans["sections"])
     checks = sum(row["checks_made"] for entry in spans["sections"] for row in entry["rows"])
     print(f"(c) span-table, {len(spans['sections'])} sections x {options.spans} spans = {cells} cells: {seconds:7.1f} s "

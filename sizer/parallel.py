@@ -210,40 +210,75 @@ class JobFailed(Exception):
         self.index, self.error = index, error
 
 
-def run_jobs(work: Work, jobs: Sequence[Job], workers: int | None = None, cluster: str | None = None,
-             description: str = "Working", stop_on_error: bool = True, show_progress: bool = True) -> tuple[list[dict], RunSummary]:
-    """Every job's result, in the jobs' order: kept results first, the rest run by `work` on
-    `workers` local processes (default: every core) or on the Dask scheduler at `cluster`. Jobs
-    with the same key run once. With `stop_on_error`, the first bad-input result stops the run
-    (JobFailed, naming the job)."""
-    check_workers(workers, cluster)
-    results: list[dict | None] = [read_kept(job.key) for job in jobs]
-    sharing: dict[str, list[int]] = {}
-    for index, result in enumerate(results):
-        if result is None:
-            sharing.setdefault(jobs[index].key, []).append(index)
-    pending = [indices[0] for indices in sharing.values()]
-    summary = RunSummary(total=len(jobs), resumed=sum(result is not None for result in results), ran=len(jobs) - sum(result is not None for result in results))
+def warm_up() -> None:
+    """Import what every job needs (numpy, scipy, the analysis and the checks) when a worker process starts."""
+    import sizer.api  # noqa: F401
+    from sizer import checks, design, sections  # noqa: F401
 
-    def finished(index: int, result: dict) -> None:
-        keep(jobs[index].key, result)
-        for same in sharing[jobs[index].key]:
-            results[same] = result
-        if stop_on_error and (error := result_error(result)) is not None:
-            raise JobFailed(index, error)
 
-    with _progress(description, len(pending) + summary.resumed, summary.resumed, show_progress and bool(pending)) as advance:
-        if cluster:
-            summary.where = f"the Dask cluster at {cluster}"
-            _run_on_cluster(work, jobs, pending, cluster, finished, advance)
-        else:
-            count = min(workers or default_jobs(), len(pending)) or 1
-            summary.where = f"{count} local process{'es' if count > 1 else ''}"
-            if count == 1:
-                _run_here(work, jobs, pending, finished, advance)
+class Workers:
+    """Where the jobs run: this process, local worker processes, or a Dask cluster. Opened before the
+    jobs are prepared, so that local processes start and import sizer while this process reads the
+    input (they start on demand: one trivial task each starts them all), and a cluster's address is
+    tried at once."""
+
+    def __init__(self, jobs: int | None = None, cluster: str | None = None) -> None:
+        check_workers(jobs, cluster)
+        self.cluster = cluster
+        self.count = 1 if cluster else (jobs or default_jobs())
+        self.pool: Any = None
+        self.client: Any = None
+
+    def __enter__(self) -> "Workers":
+        if self.cluster:
+            self.client = _cluster_client(self.cluster)
+        elif self.count > 1:
+            import multiprocessing
+            from concurrent.futures import ProcessPoolExecutor
+
+            self.pool = ProcessPoolExecutor(self.count, mp_context=multiprocessing.get_context("spawn"), initializer=warm_up)
+            for _ in range(self.count):
+                self.pool.submit(int)
+        return self
+
+    def __exit__(self, *exc: Any) -> None:
+        if self.pool is not None:
+            self.pool.shutdown(wait=True, cancel_futures=True)
+        if self.client is not None:
+            self.client.close()
+
+    def run(self, work: Work, jobs: Sequence[Job], description: str = "Working", stop_on_error: bool = True,
+            show_progress: bool = True) -> tuple[list[dict], RunSummary]:
+        """Every job's result, in the jobs' order: kept results first, the rest run by `work`. Jobs with
+        the same key run once. With `stop_on_error`, the first bad-input result stops the run
+        (JobFailed, naming the job)."""
+        results: list[dict | None] = [read_kept(job.key) for job in jobs]
+        sharing: dict[str, list[int]] = {}
+        for index, result in enumerate(results):
+            if result is None:
+                sharing.setdefault(jobs[index].key, []).append(index)
+        pending = [indices[0] for indices in sharing.values()]
+        resumed = sum(result is not None for result in results)
+        summary = RunSummary(total=len(jobs), resumed=resumed, ran=len(jobs) - resumed)
+
+        def finished(index: int, result: dict) -> None:
+            keep(jobs[index].key, result)
+            for same in sharing[jobs[index].key]:
+                results[same] = result
+            if stop_on_error and (error := result_error(result)) is not None:
+                raise JobFailed(index, error)
+
+        with _progress(description, len(pending) + resumed, resumed, show_progress and bool(pending)) as advance:
+            if self.client is not None:
+                summary.where = f"the Dask cluster at {self.cluster}"
+                _run_on_cluster(work, jobs, pending, self.client, finished, advance)
+            elif self.pool is not None and len(pending) > 1:
+                summary.where = f"{self.count} local processes"
+                _run_on_processes(work, jobs, pending, self.pool, finished, advance)
             else:
-                _run_on_processes(work, jobs, pending, count, finished, advance)
-    return [result for result in results if result is not None], summary
+                summary.where = "1 local process"
+                _run_here(work, jobs, pending, finished, advance)
+        return [result for result in results if result is not None], summary
 
 
 def _run_here(work: Work, jobs: Sequence[Job], pending: list[int], finished: Callable[[int, dict], None],
@@ -253,46 +288,40 @@ def _run_here(work: Work, jobs: Sequence[Job], pending: list[int], finished: Cal
         advance(jobs[index].label)
 
 
-def _run_on_processes(work: Work, jobs: Sequence[Job], pending: list[int], count: int,
+def _run_on_processes(work: Work, jobs: Sequence[Job], pending: list[int], pool: Any,
                       finished: Callable[[int, dict], None], advance: Callable[[str], None]) -> None:
     """Local processes (spawn: a clean interpreter each, the same on every platform)."""
-    import multiprocessing
-    from concurrent.futures import FIRST_COMPLETED, ProcessPoolExecutor, wait
+    from concurrent.futures import FIRST_COMPLETED, wait
 
-    with ProcessPoolExecutor(max_workers=count, mp_context=multiprocessing.get_context("spawn")) as pool:
-        futures = {pool.submit(work, jobs[index].payload): index for index in pending}
-        try:
-            waiting = set(futures)
-            while waiting:
-                done, waiting = wait(waiting, return_when=FIRST_COMPLETED)
-                for future in sorted(done, key=futures.__getitem__):
-                    finished(futures[future], future.result())
-                    advance(jobs[futures[future]].label)
-        except BaseException:
-            for future in futures:
-                future.cancel()
-            raise
-
-
-def _run_on_cluster(work: Work, jobs: Sequence[Job], pending: list[int], address: str,
-                    finished: Callable[[int, dict], None], advance: Callable[[str], None]) -> None:
-    """An existing Dask distributed cluster; the client is closed afterwards, the cluster left running."""
-    client = _cluster_client(address)
+    futures = {pool.submit(work, jobs[index].payload): index for index in pending}
     try:
-        from distributed import as_completed
+        waiting = set(futures)
+        while waiting:
+            done, waiting = wait(waiting, return_when=FIRST_COMPLETED)
+            for future in sorted(done, key=futures.__getitem__):
+                finished(futures[future], future.result())
+                advance(jobs[futures[future]].label)
+    except BaseException:
+        for future in futures:
+            future.cancel()
+        raise
 
-        futures = client.map(work, [jobs[index].payload for index in pending], key=[f"sizer-{jobs[index].key}" for index in pending], pure=False)
-        where = {future.key: index for future, index in zip(futures, pending)}
-        try:
-            for future in as_completed(futures, loop=client.loop):
-                index = where[future.key]
-                finished(index, future.result())
-                advance(jobs[index].label)
-        except BaseException:
-            client.cancel(futures)
-            raise
-    finally:
-        client.close()
+
+def _run_on_cluster(work: Work, jobs: Sequence[Job], pending: list[int], client: Any,
+                    finished: Callable[[int, dict], None], advance: Callable[[str], None]) -> None:
+    """An existing Dask distributed cluster (the client is closed by Workers, the cluster left running)."""
+    from distributed import as_completed
+
+    futures = client.map(work, [jobs[index].payload for index in pending], key=[f"sizer-{jobs[index].key}" for index in pending], pure=False)
+    where = {future.key: index for future, index in zip(futures, pending)}
+    try:
+        for future in as_completed(futures, loop=client.loop):
+            index = where[future.key]
+            finished(index, future.result())
+            advance(jobs[index].label)
+    except BaseException:
+        client.cancel(futures)
+        raise
 
 
 def _cluster_client(address: str) -> Any:

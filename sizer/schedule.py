@@ -22,7 +22,7 @@ from typing import Any, Sequence
 
 from sizer.errors import InputError
 from sizer.model import LineLoad, Member, PointLoad
-from sizer.parallel import Job, JobFailed, RunSummary, ShippedCatalogue, content_hash, code_fingerprint, error_result, result_error, run_jobs, ship_catalogue
+from sizer.parallel import Job, JobFailed, RunSummary, ShippedCatalogue, Workers, code_fingerprint, content_hash, error_result, result_error, ship_catalogue
 
 TOP_KEYS = ("title", "members")
 ROW_KEYS = ("mark", "file", "do", "quantity", "length", "section", "material")
@@ -342,15 +342,13 @@ def run_schedule(schedule: Schedule, catalogue: Sequence[Path] = (), jobs: int |
                  keep_going: bool = False, record: bool = False, show_progress: bool = True) -> ScheduleResult:
     """Size or check every row (in parallel); rows in the schedule's order. InputError for the first bad
     row, unless keep_going (then the bad rows are in `errors` and the rest still run)."""
-    from sizer.parallel import check_workers
-
-    check_workers(jobs, cluster)
-    tasks, errors = prepare_tasks(schedule, catalogue, record, keep_going)
-    work = [Job(row_key(task), task, row.mark) for row, task, _ in tasks]
-    try:
-        results, summary = run_jobs(work_row, work, jobs, cluster, "Members", stop_on_error=not keep_going, show_progress=show_progress)
-    except JobFailed as failed:
-        raise row_error(schedule, tasks[failed.index][0], failed.error) from None
+    with Workers(jobs, cluster) as workers:
+        tasks, errors = prepare_tasks(schedule, catalogue, record, keep_going)
+        work = [Job(row_key(task), task, row.mark) for row, task, _ in tasks]
+        try:
+            results, summary = workers.run(work_row, work, "Members", stop_on_error=not keep_going, show_progress=show_progress)
+        except JobFailed as failed:
+            raise row_error(schedule, tasks[failed.index][0], failed.error) from None
     rows, records = [], {}
     for (row, task, notes), result in zip(tasks, results):
         error = result_error(result)

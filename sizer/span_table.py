@@ -30,8 +30,8 @@ from pathlib import Path
 from typing import Any, Callable, Sequence
 
 from sizer.errors import InputError
-from sizer.parallel import (Job, JobFailed, RunSummary, ShippedCatalogue, code_fingerprint, content_hash, error_result, result_error,
-                            run_jobs, ship_catalogue)
+from sizer.parallel import (Job, JobFailed, RunSummary, ShippedCatalogue, Workers, code_fingerprint, content_hash, error_result,
+                            result_error, ship_catalogue)
 
 TOP_KEYS = ("title", "span_table", "materials")
 TABLE_KEYS = ("layout", "spans", "material", "orientation", "self_weight", "restraint", "mode", "loads", "lengths", "load",
@@ -677,17 +677,15 @@ def cell_key(task: CellTask) -> str:
 def run_span_table(spec: SpanTableSpec, catalogue: Sequence[Path] = (), families: Sequence[str] = (), jobs: int | None = None,
                    cluster: str | None = None, show_progress: bool = True) -> SpanTableResult:
     """Every section's cells (in parallel), sections by mass per length."""
-    from sizer.parallel import check_workers
-
-    check_workers(jobs, cluster)
-    sections, loaded = table_sections(spec, catalogue, families)
-    shipped = ship_catalogue(loaded.files)
-    tasks = [CellTask(spec, name, column, shipped) for name, _ in sections for column in range(spec.columns)]
-    work = [Job(cell_key(task), task, task.section) for task in tasks]
-    try:
-        results, summary = run_jobs(work_cell, work, jobs, cluster, "Cells", show_progress=show_progress)
-    except JobFailed as failed:
-        raise failed.error from None
+    with Workers(jobs, cluster) as workers:
+        sections, loaded = table_sections(spec, catalogue, families)
+        shipped = ship_catalogue(loaded.files)
+        tasks = [CellTask(spec, name, column, shipped) for name, _ in sections for column in range(spec.columns)]
+        work = [Job(cell_key(task), task, task.section) for task in tasks]
+        try:
+            results, summary = workers.run(work_cell, work, "Cells", show_progress=show_progress)
+        except JobFailed as failed:
+            raise failed.error from None
     for result in results:
         if (error := result_error(result)) is not None:
             raise error

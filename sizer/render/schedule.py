@@ -169,7 +169,9 @@ def schedule_html(document: dict, links: dict[str, str]) -> str:
             "<th>verdict</th><th class=\"num\">kg/m</th><th class=\"num\">quantity</th><th class=\"num\">length</th><th class=\"num\">mass</th>"
             f"<th>calculation record</th></tr>{member_rows}</table>"
             "<h2>Totals by section</h2><table><tr><th>section</th><th class=\"num\">pieces</th><th class=\"num\">total length</th>"
-            f"<th class=\"num\">mass</th></tr>{total_rows}<tr><td><b>all</b></td><td></td><td></td><td class=\"num\"><b>{_number(totals['mass'], 0)} kg</b></td></tr></table>"
+            f"<th class=\"num\">mass</th></tr>{total_rows}<tr><td><b>all</b></td><td class=\"num\">{sum(e['quantity'] for e in totals['by_section'])}</td>"
+            f"<td class=\"num\">{_e(units.fmt(sum(e['length'] for e in totals['by_section']), 'length'))}</td>"
+            f"<td class=\"num\"><b>{_number(totals['mass'], 0)} kg</b></td></tr></table>"
             + (f"<h2>Bad rows (not run)</h2><ul class=\"notes\">{bad}</ul>" if bad else "")
             + f"<h2>Assumptions</h2><ul class=\"notes\">{notes}</ul>"
             f"<section class=\"cautions\"><h2>⚠ Cautions</h2><ul>{cautions}</ul></section>"
