@@ -3,7 +3,8 @@
 Each action of a block is one matrix product [c_s, c_s m_s] @ [A_loads; A_per_mass] over the
 section-independent stations (all of which the full check uses too). Axial force, deflection and
 the demands of the stability checks (each combination's peak compression and peak major-axis
-moment) are exact there, in double precision: true lower bounds of the full check. Bending,
+moment) are exact there, in double precision: true lower bounds of the full check. Local buckling
+is the check's own formula at these stations, for one candidate when the search needs it. Bending,
 shear, interaction and equivalent stress are estimated from the per-unit-action peaks (|sigma| <=
 sum |action_i| * peak_i) in single precision: the estimates only choose which checks to prove and
 at which station; the proof is the full stress field at that station (prove_lower_bounds).
@@ -35,7 +36,6 @@ class Screen:
     """What the screen found for every candidate (rows as in CandidateTable)."""
 
     exact: dict[str, np.ndarray]  # check -> (S,) the check's own value at the screen's stations: axial, deflection
-    lower: dict[str, np.ndarray]  # check -> (S,) the check's own formula at the screen's stations, which miss the moment peaks: local
     estimate: dict[str, np.ndarray]  # stress check -> (S,) largest utilization from the peaks (single precision)
     worst: dict[str, np.ndarray]  # stress check -> (S,) flat (combination x station) row of that estimate
     compression: np.ndarray  # (C, S) peak axial compression of each combination at the stations, N (>= 0)
@@ -64,17 +64,16 @@ def screen(table: CandidateTable, member: Member, material: Material, base: Memb
     deflection = deflection_screen(table, member, material, base)
     if deflection is not None:
         exact["deflection"] = deflection
-    local = local_screen(table, member, material, loads, per_mass)
-    lower = {"local": local} if local is not None else {}
     combinations = len(base.combination_names)
     compression = -peaks(loads[:, N].reshape(combinations, -1), per_mass[:, N].reshape(combinations, -1), table.mass, np.minimum)
     moment = peaks(loads[:, MZ].reshape(combinations, -1), per_mass[:, MZ].reshape(combinations, -1), table.mass, None)
-    return Screen(exact, lower, estimate, worst, np.maximum(compression, 0.0), moment, loads, per_mass, table, fa_allowed)
+    return Screen(exact, estimate, worst, np.maximum(compression, 0.0), moment, loads, per_mass, table, fa_allowed)
 
 
-def local_screen(table: CandidateTable, member: Member, material: Material, loads: np.ndarray, per_mass: np.ndarray) -> np.ndarray | None:
-    """(S,) the local check's own value at the screen's stations (exact: the wall stresses are linear
-    in the actions); None when it cannot be made here (no allowable for the walls: the full check says why)."""
+def local_lower_bound(found: Screen, index: int, member: Member, material: Material) -> float | None:
+    """The local check's own value for one candidate at the screen's stations (the wall stresses are
+    linear in the actions): a lower bound of the check's, which also looks at the moment peaks
+    between them. None when it cannot be made here (no allowable for the walls: the check says why)."""
     from sizer.checks.local import local_utilizations, poisson_ratio, wall_allowable
     from sizer.errors import InputError
 
@@ -82,24 +81,18 @@ def local_screen(table: CandidateTable, member: Member, material: Material, load
         nu, allowable = poisson_ratio(material, member.source), wall_allowable(material, member.source)
     except InputError:
         return None
-    walls, count = table.walls, len(table.mass)
-    out = np.zeros(count)
-    step = max(1, SCREEN_BLOCK // max(loads.shape[0], 1))
-    for start in range(0, count, step):
-        block = slice(start, min(start + step, count))
-        actions = loads[None] + table.mass[block, None, None] * per_mass[None]
-        part = _walls_of(walls, block)
-        out[block] = local_utilizations(part, actions, table.area[block], table.Iz[block], table.Iy[block], table.Iyz[block],
-                                        material.elastic_modulus, nu, material.yield_strength, allowable,
-                                        member.checks.buckling_safety_factor)[0]
-    return out
+    table, row = found.table, slice(index, index + 1)
+    actions = (found.loads + table.mass[index] * found.per_mass)[None]
+    return float(local_utilizations(_walls_of(table.walls, row), actions, table.area[row], table.Iz[row], table.Iy[row], table.Iyz[row],
+                                    material.elastic_modulus, nu, material.yield_strength, allowable,
+                                    member.checks.buckling_safety_factor)[0][0])
 
 
-def _walls_of(walls: Any, block: slice) -> Any:
-    """The rows `block` of a WallTable."""
+def _walls_of(walls: Any, rows: slice) -> Any:
+    """The rows of a WallTable."""
     from dataclasses import fields, replace
 
-    return replace(walls, **{f.name: getattr(walls, f.name)[block] for f in fields(walls)})
+    return replace(walls, **{f.name: getattr(walls, f.name)[rows] for f in fields(walls)})
 
 
 def peaks(loads: np.ndarray, per_mass: np.ndarray, mass: np.ndarray, reduce: Callable | None) -> np.ndarray:

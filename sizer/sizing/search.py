@@ -12,7 +12,7 @@ from sizer.analysis import MemberSolution, solve_member
 from sizer.checks import CheckReport, check_design
 from sizer.model import Material, Member, Stiffness
 from sizer.sizing.candidates import Candidate, CandidateTable, candidate_sections, design_for
-from sizer.sizing.screen import Screen, prove_lower_bounds, screen
+from sizer.sizing.screen import Screen, local_lower_bound, prove_lower_bounds, screen
 from sizer.sizing.stability_bounds import StabilityBounds
 from sizer.stability import MemberStability
 
@@ -66,14 +66,19 @@ class Search:
 
     def passes_in_full(self, candidate: Candidate) -> bool:
         """False at once when a proven lower bound rules the candidate out (the exact parts of the
-        screen, the stability bounds, then the full field at the screen's worst stations); else
-        the verdict of the full check."""
+        screen, the stability bounds, then the full field at the screen's worst stations, then local
+        buckling at the screen's stations); else the verdict of the full check."""
         if self.found is not None and candidate.report is None:
             if candidate.certainly_fails:
                 return False
             prove_lower_bounds(candidate, self.found, self.material)
             if candidate.certainly_fails:
                 return False
+            local = local_lower_bound(self.found, candidate.index, self.member, self.material)
+            if local is not None:
+                candidate.raise_bound("local", local)
+                if candidate.certainly_fails:
+                    return False
         return self.full_check(candidate).passes
 
     def first_passing(self) -> Candidate | None:
@@ -142,7 +147,7 @@ def prepare_screen(search: Search, table: CandidateTable) -> None:
     search.base = solve_member(member, Stiffness.unit(), None)
     search.found = screen(table, member, material, search.base)
     for candidate in search.candidates:
-        for check, values in {**search.found.exact, **search.found.lower}.items():
+        for check, values in search.found.exact.items():
             candidate.raise_bound(check, values[candidate.index])
     search.model = MemberStability(member, search.base)
     search.stability = StabilityBounds(search.model, search.base, table, search.found, member, material)

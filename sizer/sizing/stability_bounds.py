@@ -40,21 +40,22 @@ class StabilityBounds:
         loads, per_mass = np.split(factors, 2)
         self.demand = {"axial": found.compression, "lateral": found.moment}
         self.lateral_applies = minor_axis_is_weaker(self.sections)
-        self.basis = admissible_basis(model.mesh.size, strict_rows(model))
-        self.terms = {}
-        for kind, demand in self.demand.items():
-            for c in range(len(base.combination_names)):
-                if np.any(demand[c] > ZERO_ACTION):
-                    self.terms[(kind, c)] = (term_matrices(model, kind, loads[c]), term_matrices(model, kind, per_mass[c]))
-        self.shapes: dict[tuple[str, int], list[np.ndarray]] = {key: [] for key in self.terms}
-        self.factor = {key: np.full(len(table.mass), np.inf) for key in self.terms}
+        self.rows = (loads, per_mass)
+        self.wanted = {(kind, c) for kind, demand in self.demand.items() for c in range(len(base.combination_names))
+                       if np.any(demand[c] > ZERO_ACTION)}
+        self.basis: np.ndarray | None = None  # made with the first shapes
+        self.terms: dict[tuple[str, int], tuple[dict[str, np.ndarray], dict[str, np.ndarray]]] = {}
+        self.shapes: dict[tuple[str, int], list[np.ndarray]] = {key: [] for key in self.wanted}
+        self.factor = {key: np.full(len(table.mass), np.inf) for key in self.wanted}
         self.stale: set[tuple[str, int]] = set()
 
     def add(self, report: StabilityReport) -> None:
         """Take a full check's buckled shapes as trial shapes (projected onto every section's allowed shapes)."""
+        if self.basis is None:
+            self.basis = admissible_basis(self.model.mesh.size, strict_rows(self.model))
         for c, entry in enumerate(report.combinations):
             for kind, found in (("axial", entry.axial), ("lateral", entry.lateral)):
-                if (kind, c) in self.terms and found is not None and found.mode is not None:
+                if (kind, c) in self.wanted and found is not None and found.mode is not None:
                     self.shapes[(kind, c)].append(self.basis @ (self.basis.T @ found.mode))
                     self.stale.add((kind, c))
 
@@ -66,6 +67,9 @@ class StabilityBounds:
         return {"buckling": self._buckling(), "lateral-torsional": self._lateral()}
 
     def _ritz(self, kind: str, c: int) -> np.ndarray:
+        if (kind, c) not in self.terms:  # the term matrices of a load set, made when first needed
+            loads, per_mass = self.rows
+            self.terms[(kind, c)] = (term_matrices(self.model, kind, loads[c]), term_matrices(self.model, kind, per_mass[c]))
         terms_loads, terms_mass = self.terms[(kind, c)]
         stiffness, geometric = projected(self.model, np.column_stack(self.shapes[(kind, c)]), terms_loads, terms_mass,
                                          self.sections, self.table.mass, term_coefficients(kind, self.sections))
