@@ -16,7 +16,7 @@ from sizer.errors import InputError
 CATALOGUE_OPTION = typer.Option(None, "--catalogue", help="Catalogue file or folder; may repeat.")
 JOBS_OPTION = typer.Option(None, "--jobs", help="Local processes to use (default: every core).", show_default=False)
 CLUSTER_OPTION = typer.Option(None, "--cluster", help="Run on the Dask scheduler at this address, e.g. tcp://10.0.0.5:8786 "
-                              "(pip install 'sizer[cluster]'; the workers need sizer installed).")
+                              "(pip install 'sizer\\[cluster]'; the workers need sizer installed).")
 JSON_OPTION = typer.Option(False, "--json", help="JSON in SI base units on stdout.")
 CSV_OPTION = typer.Option(None, "--csv", help="Also write the rows as CSV (SI base units) to this file.")
 

@@ -211,7 +211,11 @@ class JobFailed(Exception):
 
 
 def warm_up() -> None:
-    """Import what every job needs (numpy, scipy, the analysis and the checks) when a worker process starts."""
+    """When a worker process starts: leave Ctrl-C to the parent (it keeps what is finished and stops the
+    rest), and import what every job needs (numpy, scipy, the analysis and the checks)."""
+    import signal
+
+    signal.signal(signal.SIGINT, signal.SIG_IGN)
     import sizer.api  # noqa: F401
     from sizer import checks, design, sections  # noqa: F401
 
