@@ -114,14 +114,15 @@ def forces(member: MemberLike, section: str | None = None, catalogue: Sequence[s
     combination, or only `combination`."""
     from sizer.design import prepare
     from sizer.errors import InputError
-    from sizer.render.common import member_notes
+    from sizer.render.common import member_notes, small_deflection_cautions
 
     member = as_member(member)
     if combination is not None and combination not in member.combinations:
         raise InputError("", "--combination", f"no combination is named {combination!r}", "use one of: " + ", ".join(member.combinations))
     design = prepare(member, [Path(path) for path in catalogue], section)
     names = (combination,) if combination else tuple(member.combinations)
-    return ForcesOutcome(member, names, member_notes(member) + design.notes, design, units=units)
+    notes = member_notes(member) + design.notes + small_deflection_cautions(design.solution)
+    return ForcesOutcome(member, names, notes, design, units=units)
 
 
 # ----------------------------------------------------------------------------------------------
@@ -171,13 +172,14 @@ def check(member: MemberLike, section: str | None = None, catalogue: Sequence[st
     cross-section stress field."""
     from sizer.checks import check_design
     from sizer.design import prepare
-    from sizer.render.common import member_notes
+    from sizer.render.common import member_notes, small_deflection_cautions
     from sizer.sections import unit_stress_field
 
     member = as_member(member)
     design = prepare(member, [Path(path) for path in catalogue], section, need_section=True)
     report = check_design(design, unit_stress_field(design.spec))
-    return check_outcome(design, report, member_notes(member) + design.notes + report.notes, units)
+    notes = member_notes(member) + design.notes + report.notes + small_deflection_cautions(design.solution)
+    return check_outcome(design, report, notes, units)
 
 
 # ----------------------------------------------------------------------------------------------
@@ -238,7 +240,7 @@ def size(member: MemberLike, catalogue: Sequence[str | Path] = (), families: Seq
     section properties computed first."""
     from sizer.design import catalogue_for, resolve_material
     from sizer.errors import InputError
-    from sizer.render.common import member_notes
+    from sizer.render.common import member_notes, small_deflection_cautions
     from sizer.render.size import candidate_entry, listed_candidates
     from sizer.sizing import size_member
 
@@ -259,7 +261,9 @@ def size(member: MemberLike, catalogue: Sequence[str | Path] = (), families: Seq
     if chosen is not None:
         from sizer.sizing import design_for
 
-        chosen_check = check_outcome(design_for(member, material, chosen), chosen.report, notes, units)
+        chosen_design = design_for(member, material, chosen)
+        notes += small_deflection_cautions(chosen_design.solution)
+        chosen_check = check_outcome(chosen_design, chosen.report, notes, units)
     return SizeOutcome(chosen.name if chosen else None, chosen is not None, chosen.mass_per_length if chosen else None,
                        chosen.utilization if chosen else None, chosen.governing if chosen else None, summaries, chosen_check,
                        notes, result, top, units=units)

@@ -8,7 +8,7 @@ from typing import List, Optional
 
 import typer
 
-from sizer.cli_common import UnitSystem, run_guarded
+from sizer.cli_common import run_guarded, unit_system
 
 app = typer.Typer(
     name="sizer",
@@ -21,7 +21,7 @@ app = typer.Typer(
 
 FILE_ARGUMENT = typer.Argument(..., help="Member file (TOML).", show_default=False)
 CATALOGUE_OPTION = typer.Option(None, "--catalogue", help="Catalogue file or folder; may repeat.")
-UNITS_OPTION = typer.Option(UnitSystem.si, "--units", help="Display units: si (kN, m, MPa) or us (kip, ft, ksi).")
+UNITS_OPTION = typer.Option("si", "--units", help="Display units: si (kN, m, MPa) or us (kip, ft, ksi).")
 
 
 def parse_cuts(values: list[str] | None) -> list[float]:
@@ -39,14 +39,14 @@ def forces(
     catalogue: Optional[List[Path]] = CATALOGUE_OPTION,
     json_output: bool = typer.Option(False, "--json", help="JSON in SI base units on stdout."),
     plot: Optional[Path] = typer.Option(None, "--plot", help="Draw the diagrams to a PNG or SVG file."),
-    units_system: UnitSystem = UNITS_OPTION,
+    units_system: str = UNITS_OPTION,
 ) -> None:
     """Reactions, internal actions at cuts, extremes and deflections for every combination."""
 
     def work() -> int:
         from sizer.commands import run_forces
 
-        return run_forces(file, parse_cuts(at), combination, catalogue or [], json_output, plot, units_system.value)
+        return run_forces(file, parse_cuts(at), combination, catalogue or [], json_output, plot, unit_system(units_system))
 
     run_guarded(work)
 
@@ -58,7 +58,7 @@ def check(
     catalogue: Optional[List[Path]] = CATALOGUE_OPTION,
     json_output: bool = typer.Option(False, "--json", help="JSON in SI base units on stdout."),
     plot: Optional[Path] = typer.Option(None, "--plot", help="Draw the diagrams to a PNG or SVG file."),
-    units_system: UnitSystem = UNITS_OPTION,
+    units_system: str = UNITS_OPTION,
 ) -> None:
     """Every check for one section: demand, allowable, utilization, the governing case and the verdict.
     Exit 0 passes, 1 fails, 2 bad input."""
@@ -66,7 +66,7 @@ def check(
     def work() -> int:
         from sizer.commands import run_check
 
-        return run_check(file, section, catalogue or [], json_output, plot, units_system.value)
+        return run_check(file, section, catalogue or [], json_output, plot, unit_system(units_system))
 
     run_guarded(work)
 
@@ -80,7 +80,7 @@ def size(
     max_width: Optional[str] = typer.Option(None, "--max-width", help='Largest width as installed, e.g. "150 mm".'),
     top: int = typer.Option(3, "--top", help="How many runners-up to show on each side of the choice."),
     json_output: bool = typer.Option(False, "--json", help="JSON in SI base units on stdout."),
-    units_system: UnitSystem = UNITS_OPTION,
+    units_system: str = UNITS_OPTION,
 ) -> None:
     """The lightest catalogue section that passes every check, and why each lighter one fails.
     Exit 0 found, 1 nothing passes, 2 bad input."""
@@ -88,7 +88,7 @@ def size(
     def work() -> int:
         from sizer.commands import run_size
 
-        return run_size(file, catalogue or [], family or [], max_depth, max_width, top, json_output, units_system.value)
+        return run_size(file, catalogue or [], family or [], max_depth, max_width, top, json_output, unit_system(units_system))
 
     run_guarded(work)
 
@@ -99,14 +99,14 @@ def report(
     out: Path = typer.Option(..., "-o", "--out", help="The calculation record to write (.html)."),
     section: Optional[str] = typer.Option(None, "--section", help="Report this catalogue section instead of the member file's."),
     catalogue: Optional[List[Path]] = CATALOGUE_OPTION,
-    units_system: UnitSystem = UNITS_OPTION,
+    units_system: str = UNITS_OPTION,
 ) -> None:
     """A self-contained HTML calculation record for a reviewer. Exit 0 passes, 1 fails, 2 bad input."""
 
     def work() -> int:
         from sizer.commands import run_report
 
-        return run_report(file, out, section, catalogue or [], units_system.value)
+        return run_report(file, out, section, catalogue or [], unit_system(units_system))
 
     run_guarded(work)
 

@@ -2,24 +2,32 @@
 
 from __future__ import annotations
 
-from enum import Enum
 from typing import Callable
 
 import typer
 
 from sizer.errors import InputError
 
+UNIT_SYSTEMS = ("si", "us")
 
-class UnitSystem(str, Enum):
-    si = "si"
-    us = "us"
+
+def unit_system(value: str) -> str:
+    """The --units value ("si" or "us"); InputError (one line) for anything else."""
+    if value not in UNIT_SYSTEMS:
+        raise InputError("", "--units", f"unknown unit system {value[:40]!r}", "use --units si or --units us")
+    return value
 
 
 def run_guarded(work: Callable[[], int]) -> None:
-    """Run a command body; bad input -> one line on stderr, exit 2; otherwise exit with its code."""
+    """Run a command body; bad input, or a file that cannot be read or written -> one line on
+    stderr, exit 2; otherwise exit with its code."""
     try:
         code = work()
     except InputError as error:
         typer.echo(f"sizer: {error}", err=True)
+        raise typer.Exit(2) from None
+    except OSError as error:
+        where = f"{error.filename}: " if error.filename else ""
+        typer.echo(f"sizer: {where}{error.strerror or error} (fix: check the path and its permissions)", err=True)
         raise typer.Exit(2) from None
     raise typer.Exit(code)

@@ -12,7 +12,7 @@ from typing import Any, List, Optional
 
 import typer
 
-from sizer.cli_common import run_guarded
+from sizer.cli_common import run_guarded, unit_system
 from sizer.errors import InputError
 
 app = typer.Typer(
@@ -25,12 +25,6 @@ app = typer.Typer(
 CATALOGUE_OPTION = typer.Option(None, "--catalogue", help="Catalogue file or folder; may repeat. Default: ./section_library/, else the shipped one.")
 UNITS_OPTION = typer.Option("si", "--units", help="Display units: si (mm, kg/m, MPa) or us (in, lb/ft, ksi).")
 JSON_OPTION = typer.Option(False, "--json", help="JSON in SI base units on stdout.")
-
-
-def _system(value: str) -> str:
-    if value not in ("si", "us"):
-        raise InputError("", "--units", f"unknown unit system {value!r}", "use si or us")
-    return value
 
 
 def _catalogue(paths: list[Path] | None) -> Any:
@@ -73,7 +67,7 @@ def list_sections(
         from sizer.render.sections import list_json, list_table, with_build_progress
         from sizer.sections import section_table
 
-        system = _system(units_system)
+        system = unit_system(units_system)
         loaded = _catalogue(catalogue)
         specs = loaded.select(family or [])
         with_build_progress("Section properties", lambda progress: section_table(specs, progress=progress))
@@ -103,9 +97,13 @@ def show_section(
         from sizer.render.common import cautions_panel, dumps
         from sizer.render.sections import section_json, show_renderables, write_section_plot
 
-        system = _system(units_system)
+        system = unit_system(units_system)
         if plot is not None and plot.suffix.lower() not in (".png", ".svg"):
             raise InputError("", "--plot", f"cannot draw to {plot.name!r}", "give a file ending in .png or .svg")
+        if plot is not None:
+            from sizer.files import check_output
+
+            check_output(plot, "--plot", [path for path in catalogue or [] if path.is_file()])
         loaded = _catalogue(catalogue)
         spec = loaded.get(name, "", "NAME")
         [(spec, props, material, note)] = _with_mass(loaded, [spec])
@@ -172,8 +170,10 @@ def add_section(
     """Append one section to a catalogue file, keeping its comments and other entries."""
 
     def work() -> int:
+        from sizer.files import check_output
         from sizer.sections.editing import add_section as append_section, ordered_table
 
+        check_output(file, "FILE")
         if shape == "polygon":
             raise InputError("", "--shape", "polygons cannot be given as options", "write the [[sections]] entry with its points in the file")
         given = {"depth": depth, "width": width, "thickness": thickness, "flange_thickness": flange_thickness,
@@ -199,8 +199,11 @@ def import_sections(
     with the reason. Exit 0 all rows taken, 1 some refused (the others written), 2 none usable."""
 
     def work() -> int:
+        from sizer.files import check_output
         from sizer.sections.editing import append_tables, catalogue_text, import_stock_list
 
+        if into is not None:
+            check_output(into, "--into", [table])
         result = import_stock_list(table, shape, into)
         for error in result.refused:
             typer.echo(f"sizer: refused: {error}", err=True)

@@ -17,11 +17,14 @@ def _print_document(document: dict) -> None:
     sys.stdout.write(dumps(document) + "\n")
 
 
-def _check_plot(plot: Path | None) -> None:
+def _check_plot(plot: Path | None, inputs: Sequence[Path]) -> None:
+    """InputError (before any work) unless `plot` is None or an image file sizer may write."""
     if plot is not None:
+        from sizer.files import check_output
         from sizer.render.plots import check_plot_path
 
         check_plot_path(plot)
+        check_output(plot, "--plot", inputs)
 
 
 def run_forces(file: Path, cuts: list[float], combination: str | None, catalogue: Sequence[Path],
@@ -33,7 +36,7 @@ def run_forces(file: Path, cuts: list[float], combination: str | None, catalogue
     from sizer.render.common import console
     from sizer.render.forces import print_forces
 
-    _check_plot(plot)
+    _check_plot(plot, [file, *catalogue])
     member = api.read_member(file)
     for x in cuts:
         if x < 0 or x > member.length * (1 + 1e-12):
@@ -57,7 +60,7 @@ def run_check(file: Path, section: str | None, catalogue: Sequence[Path], json_o
     from sizer.render.check import print_check
     from sizer.render.common import console
 
-    _check_plot(plot)
+    _check_plot(plot, [file, *catalogue])
     outcome = api.check(file, section, catalogue, system)
     if plot is not None:
         from sizer.render.plots import plot_member
@@ -95,13 +98,11 @@ def run_report(file: Path, out: Path, section: str | None, catalogue: Sequence[P
     from sizer import api
     from sizer.render.report import check_report_path, write_report
 
-    check_report_path(out)
+    check_report_path(out, [file, *catalogue])
     outcome = api.check(file, section, catalogue, system)
     written = write_report(outcome.design, outcome.report, outcome.notes, out, system)
     verdict = "passes" if outcome.passes else "FAILS"
     governing = outcome.report.governing
     detail = f" (governing: {governing.check}, utilization {governing.utilization:.3f})" if governing else ""
     sys.stdout.write(f"{outcome.section} {verdict}{detail}. Calculation record: {', '.join(map(str, written))}\n")
-    if Path(out).suffix.lower() == ".pdf" and Path(out) not in written:
-        sys.stderr.write("sizer: no PDF made: weasyprint is not installed; open the HTML in a browser and print it to PDF.\n")
     return 0 if outcome.passes else 1

@@ -1,13 +1,19 @@
-"""Files the tool writes are written whole or not at all: a temporary file beside the target, then
-an atomic rename."""
+"""Files the tool writes: checked before any work (`check_output`), then written whole or not at all
+(`write_atomic`: a temporary file beside the target, then an atomic rename)."""
 
 from __future__ import annotations
 
+import errno
 import os
 import stat
 import tempfile
 from functools import lru_cache
 from pathlib import Path
+from typing import Iterable
+
+from sizer.errors import InputError
+
+_ANY_WRITE = stat.S_IWUSR | stat.S_IWGRP | stat.S_IWOTH
 
 
 def cache_root() -> Path:
@@ -24,12 +30,57 @@ def _cache_root(override: str) -> str:
     return platformdirs.user_cache_dir("sizer")
 
 
+def check_output(path: str | Path, option: str, inputs: Iterable[str | Path] = ()) -> Path:
+    """`path` if sizer may write a file there, else InputError naming `option` (e.g. "-o").
+
+    Refused: a folder, something that is not a plain file, a folder that does not exist (it is not
+    created) or cannot be written, a file that is read-only (no write permission for this user, or
+    marked read-only for everyone), and any of `inputs` (the files the command reads)."""
+    path = Path(path)
+    shown = str(path)
+    folder = path.parent
+    if path.is_dir():
+        raise InputError("", option, f"{shown!r} is a folder", "give a file name, e.g. " + str(path / f"out{path.suffix or '.html'}"))
+    if path.exists() and not path.is_file():
+        raise InputError("", option, f"{shown!r} is not a plain file", "give the name of a file to write")
+    for source in inputs:
+        if _same_file(path, Path(source)):
+            raise InputError("", option, f"{shown!r} is the input file {str(source)!r}: writing there would replace it", "give another file name")
+    if not folder.is_dir():
+        raise InputError("", option, f"the folder {str(folder)!r} does not exist", "create the folder first, or give a file in an existing folder")
+    if not _writable(folder, os.W_OK | os.X_OK):
+        raise InputError("", option, f"cannot write into the folder {str(folder)!r} (read-only)", "give a file in a folder you can write")
+    if path.exists() and not _writable(path, os.W_OK):
+        raise InputError("", option, f"{shown!r} is read-only", "give another file name, or make the file writable first")
+    return path
+
+
+def _same_file(a: Path, b: Path) -> bool:
+    try:
+        return a.exists() and b.exists() and os.path.samefile(a, b)
+    except OSError:
+        return False
+
+
+def _writable(path: Path, mode: int) -> bool:
+    """True when this user may write `path` and it is not marked read-only for everyone (so that a
+    read-only mark holds even for an administrator, whom os.access always lets write)."""
+    try:
+        return os.access(path, mode) and bool(path.stat().st_mode & _ANY_WRITE)
+    except OSError:
+        return False
+
+
 def write_atomic(path: str | Path, data: bytes | str) -> None:
     """Write `data` to `path` atomically (temp file in the same folder, fsync, os.replace). A file
-    that is replaced keeps its permissions; a new one gets the usual mode (0o666 less the umask)."""
+    that is replaced keeps its permissions; a new one gets the usual mode (0o666 less the umask).
+    A read-only file is not replaced (PermissionError). Missing folders are made (caches); a file
+    the user named is checked with check_output first, which refuses a missing folder."""
     path = Path(path)
     payload = data.encode("utf-8") if isinstance(data, str) else data
     path.parent.mkdir(parents=True, exist_ok=True)
+    if path.exists() and not _writable(path, os.W_OK):
+        raise PermissionError(errno.EACCES, "the file is read-only", str(path))
     handle, temporary = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=path.parent)
     try:
         os.chmod(temporary, _mode_for(path))  # mkstemp makes 0600

@@ -51,6 +51,7 @@ CHECK_KEYS = {
 }
 MATERIAL_KEYS = {"elastic_modulus", "shear_modulus", "poisson_ratio", "density", "yield_strength", "allowable"}
 ALLOWABLE_KEYS = ("tension", "compression", "bending", "shear", "equivalent")
+LARGEST_NUMBER = 1e6  # plain numbers (factors, limits, ratios) are at most this in size (docs/limits.md)
 
 
 class KeyLines:
@@ -115,11 +116,13 @@ class Reader:
         return self.quantity(table, name, kind, key_prefix)
 
     def number(self, value: Any, key: str, positive: bool = True) -> float:
-        """A plain (unitless) finite number."""
+        """A plain (unitless) finite number, at most LARGEST_NUMBER in size."""
         if isinstance(value, bool) or not isinstance(value, (int, float)):
-            raise self.error(key, f"expected a plain number, got {value!r}", "write a number without quotes, e.g. 1.35")
-        if not math.isfinite(value):
+            raise self.error(key, f"expected a plain number, got {str(value)[:40]!r}", "write a number without quotes, e.g. 1.35")
+        if isinstance(value, float) and not math.isfinite(value):
             raise self.error(key, f"{value!r} is not a finite number", "give a finite number")
+        if abs(value) > LARGEST_NUMBER:
+            raise self.error(key, f"{str(value)[:40]} is larger than sizer accepts", f"give a number up to {LARGEST_NUMBER:g} in size (see docs/limits.md)")
         if positive and value <= 0:
             raise self.error(key, f"{value!r} must be greater than zero", "give a positive number")
         return float(value)
@@ -152,16 +155,18 @@ def read_member_file(path: str | Path) -> Member:
     """Read a member file into a Member. Raises InputError (one line: file, key, line, fix)."""
     path = Path(path)
     try:
-        text = path.read_text(encoding="utf-8")
+        text = path.read_text(encoding="utf-8-sig")
     except OSError as exc:
         raise InputError(str(path), "", f"cannot read the file ({exc.strerror})", "check the path") from None
+    except UnicodeDecodeError as exc:
+        raise InputError(str(path), "", f"the file is not UTF-8 text (byte {exc.start + 1})", "save it as UTF-8 text") from None
     return parse_member_text(text, path)
 
 
 def parse_toml(text: str, path: Path) -> dict:
-    """tomllib with the error turned into InputError."""
+    """tomllib with the error turned into InputError; a leading byte-order mark is skipped."""
     try:
-        return tomllib.loads(text)
+        return tomllib.loads(text.removeprefix("\ufeff"))
     except tomllib.TOMLDecodeError as exc:
         match = re.search(r"line (\d+)", str(exc))
         line = int(match.group(1)) if match else None
@@ -170,6 +175,7 @@ def parse_toml(text: str, path: Path) -> dict:
 
 def parse_member_text(text: str, path: Path) -> Member:
     """Parse member-file text (SPEC section 3) read from `path`."""
+    text = text.removeprefix("\ufeff")
     data = parse_toml(text, path)
     reader = Reader(path, text)
     reader.known_keys(data, TOP_KEYS, "")
@@ -249,7 +255,7 @@ def _read_supports(reader: Reader, value: Any, length: float) -> list[Support]:
                 raise reader.error(f"{prefix}.at", f"two supports at {units.fmt(at, 'length')}",
                                    "merge them into one support with the freedoms of both")
         warping = _read_warping(reader, table, prefix)
-        supports.append(Support(at=at, restrain=frozenset(restrain), springs=springs, label=label if not springs else f"{label} + springs",
+        supports.append(Support(at=at, restrain=frozenset(restrain), springs=springs, label=label if not springs or label == "springs" else f"{label} + springs",
                                 warping=warping))
     return supports
 
@@ -259,7 +265,7 @@ def _support_freedoms(reader: Reader, table: dict, prefix: str) -> tuple[set[str
         raise reader.error(f"{prefix}.restrain", "give either type or restrain, not both", "remove one of them")
     if "type" in table:
         kind = table["type"]
-        if kind not in SUPPORT_TYPES:
+        if not isinstance(kind, str) or kind not in SUPPORT_TYPES:
             raise reader.error(f"{prefix}.type", f"unknown support type {kind!r}", 'use "fixed", "pin" or "roller", or a restrain list')
         return set(SUPPORT_TYPES[kind]), kind
     if "restrain" in table:
@@ -370,7 +376,7 @@ def _read_loads(reader: Reader, value: Any, length: float) -> list[Load]:
     for index, table in enumerate(_array_of_tables(reader, value, "loads"), start=1):
         prefix = f"loads[{index}]"
         kind = table.get("type")
-        if kind not in LOAD_KEYS:
+        if not isinstance(kind, str) or kind not in LOAD_KEYS:
             raise reader.error(f"{prefix}.type", f"unknown load type {kind!r}", 'use "point", "moment" or "line"')
         reader.known_keys(table, LOAD_KEYS[kind], prefix)
         case = _case_name(reader, table, prefix)
@@ -434,6 +440,8 @@ def _read_combinations(reader: Reader, value: Any, loads: tuple[Load, ...], self
     combinations: dict[str, dict[str, float]] = {}
     for name, factors in table.items():
         prefix = f"combinations.{name}"
+        if not name.strip():
+            raise reader.error(f'combinations."{name}"', "a combination has an empty name", 'give it a name, e.g. "dead + imposed" = { dead = 1.0, imposed = 1.0 }')
         factors = reader.table(factors, prefix)
         for case, factor in factors.items():
             if case not in cases:

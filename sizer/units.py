@@ -33,6 +33,23 @@ KINDS: dict[str, tuple[str, str, str]] = {
 }
 
 
+# The range sizer accepts for each kind (SI): (smallest size other than zero, largest size). Outside
+# it a value is bad input, so that no computation can overflow to infinity or NaN (docs/limits.md).
+LIMITS: dict[str, tuple[float, float]] = {
+    "length": (1e-6, 1e3),
+    "force": (0.0, 1e12),
+    "moment": (0.0, 1e12),
+    "force_per_length": (0.0, 1e12),
+    "moment_per_length": (0.0, 1e12),
+    "stress": (1.0, 1e13),
+    "modulus": (1e3, 1e13),
+    "density": (0.0, 1e5),
+    "translational_stiffness": (0.0, 1e20),
+    "rotational_stiffness": (0.0, 1e20),
+    "mass_per_length": (0.0, 1e6),
+}
+
+
 @lru_cache(maxsize=1)
 def registry() -> Any:
     """The one pint UnitRegistry of the program (built on first use)."""
@@ -45,36 +62,97 @@ def registry() -> Any:
 
 
 _NUMBER_AND_UNIT = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(\S.*?)\s*$")
-_UNIT_FACTORS: dict[str, float | None] | None = None  # "unit|kind" -> factor to SI, None: wrong dimension
-UNIT_CACHE_NAME = "units-v1.json"
+_BARE_NUMBER = re.compile(r"^\s*[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?\s*$")
+_NOT_FINITE = re.compile(r"^\s*[-+]?(?:nan|inf|infinity)(?![A-Za-z])", re.IGNORECASE)
+# a unit is names joined by *, / or a space, each name (or one level of brackets) with at most one
+# small whole power: "kN*m/rad", "kg/m^3", "N/mm²", "kip/in**2"; never digits elsewhere, so never arithmetic
+_UNIT_TOKEN = re.compile(r"\s*(?:(?P<name>[^\W\d_][^\W\d]*)|(?P<power>(?:\^|\*\*)[-+]?\d{1,2}(?!\d)|⁻?[¹²³⁴⁵⁶⁷⁸⁹])"
+                         r"|(?P<op>[*/·])|(?P<open>\()|(?P<close>\)))")
+MAX_UNIT_TEXT = 40  # characters
+_UNIT_FACTORS: dict[str, float | None] | None = None  # "unit|kind" -> factor to SI, None: not a unit of that kind
+UNIT_CACHE_NAME = "units-v2.json"
 
 
 def parse(value: object, kind: str, file: str = "", key: str = "", line: int | None = None) -> float:
-    """Parse `value` (a string with its unit) as `kind` (a key of KINDS); return the SI float.
+    """Parse `value`, a string "number unit" such as "2.5 kN/m", as `kind` (a key of KINDS); return
+    the SI float.
 
-    Raises InputError naming file, key and line for a bare number, an unknown unit, the wrong
-    dimension, or a NaN or infinite value. Plain "number unit" strings use the factor pint gave
-    for that unit before (kept in a small file in the cache folder), so a warm run needs no pint.
+    Only a number and a unit are read, never arithmetic. Raises InputError naming file, key and line
+    for a bare number, a unit without a number, an unknown unit, the wrong dimension, a value that is
+    not finite or outside LIMITS. The factor of each unit comes from pint once and is remembered on
+    disk (with a digest), so a warm run needs no pint.
     """
-    si_unit, words, example = KINDS[kind]
+    _, words, example = KINDS[kind]
     if isinstance(value, bool) or not isinstance(value, (str, int, float)):
         raise InputError(file, key, f"expected {words} as a string with its unit", f"write e.g. {example}", line)
     if not isinstance(value, str):
         raise InputError(file, key, f"the number {value!r} has no unit", f"write it as a string with its unit, e.g. {example}", line)
+    shown = _shown(value)
+    if _BARE_NUMBER.match(value):
+        raise InputError(file, key, f"{shown} has no unit", f"give {words} with its unit, e.g. {example}", line)
+    if _NOT_FINITE.match(value):
+        raise InputError(file, key, f"{shown} is not a finite number", f"give a finite value, e.g. {example}", line)
     match = _NUMBER_AND_UNIT.match(value)
-    if match:
-        factor = unit_factor(match.group(2), kind)
-        if factor is not None:
-            number = float(match.group(1)) * factor
-            if math.isfinite(number):
-                return number
-    return _parse_with_pint(value, kind, file, key, line)
+    if not match:
+        problem = f"{shown} has no number" if _plain_unit(value.strip()) else f"cannot read {shown} as a number and a unit"
+        raise InputError(file, key, problem, f"write a number and a unit, e.g. {example}", line)
+    unit = match.group(2)
+    factor = unit_factor(unit, kind)
+    if factor is None:
+        raise InputError(file, key, _unit_problem(shown, unit, kind), f"give {words}, e.g. {example}", line)
+    number = float(match.group(1)) * factor
+    if not math.isfinite(number):
+        raise InputError(file, key, f"{shown} is not a finite number", f"give a finite value, e.g. {example}", line)
+    _check_range(number, kind, file, key, line, shown)
+    return number
+
+
+def _check_range(number: float, kind: str, file: str, key: str, line: int | None, shown: str) -> None:
+    """InputError unless `number` (SI) is zero or within LIMITS[kind] in size."""
+    smallest, largest = LIMITS[kind]
+    size = abs(number)
+    if size > largest or 0 < size < smallest:
+        si_unit, words, _ = KINDS[kind]
+        span = f"from {smallest:g} to {largest:g} {si_unit}" if smallest else f"up to {largest:g} {si_unit}"
+        raise InputError(file, key, f"{shown} is outside the range sizer works in for {words} ({span} in size)",
+                         f"give {words} {span} (see docs/limits.md)", line)
+
+
+def _shown(value: str) -> str:
+    """The value as quoted in a message, cut short when long."""
+    return repr(value if len(value) <= 60 else value[:57] + "...")
+
+
+@lru_cache(maxsize=1024)
+def _plain_unit(text: str) -> bool:
+    """True when `text` is a unit and nothing else: names joined by *, / or a space, one level of
+    brackets, and at most one small whole power after a name or a bracket."""
+    text = text.strip()
+    if not text or len(text) > MAX_UNIT_TEXT:
+        return False
+    position, depth, previous = 0, 0, "op"
+    while position < len(text):
+        match = _UNIT_TOKEN.match(text, position)
+        if not match:
+            return False
+        token = match.lastgroup or ""
+        if token == "power" and previous not in ("name", "close"):
+            return False
+        if token in ("op", "close") and previous in ("op", "open"):
+            return False
+        depth += {"open": 1, "close": -1}.get(token, 0)
+        if depth not in (0, 1):
+            return False
+        position, previous = match.end(), token
+    return previous not in ("op", "open") and depth == 0
 
 
 def unit_factor(unit: str, kind: str) -> float | None:
-    """SI units per one `unit` for `kind`, or None when `unit` is not of that kind or unknown.
+    """SI units per one `unit` for `kind`, or None when `unit` is not a plain unit of that kind.
     Learned from pint once and remembered on disk."""
     global _UNIT_FACTORS
+    if not _plain_unit(unit):
+        return None
     if _UNIT_FACTORS is None:
         _UNIT_FACTORS = _read_unit_cache()
     entry = f"{unit}|{kind}"
@@ -84,18 +162,34 @@ def unit_factor(unit: str, kind: str) -> float | None:
     return _UNIT_FACTORS[entry]
 
 
-def _factor_from_pint(unit: str, kind: str) -> float | None:
-    import pint
+def _pint_quantity(unit: str) -> Any:
+    """One `unit` as a pint Quantity (a plain unit only: see _plain_unit)."""
+    return registry().Quantity(1.0, unit.replace("·", "*"))
 
-    ureg = registry()
+
+def _factor_from_pint(unit: str, kind: str) -> float | None:
     try:
-        quantity = ureg.Quantity(1.0, unit)
+        quantity = _pint_quantity(unit)
         if quantity.dimensionless and kind != "rotational_stiffness":
             return None
         factor = float(quantity.to(KINDS[kind][0]).magnitude)
-    except (pint.errors.PintError, ValueError, TypeError, AttributeError, SyntaxError, AssertionError):
+    except Exception:  # pint's parse and dimension errors, overflow of a power: not a unit of this kind
         return None
     return factor if math.isfinite(factor) and factor > 0 else None
+
+
+def _unit_problem(shown: str, unit: str, kind: str) -> str:
+    """Why `unit` is not a unit of `kind`, for the message (pint is asked again: errors are rare)."""
+    words = KINDS[kind][1]
+    if not _plain_unit(unit):
+        return f"cannot read {shown} as a number and a unit"
+    try:
+        quantity = _pint_quantity(unit)
+    except Exception:
+        return f"{shown}: unknown unit {unit!r}"
+    if quantity.dimensionless:
+        return f"{shown} has no unit"
+    return f"{shown} is not {words}"
 
 
 def _unit_cache_path() -> Any:
@@ -104,17 +198,29 @@ def _unit_cache_path() -> Any:
     return cache_root() / UNIT_CACHE_NAME
 
 
+def _factors_digest(factors: dict[str, float | None]) -> str:
+    """sha256 of the factors' JSON text (sorted keys): the digest the file must carry."""
+    import hashlib
+    import json
+
+    return hashlib.sha256(json.dumps(factors, sort_keys=True).encode()).hexdigest()
+
+
 def _read_unit_cache() -> dict[str, float | None]:
-    """The remembered unit factors; anything unreadable is ignored (pint recomputes it)."""
+    """The remembered unit factors when the file is whole and its digest matches its factors, and
+    every factor is a positive finite number or null; else none (pint computes them again)."""
     import json
 
     try:
         data = json.loads(_unit_cache_path().read_text(encoding="utf-8"))
-    except (OSError, ValueError):
+        factors, digest = data["factors"], data["digest"]
+    except (OSError, ValueError, TypeError, KeyError):
         return {}
-    if not isinstance(data, dict):
+    if not isinstance(factors, dict) or digest != _factors_digest(factors):
         return {}
-    return {k: v for k, v in data.items() if isinstance(k, str) and (v is None or (isinstance(v, float) and math.isfinite(v) and v > 0))}
+    if not all(isinstance(k, str) and (v is None or (type(v) is float and math.isfinite(v) and v > 0)) for k, v in factors.items()):
+        return {}
+    return factors
 
 
 def _write_unit_cache(factors: dict[str, float | None]) -> None:
@@ -123,32 +229,9 @@ def _write_unit_cache(factors: dict[str, float | None]) -> None:
     from sizer.files import write_atomic
 
     try:
-        write_atomic(_unit_cache_path(), json.dumps(factors, sort_keys=True))
+        write_atomic(_unit_cache_path(), json.dumps({"digest": _factors_digest(factors), "factors": factors}, sort_keys=True))
     except OSError:
         pass  # a read-only cache folder only costs speed
-
-
-def _parse_with_pint(value: str, kind: str, file: str, key: str, line: int | None) -> float:
-    """The general path: any expression pint understands; every error becomes an InputError."""
-    si_unit, words, example = KINDS[kind]
-    ureg = registry()
-    import pint
-
-    try:
-        quantity = ureg.Quantity(value.strip())
-    except (pint.errors.UndefinedUnitError, pint.errors.DefinitionSyntaxError, ValueError, TypeError, AttributeError, SyntaxError) as exc:
-        raise InputError(file, key, f"cannot read {value!r} as {words} ({exc.__class__.__name__})", f"write e.g. {example}", line) from None
-    if not isinstance(quantity, ureg.Quantity):
-        quantity = ureg.Quantity(quantity, "")
-    if quantity.dimensionless and kind != "rotational_stiffness":
-        raise InputError(file, key, f"{value!r} has no unit", f"give {words} with its unit, e.g. {example}", line)
-    try:
-        number = float(quantity.to(si_unit).magnitude)
-    except pint.errors.DimensionalityError:
-        raise InputError(file, key, f"{value!r} is not {words}", f"give {words}, e.g. {example}", line) from None
-    if not math.isfinite(number):
-        raise InputError(file, key, f"{value!r} is not a finite number", f"give a finite value, e.g. {example}", line)
-    return number
 
 
 # ----------------------------------------------------------------------------------------------

@@ -80,6 +80,12 @@ def test_entry_is_written_whole_and_read_back(cache_dir: Path) -> None:
     assert again.mesh_nodes == unit_stress_field(FLAT).sigma.shape[1]
 
 
+def _rewrite(path: Path, entry: dict) -> None:
+    """Write an entry whose content is wrong but whose digest matches it: the deeper checks must catch it."""
+    entry["digest"] = cache._entry_digest(entry)
+    path.write_text(json.dumps(entry), encoding="utf-8")
+
+
 def _damage_json(path: Path) -> None:
     path.write_text("{ not json", encoding="utf-8")
 
@@ -87,7 +93,7 @@ def _damage_json(path: Path) -> None:
 def _nan_in_scalars(path: Path) -> None:
     entry = json.loads(path.read_text(encoding="utf-8"))
     entry["scalars"]["J"] = math.nan
-    path.write_text(json.dumps(entry), encoding="utf-8")
+    _rewrite(path, entry)
 
 
 def _truncate_arrays(path: Path) -> None:
@@ -101,13 +107,13 @@ def _nan_in_arrays_with_matching_checksum(path: Path) -> None:
     raw.write_bytes(values.tobytes())
     entry = json.loads(path.read_text(encoding="utf-8"))
     entry["arrays_sha256"] = hashlib.sha256(values.tobytes()).hexdigest()
-    path.write_text(json.dumps(entry), encoding="utf-8")
+    _rewrite(path, entry)
 
 
 def _wrong_node_count(path: Path) -> None:
     entry = json.loads(path.read_text(encoding="utf-8"))
     entry["scalars"]["mesh_nodes"] += 1
-    path.write_text(json.dumps(entry), encoding="utf-8")
+    _rewrite(path, entry)
 
 
 @pytest.mark.parametrize("damage", [_damage_json, _nan_in_scalars, _truncate_arrays, _nan_in_arrays_with_matching_checksum, _wrong_node_count])

@@ -123,14 +123,17 @@ def _garbage(slot: Path) -> None:
     slot.write_bytes(os.urandom(2000))
 
 
+def _text_digest(slot: Path) -> str:
+    """The slot's digest of the catalogue text (the first of its two digests)."""
+    return slot.read_bytes().split(b" ", 1)[0].decode()
+
+
 def _garbage_after_the_digest(slot: Path) -> None:
-    digest = slot.read_bytes().split(b"\n", 1)[0]
-    slot.write_bytes(digest + b"\n" + b"not a pickle at all")
+    slot.write_bytes(catalogue_cache.slot_bytes(_text_digest(slot), b"not a pickle at all"))
 
 
 def _wrong_types(slot: Path) -> None:
-    digest = slot.read_bytes().split(b"\n", 1)[0]
-    slot.write_bytes(digest + b"\n" + pickle.dumps(ParsedFile(False, ["not a section"], {})))
+    slot.write_bytes(catalogue_cache.slot_bytes(_text_digest(slot), pickle.dumps(ParsedFile(False, ["not a section"], {}))))
 
 
 def _empty(slot: Path) -> None:
@@ -162,8 +165,7 @@ def test_a_slot_naming_other_classes_runs_nothing(folder: Path, tmp_path: Path) 
     good = _summary(load_catalogue([folder]))
     [slot] = _slots()
     marker = tmp_path / "made by unpickling"
-    digest = slot.read_bytes().split(b"\n", 1)[0]
-    slot.write_bytes(digest + b"\n" + pickle.dumps(ParsedFile(False, [], {"steel": _MakesAFolder(marker)})))
+    slot.write_bytes(catalogue_cache.slot_bytes(_text_digest(slot), pickle.dumps(ParsedFile(False, [], {"steel": _MakesAFolder(marker)}))))
     assert _summary(load_catalogue([folder])) == good
     assert not marker.exists()
 

@@ -8,6 +8,8 @@ about y, axial stress per unit force 1 / A.
 
 from __future__ import annotations
 
+import hashlib
+import io
 import os
 import subprocess
 import sys
@@ -36,7 +38,7 @@ def cache_dir(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> Path:
 
 
 def _table_file(specs: list[SectionSpec]) -> Path:
-    return cache.table_folder() / f"{cache.table_key([spec.geometry_key() for spec in specs], SCALAR_NAMES)}.npy"
+    return cache.table_folder() / f"{cache.table_key([spec.geometry_key() for spec in specs], SCALAR_NAMES)}.table"
 
 
 def _refuse_entries(monkeypatch: pytest.MonkeyPatch) -> None:
@@ -99,6 +101,18 @@ def test_many_properties_go_through_the_table(cache_dir: Path) -> None:
     assert many[0].Iz == pytest.approx(0.008 * 0.030**3 / 12, rel=1e-6)  # b d^3 / 12
 
 
+def _load(path: Path) -> np.ndarray:
+    """A table file's array (after its digest line)."""
+    return np.load(io.BytesIO(path.read_bytes().split(b"\n", 1)[1]), allow_pickle=True)
+
+
+def _save(path: Path, table: np.ndarray, allow_pickle: bool = False) -> None:
+    """Write `table` as a table file with a matching digest line: only the content is wrong."""
+    buffer = io.BytesIO()
+    np.save(buffer, table, allow_pickle=allow_pickle)
+    path.write_bytes(hashlib.sha256(buffer.getvalue()).hexdigest().encode() + b"\n" + buffer.getvalue())
+
+
 def _truncate(path: Path) -> None:
     path.write_bytes(path.read_bytes()[:100])
 
@@ -108,21 +122,21 @@ def _garbage(path: Path) -> None:
 
 
 def _nan(path: Path) -> None:
-    table = np.load(path)
+    table = _load(path)
     table[1, COLUMN["J"]] = np.nan
-    np.save(path, table)
+    _save(path, table)
 
 
 def _one_row_short(path: Path) -> None:
-    np.save(path, np.load(path)[:-1])
+    _save(path, _load(path)[:-1])
 
 
 def _whole_numbers(path: Path) -> None:
-    np.save(path, np.load(path).astype(np.int64))
+    _save(path, _load(path).astype(np.int64))
 
 
 def _objects(path: Path) -> None:
-    np.save(path, np.load(path).astype(object), allow_pickle=True)
+    _save(path, _load(path).astype(object), allow_pickle=True)
 
 
 @pytest.mark.parametrize("damage", [_truncate, _garbage, _nan, _one_row_short, _whole_numbers, _objects])

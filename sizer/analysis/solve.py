@@ -18,6 +18,7 @@ from sizer.analysis.loads import lines_of, points_of
 from sizer.analysis.mechanisms import engaged_modes, mechanism_error
 from sizer.analysis.problems import Problem, build_problems
 from sizer.analysis.reactions import case_reactions
+from sizer.analysis.support_stability import check_support_stability
 from sizer.analysis.validation import check_geometry, check_loads, check_springs_need_stiffness
 from sizer.errors import InputError
 from sizer.model import Load, Member, Stiffness
@@ -57,6 +58,7 @@ def solve_columns(member: Member, load_sets: Sequence[Sequence[Load]], names: Se
     check_loads(member, [load for loads in load_sets for load in loads])
     check_springs_need_stiffness(member, stiffness)
     layout = build_layout(member)
+    check_support_stability(member, layout, stiffness)
     problems = build_problems(member, layout, stiffness or Stiffness.unit())
     points = [points_of(loads) for loads in load_sets]
     lines = [lines_of(loads) for loads in load_sets]
@@ -68,8 +70,11 @@ def solve_columns(member: Member, load_sets: Sequence[Sequence[Load]], names: Se
     for column, case in enumerate(names):
         findings = [(problem, driven) for name, problem in problems.items()
                     if (driven := engaged_modes(problem, columns[name][:, column], layout.length)) is not None]
-        errors.append(mechanism_error(member, case, findings, layout) if findings else None)
+        errors.append(mechanism_error(member, case, findings) if findings else None)
     displacement = {name: _solve_free(problem, columns[name]) for name, problem in problems.items()}
+    if not all(np.isfinite(values).all() for values in displacement.values()):
+        raise InputError(member.source, "", "the solution is not a finite number: the member's loads, supports and "
+                         "stiffness are too far apart in size to compute", "give values within the ranges of docs/limits.md")
     positions = np.array([s.at for s in member.supports], dtype=float)
     solutions: list[CaseSolution | None] = []
     for column, case in enumerate(names):

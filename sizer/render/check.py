@@ -8,7 +8,7 @@ from typing import Any
 from sizer import units
 from sizer.checks import CheckReport, CheckResult, spans
 from sizer.design import Design
-from sizer.render.common import CAUTIONS, cautions_panel, notes_panel, without_round_off
+from sizer.render.common import CAUTIONS, cautions_panel, notes_panel, reactions_without_round_off
 from sizer.render.forces import REACTION_KINDS, REACTION_NAMES, TINY_FORCE
 
 QUANTITY_KINDS = {"stress": "stress", "deflection": "deflection", "force": "force"}
@@ -50,7 +50,7 @@ def check_entry(result: CheckResult) -> dict[str, Any]:
 def reactions_json(design: Design) -> dict[str, list[dict[str, float]]]:
     out = {}
     for name in design.solution.combination_names:
-        reactions = without_round_off(design.solution.reactions(name))
+        reactions = reactions_without_round_off(design.solution.reactions(name), design.member.length)
         out[name] = [{"at": s.at, "type": s.label, **{k: float(v) for k, v in zip(REACTION_NAMES, reactions[i])}}
                      for i, s in enumerate(design.member.supports)]
     return out

@@ -56,6 +56,8 @@ def notes_panel(notes: list[str], title: str = "Assumptions made") -> Any:
 
 def member_notes(member: Member) -> list[str]:
     """Assumptions that follow from the member file alone."""
+    from sizer.analysis.support_stability import free_movement_notes
+
     notes: list[str] = []
     if not member.combinations_given:
         notes.append("No [combinations] given: one combination 'all' with every load case x 1.0.")
@@ -65,8 +67,24 @@ def member_notes(member: Member) -> list[str]:
             notes.append(f"Load case '{case}' is in no combination, so it is not in any result.")
     if member.hinges:
         notes.append("Internal hinges release both bending moments (My and Mz); axial force, shears and torque pass through.")
+    notes += free_movement_notes(member)
     notes.append("Loads act through the shear centre; torsion comes only from loads given as torques.")
     return notes
+
+
+def small_deflection_cautions(solution: Any) -> list[str]:
+    """A caution when a span deflects more than SMALL_DEFLECTION_FRACTION of its length
+    (`solution`: analysis.MemberSolution; none without displacements)."""
+    from sizer.checks.deflection import SMALL_DEFLECTION_FRACTION, large_deflection
+
+    found = large_deflection(solution)
+    if found is None:
+        return []
+    span, value, at, combination = found
+    what = "overhang" if span.overhang else "span"
+    return [f"CAUTION: the {what} from {span.start:g} m to {span.end:g} m deflects {value:.3g} m at x = {at:.4g} m in "
+            f"combination '{combination}', {value / span.length:.2g} of its length (beyond 1/{1 / SMALL_DEFLECTION_FRACTION:g}): "
+            "small-deflection theory no longer holds there, so these results are not reliable."]
 
 
 def without_round_off(values: Any, scale: float | None = None, relative: float = 1e-9) -> Any:
@@ -77,6 +95,20 @@ def without_round_off(values: Any, scale: float | None = None, relative: float =
     values = np.asarray(values, dtype=float)
     scale = np.abs(values).max(initial=0.0) if scale is None else scale
     return np.where(np.abs(values) <= relative * scale, 0.0, values)
+
+
+def reactions_without_round_off(reactions: Any, length: float) -> Any:
+    """(n, 6) reactions Fx, Fy, Fz (N), Mx, My, Mz (N*m) with round-off set to exactly 0, forces and
+    moments each on their own scale: a force below 1e-9 of the largest force (or 1e-12 of the largest
+    moment / length), a moment below 1e-9 of the largest moment (or 1e-12 of the largest force x
+    length). Statics sums of terms of size F L carry round-off of about 1e-15 F L, far below these."""
+    import numpy as np
+
+    values = np.asarray(reactions, dtype=float).reshape(-1, 6)
+    force, moment = np.abs(values[:, :3]).max(initial=0.0), np.abs(values[:, 3:]).max(initial=0.0)
+    forces = without_round_off(values[:, :3], max(1e-9 * force, 1e-12 * moment / length), relative=1.0)
+    moments = without_round_off(values[:, 3:], max(1e-9 * moment, 1e-12 * force * length), relative=1.0)
+    return np.concatenate([forces, moments], axis=1)
 
 
 def to_jsonable(value: Any) -> Any:

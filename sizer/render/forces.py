@@ -10,7 +10,7 @@ import numpy as np
 from sizer import units
 from sizer.analysis import MemberSolution, extremes
 from sizer.model import ACTIONS, LineLoad, Member, PointLoad
-from sizer.render.common import CAUTIONS, cautions_panel, notes_panel, without_round_off
+from sizer.render.common import CAUTIONS, cautions_panel, notes_panel, reactions_without_round_off
 
 ACTION_KINDS = {"N": "force", "Vy": "force", "Vz": "force", "T": "moment", "My": "moment", "Mz": "moment", "V": "force", "M": "moment"}
 REACTION_NAMES = ("Fx", "Fy", "Fz", "Mx", "My", "Mz")
@@ -86,7 +86,7 @@ def deflection_summary(solution: MemberSolution, combination: str, n: int = 801)
 
 def forces_document(solution: MemberSolution, combination: str, xs: np.ndarray) -> dict[str, Any]:
     """SPEC section 6 `forces` object for one combination (SI base units)."""
-    reactions = without_round_off(solution.reactions(combination))
+    reactions = reactions_without_round_off(solution.reactions(combination), solution.member.length)
     document: dict[str, Any] = {
         "combination": combination,
         "reactions": [
@@ -96,8 +96,10 @@ def forces_document(solution: MemberSolution, combination: str, xs: np.ndarray) 
         "cuts": [],
         "deflection": deflection_summary(solution, combination),
     }
+    end = solution.member.length * (1 - 1e-12)
     for cut in cuts_for(solution, combination, xs):
-        entry: dict[str, Any] = {"at": cut.at, **_action_dict(cut.right)}
+        on_member = cut.left if cut.at >= end else cut.right  # at end B the x+ side is off the member
+        entry: dict[str, Any] = {"at": cut.at, **_action_dict(on_member)}
         if cut.jump:
             entry["left"] = _action_dict(cut.left)
             entry["right"] = _action_dict(cut.right)
@@ -127,7 +129,7 @@ def reactions_table(solution: MemberSolution, combination: str, system: str) -> 
     from rich import box
     from rich.table import Table
 
-    reactions = without_round_off(solution.reactions(combination))
+    reactions = reactions_without_round_off(solution.reactions(combination), solution.member.length)
     shown = [i for i in range(6) if np.any(np.abs(reactions[:, i]) > TINY_FORCE)] or [1]
     table = Table(title="Reactions (support on member)", title_justify="left", header_style="bold", box=box.SIMPLE_HEAD, pad_edge=False)
     table.add_column("support", no_wrap=True)

@@ -2,17 +2,20 @@
 
 - sections/: one small JSON of scalars and one raw array file (.f64: little-endian float64, the
   unit stress fields' points, sigma and tau one after the other) per geometry (an entry);
-- section-tables/: the scalars of a whole list of sections in one .npy array (a table), so that a
-  large catalogue's properties are one file read instead of one per section.
+- section-tables/: the scalars of a whole list of sections in one array (a table: a digest line,
+  then the .npy bytes), so that a large catalogue's properties are one file read instead of one per
+  section.
 
 Entry key: a hash of the geometry (shape and dimensions), the mesh settings, the sectionproperties
 version and SCHEMA_VERSION. Table key: a hash of its sections' geometry keys, in row order, its
 column names, and the same mesh settings, version and schema. Files are written atomically (an
 entry's arrays first, then the JSON that names the arrays' checksum), so an entry or a table is
-whole or absent. Reading trusts nothing: an entry that fails to load, has missing or non-finite
-values, the wrong shapes or the wrong checksum is reported as absent, and so is a table that fails
-to load, has the wrong shape or type or a non-finite value; the caller recomputes and rewrites it
-(a table from its entries).
+whole or absent. Every file carries a sha256 digest of its whole content: an entry's JSON of its
+key, schema, scalars and the arrays' digest; a table's array bytes. Reading trusts nothing: an
+entry that fails to load, does not match its digest, has missing or non-finite values, the wrong
+shapes or the wrong arrays is reported as absent, and so is a table that fails to load, does not
+match its digest, has the wrong shape or type or a non-finite value; the caller recomputes and
+rewrites it (a table from its entries).
 """
 
 from __future__ import annotations
@@ -118,14 +121,22 @@ def _paths(key: str) -> tuple[str, str]:
     return os.path.join(folder, f"{key}.json"), os.path.join(folder, f"{key}.f64")
 
 
+def _entry_digest(entry: dict) -> str:
+    """sha256 of an entry's JSON text (sorted keys) without its own digest."""
+    text = json.dumps({name: value for name, value in entry.items() if name != "digest"}, sort_keys=True)
+    return hashlib.sha256(text.encode()).hexdigest()
+
+
 def read_entry(key: str, names: tuple[str, ...]) -> dict | None:
-    """The entry's JSON (key, schema, arrays_sha256, scalars) if it is whole and every scalar in
-    `names` is a finite number; else None."""
+    """The entry's JSON (key, schema, arrays_sha256, scalars, digest) if it is whole, matches its
+    digest and every scalar in `names` is a finite number; else None."""
     path, _ = _paths(key)
     try:
         with open(path, "rb") as stream:
             data = json.loads(stream.read())
         if data["key"] != key or data["schema"] != SCHEMA_VERSION or not isinstance(data["arrays_sha256"], str):
+            return None
+        if data["digest"] != _entry_digest(data):
             return None
         scalars = data["scalars"]
         values = [scalars[name] for name in names]
@@ -167,6 +178,7 @@ def write_entry(key: str, scalars: dict[str, float], arrays: dict[str, np.ndarra
     json_path, arrays_path = _paths(key)
     payload = np.concatenate([np.asarray(arrays[name], dtype=RAW).ravel() for name in ARRAY_NAMES]).tobytes()
     entry = {"key": key, "schema": SCHEMA_VERSION, "arrays_sha256": hashlib.sha256(payload).hexdigest(), "scalars": scalars}
+    entry["digest"] = _entry_digest(entry)
     try:
         write_atomic(arrays_path, payload)
         write_atomic(json_path, json.dumps(entry))
@@ -176,14 +188,18 @@ def write_entry(key: str, scalars: dict[str, float], arrays: dict[str, np.ndarra
 
 
 def _table_path(key: str) -> str:
-    return os.path.join(str(table_folder()), f"{key}.npy")
+    return os.path.join(str(table_folder()), f"{key}.table")
 
 
 def read_table(key: str, shape: tuple[int, int]) -> np.ndarray | None:
-    """The table stored under `key` if it loads as a float64 array of `shape` with every value
-    finite; else None."""
+    """The table stored under `key` if its array bytes match the digest line before them and load
+    as a float64 array of `shape` with every value finite; else None."""
     try:
-        table = np.load(_table_path(key), allow_pickle=False)
+        with open(_table_path(key), "rb") as stream:
+            header, payload = stream.read().split(b"\n", 1)
+        if header.decode() != hashlib.sha256(payload).hexdigest():
+            return None
+        table = np.load(io.BytesIO(payload), allow_pickle=False)
         if table.dtype != np.float64 or table.shape != shape or not np.isfinite(table).all():
             return None
         return table
@@ -192,11 +208,13 @@ def read_table(key: str, shape: tuple[int, int]) -> np.ndarray | None:
 
 
 def write_table(key: str, table: np.ndarray) -> bool:
-    """Store a table atomically (.npy). False when the cache folder cannot be written."""
+    """Store a table atomically (a digest line, then the .npy bytes). False when the cache folder
+    cannot be written."""
     buffer = io.BytesIO()
     np.save(buffer, np.asarray(table, dtype=np.float64), allow_pickle=False)
+    payload = buffer.getvalue()
     try:
-        write_atomic(_table_path(key), buffer.getvalue())
+        write_atomic(_table_path(key), hashlib.sha256(payload).hexdigest().encode() + b"\n" + payload)
     except OSError:
         return False
     return True

@@ -25,7 +25,7 @@ from sizer.errors import InputError
 from sizer.model import Material
 from sizer.sections import catalogue_cache
 from sizer.sections.catalogue_cache import ParsedFile
-from sizer.sections.shapes import RADIUS_KEYS, SHAPES, allowed_keys, fit_problems
+from sizer.sections.shapes import MAX_AREA_PER_WALL_SQUARED, RADIUS_KEYS, SHAPES, allowed_keys, fit_problems
 from sizer.sections.spec import Point, SectionSpec
 
 SHIPPED_PACKAGE = "sizer.section_library"
@@ -343,4 +343,9 @@ def _check_polygon(outline: tuple[Point, ...], holes: tuple[tuple[Point, ...], .
                            "keep every hole strictly inside the outline and apart from the other holes")
     if not polygon.area > 0 or not math.isfinite(polygon.area):
         raise reader.error(f"{prefix}.points", f"{label}: the outline encloses no area", "give the outline's corner points")
+    ratio = polygon.length**2 / (4 * polygon.area)  # area / wall^2 with the mesh rule's wall 2 A / perimeter
+    if ratio > MAX_AREA_PER_WALL_SQUARED:
+        raise reader.error(f"{prefix}.points", f"{label}: the outline is too thin for its size (area / wall² = {ratio:.3g}, "
+                           f"more than {MAX_AREA_PER_WALL_SQUARED:g}, with the wall 2 x area / perimeter)",
+                           "check the units of the points, or draw a thicker outline (docs/limits.md)")
 

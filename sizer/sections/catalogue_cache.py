@@ -2,18 +2,20 @@
 parse, no unit parsing and no validation.
 
 One file per catalogue file (as named: its resolved path and the path as given) in
-$SIZER_CACHE_DIR/catalogues, else the user's cache folder: a digest line, then a pickle of a
-ParsedFile. The digest is a sha256 of the code fingerprint, the path as given (it is in every
-SectionSpec's source and in messages) and the file's text (so every line number too). The code
+$SIZER_CACHE_DIR/catalogues, else the user's cache folder: a line of two digests, then a pickle of
+a ParsedFile. The first digest (of what was parsed) is a sha256 of the code fingerprint, the path as
+given (it is in every SectionSpec's source and in messages) and the file's text (so every line
+number too); the second is the sha256 of the pickle itself, so that no value in it can change
+unseen. The code
 fingerprint covers the Python version and the size and modification time of the source of each
 module whose code shapes the parse result: the test Python itself applies before it reuses a
 module's compiled code. A file whose text, path or code changed is parsed again and its slot
 overwritten, so the folder holds one file per catalogue file read.
 
 Only files that parsed without error are stored, so a bad file is parsed, and its error raised, on
-every read. Reading trusts nothing: a missing or damaged file, another digest, a pickle naming any
-class but ParsedFile, SectionSpec, Material and Allowables, or contents of the wrong types all read
-as absent. Files are written atomically (sizer.files.write_atomic).
+every read. Reading trusts nothing: a missing or damaged file, another digest of the text, a pickle
+that does not match its digest, a pickle naming any class but ParsedFile, SectionSpec, Material and
+Allowables, or contents of the wrong types all read as absent. Files are written atomically (sizer.files.write_atomic).
 """
 
 from __future__ import annotations
@@ -90,18 +92,22 @@ def slot_path(path: Path) -> Path:
     return cache_folder() / f"{name}.pickle"
 
 
+def slot_bytes(digest: str, payload: bytes) -> bytes:
+    """A slot's content: the digest of the text, the digest of the pickle `payload`, then the pickle."""
+    return f"{digest} {hashlib.sha256(payload).hexdigest()}\n".encode() + payload
+
+
 def read_parsed(path: Path, digest: str | None) -> ParsedFile | None:
-    """The remembered parse of `path` if its slot holds one with `digest`, whole and of the right
-    types; else None."""
+    """The remembered parse of `path` if its slot holds one with `digest` whose pickle matches its
+    own digest, whole and of the right types; else None."""
     if digest is None:
         return None
     try:
         with open(slot_path(path), "rb") as stream:
-            payload = stream.read()
-        header = f"{digest}\n".encode()
-        if not payload.startswith(header):
+            header, payload = stream.read().split(b"\n", 1)
+        if header.decode() != f"{digest} {hashlib.sha256(payload).hexdigest()}":
             return None
-        parsed = _unpickle(payload[len(header):])
+        parsed = _unpickle(payload)
         return parsed if _well_typed(parsed) else None
     except Exception:  # any damage at all: parse the file
         return None
@@ -114,9 +120,9 @@ def write_parsed(path: Path, digest: str | None, parsed: ParsedFile) -> None:
         return
     for spec in parsed.sections:
         spec.geometry_key()
-    payload = f"{digest}\n".encode() + pickle.dumps(parsed, protocol=pickle.HIGHEST_PROTOCOL)
+    payload = pickle.dumps(parsed, protocol=pickle.HIGHEST_PROTOCOL)
     try:
-        write_atomic(slot_path(path), payload)
+        write_atomic(slot_path(path), slot_bytes(digest, payload))
     except OSError:
         pass
 

@@ -7,6 +7,7 @@ that no two outline points coincide.
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 
 from sizer import units
@@ -71,9 +72,46 @@ def _less(key: str, value: float, limit: float, what: str, fix: str) -> list[Fit
 
 
 def fit_problems(shape: str, d: dict[str, float]) -> list[FitProblem]:
-    """Why the dimensions `d` (m) of `shape` do not make a valid outline; empty when they do."""
+    """Why the dimensions `d` (m) of `shape` do not make a valid outline, or one that can be meshed
+    in reasonable time; empty when they do."""
     rules = _FIT_RULES.get(shape)
-    return rules(d) if rules else []
+    return (rules(d) if rules else []) or mesh_problems(shape, d)
+
+
+# The mesh has about 1.6 A / t^2 elements (sizer.sections.geometry: elements of (t / 1.25)^2 at
+# most, t the thinnest wall), and its analysis time grows faster than that: a larger ratio of area
+# to wall squared is refused (docs/limits.md). Shipped catalogue shapes reach about 150.
+MAX_AREA_PER_WALL_SQUARED = 1000.0
+
+
+def approximate_area(shape: str, d: dict[str, float]) -> float:
+    """The area (m^2) of a standard shape from its dimensions, radii left out."""
+    if shape == "rectangle":
+        return d["depth"] * d["width"]
+    if shape == "round":
+        return math.pi * d["diameter"] ** 2 / 4
+    if shape == "rectangular_tube":
+        return 2 * d["thickness"] * (d["depth"] + d["width"]) - 4 * d["thickness"] ** 2
+    if shape == "round_tube":
+        return math.pi * (d["diameter"] - d["thickness"]) * d["thickness"]
+    if shape in ("i_beam", "channel"):
+        return 2 * d["width"] * d["flange_thickness"] + (d["depth"] - 2 * d["flange_thickness"]) * d["web_thickness"]
+    if shape == "tee":
+        return d["width"] * d["flange_thickness"] + (d["depth"] - d["flange_thickness"]) * d["web_thickness"]
+    return d["thickness"] * (d["depth"] + d["width"] - d["thickness"])  # angle
+
+
+def mesh_problems(shape: str, d: dict[str, float]) -> list[FitProblem]:
+    """A problem when the thinnest wall is so thin beside the section's area that the mesh would be
+    too large (area / wall^2 above MAX_AREA_PER_WALL_SQUARED)."""
+    wall = thinnest_wall(shape, d)
+    ratio = approximate_area(shape, d) / wall**2
+    if ratio <= MAX_AREA_PER_WALL_SQUARED:
+        return []
+    key = min((name for name in SHAPES[shape].required if d[name] == wall), default=SHAPES[shape].required[0])
+    return [FitProblem(key, f"{key.replace('_', ' ')} {_mm(wall)} is too thin for a section of this size: area / wall² = "
+                       f"{ratio:.3g}, more than {MAX_AREA_PER_WALL_SQUARED:g} (its mesh would need about {1.6 * ratio:.2g} elements)",
+                       "check the units of the dimensions, or use a thicker wall (docs/limits.md)")]
 
 
 def _tube(d: dict[str, float]) -> list[FitProblem]:

@@ -7,13 +7,15 @@ units); an HTML file, or HTML beside a PDF when weasyprint is importable.
 from __future__ import annotations
 
 import datetime
+import importlib.util
 from pathlib import Path
+from typing import Sequence
 
 from sizer import __version__
 from sizer.checks import CheckReport
 from sizer.design import Design
 from sizer.errors import InputError
-from sizer.files import write_atomic
+from sizer.files import check_output, write_atomic
 from sizer.render.check import check_json
 from sizer.render.common import CAUTIONS, dumps
 from sizer.render.forces import is_planar
@@ -27,11 +29,20 @@ from sizer.render.report.segment import governing_cut
 REPORT_SUFFIXES = (".html", ".htm", ".pdf")
 
 
-def check_report_path(path: str | Path) -> None:
-    """InputError unless `path` ends in .html, .htm or .pdf (checked before any work)."""
-    if Path(path).suffix.lower() not in REPORT_SUFFIXES:
+def check_report_path(path: str | Path, inputs: Sequence[str | Path] = ()) -> None:
+    """InputError unless `path` ends in .html, .htm or .pdf and sizer may write it (files.check_output;
+    `inputs`: the files the command reads); a PDF also needs weasyprint and the HTML beside it.
+    Checked before any work."""
+    path = Path(path)
+    if path.suffix.lower() not in REPORT_SUFFIXES:
         raise InputError("", "-o", f"cannot write a report to {str(path)!r}: the file name must end in .html (or .pdf)",
                          "give a file name such as record.html")
+    if path.suffix.lower() == ".pdf":
+        if importlib.util.find_spec("weasyprint") is None:
+            raise InputError("", "-o", f"cannot make the PDF {str(path)!r}: weasyprint is not installed",
+                             "give -o record.html and print it to PDF from a browser, or install weasyprint")
+        check_output(path.with_suffix(".html"), "-o", inputs)
+    check_output(path, "-o", inputs)
 
 
 def write_report(design: Design, report: CheckReport, notes: list[str], out_path: str | Path, system: str = "si") -> list[Path]:
