@@ -24,6 +24,22 @@ CATALOGUE_OPTION = typer.Option(None, "--catalogue", help="Catalogue file or fol
 UNITS_OPTION = typer.Option("si", "--units", help="Display units: si (kN, m, MPa) or us (kip, ft, ksi).")
 
 
+def _show_version(value: bool) -> None:
+    """--version: print the version and stop."""
+    if value:
+        from sizer import __version__
+
+        typer.echo(f"sizer {__version__}")
+        raise typer.Exit(0)
+
+
+@app.callback()
+def main_options(
+    version: bool = typer.Option(False, "--version", help="Show the version and exit.", callback=_show_version, is_eager=True),
+) -> None:
+    """Internal forces, stress checks and sizing of one straight member, from a small TOML file."""
+
+
 def parse_cuts(values: list[str] | None) -> list[float]:
     """--at values ("2.5m", "1500 mm") to metres."""
     from sizer import units
@@ -80,6 +96,7 @@ def size(
     max_width: Optional[str] = typer.Option(None, "--max-width", help='Largest width as installed, e.g. "150 mm".'),
     top: int = typer.Option(3, "--top", help="How many runners-up to show on each side of the choice."),
     json_output: bool = typer.Option(False, "--json", help="JSON in SI base units on stdout."),
+    report_out: Optional[Path] = typer.Option(None, "--report", help="Also write the calculation record of the chosen section (.html)."),
     units_system: str = UNITS_OPTION,
 ) -> None:
     """The lightest catalogue section that passes every check, and why each lighter one fails.
@@ -88,7 +105,8 @@ def size(
     def work() -> int:
         from sizer.commands import run_size
 
-        return run_size(file, catalogue or [], family or [], max_depth, max_width, top, json_output, unit_system(units_system))
+        return run_size(file, catalogue or [], family or [], max_depth, max_width, top, json_output, unit_system(units_system),
+                        report_out)
 
     run_guarded(work)
 
@@ -107,6 +125,23 @@ def report(
         from sizer.commands import run_report
 
         return run_report(file, out, section, catalogue or [], unit_system(units_system))
+
+    run_guarded(work)
+
+
+@app.command()
+def init(
+    out: Path = typer.Option(Path("member.toml"), "-o", "--out", help="The member file to write (never overwritten)."),
+    layout: str = typer.Option("simple", "--layout", help="simple, cantilever, continuous or post."),
+) -> None:
+    """Write a commented starter member file for a common layout, to edit and run."""
+
+    def work() -> int:
+        from sizer.starter import write_starter
+
+        written = write_starter(out, layout)
+        typer.echo(f"Wrote {written} ({layout} layout). Edit it, then run: sizer check {written}")
+        return 0
 
     run_guarded(work)
 

@@ -34,11 +34,10 @@ def _catalogue(paths: list[Path] | None) -> Any:
 
 
 def _console() -> Any:
-    """The terminal's console; 160 columns when writing to a file or pipe (tables stay readable)."""
-    from rich.console import Console
+    """The terminal's console (render.common.console: 80 columns when piped, unless COLUMNS says)."""
+    from sizer.render.common import console
 
-    out = Console(highlight=False)
-    return out if out.is_terminal else Console(highlight=False, width=160)
+    return console()
 
 
 def _with_mass(catalogue: Any, specs: list[Any]) -> list[tuple[Any, Any, Any, str]]:
@@ -63,7 +62,7 @@ def list_sections(
     """The catalogue's sections: shape, dimensions, mass per length, area, Iz, Iy."""
 
     def work() -> int:
-        from sizer.render.common import cautions_panel, dumps
+        from sizer.render.common import dumps
         from sizer.render.sections import list_json, list_table, with_build_progress
         from sizer.sections import section_table
 
@@ -77,7 +76,6 @@ def list_sections(
         else:
             out = _console()
             out.print(list_table([(spec, props, note) for spec, props, _, note in rows], system))
-            out.print(cautions_panel())
         return 0
 
     run_guarded(work)
@@ -94,7 +92,7 @@ def show_section(
     """Every property of one section, with units."""
 
     def work() -> int:
-        from sizer.render.common import cautions_panel, dumps
+        from sizer.render.common import dumps
         from sizer.render.sections import section_json, show_renderables, write_section_plot
 
         system = unit_system(units_system)
@@ -108,14 +106,13 @@ def show_section(
         spec = loaded.get(name, "", "NAME")
         [(spec, props, material, note)] = _with_mass(loaded, [spec])
         if plot is not None:
-            write_section_plot(spec, props, plot)
+            write_section_plot(spec, props, plot, system)
         if json_output:
             typer.echo(dumps(section_json(spec, props, material, note)))
         else:
             out = _console()
             for renderable in show_renderables(spec, props, note, system):
                 out.print(renderable)
-            out.print(cautions_panel())
             if plot is not None:
                 out.print(f"Drawing written to {plot}")
         return 0

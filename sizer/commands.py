@@ -45,7 +45,7 @@ def run_forces(file: Path, cuts: list[float], combination: str | None, catalogue
     if plot is not None:
         from sizer.render.plots import plot_member
 
-        plot_member(outcome.design, plot, outcome.combinations[0])
+        plot_member(outcome.design, plot, outcome.combinations[0], system=system)
     if json_output:
         _print_document(outcome.to_json(cuts or None))
         return 0
@@ -66,7 +66,8 @@ def run_check(file: Path, section: str | None, catalogue: Sequence[Path], json_o
         from sizer.render.plots import plot_member
 
         governing = outcome.report.governing
-        plot_member(outcome.design, plot, governing.combination if governing else outcome.design.solution.combination_names[0], outcome.report)
+        plot_member(outcome.design, plot, governing.combination if governing else outcome.design.solution.combination_names[0], outcome.report,
+                    system)
     if json_output:
         _print_document(outcome.to_json())
     else:
@@ -75,13 +76,18 @@ def run_check(file: Path, section: str | None, catalogue: Sequence[Path], json_o
 
 
 def run_size(file: Path, catalogue: Sequence[Path], families: list[str], max_depth: str | None, max_width: str | None,
-             top: int, json_output: bool, system: str) -> int:
-    """`sizer size`: exit 0 when a section passes, 1 when none does."""
+             top: int, json_output: bool, system: str, report_out: Path | None = None) -> int:
+    """`sizer size`: exit 0 when a section passes, 1 when none does. `report_out`: also write the
+    calculation record of the chosen section there (a line on stderr says where, or why not)."""
     from sizer import api
     from sizer.render.common import console
     from sizer.render.sections import with_build_progress
     from sizer.render.size import print_size
 
+    if report_out is not None:
+        from sizer.render.report import check_report_path
+
+        check_report_path(report_out, [file, *catalogue])
     member = api.read_member(file)
     outcome = with_build_progress("Section properties (first use of these shapes)",
                                   lambda progress: api.size(member, catalogue, families, max_depth, max_width, top, system, progress))
@@ -89,7 +95,22 @@ def run_size(file: Path, catalogue: Sequence[Path], families: list[str], max_dep
         _print_document(outcome.to_json())
     else:
         print_size(console(), outcome.result, outcome.notes, top, system)
+    if report_out is not None:
+        _write_chosen_record(outcome, report_out, system)
     return 0 if outcome.passes else 1
+
+
+def _write_chosen_record(outcome: object, out: Path, system: str) -> None:
+    """The calculation record of the section `size` chose (sizer.api.SizeOutcome), or a line saying
+    that nothing passed, so there is no record."""
+    from sizer.render.report import write_report
+
+    chosen = outcome.chosen  # type: ignore[attr-defined]
+    if chosen is None:
+        sys.stderr.write(f"sizer: no section passes, so no calculation record was written to {out}.\n")
+        return
+    written = write_report(chosen.design, chosen.report, chosen.notes, out, system)
+    sys.stderr.write(f"Calculation record of {chosen.section}: {', '.join(map(str, written))}\n")
 
 
 def run_report(file: Path, out: Path, section: str | None, catalogue: Sequence[Path], system: str) -> int:
@@ -101,7 +122,9 @@ def run_report(file: Path, out: Path, section: str | None, catalogue: Sequence[P
     check_report_path(out, [file, *catalogue])
     outcome = api.check(file, section, catalogue, system)
     written = write_report(outcome.design, outcome.report, outcome.notes, out, system)
-    verdict = "passes" if outcome.passes else "FAILS"
+    from sizer.render.check import status_word
+
+    verdict = status_word(outcome.passes)
     governing = outcome.report.governing
     detail = f" (governing: {governing.check}, utilization {governing.utilization:.3f})" if governing else ""
     sys.stdout.write(f"{outcome.section} {verdict}{detail}. Calculation record: {', '.join(map(str, written))}\n")

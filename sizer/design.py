@@ -39,15 +39,28 @@ def catalogue_for(member: Member, catalogue_paths: Sequence[Path]) -> Any:
     return load_catalogue(paths)
 
 
+def shipped_materials() -> dict[str, Material]:
+    """The materials of the section_library/ installed with sizer (package data)."""
+    from sizer.sections import load_catalogue
+    from sizer.sections.catalogue import shipped_library
+
+    return load_catalogue([shipped_library()]).materials
+
+
 def resolve_material(member: Member, catalogue: Any | None) -> Material:
-    """The member's material: from the member file first, then from the catalogue files."""
+    """The member's material: from the member file first, then from the catalogue files, then from
+    the materials shipped with sizer (so a catalogue of the user's own keeps them; the user's
+    definitions win)."""
     if not member.material:
         raise InputError(member.source, "member.material", "no material is given", 'add material = "mild-steel" (defined in [materials.NAME] here or in a catalogue file)')
     if member.material in member.materials:
         return member.materials[member.material]
     if catalogue is not None and member.material in catalogue.materials:
         return catalogue.materials[member.material]
-    known = sorted(set(member.materials) | set(catalogue.materials if catalogue is not None else ()))
+    shipped = shipped_materials()
+    if member.material in shipped:
+        return shipped[member.material]
+    known = sorted(set(member.materials) | set(catalogue.materials if catalogue is not None else ()) | set(shipped))
     raise InputError(member.source, "member.material", f"unknown material {member.material!r}",
                      "define [materials." + member.material + "] or use one of: " + (", ".join(known) or "(none defined)"))
 

@@ -1,5 +1,10 @@
-"""`sizer check` output: the table of checks, the governing one, the verdict, reactions, assumptions
-and cautions (terminal and JSON)."""
+"""`sizer check` output: the verdict, the checks, the reactions, assumptions and cautions (terminal
+and JSON).
+
+The terminal look is our own: each check is one row of numbers with its basis as a dim line under
+it (render.basis); a neutral gauge (no colour scale) shows the utilization against a mark at 1.0; a
+failing row's status is shown in reverse video, the governing row in bold with "governs" in its basis
+line. The words are one pair everywhere: "passes" and "fails"."""
 
 from __future__ import annotations
 
@@ -8,11 +13,14 @@ from typing import Any
 from sizer import units
 from sizer.checks import CheckReport, CheckResult, spans
 from sizer.design import Design
+from sizer.render.basis import basis_text, combination_text
 from sizer.render.common import CAUTIONS, cautions_panel, notes_panel, reactions_without_round_off
-from sizer.render.forces import REACTION_KINDS, REACTION_NAMES, TINY_FORCE
+from sizer.render.forces import REACTION_NAMES, plural, reactions_ledger_values
+from sizer.render.text import Column, Heading, Ledger, Paragraph
 
 QUANTITY_KINDS = {"stress": "stress", "deflection": "deflection", "force": "force"}
-BAR_WIDTH = 6
+GAUGE_WIDTH = 6  # cells from 0 to a utilization of 1.0
+PASSES, FAILS = "passes", "fails"  # the one pair of status words of every output
 
 
 def check_json(design: Design, report: CheckReport, notes: list[str]) -> dict[str, Any]:
@@ -59,24 +67,30 @@ def reactions_json(design: Design) -> dict[str, list[dict[str, float]]]:
 # ----------------------------------------------------------------------------------------------
 # terminal
 
+def status_word(passes: bool) -> str:
+    return PASSES if passes else FAILS
+
+
 def utilization_style(value: float) -> str:
-    """Colour for a utilization: green with margin, yellow close to the limit, red over it."""
-    if value > 1.0:
-        return "bold red"
-    if value > 0.9:
-        return "yellow"
-    return "green"
+    """The emphasis of a utilization (a rich style): reverse video when over 1.0 (it fails), none
+    otherwise. No colour scale."""
+    return "reverse" if value > 1.0 else "none"
 
 
-def utilization_bar(value: float) -> Any:
-    """A bar of the utilization (full width = 1.0; an overflow mark beyond)."""
-    from rich.text import Text
+def gauge(value: float, width: int = GAUGE_WIDTH) -> str:
+    """A neutral gauge of a utilization: eighth blocks from 0 to 1.0, then a mark "│" at 1.0, and
+    "»" beyond it when the utilization is over 1.0."""
+    blocks = " ▏▎▍▌▋▊▉█"
+    eighths = round(min(max(value, 0.0), 1.0) * width * 8)
+    full, part = divmod(eighths, 8)
+    bar = "█" * full + (blocks[part] if part else "")
+    return bar.ljust(width) + ("│»" if value > 1.0 else "│")
 
-    filled = min(BAR_WIDTH, round(min(value, 1.0) * BAR_WIDTH))
-    text = Text("█" * filled + "·" * (BAR_WIDTH - filled), style=utilization_style(value))
-    if value > 1.0:
-        text.append("▶", style="bold red")
-    return text
+
+def utilization_cell(value: float) -> str:
+    """The utilization to 3 decimals beside its gauge."""
+    number = f"[{utilization_style(value)}]{value:.3f}[/]"
+    return f"{number} [dim]{gauge(value)}[/]"
 
 
 def _value_text(result: CheckResult, value: float | None, system: str) -> str:
@@ -87,106 +101,94 @@ def _value_text(result: CheckResult, value: float | None, system: str) -> str:
     return units.fmt(value, QUANTITY_KINDS[result.quantity], system)
 
 
-def checks_table(report: CheckReport, system: str) -> Any:
-    """One row per check; the governing row stands out (▶); the combination and basis of each check
-    are listed below the table, numbered like the rows."""
-    from rich import box
-    from rich.table import Table
-
-    governing = report.governing
-    table = Table(title="Checks (utilization = demand / allowable)", title_justify="left", header_style="bold",
-                  caption=check_basis_caption(report), caption_justify="left", box=box.SIMPLE_HEAD, pad_edge=False)
-    table.add_column("check", no_wrap=True)
-    table.add_column("demand", justify="right", no_wrap=True)
-    table.add_column("allowable", justify="right", no_wrap=True)
-    table.add_column("utilization", no_wrap=True, min_width=BAR_WIDTH + 7)
-    table.add_column("at", justify="right", no_wrap=True)
-    table.add_column("status", no_wrap=True)
-    for index, result in enumerate(report.checks, start=1):
-        if not result.made:
-            table.add_row(f"[dim]({index}) {result.check}[/]", "—", "—", "[dim]not made[/]", "—", "[dim]—[/]")
-            continue
-        is_governing = governing is result
-        status = "[bold red]FAILS[/]" if not result.passes else "[green]ok[/]"
-        bar = utilization_bar(result.utilization)
-        bar.append(f" {result.utilization:.3f}", style=utilization_style(result.utilization))
-        name = f"({index}) {result.check}" + (" ▶" if is_governing else "")
-        table.add_row(name, _value_text(result, result.demand, system), _value_text(result, result.allowable, system), bar,
-                      units.fmt(result.at, "length", system), status, style="bold" if is_governing else "")
-    return table
-
-
-def check_basis_caption(report: CheckReport) -> str:
-    """The numbered basis of each check: combination and what the demand is, or why it was not made."""
+def checks_ledger(report: CheckReport, design: Design, system: str) -> Ledger:
+    """One row per check with its basis on a dim line under it; the governing row in bold."""
     from rich.markup import escape
 
-    lines = []
-    for index, result in enumerate(report.checks, start=1):
-        where = f"{result.combination}: " if result.combination else ""
-        lines.append(escape(f"({index}) {where}{result.detail}"))
-    return "\n".join(lines + ["▶ governing check"])
+    governing = report.governing
+    ledger = Ledger("Checks · utilization = demand / allowable", [
+        Column("check"), Column("demand", right=True), Column("allowable", right=True), Column("utilization"),
+        Column("at", right=True, fold=True), Column("status", fold=True)])
+    for result in report.checks:
+        basis = escape(basis_text(result, design, report, system))
+        if not result.made:
+            ledger.add_row(f"[dim]{result.check}[/]", "—", "—", "—", "", "[dim]not made[/]", note=basis)
+            continue
+        is_governing = governing is result
+        status = PASSES if result.passes else f"[reverse]{FAILS}[/]"
+        where = combination_text(result)
+        note = "; ".join(part for part in (("governs" if is_governing else ""), basis, escape(where)) if part)
+        ledger.add_row(result.check, _value_text(result, result.demand, system), _value_text(result, result.allowable, system),
+                       utilization_cell(result.utilization), units.fmt(result.at, "length", system) if result.at is not None else "—",
+                       status, note=note, style="bold" if is_governing else "")
+    return ledger
 
 
-def reactions_table(design: Design, system: str) -> Any:
-    import numpy as np
-    from rich.table import Table
+def reactions_ledger(design: Design, system: str) -> Ledger:
+    """The reactions of every combination: a group line per combination, a row per support; the
+    unit of each column in its header."""
+    from rich.markup import escape
 
-    combos = design.solution.combination_names
-    all_reactions = np.stack([design.solution.reactions(name) for name in combos])
-    shown = [i for i in range(6) if np.any(np.abs(all_reactions[..., i]) > TINY_FORCE)] or [1]
-    table = Table(title="Reactions per combination (support on member)", title_justify="left", header_style="bold")
-    table.add_column("combination")
-    table.add_column("support")
-    table.add_column("at", justify="right")
-    for i in shown:
-        table.add_column(REACTION_NAMES[i], justify="right")
-    for c, name in enumerate(combos):
-        for s, support in enumerate(design.member.supports):
-            values = [units.fmt(0.0 if abs(v) < TINY_FORCE else v, REACTION_KINDS[i], system) for i, v in enumerate(all_reactions[c, s]) if i in shown]
-            table.add_row(name if s == 0 else "", support.label, units.fmt(support.at, "length", system), *values,
-                          end_section=s == len(design.member.supports) - 1)
-    return table
+    names = design.solution.combination_names
+    values = {name: reactions_without_round_off(design.solution.reactions(name), design.member.length) for name in names}
+    return reactions_ledger_values("Reactions per combination (support on member)", design.member, values, system,
+                                   grouped=len(names) > 1, escape=escape)
 
 
-def verdict_panel(report: CheckReport, system: str) -> Any:
-    from rich.panel import Panel
+class VerdictBlock:
+    """The verdict: each line behind a heavy bar, the status word in bold (reverse when it fails)."""
+
+    def __init__(self, text: str, passes: bool) -> None:
+        self.text, self.passes = text, passes
+
+    def __rich_console__(self, console: Any, options: Any) -> Any:
+        from rich.text import Text
+
+        from sizer.render.text import wrap
+
+        for line in wrap(self.text, max(1, options.max_width - 2)):
+            yield Text("┃ ", style="bold") + line
+
+
+def verdict_block(report: CheckReport, system: str) -> VerdictBlock:
+    from rich.markup import escape
 
     governing = report.governing
     if governing is None:
-        return Panel("[yellow]No check could be made.[/]", border_style="yellow")
-    word = "[bold green]PASSES[/]" if report.passes else "[bold red]FAILS[/]"
-    where = f"at x = {units.fmt(governing.at, 'length', system)}" if governing.at is not None else ""
-    text = (f"{report.section} {word}   governing: [bold]{governing.check}[/] "
-            f"utilization [{utilization_style(governing.utilization)}]{governing.utilization:.3f}[/] {where}"
-            f" in combination [bold]{governing.combination}[/]")
-    return Panel(text, title="Verdict", border_style="green" if report.passes else "red")
+        return VerdictBlock(f"[bold]{escape(report.section)}[/]: no check could be made.", True)
+    word = f"[bold]{PASSES}[/]" if report.passes else f"[bold reverse]{FAILS}[/]"
+    where = f" at x = {units.fmt(governing.at, 'length', system)}" if governing.at is not None else ""
+    text = (f"[bold]{escape(report.section)}[/] {word}: utilization {governing.utilization:.3f}, governed by "
+            f"[bold]{governing.check}[/]{where} in combination {escape(governing.combination or '')}.")
+    return VerdictBlock(text, report.passes)
 
 
-def plural(count: int, word: str) -> str:
-    return f"{count} {word}" + ("" if count == 1 else "s")
+def design_summary(design: Design, system: str) -> list[Any]:
+    """Member, section, material and spans, one hanging paragraph each."""
+    from rich.markup import escape
 
-
-def design_summary(design: Design, system: str) -> str:
-    """Member, section, material and spans in three lines."""
     member, props, material = design.member, design.props, design.material
     span_text = ", ".join(f"{'overhang' if s.overhang else 'span'} {units.fmt(s.length, 'length', system)}" for s in spans(member)) or "none"
     allow = material.allowable
     allowables = ", ".join(f"{name} {units.fmt(getattr(allow, name), 'stress', system)}"
                            for name in ("tension", "compression", "bending", "shear", "equivalent") if getattr(allow, name) is not None)
-    return (f"Member: length {units.fmt(member.length, 'length', system)}, {plural(len(member.supports), 'support')}, {span_text}\n"
-            f"Section: [bold]{design.spec.name}[/] ({design.spec.shape}, {member.orientation} orientation), "
-            f"{units.fmt(design.mass_per_length, 'mass_per_length', system)}, A = {units.fmt(props.area, 'area', system)}, "
-            f"Iz = {units.fmt(props.Iz, 'inertia', system)}, Iy = {units.fmt(props.Iy, 'inertia', system)}\n"
-            f"Material: {material.name}, E = {units.fmt(material.elastic_modulus, 'modulus', system)}; allowables: {allowables or 'none'}")
+    rows = [("Member", f"length {units.fmt(member.length, 'length', system)}, {plural(len(member.supports), 'support')}, {span_text}"),
+            ("Section", f"[bold]{escape(design.spec.name)}[/] ({design.spec.shape}, {member.orientation} orientation), "
+                        f"{units.fmt(design.mass_per_length, 'mass_per_length', system)}, A = {units.fmt(props.area, 'area', system)}, "
+                        f"Iz = {units.fmt(props.Iz, 'inertia', system)}, Iy = {units.fmt(props.Iy, 'inertia', system)}"),
+            ("Material", f"{escape(material.name)}, E = {units.fmt(material.elastic_modulus, 'modulus', system)}; "
+                         f"allowables: {allowables or 'none'}")]
+    return [Paragraph(f"[dim]{label:<9}[/] {text}", hang=10) for label, text in rows]
 
 
 def check_renderables(design: Design, report: CheckReport, notes: list[str], system: str) -> list[Any]:
     """The terminal summary of `sizer check`, as rich renderables in order."""
-    from rich.rule import Rule
+    from rich.markup import escape
 
-    return [Rule(f"[bold]sizer check[/] · {design.member.title or design.member.source}"), design_summary(design, system),
-            verdict_panel(report, system), checks_table(report, system), reactions_table(design, system),
-            notes_panel(notes), cautions_panel()]
+    title = escape(design.member.title or design.member.source)
+    return [Heading(f"sizer check · {title}"), *design_summary(design, system), "", verdict_block(report, system), "",
+            checks_ledger(report, design, system), "", reactions_ledger(design, system), "",
+            notes_panel(notes, system=system), cautions_panel()]
 
 
 def print_check(console: Any, design: Design, report: CheckReport, notes: list[str], system: str) -> None:

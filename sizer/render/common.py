@@ -11,18 +11,29 @@ from sizer.model import Member
 CAUTIONS: tuple[str, ...] = (
     "These results rest on the allowable stresses entered by the user and on linear elastic, "
     "small-deflection (Euler-Bernoulli) beam theory.",
-    "Not checked by sizer: local buckling, lateral-torsional buckling, connections, bearing, "
-    "fatigue, fire and dynamic effects.",
+    "Stability (column, lateral-torsional and local buckling) is checked from elastic critical values "
+    "that sizer computes, divided by the safety factor stated in the assumptions; not by a design "
+    "code's buckling curves.",
+    "Not checked by sizer: connections, bearing and web crippling under concentrated loads, fatigue, "
+    "fire and dynamic effects.",
     "A qualified engineer must check these results against the governing local code before "
     "anything is built.",
 )
+PIPED_WIDTH = 80  # columns of output written to a file or pipe, unless COLUMNS says otherwise
 
 
 def console(stderr: bool = False) -> Any:
-    """A rich Console for the terminal (colour when the terminal supports it)."""
+    """A rich Console: the terminal's width as rich finds it (colour when the terminal supports it);
+    PIPED_WIDTH columns when writing to a file or pipe, unless the COLUMNS variable gives a width."""
+    import os
+    import sys
+
     from rich.console import Console
 
-    return Console(stderr=stderr, highlight=False, soft_wrap=False)
+    stream = sys.stderr if stderr else sys.stdout
+    piped = not (hasattr(stream, "isatty") and stream.isatty())
+    width = PIPED_WIDTH if piped and not os.environ.get("COLUMNS", "").isdigit() else None
+    return Console(stderr=stderr, highlight=False, soft_wrap=False, width=width)
 
 
 def progress_bar(description: str, transient: bool = False) -> Any:
@@ -35,23 +46,26 @@ def progress_bar(description: str, transient: bool = False) -> Any:
 
 
 def cautions_panel() -> Any:
-    """The cautions in a visible panel."""
+    """The cautions in a visible panel (each a paragraph that wraps at the panel's width)."""
+    from rich.console import Group
     from rich.panel import Panel
-    from rich.text import Text
 
-    body = Text()
-    for index, caution in enumerate(CAUTIONS):
-        body.append(("\n" if index else "") + "• " + caution)
-    return Panel(body, title="[bold yellow]Cautions[/]", border_style="yellow", expand=True)
+    from sizer.render.text import bullets
+
+    return Panel(Group(*bullets(list(CAUTIONS), "!")), title="[bold]Cautions[/]", title_align="left", border_style="yellow", expand=True)
 
 
-def notes_panel(notes: list[str], title: str = "Assumptions made") -> Any:
-    """The assumptions the tool made, one per line, so that none is hidden."""
+def notes_panel(notes: list[str], title: str = "Assumptions made", system: str = "si") -> Any:
+    """The assumptions the tool made, one per paragraph, so that none is hidden; SI numbers in the
+    notes are shown in the display units of `system` (render.si_text)."""
+    from rich.console import Group
     from rich.panel import Panel
-    from rich.text import Text
 
-    body = Text("\n".join("• " + note for note in notes))
-    return Panel(body, title=f"[bold cyan]{title}[/]", border_style="cyan", expand=True)
+    from sizer.render.si_text import in_display_units
+    from sizer.render.text import bullets
+
+    return Panel(Group(*bullets([in_display_units(note, system) for note in notes])), title=f"[bold]{title}[/]",
+                 title_align="left", border_style="cyan", expand=True)
 
 
 def member_notes(member: Member) -> list[str]:
@@ -112,7 +126,7 @@ def reactions_without_round_off(reactions: Any, length: float) -> Any:
 
 
 def to_jsonable(value: Any) -> Any:
-    """Convert numpy scalars/arrays and tuples to plain JSON types; NaN/inf become null."""
+    """Convert numpy scalars/arrays and tuples to plain JSON types; NaN/inf become null, -0.0 becomes 0.0."""
     try:
         import numpy as np
     except ImportError:  # pragma: no cover - numpy is a dependency
@@ -126,7 +140,7 @@ def to_jsonable(value: Any) -> Any:
     if np is not None and isinstance(value, np.generic):
         value = value.item()
     if isinstance(value, float):
-        return value if math.isfinite(value) else None
+        return value + 0.0 if math.isfinite(value) else None  # + 0.0: never "-0.0"
     return value
 
 

@@ -11,6 +11,7 @@ from sizer import units
 from sizer.analysis import MemberSolution, extremes
 from sizer.model import ACTIONS, LineLoad, Member, PointLoad
 from sizer.render.common import CAUTIONS, cautions_panel, notes_panel, reactions_without_round_off
+from sizer.render.text import Column, Heading, Ledger, Paragraph
 
 ACTION_KINDS = {"N": "force", "Vy": "force", "Vz": "force", "T": "moment", "My": "moment", "Mz": "moment", "V": "force", "M": "moment"}
 REACTION_NAMES = ("Fx", "Fy", "Fz", "Mx", "My", "Mz")
@@ -107,77 +108,127 @@ def forces_document(solution: MemberSolution, combination: str, xs: np.ndarray) 
     return document
 
 
+def extremes_json(solution: MemberSolution, combination: str, planar: bool) -> list[dict[str, Any]]:
+    """The largest and smallest value of each action along the member and where (N, N*m, m)."""
+    found = extremes(solution, combination)
+    return [{"action": name, "max": found[name].max_value, "max_at": found[name].max_at,
+             "min": found[name].min_value, "min_at": found[name].min_at} for name in _shown_actions(planar)]
+
+
 def forces_json(solution: MemberSolution, combinations: list[str], xs: np.ndarray, notes: list[str]) -> dict[str, Any]:
-    """The whole --json document: one combination at top level, several under "combinations"."""
-    documents = [forces_document(solution, name, xs) for name in combinations]
-    head: dict[str, Any] = documents[0] if len(documents) == 1 else {"combinations": documents}
-    return {**head, "units": "SI base units (m, N, N*m, Pa, kg/m)", "assumptions": notes, "cautions": list(CAUTIONS)}
+    """The whole --json document (SPEC section 6): {"combinations": [one object per combination,
+    always a list], "units", "assumptions", "cautions"}."""
+    planar = is_planar(solution.member)
+    documents = []
+    for name in combinations:
+        document = forces_document(solution, name, xs)
+        document["extremes"] = extremes_json(solution, name, planar)
+        documents.append(document)
+    return {"combinations": documents, "units": "SI base units (m, N, N*m, Pa, kg/m)", "assumptions": notes,
+            "cautions": list(CAUTIONS)}
 
 
 # ----------------------------------------------------------------------------------------------
 # terminal
 
-def _fmt(value: float, kind: str, system: str) -> str:
-    return units.fmt(0.0 if abs(value) < TINY_FORCE else value, kind, system)
+def plural(count: int, word: str) -> str:
+    """"1 support", "2 supports"."""
+    return f"{count} {word}" + ("" if count == 1 else "s")
+
+
+def _number(value: float, kind: str, system: str) -> str:
+    """A value in the display unit of `kind` without the unit (it is in the column's header)."""
+    return units.fmt_number(units.to_display(0.0 if abs(value) < TINY_FORCE else value, kind, system))
+
+
+def _header(name: str, kind: str, system: str) -> str:
+    return f"{name} ({units.unit_label(kind, system)})"
 
 
 def _shown_actions(planar: bool) -> tuple[str, ...]:
     return ("N", "V", "M") if planar else ACTIONS
 
 
-def reactions_table(solution: MemberSolution, combination: str, system: str) -> Any:
-    from rich import box
-    from rich.table import Table
+def reactions_ledger_values(title: str, member: Member, values: dict[str, np.ndarray], system: str, grouped: bool,
+                            escape: Any = str) -> Ledger:
+    """Reactions (N, N*m) of each combination in `values`, a row per support; the reaction columns
+    shown are those not zero in any combination; with `grouped` a line names each combination."""
+    stacked = np.stack(list(values.values()))
+    shown = [i for i in range(6) if np.any(np.abs(stacked[..., i]) > TINY_FORCE)] or [1]
+    columns = [Column("support"), Column(_header("at", "length", system), right=True)]
+    columns += [Column(_header(REACTION_NAMES[i], REACTION_KINDS[i], system), right=True) for i in shown]
+    ledger = Ledger(title, columns)
+    for name, reactions in values.items():
+        if grouped:
+            ledger.add_group(f"combination {escape(name)}")
+        for index, support in enumerate(member.supports):
+            ledger.add_row(f"S{index + 1} {escape(support.label)}", _number(support.at, "length", system),
+                           *[_number(reactions[index, i], REACTION_KINDS[i], system) for i in shown])
+    return ledger
+
+
+def reactions_table(solution: MemberSolution, combination: str, system: str) -> Ledger:
+    from rich.markup import escape
 
     reactions = reactions_without_round_off(solution.reactions(combination), solution.member.length)
-    shown = [i for i in range(6) if np.any(np.abs(reactions[:, i]) > TINY_FORCE)] or [1]
-    table = Table(title="Reactions (support on member)", title_justify="left", header_style="bold", box=box.SIMPLE_HEAD, pad_edge=False)
-    table.add_column("support", no_wrap=True)
-    table.add_column("at", justify="right", no_wrap=True)
-    for i in shown:
-        table.add_column(REACTION_NAMES[i], justify="right", no_wrap=True)
-    for index, support in enumerate(solution.member.supports):
-        cells = [_fmt(reactions[index, i], REACTION_KINDS[i], system) for i in shown]
-        table.add_row(support.label, units.fmt(support.at, "length", system), *cells)
-    return table
+    return reactions_ledger_values("Reactions (support on member)", solution.member, {combination: reactions}, system, False, escape)
 
 
-def cuts_table(cuts: list[Cut], planar: bool, system: str) -> Any:
-    """Actions at the requested cuts; the unit of each column is in its header."""
-    from rich import box
-    from rich.table import Table
-
-    table = Table(title="Internal actions at cuts (+x face of the left segment)", title_justify="left",
-                  header_style="bold", box=box.SIMPLE_HEAD, pad_edge=False)
-    table.add_column(f"x ({units.unit_label('length', system)})", justify="right", no_wrap=True)
-    table.add_column("side", no_wrap=True)
+def cuts_table(cuts: list[Cut], planar: bool, system: str, length: float = np.inf) -> Ledger:
+    """Actions at the requested cuts (both sides where a concentrated item makes them jump); the
+    unit of each column is in its header."""
     names = _shown_actions(planar)
-    for name in names:
-        table.add_column(f"{name} ({units.unit_label(ACTION_KINDS[name], system)})", justify="right", no_wrap=True)
+    columns = [Column(_header("x", "length", system), right=True), Column("side")]
+    columns += [Column(_header(name, ACTION_KINDS[name], system), right=True) for name in names]
+    ledger = Ledger("Internal actions at cuts (+x face of the left segment)", columns)
     for cut in cuts:
-        sides = (("x−", cut.left), ("x+", cut.right)) if cut.jump else (("", cut.right),)
+        if cut.jump and cut.at < length * (1 - 1e-12) and cut.at > 0:
+            sides = (("x-", cut.left), ("x+", cut.right))
+        else:
+            sides = (("", cut.left if cut.at >= length * (1 - 1e-12) else cut.right),)
         for label, values in sides:
             actions = _action_dict(values)
-            cells = [units.fmt_number(units.to_display(0.0 if abs(actions[n]) < TINY_FORCE else actions[n], ACTION_KINDS[n], system))
-                     for n in names]
-            table.add_row(units.fmt_number(units.to_display(cut.at, "length", system)), label, *cells)
-    return table
+            ledger.add_row(_number(cut.at, "length", system), label, *[_number(actions[n], ACTION_KINDS[n], system) for n in names])
+    return ledger
 
 
-def extremes_table(solution: MemberSolution, combination: str, planar: bool, system: str) -> Any:
-    from rich import box
-    from rich.table import Table
-
+def extremes_table(solution: MemberSolution, combination: str, planar: bool, system: str) -> Ledger:
     found = extremes(solution, combination)
-    table = Table(title="Extremes along the member", title_justify="left", header_style="bold", box=box.SIMPLE_HEAD, pad_edge=False)
-    for column in ("action", "largest", "at", "smallest", "at"):
-        table.add_column(column, justify="left" if column == "action" else "right", no_wrap=True)
+    length = units.unit_label("length", system)
+    ledger = Ledger("Extremes along the member", [Column("action"), Column("largest", right=True), Column(f"at ({length})", right=True),
+                                                  Column("smallest", right=True), Column(f"at ({length})", right=True)])
     for name in _shown_actions(planar):
         extreme = found[name]
         kind = ACTION_KINDS[name]
-        table.add_row(name, _fmt(extreme.max_value, kind, system), units.fmt(extreme.max_at, "length", system),
-                      _fmt(extreme.min_value, kind, system), units.fmt(extreme.min_at, "length", system))
-    return table
+        ledger.add_row(name, units.fmt(0.0 if abs(extreme.max_value) < TINY_FORCE else extreme.max_value, kind, system),
+                       _number(extreme.max_at, "length", system),
+                       units.fmt(0.0 if abs(extreme.min_value) < TINY_FORCE else extreme.min_value, kind, system),
+                       _number(extreme.min_at, "length", system))
+    return ledger
+
+
+def direction_words(member: Member, freedom: str, value: float, short: bool = False) -> str:
+    """Which way a displacement uy or uz goes: "down (along -y)" where that axis is the direction of
+    gravity (member.gravity), else "along -y"; `short`: "down" alone where it applies."""
+    axis = freedom[-1]
+    sense = "+" if value > 0 else "-"
+    gravity_axis, gravity_sign = member.gravity
+    if gravity_axis == "xyz".index(axis):
+        word = "down" if value * gravity_sign > 0 else "up"
+        return word if short else f"{word} (along {sense}{axis})"
+    return f"along {sense}{axis}"
+
+
+def deflection_line(solution: MemberSolution, combination: str, system: str) -> str | None:
+    """The largest deflection of a combination with its direction; None without a section."""
+    deflection = deflection_summary(solution, combination)
+    if deflection is None:
+        return None
+    member = solution.member
+    parts = [f"{key} = {units.fmt(deflection[key], 'deflection', system)}, {direction_words(member, key, deflection[key])}"
+             for key in ("uy", "uz") if deflection[key] != 0]
+    return (f"Largest deflection: [bold]{units.fmt(deflection['max'], 'deflection', system)}[/] at x = "
+            f"{units.fmt(deflection['at'], 'length', system)}: {'; '.join(parts) or 'none'}")
 
 
 def governing_moment(solution: MemberSolution) -> tuple[str, float, float]:
@@ -196,29 +247,29 @@ def governing_moment(solution: MemberSolution) -> tuple[str, float, float]:
 def forces_renderables(solution: MemberSolution, combinations: list[str], xs: np.ndarray | None,
                        notes: list[str], system: str, section_line: str) -> list[Any]:
     """The terminal summary of `sizer forces`, as rich renderables in order."""
-    from rich.rule import Rule
+    from rich.markup import escape
 
     member = solution.member
     planar = is_planar(member)
-    out: list[Any] = [Rule(f"[bold]sizer forces[/] · {member.title or member.source}"),
-                      f"Member length [bold]{units.fmt(member.length, 'length', system)}[/], "
-                      f"{len(member.supports)} support(s), {len(member.loads)} load(s), section: {section_line}"]
+    out: list[Any] = [Heading(f"sizer forces · {escape(member.title or member.source)}"),
+                      Paragraph(f"Member length [bold]{units.fmt(member.length, 'length', system)}[/], "
+                                f"{plural(len(member.supports), 'support')}, {plural(len(member.loads), 'load')}, "
+                                f"section: {escape(section_line)}")]
     if planar:
-        out.append("[dim]Planar member (x-y): V = −Vy (positive turns its segment clockwise), M = Mz (positive sagging).[/]")
+        out.append(Paragraph("[dim]Planar member (x-y): V = -Vy (positive turns its segment clockwise), M = Mz (positive sagging).[/]"))
     name, moment, at = governing_moment(solution)
-    out.append(f"Largest bending moment: [bold magenta]{units.fmt(moment, 'moment', system)}[/] "
-               f"at x = {units.fmt(at, 'length', system)} in combination [bold]{name}[/]")
+    out.append(Paragraph(f"Largest bending moment: [bold]{units.fmt(moment, 'moment', system)}[/] "
+                         f"at x = {units.fmt(at, 'length', system)} in combination [bold]{escape(name)}[/]"))
     for combination in combinations:
-        out.append(Rule(f"combination [bold]{combination}[/]", style="blue"))
+        out += ["", Heading(f"Combination {escape(combination)}", rule="─")]
         out.append(reactions_table(solution, combination, system))
         if xs is not None and len(xs):
-            out.append(cuts_table(cuts_for(solution, combination, xs), planar, system))
-        out.append(extremes_table(solution, combination, planar, system))
-        deflection = deflection_summary(solution, combination)
-        if deflection is not None:
-            out.append(f"Largest deflection: [bold]{units.fmt(deflection['max'], 'deflection', system)}[/] "
-                       f"at x = {units.fmt(deflection['at'], 'length', system)}")
-    return out + [notes_panel(notes), cautions_panel()]
+            out += ["", cuts_table(cuts_for(solution, combination, xs), planar, system, member.length)]
+        out += ["", extremes_table(solution, combination, planar, system)]
+        line = deflection_line(solution, combination, system)
+        if line is not None:
+            out.append(Paragraph(line))
+    return out + ["", notes_panel(notes, system=system), cautions_panel()]
 
 
 def print_forces(console: Any, solution: MemberSolution, combinations: list[str], xs: np.ndarray | None,

@@ -34,21 +34,30 @@ def dimensions_text(spec: SectionSpec, system: str = "si") -> str:
 
 
 def list_table(items: list[tuple[SectionSpec, SectionProperties, str]], system: str = "si") -> Any:
-    """The catalogue as a rich table: name, shape, family, dimensions, mass per length, A, Iz, Iy;
-    the caption says which material gave each mass."""
-    from rich.table import Table
+    """The catalogue as a ledger: name, family, mass per length, A, Iz, Iy (units in the headers),
+    with the shape and its dimensions on the line under each name; the caption says which material
+    gave each mass."""
+    from rich.markup import escape
+
+    from sizer.render.text import Column, Ledger
 
     notes = sorted({note for _, _, note in items})
     caption = "Mass per length from: " + "; ".join(notes) + ".\n" + AXES_NOTE if notes else AXES_NOTE
-    table = Table(title="Catalogue sections", title_justify="left", caption=caption, caption_justify="left")
-    for heading in ("name", "shape", "family", "dimensions"):
-        table.add_column(heading, no_wrap=heading == "name")
-    for heading in ("mass/length", "A", "Iz", "Iy"):
-        table.add_column(heading, justify="right", no_wrap=True)
+
+    def header(name: str, kind: str) -> str:
+        return f"{name} ({units.unit_label(kind, system)})"
+
+    table = Ledger("Catalogue sections", [Column("name"), Column("family"), Column(header("mass", "mass_per_length"), right=True),
+                                          Column(header("A", "area"), right=True), Column(header("Iz", "inertia"), right=True),
+                                          Column(header("Iy", "inertia"), right=True)], caption=escape(caption))
+
+    def number(value: float, kind: str) -> str:
+        return units.fmt_number(units.to_display(value, kind, system))
+
     for spec, props, _ in items:
-        table.add_row(spec.name, spec.shape, spec.family or "", dimensions_text(spec, system),
-                      units.fmt(props.mass_per_length, "mass_per_length", system), units.fmt(props.area, "area", system),
-                      units.fmt(props.Iz, "inertia", system), units.fmt(props.Iy, "inertia", system))
+        table.add_row(escape(spec.name), escape(spec.family or ""), number(props.mass_per_length, "mass_per_length"),
+                      number(props.area, "area"), number(props.Iz, "inertia"), number(props.Iy, "inertia"),
+                      note=f"{spec.shape}: {escape(dimensions_text(spec, system))}")
     return table
 
 
@@ -93,27 +102,21 @@ def property_rows(props: SectionProperties, system: str = "si") -> list[tuple[st
 
 def show_renderables(spec: SectionSpec, props: SectionProperties, mass_note: str, system: str = "si") -> list[Any]:
     """The `sections show` screen: dimensions, then every property with its unit and meaning."""
-    from rich.table import Table
+    from rich.markup import escape
 
-    head = Table(title=f"{spec.name}  ({spec.shape}{', family ' + spec.family if spec.family else ''})",
-                 title_justify="left", show_header=False, box=None)
-    head.add_column(style="bold")
-    head.add_column()
-    if spec.shape == "polygon":
-        head.add_row("outline", dimensions_text(spec, system))
-    for key, value in spec.dims.items():
-        head.add_row(key.replace("_", " "), units.fmt(value, "dimension", system))
-    head.add_row("mass from", mass_note)
-    head.add_row("source", f"{spec.source}" + (f":{spec.line}" if spec.line else ""))
-    body = Table(caption=f"{AXES_NOTE}\n{PEAK_NOTE}\nMesh: {props.mesh_elements} six-node triangles, "
-                 f"{props.mesh_nodes} nodes, largest element {units.fmt(props.max_element_area, 'area', system)}.",
-                 caption_justify="left")
-    body.add_column("property", style="bold", no_wrap=True)
-    body.add_column("value", justify="right", no_wrap=True)
-    body.add_column("meaning")
-    for row in property_rows(props, system):
-        body.add_row(*row)
-    return [head, body]
+    from sizer.render.text import Column, Heading, Ledger, Paragraph
+
+    head: list[Any] = [Heading(f"{escape(spec.name)}  ({spec.shape}{', family ' + escape(spec.family) if spec.family else ''})", rule="─")]
+    rows = [("outline", dimensions_text(spec, system))] if spec.shape == "polygon" else []
+    rows += [(key.replace("_", " "), units.fmt(value, "dimension", system)) for key, value in spec.dims.items()]
+    rows += [("mass from", mass_note), ("source", f"{spec.source}" + (f":{spec.line}" if spec.line else ""))]
+    head += [Paragraph(f"[bold]{escape(label):<16}[/] {escape(text)}", hang=17) for label, text in rows]
+    caption = (f"{AXES_NOTE}\n{PEAK_NOTE}\nMesh: {props.mesh_elements} six-node triangles, {props.mesh_nodes} nodes, "
+               f"largest element {units.fmt(props.max_element_area, 'area', system)}.")
+    body = Ledger("Properties", [Column("property"), Column("value", right=True), Column("meaning", wrap=True)], caption=escape(caption))
+    for symbol, value, meaning in property_rows(props, system):
+        body.add_row(escape(symbol), escape(value), escape(meaning))
+    return head + ["", body]
 
 
 def section_json(spec: SectionSpec, props: SectionProperties, mass_material: str | None, mass_note: str) -> dict[str, Any]:
@@ -153,9 +156,9 @@ def list_json(items: list[tuple[SectionSpec, SectionProperties, str | None]]) ->
     return {"sections": rows, "cautions": list(CAUTIONS)}
 
 
-def write_section_plot(spec: SectionSpec, props: SectionProperties, path: Path) -> None:
-    """Draw the outline in member axes (mm, from the centroid) with the centroid and shear centre;
-    PNG or SVG by the file's suffix, written atomically."""
+def write_section_plot(spec: SectionSpec, props: SectionProperties, path: Path, system: str = "si") -> None:
+    """Draw the outline in member axes (display dimension units, from the centroid) with the
+    centroid and shear centre; PNG or SVG by the file's suffix, written atomically."""
     from matplotlib.backends.backend_agg import FigureCanvasAgg
     from matplotlib.figure import Figure
 
@@ -164,9 +167,12 @@ def write_section_plot(spec: SectionSpec, props: SectionProperties, path: Path) 
     polygon = outline(spec).geom
     cx, cy = polygon.centroid.x, polygon.centroid.y
 
+    scale = 1e-3 / units.DISPLAY[system]["dimension"].factor  # display units per mm
+    label = units.unit_label("dimension", system)
+
     def member(coords: Any) -> tuple[list[float], list[float]]:
-        """Drawing (across, up) in mm -> (z, y) from the centroid in mm."""
-        return [-(x - cx) for x, _ in coords], [y - cy for _, y in coords]
+        """Drawing (across, up) in mm -> (z, y) from the centroid in display units."""
+        return [-(x - cx) * scale for x, _ in coords], [(y - cy) * scale for _, y in coords]
 
     figure = Figure(figsize=(5.5, 5.5))
     FigureCanvasAgg(figure)
@@ -178,11 +184,11 @@ def write_section_plot(spec: SectionSpec, props: SectionProperties, path: Path) 
         axes.fill(z, y, color="white", edgecolor="#23405f", linewidth=1.2)
     axes.plot([0], [0], marker="+", markersize=14, color="black", linestyle="none", label="centroid")
     ys, zs = props.shear_centre
-    axes.plot([zs * 1e3], [ys * 1e3], marker="x", markersize=10, color="#c0392b", linestyle="none", label="shear centre")
+    axes.plot([units.to_display(zs, "dimension", system)], [units.to_display(ys, "dimension", system)], marker="x", markersize=10, color="#c0392b", linestyle="none", label="shear centre")
     axes.set_aspect("equal")
     axes.invert_xaxis()  # z points left when looking at the +x cut face: the drawing reads as drawn
-    axes.set_xlabel("z [mm] (positive to the left)")
-    axes.set_ylabel("y [mm]")
+    axes.set_xlabel(f"z [{label}] (positive to the left)")
+    axes.set_ylabel(f"y [{label}]")
     axes.set_title(f"{spec.name} ({spec.shape})")
     axes.grid(True, linewidth=0.3)
     axes.legend(loc="upper left", bbox_to_anchor=(1.02, 1.0), fontsize="small")

@@ -1,12 +1,15 @@
-"""`sizer size` output: the lightest passing section with its check table, and the runners-up."""
+"""`sizer size` output: the lightest passing section with its checks, and the candidates around it
+(terminal and JSON), in the look of `sizer check` (render.check)."""
 
 from __future__ import annotations
 
 from typing import Any
 
 from sizer import units
-from sizer.render.check import BAR_WIDTH, check_entry, checks_table, utilization_bar, utilization_style
+from sizer.render.check import FAILS, PASSES, VerdictBlock, check_entry, checks_ledger, utilization_cell
 from sizer.render.common import CAUTIONS, cautions_panel, notes_panel
+from sizer.render.forces import plural
+from sizer.render.text import Column, Heading, Ledger, Paragraph
 from sizer.sizing import Candidate, SizingResult
 
 
@@ -61,58 +64,64 @@ def size_json(result: SizingResult, notes: list[str]) -> dict[str, Any]:
     return document
 
 
-def runners_up_table(result: SizingResult, top: int, system: str) -> Any:
-    """Lighter sections that fail (with why), the choice, and the heavier ones that pass."""
-    from rich import box
-    from rich.table import Table
+def candidates_ledger(result: SizingResult, top: int, system: str) -> Ledger:
+    """Lighter sections that fail (with why), the choice, and the heavier ones that pass. A
+    utilization from the screen is a proven lower bound, shown with ">=" before it."""
+    from rich.markup import escape
 
-    table = Table(title="Candidates by mass per length", title_justify="left", header_style="bold", box=box.SIMPLE_HEAD,
-                  pad_edge=False, caption="basis: 'full' = the full stress-field check; 'screen' = ruled out by a proven lower "
-                  "bound of that check (the true utilization is at least the one shown)", caption_justify="left")
-    table.add_column("section", no_wrap=True)
-    table.add_column("mass", justify="right", no_wrap=True)
-    table.add_column("utilization", no_wrap=True, min_width=BAR_WIDTH + 7)
-    table.add_column("governing", no_wrap=True)
-    table.add_column("status", no_wrap=True)
-    table.add_column("basis", no_wrap=True)
+    ledger = Ledger("Candidates by mass per length", [
+        Column("section"), Column("mass", right=True), Column("utilization"), Column("governing", fold=True),
+        Column("status", fold=True), Column("decided by", fold=True)],
+        caption="decided by: \"full field\" = the full stress-field check, as `sizer check` makes it; \"screen\" = "
+                "ruled out by a proven lower bound of that check (the true utilization is at least the one shown).")
     for candidate in shown_candidates(result, top):
         is_chosen = candidate is result.chosen
-        status = "[bold green]lightest ▶[/]" if is_chosen else ("[green]passes[/]" if candidate.passes else "[red]fails[/]")
-        bar = utilization_bar(candidate.utilization)
-        bar.append(f" {candidate.utilization:.3f}", style=utilization_style(candidate.utilization))
-        table.add_row(candidate.name, units.fmt(candidate.mass_per_length, "mass_per_length", system), bar,
-                      candidate.governing, status, "full" if candidate.report is not None else "screen",
-                      style="bold" if is_chosen else "")
-    return table
+        bound = candidate.report is None
+        cell = utilization_cell(candidate.utilization)
+        status = PASSES if candidate.passes else f"[reverse]{FAILS}[/]"
+        ledger.add_row(escape(candidate.name), units.fmt(candidate.mass_per_length, "mass_per_length", system),
+                       (">=" if bound else "  ") + cell, escape(candidate.governing or ""), status,
+                       "screen" if bound else "full field", note="chosen: the lightest that passes" if is_chosen else "",
+                       style="bold" if is_chosen else "")
+    return ledger
+
+
+def sizing_verdict(result: SizingResult, system: str) -> VerdictBlock:
+    """The choice, or that nothing passes and by how much the strongest section fails."""
+    from rich.markup import escape
+
+    chosen = result.chosen
+    if chosen is not None:
+        governing = chosen.report.governing
+        return VerdictBlock(
+            f"[bold]{escape(chosen.name)}[/] [bold]{PASSES}[/]: the lightest passing section, "
+            f"{units.fmt(chosen.mass_per_length, 'mass_per_length', system)}, utilization {chosen.utilization:.3f}, governed by "
+            f"[bold]{governing.check}[/] at x = {units.fmt(governing.at, 'length', system)} in combination "
+            f"{escape(governing.combination or '')}.", True)
+    strongest = result.strongest
+    governing = strongest.report.governing
+    over = (strongest.utilization - 1.0) * 100
+    return VerdictBlock(
+        f"No section passes: even [bold]{escape(strongest.name)}[/] [bold reverse]{FAILS}[/] {governing.check} with utilization "
+        f"{strongest.utilization:.3f} ({over:.0f} % over) at x = {units.fmt(governing.at, 'length', system)} in combination "
+        f"{escape(governing.combination or '')}.", False)
 
 
 def size_renderables(result: SizingResult, notes: list[str], top: int, system: str) -> list[Any]:
     """The terminal summary of `sizer size`, as rich renderables in order."""
-    from rich.panel import Panel
-    from rich.rule import Rule
+    from rich.markup import escape
+
+    from sizer.sizing import design_for
 
     member = result.member
-    out: list[Any] = [Rule(f"[bold]sizer size[/] · {member.title or member.source}"),
-                      f"Member length {units.fmt(member.length, 'length', system)}, material {result.material.name}, "
-                      f"{len(result.candidates)} candidates, {result.full_checks} checked on the full stress field"]
+    out: list[Any] = [Heading(f"sizer size · {escape(member.title or member.source)}"),
+                      Paragraph(f"Member length {units.fmt(member.length, 'length', system)}, material {escape(result.material.name)}, "
+                                f"{plural(len(result.candidates), 'candidate')}, {result.full_checks} checked on the full stress field"),
+                      "", sizing_verdict(result, system), ""]
     chosen = result.chosen
     if chosen is not None:
-        governing = chosen.report.governing
-        out.append(Panel(
-            f"[bold green]{chosen.name}[/]  {units.fmt(chosen.mass_per_length, 'mass_per_length', system)}  "
-            f"utilization [{utilization_style(chosen.utilization)}]{chosen.utilization:.3f}[/] "
-            f"({governing.check} at x = {units.fmt(governing.at, 'length', system)}, combination {governing.combination})",
-            title="Lightest passing section", border_style="green"))
-        out.append(checks_table(chosen.report, system))
-    else:
-        strongest = result.strongest
-        governing = strongest.report.governing
-        over = (strongest.utilization - 1.0) * 100
-        out.append(Panel(
-            f"[bold red]No section passes.[/] Even {strongest.name} fails [bold]{governing.check}[/] with utilization "
-            f"{strongest.utilization:.3f} ({over:.0f} % over) at x = {units.fmt(governing.at, 'length', system)}, "
-            f"combination {governing.combination}.", title="Nothing passes", border_style="red"))
-    return out + [runners_up_table(result, top, system), notes_panel(notes), cautions_panel()]
+        out += [checks_ledger(chosen.report, design_for(member, result.material, chosen), system), ""]
+    return out + [candidates_ledger(result, top, system), "", notes_panel(notes, system=system), cautions_panel()]
 
 
 def print_size(console: Any, result: SizingResult, notes: list[str], top: int, system: str) -> None:

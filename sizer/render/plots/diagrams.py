@@ -17,6 +17,7 @@ from sizer.analysis import extremes
 from sizer.checks import check_stations
 from sizer.design import Design
 from sizer.model import Member
+from sizer.render.forces import direction_words
 from sizer.render.plots.style import (
     FILL_NEGATIVE,
     FILL_POSITIVE,
@@ -28,7 +29,7 @@ from sizer.render.plots.style import (
 
 TITLES = {
     "N": ("Axial force N", "force", "+ tension"),
-    "V": ("Shear force V = −Vy", "force", "+ turns its segment clockwise"),
+    "V": ("Shear force V = -Vy", "force", "+ turns its segment clockwise"),
     "M": ("Bending moment M = Mz", "moment", "+ sagging (concave up)"),
     "Vz": ("Shear force Vz", "force", "+ along +z on the +x face"),
     "My": ("Bending moment My", "moment", "+ about +y on the +x face"),
@@ -114,9 +115,9 @@ def _label_extreme(ax: Any, at: float, value: float, kind: str, system: str, sig
 
 
 def draw_deflection(ax: Any, design: Design, combination: str, xs: np.ndarray, sides: np.ndarray, system: str, planar: bool) -> None:
-    """The deflected shape: uy (and uz when loaded out of plane) in mm, with the largest marked."""
+    """The deflected shape: uy (and uz when loaded out of plane) in display units, with the largest
+    marked and its direction (down or up where gravity is along that axis)."""
     moved = design.solution.displacements(combination, xs, sides)
-    length = design.member.length
     ax.axhline(0.0, color=GUIDE, lw=2.2, zorder=1, solid_capstyle="butt")
     held = np.array([s.at for s in design.member.supports if {"uy", "uz"} & (set(s.restrain) | set(s.springs))])
     if held.size:
@@ -130,7 +131,7 @@ def draw_deflection(ax: Any, design: Design, combination: str, xs: np.ndarray, s
         index = int(np.argmax(np.abs(values)))
         peaks.append(float(np.abs(values[index])))
         if abs(values[index]) > 1e-15:
-            _label_extreme_deflection(ax, label, float(xs[index]), float(values[index]), system, length)
+            _label_extreme_deflection(ax, label, float(xs[index]), float(values[index]), system, design.member)
     shown = units.to_display(moved[:, [c for _, c, _ in curves]], "deflection", system)
     if max(peaks) > 1e-15:
         _set_limits(ax, shown)
@@ -140,12 +141,15 @@ def draw_deflection(ax: Any, design: Design, combination: str, xs: np.ndarray, s
     ax.set_ylabel(unit)
 
 
-def _label_extreme_deflection(ax: Any, label: str, at: float, value: float, system: str, length: float) -> None:
+def _label_extreme_deflection(ax: Any, label: str, at: float, value: float, system: str, member: Member) -> None:
+    """A mark at the largest displacement, with its value, direction and position."""
+    length = member.length
     shown = units.to_display(value, "deflection", system)
     sign = 1.0 if value > 0 else -1.0
     ax.plot([at], [shown], marker="s", markersize=3.6, color=INK, zorder=6)
     left = at < 0.62 * length
-    ax.annotate(f"largest {label} {units.fmt(value, 'deflection', system)} at {units.fmt(at, 'length', system)}",
+    ax.annotate(f"largest {label} {units.fmt(value, 'deflection', system)}, {direction_words(member, label, value, short=True)}, at "
+                f"{units.fmt(at, 'length', system)}",
                 (at, shown), xytext=(4 if left else -4, 5 * sign), textcoords="offset points", ha="left" if left else "right",
                 va="bottom" if sign > 0 else "top", fontsize=7.5, zorder=7,
                 bbox={"boxstyle": "square,pad=0.12", "facecolor": "white", "edgecolor": "none", "alpha": 0.85})

@@ -15,7 +15,9 @@ from sizer.checks import CheckReport
 from sizer.design import Design
 from sizer.files import write_atomic
 from sizer.model import Member
+from sizer.render.check import status_word
 from sizer.render.forces import is_planar
+from sizer.render.plots.buckled_shape import buckling_pick, draw_buckled_shape
 from sizer.render.plots.combination_loads import factored_loads
 from sizer.render.plots.diagrams import draw_diagrams, mark_governing
 from sizer.render.plots.member_view import draw_member_view
@@ -45,9 +47,11 @@ def plot_member(design: Design, path: str | Path, combination: str, report: Chec
     write_atomic(path, figure_bytes(build_figure(design, combination, report, system), image_format))
 
 
-def build_figure(design: Design, combination: str, report: CheckReport | None = None, system: str = "si") -> Any:
-    """The matplotlib Figure of the member and its diagrams for `combination`. Its attribute
-    `sizer_panels` lists the panels top to bottom: elevation, [plan], N, V, M, [Vz, My, T], [deflection]."""
+def build_figure(design: Design, combination: str, report: CheckReport | None = None, system: str = "si",
+                 buckled: bool = True) -> Any:
+    """The matplotlib Figure of the member and its diagrams for `combination`, and with a report the
+    buckled shape of its governing stability check (unless `buckled` is False). Its attribute `sizer_panels` lists the panels top
+    to bottom: elevation, [plan], N, V, M, [Vz, My, T], [deflection], [sideways, twist]."""
     import matplotlib
     from matplotlib.figure import Figure
 
@@ -59,6 +63,9 @@ def build_figure(design: Design, combination: str, report: CheckReport | None = 
     panels = [(plane, view.height) for plane, view in views.items()] + [(name, DIAGRAM_HEIGHT) for name in names]
     if design.solution.has_displacements:
         panels.append(("deflection", DIAGRAM_HEIGHT))
+    pick = buckling_pick(report) if buckled else None
+    if pick is not None:
+        panels += [("sideways", DIAGRAM_HEIGHT), ("twist", DIAGRAM_HEIGHT)]
     subtitle = _subtitle_lines(design, combination, report, system)
     top = TITLE_HEIGHT + SUBTITLE_LINE * len(subtitle)
     height = top + sum(h for _, h in panels) + GAP * (len(panels) - 1) + BOTTOM
@@ -71,17 +78,19 @@ def build_figure(design: Design, combination: str, report: CheckReport | None = 
         for plane, view in views.items():
             draw_member_view(axes[plane], view, member, points)
         draw_diagrams(axes, design, combination, names, system, planar)
+        if pick is not None:
+            draw_buckled_shape(axes["sideways"], axes["twist"], design, pick, system)
         governing = _governing_for(report)
         if governing is not None:
             mark_governing(axes, governing)
-        _length_axis(axes, member.length, system)
+        length_axis(axes, member.length, system)
         _title_block(figure, member, subtitle, height)
         _footer(figure, planar)
     figure.sizer_panels = list(axes)
     return figure
 
 
-def _length_axis(axes: dict[str, Any], length: float, system: str) -> None:
+def length_axis(axes: dict[str, Any], length: float, system: str) -> None:
     """Ticks along x at round values of the display length unit (the data stay in metres), labelled
     under the bottom panel."""
     from matplotlib.ticker import FixedLocator, FuncFormatter, MaxNLocator
@@ -140,7 +149,7 @@ def _subtitle_lines(design: Design, combination: str, report: CheckReport | None
     if governing is not None:
         where = units.fmt(governing.at, "length", system)
         text = (f"Governing check: {governing.check}, utilization {governing.utilization:.3f} at x = {where}"
-                f" in combination '{governing.combination}' ({'PASSES' if report.passes else 'FAILS'})")
+                f" in combination '{governing.combination}' ({status_word(report.passes)})")
         if governing.combination != combination:
             text += "; the dash-dot line marks its position"
         lines.append(text)

@@ -60,6 +60,7 @@ def style() -> dict[str, Any]:
         "xtick.labelsize": 7.5,
         "ytick.labelsize": 7.5,
         "axes.titlesize": 8.5,
+        "axes.unicode_minus": False,  # one minus sign in every output: the hyphen-minus of the text
     }
 
 

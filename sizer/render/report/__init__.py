@@ -2,9 +2,12 @@
 
 Contents: the verdict and the cautions first; the inputs (member, supports, loads, cases and
 combinations, material and allowables, the section with its properties and outline); reactions;
-the diagrams; the method of sections at the governing cut (free body of the left segment, each
-load and reaction on it, the equilibrium equations with the numbers put in, and the actions they
-give beside the analysis's); every check; the verdict; the assumptions; the cautions again.
+the diagrams of the governing combination and of every combination; the method of sections at the
+governing cut (free body of the left segment, each load and reaction on it, the equilibrium
+equations with the numbers put in, and the actions they give beside the analysis's); every check;
+the governing station by hand (each stress by its formula beside the full field, column buckling
+with KL/r); stability (the eigen-solve in words, load factors, critical values, reduced allowables
+with their numbers, the buckled shape); the verdict; the assumptions; the cautions again.
 
 Every check number shown is taken from render.check.check_json (the `sizer check --json`
 document), which is also embedded whole as <script type="application/json" id="sizer-data">,
@@ -16,7 +19,9 @@ Modules, each importing only those above it:
   inputs           1. inputs: member, supports, loads, combinations, material, section, settings
   segment          the governing cut and the left segment's items and equilibrium, in numbers
   equilibrium      2. reactions and overall equilibrium; 4. the method of sections at the cut
-  checks           the verdict and 5. the checks
+  checks           the verdict, 5. the checks and 8. the verdict again
+  by_hand          6. the governing station by hand
+  stability        7. stability
   document         the whole record (header, contents, diagrams, assumptions) and writing it
   notebook         short HTML summaries of the API's results for notebooks, from the same pieces
 """

@@ -1,6 +1,7 @@
 """The verdict and section 5 of the calculation record, the checks: one row per check with its
-demand and allowable in display units (a ratio to 3 decimals), the utilization with a bar, where
-and in which combination it governs, and the basis of each.
+demand and allowable in display units (a ratio to 3 decimals), the utilization with a neutral gauge,
+where and in which combination it governs, and the basis of each (render.basis). Status words:
+"passes" and "fails", as on every screen.
 """
 
 from __future__ import annotations
@@ -8,7 +9,9 @@ from __future__ import annotations
 from typing import Any
 
 from sizer import units
+from sizer.render.check import FAILS, PASSES
 from sizer.render.report.markup import _cell, _e, _fmt, _row, _table
+from sizer.render.si_text import in_display_units
 
 QUANTITY_KINDS = {"stress": "stress", "deflection": "deflection", "force": "force"}
 
@@ -16,7 +19,7 @@ QUANTITY_KINDS = {"stress": "stress", "deflection": "deflection", "force": "forc
 def _verdict_text(document: dict[str, Any], system: str) -> str:
     checks = {c["check"]: c for c in document["checks"]}
     governing = checks.get(document["governing"]) if document["governing"] else None
-    word = "PASSES" if document["passes"] else "FAILS"
+    word = PASSES if document["passes"] else FAILS
     if governing is None:
         return f'<span class="word">{word}</span> no check could be made.'
     return (f'<span class="word">{word}</span> Section <b>{_e(document["section"])}</b>: governing check '
@@ -43,26 +46,29 @@ def _bar(utilization: float) -> str:
     return f'<span class="bar{over}"><span style="width:{width:.0f}%"></span></span>'
 
 
-def _check_row(entry: dict[str, Any], governing: str | None, system: str) -> str:
+def _check_row(entry: dict[str, Any], governing: str | None, system: str, basis: str) -> str:
     attrs = f' data-check="{_e(entry["check"])}"'
     if not entry["made"]:
         return _row([f"<td>{_e(entry['check'])}</td>", '<td class="num">—</td>' * 3, "<td></td>", '<td class="num">—</td>',
-                     "<td>—</td>", "<td>not made</td>", f"<td>{_e(entry['detail'])}</td>"], css="not-made", attrs=attrs)
+                     "<td>—</td>", "<td>not made</td>", f"<td>{_e(basis)}</td>"], css="not-made", attrs=attrs)
     utilization = entry["utilization"]
-    status = '<td class="fails">FAILS</td>' if utilization > 1.0 else '<td class="ok">ok</td>'
+    status = f'<td class="fails">{FAILS}</td>' if utilization > 1.0 else f'<td class="ok">{PASSES}</td>'
     if entry["check"] == governing:
-        status = status.replace("</td>", " · governs</td>")
+        status = status.replace("</td>", ", governs</td>")
     cells = [f"<td>{_e(entry['check'])}</td>",
              _cell(_check_value(entry, entry["demand"], system), entry["demand"], "demand"),
              _cell(_check_value(entry, entry["allowable"], system), entry["allowable"], "allowable"),
              _cell(f"{utilization:.3f}", utilization, "utilization"),
              f"<td>{_bar(utilization)}</td>", _cell(_fmt(entry["at"], "length", system), entry["at"]),
-             f"<td>{_e(entry['combination'])}</td>", status, f"<td>{_e(entry['detail'])}</td>"]
+             f"<td>{_e(entry['combination'])}</td>", status, f"<td>{_e(basis)}</td>"]
     return _row(cells, css="governing" if entry["check"] == governing else "", attrs=attrs)
 
 
-def checks_section(document: dict[str, Any], system: str) -> str:
-    rows = [_check_row(entry, document["governing"], system) for entry in document["checks"]]
+def checks_section(document: dict[str, Any], system: str, bases: list[str] | None = None) -> str:
+    """The checks table; `bases`: the basis of each check in order (render.basis), else each entry's
+    detail in display units."""
+    bases = bases or [in_display_units(entry["detail"], system) for entry in document["checks"]]
+    rows = [_check_row(entry, document["governing"], system, basis) for entry, basis in zip(document["checks"], bases)]
     table = _table(["check", "demand", "allowable", "utilization", "", "at", "combination", "status", "basis"], rows, (1, 2, 3, 5))
     text = ("<p>Stresses come from the full cross-section stress field (sectionproperties' unit stress fields at every mesh "
             "node, combined linearly for the actions at every station and combination); each demand is the peak over the section "
@@ -73,5 +79,5 @@ def checks_section(document: dict[str, Any], system: str) -> str:
 
 def final_verdict(document: dict[str, Any], system: str) -> str:
     css = "pass" if document["passes"] else "fail"
-    return (f'<section id="final"><h2>6. Verdict</h2><div class="verdict {css}">{_verdict_text(document, system)}</div>'
+    return (f'<section id="final"><h2>8. Verdict</h2><div class="verdict {css}">{_verdict_text(document, system)}</div>'
             "<p class=\"note\">The section passes when every check that could be made has a utilization of 1.000 or less.</p></section>")

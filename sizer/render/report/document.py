@@ -1,6 +1,7 @@
 """The calculation record as one HTML document, and writing it: the header, verdict and cautions,
-the contents, the sections in order (inputs, reactions, diagrams, the cut, checks, verdict,
-assumptions), the cautions again, and the `sizer check --json` document embedded whole (SI base
+the contents, the sections in order (inputs, reactions, diagrams of the governing and of every
+combination, the cut, checks, the governing station by hand, stability, verdict, assumptions in
+display units), the cautions again, and the `sizer check --json` document embedded whole (SI base
 units); an HTML file, or HTML beside a PDF when weasyprint is importable.
 """
 
@@ -20,11 +21,15 @@ from sizer.render.check import check_json
 from sizer.render.common import CAUTIONS, dumps
 from sizer.render.forces import is_planar
 from sizer.render.plots.figure import build_figure
+from sizer.render.basis import basis_text
+from sizer.render.report.by_hand import by_hand_section
 from sizer.render.report.checks import checks_section, final_verdict, verdict_box
 from sizer.render.report.equilibrium import cut_section, reactions_section
 from sizer.render.report.inputs import inputs_section
 from sizer.render.report.markup import STYLE, _e, _figure
 from sizer.render.report.segment import governing_cut
+from sizer.render.report.stability import stability_section
+from sizer.render.si_text import in_display_units
 
 REPORT_SUFFIXES = (".html", ".htm", ".pdf")
 
@@ -87,9 +92,11 @@ def report_html(design: Design, report: CheckReport, notes: list[str], system: s
         reactions_section(design, document, combination, system),
         _diagrams_section(design, report, combination, system),
         cut_section(design, report, combination, x, system),
-        checks_section(document, system),
+        checks_section(document, system, [basis_text(result, design, report, system) for result in report.checks]),
+        by_hand_section(design, report, system),
+        stability_section(design, report, system),
         final_verdict(document, system),
-        _assumptions_section(notes),
+        _assumptions_section(notes, system),
         _cautions_box(final=True),
         f"<footer>Calculation record made by sizer {_e(__version__)}, shown in {'SI' if system == 'si' else 'US customary'} "
         "display units; the embedded data (id sizer-data) is the <code>sizer check --json</code> document in SI base units.</footer>",
@@ -119,23 +126,33 @@ def _cautions_box(final: bool = False) -> str:
 def _contents() -> str:
     entries = [("inputs", "Inputs"), ("reactions", "Reactions"), ("diagrams", "Internal actions and deflection"),
                ("cut", "Method of sections at the governing cut"), ("checks", "Stresses and checks"),
-               ("final", "Verdict"), ("assumptions", "Assumptions")]
+               ("by-hand", "The governing station by hand"), ("stability", "Stability"), ("final", "Verdict"),
+               ("assumptions", "Assumptions")]
     items = "".join(f'<li><a href="#{key}">{_e(name)}</a></li>' for key, name in entries)
     return f"<nav><ol>{items}</ol></nav>"
 
 
 def _diagrams_section(design: Design, report: CheckReport, combination: str, system: str) -> str:
-    figure = build_figure(design, combination, report, system)
+    """The governing combination's member, loads and diagrams, then every combination together
+    (when there are several), each deflected shape with its direction."""
+    from sizer.render.plots.combinations import build_combinations_figure
+
+    figure = build_figure(design, combination, report, system, buckled=False)
     caption = (f"Member, factored loads and diagrams for combination '{combination}' (the governing one). "
-               "The dash-dot line marks the governing station.")
+               "The dash-dot line marks the governing station; the largest deflection is marked with its direction.")
+    every = ""
+    if len(design.solution.combination_names) > 1:
+        every = _figure(build_combinations_figure(design, system), "Every combination: the internal actions and the deflected "
+                        "shape of each, one line style per combination.")
     planar = is_planar(design.member)
-    convention = ("Beam convention for this in-plane member: V = −Vy is positive when it turns its segment clockwise, "
+    convention = ("Beam convention for this in-plane member: V = -Vy is positive when it turns its segment clockwise, "
                   "M = Mz is positive when it bends the member concave upward (sagging)." if planar else
                   "The member is loaded out of its x-y plane, so Vz, My and T are drawn too, each positive along or about "
                   "the positive axis on the +x face of the left segment.")
-    return f'<section id="diagrams"><h2>3. Internal actions and deflection</h2><p>{_e(convention)}</p>{_figure(figure, caption)}</section>'
+    return (f'<section id="diagrams"><h2>3. Internal actions and deflection</h2><p>{_e(convention)}</p>{_figure(figure, caption)}'
+            f"{every}</section>")
 
 
-def _assumptions_section(notes: list[str]) -> str:
-    items = "".join(f"<li>{_e(note)}</li>" for note in notes)
-    return f'<section id="assumptions"><h2>7. Assumptions</h2><ul class="notes">{items}</ul></section>'
+def _assumptions_section(notes: list[str], system: str) -> str:
+    items = "".join(f"<li>{_e(in_display_units(note, system))}</li>" for note in notes)
+    return f'<section id="assumptions"><h2>9. Assumptions</h2><ul class="notes">{items}</ul></section>'

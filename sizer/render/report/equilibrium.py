@@ -48,7 +48,7 @@ def reactions_section(design: Design, document: dict[str, Any], combination: str
 def _overall_equilibrium(design: Design, combination: str, system: str) -> str:
     """The whole member as a free body in the governing combination: the sums of forces and of moments
     about end A of every load and reaction, written out (each is zero to round-off)."""
-    items = segment_items(design, combination, design.member.length, "right")
+    items = segment_items(design, combination, design.member.length, "right", system)
     scale = max([float(np.abs(item.vector).max()) for item in items] + [1.0]) * max(1.0, design.member.length)
 
     def forces(i: int) -> list[float]:
@@ -59,7 +59,7 @@ def _overall_equilibrium(design: Design, combination: str, system: str) -> str:
 
     def moments(own: int, force: int, sign: float) -> str:
         terms = [f"+ ({_num(item.vector[own], 'moment', system)})" for item in items if item.vector[own] != 0.0]
-        terms += [f"{'+' if sign > 0 else '−'} ({_num(item.at, 'length', system)})·({_num(item.vector[force], 'force', system)})"
+        terms += [f"{'+' if sign > 0 else '-'} ({_num(item.at, 'length', system)})·({_num(item.vector[force], 'force', system)})"
                   for item in items if item.vector[force] != 0.0]
         summed = total([item.vector[own] + sign * item.at * item.vector[force] for item in items])
         written = " ".join(terms).removeprefix("+ ") or "0"
@@ -72,7 +72,7 @@ def _overall_equilibrium(design: Design, combination: str, system: str) -> str:
     if not is_planar(design.member):
         lines += [f"ΣFz = {_terms(forces(2), 'force', system)} = {_num(total(forces(2)), 'force', system)} {f_unit}",
                   f"ΣMx = {_terms(forces(3), 'moment', system)} = {_num(total(forces(3)), 'moment', system)} {m_unit}",
-                  f"ΣMy about A = Σmy − Σa·Fz = {moments(4, 2, -1.0)} {m_unit}"]
+                  f"ΣMy about A = Σmy - Σa·Fz = {moments(4, 2, -1.0)} {m_unit}"]
     return (f"<h3>Overall equilibrium, combination {_e(combination)}</h3><p class=\"note\">The whole member as a free body: "
             "every factored load (line loads by their resultants) and every reaction. Each sum is zero to round-off.</p>"
             f'<div class="eq">{_e(chr(10).join(lines))}</div>')
@@ -80,21 +80,21 @@ def _overall_equilibrium(design: Design, combination: str, system: str) -> str:
 
 def cut_section(design: Design, report: CheckReport, combination: str, x: float, system: str) -> str:
     side = cut_side(design, report, combination, x)
-    balance = segment_balance(design, combination, x, side)
+    balance = segment_balance(design, combination, x, side, system)
     other = "right" if side == "left" else "left"
     other_actions = design.solution.actions(combination, [x], other)[0]
-    mark = "⁻" if side == "left" else "⁺"
+    mark = "-" if side == "left" else "+"
     where = _fmt(x, "length", system)
     intro = (f"<p>The member is cut at x = {where} (the governing station), just {'left' if side == 'left' else 'right'} of it "
              f"(x{mark}: items exactly at x are {'not ' if side == 'left' else ''}on the segment), in combination "
-             f"<b>{_e(combination)}</b>. The left segment [0, {where}{mark}] is taken as a free body: the internal actions on its "
+             f"<b>{_e(combination)}</b>. The left segment, from end A to the cut, is taken as a free body: the internal actions on its "
              "cut face (outward normal +x) balance every load and reaction on it.</p>")
     figure = _figure(build_free_body_figure(design, combination, x, side, system), "Free body of the left segment.")
     parts = ['<section id="cut"><h2>4. Method of sections at the governing cut</h2>', intro, figure,
              _items_table(balance, system), _equations(balance, design, system), _result_table(balance, system)]
     if np.any(np.abs(other_actions - balance.analysis) > 1e-9 * (1 + np.abs(balance.analysis).max())):
         values = ", ".join(f"{n} = {_fmt(v, k, system)}" for n, v, k in zip(ACTION_NAMES, other_actions, ACTION_KINDS))
-        parts.append(f"<p class=\"note\">A concentrated item sits at x; on the other face (x{'⁺' if side == 'left' else '⁻'}) "
+        parts.append(f"<p class=\"note\">A concentrated item sits at x; on the other face (x{'+' if side == 'left' else '-'}) "
                      f"the actions are {values}.</p>")
     parts.append("</section>")
     return "\n".join(parts)
@@ -111,12 +111,12 @@ def _items_table(balance: SegmentBalance, system: str) -> str:
         cells += [_cell(_fmt(item.vector[i], REACTION_KINDS[i], system), float(item.vector[i])) for i in shown]
         rows.append(_row(cells))
     return ("<h3>Loads and reactions on the segment</h3><p class=\"note\">a: position of the force (a line load's resultant "
-            "at its centroid); a − x: its lever arm to the cut. Loads factored; reactions of the combination.</p>"
-            + _table(["item", "a", "a − x"] + [names[i] for i in shown], rows, range(1, 3 + len(shown))))
+            "at its centroid); a - x: its lever arm to the cut. Loads factored; reactions of the combination.</p>"
+            + _table(["item", "a", "a - x"] + [names[i] for i in shown], rows, range(1, 3 + len(shown))))
 
 
 def _terms(values: list[float], kind: str, system: str) -> str:
-    """A sum written out term by term, e.g. "(24.74) + (−18.00)"."""
+    """A sum written out term by term, e.g. "(24.74) + (-18.00)"."""
     if not values:
         return "0"
     return " + ".join(f"({_num(v, kind, system)})" for v in values)
@@ -136,26 +136,26 @@ def _equations(balance: SegmentBalance, design: Design, system: str) -> str:
 
     found = balance.found
     lines = [
-        f"ΣFx = 0:  N + ΣFx = 0   ⇒  N = −[{_terms(column(0), 'force', system)}] = {_num(found[0], 'force', system)} {f_unit}",
-        f"ΣFy = 0:  Vy + ΣFy = 0  ⇒  Vy = −[{_terms(column(1), 'force', system)}] = {_num(found[1], 'force', system)} {f_unit}",
-        f"ΣMz about the cut = 0:  Mz + ΣMz + Σ(a − x)·Fy = 0\n"
-        f"   ⇒  Mz = −[{_terms(column(5), 'moment', system)}] − [{' + '.join(arms(1)) or '0'}]\n"
+        f"ΣFx = 0:  N + ΣFx = 0   ⇒  N = -[{_terms(column(0), 'force', system)}] = {_num(found[0], 'force', system)} {f_unit}",
+        f"ΣFy = 0:  Vy + ΣFy = 0  ⇒  Vy = -[{_terms(column(1), 'force', system)}] = {_num(found[1], 'force', system)} {f_unit}",
+        f"ΣMz about the cut = 0:  Mz + ΣMz + Σ(a - x)·Fy = 0\n"
+        f"   ⇒  Mz = -[{_terms(column(5), 'moment', system)}] - [{' + '.join(arms(1)) or '0'}]\n"
         f"        = {_num(found[5], 'moment', system)} {m_unit}",
     ]
     if not planar or any(column(2)) or any(column(3)) or any(column(4)):
         lines += [
-            f"ΣFz = 0:  Vz + ΣFz = 0  ⇒  Vz = −[{_terms(column(2), 'force', system)}] = {_num(found[2], 'force', system)} {f_unit}",
-            f"ΣMx = 0:  T + ΣMx = 0   ⇒  T = −[{_terms(column(3), 'moment', system)}] = {_num(found[3], 'moment', system)} {m_unit}",
-            f"ΣMy about the cut = 0:  My + ΣMy − Σ(a − x)·Fz = 0\n"
-            f"   ⇒  My = −[{_terms(column(4), 'moment', system)}] + [{' + '.join(arms(2)) or '0'}]\n"
+            f"ΣFz = 0:  Vz + ΣFz = 0  ⇒  Vz = -[{_terms(column(2), 'force', system)}] = {_num(found[2], 'force', system)} {f_unit}",
+            f"ΣMx = 0:  T + ΣMx = 0   ⇒  T = -[{_terms(column(3), 'moment', system)}] = {_num(found[3], 'moment', system)} {m_unit}",
+            f"ΣMy about the cut = 0:  My + ΣMy - Σ(a - x)·Fz = 0\n"
+            f"   ⇒  My = -[{_terms(column(4), 'moment', system)}] + [{' + '.join(arms(2)) or '0'}]\n"
             f"        = {_num(found[4], 'moment', system)} {m_unit}",
         ]
     if planar:
-        lines.append(f"Beam convention:  V = −Vy = {_num(-found[1], 'force', system)} {f_unit},   "
+        lines.append(f"Beam convention:  V = -Vy = {_num(-found[1], 'force', system)} {f_unit},   "
                      f"M = Mz = {_num(found[5], 'moment', system)} {m_unit}")
-    note = ("<p class=\"note\">Moments about the cut point of a force F at a: (a − x) ex × F, so Fy turns about +z with "
-            "(a − x)·Fy and Fz about +y with −(a − x)·Fz. Terms in " + _e(f_unit) + " and " + _e(m_unit) +
-            ", lengths in m, rounded to 4 significant figures; the sums use the full values.</p>")
+    note = ("<p class=\"note\">Moments about the cut point of a force F at a: (a - x) ex × F, so Fy turns about +z with "
+            "(a - x)·Fy and Fz about +y with -(a - x)·Fz. Terms in " + _e(f_unit) + " and " + _e(m_unit) +
+            f", lengths in {_e(units.unit_label('length', system))}, rounded to 4 significant figures; the sums use the full values.</p>")
     return "<h3>Equilibrium of the segment</h3>" + note + f'<div class="eq">{_e(chr(10).join(lines))}</div>'
 
 

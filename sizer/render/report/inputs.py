@@ -43,7 +43,7 @@ def _member_table(design: Design, system: str) -> str:
     member = design.member
     axis, sign = member.gravity
     weight = (f"case '{_e(member.self_weight_case)}', {_fmt(design.mass_per_length, 'mass_per_length', system)} "
-              f"along {'+' if sign > 0 else '−'}{'xyz'[axis]}") if member.self_weight_case else "not included"
+              f"along {'+' if sign > 0 else '-'}{'xyz'[axis]}") if member.self_weight_case else "not included"
     span_text = ", ".join(f"{'overhang' if s.overhang else 'span'} {_fmt(s.start, 'length', system)} to {_fmt(s.end, 'length', system)}"
                           for s in spans(member)) or "none"
     rows = [("Length", _fmt(member.length, "length", system)), ("Section", f"{_e(design.spec.name)} ({_e(design.spec.shape)})"),
@@ -94,9 +94,9 @@ def _loads_table(design: Design, system: str) -> str:
     if member.self_weight_case:
         axis, sign = member.gravity
         rows.append(_row(["<td>SW</td>", f"<td>{_e(member.self_weight_case)}</td>", "<td>line</td>",
-                          f"<td>0 m to {_fmt(member.length, 'length', system)}</td>",
+                          f"<td>{_fmt(0.0, 'length', system)} to {_fmt(member.length, 'length', system)}</td>",
                           f"<td>self-weight {_fmt(design.mass_per_length * units.GRAVITY, 'force_per_length', system)} "
-                          f"along {'+' if sign > 0 else '−'}{'xyz'[axis]} (mass per length × g)</td>"]))
+                          f"along {'+' if sign > 0 else '-'}{'xyz'[axis]} (mass per length × g)</td>"]))
     text = "<h3>1.3 Loads (as given, before factors)</h3>"
     if not rows:
         return text + "<p>No loads.</p>"
@@ -136,7 +136,7 @@ SECTION_ROWS = (
     ("Iy", "Second moment Iy (about the vertical axis)", "inertia"), ("Iyz", "Product of inertia Iyz", "inertia"),
     ("I11", "Principal I11", "inertia"), ("I22", "Principal I22", "inertia"),
     ("Sz_top", "Elastic modulus Sz, top fibre", "modulus_section"), ("Sz_bottom", "Elastic modulus Sz, bottom fibre", "modulus_section"),
-    ("Sy_plus", "Elastic modulus Sy, +z fibre", "modulus_section"), ("Sy_minus", "Elastic modulus Sy, −z fibre", "modulus_section"),
+    ("Sy_plus", "Elastic modulus Sy, +z fibre", "modulus_section"), ("Sy_minus", "Elastic modulus Sy, -z fibre", "modulus_section"),
     ("Zz", "Plastic modulus Zz", "modulus_section"), ("Zy", "Plastic modulus Zy", "modulus_section"),
     ("rz", "Radius of gyration rz", "dimension"), ("ry", "Radius of gyration ry", "dimension"),
     ("J", "Torsion constant J", "inertia"), ("Iw", "Warping constant Iw", "warping"),
@@ -155,7 +155,7 @@ def _section_block(design: Design, system: str) -> str:
     rows.append(_row(["<th>Mass per length</th>", _cell(_fmt(design.mass_per_length, "mass_per_length", system), design.mass_per_length)]))
     rows.append(_row(["<th>Mesh</th>", f'<td class="num">{props.mesh_elements} elements, {props.mesh_nodes} nodes</td>']))
     table = f"<table><tbody>{''.join(rows)}</tbody></table>"
-    picture = _figure(section_picture(design), "The section as installed, seen on the +x cut face (y up, z to the left); "
+    picture = _figure(section_picture(design, system), "The section as installed, seen on the +x cut face (y up, z to the left); "
                       "centroid ⊕, shear centre ×, dots: the stress-analysis mesh nodes.", width=300)
     orientation = ("Properties in the section's own axes (depth along y); in <b>minor</b> orientation the section is turned a "
                    "quarter turn on the member, so member x-y bending uses Iy." if design.member.orientation == "minor" else

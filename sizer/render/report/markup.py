@@ -41,10 +41,10 @@ tr.governing td { font-weight: 700; background: #efefe9; }
 tr.not-made td { color: var(--muted); }
 td.fails { color: var(--fail); font-weight: 700; }
 td.ok { color: var(--pass); }
-.bar { display: inline-block; height: 9px; border: 1px solid var(--ink); width: 90px; vertical-align: middle;
+.bar { display: inline-block; height: 9px; border-right: 2px solid var(--ink); width: 90px; vertical-align: middle;
        background: #fff; position: relative; }
 .bar span { display: block; height: 100%; background: repeating-linear-gradient(135deg, #444 0 2px, #bbb 2px 4px); }
-.bar.over span { background: var(--fail); }
+.bar.over { border-right-style: double; }
 figure { margin: 10px 0 16px; page-break-inside: avoid; }
 figure img { max-width: 100%; height: auto; border: 1px solid var(--rule); }
 figcaption { font-size: 12px; color: var(--muted); margin-top: 3px; }

@@ -7,10 +7,12 @@ from __future__ import annotations
 from typing import Any
 
 from sizer import units
-from sizer.render.check import check_json
+from sizer.render.basis import basis_text
+from sizer.render.check import check_json, status_word
 from sizer.render.common import CAUTIONS
 from sizer.render.report.checks import checks_section, verdict_box
 from sizer.render.report.markup import STYLE, _e, _row, _table
+from sizer.render.si_text import in_display_units
 
 
 def _page(body: str) -> str:
@@ -23,15 +25,16 @@ def _cautions() -> str:
     return f'<section class="cautions"><h2>⚠ Cautions</h2><ul>{items}</ul></section>'
 
 
-def _notes(notes: list[str]) -> str:
-    items = "".join(f"<li>{_e(note)}</li>" for note in notes)
+def _notes(notes: list[str], system: str = "si") -> str:
+    items = "".join(f"<li>{_e(in_display_units(note, system))}</li>" for note in notes)
     return f"<details><summary>Assumptions ({len(notes)})</summary><ul class=\"notes\">{items}</ul></details>"
 
 
 def check_summary_html(design: Any, report: Any, notes: list[str], system: str = "si") -> str:
     """The verdict, every check and the assumptions of one section's check."""
     document = check_json(design, report, notes)
-    return _page(verdict_box(document, system) + checks_section(document, system) + _notes(notes))
+    bases = [basis_text(result, design, report, system) for result in report.checks]
+    return _page(verdict_box(document, system) + checks_section(document, system, bases) + _notes(notes, system))
 
 
 def size_summary_html(result: Any, notes: list[str], top: int, system: str = "si") -> str:
@@ -47,10 +50,10 @@ def size_summary_html(result: Any, notes: list[str], top: int, system: str = "si
         head = '<section class="verdict fail"><span class="word">NONE</span> no catalogue section passes every check.</section>'
     rows = [_row([f"<td>{_e(c.name)}</td>", f'<td class="num">{units.fmt(c.mass_per_length, "mass_per_length", system)}</td>',
                   f'<td class="num">{c.utilization:.3f}</td>', f"<td>{_e(c.governing)}</td>",
-                  f"<td>{'passes' if c.passes else 'fails'}</td>", f"<td>{_e(c.decided_by)}</td>"],
+                  f"<td>{status_word(c.passes)}</td>", f"<td>{_e(c.decided_by)}</td>"],
                  css="governing" if c is chosen else "") for c in shown_candidates(result, top)]
     table = _table(["section", "mass", "utilization", "governing", "verdict", "basis"], rows, (1, 2))
-    return _page(head + table + _notes(notes))
+    return _page(head + table + _notes(notes, system))
 
 
 def forces_summary_html(design: Any, combinations: list[str], notes: list[str], system: str = "si") -> str:
@@ -71,4 +74,4 @@ def forces_summary_html(design: Any, combinations: list[str], notes: list[str], 
                        f'<td class="num">{units.fmt(e.min_at, "length", system)}</td>']) for action, e in found.items()]
         parts.append(f"<h3>Combination {_e(name)}</h3>" + _table(["support", *REACTION_NAMES], rows, range(1, 7))
                      + _table(["action", "largest", "at", "smallest", "at"], lines, (1, 2, 3, 4)))
-    return _page("".join(parts) + _notes(notes))
+    return _page("".join(parts) + _notes(notes, system))

@@ -1,6 +1,7 @@
 """The section as installed, seen on the +x cut face: its outline in page coordinates (m, page x =
--z, page y = y, origin at the centroid, turned a quarter for minor orientation), and a picture in
-mm with the centroid, the shear centre, the member axes and the stress-analysis mesh nodes.
+-z, page y = y, origin at the centroid, turned a quarter for minor orientation), and a picture with
+the centroid, the shear centre, the member axes and the stress-analysis mesh nodes (its size written
+in display units).
 
 matplotlib and the section geometry are imported inside the functions (lazily).
 """
@@ -11,6 +12,7 @@ from typing import Any
 
 import numpy as np
 
+from sizer import units
 from sizer.design import Design
 from sizer.render.plots.style import style
 
@@ -40,7 +42,7 @@ def _turned(points: np.ndarray, orientation: str) -> np.ndarray:
     return np.column_stack([-points[:, 1], points[:, 0]])
 
 
-def section_picture(design: Design) -> Any:
+def section_picture(design: Design, system: str = "si") -> Any:
     """A drawing of the section outline with its centroid, shear centre, member axes and mesh nodes."""
     import matplotlib
     from matplotlib.figure import Figure
@@ -64,7 +66,7 @@ def section_picture(design: Design) -> Any:
         centre = _turned(np.array([[-zs, ys]]), design.member.orientation)[0] * 1e3
         ax.plot([0], [0], marker="$\\oplus$", markersize=11, color="#111111", ls="none")
         ax.plot([centre[0]], [centre[1]], marker="x", markersize=8, mew=1.6, color="#8a1c1c", ls="none")
-        _section_axes(ax, rings)
+        _section_axes(ax, rings, system)
         ax.set_aspect("equal")
         ax.set_axis_off()
     return figure
@@ -79,8 +81,8 @@ def _ring_codes(count: int) -> np.ndarray:
     return codes
 
 
-def _section_axes(ax: Any, rings: list[tuple[np.ndarray, list[np.ndarray]]]) -> None:
-    """Member y (up) and z (left) through the centroid, with the size in mm."""
+def _section_axes(ax: Any, rings: list[tuple[np.ndarray, list[np.ndarray]]], system: str = "si") -> None:
+    """Member y (up) and z (left) through the centroid, with the size in display units."""
     every = np.concatenate([exterior for exterior, _ in rings]) * 1e3
     (minx, miny), (maxx, maxy) = every.min(axis=0), every.max(axis=0)
     reach = 0.62 * max(maxx - minx, maxy - miny)
@@ -88,8 +90,8 @@ def _section_axes(ax: Any, rings: list[tuple[np.ndarray, list[np.ndarray]]]) -> 
     ax.annotate("", xy=(-reach, 0), xytext=(0, 0), arrowprops={"arrowstyle": "-|>", "lw": 0.8, "color": "#1d3557"})
     ax.text(0, reach * 1.04, "y", ha="center", va="bottom", color="#1d3557", fontsize=9)
     ax.text(-reach * 1.04, 0, "z", ha="right", va="center", color="#1d3557", fontsize=9)
-    ax.text((minx + maxx) / 2, miny - 0.08 * reach, f"{maxx - minx:.4g} mm wide × {maxy - miny:.4g} mm deep",
-            ha="center", va="top", fontsize=7.5)
+    wide, deep = (units.fmt((high - low) / 1e3, "dimension", system) for low, high in ((minx, maxx), (miny, maxy)))
+    ax.text((minx + maxx) / 2, miny - 0.08 * reach, f"{wide} wide × {deep} deep", ha="center", va="top", fontsize=7.5)
     margin = 0.12 * reach
     ax.set_xlim(min(minx, -reach) - 3 * margin, max(maxx, 0) + margin)
     ax.set_ylim(miny - 3 * margin, max(maxy, reach) + 2 * margin)

@@ -11,6 +11,7 @@ from typing import Any
 
 import numpy as np
 
+from sizer import units
 from sizer.checks import CheckReport
 from sizer.design import Design
 from sizer.render.common import without_round_off
@@ -54,9 +55,10 @@ def _on_segment(at: float, x: float, side: str, tol: float) -> bool:
     return at <= x + tol if side == "right" else at < x - tol
 
 
-def segment_items(design: Design, combination: str, x: float, side: str) -> list[SegmentItem]:
+def segment_items(design: Design, combination: str, x: float, side: str, system: str = "si") -> list[SegmentItem]:
     """Every factored point load, reaction and line-load resultant on [0, x], taken from each case's
-    solution (CaseSolution.point_items and line_items) times the combination's weights."""
+    solution (CaseSolution.point_items and line_items) times the combination's weights; labels
+    give positions in the display units of `system`."""
     solution, member = design.solution, design.member
     tol = 1e-9 * member.length
     weights = solution.weights()[solution.combination_names.index(combination)]
@@ -74,14 +76,14 @@ def segment_items(design: Design, combination: str, x: float, side: str) -> list
         for position, vector in zip(at[: len(loads)], loads):
             if _on_segment(position, x, side, tol):
                 items.append(SegmentItem(f"point load, case {name}{factor}", float(position), weight * vector))
-        items += _line_items(case, weight, x, name, factor)
+        items += _line_items(case, weight, x, name, factor, system)
     for index, support in enumerate(member.supports):
         if _on_segment(support.at, x, side, tol):
             items.append(SegmentItem(f"reaction of S{index + 1} ({support.label})", support.at, reactions[index]))
     return items
 
 
-def _line_items(case: Any, weight: float, x: float, name: str, factor: str) -> list[SegmentItem]:
+def _line_items(case: Any, weight: float, x: float, name: str, factor: str, system: str) -> list[SegmentItem]:
     """Resultants of a case's line loads over [start, min(end, x)], one item per component, at the
     component's centroid (a pure couple when the resultant vanishes)."""
     items = []
@@ -99,7 +101,8 @@ def _line_items(case: Any, weight: float, x: float, name: str, factor: str) -> l
             resultant = (a + b) / 2 * length
             first_moment = length * (a * (2 * start + stop) + b * (start + 2 * stop)) / 6  # ∫ q(s) s ds
             what = "self-weight" if name == "self-weight" else f"line load {label}, case {name}{factor}"
-            items.append(_line_item(f"{what}, {start:g}–{stop:g} m", component, resultant, first_moment, start))
+            where = f"{units.fmt_number(units.to_display(start, 'length', system))} to {units.fmt(stop, 'length', system)}"
+            items.append(_line_item(f"{what}, {where}", component, resultant, first_moment, start))
     return items
 
 
@@ -115,10 +118,10 @@ def _line_item(label: str, component: int, resultant: float, first_moment: float
     return SegmentItem(label + " (couple)", start, couple)
 
 
-def segment_balance(design: Design, combination: str, x: float, side: str) -> SegmentBalance:
+def segment_balance(design: Design, combination: str, x: float, side: str, system: str = "si") -> SegmentBalance:
     """The equations of equilibrium of the left segment solved for the actions on its cut face:
     N = -ΣFx, Vy = -ΣFy, Vz = -ΣFz, T = -ΣMx, Mz = -ΣMz - Σ(a - x)Fy, My = -ΣMy + Σ(a - x)Fz."""
-    items = segment_items(design, combination, x, side)
+    items = segment_items(design, combination, x, side, system)
     found = np.zeros(6)
     for item in items:
         arm = item.at - x

@@ -1,0 +1,95 @@
+"""The basis of each check in one line of words and display-unit numbers: what the demand is, and
+for the stability checks the load factor, the elastic critical value and the reduced allowable
+(taken from CheckResult.demand, .allowable and .extra, never from the SI `detail` text); a check
+not made says why. Shared by the terminal table (the dim line under each row) and the record.
+"""
+
+from __future__ import annotations
+
+import math
+
+from sizer import units
+from sizer.checks import CheckReport, CheckResult
+from sizer.design import Design
+from sizer.render.si_text import in_display_units
+
+WHAT = {
+    "bending": "peak stress of My and Mz together, full section field",
+    "shear": "peak stress of Vy, Vz and T together, full section field",
+    "equivalent": "peak von Mises stress, full section field",
+}
+
+
+def basis_text(result: CheckResult, design: Design, report: CheckReport, system: str) -> str:
+    """The basis of `result` (no combination: the caller adds it)."""
+    if not result.made:
+        return in_display_units(result.detail, system)
+    if result.check == "axial":
+        return f"N/A in {result.detail}"
+    if result.check == "buckling":
+        return buckling_basis(result, design, system)
+    if result.check == "lateral-torsional":
+        return lateral_basis(result, design, report, system)
+    if result.check == "local":
+        return local_basis(result, design, system)
+    if result.check in WHAT:
+        return WHAT[result.check]
+    return in_display_units(result.detail, system)
+
+
+def safety_text(design: Design) -> str:
+    """"SF 2.5", or "default SF 2" when the member file gives none."""
+    settings = design.member.checks
+    return ("" if settings.buckling_safety_factor_given else "default ") + f"SF {settings.buckling_safety_factor:g}"
+
+
+def buckling_basis(result: CheckResult, design: Design, system: str) -> str:
+    """Mode, load factor and critical load, and the allowable load sigma A / SF with its formula."""
+    critical = float(result.extra.get("critical_load") or math.inf)
+    mode = in_display_units(str(result.extra.get("mode", "")), system)
+    factor = critical / result.demand if result.demand else math.inf
+    area, sf = design.props.area, design.member.checks.buckling_safety_factor
+    stress = result.allowable * sf / area
+    formula = "Euler" if math.isclose(stress, critical / area, rel_tol=1e-9) else "Johnson parabola"
+    return (f"{mode}: load factor {factor:.3g}, P_cr = {units.fmt(critical, 'force', system)}; "
+            f"allowable load σ A / SF = {units.fmt(stress, 'stress', system)} x {units.fmt(area, 'area', system)} / {sf:g} = "
+            f"{units.fmt(result.allowable, 'force', system)} ({formula}, {safety_text(design)})")
+
+
+def lateral_sigma(design: Design, report: CheckReport, result: CheckResult) -> float:
+    """sigma_cr = M_cr / S of the fibre the governing combination compresses (Pa)."""
+    critical = result.extra.get("critical_moment")
+    if critical is None:
+        return math.inf
+    sign = 1.0
+    stability = report.stability
+    if stability is not None:
+        found = [c for c in stability.combinations if c.combination == result.combination]
+        sign = found[0].moment_sign if found else 1.0
+    modulus = design.props.Sz_top if sign > 0 else design.props.Sz_bottom
+    return float(critical) / modulus
+
+
+def lateral_basis(result: CheckResult, design: Design, report: CheckReport, system: str) -> str:
+    """Load factor, M_cr, sigma_cr and Fb_LT."""
+    factor = result.extra.get("load_factor")
+    if factor is None:
+        return "no sideways buckling mode: the restraints hold the member along its length; Fb_LT = Fb"
+    critical = float(result.extra["critical_moment"])
+    sigma = lateral_sigma(design, report, result)
+    return (f"load factor {factor:.3g} on the combination: M_cr = {units.fmt(critical, 'moment', system)}, "
+            f"σ_cr = M_cr / S = {units.fmt(sigma, 'stress', system)}; Fb_LT = {units.fmt(result.allowable, 'stress', system)} "
+            f"with {safety_text(design)}")
+
+
+def local_basis(result: CheckResult, design: Design, system: str) -> str:
+    """The wall, its plate buckling stress and the reduced allowable."""
+    critical = result.extra.get("critical_stress")
+    wall = result.extra.get("element", "wall")
+    critical_text = units.fmt(float(critical), "stress", system) if critical is not None else "none"
+    return (f"{wall}: plate buckling σ_cr = {critical_text}; reduced allowable {units.fmt(result.allowable, 'stress', system)} "
+            f"with {safety_text(design)}; demand = peak compression in that wall")
+
+
+def combination_text(result: CheckResult) -> str:
+    return f"combination {result.combination}" if result.combination else ""
