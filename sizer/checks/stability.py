@@ -73,7 +73,7 @@ def stability_report(design: Design, actions: np.ndarray, xs: np.ndarray, model:
     section = stability_section(design.props, design.material.elastic_modulus, design.material.shear_modulus)
     reason = lateral_not_applicable(design, section, actions[..., MZ])
     report = StabilityReport(model, section, reason)
-    weights = design.solution.weights()
+    mass = (design.mass_per_length or 0.0) if design.member.self_weight_case else 0.0
     solver = model.for_section(section)
     for c, name in enumerate(design.solution.combination_names):
         compression = np.maximum(-actions[c, :, N], 0.0)
@@ -81,9 +81,9 @@ def stability_report(design: Design, actions: np.ndarray, xs: np.ndarray, model:
         at_n, at_m = int(np.argmax(compression)), int(np.argmax(moments))
         axial = lateral = None
         if compression[at_n] > ZERO_ACTION:
-            axial = _checked(solver.axial(weights[c]), model, design, name)
+            axial = _checked(solver.combination("axial", c, mass), model, design, name)
         if not reason and moments[at_m] > ZERO_ACTION:
-            lateral = _checked(solver.lateral(weights[c]), model, design, name)
+            lateral = _checked(solver.combination("lateral", c, mass), model, design, name)
         report.combinations.append(CombinationStability(
             name, float(compression[at_n]), float(xs[at_n]), float(moments[at_m]), float(xs[at_m]),
             float(np.sign(actions[c, at_m, MZ]) or 1.0), axial, lateral))

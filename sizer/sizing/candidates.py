@@ -29,13 +29,6 @@ class CandidateTable:
     mass: np.ndarray
     specs: tuple[Any, ...] = ()  # the candidates' SectionSpecs, in order
 
-    @cached_property
-    def walls(self) -> Any:
-        """The flat walls of every candidate for local buckling (sizer.checks.local.WallTable)."""
-        from sizer.checks.local import wall_table
-
-        return wall_table(self.specs, np.column_stack([self.column["centroid_y"], self.column["centroid_z"]]))
-
     def __getattr__(self, name: str) -> np.ndarray:
         column = self.__dict__.get("column", {})
         if name in column:

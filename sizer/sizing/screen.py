@@ -60,14 +60,12 @@ def screen(table: CandidateTable, member: Member, material: Material, base: Memb
     loads, per_mass = (to_section_axes(part, member.orientation).reshape(-1, 6)
                        for part in np.split(base.weighted_actions(load_and_weight_factors(base), xs, sides), 2))
     fa_allowed = given_length_compression(table, member, material)
-    exact, estimate, worst = stress_screen(table, loads, per_mass, material, fa_allowed)
+    combinations = len(base.combination_names)
+    exact, estimate, worst, compression, moment = stress_screen(table, loads, per_mass, material, fa_allowed, combinations)
     deflection = deflection_screen(table, member, material, base)
     if deflection is not None:
         exact["deflection"] = deflection
-    combinations = len(base.combination_names)
-    compression = -peaks(loads[:, N].reshape(combinations, -1), per_mass[:, N].reshape(combinations, -1), table.mass, np.minimum)
-    moment = peaks(loads[:, MZ].reshape(combinations, -1), per_mass[:, MZ].reshape(combinations, -1), table.mass, None)
-    return Screen(exact, estimate, worst, np.maximum(compression, 0.0), moment, loads, per_mass, table, fa_allowed)
+    return Screen(exact, estimate, worst, compression, moment, loads, per_mass, table, fa_allowed)
 
 
 def local_lower_bound(found: Screen, index: int, member: Member, material: Material) -> float | None:
@@ -81,25 +79,14 @@ def local_lower_bound(found: Screen, index: int, member: Member, material: Mater
         nu, allowable = poisson_ratio(material, member.source), wall_allowable(material, member.source)
     except InputError:
         return None
+    from sizer.checks.local import section_walls, table_of_walls
+
     table, row = found.table, slice(index, index + 1)
     actions = (found.loads + table.mass[index] * found.per_mass)[None]
-    return float(local_utilizations(_walls_of(table.walls, row), actions, table.area[row], table.Iz[row], table.Iy[row], table.Iyz[row],
+    walls = table_of_walls([section_walls(table.specs[index], (float(table.centroid_y[index]), float(table.centroid_z[index])))])
+    return float(local_utilizations(walls, actions, table.area[row], table.Iz[row], table.Iy[row], table.Iyz[row],
                                     material.elastic_modulus, nu, material.yield_strength, allowable,
                                     member.checks.buckling_safety_factor)[0][0])
-
-
-def _walls_of(walls: Any, rows: slice) -> Any:
-    """The rows of a WallTable."""
-    from dataclasses import fields, replace
-
-    return replace(walls, **{f.name: getattr(walls, f.name)[rows] for f in fields(walls)})
-
-
-def peaks(loads: np.ndarray, per_mass: np.ndarray, mass: np.ndarray, reduce: Callable | None) -> np.ndarray:
-    """(C, S) over the stations of loads + mass x per_mass ((C, K) each, mass (S,)): the smallest value
-    (reduce np.minimum) or the largest absolute value (reduce None)."""
-    values = loads[:, None, :] + mass[None, :, None] * per_mass[:, None, :]
-    return values.min(axis=2) if reduce is np.minimum else np.abs(values).max(axis=2)
 
 
 def given_length_compression(table: CandidateTable, member: Member, material: Material) -> np.ndarray:
@@ -121,10 +108,11 @@ def _scaled(coefficient: np.ndarray, mass: np.ndarray, pair: np.ndarray) -> np.n
     return np.column_stack([coefficient, coefficient * mass]).astype(pair.dtype) @ pair
 
 
-def stress_screen(table: CandidateTable, loads: np.ndarray, per_mass: np.ndarray, material: Material,
-                  fa_allowed: np.ndarray) -> tuple[dict[str, np.ndarray], dict[str, np.ndarray], dict[str, np.ndarray]]:
-    """(axial utilization at the stations, stress-check estimates, their worst rows) of every
-    candidate; loads and per_mass (K, 6) in section axes. Blocks of sections keep each array in cache."""
+def stress_screen(table: CandidateTable, loads: np.ndarray, per_mass: np.ndarray, material: Material, fa_allowed: np.ndarray,
+                  combinations: int) -> tuple[dict[str, np.ndarray], dict[str, np.ndarray], dict[str, np.ndarray], np.ndarray, np.ndarray]:
+    """(axial utilization at the stations, stress-check estimates, their worst rows, and per combination
+    (C, S) the peak compression and the peak |Mz|) of every candidate; loads and per_mass (K, 6) in
+    section axes, combination by combination. Blocks of sections keep each array in cache."""
     allow = material.allowable
     count, rows = len(table.mass), loads.shape[0]
     pairs64 = [np.stack([loads[:, j], per_mass[:, j]]) for j in range(6)]
@@ -134,6 +122,7 @@ def stress_screen(table: CandidateTable, loads: np.ndarray, per_mass: np.ndarray
     if not present[0] or not (present[4] or present[5]):
         wanted = [name for name in wanted if name != "interaction"]  # the check needs axial force and bending together
     n_max, n_min = np.empty(count), np.empty(count)
+    compression, moment = np.zeros((combinations, count)), np.zeros((combinations, count))
     estimate = {name: np.zeros(count) for name in wanted}
     worst = {name: np.zeros(count, int) for name in wanted}
     step = max(1, SCREEN_BLOCK // max(rows, 1))
@@ -144,17 +133,20 @@ def stress_screen(table: CandidateTable, loads: np.ndarray, per_mass: np.ndarray
         if present[0]:
             axial = _scaled(np.ones(len(mass)), mass, pairs64[0])  # N, exact
             n_max[block], n_min[block] = axial.max(axis=1), axial.min(axis=1)
+            compression[:, block] = np.maximum(-axial.reshape(len(mass), combinations, -1).min(axis=2), 0.0).T
         else:
             n_max[block] = n_min[block] = 0.0
+        if present[MZ]:
+            moment[:, block] = np.abs(_scaled(np.ones(len(mass)), mass, pairs64[MZ])).reshape(len(mass), combinations, -1).max(axis=2).T
         fa = _scaled(1.0 / table.area[block], mass, pairs[0])
         fb = _peak_sum(sigma_peak[block], [1, 2], [4, 5], mass, pairs, present)
         fv = _peak_sum(tau_peak[block], [0, 1, 2], [1, 2, 3], mass, pairs, present)
         for name, (values, scale) in _stress_estimates(fa, fb, fv, allow, fa_allowed[block], wanted):
             at = values.argmax(axis=1)
             estimate[name][block], worst[name][block] = scale(values[np.arange(len(at)), at]), at
-    tension, compression = np.maximum(n_max, 0.0) / table.area, np.maximum(-n_min, 0.0) / table.area
-    exact = {"axial": np.maximum(tension / (allow.tension or np.inf), compression / (allow.compression or np.inf))}
-    return exact, estimate, worst
+    tension, compression_stress = np.maximum(n_max, 0.0) / table.area, np.maximum(-n_min, 0.0) / table.area
+    exact = {"axial": np.maximum(tension / (allow.tension or np.inf), compression_stress / (allow.compression or np.inf))}
+    return exact, estimate, worst, compression, moment
 
 
 def _allowable(allow: Any, check: str) -> float | None:

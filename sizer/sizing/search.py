@@ -8,6 +8,8 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Any, Callable, Sequence
 
+import numpy as np
+
 from sizer.analysis import MemberSolution, solve_member
 from sizer.checks import CheckReport, check_design
 from sizer.model import Material, Member, Stiffness
@@ -15,6 +17,8 @@ from sizer.sizing.candidates import Candidate, CandidateTable, candidate_section
 from sizer.sizing.screen import Screen, local_lower_bound, prove_lower_bounds, screen
 from sizer.sizing.stability_bounds import StabilityBounds
 from sizer.stability import MemberStability
+
+BATCH = 64  # candidates given stability bounds at once (one small batched eigen-solve per combination)
 
 
 @dataclass
@@ -43,6 +47,7 @@ class Search:
     found: Screen | None = None
     stability: StabilityBounds | None = None
     model: MemberStability | None = None
+    bounded: dict[int, int] = field(default_factory=dict)  # candidate index -> stability epoch of its bounds
 
     def full_check(self, candidate: Candidate) -> CheckReport:
         """The full stress-field check of one candidate (the same as `sizer check`); its buckled
@@ -54,21 +59,37 @@ class Search:
             candidate.report = check_design(design, unit_stress_field(candidate.spec), stability=self.model)
             if self.stability is not None and candidate.report.stability is not None:
                 self.stability.add(candidate.report.stability)
-                self.refresh_bounds()
         return candidate.report
 
-    def refresh_bounds(self) -> None:
-        """The stability lower bounds with the trial shapes so far, onto every unchecked candidate."""
-        for check, values in self.stability.lower_bounds().items():
-            for candidate in self.candidates:
-                if candidate.report is None:
-                    candidate.raise_bound(check, values[candidate.index])
+    def stability_bounds(self, candidates: list[Candidate]) -> None:
+        """The stability lower bounds, with the trial shapes so far, onto those unchecked candidates
+        that have not had them since the last shapes came (one batch for all of them)."""
+        if self.stability is None:
+            return
+        epoch = self.stability.epoch
+        open_ = [c for c in candidates if c.report is None and self.bounded.get(c.index, -1) < epoch]
+        if not open_:
+            return
+        found = self.stability.lower_bounds(np.array([candidate.index for candidate in open_]))
+        for check, values in found.items():
+            for candidate, value in zip(open_, values):
+                candidate.raise_bound(check, value)
+        for candidate in open_:
+            self.bounded[candidate.index] = epoch
+
+    def ahead(self, candidate: Candidate) -> list[Candidate]:
+        """The candidate and the BATCH after it: the ones the walk will judge next."""
+        position = self.candidates.index(candidate)
+        return self.candidates[position:position + BATCH]
 
     def passes_in_full(self, candidate: Candidate) -> bool:
         """False at once when a proven lower bound rules the candidate out (the exact parts of the
         screen, the stability bounds, then the full field at the screen's worst stations, then local
         buckling at the screen's stations); else the verdict of the full check."""
         if self.found is not None and candidate.report is None:
+            if candidate.certainly_fails:
+                return False
+            self.stability_bounds(self.ahead(candidate))
             if candidate.certainly_fails:
                 return False
             prove_lower_bounds(candidate, self.found, self.material)
@@ -135,8 +156,7 @@ def size_member(member: Member, catalogue: Any, material: Material, families: Se
     search.confirm_runners_up(chosen, top)
     strongest = None
     if chosen is None:
-        if search.stability is not None:
-            search.refresh_bounds()
+        search.stability_bounds(candidates)
         strongest = search.least_utilized()
     return SizingResult(member, material, candidates, chosen, strongest, notes)
 
@@ -151,4 +171,3 @@ def prepare_screen(search: Search, table: CandidateTable) -> None:
             candidate.raise_bound(check, values[candidate.index])
     search.model = MemberStability(member, search.base)
     search.stability = StabilityBounds(search.model, search.base, table, search.found, member, material)
-    search.refresh_bounds()

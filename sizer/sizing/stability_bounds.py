@@ -13,6 +13,8 @@ on buckling lengths the user gives are exact bounds from the start.
 
 from __future__ import annotations
 
+from dataclasses import fields
+
 import numpy as np
 
 from sizer.analysis import MemberSolution
@@ -22,9 +24,10 @@ from sizer.checks.stability import StabilityReport
 from sizer.model import Material, Member
 from sizer.sizing.candidates import CandidateTable
 from sizer.sizing.screen import Screen, load_and_weight_factors
-from sizer.stability import MemberStability, minor_axis_is_weaker
+from sizer.stability import MemberStability, StabilitySection, minor_axis_is_weaker
 from sizer.stability.boundary import admissible_basis
-from sizer.stability.ritz import largest_inverse, projected, strict_rows, term_coefficients, term_matrices
+from sizer.stability.problem import term_coefficients
+from sizer.stability.ritz import Projection, assemble, largest_inverse, project, strict_rows
 
 KINDS = {"axial": "buckling", "lateral": "lateral-torsional"}
 
@@ -46,64 +49,67 @@ class StabilityBounds:
         self.basis: np.ndarray | None = None  # made with the first shapes
         self.terms: dict[tuple[str, int], tuple[dict[str, np.ndarray], dict[str, np.ndarray]]] = {}
         self.shapes: dict[tuple[str, int], list[np.ndarray]] = {key: [] for key in self.wanted}
-        self.factor = {key: np.full(len(table.mass), np.inf) for key in self.wanted}
+        self.projections: dict[tuple[str, int], Projection] = {}
         self.stale: set[tuple[str, int]] = set()
+        self.epoch = 0  # counts the full checks whose shapes were taken
 
     def add(self, report: StabilityReport) -> None:
         """Take a full check's buckled shapes as trial shapes (projected onto every section's allowed shapes)."""
         if self.basis is None:
             self.basis = admissible_basis(self.model.mesh.size, strict_rows(self.model))
+        self.epoch += 1
         for c, entry in enumerate(report.combinations):
             for kind, found in (("axial", entry.axial), ("lateral", entry.lateral)):
                 if (kind, c) in self.wanted and found is not None and found.mode is not None:
                     self.shapes[(kind, c)].append(self.basis @ (self.basis.T @ found.mode))
                     self.stale.add((kind, c))
 
-    def lower_bounds(self) -> dict[str, np.ndarray]:
-        """check -> (S,) proven lower bound of its utilization, with the trial shapes so far."""
+    def lower_bounds(self, rows: np.ndarray) -> dict[str, np.ndarray]:
+        """check -> (len(rows),) proven lower bound of its utilization for the candidates `rows`, with
+        the trial shapes so far."""
         for key in sorted(self.stale):
-            self.factor[key] = self._ritz(*key)
+            terms_loads, terms_mass = self.model.combination_terms(*key)  # made once, shared with the full checks
+            self.projections[key] = project(self.model, np.column_stack(self.shapes[key]), terms_loads, terms_mass)
         self.stale.clear()
-        return {"buckling": self._buckling(), "lateral-torsional": self._lateral()}
+        factors = {key: self._ritz(key, rows) for key in self.projections}
+        return {"buckling": self._buckling(rows, factors), "lateral-torsional": self._lateral(rows, factors)}
 
-    def _ritz(self, kind: str, c: int) -> np.ndarray:
-        if (kind, c) not in self.terms:  # the term matrices of a load set, made when first needed
-            loads, per_mass = self.rows
-            self.terms[(kind, c)] = (term_matrices(self.model, kind, loads[c]), term_matrices(self.model, kind, per_mass[c]))
-        terms_loads, terms_mass = self.terms[(kind, c)]
-        stiffness, geometric = projected(self.model, np.column_stack(self.shapes[(kind, c)]), terms_loads, terms_mass,
-                                         self.sections, self.table.mass, term_coefficients(kind, self.sections))
+    def _ritz(self, key: tuple[str, int], rows: np.ndarray) -> np.ndarray:
+        """(len(rows),) upper bounds of the load factors of one combination and kind."""
+        sections = StabilitySection(**{f.name: np.asarray(getattr(self.sections, f.name))[rows] for f in fields(StabilitySection)})
+        stiffness, geometric = assemble(self.projections[key], sections, self.table.mass[rows], term_coefficients(key[0], sections))
         return largest_inverse(stiffness, geometric)
 
-    def _buckling(self) -> np.ndarray:
+    def _buckling(self, rows: np.ndarray, factors: dict[tuple[str, int], np.ndarray]) -> np.ndarray:
         table, material, settings = self.table, self.material, self.member.checks
-        given = np.full(len(table.mass), np.inf)
+        area = table.area[rows]
+        given = np.full(len(rows), np.inf)
         for length, inertia in ((settings.buckling_length_major, table.I11), (settings.buckling_length_minor, table.I22)):
             if length is not None:
-                given = np.minimum(given, np.pi**2 * material.elastic_modulus * inertia / length**2)
-        worst = np.zeros(len(table.mass))
-        for c, compression in enumerate(self.demand["axial"]):
-            factor = self.factor.get(("axial", c), np.full(len(table.mass), np.inf))
+                given = np.minimum(given, np.pi**2 * material.elastic_modulus * inertia[rows] / length**2)
+        worst = np.zeros(len(rows))
+        for c, compression in enumerate(self.demand["axial"][:, rows]):
+            factor = factors.get(("axial", c), np.full(len(rows), np.inf))
             with np.errstate(divide="ignore", invalid="ignore"):
                 load = np.minimum(np.where(compression > ZERO_ACTION, factor * compression, np.inf), given)
-                allowable = johnson(load / table.area, material.yield_strength) * table.area / settings.buckling_safety_factor
+                allowable = johnson(load / area, material.yield_strength) * area / settings.buckling_safety_factor
                 value = np.where(compression > ZERO_ACTION, compression / allowable, 0.0)
             worst = np.maximum(worst, np.nan_to_num(value, nan=0.0))
         return worst
 
-    def _lateral(self) -> np.ndarray:
+    def _lateral(self, rows: np.ndarray, factors: dict[tuple[str, int], np.ndarray]) -> np.ndarray:
         table, material = self.table, self.material
-        worst = np.zeros(len(table.mass))
+        worst = np.zeros(len(rows))
         bending = material.allowable.bending
         if bending is None:
             return worst
-        modulus = np.minimum(table.Sz_top, table.Sz_bottom)
-        for c, moment in enumerate(self.demand["lateral"]):
-            factor = self.factor.get(("lateral", c), np.full(len(table.mass), np.inf))
+        modulus = np.minimum(table.Sz_top, table.Sz_bottom)[rows]
+        for c, moment in enumerate(self.demand["lateral"][:, rows]):
+            factor = factors.get(("lateral", c), np.full(len(rows), np.inf))
             with np.errstate(invalid="ignore", over="ignore"):
                 allowable = reduced_allowable(bending, np.where(moment > ZERO_ACTION, factor * moment, np.inf) / modulus, material.yield_strength,
                                               self.member.checks.buckling_safety_factor)
-                value = np.where((moment > ZERO_ACTION) & self.lateral_applies, moment * table.sigma_peak_Mz / allowable, 0.0)
+                value = np.where((moment > ZERO_ACTION) & self.lateral_applies[rows], moment * table.sigma_peak_Mz[rows] / allowable, 0.0)
             worst = np.maximum(worst, np.nan_to_num(value, nan=0.0))
         return worst
 

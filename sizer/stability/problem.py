@@ -40,6 +40,7 @@ class MemberStability:
         self.springs = spring_diagonal(member, self.mesh, self.orientation)
         self.supports = support_rows(member, self.mesh, self.orientation)
         self.cases = list(solution.cases)
+        self._terms: dict[tuple[str, int], tuple[dict[str, np.ndarray], dict[str, np.ndarray]]] = {}
 
     def actions(self, weights: np.ndarray) -> np.ndarray:
         """(E, G, 6) internal actions in the section's axes at the Gauss points of the load set
@@ -56,17 +57,35 @@ class MemberStability:
         rows = self.supports + warping_rows(self.member, self.mesh, section) + restraint_rows(self.member, self.mesh, section)
         return admissible_basis(self.mesh.size, rows)
 
-    def axial_geometry(self, section: StabilitySection, weights: np.ndarray) -> np.ndarray:
-        """B = -G of the axial force of a load set."""
-        terms = axial_terms(self.quad, self.actions(weights)[..., N])
-        return -weighted_sum(terms, axial_coefficients(section))
-
-    def lateral_geometry(self, section: StabilitySection, weights: np.ndarray) -> np.ndarray:
-        """B = -G of the major-axis bending moment of a load set and its loads' heights."""
+    def load_set_terms(self, kind: str, weights: np.ndarray) -> dict[str, np.ndarray]:
+        """The geometric term matrices G_t of a load set (weights (n_cases + 1,)): for "axial" its
+        axial force; for "lateral" its major-axis moment and its loads' heights."""
         actions = self.actions(weights)
+        if kind == "axial":
+            return axial_terms(self.quad, actions[..., N])
         terms = moment_terms(self.quad, actions[..., MZ], np.zeros_like(actions[..., MZ]))
-        heights = height_terms(self.quad, self.member, self.orientation, np.asarray(weights), self.cases)
-        return -(weighted_sum(terms, moment_coefficients(section)) + weighted_sum(heights, height_coefficients(section)))
+        terms = {name: terms[name] for name in ("Mz", "wagner_Mz")}
+        terms.update(height_terms(self.quad, self.member, self.orientation, np.asarray(weights), self.cases))
+        return terms
+
+    def combination_terms(self, kind: str, combination: int) -> tuple[dict[str, np.ndarray], dict[str, np.ndarray]]:
+        """The term matrices of a combination's loads alone and per kg/m of self-weight (made once):
+        the combination with mass m has G = G_loads + m G_per_mass."""
+        key = (kind, combination)
+        if key not in self._terms:
+            loads = self.solution.weights(None)[combination]
+            self._terms[key] = (self.load_set_terms(kind, loads), self.load_set_terms(kind, self.solution.weights(1.0)[combination] - loads))
+        return self._terms[key]
+
+    def geometry(self, kind: str, section: StabilitySection, weights: np.ndarray) -> np.ndarray:
+        """B = -G of a load set for a section."""
+        return -weighted_sum(self.load_set_terms(kind, weights), term_coefficients(kind, section))
+
+    def combination_geometry(self, kind: str, section: StabilitySection, combination: int, mass: float) -> np.ndarray:
+        """B = -G of a combination with self-weight of `mass` kg/m (0 without) for a section."""
+        loads, per_mass = self.combination_terms(kind, combination)
+        coefficients = term_coefficients(kind, section)
+        return -(weighted_sum(loads, coefficients) + mass * weighted_sum(per_mass, coefficients))
 
     def axial_buckling(self, section: StabilitySection, weights: np.ndarray) -> Buckling:
         """The lowest load factor of a load set's axial force (flexural, torsional, flexural-torsional)."""
@@ -110,10 +129,21 @@ class SectionStability:
         self.model, self.section, self.K, self.Z = model, section, stiffness, basis
 
     def axial(self, weights: np.ndarray) -> Buckling:
-        return lowest_buckling(self.K, self.model.axial_geometry(self.section, weights), self.Z)
+        return lowest_buckling(self.K, self.model.geometry("axial", self.section, weights), self.Z)
 
     def lateral(self, weights: np.ndarray) -> Buckling:
-        return lowest_buckling(self.K, self.model.lateral_geometry(self.section, weights), self.Z)
+        return lowest_buckling(self.K, self.model.geometry("lateral", self.section, weights), self.Z)
+
+    def combination(self, kind: str, combination: int, mass: float) -> Buckling:
+        """The lowest load factor of a combination (self-weight of `mass` kg/m) for `kind` "axial" or "lateral"."""
+        return lowest_buckling(self.K, self.model.combination_geometry(kind, self.section, combination, mass), self.Z)
+
+
+def term_coefficients(kind: str, section: StabilitySection) -> dict[str, object]:
+    """The section scalars (floats or arrays) that weight each term matrix of a kind of solve."""
+    if kind == "axial":
+        return axial_coefficients(section)
+    return {**moment_coefficients(section), **height_coefficients(section)}
 
 
 def mode_name(shares: dict[str, float]) -> str:

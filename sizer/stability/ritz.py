@@ -16,16 +16,14 @@ restraint at a face holding both the sideways movement and the twist there: stri
 
 from __future__ import annotations
 
+from dataclasses import dataclass
+
 import numpy as np
 
 from sizer.stability.boundary import restraint_rows, warping_rows
-from sizer.stability.heights import height_coefficients, height_terms
-from sizer.stability.problem import MZ, N, MemberStability
+from sizer.stability.problem import MemberStability
 from sizer.stability.section import StabilitySection
-from sizer.stability.terms import axial_coefficients, axial_terms, elastic_coefficients, moment_coefficients, moment_terms
-
-KINDS = ("axial", "lateral")
-
+from sizer.stability.terms import elastic_coefficients
 
 def strict_rows(model: MemberStability) -> list[dict[int, float]]:
     """Constraint rows allowed for every section: the supports, every warping hold, and for a
@@ -39,39 +37,45 @@ def strict_rows(model: MemberStability) -> list[dict[int, float]]:
     return model.supports + warping_rows(member, model.mesh, None) + restraint_rows(strict, model.mesh, None)
 
 
-def term_matrices(model: MemberStability, kind: str, weights: np.ndarray) -> dict[str, np.ndarray]:
-    """The geometric term matrices G_t of one load set (weights (n_cases + 1,)) for a kind of solve."""
-    actions = model.actions(weights)
-    if kind == "axial":
-        return axial_terms(model.quad, actions[..., N])
-    terms = moment_terms(model.quad, actions[..., MZ], np.zeros_like(actions[..., MZ]))
-    terms = {name: terms[name] for name in ("Mz", "wagner_Mz")}
-    terms.update(height_terms(model.quad, model.member, model.orientation, np.asarray(weights), model.cases))
-    return terms
+@dataclass(frozen=True)
+class Projection:
+    """The section-independent matrices of a Rayleigh-Ritz bound, over trial shapes D (n, k): D^T M D
+    of every elastic term (by rigidity), of the springs, and of every geometric term of the loads and
+    per kg/m of self-weight (by the name of the section scalar that weights it)."""
+
+    elastic: dict[str, np.ndarray]
+    springs: np.ndarray
+    loads: dict[str, np.ndarray]
+    per_mass: dict[str, np.ndarray]
 
 
-def term_coefficients(kind: str, section: StabilitySection) -> dict[str, object]:
-    """The section scalars (arrays) that weight each term matrix."""
-    if kind == "axial":
-        return axial_coefficients(section)
-    return {**moment_coefficients(section), **height_coefficients(section)}
-
-
-def projected(model: MemberStability, shapes: np.ndarray, terms_loads: dict[str, np.ndarray], terms_mass: dict[str, np.ndarray],
-              sections: StabilitySection, masses: np.ndarray, coefficients: dict[str, object]) -> tuple[np.ndarray, np.ndarray]:
-    """(S, k, k) stiffness D^T K D and geometry D^T B D of every section over the trial shapes
-    `shapes` (n, k'), orthonormalized to D; B = -sum coefficient x (G_loads + mass x G_per_mass)."""
+def project(model: MemberStability, shapes: np.ndarray, terms_loads: dict[str, np.ndarray], terms_mass: dict[str, np.ndarray]) -> Projection:
+    """The Projection of a member's matrices over the span of `shapes` (n, k'), orthonormalized."""
     trial = _independent(shapes)
-    count = len(np.atleast_1d(masses))
-    stiffness = trial.T @ np.diag(model.springs) @ trial + np.zeros((count, 1, 1))
-    for name, value in elastic_coefficients(sections).items():
-        stiffness = stiffness + np.multiply.outer(np.broadcast_to(np.asarray(value, float), (count,)), trial.T @ model.elastic[name] @ trial)
-    geometric = np.zeros_like(stiffness)
     zero = np.zeros((model.mesh.size, model.mesh.size))
-    for name in set(terms_loads) | set(terms_mass):
+    names = set(terms_loads) | set(terms_mass)
+    return Projection({name: trial.T @ matrix @ trial for name, matrix in model.elastic.items()},
+                      (trial.T * model.springs) @ trial,
+                      {name: trial.T @ terms_loads.get(name, zero) @ trial for name in names},
+                      {name: trial.T @ terms_mass.get(name, zero) @ trial for name in names})
+
+
+def assemble(projection: Projection, sections: StabilitySection, masses: np.ndarray,
+             coefficients: dict[str, object]) -> tuple[np.ndarray, np.ndarray]:
+    """(S, k, k) stiffness D^T K D and geometry D^T B D of each section (arrays of S values), with
+    B = -sum coefficient x (G_loads + mass x G_per_mass)."""
+    count = len(np.atleast_1d(masses))
+
+    def weighted(values: object, matrix: np.ndarray) -> np.ndarray:
+        return np.multiply.outer(np.broadcast_to(np.asarray(values, float), (count,)), matrix)
+
+    stiffness = projection.springs + np.zeros((count, 1, 1))
+    for name, value in elastic_coefficients(sections).items():
+        stiffness = stiffness + weighted(value, projection.elastic[name])
+    geometric = np.zeros_like(stiffness)
+    for name in projection.loads:
         weight = np.broadcast_to(np.asarray(coefficients[name], float), (count,))
-        geometric -= np.multiply.outer(weight, trial.T @ terms_loads.get(name, zero) @ trial)
-        geometric -= np.multiply.outer(weight * masses, trial.T @ terms_mass.get(name, zero) @ trial)
+        geometric -= weighted(weight, projection.loads[name]) + weighted(weight * masses, projection.per_mass[name])
     return stiffness, geometric
 
 

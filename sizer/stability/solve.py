@@ -2,9 +2,10 @@
 supports and restraints leave free, and its buckled shape.
 
 With B = -G this is K d = lam B d. K is positive definite on the admissible freedoms (when nothing
-is free to move), B is indefinite, so the solve is scipy's symmetric generalized eigen-solver on
-B d = mu K d: the largest mu > 0 gives lam = 1 / mu (no mu > 0: the loading cannot buckle the
-member, lam = infinity). Freedoms that no geometric term touches are condensed out exactly first.
+is free to move), B is indefinite, so the solve is the symmetric generalized eigenproblem
+B d = mu K d, reduced to standard form with the Cholesky factor K = L L^T (C = L^-1 B L^-T, numpy's
+symmetric eigen-solver; scipy.linalg would cost its 0.2 s import on every command): the largest
+mu > 0 gives lam = 1 / mu (no mu > 0: the loading cannot buckle the member, lam = infinity). Freedoms that no geometric term touches are condensed out exactly first.
 A member free to move in a way the loading drives (a mechanism of the buckling fields, such as a
 beam whose twist nothing holds) has lam = 0.
 """
@@ -40,8 +41,6 @@ def lowest_buckling(K: np.ndarray, B: np.ndarray, basis: np.ndarray) -> Buckling
 def lowest_modes(K: np.ndarray, B: np.ndarray, basis: np.ndarray, count: int) -> list[Buckling]:
     """The `count` lowest positive load factors and their shapes (fewer where fewer exist; one
     Buckling(inf, None) when none does)."""
-    from scipy.linalg import eigh
-
     k = basis.T @ K @ basis
     b = basis.T @ B @ basis
     diagonal = np.diag(k).copy()
@@ -68,9 +67,8 @@ def lowest_modes(K: np.ndarray, B: np.ndarray, basis: np.ndarray, count: int) ->
             coupling = np.linalg.solve(k[np.ix_(passive, passive)], kap.T)
             kaa = kaa - kap @ coupling
     baa = b[np.ix_(active, active)]
-    n = kaa.shape[0]
-    wanted = min(count, n)
-    mu, vectors = eigh(baa, kaa, subset_by_index=[n - wanted, n - 1], check_finite=False)
+    mu, vectors = generalized_eigh(baa, kaa)
+    mu, vectors = mu[-min(count, len(mu)):], vectors[:, -min(count, len(mu)):]
     threshold = NO_BUCKLING * np.abs(baa).max()
     found = []
     for value, vector in zip(mu[::-1], vectors.T[::-1]):
@@ -81,6 +79,15 @@ def lowest_modes(K: np.ndarray, B: np.ndarray, basis: np.ndarray, count: int) ->
         reduced[passive] = -coupling @ vector
         found.append(Buckling(1.0 / float(value), _full(basis, scale, reduced)))
     return found or [Buckling(math.inf, None)]
+
+
+def generalized_eigh(b: np.ndarray, k: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """Eigenvalues (ascending) and eigenvectors of b x = mu k x, k symmetric positive definite,
+    with the eigenvectors k-orthonormal."""
+    inverse = np.linalg.inv(np.linalg.cholesky(k))
+    standard = inverse @ b @ inverse.T
+    mu, vectors = np.linalg.eigh((standard + standard.T) / 2)
+    return mu, inverse.T @ vectors
 
 
 def _free_movements(k: np.ndarray) -> np.ndarray | None:
