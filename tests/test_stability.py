@@ -226,12 +226,13 @@ def test_load_factor_scales_inversely_with_the_loads(L: float, at: float, scale:
 @settings(max_examples=25, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 @given(L=LENGTHS, at=FRACTIONS, lateral=st.booleans(), twist=st.booleans(), height=st.sampled_from(["top", "centre", "bottom"]))
 def test_a_restraint_never_lowers_the_load_factor(L: float, at: float, lateral: bool, twist: bool, height: str) -> None:
-    """Holding more can only raise the buckling load (common practice; the admissible shapes shrink)."""
+    """Holding more can only raise the buckling load (common practice; the admissible shapes shrink).
+    The restraint's node and bays change the mesh, so the two agree to the mesh's accuracy (1e-4)."""
     model, weights = beam(L, SIMPLE.format(L=L), '[[loads]]\ntype = "line"\nwy = "-1 kN/m"')
     held = replace(model.member, restraints=(Restraint(at * L, at * L, lateral or not twist, twist, height),))
     braced = MemberStability(held, model.solution)
     s = section(**IPE300)
-    assert braced.lateral_buckling(s, weights).load_factor >= model.lateral_buckling(s, weights).load_factor * (1 - 1e-9)
+    assert braced.lateral_buckling(s, weights).load_factor >= model.lateral_buckling(s, weights).load_factor * (1 - 1e-4)
 
 
 @settings(max_examples=15, deadline=None, suppress_health_check=[HealthCheck.too_slow])
