@@ -25,6 +25,12 @@ type = "pin"
 at = "6 m"
 type = "roller"
 
+[[restraints]]
+from = "0 m"
+to = "6 m"
+hold = ["lateral", "twist"]
+height = "top"
+
 [[loads]]
 type = "line"
 wy = "-10 kN/m"
