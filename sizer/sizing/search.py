@@ -139,8 +139,8 @@ def size_member(member: Member, catalogue: Any, material: Material, families: Se
     """The lightest candidate that passes every check on the full stress field, with runners-up
     (`progress` hears of any section properties computed first)."""
     candidates, table = candidate_sections(catalogue, member, material, families, max_depth, max_width, progress)
-    notes = [f"{len(candidates)} candidate sections after filters, each with its own self-weight, in material "
-             f"{material.name} (the member's)."]
+    count = f"{len(candidates)} candidate section" + ("" if len(candidates) == 1 else "s")
+    notes = [f"{count} after filters, each with its own self-weight, in material {material.name} (the member's)."]
     search = Search(member, material, candidates)
     if member.has_springs:
         for candidate in candidates:
