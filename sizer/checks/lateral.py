@@ -3,8 +3,9 @@ buckling, from the eigen-solve on the member as it is.
 
 For each combination with major-axis bending: critical_moment = load_factor x the peak |Mz| along the
 member; sigma_cr = critical_moment / the elastic modulus of the fibre it compresses; the reduced
-allowable Fb_LT = min(Fb, Fb sigma_J / Fy, sigma_cr / SF) (sizer.checks.reduction; Fb_LT = Fb where
-the member cannot buckle sideways); demand = the peak major-axis bending stress, |Mz| x the section's
+allowable Fb_LT = min(Fb, Fb sigma_J / Fy, sigma_cr / SF) (sizer.checks.reduction). A combination
+under which the member cannot buckle sideways (held along its length) keeps Fb and adds no row;
+when none can, the check is not made and says why; demand = the peak major-axis bending stress, |Mz| x the section's
 largest stress per unit Mz (exact: the field is linear). Stresses in Pa, moments in N*m.
 """
 
@@ -26,7 +27,7 @@ class LateralBuckling:
     combination: str
     moment: float  # peak |Mz|, N*m
     at: float  # m
-    load_factor: float  # math.inf where it cannot buckle sideways
+    load_factor: float
     critical_moment: float  # N*m
     critical_stress: float  # Pa
     allowable: float  # Fb_LT, Pa
@@ -43,7 +44,7 @@ def lateral_buckling(design: Design, report: StabilityReport, bending_allowable:
     per_unit = props.sigma_peak[2]  # largest |stress| per unit Mz (section axes), Pa per N*m
     found: list[LateralBuckling | None] = []
     for entry in report.combinations:
-        if entry.lateral is None:
+        if entry.lateral is None or math.isinf(entry.lateral.load_factor):  # cannot buckle sideways: Fb stands
             found.append(None)
             continue
         critical = entry.lateral.load_factor * entry.moment
@@ -61,15 +62,13 @@ def lateral_check(entries: list[LateralBuckling | None], report: StabilityReport
         return CheckResult("lateral-torsional", None, detail=report.lateral_reason)
     made = [entry for entry in entries if entry is not None]
     if not made:
+        if any(entry.lateral is not None for entry in report.combinations):
+            return CheckResult("lateral-torsional", None, detail="no sideways buckling mode: the restraints hold the member along its length")
         return CheckResult("lateral-torsional", None, detail="no bending about the section's major axis")
     worst = max(made, key=lambda entry: entry.utilization)
     factor = design.member.checks.buckling_safety_factor
-    if math.isinf(worst.load_factor):
-        detail = "no sideways buckling mode: the restraints hold the member along its length; Fb_LT = Fb"
-    else:
-        detail = (f"load factor {worst.load_factor:.3g} on the combination, M_cr = {worst.critical_moment / 1e3:.4g} kN·m, "
-                  f"σcr = {worst.critical_stress / 1e6:.4g} MPa, Fb_LT = {worst.allowable / 1e6:.4g} MPa (safety factor {factor:g})")
-    extra = {"critical_moment": worst.critical_moment if math.isfinite(worst.critical_moment) else None,
-             "load_factor": worst.load_factor if math.isfinite(worst.load_factor) else None, "mode": "lateral-torsional"}
+    detail = (f"load factor {worst.load_factor:.3g} on the combination, M_cr = {worst.critical_moment / 1e3:.4g} kN·m, "
+              f"σcr = {worst.critical_stress / 1e6:.4g} MPa, Fb_LT = {worst.allowable / 1e6:.4g} MPa (safety factor {factor:g})")
+    extra = {"critical_moment": worst.critical_moment, "load_factor": worst.load_factor, "mode": "lateral-torsional"}
     return CheckResult("lateral-torsional", worst.utilization, worst.demand, worst.allowable, worst.at, worst.combination, detail=detail,
                        extra=extra)

@@ -13,8 +13,6 @@ on buckling lengths the user gives are exact bounds from the start.
 
 from __future__ import annotations
 
-from dataclasses import fields
-
 import numpy as np
 
 from sizer.analysis import MemberSolution
@@ -24,7 +22,7 @@ from sizer.checks.stability import StabilityReport
 from sizer.model import Material, Member
 from sizer.sizing.candidates import CandidateTable
 from sizer.sizing.screen import Screen, load_and_weight_factors
-from sizer.stability import MemberStability, StabilitySection, minor_axis_is_weaker
+from sizer.stability import MemberStability, minor_axis_is_weaker
 from sizer.stability.boundary import admissible_basis
 from sizer.stability.problem import term_coefficients
 from sizer.stability.ritz import Projection, assemble, largest_inverse, project, strict_rows
@@ -75,10 +73,15 @@ class StabilityBounds:
         return {"buckling": self._buckling(rows, factors), "lateral-torsional": self._lateral(rows, factors)}
 
     def _ritz(self, key: tuple[str, int], rows: np.ndarray) -> np.ndarray:
-        """(len(rows),) upper bounds of the load factors of one combination and kind."""
-        sections = StabilitySection(**{f.name: np.asarray(getattr(self.sections, f.name))[rows] for f in fields(StabilitySection)})
-        stiffness, geometric = assemble(self.projections[key], sections, self.table.mass[rows], term_coefficients(key[0], sections))
-        return largest_inverse(stiffness, geometric)
+        """(len(rows),) upper bounds of the load factors of one combination and kind; infinite (no
+        bound yet) for a row whose warping tier (J, Iw, shear centre) the search has not revealed."""
+        factor = np.full(len(rows), np.inf)
+        known = self.table.known[rows]
+        if known.any():
+            sections = self.table.stability_sections(self.material, rows[known])
+            stiffness, geometric = assemble(self.projections[key], sections, self.table.mass[rows[known]], term_coefficients(key[0], sections))
+            factor[known] = largest_inverse(stiffness, geometric)
+        return factor
 
     def _buckling(self, rows: np.ndarray, factors: dict[tuple[str, int], np.ndarray]) -> np.ndarray:
         table, material, settings = self.table, self.material, self.member.checks
@@ -109,7 +112,8 @@ class StabilityBounds:
             with np.errstate(invalid="ignore", over="ignore"):
                 allowable = reduced_allowable(bending, np.where(moment > ZERO_ACTION, factor * moment, np.inf) / modulus, material.yield_strength,
                                               self.member.checks.buckling_safety_factor)
-                value = np.where((moment > ZERO_ACTION) & self.lateral_applies[rows], moment * table.sigma_peak_Mz[rows] / allowable, 0.0)
+                bound = (moment > ZERO_ACTION) & self.lateral_applies[rows] & np.isfinite(factor)  # else the bending check says as much
+                value = np.where(bound, moment * table.sigma_peak_Mz[rows] / allowable, 0.0)
             worst = np.maximum(worst, np.nan_to_num(value, nan=0.0))
         return worst
 

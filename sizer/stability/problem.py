@@ -21,7 +21,7 @@ from sizer.stability.elements import quadrature
 from sizer.stability.heights import height_coefficients, height_terms
 from sizer.stability.mesh import ELEMENTS_PER_LENGTH, FIELDS, build_mesh
 from sizer.stability.section import StabilitySection
-from sizer.stability.solve import Buckling, lowest_buckling
+from sizer.stability.solve import Buckling, Reduced
 from sizer.stability.terms import axial_coefficients, axial_terms, elastic_coefficients, elastic_terms, moment_coefficients, moment_terms, weighted_sum
 
 N, MY, MZ = 0, 4, 5
@@ -126,17 +126,18 @@ class SectionStability:
     """One section on the member: K and the admissible freedoms made once, for any load set."""
 
     def __init__(self, model: MemberStability, section: StabilitySection, stiffness: np.ndarray, basis: np.ndarray) -> None:
-        self.model, self.section, self.K, self.Z = model, section, stiffness, basis
+        self.model, self.section = model, section
+        self.reduced = Reduced(stiffness, basis)
 
     def axial(self, weights: np.ndarray) -> Buckling:
-        return lowest_buckling(self.K, self.model.geometry("axial", self.section, weights), self.Z)
+        return self.reduced.modes(self.model.geometry("axial", self.section, weights), 1)[0]
 
     def lateral(self, weights: np.ndarray) -> Buckling:
-        return lowest_buckling(self.K, self.model.geometry("lateral", self.section, weights), self.Z)
+        return self.reduced.modes(self.model.geometry("lateral", self.section, weights), 1)[0]
 
     def combination(self, kind: str, combination: int, mass: float) -> Buckling:
         """The lowest load factor of a combination (self-weight of `mass` kg/m) for `kind` "axial" or "lateral"."""
-        return lowest_buckling(self.K, self.model.combination_geometry(kind, self.section, combination, mass), self.Z)
+        return self.reduced.modes(self.model.combination_geometry(kind, self.section, combination, mass), 1)[0]
 
 
 def term_coefficients(kind: str, section: StabilitySection) -> dict[str, object]:

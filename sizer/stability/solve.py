@@ -33,61 +33,70 @@ class Buckling:
     free_movement: bool = False
 
 
-def lowest_buckling(K: np.ndarray, B: np.ndarray, basis: np.ndarray) -> Buckling:
-    """Solve K d = lam B d on the admissible freedoms d = basis @ r (see the module docstring)."""
-    return lowest_modes(K, B, basis, 1)[0]
+class Reduced:
+    """K on the admissible freedoms, diagonally scaled, with what does not depend on B made once: its
+    free movements, and for each set of freedoms that B touches the exact condensation of the others
+    and the inverse Cholesky factor (one section's solves under many load sets share them)."""
 
+    def __init__(self, K: np.ndarray, basis: np.ndarray) -> None:
+        self.basis = basis
+        k = basis.T @ K @ basis
+        diagonal = np.diag(k).copy()
+        diagonal[diagonal <= 0] = 1.0
+        self.scale = 1.0 / np.sqrt(diagonal)
+        self.k = k * np.outer(self.scale, self.scale)
+        self.free = _free_movements(self.k)
+        self._factors: dict[bytes, tuple[np.ndarray, np.ndarray]] = {}
 
-def lowest_modes(K: np.ndarray, B: np.ndarray, basis: np.ndarray, count: int) -> list[Buckling]:
-    """The `count` lowest positive load factors and their shapes (fewer where fewer exist; one
-    Buckling(inf, None) when none does)."""
-    k = basis.T @ K @ basis
-    b = basis.T @ B @ basis
-    diagonal = np.diag(k).copy()
-    diagonal[diagonal <= 0] = 1.0
-    scale = 1.0 / np.sqrt(diagonal)
-    k, b = k * np.outer(scale, scale), b * np.outer(scale, scale)
-    size = np.abs(b).max(initial=0.0)
-    if size == 0.0:
-        return [Buckling(math.inf, None)]
-    free = _free_movements(k)
-    if free is not None:
-        driven = np.abs(free.T @ b @ free).max(initial=0.0) > ZERO_GEOMETRY * size or np.abs(b @ free).max(initial=0.0) > 1e-8 * size
-        if driven:
-            return [Buckling(0.0, _full(basis, scale, free[:, 0]), free_movement=True)]
-        found = lowest_modes(k, b, _complement(free), count)
-        return [item if item.mode is None else Buckling(item.load_factor, _full(basis, scale, item.mode)) for item in found]
-    active = np.abs(b).max(axis=1) > ZERO_GEOMETRY * size
-    passive = ~active
-    kaa = k[np.ix_(active, active)]
-    coupling = np.zeros((int(passive.sum()), int(active.sum())))
-    if passive.any():
-        kap = k[np.ix_(active, passive)]
-        if np.abs(kap).max(initial=0.0) > 0.0:
-            coupling = np.linalg.solve(k[np.ix_(passive, passive)], kap.T)
-            kaa = kaa - kap @ coupling
-    baa = b[np.ix_(active, active)]
-    mu, vectors = generalized_eigh(baa, kaa)
-    mu, vectors = mu[-min(count, len(mu)):], vectors[:, -min(count, len(mu)):]
-    threshold = NO_BUCKLING * np.abs(baa).max()
-    found = []
-    for value, vector in zip(mu[::-1], vectors.T[::-1]):
-        if value <= threshold:
-            break
-        reduced = np.zeros(k.shape[0])
-        reduced[active] = vector
-        reduced[passive] = -coupling @ vector
-        found.append(Buckling(1.0 / float(value), _full(basis, scale, reduced)))
-    return found or [Buckling(math.inf, None)]
+    def modes(self, B: np.ndarray, count: int) -> list[Buckling]:
+        """The `count` lowest positive load factors of K d = lam B d and their shapes."""
+        b = (self.basis.T @ B @ self.basis) * np.outer(self.scale, self.scale)
+        size = np.abs(b).max(initial=0.0)
+        if size == 0.0:
+            return [Buckling(math.inf, None)]
+        if self.free is not None:
+            free = self.free
+            driven = np.abs(free.T @ b @ free).max(initial=0.0) > ZERO_GEOMETRY * size or np.abs(b @ free).max(initial=0.0) > 1e-8 * size
+            if driven:
+                return [Buckling(0.0, self._full(free[:, 0]), free_movement=True)]
+            keep = _complement(free)
+            found = Reduced(self.k, keep).modes(b, count)
+            return [item if item.mode is None else Buckling(item.load_factor, self._full(item.mode)) for item in found]
+        active = np.abs(b).max(axis=1) > ZERO_GEOMETRY * size
+        inverse, coupling = self._factor(active)
+        baa = b[np.ix_(active, active)]
+        standard = inverse @ baa @ inverse.T
+        mu, vectors = np.linalg.eigh((standard + standard.T) / 2)
+        vectors = inverse.T @ vectors
+        threshold = NO_BUCKLING * np.abs(baa).max()
+        found = []
+        for value, vector in zip(mu[::-1][:count], vectors.T[::-1][:count]):
+            if value <= threshold:
+                break
+            reduced = np.zeros(self.k.shape[0])
+            reduced[active] = vector
+            reduced[~active] = -coupling @ vector
+            found.append(Buckling(1.0 / float(value), self._full(reduced)))
+        return found or [Buckling(math.inf, None)]
 
+    def _factor(self, active: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        """For the freedoms `active` that B touches: the inverse Cholesky factor of K condensed onto
+        them (exact: the others carry no geometric term) and the condensation (others = -coupling @ active)."""
+        key = active.tobytes()
+        if key not in self._factors:
+            k, passive = self.k, ~active
+            kaa = k[np.ix_(active, active)]
+            coupling = np.zeros((int(passive.sum()), int(active.sum())))
+            if passive.any():
+                kap = k[np.ix_(active, passive)]
+                if np.abs(kap).max(initial=0.0) > 0.0:
+                    coupling = np.linalg.solve(k[np.ix_(passive, passive)], kap.T)
+                    kaa = kaa - kap @ coupling
+            self._factors[key] = (np.linalg.inv(np.linalg.cholesky(kaa)), coupling)
+        return self._factors[key]
 
-def generalized_eigh(b: np.ndarray, k: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-    """Eigenvalues (ascending) and eigenvectors of b x = mu k x, k symmetric positive definite,
-    with the eigenvectors k-orthonormal."""
-    inverse = np.linalg.inv(np.linalg.cholesky(k))
-    standard = inverse @ b @ inverse.T
-    mu, vectors = np.linalg.eigh((standard + standard.T) / 2)
-    return mu, inverse.T @ vectors
+    def _full(self, reduced: np.ndarray) -> np.ndarray:
+        return _full(self.basis, self.scale, reduced)
 
 
 def _free_movements(k: np.ndarray) -> np.ndarray | None:
