@@ -37,8 +37,11 @@ def member_from_text(text: str, name: str = "member.toml") -> Member:
 
 
 def as_member(member: MemberLike) -> Member:
-    """A Member as given, or read from the path given."""
-    return member if isinstance(member, Member) else read_member(member)
+    """A Member as given, or read from the path given, with its patterned loads expanded into per-span
+    cases and arrangements (sizer.analysis.patterns; a member without them is unchanged)."""
+    from sizer.analysis.patterns import expand_patterns
+
+    return expand_patterns(member if isinstance(member, Member) else read_member(member))
 
 
 def _length_limit(value: float | str | None, key: str) -> float | None:
@@ -87,14 +90,22 @@ class ForcesOutcome:
         return [{"at": support.at, **{name: float(v) for name, v in zip(REACTION_NAMES, row)}}
                 for support, row in zip(self.member.supports, values)]
 
-    def to_json(self, cuts: Sequence[float] | None = None) -> dict[str, Any]:
-        """The `sizer forces --json` document (cuts in m; default: ends, supports, loads)."""
+    def to_json(self, cuts: Sequence[float] | None = None, envelope: bool = False) -> dict[str, Any]:
+        """The `sizer forces --json` document (cuts in m; default: ends, supports, loads); with
+        `envelope` also the envelope over the combinations (`--envelope`)."""
         import numpy as np
 
         from sizer.render.forces import default_cuts, forces_json
 
         xs = np.asarray(cuts, dtype=float) if cuts is not None else default_cuts(self.member)
-        return forces_json(self.design.solution, list(self.combinations), xs, self.notes)
+        return forces_json(self.design.solution, list(self.combinations), xs, self.notes, envelope)
+
+    def envelope(self) -> dict[str, Any]:
+        """The largest and smallest of each action along the member (N, Vy, Vz, T, My, Mz, V, M),
+        with where and which combination (sizer.analysis.ActionEnvelope), over these combinations."""
+        from sizer.analysis import action_envelope
+
+        return action_envelope(self.design.solution, list(self.combinations))
 
     def __rich_console__(self, console: Any, options: Any) -> Iterator[Any]:
         from sizer.render.forces import forces_renderables
@@ -113,16 +124,28 @@ def forces(member: MemberLike, section: str | None = None, catalogue: Sequence[s
     """Solve the member: reactions, actions anywhere, deflections (with a section) for every
     combination, or only `combination`."""
     from sizer.design import prepare
-    from sizer.errors import InputError
     from sizer.render.common import member_notes, small_deflection_cautions
 
     member = as_member(member)
-    if combination is not None and combination not in member.combinations:
-        raise InputError("", "--combination", f"no combination is named {combination!r}", "use one of: " + ", ".join(member.combinations))
+    names = chosen_combinations(member, combination)
     design = prepare(member, [Path(path) for path in catalogue], section)
-    names = (combination,) if combination else tuple(member.combinations)
     notes = member_notes(member) + design.notes + small_deflection_cautions(design.solution)
     return ForcesOutcome(member, names, notes, design, units=units)
+
+
+def chosen_combinations(member: Member, combination: str | None) -> tuple[str, ...]:
+    """The combinations `--combination` names: one combination, or a given one with all its pattern
+    arrangements; every combination when None. InputError for an unknown name."""
+    from sizer.analysis.patterns import arrangements_of
+    from sizer.errors import InputError
+
+    if combination is None:
+        return tuple(member.combinations)
+    if combination in member.combinations:
+        return (combination,)
+    if combination in member.given_combinations:
+        return arrangements_of(member, [combination])
+    raise InputError("", "--combination", f"no combination is named {combination!r}", "use one of: " + ", ".join(member.given_combinations))
 
 
 # ----------------------------------------------------------------------------------------------

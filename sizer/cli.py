@@ -50,19 +50,23 @@ def parse_cuts(values: list[str] | None) -> list[float]:
 @app.command()
 def forces(
     file: Path = FILE_ARGUMENT,
-    at: Optional[List[str]] = typer.Option(None, "--at", help='A cut position with its unit ("2.5m", "1500 mm"); may repeat.'),
-    combination: Optional[str] = typer.Option(None, "--combination", help="Only this combination."),
+    at: Optional[List[str]] = typer.Option(None, "--at", help='A cut position with its unit ("2.5m", "1500 mm"); may repeat. '
+                                           "Gives the actions there, and with a section the displacements and twist."),
+    combination: Optional[str] = typer.Option(None, "--combination", help="Only this combination (with all its pattern arrangements)."),
     catalogue: Optional[List[Path]] = CATALOGUE_OPTION,
     json_output: bool = typer.Option(False, "--json", help="JSON in SI base units on stdout."),
     plot: Optional[Path] = typer.Option(None, "--plot", help="Draw the diagrams to a PNG or SVG file."),
+    envelope: bool = typer.Option(False, "--envelope", help="The largest and smallest of each action, reaction and deflection "
+                                  "over every combination and pattern arrangement, with the combination that gives each."),
     units_system: str = UNITS_OPTION,
 ) -> None:
-    """Reactions, internal actions at cuts, extremes and deflections for every combination."""
+    """Reactions, internal actions and displacements at cuts, extremes and deflections for every
+    combination (pattern arrangements included); --envelope for their largest and smallest."""
 
     def work() -> int:
         from sizer.commands import run_forces
 
-        return run_forces(file, parse_cuts(at), combination, catalogue or [], json_output, plot, unit_system(units_system))
+        return run_forces(file, parse_cuts(at), combination, catalogue or [], json_output, plot, unit_system(units_system), envelope)
 
     run_guarded(work)
 

@@ -28,8 +28,9 @@ def _check_plot(plot: Path | None, inputs: Sequence[Path]) -> None:
 
 
 def run_forces(file: Path, cuts: list[float], combination: str | None, catalogue: Sequence[Path],
-               json_output: bool, plot: Path | None, system: str) -> int:
-    """`sizer forces`: exit 0 (nothing to fail)."""
+               json_output: bool, plot: Path | None, system: str, envelope: bool = False) -> int:
+    """`sizer forces`: exit 0 (nothing to fail). `envelope`: the largest and smallest over the
+    combinations (terminal, JSON and plot)."""
     import numpy as np
 
     from sizer import api
@@ -43,14 +44,17 @@ def run_forces(file: Path, cuts: list[float], combination: str | None, catalogue
             raise InputError("", "--at", f"the cut at {x:g} m is off the member (length {member.length:g} m)", "give a position from 0 to the member length")
     outcome = api.forces(member, None, catalogue, combination, system)
     if plot is not None:
-        from sizer.render.plots import plot_member
+        from sizer.render.plots import plot_envelope, plot_member
 
-        plot_member(outcome.design, plot, outcome.combinations[0], system=system)
+        if envelope:
+            plot_envelope(outcome.design, plot, list(outcome.combinations), system)
+        else:
+            plot_member(outcome.design, plot, outcome.combinations[0], system=system)
     if json_output:
-        _print_document(outcome.to_json(cuts or None))
+        _print_document(outcome.to_json(cuts or None, envelope))
         return 0
     print_forces(console(), outcome.design.solution, list(outcome.combinations), np.asarray(cuts) if cuts else None, outcome.notes,
-                 system, outcome.section or "none (forces only)")
+                 system, outcome.section or "none (forces only)", envelope)
     return 0
 
 

@@ -9,6 +9,7 @@ from __future__ import annotations
 import math
 import re
 import tomllib
+from dataclasses import replace
 from pathlib import Path
 from typing import Any
 
@@ -24,12 +25,14 @@ from sizer.model import (
     WARPING_CHOICES,
     Allowables,
     CheckSettings,
+    DeflectionLimit,
     Hinge,
     LineLoad,
     Load,
     Material,
     Member,
     PointLoad,
+    Pressure,
     Restraint,
     Support,
 )
@@ -40,15 +43,19 @@ MEMBER_KEYS = {"length", "material", "section", "orientation", "self_weight", "g
 SUPPORT_KEYS = {"at", "type", "restrain", "springs", "warping"}
 RESTRAINT_KEYS = {"at", "from", "to", "hold", "height"}
 LOAD_KEYS = {
-    "point": {"type", "case", "at", "fx", "fy", "fz", "height"},
-    "moment": {"type", "case", "at", "mx", "my", "mz"},
-    "line": {"type", "case", "from", "to", "wx", "wy", "wz", "mx", "wx_end", "wy_end", "wz_end", "mx_end", "height"},
+    "point": {"type", "case", "at", "fx", "fy", "fz", "height", "pattern"},
+    "moment": {"type", "case", "at", "mx", "my", "mz", "pattern"},
+    "line": {"type", "case", "from", "to", "wx", "wy", "wz", "mx", "wx_end", "wy_end", "wz_end", "mx_end", "height", "pattern"},
+    "area": {"type", "case", "from", "to", "px", "py", "pz", "px_end", "py_end", "pz_end", "width", "height", "pattern"},
 }
 LINE_COMPONENTS = (("wx", "force_per_length"), ("wy", "force_per_length"), ("wz", "force_per_length"), ("mx", "moment_per_length"))
+AREA_COMPONENTS = ("px", "py", "pz")  # pressures along x, y, z; times the width they make wx, wy, wz
+SINGLE_DEFLECTION_KEYS = ("deflection_limit", "deflection_limit_overhang", "deflection_combinations")
 CHECK_KEYS = {
-    "deflection_limit", "deflection_limit_overhang", "deflection_combinations",
+    *SINGLE_DEFLECTION_KEYS, "deflection",
     "buckling_length_major", "buckling_length_minor", "buckling_safety_factor",
 }
+DEFLECTION_KEYS = {"limit", "overhang_limit", "combinations", "relative_to_supports"}
 MATERIAL_KEYS = {"elastic_modulus", "shear_modulus", "poisson_ratio", "density", "yield_strength", "allowable"}
 ALLOWABLE_KEYS = ("tension", "compression", "bending", "shear", "equivalent")
 LARGEST_NUMBER = 1e6  # plain numbers (factors, limits, ratios) are at most this in size (docs/limits.md)
@@ -377,14 +384,25 @@ def _read_loads(reader: Reader, value: Any, length: float) -> list[Load]:
         prefix = f"loads[{index}]"
         kind = table.get("type")
         if not isinstance(kind, str) or kind not in LOAD_KEYS:
-            raise reader.error(f"{prefix}.type", f"unknown load type {kind!r}", 'use "point", "moment" or "line"')
+            raise reader.error(f"{prefix}.type", f"unknown load type {kind!r}", 'use "point", "moment", "line" or "area"')
         reader.known_keys(table, LOAD_KEYS[kind], prefix)
         case = _case_name(reader, table, prefix)
         if kind == "line":
-            loads.append(_read_line_load(reader, table, prefix, case, length))
+            load: Load = _read_line_load(reader, table, prefix, case, length)
+        elif kind == "area":
+            load = _read_area_load(reader, table, prefix, case, length)
         else:
-            loads.append(_read_point_load(reader, table, prefix, case, kind, length))
+            load = _read_point_load(reader, table, prefix, case, kind, length)
+        loads.append(replace(load, pattern=_read_pattern(reader, table, prefix)))
     return loads
+
+
+def _read_pattern(reader: Reader, table: dict, prefix: str) -> bool:
+    """`pattern`: true makes the load patterned (each span loaded or not, every arrangement checked)."""
+    value = table.get("pattern", False)
+    if not isinstance(value, bool):
+        raise reader.error(f"{prefix}.pattern", f"expected true or false, got {value!r}", "write pattern = true (no quotes)")
+    return value
 
 
 def _read_point_load(reader: Reader, table: dict, prefix: str, case: str, kind: str, length: float) -> PointLoad:
@@ -415,6 +433,38 @@ def _read_line_load(reader: Reader, table: dict, prefix: str, case: str, length:
             raise reader.error(f"{prefix}.{name}_end", f"'{name}_end' given without '{name}'", f"give {name} (the value at 'from') too")
         q_end.append(reader.quantity(table, f"{name}_end", kind, prefix, first))
     return LineLoad(case=case, start=start, end=end, q_start=q_start, q_end=tuple(q_end), height=read_height(reader, table, prefix, None))
+
+
+def _read_area_load(reader: Reader, table: dict, prefix: str, case: str, length: float) -> LineLoad:
+    """`type = "area"`: pressures px, py, pz (and _end values) on a tributary width, read as the line
+    load pressure x width that keeps the pressure and width for display."""
+    start = reader.position(table, "from", prefix, length, default=0.0)
+    end = reader.position(table, "to", prefix, length, default=length)
+    if end <= start:
+        raise reader.error(f"{prefix}.to", "'to' must be beyond 'from'", "give from < to along the member")
+    for name in AREA_COMPONENTS:
+        if f"{name}_end" in table and name not in table:
+            raise reader.error(f"{prefix}.{name}_end", f"'{name}_end' given without '{name}'", f"give {name} (the pressure at 'from') too")
+    if not any(name in table for name in AREA_COMPONENTS):
+        raise reader.error(prefix, "the area load has no pressure", 'give at least one of px, py, pz, e.g. py = "-2.5 kPa"')
+    width = reader.required_quantity(table, "width", "length", prefix, 'give the tributary width, e.g. width = "1.2 m"')
+    if width <= 0:
+        raise reader.error(f"{prefix}.width", "the tributary width must be greater than zero", 'give e.g. width = "1.2 m"')
+    p_start = tuple(reader.quantity(table, name, "pressure", prefix, 0.0) for name in AREA_COMPONENTS)
+    p_end = [reader.quantity(table, f"{name}_end", "pressure", prefix, first) for name, first in zip(AREA_COMPONENTS, p_start)]
+    for suffix, pressures in (("", p_start), ("_end", p_end)):
+        for name, pressure in zip(AREA_COMPONENTS, pressures):
+            _line_load_in_range(reader, f"{prefix}.{name}{suffix}", pressure * width)
+    return LineLoad(case=case, start=start, end=end, q_start=(*(p * width for p in p_start), 0.0), q_end=(*(p * width for p in p_end), 0.0),
+                    height=read_height(reader, table, prefix, None), area=Pressure(p_start, tuple(p_end), width))
+
+
+def _line_load_in_range(reader: Reader, key: str, intensity: float) -> None:
+    """InputError when pressure x width is beyond the line loads sizer accepts (units.LIMITS)."""
+    largest = units.LIMITS["force_per_length"][1]
+    if abs(intensity) > largest:
+        raise reader.error(key, f"pressure x width is {intensity:.3g} N/m, beyond the line loads sizer accepts ({largest:g} N/m)",
+                           "give a smaller pressure or width (see docs/limits.md)")
 
 
 def _read_self_weight(reader: Reader, member_table: dict) -> str | None:
@@ -460,14 +510,12 @@ def _read_checks(reader: Reader, value: Any, length: float, combinations: dict[s
     reader.known_keys(table, CHECK_KEYS, "checks")
     limit = reader.number(table["deflection_limit"], "checks.deflection_limit") if "deflection_limit" in table else None
     overhang = reader.number(table["deflection_limit_overhang"], "checks.deflection_limit_overhang") if "deflection_limit_overhang" in table else None
-    chosen = table.get("deflection_combinations")
-    if chosen is not None:
-        if not isinstance(chosen, list) or not all(isinstance(item, str) for item in chosen):
-            raise reader.error("checks.deflection_combinations", "expected a list of combination names", 'write e.g. ["dead + imposed"]')
-        for name in chosen:
-            if name not in combinations:
-                raise reader.error("checks.deflection_combinations", f"no combination is named {name!r}", "use one of: " + ", ".join(combinations))
-        chosen = tuple(chosen)
+    chosen = _combination_names(reader, table, "deflection_combinations", "checks", combinations)
+    entries = _read_deflection_limits(reader, table.get("deflection", []), combinations)
+    single = [name for name in SINGLE_DEFLECTION_KEYS if name in table]
+    if entries and single:
+        raise reader.error(f"checks.{single[0]}", "deflection limits are given both as single keys and as [[checks.deflection]] entries",
+                           f"move {single[0]} into a [[checks.deflection]] entry (limit, overhang_limit, combinations), or remove the entries")
     lengths = {}
     for name in ("buckling_length_major", "buckling_length_minor"):
         lengths[name] = reader.quantity(table, name, "length", "checks")
@@ -479,11 +527,46 @@ def _read_checks(reader: Reader, value: Any, length: float, combinations: dict[s
         deflection_limit=limit,
         deflection_limit_overhang=overhang,
         deflection_combinations=chosen,
+        deflection=entries,
         buckling_length_major=lengths["buckling_length_major"],
         buckling_length_minor=lengths["buckling_length_minor"],
         buckling_safety_factor=factor,
         buckling_safety_factor_given=factor_given,
     )
+
+
+def _combination_names(reader: Reader, table: dict, name: str, prefix: str, combinations: dict[str, dict[str, float]]) -> tuple[str, ...] | None:
+    """A list of combination names (table[name]) that must all be given combinations; None when absent."""
+    chosen = table.get(name)
+    if chosen is None:
+        return None
+    key = f"{prefix}.{name}"
+    if not isinstance(chosen, list) or not chosen or not all(isinstance(item, str) for item in chosen):
+        raise reader.error(key, "expected a list of combination names", 'write e.g. ["dead + imposed"]')
+    for item in chosen:
+        if item not in combinations:
+            raise reader.error(key, f"no combination is named {item!r}", "use one of: " + ", ".join(combinations))
+    return tuple(chosen)
+
+
+def _read_deflection_limits(reader: Reader, value: Any, combinations: dict[str, dict[str, float]]) -> tuple[DeflectionLimit, ...]:
+    """[[checks.deflection]]: each entry a limit on spans (`limit`) and/or overhangs (`overhang_limit`,
+    default limit / 2), in some combinations, relative to the supports or absolute."""
+    entries = []
+    for index, table in enumerate(_array_of_tables(reader, value, "checks.deflection"), start=1):
+        prefix = f"checks.deflection[{index}]"
+        reader.known_keys(table, DEFLECTION_KEYS, prefix)
+        if "limit" not in table and "overhang_limit" not in table:
+            raise reader.error(prefix, "the deflection limit has no limit", "give limit = 360 (span / 360) and/or overhang_limit = 180")
+        limit = reader.number(table["limit"], f"{prefix}.limit") if "limit" in table else None
+        overhang = reader.number(table["overhang_limit"], f"{prefix}.overhang_limit") if "overhang_limit" in table else None
+        relative = table.get("relative_to_supports", True)
+        if not isinstance(relative, bool):
+            raise reader.error(f"{prefix}.relative_to_supports", f"expected true or false, got {relative!r}",
+                               "write relative_to_supports = true (from the chord between the supports) or false (from the original position)")
+        chosen = _combination_names(reader, table, "combinations", prefix, combinations)
+        entries.append(DeflectionLimit(limit, overhang if overhang is not None else (limit / 2 if limit is not None else None), chosen, relative))
+    return tuple(entries)
 
 
 def parse_material(name: str, table: dict, reader: Reader, prefix: str) -> Material:

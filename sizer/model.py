@@ -78,12 +78,24 @@ class PointLoad:
     force: tuple[float, float, float] = (0.0, 0.0, 0.0)
     moment: tuple[float, float, float] = (0.0, 0.0, 0.0)
     height: str | float | None = None  # where a transverse force acts on the section (see Restraint); None: default
+    pattern: bool = False  # pattern loading: the span it is on is loaded in some arrangements only (analysis.patterns)
+
+
+@dataclass(frozen=True)
+class Pressure:
+    """An area load as given: pressures (px, py, pz) in Pa at the load's start and end (varying
+    linearly between) on a tributary `width` (m). The line load it makes is pressure x width (N/m)."""
+
+    p_start: tuple[float, float, float]
+    p_end: tuple[float, float, float]
+    width: float
 
 
 @dataclass(frozen=True)
 class LineLoad:
     """Distributed load from `start` to `end` (m), varying linearly from `q_start` to `q_end`.
-    Each q is (wx, wy, wz, mx): forces per length (N/m) along x, y, z and torque per length (N*m/m)."""
+    Each q is (wx, wy, wz, mx): forces per length (N/m) along x, y, z and torque per length (N*m/m).
+    `area`: the pressure and width it was made from, for display (None: given as a line load)."""
 
     case: str
     start: float
@@ -91,9 +103,23 @@ class LineLoad:
     q_start: tuple[float, float, float, float]
     q_end: tuple[float, float, float, float]
     height: str | float | None = None  # where the transverse load acts on the section (see Restraint); None: default
+    pattern: bool = False  # pattern loading: each span it covers is loaded in some arrangements only (analysis.patterns)
+    area: Pressure | None = None
 
 
 Load = PointLoad | LineLoad
+
+
+@dataclass(frozen=True)
+class Patterning:
+    """How pattern loading expanded a member (analysis.patterns): the loads and combinations as given,
+    the spans (start, end in m, numbered from 1 at end A) the patterned loads were split over, and for
+    every combination of the expanded member the given combination it comes from."""
+
+    loads: tuple[Load, ...]
+    combinations: dict[str, dict[str, float]]
+    spans: tuple[tuple[float, float], ...]
+    origins: dict[str, str]
 
 
 @dataclass(frozen=True)
@@ -117,12 +143,28 @@ class Restraint:
 
 
 @dataclass(frozen=True)
+class DeflectionLimit:
+    """One deflection limit: a span may deflect span / `limit`, an overhang overhang / `overhang_limit`
+    (None: that kind is not checked by this limit), in the given `combinations` (names as given in
+    the member file, each with all its pattern arrangements; None: every combination), measured from
+    the chord between the span's supports (`relative_to_supports`) or from the original position."""
+
+    limit: float | None
+    overhang_limit: float | None
+    combinations: tuple[str, ...] | None = None
+    relative_to_supports: bool = True
+
+
+@dataclass(frozen=True)
 class CheckSettings:
-    """The `[checks]` table. Lengths in m; None means the documented default."""
+    """The `[checks]` table. Lengths in m; None means the documented default. The single deflection
+    keys and the `[[checks.deflection]]` entries (`deflection`) are two ways of giving limits; the
+    checks use both (checks.deflection.limit_entries)."""
 
     deflection_limit: float | None = None  # span / limit
     deflection_limit_overhang: float | None = None  # default: deflection_limit / 2
     deflection_combinations: tuple[str, ...] | None = None  # default: every combination
+    deflection: tuple[DeflectionLimit, ...] = ()  # [[checks.deflection]] entries
     buckling_length_major: float | None = None  # default: member length
     buckling_length_minor: float | None = None  # default: member length
     buckling_safety_factor: float = 2.0
@@ -149,6 +191,21 @@ class Member:
     title: str = ""
     source: str = ""  # path of the member file
     combinations_given: bool = False  # False: the default "all" combination was made
+    patterning: Patterning | None = None  # set when patterned loads were expanded into arrangements
+
+    @property
+    def given_loads(self) -> tuple[Load, ...]:
+        """The loads as the member file gave them (patterned loads whole, not split by span)."""
+        return self.patterning.loads if self.patterning else self.loads
+
+    @property
+    def given_combinations(self) -> dict[str, dict[str, float]]:
+        """The combinations as the member file gave them (before pattern arrangements)."""
+        return self.patterning.combinations if self.patterning else self.combinations
+
+    def origin(self, combination: str) -> str:
+        """The given combination that `combination` (a name of self.combinations) comes from."""
+        return self.patterning.origins.get(combination, combination) if self.patterning else combination
 
     @property
     def has_springs(self) -> bool:

@@ -33,6 +33,10 @@ Load combinations are superpositions of the solved cases (`member_solution`); se
 unit (1 N/m) case scaled by mass per length * GRAVITY and the combination's factor on the
 self-weight case. Check stations, zero-shear points and extremes are in `stations`.
 
+Pattern loading (`patterns`): patterned loads split by span into load cases of their own (one solve
+per span), and each combination that uses them made into one combination per arrangement of loaded
+spans. Envelopes (`envelope`): the largest and smallest of each action over every combination.
+
 Units: SI throughout (m, N, N*m, rad).
 """
 
@@ -41,6 +45,18 @@ from sizer.analysis.cuts import SIDES
 from sizer.analysis.layout import POSITION_TOLERANCE, distinct
 from sizer.analysis.loads import self_weight_load
 from sizer.analysis.member_solution import MemberSolution, solve_member
+from sizer.analysis.envelope import (
+    ActionEnvelope,
+    Bound,
+    LargestDeflection,
+    ReactionEnvelope,
+    action_envelope,
+    displacement_bounds,
+    envelope_curves,
+    largest_deflection,
+    reaction_envelope,
+)
+from sizer.analysis.patterns import Span, arrangements_of, expand_patterns, spans
 from sizer.analysis.solve import solve_case
 from sizer.analysis.stations import (
     EXTREME_ACTIONS,
@@ -54,12 +70,25 @@ from sizer.analysis.stations import (
 )
 
 __all__ = [
+    "ActionEnvelope",
+    "Bound",
+    "LargestDeflection",
+    "ReactionEnvelope",
+    "action_envelope",
+    "displacement_bounds",
+    "envelope_curves",
+    "largest_deflection",
+    "reaction_envelope",
     "EXTREME_ACTIONS",
     "POSITION_TOLERANCE",
     "SIDES",
     "CaseSolution",
     "Extreme",
     "MemberSolution",
+    "Span",
+    "arrangements_of",
+    "expand_patterns",
+    "spans",
     "distinct",
     "extremes",
     "load_sign_change_points",

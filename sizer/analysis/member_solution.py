@@ -15,6 +15,7 @@ from sizer.analysis.cuts import as_stations, right_side, section_actions
 from sizer.analysis.displacements import combine_fields, field_displacements
 from sizer.analysis.layout import position_tolerance
 from sizer.analysis.loads import self_weight_load
+from sizer.analysis.patterns import expand_patterns
 from sizer.analysis.solve import solve_columns
 from sizer.errors import InputError
 from sizer.model import Load, Member, Stiffness
@@ -41,6 +42,8 @@ class MemberSolution:
         self.mass_per_length = mass_per_length
         self.combination_names: tuple[str, ...] = tuple(member.combinations)
         self._self_weight_error = self_weight_error
+        self._factor_table: tuple[np.ndarray, np.ndarray] | None = None  # made on first use (see _factors)
+        self._rows: dict[str, int] = {name: row for row, name in enumerate(self.combination_names)}
 
     @property
     def has_displacements(self) -> bool:
@@ -61,21 +64,28 @@ class MemberSolution:
             raise self._self_weight_error
         cases = {name: case.on_rigidities(stiffness) for name, case in self.cases.items()}
         self_weight = self.self_weight.on_rigidities(stiffness) if self.self_weight is not None else None
-        return MemberSolution(self.member, cases, self_weight, mass_per_length, stiffness, self._self_weight_error)
+        moved = MemberSolution(self.member, cases, self_weight, mass_per_length, stiffness, self._self_weight_error)
+        moved._factor_table = self._factors()  # the same combinations and cases
+        return moved
+
+    def _factors(self) -> tuple[np.ndarray, np.ndarray]:
+        """(n_combinations, n_cases) each combination's factor on each case, and (n_combinations,) its
+        factor on the self-weight case (0 without one); made once (many pattern arrangements)."""
+        if self._factor_table is None:
+            names, sw_case = list(self.cases), self.member.self_weight_case
+            cases = np.array([[factors.get(name, 0.0) for name in names] for factors in map(self.member.combinations.get, self.combination_names)],
+                             dtype=float).reshape(len(self.combination_names), len(names))
+            weight = np.array([self.member.combinations[name].get(sw_case, 0.0) if sw_case is not None else 0.0 for name in self.combination_names])
+            self._factor_table = (cases, weight)
+        return self._factor_table
 
     def weights(self, mass_per_length: float | None = ...) -> np.ndarray:  # type: ignore[assignment]
         """(n_combinations, n_cases + 1) factors on [each case in self.cases order..., unit self
         weight]; the last column is factor(self_weight_case) * mass_per_length * GRAVITY (N/m per
         unit case), 0 when mass is None. Default mass: self.mass_per_length."""
         mass = self.mass_per_length if mass_per_length is ... else mass_per_length
-        names = list(self.cases)
-        table = np.zeros((len(self.combination_names), len(names) + 1))
-        sw_case = self.member.self_weight_case
-        for row, combination in enumerate(self.combination_names):
-            factors = self.member.combinations[combination]
-            table[row, : len(names)] = [factors.get(name, 0.0) for name in names]
-            if sw_case is not None and mass is not None:
-                table[row, -1] = factors.get(sw_case, 0.0) * mass * GRAVITY
+        cases, weight = self._factors()
+        table = np.column_stack([cases, weight * mass * GRAVITY if mass is not None else np.zeros_like(weight)])
         if self._self_weight_error is not None and np.any(table[:, -1]):
             raise self._self_weight_error
         return table
@@ -87,9 +97,9 @@ class MemberSolution:
         """(len(combinations), n_cases + 1) rows of weights() for the named combinations, for
         weighted_actions and weighted_displacements; KeyError for an unknown name."""
         for combination in combinations:
-            if combination not in self.member.combinations:
+            if combination not in self._rows:
                 raise KeyError(f"no combination {combination!r}; there are {', '.join(self.combination_names)}")
-        return self.weights()[[self.combination_names.index(name) for name in combinations]]
+        return self.weights()[[self._rows[name] for name in combinations]]
 
     def _stations(self, x: ArrayLike, side: str | ArrayLike) -> tuple[np.ndarray, np.ndarray]:
         tol = position_tolerance(self.member)
@@ -154,7 +164,9 @@ class MemberSolution:
 def solve_member(member: Member, stiffness: Stiffness | None, mass_per_length: float | None) -> MemberSolution:
     """Solve every case in member.cases (loads grouped by case; cases named only in combinations
     too, as zero) and the unit self-weight case. A mechanism under the self weight alone is raised
-    only when the self weight is counted (mass_per_length given, or later in weights())."""
+    only when the self weight is counted (mass_per_length given, or later in weights()). Patterned
+    loads are expanded first (analysis.patterns): the solution's member is the expanded one."""
+    member = expand_patterns(member)
     names = _case_names(member)
     load_sets: list[list[Load]] = [[load for load in member.loads if load.case == name] for name in names]
     sw_case = member.self_weight_case

@@ -1,7 +1,13 @@
-"""Deflection: spans between transverse supports and overhangs beyond the outer ones, the largest
-deflection of each relative to its supports (m), against span / limit. Every limit given is
-checked: `deflection_limit` on spans (and, halved, on overhangs unless they have their own),
-`deflection_limit_overhang` on overhangs, also when it is the only one.
+"""Deflection: spans between transverse supports and overhangs beyond the outer ones (see
+analysis.patterns.spans), the largest deflection of each (m) against span / limit.
+
+Every limit given is checked: each `[[checks.deflection]]` entry, and the single keys as one more
+entry (`deflection_limit` on spans and, halved, on overhangs unless `deflection_limit_overhang`
+gives their own; `deflection_limit_overhang` alone checks the overhangs only). An entry applies to
+the combinations it names (each with all its pattern arrangements) or to every combination; its
+deflection is measured from the chord between the span's supports (for an overhang, from its
+support's displacement) or, with relative_to_supports = false, from the original position. The
+check reports the worst span of the worst entry and names that entry.
 
 Small-deflection theory: `large_deflection` finds a span whose deflection exceeds
 SMALL_DEFLECTION_FRACTION of its length, where the results no longer hold (outputs say so).
@@ -9,44 +15,20 @@ SMALL_DEFLECTION_FRACTION of its length, where the results no longer hold (outpu
 
 from __future__ import annotations
 
-from dataclasses import dataclass
 from typing import Iterable
 
 import numpy as np
 
 from sizer.analysis import MemberSolution
+from sizer.analysis.patterns import Span, arrangements_of, spans
 from sizer.checks.results import CheckResult
 from sizer.design import Design
-from sizer.model import CheckSettings, Member
+from sizer.model import CheckSettings, DeflectionLimit, Member
 
 SMALL_DEFLECTION_FRACTION = 1 / 50  # deflection / span beyond which small-deflection theory is not trusted
 
-
-@dataclass(frozen=True)
-class Span:
-    """A span between two transverse supports, or an overhang beyond the outer one (m)."""
-
-    start: float
-    end: float
-    overhang: bool
-    base: float | None = None  # for an overhang: the support it hangs from
-
-    @property
-    def length(self) -> float:
-        return self.end - self.start
-
-
-def spans(member: Member) -> list[Span]:
-    """Spans between supports that hold (or spring) uy or uz, and overhangs beyond the outer ones."""
-    held = sorted({s.at for s in member.supports if {"uy", "uz"} & (set(s.restrain) | set(s.springs))})
-    if not held:
-        return []
-    found = [Span(a, b, False) for a, b in zip(held, held[1:]) if b > a]
-    if held[0] > 0:
-        found.insert(0, Span(0.0, held[0], True, held[0]))
-    if held[-1] < member.length:
-        found.append(Span(held[-1], member.length, True, held[-1]))
-    return found
+__all__ = ["SMALL_DEFLECTION_FRACTION", "Span", "deflection_check", "deflection_limits", "deflection_notes", "large_deflection",
+           "limit_entries", "limited_spans", "relative_to_supports", "solution_span_deflections", "span_deflections", "span_points", "spans"]
 
 
 def relative_to_supports(moved: np.ndarray, span: Span) -> np.ndarray:
@@ -60,6 +42,12 @@ def relative_to_supports(moved: np.ndarray, span: Span) -> np.ndarray:
     return body - ((1 - t) * body[:, :1] + t * body[:, -1:])
 
 
+def measured(moved: np.ndarray, span: Span, relative: bool) -> np.ndarray:
+    """(c, n, 2) the deflections an entry limits: relative_to_supports, or the displacements at the
+    n points themselves (from the original position)."""
+    return relative_to_supports(moved, span) if relative else moved[:, :-1]
+
+
 def span_points(span: Span, n: int = 201) -> np.ndarray:
     """n points evenly over the span, then its reference point: the overhang's base support, or the
     span's start (see relative_to_supports)."""
@@ -67,63 +55,104 @@ def span_points(span: Span, n: int = 201) -> np.ndarray:
 
 
 def deflection_limits(settings: CheckSettings) -> tuple[float | None, float | None]:
-    """(span limit, overhang limit): the deflection allowed is length / limit; None where no limit
-    applies. Overhangs default to half the span limit."""
+    """(span limit, overhang limit) of the single keys (deflection_limit, deflection_limit_overhang):
+    length / limit is allowed; None where they set no limit. Overhangs default to half the span
+    limit. The [[checks.deflection]] entries are in limit_entries."""
     span = settings.deflection_limit
     overhang = settings.deflection_limit_overhang or (span / 2 if span is not None else None)
     return span, overhang
 
 
-def limited_spans(member: Member) -> list[tuple[Span, float]]:
-    """Each span and overhang that has a deflection limit, with that limit (length / limit)."""
-    span_limit, overhang_limit = deflection_limits(member.checks)
+def limit_entries(settings: CheckSettings) -> tuple[DeflectionLimit, ...]:
+    """Every deflection limit of the member: the [[checks.deflection]] entries, then the single keys
+    as one entry."""
+    span, overhang = deflection_limits(settings)
+    single = (DeflectionLimit(span, overhang, settings.deflection_combinations, True),) if overhang is not None else ()
+    return tuple(settings.deflection) + single
+
+
+def limited_spans(member: Member, entry: DeflectionLimit) -> list[tuple[Span, float]]:
+    """Each span and overhang that `entry` limits, with its limit (length / limit allowed)."""
     found = []
     for span in spans(member):
-        limit = overhang_limit if span.overhang else span_limit
+        limit = entry.overhang_limit if span.overhang else entry.limit
         if limit is not None:
             found.append((span, limit))
     return found
 
 
-def span_deflections(design: Design, span_list: list[Span], combinations: Iterable[str], n: int = 201) -> list[tuple[float, float, str]]:
+def entry_text(entry: DeflectionLimit) -> str:
+    """An entry in words: "span/360, overhang/180, relative to the supports, in every combination"."""
+    parts = [f"span/{entry.limit:g}" if entry.limit is not None else "spans not limited",
+             f"overhang/{entry.overhang_limit:g}" if entry.overhang_limit is not None else "overhangs not limited",
+             "relative to the supports" if entry.relative_to_supports else "from the original position"]
+    chosen = ", ".join(f"'{name}'" for name in entry.combinations) if entry.combinations else "every combination"
+    return ", ".join(parts) + f", in {chosen}"
+
+
+def deflection_notes(member: Member) -> list[str]:
+    """The deflection limits in words, one note for all of them (none when no limit is given)."""
+    entries = limit_entries(member.checks)
+    if not entries:
+        return []
+    if len(entries) == 1:
+        return [f"Deflection limit: {entry_text(entries[0])}; each combination's pattern arrangements included."]
+    listed = "; ".join(f"({k}) {entry_text(entry)}" for k, entry in enumerate(entries, start=1))
+    return [f"Deflection limits, each checked: {listed}; each combination's pattern arrangements included."]
+
+
+def span_deflections(design: Design, span_list: list[Span], combinations: Iterable[str], n: int = 201,
+                     relative: bool = True) -> list[tuple[float, float, str]]:
     """For each span: the largest transverse deflection (m) relative to its supports (chord between
-    them; for an overhang, relative to its support's displacement), with x and combination. One
-    displacement evaluation for all spans."""
-    return solution_span_deflections(design.solution, span_list, combinations, n)
+    them; for an overhang, relative to its support's displacement; `relative` False: from the
+    original position), with x and combination. One displacement evaluation for all spans."""
+    return solution_span_deflections(design.solution, span_list, combinations, n, relative)
 
 
 def solution_span_deflections(solution: MemberSolution, span_list: list[Span], combinations: Iterable[str],
-                              n: int = 201) -> list[tuple[float, float, str]]:
+                              n: int = 201, relative: bool = True) -> list[tuple[float, float, str]]:
     """span_deflections of a solved member (with displacements)."""
     names = list(combinations)
     points = [span_points(span, n) for span in span_list]
     moved = solution.weighted_displacements(solution.combination_weights(names), np.concatenate(points))[..., 1:3]  # (c, spans x (n + 1), 2): uy, uz
     found = []
     for span, xs, part in zip(span_list, points, np.split(moved, len(span_list), axis=1)):
-        relative = relative_to_supports(part, span)
-        size = np.hypot(relative[..., 0], relative[..., 1])
+        deflection = measured(part, span, relative)
+        size = np.hypot(deflection[..., 0], deflection[..., 1])
         c, k = np.unravel_index(int(np.argmax(size)), size.shape)
         found.append((float(size[c, k]), float(xs[k]), names[c]))
     return found
 
 
+def entry_results(design: Design, entry: DeflectionLimit, label: str) -> list[CheckResult]:
+    """One result per span that `entry` limits (its combinations and their arrangements)."""
+    pairs = limited_spans(design.member, entry)
+    combinations = arrangements_of(design.solution.member, entry.combinations)
+    if not pairs or not combinations:
+        return []
+    found = span_deflections(design, [span for span, _ in pairs], combinations, relative=entry.relative_to_supports)
+    results = []
+    for (span, limit), (value, at, name) in zip(pairs, found):
+        allowable = span.length / limit
+        where = "" if entry.relative_to_supports else ", from the original position"
+        detail = f"{'overhang' if span.overhang else 'span'} {span.start:g}–{span.end:g} m, limit L/{limit:g}{where}{label}"
+        results.append(CheckResult("deflection", value / allowable, value, allowable, at, name, quantity="deflection", detail=detail,
+                                   extra={"limit": limit}))
+    return results
+
+
 def deflection_check(design: Design) -> CheckResult:
     """Peak deflection of each span with a limit against span / limit (overhangs: overhang /
-    overhang limit)."""
-    settings = design.member.checks
-    if settings.deflection_limit is None and settings.deflection_limit_overhang is None:
-        return CheckResult("deflection", None, quantity="deflection", detail="no deflection_limit in [checks]")
-    combinations = settings.deflection_combinations or design.solution.combination_names
-    pairs = limited_spans(design.member)
-    if not pairs:
-        return CheckResult("deflection", None, quantity="deflection", detail="no overhang for deflection_limit_overhang, "
-                           "and no deflection_limit for the spans")
-    span_list = [span for span, _ in pairs]
+    overhang limit), for every limit given; the worst, naming its limit."""
+    entries = limit_entries(design.member.checks)
+    if not entries:
+        return CheckResult("deflection", None, quantity="deflection", detail="no deflection limit in [checks]")
     results = []
-    for (span, limit), (value, at, name) in zip(pairs, span_deflections(design, span_list, combinations)):
-        allowable = span.length / limit
-        label = f"{'overhang' if span.overhang else 'span'} {span.start:g}–{span.end:g} m, limit L/{limit:g}"
-        results.append(CheckResult("deflection", value / allowable, value, allowable, at, name, quantity="deflection", detail=label))
+    for index, entry in enumerate(entries, start=1):
+        label = f" (limit {index} of {len(entries)}: {entry_text(entry)})" if len(entries) > 1 else ""
+        results += entry_results(design, entry, label)
+    if not results:
+        return CheckResult("deflection", None, quantity="deflection", detail="the limits given are for overhangs only, and the member has none")
     return max(results, key=lambda r: r.utilization)
 
 

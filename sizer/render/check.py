@@ -20,6 +20,7 @@ from sizer.render.text import Column, Heading, Ledger, Paragraph
 
 QUANTITY_KINDS = {"stress": "stress", "deflection": "deflection", "force": "force"}
 GAUGE_WIDTH = 6  # cells from 0 to a utilization of 1.0
+REACTIONS_LISTED = 12  # combinations whose reactions are listed one by one; beyond, their largest and smallest
 PASSES, FAILS = "passes", "fails"  # the one pair of status words of every output
 
 
@@ -126,10 +127,15 @@ def checks_ledger(report: CheckReport, design: Design, system: str) -> Ledger:
 
 def reactions_ledger(design: Design, system: str) -> Ledger:
     """The reactions of every combination: a group line per combination, a row per support; the
-    unit of each column in its header."""
+    unit of each column in its header. Beyond REACTIONS_LISTED combinations (pattern arrangements),
+    each support's reactions at their largest and smallest, with the combination of each."""
     from rich.markup import escape
 
     names = design.solution.combination_names
+    if len(names) > REACTIONS_LISTED:
+        from sizer.render.forces import reaction_envelope_table
+
+        return reaction_envelope_table(design.solution, list(names), system)
     values = {name: reactions_without_round_off(design.solution.reactions(name), design.member.length) for name in names}
     return reactions_ledger_values("Reactions per combination (support on member)", design.member, values, system,
                                    grouped=len(names) > 1, escape=escape)

@@ -70,20 +70,43 @@ def notes_panel(notes: list[str], title: str = "Assumptions made", system: str =
 
 def member_notes(member: Member) -> list[str]:
     """Assumptions that follow from the member file alone."""
+    from sizer.analysis.patterns import pattern_notes
     from sizer.analysis.support_stability import free_movement_notes
+    from sizer.checks.deflection import deflection_notes
 
     notes: list[str] = []
     if not member.combinations_given:
         notes.append("No [combinations] given: one combination 'all' with every load case x 1.0.")
-    used = {case for factors in member.combinations.values() for case in factors}
-    for case in member.cases:
+    used = {case for factors in member.given_combinations.values() for case in factors}
+    for case in dict.fromkeys(load.case for load in member.given_loads):
         if case not in used:
             notes.append(f"Load case '{case}' is in no combination, so it is not in any result.")
+    notes += pattern_notes(member) + area_load_notes(member)
+    if member.checks.deflection:  # [[checks.deflection]] entries; the single keys are stated with the checks
+        notes += deflection_notes(member)
     if member.hinges:
         notes.append("Internal hinges release both bending moments (My and Mz); axial force, shears and torque pass through.")
     notes += free_movement_notes(member)
     notes.append("Loads act through the shear centre; torsion comes only from loads given as torques.")
     return notes
+
+
+def area_load_notes(member: Member) -> list[str]:
+    """Each area load as the line load it makes: pressure x tributary width (SI numbers)."""
+    from sizer.model import LineLoad
+
+    found = [load for load in member.given_loads if isinstance(load, LineLoad) and load.area is not None]
+    if not found:
+        return []
+    parts = []
+    for load in found:
+        area = load.area
+        for name, p0, p1, q0, q1 in zip(("p" + c for c in "xyz"), area.p_start, area.p_end, load.q_start, load.q_end):
+            if p0 or p1:
+                pressure = f"{p0 / 1e3:.6g} kPa" if p0 == p1 else f"{p0 / 1e3:.6g}–{p1 / 1e3:.6g} kPa"
+                line = f"{q0 / 1e3:.6g} kN/m" if q0 == q1 else f"{q0 / 1e3:.6g}–{q1 / 1e3:.6g} kN/m"
+                parts.append(f"{name} {pressure} x {area.width:.6g} m = {line} (case '{load.case}', {load.start:.6g}–{load.end:.6g} m)")
+    return ["Area loads as line loads, pressure x tributary width: " + "; ".join(parts) + "."]
 
 
 def small_deflection_cautions(solution: Any) -> list[str]:

@@ -1,4 +1,6 @@
-"""`sizer forces` output: reactions, actions at cuts, extremes and deflections (terminal and JSON)."""
+"""`sizer forces` output: reactions, actions and displacements at cuts, extremes and deflections
+(terminal and JSON), and with --envelope the largest and smallest of each over every combination
+(pattern arrangements included)."""
 
 from __future__ import annotations
 
@@ -8,15 +10,27 @@ from typing import Any
 import numpy as np
 
 from sizer import units
-from sizer.analysis import MemberSolution, extremes
+from sizer.analysis import (
+    MemberSolution,
+    action_envelope,
+    displacement_bounds,
+    envelope_curves,
+    extremes,
+    largest_deflection,
+    reaction_envelope,
+)
 from sizer.model import ACTIONS, LineLoad, Member, PointLoad
-from sizer.render.common import CAUTIONS, cautions_panel, notes_panel, reactions_without_round_off
+from sizer.render.common import CAUTIONS, cautions_panel, notes_panel, reactions_without_round_off, without_round_off
 from sizer.render.text import Column, Heading, Ledger, Paragraph
 
 ACTION_KINDS = {"N": "force", "Vy": "force", "Vz": "force", "T": "moment", "My": "moment", "Mz": "moment", "V": "force", "M": "moment"}
 REACTION_NAMES = ("Fx", "Fy", "Fz", "Mx", "My", "Mz")
 REACTION_KINDS = ("force", "force", "force", "moment", "moment", "moment")
+DISPLACEMENT_NAMES = ("ux", "uy", "uz", "rx")  # reported at cuts: the translations and the twist
+DISPLACEMENT_KINDS = ("deflection", "deflection", "deflection", "rotation")
 TINY_FORCE = 1e-9  # N; smaller values are shown as zero (round-off)
+MANY_COMBINATIONS = 12  # beyond this many combinations the terminal points to --envelope
+EXTREME_COLUMNS = {name: k for k, name in enumerate(ACTIONS + ("V", "M"))}  # columns of analysis.envelope_curves
 
 
 def is_planar(member: Member) -> bool:
@@ -105,7 +119,35 @@ def forces_document(solution: MemberSolution, combination: str, xs: np.ndarray) 
             entry["left"] = _action_dict(cut.left)
             entry["right"] = _action_dict(cut.right)
         document["cuts"].append(entry)
+    if solution.has_displacements and len(xs):
+        for entry, moved in zip(document["cuts"], cut_displacements(solution, combination, xs)):
+            entry["displacements"] = {**dict(zip(DISPLACEMENT_NAMES, moved)),
+                                      "directions": {name: displacement_words(solution.member, name, value)
+                                                     for name, value in zip(DISPLACEMENT_NAMES, moved) if value != 0}}
     return document
+
+
+def cut_displacements(solution: MemberSolution, combination: str, xs: np.ndarray) -> list[list[float]]:
+    """ux, uy, uz (m) and the twist rx (rad) of a combination at each cut (on the member at end B),
+    round-off set to zero; needs a section."""
+    length = solution.member.length
+    sides = np.where(xs >= length * (1 - 1e-12), "left", "right")
+    moved = solution.displacements(combination, xs, sides)
+    translation, rotation = np.abs(moved[:, :3]).max(initial=0.0), np.abs(moved[:, 3:]).max(initial=0.0)
+    shifts = without_round_off(moved[:, :3], max(translation, rotation * length))
+    twist = without_round_off(moved[:, 3:4], max(rotation, translation / length))
+    return np.column_stack([shifts, twist]).tolist()
+
+
+def displacement_words(member: Member, freedom: str, value: float) -> str:
+    """Which way a displacement at a cut goes, in words: up or down where gravity is along its axis;
+    ux towards end A or B; the twist rx clockwise or counter-clockwise seen from end B (looking
+    towards A; positive about +x by the right-hand rule); else along +y, -z and so on."""
+    if freedom == "rx":
+        return ("counter-clockwise" if value > 0 else "clockwise") + " seen from end B"
+    if freedom == "ux" and member.gravity[0] != 0:
+        return "towards end B (along +x)" if value > 0 else "towards end A (along -x)"
+    return direction_words(member, freedom, value)
 
 
 def extremes_json(solution: MemberSolution, combination: str, planar: bool) -> list[dict[str, Any]]:
@@ -115,17 +157,45 @@ def extremes_json(solution: MemberSolution, combination: str, planar: bool) -> l
              "min": found[name].min_value, "min_at": found[name].min_at} for name in _shown_actions(planar)]
 
 
-def forces_json(solution: MemberSolution, combinations: list[str], xs: np.ndarray, notes: list[str]) -> dict[str, Any]:
+def forces_json(solution: MemberSolution, combinations: list[str], xs: np.ndarray, notes: list[str], envelope: bool = False) -> dict[str, Any]:
     """The whole --json document (SPEC section 6): {"combinations": [one object per combination,
-    always a list], "units", "assumptions", "cautions"}."""
+    always a list], ["envelope": over those combinations,] "units", "assumptions", "cautions"}."""
     planar = is_planar(solution.member)
     documents = []
     for name in combinations:
         document = forces_document(solution, name, xs)
         document["extremes"] = extremes_json(solution, name, planar)
         documents.append(document)
-    return {"combinations": documents, "units": "SI base units (m, N, N*m, Pa, kg/m)", "assumptions": notes,
-            "cautions": list(CAUTIONS)}
+    out: dict[str, Any] = {"combinations": documents}
+    if envelope:
+        out["envelope"] = envelope_json(solution, combinations, planar)
+    return {**out, "units": "SI base units (m, N, N*m, Pa, kg/m)", "assumptions": notes, "cautions": list(CAUTIONS)}
+
+
+def envelope_json(solution: MemberSolution, combinations: list[str], planar: bool) -> dict[str, Any]:
+    """The envelope over `combinations`: for each action the largest and smallest along the member
+    with where and which combination; each support's reactions likewise; the largest deflection."""
+    found = action_envelope(solution, combinations)
+    actions = {name: {"max": found[name].largest.value, "max_at": found[name].largest.at, "max_combination": found[name].largest.combination,
+                      "min": found[name].smallest.value, "min_at": found[name].smallest.at, "min_combination": found[name].smallest.combination}
+               for name in (ACTIONS + ("V", "M") if planar else ACTIONS)}
+    member = solution.member
+    reactions = []
+    for entry in reaction_envelope(solution, combinations):
+        support = member.supports[entry.support]
+        item: dict[str, Any] = {"at": support.at, "type": support.label}
+        for k, name in enumerate(REACTION_NAMES):
+            (high, high_name), (low, low_name) = entry.largest[k], entry.smallest[k]
+            item[name] = {"max": _clean(high), "max_combination": high_name, "min": _clean(low), "min_combination": low_name}
+        reactions.append(item)
+    deflection = largest_deflection(solution, combinations)
+    return {"combinations": len(combinations), "actions": actions, "reactions": reactions,
+            "deflection": None if deflection is None else {"max": deflection.value, "at": deflection.at, "combination": deflection.combination,
+                                                           "uy": deflection.uy, "uz": deflection.uz}}
+
+
+def _clean(value: float) -> float:
+    return 0.0 if abs(value) < TINY_FORCE else value
 
 
 # ----------------------------------------------------------------------------------------------
@@ -234,37 +304,161 @@ def deflection_line(solution: MemberSolution, combination: str, system: str) -> 
 def governing_moment(solution: MemberSolution) -> tuple[str, float, float]:
     """(combination, |M| largest, x) over all combinations: the headline figure."""
     best = ("", -1.0, 0.0)
-    for name in solution.combination_names:
-        found = extremes(solution, name)
-        for action in ("Mz", "My"):
-            extreme = found[action]
-            for value, at in ((extreme.max_value, extreme.max_at), (extreme.min_value, extreme.min_at)):
-                if abs(value) > best[1]:
-                    best = (name, abs(value), at)
+    found = action_envelope(solution, solution.combination_names)
+    for action in ("Mz", "My"):
+        for bound in (found[action].largest, found[action].smallest):
+            if abs(bound.value) > best[1]:
+                best = (bound.combination, abs(bound.value), bound.at)
     return best
 
 
+def displacements_table(solution: MemberSolution, combination: str, xs: np.ndarray, system: str) -> Ledger:
+    """ux, uy, uz and the twist rx at each cut, with their directions in words under each row."""
+    from rich.markup import escape
+
+    columns = [Column(_header("x", "length", system), right=True)]
+    columns += [Column(_header(name, kind, system), right=True) for name, kind in zip(DISPLACEMENT_NAMES, DISPLACEMENT_KINDS)]
+    ledger = Ledger("Displacements and twist at cuts", columns)
+    member = solution.member
+    for x, moved in zip(xs, cut_displacements(solution, combination, xs)):
+        words = "; ".join(f"{name} {displacement_words(member, name, value)}" for name, value in zip(DISPLACEMENT_NAMES, moved) if value != 0)
+        ledger.add_row(_number(x, "length", system), *[units.fmt_number(units.to_display(value, kind, system))
+                                                        for value, kind in zip(moved, DISPLACEMENT_KINDS)], note=escape(words or "no movement"))
+    return ledger
+
+
+def envelope_table(solution: MemberSolution, combinations: list[str], planar: bool, system: str) -> Ledger:
+    """The largest and smallest of each action along the member over the combinations, with where
+    and (in the line under each row) which combination gives it."""
+    from rich.markup import escape
+
+    found = action_envelope(solution, combinations)
+    length = units.unit_label("length", system)
+    ledger = Ledger("Internal actions along the member: largest and smallest", [
+        Column("action"), Column("largest", right=True), Column(f"at ({length})", right=True),
+        Column("smallest", right=True), Column(f"at ({length})", right=True)])
+    for name in _shown_actions(planar):
+        high, low = found[name].largest, found[name].smallest
+        kind = ACTION_KINDS[name]
+        ledger.add_row(name, units.fmt(_clean(high.value), kind, system), _number(high.at, "length", system),
+                       units.fmt(_clean(low.value), kind, system), _number(low.at, "length", system),
+                       note=_bounds_note(high.value, high.combination, low.value, low.combination, escape))
+    return ledger
+
+
+def reaction_envelope_table(solution: MemberSolution, combinations: list[str], system: str) -> Ledger:
+    """Each support's reactions at their largest and smallest over the combinations (the
+    components not zero in every combination), the combinations in the line under each row."""
+    from rich.markup import escape
+
+    found = reaction_envelope(solution, combinations)
+    shown = [k for k in range(6) if any(abs(e.largest[k][0]) > TINY_FORCE or abs(e.smallest[k][0]) > TINY_FORCE for e in found)] or [1]
+    ledger = Ledger(f"Reactions: largest and smallest over {plural(len(combinations), 'combination')} (support on member)", [
+        Column("support"), Column(_header("at", "length", system), right=True), Column("reaction"),
+        Column("largest", right=True), Column("smallest", right=True)])
+    for entry in found:
+        support = solution.member.supports[entry.support]
+        for k in shown:
+            (high, high_name), (low, low_name) = entry.largest[k], entry.smallest[k]
+            ledger.add_row(f"S{entry.support + 1} {escape(support.label)}", _number(support.at, "length", system), REACTION_NAMES[k],
+                           units.fmt(_clean(high), REACTION_KINDS[k], system), units.fmt(_clean(low), REACTION_KINDS[k], system),
+                           note=_bounds_note(high, high_name, low, low_name, escape))
+    return ledger
+
+
+def _bounds_note(high: float, high_name: str, low: float, low_name: str, escape: Any) -> str:
+    """The line under an envelope row: which combination gives each bound (none when both are zero)."""
+    if _clean(high) == 0 and _clean(low) == 0:
+        return "zero in every combination"
+    if high_name == low_name:
+        return f"both in {escape(high_name)}"
+    return f"largest in {escape(high_name)}; smallest in {escape(low_name)}"
+
+
+def cut_envelope_table(solution: MemberSolution, combinations: list[str], xs: np.ndarray, planar: bool, system: str) -> Ledger:
+    """The largest and smallest of each action at each cut over the combinations (both sides where
+    a concentrated item makes them jump)."""
+    names = _shown_actions(planar)
+    columns = [Column(_header("x", "length", system), right=True), Column("side"), Column("bound")]
+    columns += [Column(_header(name, ACTION_KINDS[name], system), right=True) for name in names]
+    ledger = Ledger("Internal actions at cuts: largest and smallest over the combinations", columns)
+    length = solution.member.length
+    jumps = concentrated_positions(solution.member)
+    for x in xs:
+        inside = 0 < x < length * (1 - 1e-12)
+        jump = inside and bool(np.any(np.abs(jumps - x) <= max(length, 1.0) * 1e-12))
+        sides = (("x-", "left"), ("x+", "right")) if jump else (("", "left" if x >= length * (1 - 1e-12) else "right"),)
+        for label, side in sides:
+            high, low = envelope_curves(solution, combinations, [x], side)
+            for bound, values in (("largest", high[0]), ("smallest", low[0])):
+                ledger.add_row(_number(x, "length", system), label, bound,
+                               *[_number(values[EXTREME_COLUMNS[n]], ACTION_KINDS[n], system) for n in names])
+    return ledger
+
+
+def cut_displacement_bounds_table(solution: MemberSolution, combinations: list[str], xs: np.ndarray, system: str) -> Ledger:
+    """ux, uy, uz and the twist rx at each cut: the largest and smallest over the combinations."""
+    columns = [Column(_header("x", "length", system), right=True), Column("bound")]
+    columns += [Column(_header(name, kind, system), right=True) for name, kind in zip(DISPLACEMENT_NAMES, DISPLACEMENT_KINDS)]
+    ledger = Ledger("Displacements and twist at cuts: largest and smallest over the combinations", columns)
+    high, low = displacement_bounds(solution, combinations, xs)
+    for k, x in enumerate(xs):
+        for bound, values in (("largest", high[k]), ("smallest", low[k])):
+            ledger.add_row(_number(x, "length", system), bound, *[units.fmt_number(units.to_display(values[j], kind, system))
+                                                                   for j, kind in enumerate(DISPLACEMENT_KINDS)])
+    return ledger
+
+
+def envelope_renderables(solution: MemberSolution, combinations: list[str], xs: np.ndarray | None, planar: bool, system: str) -> list[Any]:
+    """The envelope block of the terminal summary: actions, reactions, the largest deflection and,
+    at any cuts, the actions and displacements at their largest and smallest."""
+    from rich.markup import escape
+
+    out: list[Any] = ["", Heading(f"Envelope of {plural(len(combinations), 'combination')} (pattern arrangements included)", rule="─"),
+                      envelope_table(solution, combinations, planar, system), "", reaction_envelope_table(solution, combinations, system)]
+    if xs is not None and len(xs):
+        out += ["", cut_envelope_table(solution, combinations, xs, planar, system)]
+        if solution.has_displacements:
+            out += ["", cut_displacement_bounds_table(solution, combinations, xs, system)]
+    deflection = largest_deflection(solution, combinations)
+    if deflection is not None:
+        parts = [f"{key} = {units.fmt(value, 'deflection', system)}, {direction_words(solution.member, key, value)}"
+                 for key, value in (("uy", deflection.uy), ("uz", deflection.uz)) if value != 0]
+        out.append(Paragraph(f"Largest deflection: [bold]{units.fmt(deflection.value, 'deflection', system)}[/] at x = "
+                             f"{units.fmt(deflection.at, 'length', system)} in combination [bold]{escape(deflection.combination)}[/]: "
+                             f"{'; '.join(parts) or 'none'}"))
+    return out
+
+
 def forces_renderables(solution: MemberSolution, combinations: list[str], xs: np.ndarray | None,
-                       notes: list[str], system: str, section_line: str) -> list[Any]:
-    """The terminal summary of `sizer forces`, as rich renderables in order."""
+                       notes: list[str], system: str, section_line: str, envelope: bool = False) -> list[Any]:
+    """The terminal summary of `sizer forces`, as rich renderables in order; with `envelope` the
+    envelope over the combinations in place of each combination's block."""
     from rich.markup import escape
 
     member = solution.member
     planar = is_planar(member)
     out: list[Any] = [Heading(f"sizer forces · {escape(member.title or member.source)}"),
                       Paragraph(f"Member length [bold]{units.fmt(member.length, 'length', system)}[/], "
-                                f"{plural(len(member.supports), 'support')}, {plural(len(member.loads), 'load')}, "
+                                f"{plural(len(member.supports), 'support')}, {plural(len(member.given_loads), 'load')}, "
                                 f"section: {escape(section_line)}")]
     if planar:
         out.append(Paragraph("[dim]Planar member (x-y): V = -Vy (positive turns its segment clockwise), M = Mz (positive sagging).[/]"))
     name, moment, at = governing_moment(solution)
     out.append(Paragraph(f"Largest bending moment: [bold]{units.fmt(moment, 'moment', system)}[/] "
                          f"at x = {units.fmt(at, 'length', system)} in combination [bold]{escape(name)}[/]"))
+    if envelope:
+        return out + envelope_renderables(solution, combinations, xs, planar, system) + ["", notes_panel(notes, system=system), cautions_panel()]
+    if len(combinations) > MANY_COMBINATIONS:
+        out.append(Paragraph(f"[dim]{len(combinations)} combinations (pattern arrangements included) follow one by one; "
+                             "--envelope gives the largest and smallest of each action over them all.[/]"))
     for combination in combinations:
         out += ["", Heading(f"Combination {escape(combination)}", rule="─")]
         out.append(reactions_table(solution, combination, system))
         if xs is not None and len(xs):
             out += ["", cuts_table(cuts_for(solution, combination, xs), planar, system, member.length)]
+            if solution.has_displacements:
+                out += ["", displacements_table(solution, combination, xs, system)]
         out += ["", extremes_table(solution, combination, planar, system)]
         line = deflection_line(solution, combination, system)
         if line is not None:
@@ -273,7 +467,7 @@ def forces_renderables(solution: MemberSolution, combinations: list[str], xs: np
 
 
 def print_forces(console: Any, solution: MemberSolution, combinations: list[str], xs: np.ndarray | None,
-                 notes: list[str], system: str, section_line: str) -> None:
-    """The terminal summary of `sizer forces`."""
-    for renderable in forces_renderables(solution, combinations, xs, notes, system, section_line):
+                 notes: list[str], system: str, section_line: str, envelope: bool = False) -> None:
+    """The terminal summary of `sizer forces` (with `envelope`: the envelope over the combinations)."""
+    for renderable in forces_renderables(solution, combinations, xs, notes, system, section_line, envelope):
         console.print(renderable)

@@ -24,7 +24,7 @@ SI_SYMBOLS: dict[str, tuple[str, float]] = {
     "N/m": ("force_per_length", 1.0),
     "kN/m": ("force_per_length", 1e3),
     "Pa": ("stress", 1.0),
-    "kPa": ("stress", 1e3),
+    "kPa": ("pressure", 1e3),
     "MPa": ("stress", 1e6),
     "GPa": ("modulus", 1e9),
     "kg/m": ("mass_per_length", 1.0),

@@ -19,10 +19,12 @@ import numpy as np
 
 from sizer.analysis import MemberSolution, stations
 from sizer.analysis.section_axes import to_section_axes
-from sizer.checks import StationStresses, full_field_stresses, relative_to_supports, span_points, spans
+from sizer.analysis.patterns import arrangements_of
+from sizer.checks import StationStresses, full_field_stresses, span_points
+from sizer.checks.deflection import limit_entries, limited_spans, measured
 from sizer.checks.buckling import critical_stresses
 from sizer.design import oriented_stiffness
-from sizer.model import Material, Member
+from sizer.model import DeflectionLimit, Material, Member
 from sizer.sizing.candidates import Candidate, CandidateTable
 
 SCREEN_BLOCK = 65_536  # station values per block of sections (single precision: fits the CPU caches)
@@ -186,23 +188,17 @@ def _stress_estimates(fa: np.ndarray, fb: np.ndarray, fv: np.ndarray, allow: Any
 
 
 def deflection_screen(table: CandidateTable, member: Member, material: Material, base: MemberSolution, n: int = 201) -> np.ndarray | None:
-    """Deflection utilization of every candidate from the unit-rigidity solution (no springs), at the
-    same points and relative to the same reference (chord between supports, or the overhang's
-    support) as the check. The worst point of each section is found with the squared deflection
-    expanded as one matrix product, then its deflection is computed directly: the value at a point
-    the check uses (a true lower bound of the check, and its exact value save for round-off in
-    choosing the point)."""
-    settings = member.checks
-    span_list = spans(member)
-    if settings.deflection_limit is None or not span_list:
+    """Deflection utilization of every candidate from the unit-rigidity solution (no springs), for
+    every deflection limit given (each with its combinations and their pattern arrangements), at the
+    same points and from the same reference (chord between supports, the overhang's support, or the
+    original position) as the check. The worst point of each section is found with the squared
+    deflection over its allowable expanded as one matrix product, then its deflection is computed
+    directly: the value at a point the check uses (a true lower bound of the check, and its exact
+    value save for round-off in choosing the point)."""
+    rows = [part for entry in limit_entries(member.checks) for part in _limited_deflections(entry, base, n)]
+    if not rows:
         return None
-    combos = [base.combination_names.index(name) for name in (settings.deflection_combinations or base.combination_names)]
-    overhang_limit = settings.deflection_limit_overhang or settings.deflection_limit / 2
-    moved = base.weighted_displacements(load_and_weight_factors(base), np.concatenate([span_points(span, n) for span in span_list]))
-    zero, unit = (np.split(part[combos][..., 1:3], len(span_list), axis=1) for part in np.split(moved, 2))  # uy, uz per span
-    per_allowable = [(overhang_limit if span.overhang else settings.deflection_limit) / span.length for span in span_list]
-    a, b = (np.concatenate([relative_to_supports(part, span).reshape(-1, 2) * scale for part, span, scale in zip(parts, span_list, per_allowable)])
-            for parts in (zero, unit))  # (points, 2): loads alone and per kg/m, over allowable, at unit rigidities
+    a, b = (np.concatenate([row[k] for row in rows]) for k in (0, 1))  # (points, 2): loads alone and per kg/m, over allowable, at unit rigidities
     stiffness = oriented_stiffness(table, material, member.orientation)
     u, v, m = 1.0 / stiffness.EIz**2, 1.0 / stiffness.EIy**2, table.mass
     terms = np.stack([a[:, 0] ** 2, a[:, 0] * b[:, 0], b[:, 0] ** 2, a[:, 1] ** 2, a[:, 1] * b[:, 1], b[:, 1] ** 2])
@@ -210,6 +206,21 @@ def deflection_screen(table: CandidateTable, member: Member, material: Material,
     step = max(1, SCREEN_BLOCK // 2 // len(a))  # double precision: half the values of a stress block
     at = np.concatenate([(weights[start:start + step] @ terms).argmax(axis=1) for start in range(0, len(m), step)])
     return np.hypot((a[at, 0] + m * b[at, 0]) / stiffness.EIz, (a[at, 1] + m * b[at, 1]) / stiffness.EIy)
+
+
+def _limited_deflections(entry: DeflectionLimit, base: MemberSolution, n: int) -> list[tuple[np.ndarray, np.ndarray]]:
+    """For one deflection limit: per limited span, the (points, 2) deflections (uy, uz) of the loads
+    alone and per kg/m of self-weight at unit rigidities, each over the span's allowable length."""
+    pairs = limited_spans(base.member, entry)
+    combos = [base.combination_names.index(name) for name in arrangements_of(base.member, entry.combinations)]
+    if not pairs or not combos:
+        return []
+    factors = load_and_weight_factors(base)
+    rows = combos + [len(base.combination_names) + c for c in combos]  # these combinations' loads, then their self-weight per kg/m
+    moved = base.weighted_displacements(factors[rows], np.concatenate([span_points(span, n) for span, _ in pairs]))
+    zero, unit = (np.split(part[..., 1:3], len(pairs), axis=1) for part in np.split(moved, 2))  # uy, uz per span
+    return [tuple(measured(part, span, entry.relative_to_supports).reshape(-1, 2) * (limit / span.length) for part in (loads, per_mass))
+            for (span, limit), loads, per_mass in zip(pairs, zero, unit)]
 
 
 def prove_lower_bounds(candidate: Candidate, found: Screen, material: Material) -> None:

@@ -25,8 +25,10 @@ Modules, each importing only those above it:
   diagrams           N, V, M (Vz, My, T) and the deflected shape; extremes, guides, governing station
   free_body          the free body of the left segment at a cut, for the calculation record
   figure             the whole figure (title block, stacked panels, x axis) and plot_member
+  envelope           the envelope over many combinations (pattern arrangements included) and plot_envelope
 """
 
+from sizer.render.plots.envelope import build_envelope_figure, plot_envelope
 from sizer.render.plots.figure import build_figure, plot_member
 from sizer.render.plots.free_body import build_free_body_figure
 from sizer.render.plots.style import (
@@ -40,10 +42,12 @@ from sizer.render.plots.style import (
 __all__ = [
     "DPI",
     "FIG_WIDTH",
+    "build_envelope_figure",
     "build_figure",
     "build_free_body_figure",
     "check_plot_path",
     "figure_bytes",
+    "plot_envelope",
     "plot_member",
     "style",
 ]

@@ -132,18 +132,28 @@ def _contents() -> str:
     return f"<nav><ol>{items}</ol></nav>"
 
 
+COMBINATIONS_DRAWN = 20  # combinations drawn one by one in the record; beyond, their envelope only
+
+
 def _diagrams_section(design: Design, report: CheckReport, combination: str, system: str) -> str:
     """The governing combination's member, loads and diagrams, then every combination together
-    (when there are several), each deflected shape with its direction."""
+    (when there are several, up to COMBINATIONS_DRAWN), each deflected shape with its direction, and
+    the envelope of them all where loads are patterned or there are more."""
     from sizer.render.plots.combinations import build_combinations_figure
+    from sizer.render.plots.envelope import build_envelope_figure
 
     figure = build_figure(design, combination, report, system, buckled=False)
     caption = (f"Member, factored loads and diagrams for combination '{combination}' (the governing one). "
                "The dash-dot line marks the governing station; the largest deflection is marked with its direction.")
     every = ""
-    if len(design.solution.combination_names) > 1:
+    names = list(design.solution.combination_names)
+    if 1 < len(names) <= COMBINATIONS_DRAWN:
         every = _figure(build_combinations_figure(design, system), "Every combination: the internal actions and the deflected "
                         "shape of each, one line style per combination.")
+    if len(names) > 1 and (design.member.patterning is not None or len(names) > COMBINATIONS_DRAWN):
+        every += _figure(build_envelope_figure(design, names, system), f"The envelope of all {len(names)} combinations (pattern "
+                         "arrangements included): the largest and smallest value at each station, with the combination that gives "
+                         "each extreme.")
     planar = is_planar(design.member)
     convention = ("Beam convention for this in-plane member: V = -Vy is positive when it turns its segment clockwise, "
                   "M = Mz is positive when it bends the member concave upward (sagging)." if planar else

@@ -28,8 +28,16 @@ ACTION_NAMES = ("N", "Vy", "Vz", "T", "My", "Mz")
 ACTION_KINDS = ("force", "force", "force", "moment", "moment", "moment")
 
 
+REACTIONS_LISTED = 12  # combinations whose reactions are listed one by one; beyond, their largest and smallest
+
+
 def reactions_section(design: Design, document: dict[str, Any], combination: str, system: str) -> str:
     reactions = document["reactions"]
+    if len(reactions) > REACTIONS_LISTED:
+        return ('<section id="reactions"><h2>2. Reactions</h2><p>Forces and moments that each support exerts on the member, '
+                f"along and about +x, +y, +z, at their largest and smallest over the {len(reactions)} combinations (factored; pattern "
+                "arrangements included), with the combination that gives each; every combination's reactions are in the embedded "
+                "data.</p>" + _reaction_bounds(design, system) + _overall_equilibrium(design, combination, system) + "</section>")
     shown = [i for i, name in enumerate(REACTION_NAMES)
              if any(abs(entry[name]) > 1e-9 for entries in reactions.values() for entry in entries)] or [1]
     rows = []
@@ -43,6 +51,23 @@ def reactions_section(design: Design, document: dict[str, Any], combination: str
             "along and about +x, +y, +z, for each combination (factored).</p>"
             + _table(["combination", "support", "at"] + [REACTION_NAMES[i] for i in shown], rows, range(2, 3 + len(shown)))
             + _overall_equilibrium(design, combination, system) + "</section>")
+
+
+def _reaction_bounds(design: Design, system: str) -> str:
+    """Each support's reactions at their largest and smallest over every combination."""
+    from sizer.analysis import reaction_envelope
+
+    found = reaction_envelope(design.solution, design.solution.combination_names)
+    shown = [k for k in range(6) if any(abs(e.largest[k][0]) > 1e-9 or abs(e.smallest[k][0]) > 1e-9 for e in found)] or [1]
+    rows = []
+    for entry in found:
+        support = design.member.supports[entry.support]
+        for k in shown:
+            (high, high_name), (low, low_name) = entry.largest[k], entry.smallest[k]
+            rows.append(_row([f"<td>S{entry.support + 1} ({_e(support.label)})</td>", _cell(_fmt(support.at, "length", system), support.at),
+                              f"<td>{REACTION_NAMES[k]}</td>", _cell(_fmt(high, REACTION_KINDS[k], system), high), f"<td>{_e(high_name)}</td>",
+                              _cell(_fmt(low, REACTION_KINDS[k], system), low), f"<td>{_e(low_name)}</td>"]))
+    return _table(["support", "at", "reaction", "largest", "in combination", "smallest", "in combination"], rows, (1, 3, 5))
 
 
 def _overall_equilibrium(design: Design, combination: str, system: str) -> str:

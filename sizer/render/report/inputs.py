@@ -10,6 +10,7 @@ from pathlib import Path
 
 from sizer import units
 from sizer.checks import buckling_axes, spans
+from sizer.checks.deflection import entry_text, limit_entries
 from sizer.design import Design
 from sizer.model import FREEDOMS, LineLoad, PointLoad
 from sizer.render.report.markup import (
@@ -66,7 +67,15 @@ def _supports_table(design: Design, system: str) -> str:
 
 
 def _load_values(load: PointLoad | LineLoad, system: str) -> str:
-    """The non-zero components of a load as given (unfactored)."""
+    """The non-zero components of a load as given (unfactored); an area load as its pressure x
+    tributary width = the line load it makes; "patterned" when it is."""
+    text = _components(load, system)
+    return text + (" · patterned: every arrangement of loaded spans is checked" if load.pattern else "")
+
+
+def _components(load: PointLoad | LineLoad, system: str) -> str:
+    if isinstance(load, LineLoad) and load.area is not None:
+        return _area_values(load, system)
     if isinstance(load, PointLoad):
         parts = [(n, v, "force") for n, v in zip(("fx", "fy", "fz"), load.force)]
         parts += [(n, v, "moment") for n, v in zip(("mx", "my", "mz"), load.moment)]
@@ -80,14 +89,27 @@ def _load_values(load: PointLoad | LineLoad, system: str) -> str:
     return ", ".join(texts) or "zero"
 
 
+def _area_values(load: LineLoad, system: str) -> str:
+    """"py = -2.5 kPa x 1.2 m = -3 kN/m" for each pressure of an area load (→ where it varies)."""
+    area, texts = load.area, []
+    for i, name in enumerate(("px", "py", "pz")):
+        p0, p1, q0, q1 = area.p_start[i], area.p_end[i], load.q_start[i], load.q_end[i]
+        if p0 or p1:
+            pressure = _fmt(p0, "pressure", system) if p0 == p1 else f"{_fmt(p0, 'pressure', system)} → {_fmt(p1, 'pressure', system)}"
+            line = _fmt(q0, "force_per_length", system) if q0 == q1 else f"{_fmt(q0, 'force_per_length', system)} → {_fmt(q1, 'force_per_length', system)}"
+            texts.append(f"{name} = {pressure} x {_fmt(area.width, 'length', system)} = {line}")
+    return ", ".join(texts) or "zero"
+
+
 def _loads_table(design: Design, system: str) -> str:
     rows = []
-    for index, load in enumerate(design.member.loads, start=1):
+    for index, load in enumerate(design.member.given_loads, start=1):
         if isinstance(load, PointLoad):
             kind = "moment" if not any(load.force) else "point"
             where = _fmt(load.at, "length", system)
         else:
-            kind, where = "line", f"{_fmt(load.start, 'length', system)} to {_fmt(load.end, 'length', system)}"
+            kind = "area" if load.area is not None else "line"
+            where = f"{_fmt(load.start, 'length', system)} to {_fmt(load.end, 'length', system)}"
         rows.append(_row([f"<td>L{index}</td>", f"<td>{_e(load.case)}</td>", f"<td>{kind}</td>", f"<td>{where}</td>",
                           f"<td>{_e(_load_values(load, system))}</td>"]))
     member = design.member
@@ -105,14 +127,27 @@ def _loads_table(design: Design, system: str) -> str:
 
 def _combinations_table(design: Design) -> str:
     member = design.member
-    cases = list(member.cases)
-    for factors in member.combinations.values():
+    given = member.given_combinations
+    cases = list(dict.fromkeys(load.case for load in member.given_loads))
+    if member.self_weight_case and member.self_weight_case not in cases:
+        cases.append(member.self_weight_case)
+    for factors in given.values():
         cases += [c for c in factors if c not in cases]
     rows = []
-    for name, factors in member.combinations.items():
+    counts = {name: sum(1 for arranged in member.combinations if member.origin(arranged) == name) for name in given}
+    for name, factors in given.items():
         cells = [f"<td>{_e(name)}</td>"] + [_cell(f"{factors[c]:g}" if c in factors else "—", factors.get(c)) for c in cases]
+        if member.patterning is not None:
+            cells.append(_cell(str(counts[name]), counts[name]))
         rows.append(_row(cells))
-    return "<h3>1.4 Load cases and combinations (factors)</h3>" + _table(["combination"] + cases, rows, range(1, len(cases) + 1))
+    headers = ["combination"] + cases + (["arrangements checked"] if member.patterning is not None else [])
+    note = ""
+    if member.patterning is not None:
+        spans_text = "; ".join(f"{k}: {a:g}–{b:g} m" for k, (a, b) in enumerate(member.patterning.spans, start=1))
+        note = (f'<p class="note">Patterned loads: each combination that uses them is checked in every arrangement of loaded '
+                f"spans, with the same factors (spans, overhangs included: {_e(spans_text)}). {len(member.combinations)} combinations in all; "
+                "each result names its arrangement.</p>")
+    return "<h3>1.4 Load cases and combinations (factors)</h3>" + _table(headers, rows, range(1, len(headers))) + note
 
 
 def _material_table(design: Design, system: str) -> str:
@@ -167,9 +202,9 @@ def _section_block(design: Design, system: str) -> str:
 
 def _settings_table(design: Design, system: str) -> str:
     settings = design.member.checks
-    deflection = ("not checked (no deflection_limit)" if settings.deflection_limit is None else
-                  f"span / {settings.deflection_limit:g}, overhang / {settings.deflection_limit_overhang or settings.deflection_limit / 2:g}; "
-                  f"combinations: {', '.join(settings.deflection_combinations or design.solution.combination_names)}")
+    entries = limit_entries(settings)
+    deflection = "; ".join(f"({k}) {entry_text(entry)}" if len(entries) > 1 else entry_text(entry)
+                           for k, entry in enumerate(entries, start=1)) or "not checked (no deflection limit given)"
     rows = [_row(["<th>Deflection limits</th>", f"<td>{_e(deflection)}</td>"]),
             _row(["<th>Buckling safety factor</th>",
                   f"<td>{settings.buckling_safety_factor:g} ({'given' if settings.buckling_safety_factor_given else 'default'})</td>"])]
