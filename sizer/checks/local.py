@@ -461,18 +461,23 @@ def local_check(design: Design, actions: np.ndarray, xs: np.ndarray, names: Sequ
     table = table_of_walls([section_walls(design.spec, props.centroid)])
     rows = np.asarray(actions, dtype=float).reshape(1, -1, 6)
     area = np.array([props.area])
-    terms = _wall_terms(table, slice(0, 1), stress_plane(rows, area[:, None], props.Iz, props.Iy, props.Iyz))
-    compressed = _compressed(table, slice(0, 1), terms, area)
-    if not compressed.any():
-        return CheckResult("local", None, detail="no compression in any wall")
     material, file = design.material, design.member.source
-    E, nu, F = material.elastic_modulus, poisson_ratio(material, file), wall_allowable(material, file)
+    E, nu = material.elastic_modulus, poisson_ratio(material, file)
+    given = [value for value in (material.allowable.compression, material.allowable.bending) if value is not None]
+    F = max(given) if given else np.inf  # none given: bad input below, once a wall is found in compression
     safety_factor, yield_strength = design.member.checks.buckling_safety_factor, material.yield_strength
-    numbers = _plate_numbers(table, slice(0, 1), terms, compressed, np.array([E]), np.array([nu]), yield_strength,
+    _, found = local_utilizations(table, rows[0], area, props.Iz, props.Iy, props.Iyz, E, nu, yield_strength, F, safety_factor)
+    row = int(found[0])  # the governing row, found with the uniform-compression bound; its plate numbers follow
+    if row < 0:
+        return CheckResult("local", None, detail="no compression in any wall")
+    F = wall_allowable(material, file)
+    one = slice(0, 1)
+    at_row = _wall_terms(table, one, stress_plane(rows[:, row:row + 1], area[:, None], props.Iz, props.Iy, props.Iyz))
+    numbers = _plate_numbers(table, one, at_row, _compressed(table, one, at_row, area), np.array([E]), np.array([nu]), yield_strength,
                              np.array([F]), safety_factor)
-    _, row, w = np.unravel_index(int(np.argmax(numbers.utilization)), numbers.utilization.shape)
-    c, s = divmod(int(row), len(xs))
-    pick = (0, row, w)
+    w = int(np.argmax(numbers.utilization[0, 0]))
+    c, s = divmod(row, len(xs))
+    pick = (0, 0, w)
     critical, reduced = float(numbers.critical[pick]), float(numbers.allowable[pick])
     wall = table.names[0][w]
     detail = (f"{wall}, k = {numbers.k[pick]:.3g} (psi = {numbers.psi[pick]:.2f}), sigma_cr = {critical / 1e6:.4g} MPa, "

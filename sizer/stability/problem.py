@@ -11,6 +11,8 @@ Two solves per load set (a combination, with its self-weight):
 
 from __future__ import annotations
 
+from functools import cached_property
+
 import numpy as np
 
 from sizer.analysis import MemberSolution
@@ -41,6 +43,7 @@ class MemberStability:
         self.supports = support_rows(member, self.mesh, self.orientation)
         self.cases = list(solution.cases)
         self._terms: dict[tuple[str, int], tuple[dict[str, np.ndarray], dict[str, np.ndarray]]] = {}
+        self._columns: dict[tuple[str, int, bool], dict[str, np.ndarray]] = {}
 
     def actions(self, weights: np.ndarray) -> np.ndarray:
         """(E, G, 6) internal actions in the section's axes at the Gauss points of the load set
@@ -73,19 +76,40 @@ class MemberStability:
         the combination with mass m has G = G_loads + m G_per_mass."""
         key = (kind, combination)
         if key not in self._terms:
-            loads = self.solution.weights(None)[combination]
-            self._terms[key] = (self.load_set_terms(kind, loads), self.load_set_terms(kind, self.solution.weights(1.0)[combination] - loads))
+            loads, per_mass = self.rows
+            self._terms[key] = (self.weighted_terms(kind, loads[combination]), self.weighted_terms(kind, per_mass[combination]))
         return self._terms[key]
+
+    @cached_property
+    def rows(self) -> tuple[np.ndarray, np.ndarray]:
+        """(C, n_cases + 1) weights of every combination's loads alone, and per kg/m of self-weight."""
+        loads = self.solution.weights(None)
+        return loads, self.solution.weights(1.0) - loads
+
+    def weighted_terms(self, kind: str, weights: np.ndarray) -> dict[str, np.ndarray]:
+        """load_set_terms of a load set from those of each load-case column, made once: the terms are
+        linear in the weights, except that a load's default height follows the sign of its factor
+        (so each column is made for +1 and for -1)."""
+        total: dict[str, np.ndarray] = {}
+        for column, weight in enumerate(np.asarray(weights, dtype=float)):
+            if weight == 0.0:
+                continue
+            for name, matrix in self.column_terms(kind, column, weight > 0).items():
+                total[name] = total[name] + abs(weight) * matrix if name in total else abs(weight) * matrix
+        return total
+
+    def column_terms(self, kind: str, column: int, positive: bool) -> dict[str, np.ndarray]:
+        """load_set_terms of one load-case column at weight +1 or -1 (made once)."""
+        key = (kind, column, positive)
+        if key not in self._columns:
+            unit = np.zeros(len(self.cases) + 1)
+            unit[column] = 1.0 if positive else -1.0
+            self._columns[key] = self.load_set_terms(kind, unit)
+        return self._columns[key]
 
     def geometry(self, kind: str, section: StabilitySection, weights: np.ndarray) -> np.ndarray:
         """B = -G of a load set for a section."""
         return -weighted_sum(self.load_set_terms(kind, weights), term_coefficients(kind, section))
-
-    def combination_geometry(self, kind: str, section: StabilitySection, combination: int, mass: float) -> np.ndarray:
-        """B = -G of a combination with self-weight of `mass` kg/m (0 without) for a section."""
-        loads, per_mass = self.combination_terms(kind, combination)
-        coefficients = term_coefficients(kind, section)
-        return -(weighted_sum(loads, coefficients) + mass * weighted_sum(per_mass, coefficients))
 
     def axial_buckling(self, section: StabilitySection, weights: np.ndarray) -> Buckling:
         """The lowest load factor of a load set's axial force (flexural, torsional, flexural-torsional)."""
@@ -128,6 +152,7 @@ class SectionStability:
     def __init__(self, model: MemberStability, section: StabilitySection, stiffness: np.ndarray, basis: np.ndarray) -> None:
         self.model, self.section = model, section
         self.reduced = Reduced(stiffness, basis)
+        self._columns: dict[tuple[str, int, bool], np.ndarray] = {}
 
     def axial(self, weights: np.ndarray) -> Buckling:
         return self.reduced.modes(self.model.geometry("axial", self.section, weights), 1)[0]
@@ -137,7 +162,21 @@ class SectionStability:
 
     def combination(self, kind: str, combination: int, mass: float) -> Buckling:
         """The lowest load factor of a combination (self-weight of `mass` kg/m) for `kind` "axial" or "lateral"."""
-        return self.reduced.modes(self.model.combination_geometry(kind, self.section, combination, mass), 1)[0]
+        loads, per_mass = self.model.rows
+        b = np.zeros(self.reduced.k.shape)
+        for column, weight in enumerate(loads[combination] + mass * per_mass[combination]):
+            if weight != 0.0:
+                b += abs(weight) * self._column(kind, column, weight > 0)
+        return self.reduced.projected_modes(b, 1)[0]
+
+    def _column(self, kind: str, column: int, positive: bool) -> np.ndarray:
+        """B of one load-case column at weight +1 or -1 for this section, projected (made once)."""
+        key = (kind, column, positive)
+        if key not in self._columns:
+            terms = self.model.column_terms(kind, column, positive)
+            full = -weighted_sum(terms, term_coefficients(kind, self.section)) + np.zeros((self.model.mesh.size,) * 2)
+            self._columns[key] = self.reduced.project(full)
+        return self._columns[key]
 
 
 def term_coefficients(kind: str, section: StabilitySection) -> dict[str, object]:

@@ -48,9 +48,16 @@ class Reduced:
         self.free = _free_movements(self.k)
         self._factors: dict[bytes, tuple[np.ndarray, np.ndarray]] = {}
 
+    def project(self, B: np.ndarray) -> np.ndarray:
+        """B on the admissible freedoms, scaled as K is (the solves are linear in it)."""
+        return (self.basis.T @ B @ self.basis) * np.outer(self.scale, self.scale)
+
     def modes(self, B: np.ndarray, count: int) -> list[Buckling]:
         """The `count` lowest positive load factors of K d = lam B d and their shapes."""
-        b = (self.basis.T @ B @ self.basis) * np.outer(self.scale, self.scale)
+        return self.projected_modes(self.project(B), count)
+
+    def projected_modes(self, b: np.ndarray, count: int) -> list[Buckling]:
+        """modes() of a B already projected (Reduced.project)."""
         size = np.abs(b).max(initial=0.0)
         if size == 0.0:
             return [Buckling(math.inf, None)]
