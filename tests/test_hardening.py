@@ -238,10 +238,10 @@ def test_a_changed_unit_factor_is_not_believed(folder: Path, monkeypatch: pytest
     assert json.loads(memory.read_text(encoding="utf-8"))["factors"]["kN|force"] == 1000.0  # rewritten
 
 
-def _iz(folder: Path) -> float:
+def _iz(folder: Path, key: str = "Iz") -> float:
     result = run("sections", "show", "F 30x8", "--catalogue", folder / "section_library", "--json")
     assert result.exit_code == 0, result.stderr
-    return json.loads(result.stdout)["Iz"]
+    return json.loads(result.stdout)[key]
 
 
 def test_a_changed_section_scalar_is_not_believed(folder: Path, monkeypatch: pytest.MonkeyPatch, tmp_path: Path) -> None:
@@ -249,12 +249,13 @@ def test_a_changed_section_scalar_is_not_believed(folder: Path, monkeypatch: pyt
     clear_memory()
     good = _iz(folder)
     assert good == pytest.approx(B * D**3 / 12, rel=1e-6)
+    torsion = _iz(folder, "J")  # an entry holds the warping tier (the geometric tier comes from the outline)
     [entry] = (tmp_path / "cache" / "sections").glob("*.json")
     data = json.loads(entry.read_text(encoding="utf-8"))
-    data["scalars"]["Iz"] *= 10.0
+    data["scalars"]["J"] *= 10.0
     entry.write_text(json.dumps(data), encoding="utf-8")
     clear_memory()
-    assert _iz(folder) == good
+    assert _iz(folder, "J") == torsion and _iz(folder) == good
 
 
 def test_a_changed_section_table_value_is_not_believed(folder: Path, monkeypatch: pytest.MonkeyPatch, tmp_path: Path) -> None:

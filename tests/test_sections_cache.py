@@ -22,7 +22,8 @@ from sizer.sections import build_catalogue, section_properties, unit_stress_fiel
 from sizer.sections import cache
 from sizer.errors import InputError
 from sizer.sections.catalogue import SectionSpec
-from sizer.sections.properties import SCALAR_NAMES, clear_memory
+from sizer.sections.properties import clear_memory
+from sizer.sections.warping import WARPING_NAMES
 
 FLAT = SectionSpec("flat 30x8", "rectangle", {"depth": 0.030, "width": 0.008}, source="test")
 
@@ -126,7 +127,7 @@ def test_damaged_entry_is_recomputed_and_rewritten(cache_dir: Path, damage) -> N
     rebuilt = unit_stress_field(FLAT)
     assert np.array_equal(rebuilt.sigma, good.sigma) and np.array_equal(rebuilt.points, good.points)
     assert section_properties(FLAT).area == area
-    entry = cache.read_entry(key, SCALAR_NAMES)
+    entry = cache.read_entry(key, WARPING_NAMES)  # an entry holds the warping tier (the geometric one comes from the outline)
     assert entry is not None and cache.read_arrays(key, entry) is not None  # the entry on disk is whole again
 
 

@@ -275,7 +275,7 @@ def test_torsion_of_a_round_bar(catalogue) -> None:
 def test_unit_fields_combine_to_the_full_stress_analysis(catalogue, actions) -> None:
     """Unit fields combined linearly = sectionproperties' calculate_stress for the same actions
     (mapped member -> sectionproperties as in sizer.sections.properties; moments in N*mm there)."""
-    from sizer.sections.properties import analyse
+    from sizer.sections.warping import analyse
 
     spec = catalogue.get("sharp angle")
     section = _analysed(spec, analyse)

@@ -67,7 +67,7 @@ def check_notes(design: Design, report: StabilityReport, given: list[BucklingAxi
     factor_text = "default" if not settings.buckling_safety_factor_given else "given"
     notes = [
         f"Verdict from the full cross-section stress field: {n_stations} stations x {n_combinations} combinations, "
-        f"each on all {nodes} mesh nodes (sectionproperties unit stress fields, combined linearly).",
+        f"each on all {nodes} mesh nodes (unit stress fields of the section's finite-element elasticity solution, combined linearly).",
         stability_note(design, report, given) + f" Safety factor {settings.buckling_safety_factor:g} ({factor_text}).",
         "Interaction: fa/Fa + fb/Fb with fb the peak bending stress from My and Mz together; Fa in compression is "
         "the compression allowable reduced to the combination's buckling stress / safety factor where lower; Fb is the "

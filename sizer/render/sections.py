@@ -17,7 +17,7 @@ T = TypeVar("T")
 
 AXES_NOTE = ("Member axes: y along the depth (up as drawn), z = -across (to the left as drawn, looking at "
              "the +x cut face), x along the member. Iz is about the horizontal (major) axis.")
-PEAK_NOTE = ("Unit peaks: largest stress at the mesh nodes per unit action (sectionproperties' elasticity "
+PEAK_NOTE = ("Unit peaks: largest stress at the mesh nodes per unit action (finite-element elasticity "
              "solution, Poisson's ratio 0, loads through the shear centre).")
 _SHORT = {"depth": "d", "width": "b", "thickness": "t", "flange_thickness": "tf", "web_thickness": "tw",
           "diameter": "⌀", "root_radius": "r", "outer_radius": "ro"}

@@ -1,18 +1,22 @@
 """Catalogue sections: reading and checking catalogue files, their shapes, their properties and unit
-stress fields from sectionproperties, and the disk cache that makes repeated look-ups instant.
+stress fields (exact integrals over the outline; a finite-element solution for torsion and shear,
+checked against sectionproperties), and the disk cache that makes repeated look-ups instant.
 
 Modules, each importing only those before it: spec (SectionSpec, the data), shapes (keys and fit
 rules), catalogue_cache (parsed catalogue files remembered on disk), catalogue (files -> SectionSpec,
-Catalogue), geometry (outlines and the mesh rule), properties
-(SectionProperties, UnitStressField, member axes, section_table: the scalars of many sections as one
-array; see its docstring for the axis mapping), cache (disk entries and tables), editing (adding
-sections to files, CSV import).
+Catalogue), geometry (outlines and the mesh rule), polygon (exact area integrals of a polygon),
+fields (UnitStressField), geometric (the geometric tier: what the outline settles), tri6 (six-node
+triangles: torsion and shear on the mesh, every element at once), warping (the torsion-and-warping
+tier and the unit stress fields), cache (disk entries and tables), properties (the tiers looked
+up, computed and kept; SectionProperties, section_table; see its docstring for the axis mapping),
+editing (adding sections to files, CSV import).
 
 Mesh rule (sizer.sections.geometry): largest element area min((t_min / 1.25)^2, A / 200) with t_min
 the thinnest wall; 8 points per root or corner radius; 96 per full circle.
 
-sectionproperties is imported only when something must be computed; a warm look-up reads the cache:
-an unchanged catalogue file is one remembered parse, and a list of sections tabled before is one
+scipy.sparse and the mesher are imported only when the warping tier or the stress fields must be
+computed (sectionproperties only for a report's drawing); a warm look-up reads the cache: an
+unchanged catalogue file is one remembered parse, and a list of sections tabled before is one
 array file.
 """
 

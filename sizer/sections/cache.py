@@ -1,10 +1,11 @@
 """The on-disk cache of section results, in platformdirs.user_cache_dir("sizer"), or $SIZER_CACHE_DIR:
 
-- sections/: one small JSON of scalars and one raw array file (.f64: little-endian float64, the
-  unit stress fields' points, sigma and tau one after the other) per geometry (an entry);
+- sections/: per geometry (an entry), one small JSON of the torsion-and-warping tier's scalars and
+  one raw array file (.f64: little-endian float64, the unit stress fields' points, sigma and tau
+  one after the other);
 - section-tables/: the scalars of a whole list of sections in one array (a table: a digest line,
   then the .npy bytes), so that a large catalogue's properties are one file read instead of one per
-  section.
+  section: the geometric tier alone (the sizing's), or every tier (section_table's).
 
 Entry key: a hash of the geometry (shape and dimensions), the mesh settings, the sectionproperties
 version and SCHEMA_VERSION. Table key: a hash of its sections' geometry keys, in row order, its
@@ -36,7 +37,7 @@ from sizer.files import cache_root, write_atomic
 from sizer.sections.geometry import mesh_settings
 from sizer.sections.spec import SectionSpec
 
-SCHEMA_VERSION = 6
+SCHEMA_VERSION = 7  # 7: entries hold the warping tier only (the geometric tier comes from the outline)
 ARRAY_NAMES = ("points", "sigma", "tau")
 RAW = np.dtype("<f8")
 _GEOMETRY_MARK = "GEOMETRY"  # stands for the geometry key in the key text built once per process

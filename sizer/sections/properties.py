@@ -1,5 +1,18 @@
-"""Section properties and unit stress fields from sectionproperties (geometric, warping and plastic
-analyses, and its stress analysis), in member axes and SI units, cached on disk.
+"""Section properties and unit stress fields in member axes and SI units, in three tiers, each
+computed when something first needs it and then kept (in memory, and on disk with a digest):
+
+- geometric (sizer.sections.geometric): what the outline alone settles, exact for the outline
+  polygon, in well under a millisecond and without sectionproperties; a list of sections is kept
+  as one table file (cache.py);
+- torsion and warping (sizer.sections.warping): J, Iw, shear centre, shear areas, plastic moduli
+  and the peak shear stresses per unit action, from a finite-element solution on the outline's
+  mesh (sizer.sections.tri6: sectionproperties' formulation, every element at once, a few
+  hundredths of a second a section); kept per geometry as a JSON entry;
+- unit stress fields: the same analysis' stresses at every mesh node, kept beside that entry as a
+  raw array file and read only when a full check needs them.
+
+The sizing reads the geometric tier of every candidate and asks for the others section by section
+(sizer.sizing); `section_properties`, `section_table` and `build_catalogue` give every tier.
 
 Axes. A section is drawn with its depth along sectionproperties' Y axis, "across" along its X
 axis, and sectionproperties' Z out of the drawing. The member's axes (SPEC section 2) are
@@ -28,15 +41,18 @@ SectionProperties fields (SI: m, m^2, m^3, m^4, m^6, kg/m, rad):
     N (N), My (N*m), Mz (N*m); tau_peak (3,) max |tau| (Pa) per unit Vy (N), Vz (N), T (N*m);
     mass_per_length = area * density (None without a density).
 
-Stresses per unit action are sectionproperties' nodal-averaged values at the mesh nodes (corner and
-mid-side nodes), from its Saint-Venant elasticity solution with Poisson's ratio 0, loads through the
-shear centre. At sharp re-entrant corners (zero radii) the true elastic peak is unbounded and the
-nodal value grows as the mesh is refined; give radii where they exist.
+The geometric tier's scalars agree with sectionproperties' geometric analysis of the same outline
+to round-off (tests/test_tiers.py), since both integrate polynomials exactly over the polygon.
+Stresses per unit action are nodal-averaged values at the mesh nodes (corner and mid-side nodes)
+of the Saint-Venant elasticity solution with Poisson's ratio 0, loads through the shear centre, as
+sectionproperties computes them on the same mesh (tests/test_tiers.py holds them to it). At sharp
+re-entrant corners (zero radii) the true elastic peak is unbounded and the nodal value grows as the
+mesh is refined; give radii where they exist.
 """
 
 from __future__ import annotations
 
-import math
+import multiprocessing
 import os
 import time
 from collections import OrderedDict
@@ -48,8 +64,11 @@ import numpy as np
 
 from sizer.errors import InputError
 from sizer.sections import cache
-from sizer.sections.geometry import MM, max_element_area, meshed_section
+from sizer.sections.fields import UnitStressField
+from sizer.sections.geometric import GEOMETRIC_NAMES, geometric_scalars
 from sizer.sections.spec import SectionSpec
+from sizer.sections.warping import WARPING_NAMES
+from sizer.sections.warping import compute as compute_warping
 
 SCALAR_NAMES: tuple[str, ...] = (
     "area", "centroid_y", "centroid_z", "Iz", "Iy", "Iyz", "I11", "I22", "principal_angle",
@@ -58,48 +77,13 @@ SCALAR_NAMES: tuple[str, ...] = (
     "sigma_peak_N", "sigma_peak_My", "sigma_peak_Mz", "tau_peak_Vy", "tau_peak_Vz", "tau_peak_T",
     "mesh_elements", "mesh_nodes", "max_element_area",
 )
+assert set(SCALAR_NAMES) == set(GEOMETRIC_NAMES) | set(WARPING_NAMES) and not set(GEOMETRIC_NAMES) & set(WARPING_NAMES)
 SIGMA_PEAK_NAMES = ("sigma_peak_N", "sigma_peak_My", "sigma_peak_Mz")  # per unit N, My, Mz
 TAU_PEAK_NAMES = ("tau_peak_Vy", "tau_peak_Vz", "tau_peak_T")  # per unit Vy, Vz, T
 FIELD_MEMORY = 64  # unit stress fields kept in memory (least recently used dropped)
-# fewer missing sections than this are computed in this process: a worker's start-up and its
-# sectionproperties import (about 1 s) outweigh the gain
-PARALLEL_FROM = 4
-
-# unit actions in sectionproperties' units (N, N*mm) and sign mapping, see the module docstring
-_UNIT_ACTIONS = {"n": 1.0, "vx": -1.0, "vy": 1.0, "mxx": -1.0, "myy": 1.0, "mzz": 1.0}
-_FORCE_TO_PA = 1e6  # stress in N/mm^2 per 1 N -> Pa per 1 N
-_MOMENT_TO_PA = 1e9  # stress in N/mm^2 per 1 N*mm -> Pa per 1 N*m
-
-
-@dataclass(frozen=True, eq=False)
-class UnitStressField:
-    """Stresses at the mesh nodes per unit action, member axes, Pa.
-
-    points (p, 2): node positions (y, z) from the centroid, m.
-    sigma (3, p): sigma_xx (tension +) per unit N (1 N), My (1 N*m), Mz (1 N*m).
-    tau (3, p, 2): (tau_xy, tau_xz) per unit Vy (1 N), Vz (1 N), T (1 N*m), through the shear centre.
-    """
-
-    points: np.ndarray
-    sigma: np.ndarray
-    tau: np.ndarray
-
-    @cached_property
-    def sigma_peak(self) -> np.ndarray:
-        """(3,) largest |sigma| per unit N, My, Mz."""
-        return np.abs(self.sigma).max(axis=1)
-
-    @cached_property
-    def tau_peak(self) -> np.ndarray:
-        """(3,) largest shear stress magnitude per unit Vy, Vz, T."""
-        return np.hypot(self.tau[..., 0], self.tau[..., 1]).max(axis=1)
-
-    def stresses(self, N: float = 0.0, Vy: float = 0.0, Vz: float = 0.0, T: float = 0.0,
-                 My: float = 0.0, Mz: float = 0.0) -> tuple[np.ndarray, np.ndarray]:
-        """sigma_xx (p,) and (tau_xy, tau_xz) (p, 2) in Pa for one set of actions (N, N*m)."""
-        sigma = N * self.sigma[0] + My * self.sigma[1] + Mz * self.sigma[2]
-        tau = Vy * self.tau[0] + Vz * self.tau[1] + T * self.tau[2]
-        return sigma, tau
+# fewer missing sections than this are computed in this process unless workers are already running:
+# a worker's start-up and imports (about 0.5 s) outweigh the gain at a few hundredths of a second a section
+PARALLEL_FROM = 32
 
 
 @dataclass(frozen=True, eq=False)
@@ -156,19 +140,20 @@ class SectionProperties:
 # ----------------------------------------------------------------------------------------------
 # public look-ups
 
-# In memory, by geometry key (an entry key adds only what is fixed within a process): the scalars
-# as a row in SCALAR_NAMES order (plain floats; a section table's row until first used), and the
+# In memory, by geometry key (an entry key adds only what is fixed within a process): each tier's
+# scalars as a row in its names' order (plain floats; a table's row until first used), and the
 # unit stress fields last used.
-_ENTRIES: dict[str, list[float] | np.ndarray] = {}
+_GEOMETRIC: dict[str, list[float] | np.ndarray] = {}
+_WARPING: dict[str, list[float] | np.ndarray] = {}
 _FIELDS: OrderedDict[str, UnitStressField] = OrderedDict()
-_SIGMA_PEAK_COLUMNS = tuple(SCALAR_NAMES.index(name) for name in SIGMA_PEAK_NAMES)
-_TAU_PEAK_COLUMNS = tuple(SCALAR_NAMES.index(name) for name in TAU_PEAK_NAMES)
+_FROM_TIERS = tuple((name in GEOMETRIC_NAMES, (GEOMETRIC_NAMES if name in GEOMETRIC_NAMES else WARPING_NAMES).index(name))
+                    for name in SCALAR_NAMES)
 
 
 def section_properties(spec: SectionSpec, density: float | None = None) -> SectionProperties:
-    """Properties of `spec` (kg/m^3 `density` gives the mass per length). Cached: memory, then disk,
-    then computed with sectionproperties and stored."""
-    return _assemble(spec, _scalars(spec), density)
+    """Properties of `spec`, every tier (kg/m^3 `density` gives the mass per length). Each tier from
+    memory, then disk, else computed now and stored."""
+    return _assemble(spec, _full_row(spec), density)
 
 
 def section_properties_many(specs: Sequence[SectionSpec], density: float | None = None, workers: int | None = None,
@@ -181,8 +166,8 @@ def section_properties_many(specs: Sequence[SectionSpec], density: float | None 
 
 def section_table(specs: Sequence[SectionSpec], workers: int | None = None,
                   progress: Callable[[int, int, str], None] | None = None) -> np.ndarray:
-    """The scalars of `specs` as a float64 array (len(specs), len(SCALAR_NAMES)): row i is specs[i],
-    columns in SCALAR_NAMES order, SI units and member axes as in SectionProperties.
+    """Every tier's scalars of `specs` as a float64 array (len(specs), len(SCALAR_NAMES)): row i is
+    specs[i], columns in SCALAR_NAMES order, SI units and member axes as in SectionProperties.
 
     Read from one file when this list of sections was tabled before; else gathered from memory and
     the entries (missing ones computed in parallel, as build_catalogue does; `progress` as there)
@@ -193,20 +178,64 @@ def section_table(specs: Sequence[SectionSpec], workers: int | None = None,
     table = cache.read_table(key, (len(specs), len(SCALAR_NAMES)))
     if table is None:
         build_catalogue(specs, workers, progress, check_arrays=False)
-        table = np.array([_scalars(spec) for spec in specs], dtype=np.float64).reshape(len(specs), len(SCALAR_NAMES))
+        table = np.array([_full_row(spec) for spec in specs], dtype=np.float64).reshape(len(specs), len(SCALAR_NAMES))
         cache.write_table(key, table)
-    else:
-        _ENTRIES.update(zip(geometry_keys, table.copy()))  # rows of a private copy: the caller may change `table`
-        if progress:
-            geometries = len(set(geometry_keys))
-            progress(geometries, geometries, "")  # as build_catalogue reports a catalogue with nothing to compute
+        return table
+    geometric = [SCALAR_NAMES.index(name) for name in GEOMETRIC_NAMES]
+    warping = [SCALAR_NAMES.index(name) for name in WARPING_NAMES]
+    _GEOMETRIC.update(zip(geometry_keys, table[:, geometric]))  # fancy indexing: copies, the caller may change `table`
+    _WARPING.update(zip(geometry_keys, table[:, warping]))
+    if progress:
+        geometries = len(set(geometry_keys))
+        progress(geometries, geometries, "")  # as build_catalogue reports a catalogue with nothing to compute
     return table
+
+
+def geometric_table(specs: Sequence[SectionSpec]) -> np.ndarray:
+    """The geometric tier of `specs` (len(specs), len(GEOMETRIC_NAMES)), columns in GEOMETRIC_NAMES
+    order: one table file when this list was tabled before, else computed from the outlines and
+    stored as one file."""
+    geometry_keys = [spec.geometry_key() for spec in specs]
+    key = cache.table_key(geometry_keys, GEOMETRIC_NAMES)
+    table = cache.read_table(key, (len(specs), len(GEOMETRIC_NAMES)))
+    if table is None:
+        table = np.array([geometric_row(spec) for spec in specs], dtype=np.float64).reshape(len(specs), len(GEOMETRIC_NAMES))
+        cache.write_table(key, table)
+        return table
+    _GEOMETRIC.update(zip(geometry_keys, table.copy()))  # rows of a private copy: the caller may change `table`
+    return table
+
+
+def geometric_row(spec: SectionSpec) -> list[float]:
+    """The geometric tier of `spec` in GEOMETRIC_NAMES order (memory, else computed: no file)."""
+    return _plain(_GEOMETRIC, spec.geometry_key()) or _remember(_GEOMETRIC, spec.geometry_key(), geometric_scalars(spec), GEOMETRIC_NAMES)
+
+
+def warping_row(spec: SectionSpec) -> list[float]:
+    """The torsion-and-warping tier of `spec` in WARPING_NAMES order (memory, then disk, else
+    computed now, in this process, and stored with the stress fields)."""
+    if not has_warping(spec):
+        _compute_and_store(spec)
+    return _plain(_WARPING, spec.geometry_key())
+
+
+def has_warping(spec: SectionSpec) -> bool:
+    """Whether the warping tier of `spec` is in memory or whole on disk (then it is kept in memory)."""
+    geometry = spec.geometry_key()
+    if geometry in _WARPING:
+        return True
+    entry = cache.read_entry(cache.entry_key(spec), WARPING_NAMES)
+    if entry is None:
+        return False
+    _remember(_WARPING, geometry, entry["scalars"], WARPING_NAMES)
+    return True
 
 
 def peak_unit_stresses(spec: SectionSpec) -> tuple[np.ndarray, np.ndarray]:
     """(sigma_peak (3,), tau_peak (3,)): largest |stress| (Pa) per unit N, My, Mz and Vy, Vz, T."""
-    row = _scalars(spec)
-    return np.array([row[i] for i in _SIGMA_PEAK_COLUMNS]), np.array([row[i] for i in _TAU_PEAK_COLUMNS])
+    geometric, warping = geometric_row(spec), warping_row(spec)
+    return (np.array([geometric[GEOMETRIC_NAMES.index(name)] for name in SIGMA_PEAK_NAMES]),
+            np.array([warping[WARPING_NAMES.index(name)] for name in TAU_PEAK_NAMES]))
 
 
 def unit_stress_field(spec: SectionSpec) -> UnitStressField:
@@ -216,18 +245,19 @@ def unit_stress_field(spec: SectionSpec) -> UnitStressField:
         _FIELDS.move_to_end(geometry)
         return _FIELDS[geometry]
     key = cache.entry_key(spec)
-    entry = cache.read_entry(key, SCALAR_NAMES)
+    entry = cache.read_entry(key, WARPING_NAMES)
     arrays = cache.read_arrays(key, entry) if entry is not None else None
     if arrays is None:
         _compute_and_store(spec)
         return _FIELDS[geometry]
-    _ENTRIES[geometry] = _row(entry["scalars"])
+    _remember(_WARPING, geometry, entry["scalars"], WARPING_NAMES)
     return _remember_field(geometry, arrays)
 
 
 def clear_memory() -> None:
-    """Forget every entry held in memory (the disk cache is untouched)."""
-    _ENTRIES.clear()
+    """Forget every tier held in memory (the disk cache is untouched)."""
+    _GEOMETRIC.clear()
+    _WARPING.clear()
     _FIELDS.clear()
 
 
@@ -240,26 +270,25 @@ def _remember_field(geometry: str, arrays: dict[str, np.ndarray]) -> UnitStressF
     return unit_field
 
 
-def _row(scalars: dict[str, float]) -> list[float]:
-    """An entry's scalars as floats in SCALAR_NAMES order."""
-    return [float(scalars[name]) for name in SCALAR_NAMES]
+def _remember(memory: dict, geometry: str, scalars: dict[str, float], names: tuple[str, ...]) -> list[float]:
+    """Keep a tier's scalars as floats in `names` order; returns the row."""
+    memory[geometry] = row = [float(scalars[name]) for name in names]
+    return row
 
 
-def _scalars(spec: SectionSpec) -> list[float]:
-    """The section's row of scalars (SCALAR_NAMES order): memory, then disk, else computed."""
-    geometry = spec.geometry_key()
-    row = _ENTRIES.get(geometry)
-    if type(row) is list:
+def _plain(memory: dict, geometry: str) -> list[float] | None:
+    """A remembered row as plain floats (a table's row becomes one on first use); None if absent."""
+    row = memory.get(geometry)
+    if row is None or type(row) is list:
         return row
-    if row is not None:
-        _ENTRIES[geometry] = row = row.tolist()  # a section table's row: plain floats from now on
-        return row
-    entry = cache.read_entry(cache.entry_key(spec), SCALAR_NAMES)
-    if entry is None:
-        _compute_and_store(spec)
-    else:
-        _ENTRIES[geometry] = _row(entry["scalars"])
-    return _ENTRIES[geometry]
+    memory[geometry] = row = row.tolist()
+    return row
+
+
+def _full_row(spec: SectionSpec) -> list[float]:
+    """Every tier's scalars of `spec` in SCALAR_NAMES order."""
+    geometric, warping = geometric_row(spec), warping_row(spec)
+    return [geometric[k] if is_geometric else warping[k] for is_geometric, k in _FROM_TIERS]
 
 
 def _assemble(spec: SectionSpec, row: list[float], density: float | None) -> SectionProperties:
@@ -281,110 +310,23 @@ def _assemble(spec: SectionSpec, row: list[float], density: float | None) -> Sec
 
 
 # ----------------------------------------------------------------------------------------------
-# computing with sectionproperties
-
-def analyse(spec: SectionSpec) -> Any:
-    """A sectionproperties Section of `spec` (mm) after the geometric, warping and plastic analyses."""
-    section = meshed_section(spec)
-    try:
-        section.calculate_geometric_properties()
-        section.calculate_warping_properties()
-        section.calculate_plastic_properties()
-    except Exception as exc:  # sectionproperties' failures on a mesh that was made
-        raise InputError(spec.source, "sections", f"section {spec.name!r}: sectionproperties could not analyse it ({type(exc).__name__}: {exc})",
-                         "check the dimensions or the polygon's points", spec.line) from None
-    return section
-
-
-def unit_fields(section: Any) -> dict[str, np.ndarray]:
-    """Unit stress fields (member axes, SI) of an analysed Section: one stress analysis with every
-    unit action at once (sectionproperties keeps each action's stresses apart)."""
-    cx, cy = section.get_c()
-    stress = section.calculate_stress(**_UNIT_ACTIONS).get_stress()[0]
-    nodes = np.asarray(section.mesh_nodes, dtype=float)
-    points = np.column_stack([(nodes[:, 1] - cy) / MM, -(nodes[:, 0] - cx) / MM])
-    sigma = np.stack([stress["sig_zz_n"] * _FORCE_TO_PA, stress["sig_zz_myy"] * _MOMENT_TO_PA, stress["sig_zz_mxx"] * _MOMENT_TO_PA])
-
-    def shear(action: str, scale: float) -> np.ndarray:
-        return np.column_stack([stress[f"sig_zy_{action}"], -stress[f"sig_zx_{action}"]]) * scale
-
-    tau = np.stack([shear("vy", _FORCE_TO_PA), shear("vx", _FORCE_TO_PA), shear("mzz", _MOMENT_TO_PA)])
-    return {"points": points, "sigma": sigma, "tau": tau}
-
-
-def section_results(spec: SectionSpec, section: Any) -> tuple[dict[str, float], dict[str, np.ndarray]]:
-    """Scalars (SI, member axes; SCALAR_NAMES) and unit stress arrays of an analysed Section."""
-    xmin, xmax, ymin, ymax = section.geometry.calculate_extents()
-    cx, cy = section.get_c()
-    ixx, iyy, ixy = section.get_ic()
-    i11, i22 = section.get_ip()
-    zxx_plus, zxx_minus, zyy_plus, zyy_minus = section.get_z()
-    sxx, syy = section.get_s()
-    rx, ry = section.get_rc()
-    a_sx, a_sy = section.get_as()
-    props = section.section_props  # x_se, y_se: shear centre from the centroid
-    arrays = unit_fields(section)
-    unit = UnitStressField(arrays["points"], arrays["sigma"], arrays["tau"])
-    length, area, inertia, modulus = 1 / MM, 1 / MM**2, 1 / MM**4, 1 / MM**3
-    scalars = {
-        "area": section.get_area() * area,
-        "centroid_y": (cy - (ymin + ymax) / 2) * length, "centroid_z": -(cx - (xmin + xmax) / 2) * length,
-        "Iz": ixx * inertia, "Iy": iyy * inertia, "Iyz": -ixy * inertia, "I11": i11 * inertia, "I22": i22 * inertia,
-        "principal_angle": _axis_angle(math.radians(section.get_phi())),
-        "Sz_top": zxx_plus * modulus, "Sz_bottom": zxx_minus * modulus, "Sy_plus": zyy_minus * modulus, "Sy_minus": zyy_plus * modulus,
-        "y_top": (ymax - cy) * length, "y_bottom": (cy - ymin) * length, "z_plus": (cx - xmin) * length, "z_minus": (xmax - cx) * length,
-        "Zz": sxx * modulus, "Zy": syy * modulus, "rz": rx * length, "ry": ry * length,
-        "J": section.get_j() * inertia, "Iw": section.get_gamma() / MM**6,
-        "ys": props.y_se * length, "zs": -props.x_se * length,
-        "Py": (props.beta_x_minus + 2 * props.y_se) * ixx / MM**5, "Pz": -(props.beta_y_minus + 2 * props.x_se) * iyy / MM**5,
-        "Avy": a_sy * area, "Avz": a_sx * area,
-        "depth": (ymax - ymin) * length, "width": (xmax - xmin) * length, "perimeter": section.get_perimeter() * length,
-        "sigma_peak_N": unit.sigma_peak[0], "sigma_peak_My": unit.sigma_peak[1], "sigma_peak_Mz": unit.sigma_peak[2],
-        "tau_peak_Vy": unit.tau_peak[0], "tau_peak_Vz": unit.tau_peak[1], "tau_peak_T": unit.tau_peak[2],
-        "mesh_elements": len(section.elements), "mesh_nodes": section.num_nodes,
-        "max_element_area": max_element_area(spec, section.geometry) * area,
-    }
-    return _without_noise({name: float(value) for name, value in scalars.items()}), arrays
-
-
-def _axis_angle(angle: float) -> float:
-    """An axis direction (a line) as an angle in [-pi/2, pi/2)."""
-    return (angle + math.pi / 2) % math.pi - math.pi / 2
-
-
-def _without_noise(s: dict[str, float]) -> dict[str, float]:
-    """Round-off and solver noise set to exactly zero: centroid and shear-centre offsets below
-    1e-5 of the section's size, a product of inertia below 1e-9 of sqrt(Iz Iy), a warping
-    constant below 1e-9 of (Iz + Iy) size^2 (a circle's), monosymmetry integrals below 1e-7 of
-    (Iz + Iy) size (a symmetric section's)."""
-    size = max(s["depth"], s["width"])
-    for name in ("centroid_y", "centroid_z", "ys", "zs"):
-        if abs(s[name]) < 1e-5 * size:
-            s[name] = 0.0
-    if abs(s["Iyz"]) < 1e-9 * math.sqrt(s["Iz"] * s["Iy"]):
-        s["Iyz"] = 0.0
-    if abs(s["Iw"]) < 1e-9 * (s["Iz"] + s["Iy"]) * size**2:
-        s["Iw"] = 0.0
-    for name in ("Py", "Pz"):
-        if abs(s[name]) < 1e-7 * (s["Iz"] + s["Iy"]) * size:
-            s[name] = 0.0
-    return s
-
+# computing the warping tier and the stress fields
 
 def compute(spec: SectionSpec) -> tuple[dict[str, float], dict[str, np.ndarray]]:
-    """Scalars and unit stress arrays of `spec`, computed now with sectionproperties."""
-    return section_results(spec, analyse(spec))
+    """The warping tier's scalars (WARPING_NAMES) and the unit stress arrays of `spec`, computed now."""
+    return compute_warping(spec, dict(zip(GEOMETRIC_NAMES, geometric_row(spec))))
 
 
 def _compute_and_store(spec: SectionSpec) -> None:
     scalars, arrays = compute(spec)
     cache.write_entry(cache.entry_key(spec), scalars, arrays)
-    _ENTRIES[spec.geometry_key()] = _row(scalars)
+    _keep(spec, scalars, arrays)
+
+
+def _keep(spec: SectionSpec, scalars: dict[str, float], arrays: dict[str, np.ndarray]) -> None:
+    _remember(_WARPING, spec.geometry_key(), scalars, WARPING_NAMES)
     _remember_field(spec.geometry_key(), arrays)
 
-
-# ----------------------------------------------------------------------------------------------
-# building a whole catalogue
 
 @dataclass(frozen=True)
 class BuildSummary:
@@ -398,40 +340,122 @@ class BuildSummary:
     seconds: float
 
 
+class AnalysisWorkers:
+    """Local worker processes (spawn, one per core by default) that compute warping tiers and stress
+    fields, kept for a whole run. `wait` makes sure that some sections are done: in this process
+    while fewer than PARALLEL_FROM are missing (two, when the number of workers is given) and no
+    workers run, else on the workers, which start then and stay for the rest of the run. A process
+    that is itself a worker never starts more. `progress(done, total, name)` hears of every section
+    computed, counted over the whole run."""
+
+    def __init__(self, workers: int | None = None, progress: Callable[[int, int, str], None] | None = None) -> None:
+        self.count = 1 if multiprocessing.parent_process() is not None else max(1, workers or _cores())
+        self.from_count = 2 if workers else PARALLEL_FROM  # workers asked for by number are used for any two sections
+        self.progress = progress
+        self.pool: Any = None
+        self.asked = self.done = 0
+
+    def __enter__(self) -> "AnalysisWorkers":
+        return self
+
+    def __exit__(self, *exc: Any) -> None:
+        self.close()
+
+    @property
+    def started(self) -> bool:
+        return self.pool is not None
+
+    def close(self) -> None:
+        """Stop the workers (work not begun is dropped)."""
+        if self.pool is not None:
+            self.pool.shutdown(wait=True, cancel_futures=True)
+            self.pool = None
+
+    def wait(self, specs: Sequence[SectionSpec], finished: Callable[[SectionSpec], None] | None = None, recompute: bool = False) -> None:
+        """Make sure the warping tier and stress fields of every spec are kept (with `recompute`, the
+        specs are known to be missing: computed whatever the cache says); `finished(spec)` as each
+        missing one is done."""
+        unique = {spec.geometry_key(): spec for spec in specs}
+        missing = [spec for spec in unique.values() if recompute or not has_warping(spec)]
+        if not missing:
+            return
+        self.asked += len(missing)
+        self._report("")
+        if self.pool is None and (self.count == 1 or len(missing) < self.from_count):
+            for spec in missing:
+                _compute_and_store(spec)
+                self._finish(spec, finished)
+        else:
+            for spec in self._on_workers(missing):
+                self._finish(spec, finished)
+
+    def _on_workers(self, specs: list[SectionSpec]) -> Iterator[SectionSpec]:
+        """Compute `specs` on the workers (started now if not yet); each spec as it is kept."""
+        from concurrent.futures import ProcessPoolExecutor, as_completed
+
+        if self.pool is None:
+            # spawn: safe beside threads (a rich progress bar) and the same on every platform
+            self.pool = ProcessPoolExecutor(max_workers=self.count, mp_context=multiprocessing.get_context("spawn"), initializer=_warm_worker)
+        futures = {self.pool.submit(_worker, spec, dict(zip(GEOMETRIC_NAMES, geometric_row(spec)))): spec for spec in specs}
+        for future in as_completed(futures):
+            scalars, arrays, error = future.result()
+            if error is not None:
+                for other in futures:
+                    other.cancel()
+                raise InputError(*error)
+            _keep(futures[future], scalars, arrays)
+            yield futures[future]
+
+    def _finish(self, spec: SectionSpec, finished: Callable[[SectionSpec], None] | None) -> None:
+        self.done += 1
+        self._report(spec.name)
+        if finished is not None:
+            finished(spec)
+
+    def _report(self, name: str) -> None:
+        if self.progress is not None:
+            self.progress(self.done, self.asked, name)
+
+
+def _cores() -> int:
+    try:
+        return len(os.sched_getaffinity(0))
+    except AttributeError:  # pragma: no cover - not on Linux
+        return os.cpu_count() or 1
+
+
 def build_catalogue(specs: Sequence[SectionSpec], workers: int | None = None,
                     progress: Callable[[int, int, str], None] | None = None, check_arrays: bool = True) -> BuildSummary:
-    """Make sure every section's entry is cached, computing the missing ones in parallel (one
-    process per core by default; in this process when fewer than PARALLEL_FROM are missing). `progress(done, total, name)` is called as geometries finish.
-    `check_arrays`: also verify each cached entry's stress arrays (else only its scalars)."""
+    """Make sure every section's tiers are cached, computing the missing ones in parallel (one
+    process per core by default, in this process when fewer than PARALLEL_FROM are missing; or
+    `workers` processes for any two or more).
+    `progress(done, total, name)` is called as geometries finish. `check_arrays`: also verify each
+    cached entry's stress arrays (else only its scalars)."""
     start = time.perf_counter()
     unique = {spec.geometry_key(): spec for spec in specs}
     missing = [spec for spec in unique.values() if not _entry_ready(spec, check_arrays)]
     total, done = len(unique), len(unique) - len(missing)
     if progress:
         progress(done, total, "")
-    workers = max(1, min(workers or os.cpu_count() or 1, len(missing)))
-    if len(missing) < PARALLEL_FROM:
-        workers = 1
-    if workers == 1:
-        for spec in missing:
-            _compute_and_store(spec)
-            done += 1
-            if progress:
-                progress(done, total, spec.name)
-    else:
-        for spec in _build_in_parallel(missing, workers):
-            done += 1
-            if progress:
-                progress(done, total, spec.name)
-    return BuildSummary(len(specs), total, len(missing), total - len(missing), workers, time.perf_counter() - start)
+
+    def finished(spec: SectionSpec) -> None:
+        nonlocal done
+        done += 1
+        if progress:
+            progress(done, total, spec.name)
+
+    with AnalysisWorkers(workers and min(workers, max(1, len(missing)))) as runner:
+        runner.wait(missing, finished, recompute=True)
+        used = runner.count if runner.started else 1
+    return BuildSummary(len(specs), total, len(missing), total - len(missing), used, time.perf_counter() - start)
 
 
 def _entry_ready(spec: SectionSpec, check_arrays: bool) -> bool:
     geometry = spec.geometry_key()
-    if geometry in _ENTRIES and (not check_arrays or geometry in _FIELDS):
+    if geometry in _WARPING and (not check_arrays or geometry in _FIELDS):
         return True
     key = cache.entry_key(spec)
-    entry = cache.read_entry(key, SCALAR_NAMES)
+    entry = cache.read_entry(key, WARPING_NAMES)
     if entry is None:
         return False
     if check_arrays:
@@ -439,34 +463,25 @@ def _entry_ready(spec: SectionSpec, check_arrays: bool) -> bool:
         if arrays is None:
             return False
         _remember_field(geometry, arrays)
-    _ENTRIES[geometry] = _row(entry["scalars"])
+    _remember(_WARPING, geometry, entry["scalars"], WARPING_NAMES)
     return True
 
 
-def _build_in_parallel(specs: list[SectionSpec], workers: int) -> Iterator[SectionSpec]:
-    """Compute `specs` in `workers` processes; yields each spec as it finishes."""
-    import multiprocessing
-    from concurrent.futures import ProcessPoolExecutor, as_completed
+def _warm_worker() -> None:
+    """When a worker process starts: leave Ctrl-C to the parent, import what the work needs now."""
+    import signal
 
-    # spawn: safe beside threads (a rich progress bar) and the same on every platform
-    with ProcessPoolExecutor(max_workers=workers, mp_context=multiprocessing.get_context("spawn")) as pool:
-        futures = {pool.submit(_worker, spec): spec for spec in specs}
-        for future in as_completed(futures):
-            scalars, arrays, error = future.result()
-            if error is not None:
-                pool.shutdown(cancel_futures=True)
-                raise InputError(*error)
-            spec = futures[future]
-            _ENTRIES[spec.geometry_key()] = _row(scalars)
-            _remember_field(spec.geometry_key(), arrays)
-            yield spec
+    signal.signal(signal.SIGINT, signal.SIG_IGN)
+    import cytriangle  # noqa: F401
+    import scipy.sparse.linalg  # noqa: F401
+    import shapely.geometry  # noqa: F401
 
 
-def _worker(spec: SectionSpec) -> tuple[dict | None, dict | None, tuple | None]:
-    """Process-pool task: compute and store one entry. Bad input comes back as InputError fields
-    (the dataclass exception does not survive pickling)."""
+def _worker(spec: SectionSpec, geometric: dict[str, float]) -> tuple[dict | None, dict | None, tuple | None]:
+    """Process-pool task: compute and store one section's warping tier and fields. Bad input comes
+    back as InputError fields (the dataclass exception does not survive pickling)."""
     try:
-        scalars, arrays = compute(spec)
+        scalars, arrays = compute_warping(spec, geometric)
     except InputError as error:
         return None, None, (error.file, error.key, error.problem, error.fix, error.line)
     cache.write_entry(cache.entry_key(spec), scalars, arrays)

@@ -2,6 +2,11 @@
 length, with their scalars as one table (SI: m^2, m^4, kg/m, Pa per unit action), and a Design of
 any one of them solved without a new solve (the unit-rigidity solution rescaled, when no support
 has a spring).
+
+The table starts either whole (every tier) or with the geometric tier alone (`lazy`: the sizing's
+way), its warping columns NaN until the search reveals a row (CandidateTable.reveal), which it
+does only for the candidates whose verdict needs them. What the search knows is thus the same
+whatever the cache holds, and so is its answer.
 """
 
 from __future__ import annotations
@@ -23,11 +28,14 @@ from sizer.stability import StabilitySection
 @dataclass(frozen=True, eq=False)
 class CandidateTable:
     """One row per candidate, in candidate order: every scalar of sizer.sections.properties.SCALAR_NAMES
-    by name (`column`), the mass per length (kg/m) and the peak stresses per unit action."""
+    by name (`column`), the mass per length (kg/m) and the peak stresses per unit action. `known`:
+    the rows whose warping tier (sizer.sections.warping.WARPING_NAMES) is filled in; the other
+    rows hold NaN there."""
 
     column: dict[str, np.ndarray]
     mass: np.ndarray
     specs: tuple[Any, ...] = ()  # the candidates' SectionSpecs, in order
+    known: np.ndarray = field(default_factory=lambda: np.ones(0, bool))
 
     def __getattr__(self, name: str) -> np.ndarray:
         column = self.__dict__.get("column", {})
@@ -49,9 +57,26 @@ class CandidateTable:
 
         return np.column_stack([self.column[name] for name in TAU_PEAK_NAMES])
 
-    def stability_sections(self, material: Material) -> StabilitySection:
-        """Every candidate as one StabilitySection of arrays (the section's own axes)."""
-        E, G, c = material.elastic_modulus, material.shear_modulus, self.column
+    def subset(self, rows: Sequence[int]) -> "CandidateTable":
+        """The table of `rows` alone (copies)."""
+        return CandidateTable({name: values[rows] for name, values in self.column.items()}, self.mass[rows],
+                              tuple(self.specs[row] for row in rows), self.known[rows])
+
+    def reveal(self, rows: Sequence[int]) -> None:
+        """Fill in the warping tier of `rows` (from the section cache: computed there first if missing)."""
+        from sizer.sections.properties import warping_row
+        from sizer.sections.warping import WARPING_NAMES
+
+        for row in rows:
+            for name, value in zip(WARPING_NAMES, warping_row(self.specs[row])):
+                self.column[name][row] = value
+            self.known[row] = True
+
+    def stability_sections(self, material: Material, rows: np.ndarray | None = None) -> StabilitySection:
+        """Every candidate (or those `rows`) as one StabilitySection of arrays (the section's own axes)."""
+        E, G = material.elastic_modulus, material.shear_modulus
+        names = ("Iz", "Iy", "Iyz", "J", "Iw", "area", "ys", "zs", "Py", "Pz", "y_top", "y_bottom")
+        c = {name: self.column[name] if rows is None else self.column[name][rows] for name in names}
         return StabilitySection(EIz=E * c["Iz"], EIy=E * c["Iy"], EIyz=E * c["Iyz"], GJ=G * c["J"], EIw=E * c["Iw"], area=c["area"],
                                 Iz=c["Iz"], Iy=c["Iy"], Iyz=c["Iyz"], y0=c["ys"], z0=c["zs"], Py=c["Py"], Pz=c["Pz"],
                                 y_top=c["y_top"], y_bottom=c["y_bottom"])
@@ -109,18 +134,25 @@ class Candidate:
 
 def candidate_sections(catalogue: Any, member: Member, material: Material, families: Sequence[str],
                        max_depth: float | None, max_width: float | None,
-                       progress: Callable[[int, int, str], None] | None = None) -> tuple[list[Candidate], CandidateTable]:
-    """Catalogue sections after the filters, sorted by mass per length, and their table (from the
-    cached properties; any not cached are computed first, reporting to `progress`). Depth and width
-    are as installed (a minor orientation swaps them)."""
-    from sizer.sections.properties import SCALAR_NAMES, section_table
+                       progress: Callable[[int, int, str], None] | None = None, lazy: bool = False) -> tuple[list[Candidate], CandidateTable]:
+    """Catalogue sections after the filters, sorted by mass per length, and their table: every tier
+    (any not cached computed first, reporting to `progress`), or with `lazy` the geometric tier
+    alone (no sectionproperties; the warping columns NaN). Depth and width are as installed (a
+    minor orientation swaps them)."""
+    from sizer.sections.properties import SCALAR_NAMES, geometric_table, section_table
+    from sizer.sections.geometric import GEOMETRIC_NAMES
 
     specs = catalogue.select(families)
     if not specs:
         files = ", ".join(str(path) for path in catalogue.files) or "the catalogue"
         raise InputError(files, "sections", "the catalogue holds no sections", "add [[sections]] entries, or pass --catalogue with a stock list")
-    table = section_table(specs, progress=progress)
-    column = {name: table[:, k] for k, name in enumerate(SCALAR_NAMES)}
+    if lazy:
+        geometric = geometric_table(specs)
+        column = {name: np.full(len(specs), np.nan) for name in SCALAR_NAMES}
+        column.update({name: geometric[:, k] for k, name in enumerate(GEOMETRIC_NAMES)})
+    else:
+        table = section_table(specs, progress=progress)
+        column = {name: table[:, k] for k, name in enumerate(SCALAR_NAMES)}
     depth, width = (column["depth"], column["width"]) if member.orientation == "major" else (column["width"], column["depth"])
     keep = np.ones(len(specs), bool)
     if max_depth is not None:
@@ -132,7 +164,8 @@ def candidate_sections(catalogue: Any, member: Member, material: Material, famil
     mass = column["area"] * material.density
     order = sorted(np.flatnonzero(keep).tolist(), key=lambda i: (mass[i], specs[i].name))
     candidates = [Candidate(specs[i].name, specs[i], float(mass[i]), material.density, k) for k, i in enumerate(order)]
-    return candidates, CandidateTable({name: values[order] for name, values in column.items()}, mass[order], tuple(specs[i] for i in order))
+    return candidates, CandidateTable({name: values[order] for name, values in column.items()}, mass[order], tuple(specs[i] for i in order),
+                                      np.full(len(order), not lazy))
 
 
 def design_for(member: Member, material: Material, candidate: Candidate, base: MemberSolution | None = None) -> Design:

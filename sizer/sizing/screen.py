@@ -224,21 +224,35 @@ def _limited_deflections(entry: DeflectionLimit, base: MemberSolution, n: int) -
 
 
 def prove_lower_bounds(candidate: Candidate, found: Screen, material: Material) -> None:
-    """The full stress field at the screen's worst station of each stress check estimated to fail:
-    true lower bounds of the full check (it uses these stations too; the interaction with upper
-    bounds of its allowables: Fa on the given buckling lengths only, Fb unreduced)."""
+    """The stress field at the screen's worst station of each stress check estimated to fail: true
+    lower bounds of the full check (it uses these stations too; the interaction with upper bounds
+    of its allowables: Fa on the given buckling lengths only, Fb unreduced). The full field once the
+    candidate's warping tier is known; before, the normal stresses at the outline's corners, which
+    give bending and the interaction as the full field does (sizer.sections.geometric); the shear
+    and equivalent estimates wait for the warping tier (NaN until then, see `rescreen`)."""
     from sizer.sections import unit_stress_field
+    from sizer.sections.geometric import normal_stress_field
 
     wanted = [name for name, values in found.estimate.items() if values[candidate.index] > 1.0 and name not in candidate.bounds]
     if not wanted:
         return
     rows = sorted({int(found.worst[name][candidate.index]) for name in wanted})
     actions = (found.loads[rows] + candidate.mass_per_length * found.per_mass[rows])[None]
-    stress = full_field_stresses(actions, unit_stress_field(candidate.spec), float(found.table.area[candidate.index]))
+    field = unit_stress_field(candidate.spec) if found.table.known[candidate.index] else normal_stress_field(candidate.spec)
+    stress = full_field_stresses(actions, field, float(found.table.area[candidate.index]))
     compression = float(found.fa_allowed[candidate.index])
     for name in wanted:
         k = rows.index(int(found.worst[name][candidate.index]))
         candidate.raise_bound(name, stress_utilization(name, stress, k, material.allowable, compression))
+
+
+def rescreen(found: Screen, rows: list[int], material: Material) -> None:
+    """The stress estimates of `rows` made again, now that their warping tier (the peak shear
+    stresses per unit action) is known."""
+    part = found.table.subset(rows)
+    _, estimate, worst, _, _ = stress_screen(part, found.loads, found.per_mass, material, found.fa_allowed[rows], found.compression.shape[0])
+    for name, values in estimate.items():
+        found.estimate[name][rows], found.worst[name][rows] = values, worst[name]
 
 
 def stress_utilization(name: str, stress: StationStresses, k: int, allow: Any, compression_allowable: float) -> float:

@@ -13,12 +13,14 @@ import numpy as np
 from sizer.analysis import MemberSolution, solve_member
 from sizer.checks import CheckReport, check_design
 from sizer.model import Material, Member, Stiffness
+from sizer.sections.properties import AnalysisWorkers
 from sizer.sizing.candidates import Candidate, CandidateTable, candidate_sections, design_for
-from sizer.sizing.screen import Screen, local_lower_bound, prove_lower_bounds, screen
+from sizer.sizing.screen import Screen, local_lower_bound, prove_lower_bounds, rescreen, screen
 from sizer.sizing.stability_bounds import StabilityBounds
 from sizer.stability import MemberStability
 
 BATCH = 64  # candidates given stability bounds at once (one small batched eigen-solve per combination)
+REVEAL_MOST = 16  # candidates whose warping tiers are revealed together, at most (see Search.passes_in_full)
 
 
 @dataclass
@@ -37,17 +39,40 @@ class SizingResult:
 
 @dataclass
 class Search:
-    """What the walk needs: the member, its material, the unit-rigidity solution (None with springs,
-    where each section is solved), the screen and the stability bounds (None with springs)."""
+    """What the walk needs: the member, its material, the candidates' table, where their warping
+    tiers are computed (`workers`), the unit-rigidity solution (None with springs, where each section
+    is solved), the screen and the stability bounds (None with springs)."""
 
     member: Member
     material: Material
     candidates: list[Candidate]
+    table: CandidateTable
+    workers: AnalysisWorkers
     base: MemberSolution | None = None
     found: Screen | None = None
     stability: StabilityBounds | None = None
     model: MemberStability | None = None
     bounded: dict[int, int] = field(default_factory=dict)  # candidate index -> stability epoch of its bounds
+    reveal_count: int = 1  # candidates revealed together next: doubles while revealed ones keep failing
+
+    def compute(self, candidates: Sequence[Candidate]) -> None:
+        """Make sure the warping tiers and stress fields of `candidates` are cached (on the workers
+        when there are many); the search learns of them only through `reveal`."""
+        self.workers.wait([c.spec for c in candidates])
+
+    def reveal(self, candidates: Sequence[Candidate]) -> None:
+        """Make the candidates' warping tiers known to the search (computed first when not cached):
+        their shear and equivalent estimates follow, and their stability bounds when next asked for."""
+        hidden = [candidate for candidate in candidates if not self.table.known[candidate.index]]
+        if not hidden:
+            return
+        self.compute(hidden)
+        rows = [candidate.index for candidate in hidden]
+        self.table.reveal(rows)
+        if self.found is not None:
+            rescreen(self.found, rows, self.material)
+            for row in rows:
+                self.bounded.pop(row, None)  # its stability bounds are made again when next asked for
 
     def full_check(self, candidate: Candidate) -> CheckReport:
         """The full stress-field check of one candidate (the same as `sizer check`); its buckled
@@ -55,6 +80,7 @@ class Search:
         from sizer.sections import unit_stress_field
 
         if candidate.report is None:
+            self.reveal([candidate])
             design = design_for(self.member, self.material, candidate, self.base)
             candidate.report = check_design(design, unit_stress_field(candidate.spec), stability=self.model)
             if self.stability is not None and candidate.report.stability is not None:
@@ -78,29 +104,63 @@ class Search:
             self.bounded[candidate.index] = epoch
 
     def ahead(self, candidate: Candidate) -> list[Candidate]:
-        """The candidate and the BATCH after it: the ones the walk will judge next."""
-        position = self.candidates.index(candidate)
+        """The candidate and the BATCH after it: the ones the walk will judge next. When the candidate
+        has its bounds for the current shapes, the BATCH from the first one that has not (so that a
+        walk which moves on without new shapes takes its bounds a batch at a time, not one by one)."""
+        position = candidate.index
+        epoch = self.stability.epoch if self.stability is not None else 0
+        if candidate.report is None and self.bounded.get(position, -1) >= epoch:
+            position = next((c.index for c in self.candidates[position:position + BATCH] if c.report is None
+                             and self.bounded.get(c.index, -1) < epoch), position)
         return self.candidates[position:position + BATCH]
 
-    def passes_in_full(self, candidate: Candidate) -> bool:
-        """False at once when a proven lower bound rules the candidate out (the exact parts of the
-        screen, the stability bounds, then the full field at the screen's worst stations, then local
-        buckling at the screen's stations); else the verdict of the full check."""
-        if self.found is not None and candidate.report is None:
-            if candidate.certainly_fails:
-                return False
-            self.stability_bounds(self.ahead(candidate))
-            if candidate.certainly_fails:
-                return False
-            prove_lower_bounds(candidate, self.found, self.material)
-            if candidate.certainly_fails:
-                return False
+    def ruled_out(self, candidate: Candidate) -> bool:
+        """Whether a proven lower bound rules the candidate out, tried in turn while none does: the
+        exact parts of the screen, the stability bounds, the stress field at the screen's worst
+        stations, local buckling at the screen's stations."""
+        if candidate.certainly_fails:
+            return True
+        self.stability_bounds(self.ahead(candidate))
+        if candidate.certainly_fails:
+            return True
+        prove_lower_bounds(candidate, self.found, self.material)
+        if candidate.certainly_fails:
+            return True
+        if "local" not in candidate.bounds:
             local = local_lower_bound(self.found, candidate.index, self.member, self.material)
             if local is not None:
                 candidate.raise_bound("local", local)
-                if candidate.certainly_fails:
+        return candidate.certainly_fails
+
+    def passes_in_full(self, candidate: Candidate) -> bool:
+        """False at once when a proven lower bound rules the candidate out, first from the geometric
+        tier alone, then with its warping tier (J, Iw, shear centre, peak shear stresses: computed
+        only now, for a section the geometric tier cannot rule out); else the verdict of the full
+        check. While revealed sections keep failing, the next ones the geometric tier cannot rule out
+        either are revealed with it, a growing batch at a time (each would be revealed when the walk
+        reaches it; together, their bounds come in one batch)."""
+        if self.found is not None and candidate.report is None:
+            if self.ruled_out(candidate):
+                return False
+            if not self.table.known[candidate.index]:
+                self.reveal([candidate, *self.open_after(candidate, self.reveal_count - 1)])
+                if self.ruled_out(candidate):
+                    self.reveal_count = min(2 * self.reveal_count, REVEAL_MOST)
                     return False
-        return self.full_check(candidate).passes
+        passes = self.full_check(candidate).passes
+        self.reveal_count = 1 if passes else min(2 * self.reveal_count, REVEAL_MOST)
+        return passes
+
+    def open_after(self, candidate: Candidate, count: int) -> list[Candidate]:
+        """Up to `count` unchecked candidates after this one, within its BATCH, whose warping tier is
+        not known and that no bound from the geometric tier rules out."""
+        found: list[Candidate] = []
+        for other in self.candidates[candidate.index + 1:candidate.index + BATCH]:
+            if len(found) >= count:
+                break
+            if other.report is None and not self.table.known[other.index] and not self.ruled_out(other):
+                found.append(other)
+        return found
 
     def first_passing(self) -> Candidate | None:
         """Walk up by mass: skip sections a lower bound rules out, check the rest until one passes."""
@@ -124,7 +184,9 @@ class Search:
         if chosen is None:
             return
         position = self.candidates.index(chosen)
-        for candidate in self.candidates[max(0, position - top):position]:
+        lighter = self.candidates[max(0, position - top):position]
+        self.compute(lighter)
+        for candidate in lighter:
             self.full_check(candidate)
         heavier = 0
         for candidate in self.candidates[position + 1:]:
@@ -137,12 +199,19 @@ def size_member(member: Member, catalogue: Any, material: Material, families: Se
                 max_depth: float | None = None, max_width: float | None = None, top: int = 3,
                 progress: Callable[[int, int, str], None] | None = None) -> SizingResult:
     """The lightest candidate that passes every check on the full stress field, with runners-up
-    (`progress` hears of any section properties computed first)."""
-    candidates, table = candidate_sections(catalogue, member, material, families, max_depth, max_width, progress)
+    (`progress` hears of the warping tiers computed: only for the sections whose verdict needs them)."""
+    with AnalysisWorkers(progress=progress) as workers:
+        return _size(member, catalogue, material, families, max_depth, max_width, top, workers)
+
+
+def _size(member: Member, catalogue: Any, material: Material, families: Sequence[str], max_depth: float | None,
+          max_width: float | None, top: int, workers: AnalysisWorkers) -> SizingResult:
+    candidates, table = candidate_sections(catalogue, member, material, families, max_depth, max_width, lazy=True)
     count = f"{len(candidates)} candidate section" + ("" if len(candidates) == 1 else "s")
     notes = [f"{count} after filters, each with its own self-weight, in material {material.name} (the member's)."]
-    search = Search(member, material, candidates)
+    search = Search(member, material, candidates, table, workers)
     if member.has_springs:
+        search.compute(candidates)
         for candidate in candidates:
             search.full_check(candidate)
         notes.append("Spring supports: forces depend on stiffness, so every candidate was solved and checked in full.")

@@ -189,7 +189,7 @@ def by_hand_section(design: Design, report: CheckReport, system: str) -> str:
              f"the station of the {_e(station.check)} check, the actions in the section's own axes are {_e(actions or 'all zero')}. "
              "Each stress by its textbook formula, beside the peak of the full section field that the checks use:</p>")
     why = ("<p class=\"note\">Why they may differ: the formulas assume the simple beam theory of thin walls and take each action "
-           "on its own; the field is sectionproperties' elasticity solution over the real outline, so it carries the root radii and "
+           "on its own; the field is the finite-element elasticity solution over the real outline, so it carries the root radii and "
            "fillets (more area near the web, which lowers the shear stress against V Q / (I t)), the stress concentrations at "
            "re-entrant corners (which raise the torsional shear above T t / J), and it adds the actions at one point instead of "
            "adding their separate peaks. For bending about a principal axis the two agree, since S is taken from the same outline.</p>")

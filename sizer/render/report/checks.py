@@ -70,7 +70,8 @@ def checks_section(document: dict[str, Any], system: str, bases: list[str] | Non
     bases = bases or [in_display_units(entry["detail"], system) for entry in document["checks"]]
     rows = [_check_row(entry, document["governing"], system, basis) for entry, basis in zip(document["checks"], bases)]
     table = _table(["check", "demand", "allowable", "utilization", "", "at", "combination", "status", "basis"], rows, (1, 2, 3, 5))
-    text = ("<p>Stresses come from the full cross-section stress field (sectionproperties' unit stress fields at every mesh "
+    text = ("<p>Stresses come from the full cross-section stress field (the unit stress fields of the section's finite-element "
+            "elasticity solution at every mesh "
             "node, combined linearly for the actions at every station and combination); each demand is the peak over the section "
             "and the member. Utilization = demand / allowable; the interaction check is the sum fa/Fa + fb/Fb itself. "
             "Deflections are relative to the span's supports.</p>")

@@ -196,7 +196,8 @@ def _section_block(design: Design, system: str) -> str:
                    "quarter turn on the member, so member x-y bending uses Iy." if design.member.orientation == "minor" else
                    "Properties in the section's own axes (depth along y), which are the member's axes in major orientation.")
     return (f"<h3>1.6 Section {_e(spec.name)}</h3><p>Shape {_e(spec.shape)}: {dims or 'polygon outline'}. "
-            f"Computed from the geometry with sectionproperties. {orientation}</p>"
+            f"Computed from the geometry: exact integrals over the outline, and a finite-element elasticity solution for torsion "
+            f"and shear on the mesh (sectionproperties' formulation). {orientation}</p>"
             f'<div class="two"><div>{table}</div><div>{picture}</div></div>')
 
 
