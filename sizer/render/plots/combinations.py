@@ -14,7 +14,7 @@ from sizer import units
 from sizer.design import Design
 from sizer.render.forces import is_planar
 from sizer.render.plots.diagrams import TITLES, diagram_samples
-from sizer.render.plots.style import DIAGRAM_HEIGHT, FIG_WIDTH, GAP, LEFT, RIGHT, style
+from sizer.render.plots.style import DIAGRAM_HEIGHT, FIG_WIDTH, GAP, LEFT, style
 
 LINE_STYLES = ("-", "--", "-.", ":")
 INKS = ("#111111", "#1d3557", "#8a1c1c", "#2d5016", "#6b4a00")
@@ -30,7 +30,7 @@ def build_combinations_figure(design: Design, system: str = "si") -> Any:
     import matplotlib
     from matplotlib.figure import Figure
 
-    from sizer.render.plots.figure import length_axis
+    from sizer.render.plots.figure import length_axis, panel_axes
 
     planar = is_planar(design.member)
     names = ["N", "V", "M"] + ([] if planar else ["Vz", "My", "T"])
@@ -40,16 +40,9 @@ def build_combinations_figure(design: Design, system: str = "si") -> Any:
     combinations = design.solution.combination_names
     with matplotlib.rc_context(style()):
         figure = Figure(figsize=(FIG_WIDTH, height))
-        axes = {}
-        y = height - top
-        for name in panels:
-            y -= DIAGRAM_HEIGHT
-            ax = figure.add_axes((LEFT / FIG_WIDTH, y / height, (FIG_WIDTH - LEFT - RIGHT) / FIG_WIDTH, DIAGRAM_HEIGHT / height))
-            ax.tick_params(labelbottom=False, direction="in", length=3)
-            ax.spines[["top", "right"]].set_visible(False)
+        axes = panel_axes(figure, [(name, DIAGRAM_HEIGHT) for name in panels], height, top)
+        for ax in axes.values():
             ax.axhline(0.0, color="#9a9a9a", lw=0.7)
-            axes[name] = ax
-            y -= GAP
         for index, combination in enumerate(combinations):
             _draw_combination(axes, design, combination, names, system, curve_style(index))
         length_axis(axes, design.member.length, system)

@@ -29,7 +29,6 @@ from sizer.render.plots.style import (
     GUIDE,
     INK,
     LEFT,
-    RIGHT,
     SUBTITLE_CHARS,
     SUBTITLE_LINE,
     TITLE_HEIGHT,
@@ -52,7 +51,7 @@ def build_envelope_figure(design: Design, combinations: list[str], system: str =
     import matplotlib
     from matplotlib.figure import Figure
 
-    from sizer.render.plots.figure import length_axis
+    from sizer.render.plots.figure import length_axis, panel_axes
 
     member = design.member
     planar = is_planar(member)
@@ -69,15 +68,7 @@ def build_envelope_figure(design: Design, combinations: list[str], system: str =
     found = action_envelope(design.solution, combinations)
     with matplotlib.rc_context(style()):
         figure = Figure(figsize=(FIG_WIDTH, height))
-        axes: dict[str, Any] = {}
-        y = height - top
-        for name in panels:
-            y -= DIAGRAM_HEIGHT
-            ax = figure.add_axes((LEFT / FIG_WIDTH, y / height, (FIG_WIDTH - LEFT - RIGHT) / FIG_WIDTH, DIAGRAM_HEIGHT / height))
-            ax.tick_params(labelbottom=False, direction="in", length=3)
-            ax.spines[["top", "right"]].set_visible(False)
-            axes[name] = ax
-            y -= GAP
+        axes = panel_axes(figure, [(name, DIAGRAM_HEIGHT) for name in panels], height, top)
         for name in names:
             column = EXTREME_ACTIONS.index(name)
             _draw_band(axes[name], name, xs, high[:, column], low[:, column], found[name], member.length, system)

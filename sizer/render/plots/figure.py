@@ -71,7 +71,7 @@ def build_figure(design: Design, combination: str, report: CheckReport | None = 
     height = top + sum(h for _, h in panels) + GAP * (len(panels) - 1) + BOTTOM
     with matplotlib.rc_context(style()):
         figure = Figure(figsize=(FIG_WIDTH, height), dpi=DPI)
-        axes = _panel_axes(figure, panels, height, top)
+        axes = panel_axes(figure, panels, height, top)
         pad = END_PAD * views["elevation"].m_per_inch
         for ax in axes.values():
             ax.set_xlim(-pad, member.length + pad)
@@ -107,7 +107,7 @@ def length_axis(axes: dict[str, Any], length: float, system: str) -> None:
     bottom.set_xlabel(f"x from end A [{units.unit_label('length', system)}]")
 
 
-def _panel_axes(figure: Any, panels: list[tuple[str, float]], height: float, title_height: float) -> dict[str, Any]:
+def panel_axes(figure: Any, panels: list[tuple[str, float]], height: float, title_height: float) -> dict[str, Any]:
     """One axes per panel, stacked top to bottom at fixed inch positions."""
     axes: dict[str, Any] = {}
     top = height - title_height
