@@ -35,7 +35,8 @@ from sizer.sections.spec import SectionSpec
 
 # the modules whose code shapes a catalogue file's parse result, relative to the sizer package
 FINGERPRINT_SOURCES = (
-    "sections/catalogue.py", "sections/catalogue_cache.py", "sections/shapes.py", "sections/spec.py", "model.py", "units.py", "inputfile.py",
+    "sections/catalogue.py", "sections/catalogue_cache.py", "sections/shapes.py", "sections/spec.py", "model.py", "units.py", "inputfile/__init__.py", "inputfile/reader.py",
+    "inputfile/materials.py",
 )
 
 
