@@ -1,0 +1,201 @@
+"""The member of one span-table trial, written as member-file TOML text (supports of the layout,
+restraints at the spacing, the loads and, for continuous layouts, every arrangement of loaded spans
+as a combination) and read with the normal reader, so every value meets the normal checks.
+"""
+
+from __future__ import annotations
+
+import json
+import math
+from itertools import combinations as subsets
+from typing import Any
+
+from sizer.errors import InputError
+from sizer.span_table.spec import DEAD, IMPOSED, AppliedLoad, SpanTableSpec
+
+
+def member_document(spec: SpanTableSpec, section: str, span: float, imposed: AppliedLoad) -> dict:
+    """The member file (as a TOML-ready dict) for `section` at span `span` (m) under `imposed`."""
+    count = spec.spans
+    length = span * count
+    document: dict[str, Any] = {
+        "title": f"{spec.title or 'Span table'}: {section}, {spec.layout} span {span:.6g} m",
+        "member": {"length": _metres(length), "material": spec.material, "section": section, "orientation": spec.orientation,
+                   "self_weight": spec.self_weight if spec.self_weight else False},
+        "supports": _supports(spec.layout, span, count),
+        "restraints": _restraints(spec, span),
+        "loads": _loads(spec, span, imposed),
+        "combinations": expanded_combinations(spec),
+    }
+    if spec.checks:
+        document["checks"] = _expanded_checks(spec)
+    if spec.materials:
+        document["materials"] = spec.materials
+    return {key: value for key, value in document.items() if value != []}
+
+
+def _metres(value: float) -> str:
+    return f"{value!r} m"
+
+
+def _supports(layout: str, span: float, count: int) -> list[dict]:
+    if layout == "cantilever":
+        return [{"at": _metres(0.0), "type": "fixed"}]
+    return [{"at": _metres(0.0), "type": "pin"}] + [{"at": _metres(span * i), "type": "roller"} for i in range(1, count + 1)]
+
+
+def restraint_positions(spec: SpanTableSpec, span: float) -> list[float]:
+    """Point restraints (m from end A) at the spacing from each span's start, inside each span (a
+    cantilever's tip included)."""
+    spacing = spec.restraint
+    if not isinstance(spacing, float):
+        return []
+    positions = []
+    for index in range(spec.spans):
+        k = 1
+        while k * spacing < span * (1 - 1e-9) or (spec.layout == "cantilever" and k * spacing <= span * (1 + 1e-9)):
+            positions.append(min(index * span + k * spacing, span * spec.spans))
+            k += 1
+    return positions
+
+
+def _restraints(spec: SpanTableSpec, span: float) -> list[dict]:
+    hold = ["lateral", "twist"]
+    if spec.restraint == "continuous":
+        return [{"from": _metres(0.0), "to": _metres(span * spec.spans), "hold": hold, "height": "top"}]
+    return [{"at": _metres(x), "hold": hold, "height": "top"} for x in restraint_positions(spec, span)]
+
+
+def _imposed_case(spec: SpanTableSpec, index: int) -> str:
+    return f"{IMPOSED} span {index + 1}" if spec.spans > 1 else IMPOSED
+
+
+def _loads(spec: SpanTableSpec, span: float, imposed: AppliedLoad) -> list[dict]:
+    loads = []
+    if spec.dead_load is not None:
+        loads.append({"type": "line", "case": DEAD, "wy": f"{spec.dead_load!r} N/m"})
+    for index in range(spec.spans):
+        start = index * span
+        if imposed.kind == "line":
+            loads.append({"type": "line", "case": _imposed_case(spec, index), "from": _metres(start), "to": _metres(start + span),
+                          "wy": f"{imposed.value!r} N/m"})
+        else:
+            at = span if spec.layout == "cantilever" else start + span / 2
+            loads.append({"type": "point", "case": _imposed_case(spec, index), "at": _metres(at), "fy": f"{imposed.value!r} N"})
+    return loads
+
+
+def _cases(spec: SpanTableSpec) -> list[str]:
+    cases = [spec.self_weight] if spec.self_weight else []
+    if spec.dead_load is not None and DEAD not in cases:
+        cases.append(DEAD)
+    return cases + [IMPOSED]
+
+
+def user_combinations(spec: SpanTableSpec) -> dict[str, dict]:
+    """The combinations as written, or one: every case x 1.0."""
+    if spec.combinations is not None:
+        return spec.combinations
+    cases = _cases(spec)
+    return {" + ".join(cases): {case: 1.0 for case in cases}}
+
+
+def _arrangements(spans: int) -> list[tuple[int, ...]]:
+    """Every non-empty set of loaded spans (0-based), all spans first."""
+    return [tuple(chosen) for size in range(spans, 0, -1) for chosen in subsets(range(spans), size)]
+
+
+def _arrangement_name(name: str, loaded: tuple[int, ...], spans: int) -> str:
+    if len(loaded) == spans:
+        return f"{name} (imposed on all spans)"
+    return f"{name} (imposed on span{'s' if len(loaded) > 1 else ''} {', '.join(str(i + 1) for i in loaded)})"
+
+
+def expanded_combinations(spec: SpanTableSpec) -> dict[str, dict]:
+    """The combinations of the member file: for a continuous layout, each one that has the imposed case
+    once for every arrangement of loaded spans (pattern loading)."""
+    combinations = user_combinations(spec)
+    if spec.spans == 1:
+        return combinations
+    expanded: dict[str, dict] = {}
+    for name, factors in combinations.items():
+        if not isinstance(factors, dict) or IMPOSED not in factors:
+            expanded[name] = factors
+            continue
+        others = {case: factor for case, factor in factors.items() if case != IMPOSED}
+        for loaded in _arrangements(spec.spans):
+            expanded[_arrangement_name(name, loaded, spec.spans)] = {**others, **{_imposed_case(spec, i): factors[IMPOSED] for i in loaded}}
+    return expanded
+
+
+def _expanded_checks(spec: SpanTableSpec) -> dict:
+    """[span_table.checks] with deflection_combinations expanded like the combinations."""
+    checks = dict(spec.checks)
+    chosen = checks.get("deflection_combinations")
+    if spec.spans > 1 and isinstance(chosen, list):
+        combinations = expanded_combinations(spec)
+        checks["deflection_combinations"] = [name for wanted in chosen for name in combinations
+                                             if name == wanted or (isinstance(wanted, str) and name.startswith(wanted + " (imposed on "))] or chosen
+    return checks
+
+
+def toml_text(document: dict) -> str:
+    """A small TOML writer for member documents: top-level tables, arrays of tables, inline values."""
+    lines: list[str] = []
+    for key, value in document.items():
+        if not isinstance(value, (dict, list)) or (isinstance(value, list) and not all(isinstance(item, dict) for item in value)):
+            lines.append(f"{_toml_key(key)} = {_toml_value(value)}")
+    for key, value in document.items():
+        if isinstance(value, dict):
+            lines.append(f"\n[{_toml_key(key)}]")
+            lines.extend(f"{_toml_key(name)} = {_toml_value(item)}" for name, item in value.items())
+        elif isinstance(value, list) and value and all(isinstance(item, dict) for item in value):
+            for item in value:
+                lines.append(f"\n[[{_toml_key(key)}]]")
+                lines.extend(f"{_toml_key(name)} = {_toml_value(entry)}" for name, entry in item.items())
+    return "\n".join(lines) + "\n"
+
+
+def _toml_key(key: str) -> str:
+    return key if key.replace("_", "").replace("-", "").isalnum() and key.isascii() else json.dumps(key)
+
+
+def _toml_value(value: Any) -> str:
+    if isinstance(value, bool):
+        return "true" if value else "false"
+    if isinstance(value, (int, float)):
+        return repr(value) if math.isfinite(value) else ("nan" if math.isnan(value) else ("inf" if value > 0 else "-inf"))
+    if isinstance(value, str):
+        return json.dumps(value, ensure_ascii=False)
+    if isinstance(value, list):
+        return "[" + ", ".join(_toml_value(item) for item in value) + "]"
+    if isinstance(value, dict):
+        return "{ " + ", ".join(f"{_toml_key(name)} = {_toml_value(item)}" for name, item in value.items()) + " }"
+    raise TypeError(f"no TOML form for {type(value).__name__}")
+
+
+def trial_member(spec: SpanTableSpec, section: str, span: float, imposed: AppliedLoad) -> Any:
+    """The trial's Member, read from its member-file text by the normal reader; an error in a value
+    that came from the span-table file names that file, its key and line."""
+    from sizer import api
+
+    try:
+        return api.member_from_text(toml_text(member_document(spec, section, span, imposed)), spec.path)
+    except InputError as error:
+        raise span_table_error(spec, error) from None
+
+
+def span_table_error(spec: SpanTableSpec, error: InputError) -> InputError:
+    """An error the member reader raised about the generated member, named as the span-table key it came from."""
+    if error.file != spec.path:
+        return error
+    key = error.key
+    if key.startswith(("checks", "combinations")):
+        key = "span_table." + key
+    elif key.startswith("member."):
+        key = "span_table." + key.removeprefix("member.")
+    elif not key.startswith("materials"):
+        key = "span_table"
+    from sizer.inputfile import KeyLines
+
+    return InputError(error.file, key, error.problem, error.fix, KeyLines(spec.text).find(key))
