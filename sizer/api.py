@@ -282,9 +282,7 @@ def size(member: MemberLike, catalogue: Sequence[str | Path] = (), families: Seq
                  for entry in map(candidate_entry, listed_candidates(result))]
     chosen_check = None
     if chosen is not None:
-        from sizer.sizing import design_for
-
-        chosen_design = design_for(member, material, chosen)
+        chosen_design = chosen.design  # solved for its full check
         notes += small_deflection_cautions(chosen_design.solution)
         chosen_check = check_outcome(chosen_design, chosen.report, notes, units)
     return SizeOutcome(chosen.name if chosen else None, chosen is not None, chosen.mass_per_length if chosen else None,

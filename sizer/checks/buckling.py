@@ -69,23 +69,17 @@ def buckling_lengths(member: Member) -> tuple[float, float]:
                  for length in (settings.buckling_length_major, settings.buckling_length_minor))  # type: ignore[return-value]
 
 
-def weakest_buckling_stresses(member: Member, area: np.ndarray, i11: np.ndarray, i22: np.ndarray, material: Any) -> np.ndarray:
-    """Smaller flexural buckling stress (Pa) of the two principal axes, for arrays of sections."""
-    major, minor = buckling_lengths(member)
-    return np.minimum(critical_stresses(major / np.sqrt(i11 / area), material.elastic_modulus, material.yield_strength),
-                      critical_stresses(minor / np.sqrt(i22 / area), material.elastic_modulus, material.yield_strength))
+def _axis(axis: str, inertia: float, length: float, props: Any, material: Any) -> BucklingAxis:
+    radius = math.sqrt(inertia / props.area)
+    stress, formula = critical_stress(length / radius, material.elastic_modulus, material.yield_strength)
+    return BucklingAxis(axis, length, radius, length / radius, stress, formula)
 
 
 def buckling_axes(member: Member, props: Any, material: Any) -> list[BucklingAxis]:
     """Buckling about the section's principal axes: major (I11) with buckling_length_major, minor (I22)
-    with buckling_length_minor; defaults: the member length."""
-    axes = []
-    for axis, inertia, length in zip(("major", "minor"), (props.I11, props.I22), buckling_lengths(member)):
-        radius = math.sqrt(inertia / props.area)
-        slenderness = length / radius
-        stress, formula = critical_stress(slenderness, material.elastic_modulus, material.yield_strength)
-        axes.append(BucklingAxis(axis, length, radius, slenderness, stress, formula))
-    return axes
+    with buckling_length_minor; defaults: the member length (for the record's hand calculation)."""
+    return [_axis(axis, inertia, length, props, material)
+            for axis, inertia, length in zip(("major", "minor"), (props.I11, props.I22), buckling_lengths(member))]
 
 
 def given_length_axes(member: Member, props: Any, material: Any) -> list[BucklingAxis]:
@@ -93,14 +87,18 @@ def given_length_axes(member: Member, props: Any, material: Any) -> list[Bucklin
     buckling_length_minor about I22); empty when none is given."""
     settings = member.checks
     given = (("major", props.I11, settings.buckling_length_major), ("minor", props.I22, settings.buckling_length_minor))
-    axes = []
-    for axis, inertia, length in given:
-        if length is None:
-            continue
-        radius = math.sqrt(inertia / props.area)
-        stress, formula = critical_stress(length / radius, material.elastic_modulus, material.yield_strength)
-        axes.append(BucklingAxis(axis, length, radius, length / radius, stress, formula))
-    return axes
+    return [_axis(axis, inertia, length, props, material) for axis, inertia, length in given if length is not None]
+
+
+def given_euler_loads(member: Member, i11: Any, i22: Any, modulus: float) -> np.ndarray:
+    """The smaller Euler load pi^2 E I / L^2 (N) on the buckling lengths the user gives, about I11 and
+    I22 (arrays of sections); infinite where none is given. The check's buckling load is at most it."""
+    settings = member.checks
+    load = np.full(np.shape(i11), np.inf)
+    for length, inertia in ((settings.buckling_length_major, i11), (settings.buckling_length_minor, i22)):
+        if length is not None:
+            load = np.minimum(load, math.pi**2 * modulus * np.asarray(inertia) / length**2)
+    return load
 
 
 @dataclass(frozen=True)

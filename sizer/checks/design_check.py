@@ -21,6 +21,7 @@ from sizer.checks.strength import (axial_check, bending_check, compression_allow
                                    shear_check)
 from sizer.design import Design
 from sizer.stability import MemberStability
+from sizer.stability.boundary import warping_held
 
 
 def check_design(design: Design, unit_field: Any, n_even: int = 200, stability: MemberStability | None = None) -> CheckReport:
@@ -102,14 +103,14 @@ def restraint_notes(design: Design) -> list[str]:
     """The restraints, load heights and support conditions the stability solves used."""
     member = design.member
     notes = []
-    supports = ", ".join(f"{s.label} at {s.at:g} m (warping {'held' if _warping(s) else 'free'})" for s in member.supports)
+    supports = ", ".join(f"{s.label} at {s.at:g} m (warping {'held' if warping_held(s) else 'free'})" for s in member.supports)
     notes.append(f"Supports for stability: {supports}; pins and rollers are forks (sideways movement and twist held).")
     if member.restraints:
         parts = []
         for r in member.restraints:
             holds = " and ".join(name for name, on in (("lateral", r.lateral), ("twist", r.twist)) if on)
             where = f"{r.start:g} m" if not r.continuous else f"{r.start:g} m to {r.end:g} m (continuous)"
-            height = f" at height {r.height if isinstance(r.height, str) else f'{r.height * 1e3:+g} mm'}" if r.lateral else ""
+            height = f" at height {_height_text(r.height)}" if r.lateral else ""
             parts.append(f"{holds} at {where}{height}")
         notes.append("Restraints: " + "; ".join(parts) + ".")
     else:
@@ -118,12 +119,6 @@ def restraint_notes(design: Design) -> list[str]:
     text = "Load heights: transverse loads act on the face they push on (top for a downward load) unless given"
     notes.append(text + (f" ({', '.join(heights)} given)" if heights else "") + "; self-weight at the centroid.")
     return notes
-
-
-def _warping(support: Any) -> bool:
-    from sizer.stability.boundary import warping_held
-
-    return warping_held(support)
 
 
 def _height_text(height: str | float) -> str:

@@ -10,7 +10,6 @@ bending with the loads' heights. A load factor scales the whole combination (sel
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -100,8 +99,3 @@ def _checked(buckling: Buckling, model: MemberStability, design: Design, combina
     moving = int(np.argmax(sizes))
     raise InputError(design.member.source, "supports", f"mechanism: nothing holds the member against {FIELD_WORDS[moving]}, "
                      f"and the loads of combination '{combination}' would drive it", FIELD_FIXES[moving])
-
-
-def critical_moment(lateral: Buckling | None, moment: float) -> float:
-    """The elastic critical moment (N*m): the load factor times the combination's peak moment."""
-    return math.inf if lateral is None else lateral.load_factor * moment

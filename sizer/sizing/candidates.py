@@ -23,6 +23,7 @@ from sizer.design import Design, oriented_stiffness
 from sizer.errors import InputError
 from sizer.model import Material, Member
 from sizer.stability import StabilitySection
+from sizer.stability.section import SCALARS, section_of
 
 
 @dataclass(frozen=True, eq=False)
@@ -74,12 +75,8 @@ class CandidateTable:
 
     def stability_sections(self, material: Material, rows: np.ndarray | None = None) -> StabilitySection:
         """Every candidate (or those `rows`) as one StabilitySection of arrays (the section's own axes)."""
-        E, G = material.elastic_modulus, material.shear_modulus
-        names = ("Iz", "Iy", "Iyz", "J", "Iw", "area", "ys", "zs", "Py", "Pz", "y_top", "y_bottom")
-        c = {name: self.column[name] if rows is None else self.column[name][rows] for name in names}
-        return StabilitySection(EIz=E * c["Iz"], EIy=E * c["Iy"], EIyz=E * c["Iyz"], GJ=G * c["J"], EIw=E * c["Iw"], area=c["area"],
-                                Iz=c["Iz"], Iy=c["Iy"], Iyz=c["Iyz"], y0=c["ys"], z0=c["zs"], Py=c["Py"], Pz=c["Pz"],
-                                y_top=c["y_top"], y_bottom=c["y_bottom"])
+        values = {name: self.column[name] if rows is None else self.column[name][rows] for name in SCALARS}
+        return section_of(values, material.elastic_modulus, material.shear_modulus)
 
 
 @dataclass
@@ -93,6 +90,7 @@ class Candidate:
     index: int  # row in the CandidateTable and the Screen
     bounds: dict[str, float] = field(default_factory=dict)  # check -> proven lower bound of its utilization
     report: CheckReport | None = None  # full check, where made
+    design: Design | None = None  # the solved design of that full check
 
     @cached_property
     def props(self) -> Any:

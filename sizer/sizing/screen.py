@@ -22,7 +22,8 @@ from sizer.analysis.section_axes import to_section_axes
 from sizer.analysis.patterns import arrangements_of
 from sizer.checks import StationStresses, full_field_stresses, span_points
 from sizer.checks.deflection import limit_entries, limited_spans, measured
-from sizer.checks.buckling import critical_stresses
+from sizer.checks.buckling import given_euler_loads
+from sizer.checks.reduction import johnson
 from sizer.design import oriented_stiffness
 from sizer.model import DeflectionLimit, Material, Member
 from sizer.sizing.candidates import Candidate, CandidateTable
@@ -96,13 +97,8 @@ def given_length_compression(table: CandidateTable, member: Member, material: Ma
     to the Johnson/Euler buckling stress on each buckling length the user gives / safety factor
     (the check's buckling load is at most these)."""
     allowable = material.allowable.compression or np.inf
-    settings = member.checks
-    stress = np.full(len(table.mass), np.inf)
-    for length, inertia in ((settings.buckling_length_major, table.I11), (settings.buckling_length_minor, table.I22)):
-        if length is not None:
-            stress = np.minimum(stress, critical_stresses(length / np.sqrt(inertia / table.area), material.elastic_modulus,
-                                                          material.yield_strength))
-    return np.minimum(allowable, stress / settings.buckling_safety_factor)
+    load = given_euler_loads(member, table.I11, table.I22, material.elastic_modulus)
+    return np.minimum(allowable, johnson(load / table.area, material.yield_strength) / member.checks.buckling_safety_factor)
 
 
 def _scaled(coefficient: np.ndarray, mass: np.ndarray, pair: np.ndarray) -> np.ndarray:

@@ -82,6 +82,7 @@ class Search:
         if candidate.report is None:
             self.reveal([candidate])
             design = design_for(self.member, self.material, candidate, self.base)
+            candidate.design = design
             candidate.report = check_design(design, unit_stress_field(candidate.spec), stability=self.model)
             if self.stability is not None and candidate.report.stability is not None:
                 self.stability.add(candidate.report.stability)

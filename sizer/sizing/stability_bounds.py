@@ -16,19 +16,17 @@ from __future__ import annotations
 import numpy as np
 
 from sizer.analysis import MemberSolution
+from sizer.checks.buckling import given_euler_loads
 from sizer.checks.reduction import johnson, reduced_allowable
 from sizer.checks.results import ZERO_ACTION
 from sizer.checks.stability import StabilityReport
 from sizer.model import Material, Member
 from sizer.sizing.candidates import CandidateTable
-from sizer.sizing.screen import Screen, load_and_weight_factors
+from sizer.sizing.screen import Screen
 from sizer.stability import MemberStability, minor_axis_is_weaker
 from sizer.stability.boundary import admissible_basis
 from sizer.stability.problem import term_coefficients
 from sizer.stability.ritz import Projection, assemble, largest_inverse, project, strict_rows
-
-KINDS = {"axial": "buckling", "lateral": "lateral-torsional"}
-
 
 class StabilityBounds:
     """Lower bounds of the stability checks of every candidate (see the module docstring)."""
@@ -36,16 +34,11 @@ class StabilityBounds:
     def __init__(self, model: MemberStability, base: MemberSolution, table: CandidateTable, found: Screen, member: Member,
                  material: Material) -> None:
         self.model, self.table, self.member, self.material = model, table, member, material
-        self.sections = table.stability_sections(material)
-        factors = load_and_weight_factors(base)
-        loads, per_mass = np.split(factors, 2)
         self.demand = {"axial": found.compression, "lateral": found.moment}
-        self.lateral_applies = minor_axis_is_weaker(self.sections)
-        self.rows = (loads, per_mass)
+        self.lateral_applies = minor_axis_is_weaker(table)  # Iz and Iy: the geometric tier, known for every row
         self.wanted = {(kind, c) for kind, demand in self.demand.items() for c in range(len(base.combination_names))
                        if np.any(demand[c] > ZERO_ACTION)}
         self.basis: np.ndarray | None = None  # made with the first shapes
-        self.terms: dict[tuple[str, int], tuple[dict[str, np.ndarray], dict[str, np.ndarray]]] = {}
         self.shapes: dict[tuple[str, int], list[np.ndarray]] = {key: [] for key in self.wanted}
         self.projections: dict[tuple[str, int], Projection] = {}
         self.stale: set[tuple[str, int]] = set()
@@ -86,10 +79,7 @@ class StabilityBounds:
     def _buckling(self, rows: np.ndarray, factors: dict[tuple[str, int], np.ndarray]) -> np.ndarray:
         table, material, settings = self.table, self.material, self.member.checks
         area = table.area[rows]
-        given = np.full(len(rows), np.inf)
-        for length, inertia in ((settings.buckling_length_major, table.I11), (settings.buckling_length_minor, table.I22)):
-            if length is not None:
-                given = np.minimum(given, np.pi**2 * material.elastic_modulus * inertia[rows] / length**2)
+        given = given_euler_loads(self.member, table.I11[rows], table.I22[rows], material.elastic_modulus)
         worst = np.zeros(len(rows))
         for c, compression in enumerate(self.demand["axial"][:, rows]):
             factor = factors.get(("axial", c), np.full(len(rows), np.inf))

@@ -20,7 +20,7 @@ from sizer.analysis.section_axes import to_section_axes
 from sizer.model import Member
 from sizer.stability.boundary import admissible_basis, restraint_rows, spring_diagonal, support_rows, warping_rows
 from sizer.stability.elements import quadrature
-from sizer.stability.heights import height_coefficients, height_terms
+from sizer.stability.heights import HEIGHT_KEYS, height_coefficients, height_terms
 from sizer.stability.mesh import ELEMENTS_PER_LENGTH, FIELDS, build_mesh
 from sizer.stability.section import StabilitySection
 from sizer.stability.solve import Buckling, Reduced
@@ -103,8 +103,14 @@ class MemberStability:
         key = (kind, column, positive)
         if key not in self._columns:
             unit = np.zeros(len(self.cases) + 1)
-            unit[column] = 1.0 if positive else -1.0
-            self._columns[key] = self.load_set_terms(kind, unit)
+            unit[column] = 1.0
+            if positive:
+                self._columns[key] = self.load_set_terms(kind, unit)
+            else:  # linear in the actions, so negated; only the default load heights follow the factor's sign
+                terms = {name: -matrix for name, matrix in self.column_terms(kind, column, True).items() if name not in HEIGHT_KEYS}
+                if kind == "lateral":
+                    terms.update(height_terms(self.quad, self.member, self.orientation, -unit, self.cases))
+                self._columns[key] = terms
         return self._columns[key]
 
     def geometry(self, kind: str, section: StabilitySection, weights: np.ndarray) -> np.ndarray:

@@ -66,14 +66,24 @@ class StabilitySection:
 def stability_section(props: Any, elastic_modulus: float, shear_modulus: float) -> StabilitySection:
     """The StabilitySection of one catalogue section (sizer.sections.SectionProperties, whose axes are
     the section's own whatever its orientation on the member) in a material (E, G in Pa)."""
-    E, G = elastic_modulus, shear_modulus
     y0, z0 = props.shear_centre
-    return StabilitySection(
-        EIz=E * props.Iz, EIy=E * props.Iy, EIyz=E * props.Iyz, GJ=G * props.J, EIw=E * props.Iw, area=props.area,
-        Iz=props.Iz, Iy=props.Iy, Iyz=props.Iyz, y0=y0, z0=z0, Py=props.Py, Pz=props.Pz, y_top=props.y_top, y_bottom=props.y_bottom)
+    values = {name: getattr(props, name) for name in SCALARS if name not in ("ys", "zs")}
+    return section_of(values | {"ys": y0, "zs": z0}, elastic_modulus, shear_modulus)
 
 
-def minor_axis_is_weaker(section: StabilitySection, tolerance: float = 1e-3) -> Any:
+SCALARS = ("Iz", "Iy", "Iyz", "J", "Iw", "area", "ys", "zs", "Py", "Pz", "y_top", "y_bottom")  # section scalars by their table names
+
+
+def section_of(values: Any, elastic_modulus: float, shear_modulus: float) -> StabilitySection:
+    """The StabilitySection of section scalars by their table names (SCALARS; floats or arrays of
+    many sections) in a material (E, G in Pa)."""
+    E, G, v = elastic_modulus, shear_modulus, values
+    return StabilitySection(EIz=E * v["Iz"], EIy=E * v["Iy"], EIyz=E * v["Iyz"], GJ=G * v["J"], EIw=E * v["Iw"], area=v["area"],
+                            Iz=v["Iz"], Iy=v["Iy"], Iyz=v["Iyz"], y0=v["ys"], z0=v["zs"], Py=v["Py"], Pz=v["Pz"],
+                            y_top=v["y_top"], y_bottom=v["y_bottom"])
+
+
+def minor_axis_is_weaker(section: Any, tolerance: float = 1e-3) -> Any:
     """True where bending about the section's z axis is about its stronger axis by more than
     `tolerance` (relative): only such a member can buckle sideways."""
     return np.asarray(section.Iz) > np.asarray(section.Iy) * (1 + tolerance)
