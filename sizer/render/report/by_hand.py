@@ -112,7 +112,7 @@ def by_hand_lines(design: Design, station: Station, unit_field: Any, system: str
     """(what, the formula with numbers, the full field and how it compares) for each stress."""
     props = design.props
     N, Vy, Vz, T, My, Mz = (float(v) for v in station.actions)
-    sigma, tau = unit_field.stresses(N=N, Vy=Vy, Vz=Vz, T=T, My=My, Mz=Mz)
+    _, tau = unit_field.stresses(N=N, Vy=Vy, Vz=Vz, T=T, My=My, Mz=Mz)
     bend_only, _ = unit_field.stresses(My=My, Mz=Mz)
     f, s = units.fmt, system
     rows = []
