@@ -1,6 +1,6 @@
 """Speed figures for `sizer schedule` and `sizer span-table` (a plain script; not part of the test suite).
 
-    .venv/bin/python benchmarks/bench_many.py [--workdir DIR] [--members 200] [--spans 20] [--jobs 2]
+    .venv/bin/python benchmarks/bench_many.py [--workdir DIR] [--members 200] [--spans 20] [--jobs 2] [--repeats 5]
 
 Writes a schedule of generated members (invented floor beams: each its own span, loads and support
 layout; two in three sized against the shipped catalogue, the rest checked) into a temporary folder
@@ -8,6 +8,8 @@ layout; two in three sized against the shipped catalogue, the rest checked) into
 of earlier runs removed first so every row is worked out):
   (a)  `sizer schedule` with --jobs 1
   (b)  the same with --jobs N (default: every core), and the speed-up (a) / (b)
+       (a) and (b) are run in turn `--repeats` times (default 5); the medians are compared, so that a
+       burst of other work on a shared machine does not decide the figure
   (c)  `sizer span-table` for the whole shipped catalogue, mode "load" at `--spans` spans, with --jobs N,
        and the full checks it made
 Target (issue 16): (a) / (b) >= 1.8 on 2 cores.
@@ -21,6 +23,7 @@ import json
 import os
 import resource
 import shutil
+import statistics
 import subprocess
 import sys
 import tempfile
@@ -124,25 +127,40 @@ def timed(arguments: list[str]) -> tuple[float, float, dict]:
     return elapsed, cpu, json.loads(done.stdout)
 
 
+def rows_of(document: dict) -> list[tuple]:
+    """What must not depend on who ran the rows: each row's section and utilization, in order."""
+    return [(row["section"], row["utilization"]) for row in document["members"]]
+
+
 def main() -> None:
     parser = argparse.ArgumentParser(description=__doc__.split("\n")[0])
     parser.add_argument("--workdir", type=Path)
     parser.add_argument("--members", type=int, default=200)
     parser.add_argument("--spans", type=int, default=20, help="spans of the span table (0: no span table)")
     parser.add_argument("--jobs", type=int, default=os.cpu_count() or 2)
+    parser.add_argument("--repeats", type=int, default=5, help="runs of (a) and (b) each, in turn")
     options = parser.parse_args()
     folder = options.workdir or Path(tempfile.mkdtemp(prefix="sizer-bench-many-"))
     schedule = write_schedule(folder, options.members)
     print(f"workdir {folder}; {options.members} members; {options.jobs} jobs; cores {os.cpu_count()}")
 
     print(f"load average before: {os.getloadavg()[0]:.1f} (other work on the machine slows the wall times)")
-    one, one_cpu, document = timed(["schedule", str(schedule), "--jobs", "1"])
+    ones, manys, same = [], [], True
+    for _ in range(options.repeats):
+        ones.append(timed(["schedule", str(schedule), "--jobs", "1"]))
+        manys.append(timed(["schedule", str(schedule), "--jobs", str(options.jobs)]))
+        same &= rows_of(ones[-1][2]) == rows_of(manys[-1][2]) == rows_of(ones[0][2])
+    one, one_cpu = (statistics.median(run[k] for run in ones) for k in (0, 1))
+    many, many_cpu = (statistics.median(run[k] for run in manys) for k in (0, 1))
+    document = ones[0][2]
     sized = sum(row["do"] == "size" for row in document["members"])
-    print(f"(a) schedule --jobs 1:  {one:7.1f} s wall, {one_cpu:6.1f} s CPU  ({sized} sized, {len(document['members']) - sized} checked)")
-    many, many_cpu, again = timed(["schedule", str(schedule), "--jobs", str(options.jobs)])
-    same = [(r["section"], r["utilization"]) for r in document["members"]] == [(r["section"], r["utilization"]) for r in again["members"]]
-    print(f"(b) schedule --jobs {options.jobs}:  {many:7.1f} s wall, {many_cpu:6.1f} s CPU  speed-up {one / many:.2f} (target >= 1.8); "
-          f"CPU overhead of the processes {many_cpu / one_cpu - 1:+.0%}; rows identical: {same}")
+    print(f"(a) schedule --jobs 1:  {one:7.2f} s wall (median of {', '.join(f'{run[0]:.2f}' for run in ones)}), {one_cpu:6.1f} s CPU  "
+          f"({sized} sized, {len(document['members']) - sized} checked)")
+    print(f"(b) schedule --jobs {options.jobs}:  {many:7.2f} s wall (median of {', '.join(f'{run[0]:.2f}' for run in manys)}), {many_cpu:6.1f} s CPU")
+    pairs = [a[0] / b[0] for a, b in zip(ones, manys)]
+    print(f"    speed-up {one / many:.2f} of the medians, {statistics.median(pairs):.2f} the median of the pairs run in turn "
+          f"({', '.join(f'{pair:.2f}' for pair in pairs)}) (target >= 1.8); CPU overhead of the processes {many_cpu / one_cpu - 1:+.0%}; "
+          f"rows identical in every run: {same}")
     print(f"    load average after: {os.getloadavg()[0]:.1f}")
 
     if options.spans < 1:

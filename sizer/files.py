@@ -71,11 +71,13 @@ def _writable(path: Path, mode: int) -> bool:
         return False
 
 
-def write_atomic(path: str | Path, data: bytes | str) -> None:
+def write_atomic(path: str | Path, data: bytes | str, durable: bool = True) -> None:
     """Write `data` to `path` atomically (temp file in the same folder, fsync, os.replace). A file
     that is replaced keeps its permissions; a new one gets the usual mode (0o666 less the umask).
     A read-only file is not replaced (PermissionError). Missing folders are made (caches); a file
-    the user named is checked with check_output first, which refuses a missing folder."""
+    the user named is checked with check_output first, which refuses a missing folder.
+    `durable=False` skips the fsync: for cache entries that are checked when read and redone when
+    damaged, where a power cut may lose the entry but no reader ever sees half of it."""
     path = Path(path)
     payload = data.encode("utf-8") if isinstance(data, str) else data
     path.parent.mkdir(parents=True, exist_ok=True)
@@ -87,7 +89,8 @@ def write_atomic(path: str | Path, data: bytes | str) -> None:
         with os.fdopen(handle, "wb") as stream:
             stream.write(payload)
             stream.flush()
-            os.fsync(stream.fileno())
+            if durable:
+                os.fsync(stream.fileno())
         os.replace(temporary, path)
     except BaseException:
         Path(temporary).unlink(missing_ok=True)

@@ -1,7 +1,10 @@
 """Many independent jobs (schedule rows, span-table cells) on the local cores or on a Dask cluster.
 
-- Local: `concurrent.futures.ProcessPoolExecutor` with the spawn start method (`jobs` processes);
-  one job or `jobs = 1` runs in this process.
+- Local: `concurrent.futures.ProcessPoolExecutor` (`jobs` processes); one job or `jobs = 1` runs in
+  this process. On Linux, while this process runs a single thread, the workers are forked from it
+  after it has imported what the jobs need, so they start at once with sizer loaded; elsewhere (fork
+  is unsafe on macOS and absent on Windows) or beside other threads, each is a fresh interpreter
+  (spawn) that imports sizer itself. The results are the same either way.
 - Cluster: `--cluster ADDRESS`, an existing Dask distributed scheduler (`pip install 'sizer[cluster]'`);
   its workers need sizer installed. Jobs carry everything they read (the member, the catalogue's
   text), so the workers need none of the user's files.
@@ -23,7 +26,7 @@ import os
 from dataclasses import asdict, dataclass, field, fields, is_dataclass
 from functools import lru_cache
 from pathlib import Path
-from typing import Any, Callable, Sequence
+from typing import Any, Callable, Iterable, Iterator, Sequence
 
 from sizer.errors import InputError
 from sizer.files import cache_root, write_atomic
@@ -178,9 +181,10 @@ def read_kept(key: str) -> dict | None:
 
 
 def keep(key: str, result: dict) -> None:
-    """Keep a finished result (never one that is bad input: that is redone, and fails again, next time)."""
+    """Keep a finished result (never one that is bad input: that is redone, and fails again, next time).
+    No fsync: a kept result is checked against its key when read and redone when damaged."""
     if "error" not in result:
-        write_atomic(_kept_path(key), json.dumps({"key": key, "result": result}, ensure_ascii=False))
+        write_atomic(_kept_path(key), json.dumps({"key": key, "result": result}, ensure_ascii=False), durable=False)
 
 
 # ----------------------------------------------------------------------------------------------
@@ -212,19 +216,37 @@ class JobFailed(Exception):
 
 def warm_up() -> None:
     """When a worker process starts: leave Ctrl-C to the parent (it keeps what is finished and stops the
-    rest), and import what every job needs (numpy, scipy, the analysis and the checks)."""
+    rest), and import what every job needs."""
     import signal
 
     signal.signal(signal.SIGINT, signal.SIG_IGN)
+    import_job_modules()
+
+
+def import_job_modules() -> None:
+    """Import what every job needs (numpy, the analysis, the sections, the checks and the sizing)."""
     import sizer.api  # noqa: F401
-    from sizer import checks, design, sections  # noqa: F401
+    from sizer import checks, design, sections, sizing  # noqa: F401
+
+
+def local_context() -> Any:
+    """The start method of local workers: fork on Linux while this process runs one thread (a fork
+    copies only the calling thread, so a lock another thread holds could never be released in the
+    copy), else spawn."""
+    import multiprocessing
+    import sys
+    import threading
+
+    if sys.platform.startswith("linux") and threading.active_count() == 1:
+        return multiprocessing.get_context("fork")
+    return multiprocessing.get_context("spawn")
 
 
 class Workers:
     """Where the jobs run: this process, local worker processes, or a Dask cluster. Opened before the
-    jobs are prepared, so that local processes start and import sizer while this process reads the
-    input (they start on demand: one trivial task each starts them all), and a cluster's address is
-    tried at once."""
+    jobs are prepared: forked workers are copies of this process with the job modules imported first;
+    spawned ones start and import sizer while this process reads the input (one trivial task each
+    starts them all); a cluster's address is tried at once."""
 
     def __init__(self, jobs: int | None = None, cluster: str | None = None) -> None:
         check_workers(jobs, cluster)
@@ -237,10 +259,12 @@ class Workers:
         if self.cluster:
             self.client = _cluster_client(self.cluster)
         elif self.count > 1:
-            import multiprocessing
             from concurrent.futures import ProcessPoolExecutor
 
-            self.pool = ProcessPoolExecutor(self.count, mp_context=multiprocessing.get_context("spawn"), initializer=warm_up)
+            context = local_context()
+            if context.get_start_method() == "fork":
+                import_job_modules()
+            self.pool = ProcessPoolExecutor(self.count, mp_context=context, initializer=warm_up)
             for _ in range(self.count):
                 self.pool.submit(int)
         return self
@@ -251,81 +275,123 @@ class Workers:
         if self.client is not None:
             self.client.close()
 
-    def run(self, work: Work, jobs: Sequence[Job], description: str = "Working", stop_on_error: bool = True,
-            show_progress: bool = True) -> tuple[list[dict], RunSummary]:
-        """Every job's result, in the jobs' order: kept results first, the rest run by `work`. Jobs with
-        the same key run once. With `stop_on_error`, the first bad-input result stops the run
-        (JobFailed, naming the job)."""
-        results: list[dict | None] = [read_kept(job.key) for job in jobs]
+    def run(self, work: Work, jobs: Iterable[Job], description: str = "Working", stop_on_error: bool = True,
+            show_progress: bool = True, total: int | None = None) -> tuple[list[dict], RunSummary]:
+        """Every job's result, in the jobs' order. Each job is started as soon as `jobs` yields it, so
+        that preparing the later jobs overlaps the work of the earlier ones; a kept result is taken
+        instead of running the job, and a job with the key of an earlier one shares its run. With
+        `stop_on_error`, the first bad-input result stops the run (JobFailed, naming the job). `total`
+        is the count of jobs for the progress bar, when `jobs` is not a sequence."""
+        taken: list[Job] = []
+        results: list[dict | None] = []
         sharing: dict[str, list[int]] = {}
-        for index, result in enumerate(results):
-            if result is None:
-                sharing.setdefault(jobs[index].key, []).append(index)
-        pending = [indices[0] for indices in sharing.values()]
-        resumed = sum(result is not None for result in results)
-        summary = RunSummary(total=len(jobs), resumed=resumed, ran=len(jobs) - resumed)
+        summary = RunSummary(where=self.where)
+        runner = self.runner(work)
 
         def finished(index: int, result: dict) -> None:
-            keep(jobs[index].key, result)
-            for same in sharing[jobs[index].key]:
+            keep(taken[index].key, result)
+            for same in sharing[taken[index].key]:
                 results[same] = result
             if stop_on_error and (error := result_error(result)) is not None:
                 raise JobFailed(index, error)
 
-        with _progress(description, len(pending) + resumed, resumed, show_progress and bool(pending)) as advance:
-            if self.client is not None:
-                summary.where = f"the Dask cluster at {self.cluster}"
-                _run_on_cluster(work, jobs, pending, self.client, finished, advance)
-            elif self.pool is not None and len(pending) > 1:
-                summary.where = f"{self.count} local processes"
-                _run_on_processes(work, jobs, pending, self.pool, finished, advance)
-            else:
-                summary.where = "1 local process"
-                _run_here(work, jobs, pending, finished, advance)
+        count = total if total is not None else len(jobs)  # type: ignore[arg-type]
+        with _progress(description, count, show_progress) as bar:
+            try:
+                for index, job in enumerate(jobs):
+                    taken.append(job)
+                    kept = read_kept(job.key)
+                    results.append(kept)
+                    if kept is not None:
+                        summary.resumed += 1
+                        bar.advance(job.label)
+                    elif job.key in sharing:
+                        sharing[job.key].append(index)
+                    else:
+                        sharing[job.key] = [index]
+                        bar.begin()
+                        runner.start(index, job)
+                for index, result in runner.finished():
+                    finished(index, result)
+                    bar.advance(taken[index].label)
+            except BaseException:
+                runner.cancel()
+                raise
+        summary.total = len(taken)
+        summary.ran = summary.total - summary.resumed
         return [result for result in results if result is not None], summary
 
+    @property
+    def where(self) -> str:
+        if self.client is not None:
+            return f"the Dask cluster at {self.cluster}"
+        return f"{self.count} local processes" if self.pool is not None else "1 local process"
 
-def _run_here(work: Work, jobs: Sequence[Job], pending: list[int], finished: Callable[[int, dict], None],
-              advance: Callable[[str], None]) -> None:
-    for index in pending:
-        finished(index, work(jobs[index].payload))
-        advance(jobs[index].label)
+    def runner(self, work: Work) -> "_Here | _Processes | _Cluster":
+        if self.client is not None:
+            return _Cluster(work, self.client)
+        return _Processes(work, self.pool) if self.pool is not None else _Here(work)
 
 
-def _run_on_processes(work: Work, jobs: Sequence[Job], pending: list[int], pool: Any,
-                      finished: Callable[[int, dict], None], advance: Callable[[str], None]) -> None:
-    """Local processes (spawn: a clean interpreter each, the same on every platform)."""
-    from concurrent.futures import FIRST_COMPLETED, wait
+class _Here:
+    """Jobs run in this process, each when it is started."""
 
-    futures = {pool.submit(work, jobs[index].payload): index for index in pending}
-    try:
-        waiting = set(futures)
+    def __init__(self, work: Work) -> None:
+        self.work, self.done = work, []
+
+    def start(self, index: int, job: Job) -> None:
+        self.done.append((index, self.work(job.payload)))
+
+    def finished(self) -> Iterator[tuple[int, dict]]:
+        yield from self.done
+
+    def cancel(self) -> None:
+        pass
+
+
+class _Processes:
+    """Jobs on the local worker processes (forked or spawned: see `local_context`)."""
+
+    def __init__(self, work: Work, pool: Any) -> None:
+        self.work, self.pool, self.futures = work, pool, {}
+
+    def start(self, index: int, job: Job) -> None:
+        self.futures[self.pool.submit(self.work, job.payload)] = index
+
+    def finished(self) -> Iterator[tuple[int, dict]]:
+        """(index, result) as the jobs finish; those finished together in the jobs' order."""
+        from concurrent.futures import FIRST_COMPLETED, wait
+
+        waiting = set(self.futures)
         while waiting:
             done, waiting = wait(waiting, return_when=FIRST_COMPLETED)
-            for future in sorted(done, key=futures.__getitem__):
-                finished(futures[future], future.result())
-                advance(jobs[futures[future]].label)
-    except BaseException:
-        for future in futures:
+            for future in sorted(done, key=self.futures.__getitem__):
+                yield self.futures[future], future.result()
+
+    def cancel(self) -> None:
+        for future in self.futures:
             future.cancel()
-        raise
 
 
-def _run_on_cluster(work: Work, jobs: Sequence[Job], pending: list[int], client: Any,
-                    finished: Callable[[int, dict], None], advance: Callable[[str], None]) -> None:
-    """An existing Dask distributed cluster (the client is closed by Workers, the cluster left running)."""
-    from distributed import as_completed
+class _Cluster:
+    """Jobs on an existing Dask distributed cluster (the client is closed by Workers, the cluster left running)."""
 
-    futures = client.map(work, [jobs[index].payload for index in pending], key=[f"sizer-{jobs[index].key}" for index in pending], pure=False)
-    where = {future.key: index for future, index in zip(futures, pending)}
-    try:
-        for future in as_completed(futures, loop=client.loop):
-            index = where[future.key]
-            finished(index, future.result())
-            advance(jobs[index].label)
-    except BaseException:
-        client.cancel(futures)
-        raise
+    def __init__(self, work: Work, client: Any) -> None:
+        self.work, self.client, self.futures = work, client, {}
+
+    def start(self, index: int, job: Job) -> None:
+        future = self.client.submit(self.work, job.payload, key=f"sizer-{job.key}", pure=False)
+        self.futures[future.key] = (future, index)
+
+    def finished(self) -> Iterator[tuple[int, dict]]:
+        from distributed import as_completed
+
+        for future in as_completed([future for future, _ in self.futures.values()], loop=self.client.loop):
+            yield self.futures[future.key][1], future.result()
+
+    def cancel(self) -> None:
+        if self.futures:
+            self.client.cancel([future for future, _ in self.futures.values()])
 
 
 def _cluster_client(address: str) -> Any:
@@ -342,14 +408,20 @@ def _cluster_client(address: str) -> Any:
 
 
 class _progress:
-    """A context giving advance(label): a rich progress bar on stderr (count done, time left) when shown."""
+    """A context giving a progress bar on stderr (rich: count done, time left), when shown: `begin()`
+    shows it (at the first job that runs: a run of kept results only shows none), `advance(label)`
+    counts one job done."""
 
-    def __init__(self, description: str, total: int, done: int, shown: bool) -> None:
-        self.description, self.total, self.done, self.shown = description, total, done, shown
+    def __init__(self, description: str, total: int, shown: bool) -> None:
+        self.description, self.total, self.shown = description, total, shown
+        self.done = 0
         self.bar: Any = None
 
-    def __enter__(self) -> Callable[[str], None]:
-        if self.shown:
+    def __enter__(self) -> "_progress":
+        return self
+
+    def begin(self) -> None:
+        if self.shown and self.bar is None:
             from rich.console import Console
             from rich.progress import BarColumn, MofNCompleteColumn, Progress, TextColumn, TimeElapsedColumn, TimeRemainingColumn
 
@@ -358,9 +430,9 @@ class _progress:
                                 console=Console(stderr=True), transient=True)
             self.bar.start()
             self.task = self.bar.add_task(self.description, total=self.total, completed=self.done, label="")
-        return self.advance
 
     def advance(self, label: str) -> None:
+        self.done += 1
         if self.bar is not None:
             self.bar.update(self.task, advance=1, label=label)
 

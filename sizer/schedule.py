@@ -18,7 +18,7 @@ import csv
 import io
 from dataclasses import dataclass, field, replace
 from pathlib import Path
-from typing import Any, Sequence
+from typing import Any, Iterator, Sequence
 
 from sizer.errors import InputError
 from sizer.model import LineLoad, Member, PointLoad
@@ -314,10 +314,11 @@ def _record_html(checked: Any) -> str:
 # ----------------------------------------------------------------------------------------------
 # the whole schedule
 
-def prepare_tasks(schedule: Schedule, catalogue: Sequence[Path], record: bool, keep_going: bool) -> tuple[list[tuple[ScheduleRow, RowTask, list[str]]], list[RowError]]:
-    """Every row's task (rows in order); bad rows raise at once, or with keep_going are collected."""
+def prepare_tasks(schedule: Schedule, catalogue: Sequence[Path], record: bool, keep_going: bool,
+                  errors: list[RowError]) -> Iterator[tuple[ScheduleRow, RowTask, list[str]]]:
+    """Every row's task, rows in order, each as soon as it is read (so that the work on the first rows
+    starts while the later ones are read); a bad row raises, or with keep_going is added to `errors`."""
     catalogues: dict[tuple, tuple[Any, ShippedCatalogue]] = {}
-    tasks, errors = [], []
     for row in schedule.rows:
         try:
             task, notes = row_task(schedule, row, catalogue, record, catalogues)
@@ -327,8 +328,7 @@ def prepare_tasks(schedule: Schedule, catalogue: Sequence[Path], record: bool, k
                 raise wrapped from None
             errors.append(RowError(row.mark, row.where, str(wrapped)))
             continue
-        tasks.append((row, task, notes))
-    return tasks, errors
+        yield row, task, notes
 
 
 def row_error(schedule: Schedule, row: ScheduleRow, error: InputError) -> InputError:
@@ -342,11 +342,18 @@ def run_schedule(schedule: Schedule, catalogue: Sequence[Path] = (), jobs: int |
                  keep_going: bool = False, record: bool = False, show_progress: bool = True) -> ScheduleResult:
     """Size or check every row (in parallel); rows in the schedule's order. InputError for the first bad
     row, unless keep_going (then the bad rows are in `errors` and the rest still run)."""
+    tasks: list[tuple[ScheduleRow, RowTask, list[str]]] = []
+    errors: list[RowError] = []
+
+    def jobs_as_read() -> Iterator[Job]:
+        for row, task, notes in prepare_tasks(schedule, catalogue, record, keep_going, errors):
+            tasks.append((row, task, notes))
+            yield Job(row_key(task), task, row.mark)
+
     with Workers(jobs, cluster) as workers:
-        tasks, errors = prepare_tasks(schedule, catalogue, record, keep_going)
-        work = [Job(row_key(task), task, row.mark) for row, task, _ in tasks]
         try:
-            results, summary = workers.run(work_row, work, "Members", stop_on_error=not keep_going, show_progress=show_progress)
+            results, summary = workers.run(work_row, jobs_as_read(), "Members", stop_on_error=not keep_going,
+                                           show_progress=show_progress, total=len(schedule.rows))
         except JobFailed as failed:
             raise row_error(schedule, tasks[failed.index][0], failed.error) from None
     rows, records = [], {}
