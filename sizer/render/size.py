@@ -120,7 +120,7 @@ def size_renderables(result: SizingResult, notes: list[str], top: int, system: s
                       "", sizing_verdict(result, system), ""]
     chosen = result.chosen
     if chosen is not None:
-        out += [checks_ledger(chosen.report, design_for(member, result.material, chosen), system), ""]
+        out += [checks_ledger(chosen.report, chosen.design or design_for(member, result.material, chosen), system), ""]
     return out + [candidates_ledger(result, top, system), "", notes_panel(notes, system=system), cautions_panel()]
 
 

@@ -51,11 +51,21 @@ def _pieces(plain: str, glue: str, start: int, end: int, room: int) -> list[tupl
     return pieces + [(start, end)]
 
 
+def _cell_offsets(plain: str) -> list[int]:
+    """offsets[i] = the cells of plain[:i], so that plain[a:b] takes offsets[b] - offsets[a] cells."""
+    from itertools import accumulate
+
+    from rich.cells import cell_len
+
+    if plain.isascii():
+        return list(range(len(plain) + 1))
+    return list(accumulate((cell_len(character) for character in plain), initial=0))
+
+
 def _line_breaks(plain: str, width: int, first: int, rest: int) -> list[tuple[int, int]]:
     """(start, end) of each line of `plain` wrapped greedily at its ordinary spaces and newlines;
     the first line has `first` cells of room, the others `rest`."""
-    from rich.cells import cell_len
-
+    offsets = _cell_offsets(plain)
     glue = glued(plain)
     lines: list[tuple[int, int]] = []
     offset = 0
@@ -65,10 +75,10 @@ def _line_breaks(plain: str, width: int, first: int, rest: int) -> list[tuple[in
         for word in re.finditer(r"[^ ]+", part):
             w_start, w_end = offset + word.start(), offset + word.end()
             room = max(1, first if not lines else rest)
-            if not empty and cell_len(plain[start:w_end]) > room:
+            if not empty and offsets[w_end] - offsets[start] > room:
                 lines.append((start, end))
                 start, empty, room = w_start, True, max(1, rest)
-            if cell_len(plain[start:w_end]) > room:
+            if offsets[w_end] - offsets[start] > room:
                 *whole, (w_start, w_end) = _pieces(plain, glue, start, w_end, room)
                 lines += whole
                 start = w_start

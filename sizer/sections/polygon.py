@@ -15,6 +15,7 @@ outline gives the same numbers to round-off (tests/test_tiers.py holds them to t
 from __future__ import annotations
 
 from dataclasses import dataclass
+from functools import lru_cache
 import math
 from math import comb, factorial
 from typing import Sequence
@@ -54,15 +55,23 @@ class _Edges:
         a = np.vstack(rings) if rings else np.zeros((0, 2))
         b = np.vstack([np.roll(ring, -1, axis=0) for ring in rings]) if rings else a
         self.cross = a[:, 0] * b[:, 1] - b[:, 0] * a[:, 1]
-        self.powers = [[np.ones(len(a)), a[:, d], a[:, d] ** 2, a[:, d] ** 3] for d in (0, 1)]  # a_x^k, a_y^k
-        self.powers_b = [[np.ones(len(b)), b[:, d], b[:, d] ** 2, b[:, d] ** 3] for d in (0, 1)]
+        exponents = np.arange(4)[:, None]
+        self.powers = [a[:, d] ** exponents for d in (0, 1)]  # (4, n): a_x^k, a_y^k for k = 0..3
+        self.powers_b = [b[:, d] ** exponents for d in (0, 1)]
 
     def integral(self, p: int, q: int) -> float:
         """The sum over the edges' triangles of x^p y^q (p, q <= 3)."""
         (ax, ay), (bx, by) = self.powers, self.powers_b
-        total = sum(comb(k + l, k) * comb(p - k + q - l, p - k) * ax[k] * bx[p - k] * ay[l] * by[q - l]
-                    for k in range(p + 1) for l in range(q + 1))
-        return float(np.sum(self.cross * total) * factorial(p) * factorial(q) / factorial(p + q + 2))
+        xs = ax[:p + 1] * bx[p::-1]  # row k: a_x^k b_x^(p-k)
+        ys = ay[:q + 1] * by[q::-1]  # row l: a_y^l b_y^(q-l)
+        total = np.einsum("kl,kn,ln->n", _coefficients(p, q), xs, ys)
+        return float(self.cross @ total) * factorial(p) * factorial(q) / factorial(p + q + 2)
+
+
+@lru_cache(maxsize=None)
+def _coefficients(p: int, q: int) -> np.ndarray:
+    """C(k+l, k) C(p-k+q-l, p-k) for k <= p, l <= q (the triangle formula's weights)."""
+    return np.array([[comb(k + l, k) * comb(p - k + q - l, p - k) for l in range(q + 1)] for k in range(p + 1)], dtype=float)
 
 
 def oriented(exterior: np.ndarray, holes: Sequence[np.ndarray] = ()) -> list[np.ndarray]:

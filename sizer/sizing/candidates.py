@@ -113,7 +113,7 @@ class Candidate:
 
     @property
     def certainly_fails(self) -> bool:
-        return self.report is None and self.lower_bound[1] > 1.0
+        return self.report is None and any(value > 1.0 for value in self.bounds.values())
 
     @property
     def utilization(self) -> float:

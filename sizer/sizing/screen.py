@@ -72,20 +72,20 @@ def screen(table: CandidateTable, member: Member, material: Material, base: Memb
 
 
 def local_lower_bound(found: Screen, index: int, member: Member, material: Material) -> float | None:
-    """The local check's own value for one candidate at the screen's stations (the wall stresses are
-    linear in the actions): a lower bound of the check's, which also looks at the moment peaks
-    between them. None when it cannot be made here (no allowable for the walls: the check says why)."""
-    from sizer.checks.local import local_utilizations, poisson_ratio, wall_allowable
+    """The local check's own value for one candidate at the screen's worst rows of its stress checks
+    (where the compression in its walls peaks; the wall stresses are linear in the actions): a lower
+    bound of the check's, which looks at every station and the moment peaks between them. None when
+    it cannot be made here (no allowable for the walls: the check says why)."""
+    from sizer.checks.local import local_utilizations, poisson_ratio, section_walls, table_of_walls, wall_allowable
     from sizer.errors import InputError
 
     try:
         nu, allowable = poisson_ratio(material, member.source), wall_allowable(material, member.source)
     except InputError:
         return None
-    from sizer.checks.local import section_walls, table_of_walls
-
     table, row = found.table, slice(index, index + 1)
-    actions = (found.loads + table.mass[index] * found.per_mass)[None]
+    rows = sorted({int(worst[index]) for worst in found.worst.values()}) or list(range(len(found.loads)))
+    actions = (found.loads[rows] + table.mass[index] * found.per_mass[rows])[None]
     walls = table_of_walls([section_walls(table.specs[index], (float(table.centroid_y[index]), float(table.centroid_z[index])))])
     return float(local_utilizations(walls, actions, table.area[row], table.Iz[row], table.Iy[row], table.Iyz[row],
                                     material.elastic_modulus, nu, material.yield_strength, allowable,

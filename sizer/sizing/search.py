@@ -105,15 +105,16 @@ class Search:
             self.bounded[candidate.index] = epoch
 
     def ahead(self, candidate: Candidate) -> list[Candidate]:
-        """The candidate and the BATCH after it: the ones the walk will judge next. When the candidate
-        has its bounds for the current shapes, the BATCH from the first one that has not (so that a
-        walk which moves on without new shapes takes its bounds a batch at a time, not one by one)."""
+        """The candidate and those of the BATCH after it that no bound rules out yet: the ones the
+        walk will judge next. When the candidate has its bounds for the current shapes, the BATCH from
+        the first one that has not (so that a walk which moves on without new shapes takes its bounds
+        a batch at a time, not one by one)."""
         position = candidate.index
         epoch = self.stability.epoch if self.stability is not None else 0
         if candidate.report is None and self.bounded.get(position, -1) >= epoch:
             position = next((c.index for c in self.candidates[position:position + BATCH] if c.report is None
                              and self.bounded.get(c.index, -1) < epoch), position)
-        return self.candidates[position:position + BATCH]
+        return [c for c in self.candidates[position:position + BATCH] if not c.certainly_fails]
 
     def ruled_out(self, candidate: Candidate) -> bool:
         """Whether a proven lower bound rules the candidate out, tried in turn while none does: the
@@ -121,9 +122,10 @@ class Search:
         stations, local buckling at the screen's stations."""
         if candidate.certainly_fails:
             return True
-        self.stability_bounds(self.ahead(candidate))
-        if candidate.certainly_fails:
-            return True
+        if self.stability is not None and self.bounded.get(candidate.index, -1) < self.stability.epoch:
+            self.stability_bounds(self.ahead(candidate))
+            if candidate.certainly_fails:
+                return True
         prove_lower_bounds(candidate, self.found, self.material)
         if candidate.certainly_fails:
             return True
@@ -180,15 +182,15 @@ class Search:
         return best
 
     def confirm_runners_up(self, chosen: Candidate | None, top: int) -> None:
-        """Full checks for the `top` lighter sections just below the choice and the `top` heavier ones
-        that pass (heavier ones a lower bound rules out are skipped)."""
+        """The `top` lighter sections just below the choice are shown failing: by their full check, or
+        by the proven lower bound that ruled them out in the walk (shown as such). The `top` heavier
+        ones that pass are found by full checks (heavier ones a lower bound rules out are skipped)."""
         if chosen is None:
             return
         position = self.candidates.index(chosen)
-        lighter = self.candidates[max(0, position - top):position]
-        self.compute(lighter)
-        for candidate in lighter:
-            self.full_check(candidate)
+        for candidate in self.candidates[max(0, position - top):position]:
+            if not candidate.certainly_fails:
+                self.full_check(candidate)
         heavier = 0
         for candidate in self.candidates[position + 1:]:
             if heavier >= top:
