@@ -6,7 +6,6 @@ from __future__ import annotations
 import errno
 import os
 import stat
-import tempfile
 from functools import lru_cache
 from pathlib import Path
 from typing import Iterable
@@ -83,6 +82,8 @@ def write_atomic(path: str | Path, data: bytes | str, durable: bool = True) -> N
     path.parent.mkdir(parents=True, exist_ok=True)
     if path.exists() and not _writable(path, os.W_OK):
         raise PermissionError(errno.EACCES, "the file is read-only", str(path))
+    import tempfile
+
     handle, temporary = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=path.parent)
     try:
         os.chmod(temporary, _mode_for(path))  # mkstemp makes 0600

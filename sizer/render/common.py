@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-import json
 import math
 from typing import Any
 
@@ -169,4 +168,6 @@ def to_jsonable(value: Any) -> Any:
 
 def dumps(document: dict) -> str:
     """The JSON text of an output document (cautions always included by the caller)."""
+    import json
+
     return json.dumps(to_jsonable(document), indent=2, ensure_ascii=False)

@@ -52,8 +52,8 @@ mesh is refined; give radii where they exist.
 
 from __future__ import annotations
 
-import multiprocessing
 import os
+import sys
 import time
 from collections import OrderedDict
 from dataclasses import dataclass, field
@@ -340,6 +340,14 @@ class BuildSummary:
     seconds: float
 
 
+def _in_worker_process() -> bool:
+    """Whether this process is a multiprocessing worker (of a schedule, or of these workers): then its
+    sections are computed in it, never in workers of its own. A worker always has multiprocessing
+    loaded, so a process that has not loaded it is none (and need not pay for the import)."""
+    module = sys.modules.get("multiprocessing")
+    return module is not None and module.parent_process() is not None
+
+
 class AnalysisWorkers:
     """Local worker processes (spawn, one per core by default) that compute warping tiers and stress
     fields, kept for a whole run. `wait` makes sure that some sections are done: in this process
@@ -349,7 +357,7 @@ class AnalysisWorkers:
     computed, counted over the whole run."""
 
     def __init__(self, workers: int | None = None, progress: Callable[[int, int, str], None] | None = None) -> None:
-        self.count = 1 if multiprocessing.parent_process() is not None else max(1, workers or _cores())
+        self.count = 1 if _in_worker_process() else max(1, workers or _cores())
         self.from_count = 2 if workers else PARALLEL_FROM  # workers asked for by number are used for any two sections
         self.progress = progress
         self.pool: Any = None
@@ -395,6 +403,8 @@ class AnalysisWorkers:
 
         if self.pool is None:
             # spawn: safe beside threads (a rich progress bar) and the same on every platform
+            import multiprocessing
+
             self.pool = ProcessPoolExecutor(max_workers=self.count, mp_context=multiprocessing.get_context("spawn"), initializer=_warm_worker)
         futures = {self.pool.submit(_worker, spec, dict(zip(GEOMETRIC_NAMES, geometric_row(spec)))): spec for spec in specs}
         for future in as_completed(futures):

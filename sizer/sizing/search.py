@@ -54,6 +54,7 @@ class Search:
     model: MemberStability | None = None
     bounded: dict[int, int] = field(default_factory=dict)  # candidate index -> stability epoch of its bounds
     reveal_count: int = 1  # candidates revealed together next: doubles while revealed ones keep failing
+    learning: bool = True  # whether full checks add their buckled shapes to the stability bounds' trial shapes
 
     def compute(self, candidates: Sequence[Candidate]) -> None:
         """Make sure the warping tiers and stress fields of `candidates` are cached (on the workers
@@ -84,7 +85,7 @@ class Search:
             design = design_for(self.member, self.material, candidate, self.base)
             candidate.design = design
             candidate.report = check_design(design, unit_stress_field(candidate.spec), stability=self.model)
-            if self.stability is not None and candidate.report.stability is not None:
+            if self.learning and self.stability is not None and candidate.report.stability is not None:
                 self.stability.add(candidate.report.stability)
         return candidate.report
 
@@ -184,7 +185,9 @@ class Search:
     def confirm_runners_up(self, chosen: Candidate | None, top: int) -> None:
         """The `top` lighter sections just below the choice are shown failing: by their full check, or
         by the proven lower bound that ruled them out in the walk (shown as such). The `top` heavier
-        ones that pass are found by full checks (heavier ones a lower bound rules out are skipped)."""
+        ones that pass are found by full checks (heavier ones a lower bound rules out are skipped);
+        their buckled shapes are not added to the trial shapes (each new shape would have the bounds
+        of the sections ahead made again, for a walk that is nearly over)."""
         if chosen is None:
             return
         position = self.candidates.index(chosen)
@@ -192,6 +195,7 @@ class Search:
             if not candidate.certainly_fails:
                 self.full_check(candidate)
         heavier = 0
+        self.learning = False
         for candidate in self.candidates[position + 1:]:
             if heavier >= top:
                 break
