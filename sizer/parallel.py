@@ -24,7 +24,7 @@ import hashlib
 import json
 import os
 from dataclasses import asdict, dataclass, field, fields, is_dataclass
-from functools import lru_cache
+from functools import cached_property, lru_cache
 from pathlib import Path
 from typing import Any, Callable, Iterable, Iterator, Sequence
 
@@ -78,8 +78,9 @@ class ShippedCatalogue:
 
     files: tuple[CatalogueText, ...] = field(default_factory=tuple)
 
-    @property
+    @cached_property
     def digest(self) -> str:
+        """The content hash of the files (made once: every job of a run carries the same catalogue)."""
         return content_hash([asdict(item) for item in self.files])
 
 
@@ -289,7 +290,8 @@ class Workers:
         runner = self.runner(work)
 
         def finished(index: int, result: dict) -> None:
-            keep(taken[index].key, result)
+            if not runner.keeps:
+                keep(taken[index].key, result)
             for same in sharing[taken[index].key]:
                 results[same] = result
             if stop_on_error and (error := result_error(result)) is not None:
@@ -333,8 +335,18 @@ class Workers:
         return _Processes(work, self.pool) if self.pool is not None else _Here(work)
 
 
+def _work_and_keep(work: Work, key: str, payload: Any) -> dict:
+    """A job's result, kept where it was worked out (local workers share this machine's cache
+    folder), so that the process that gathers the results does no file work of its own per job."""
+    result = work(payload)
+    keep(key, result)
+    return result
+
+
 class _Here:
     """Jobs run in this process, each when it is started."""
+
+    keeps = False
 
     def __init__(self, work: Work) -> None:
         self.work, self.done = work, []
@@ -350,13 +362,16 @@ class _Here:
 
 
 class _Processes:
-    """Jobs on the local worker processes (forked or spawned: see `local_context`)."""
+    """Jobs on the local worker processes (forked or spawned: see `local_context`), which keep their
+    results themselves."""
+
+    keeps = True
 
     def __init__(self, work: Work, pool: Any) -> None:
         self.work, self.pool, self.futures = work, pool, {}
 
     def start(self, index: int, job: Job) -> None:
-        self.futures[self.pool.submit(self.work, job.payload)] = index
+        self.futures[self.pool.submit(_work_and_keep, self.work, job.key, job.payload)] = index
 
     def finished(self) -> Iterator[tuple[int, dict]]:
         """(index, result) as the jobs finish; those finished together in the jobs' order."""
@@ -374,7 +389,10 @@ class _Processes:
 
 
 class _Cluster:
-    """Jobs on an existing Dask distributed cluster (the client is closed by Workers, the cluster left running)."""
+    """Jobs on an existing Dask distributed cluster (the client is closed by Workers, the cluster left
+    running); its workers may not share this machine's files, so the results are kept here."""
+
+    keeps = False
 
     def __init__(self, work: Work, client: Any) -> None:
         self.work, self.client, self.futures = work, client, {}
