@@ -253,3 +253,34 @@ def test_row_keys_are_the_same_in_every_process(project):
                            capture_output=True, text=True, check=True, env={**os.environ, "PYTHONHASHSEED": seed}).stdout
             for seed in ("1", "2")]
     assert keys[0] == keys[1] and len(eval(keys[0])) == 4
+
+
+def test_rows_worked_out_by_local_processes_are_kept_by_them(project):
+    """The workers keep each finished row themselves: a later run on one process redoes none."""
+    forget_kept_rows()
+    first = run_schedule(read_schedule(project / "schedule.toml"), [project / "catalogue.toml"], jobs=2, show_progress=False)
+    assert (first.summary.ran, first.summary.resumed) == (4, 0) and "2 local processes" in first.summary.where
+    second = run_schedule(read_schedule(project / "schedule.toml"), [project / "catalogue.toml"], jobs=1, show_progress=False)
+    assert (second.summary.ran, second.summary.resumed) == (0, 4)
+    assert second.rows == first.rows
+
+
+def test_local_workers_are_forked_only_where_that_is_safe():
+    """fork on Linux while one thread runs (a fork copies only the calling thread, and a lock held by
+    another could never be released in the copy); spawn beside other threads (common practice, and
+    the reason CPython warns of fork in threaded processes from 3.12)."""
+    import sys
+    import threading
+
+    from sizer.parallel import local_context
+
+    expected = "fork" if sys.platform.startswith("linux") and threading.active_count() == 1 else "spawn"
+    assert local_context().get_start_method() == expected
+    stop = threading.Event()
+    other = threading.Thread(target=stop.wait)
+    other.start()
+    try:
+        assert local_context().get_start_method() == "spawn"
+    finally:
+        stop.set()
+        other.join()

@@ -242,3 +242,26 @@ def test_held_along_its_whole_length_it_does_not_buckle_sideways(L: float, heigh
     model, weights = uniform_moment(L, moment)
     held = replace(model.member, restraints=(Restraint(0.0, L, True, True, height),))
     assert math.isinf(MemberStability(held, model.solution).lateral_buckling(section(**IPE300), weights).load_factor)
+
+
+@settings(max_examples=40, deadline=None)
+@given(size=st.integers(2, 60), seed=st.integers(0, 2**32 - 1), gap=st.floats(1e-3, 1.0))
+def test_largest_eigenpair_by_inverse_iteration_matches_numpy_eigh(size: int, seed: int, gap: float) -> None:
+    """The solver's largest eigenvalue (eigvalsh) and its vector (inverse iteration) against numpy's
+    full symmetric eigen-solver (LAPACK syevd), the reference: the value to round-off, the vector to
+    1e-8 up to its sign, on symmetric matrices whose largest eigenvalue stands `gap` (relative) above
+    the next, with eigenvalues of both signs (as C = L^-1 B L^-T has)."""
+    from sizer.stability.solve import _largest_eigenpairs
+
+    rng = np.random.default_rng(seed)
+    q, _ = np.linalg.qr(rng.standard_normal((size, size)))
+    values = np.sort(rng.uniform(-1.0, 1.0, size))
+    values[-1] = values[-2] + gap * max(1.0, abs(values[-2]))  # the largest stands apart by `gap`
+    c = (q * values) @ q.T
+    c = (c + c.T) / 2
+    found, vectors = _largest_eigenpairs(c, 1)
+    reference_values, reference_vectors = np.linalg.eigh(c)
+    assert found[0] == pytest.approx(reference_values[-1], rel=1e-12, abs=1e-12)
+    vector, reference = vectors[:, 0], reference_vectors[:, -1]
+    assert np.linalg.norm(vector) == pytest.approx(1.0, rel=1e-12)
+    assert min(np.abs(vector - reference).max(), np.abs(vector + reference).max()) < 1e-8
