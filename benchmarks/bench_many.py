@@ -12,6 +12,9 @@ of earlier runs removed first so every row is worked out):
        burst of other work on a shared machine does not decide the figure
   (c)  `sizer span-table` for the whole shipped catalogue, mode "load" at `--spans` spans, with --jobs N,
        and the full checks it made
+  (d)  the machine's own ceiling: two copies of a fixed CPU-bound kernel (small numpy eigen-solves and
+       Python arithmetic, no sizer code, nothing shared) run in turn and then at once; on a shared
+       virtual machine two busy cores are slower than one, and no parallel program beats this ratio
 Target (issue 16): (a) / (b) >= 1.8 on 2 cores.
 The section cache is the user's (or SIZER_CACHE_DIR); run once to warm it if the catalogue is new there.
 """
@@ -127,6 +130,31 @@ def timed(arguments: list[str]) -> tuple[float, float, dict]:
     return elapsed, cpu, json.loads(done.stdout)
 
 
+KERNEL = """
+import numpy as np
+a = np.random.default_rng(0).random((60, 60))
+for _ in range(3000):
+    np.linalg.eigh(a + a.T)
+total = 0
+for i in range(1_500_000):
+    total += i * i
+"""
+
+
+def machine_ceiling(copies: int) -> tuple[float, float]:
+    """Wall time of `copies` runs of KERNEL one after another, and of `copies` at once."""
+    command = [sys.executable, "-c", KERNEL]
+    env = {**os.environ, "OPENBLAS_NUM_THREADS": "1"}
+    start = time.perf_counter()
+    for _ in range(copies):
+        subprocess.run(command, env=env, check=True)
+    in_turn = time.perf_counter() - start
+    start = time.perf_counter()
+    for process in [subprocess.Popen(command, env=env) for _ in range(copies)]:
+        process.wait()
+    return in_turn, time.perf_counter() - start
+
+
 def rows_of(document: dict) -> list[tuple]:
     """What must not depend on who ran the rows: each row's section and utilization, in order."""
     return [(row["section"], row["utilization"]) for row in document["members"]]
@@ -162,6 +190,9 @@ def main() -> None:
           f"({', '.join(f'{pair:.2f}' for pair in pairs)}) (target >= 1.8); CPU overhead of the processes {many_cpu / one_cpu - 1:+.0%}; "
           f"rows identical in every run: {same}")
     print(f"    load average after: {os.getloadavg()[0]:.1f}")
+    ceilings = [machine_ceiling(options.jobs) for _ in range(3)]
+    print(f"(d) the machine's ceiling for {options.jobs} processes: {statistics.median(a / b for a, b in ceilings):.2f} "
+          f"(median of {', '.join(f'{a / b:.2f}' for a, b in ceilings)}; {options.jobs} copies of a CPU-bound kernel in turn / at once)")
 
     if options.spans < 1:
         return

@@ -20,6 +20,7 @@ A job's function returns a JSON-ready dict; bad input inside a job comes back as
 
 from __future__ import annotations
 
+import gc
 import hashlib
 import json
 import os
@@ -265,6 +266,7 @@ class Workers:
             context = local_context()
             if context.get_start_method() == "fork":
                 import_job_modules()
+                gc.freeze()  # the objects forked workers share are left out of every collection: no copy-on-write by the collector
             self.pool = ProcessPoolExecutor(self.count, mp_context=context, initializer=warm_up)
             for _ in range(self.count):
                 self.pool.submit(int)
