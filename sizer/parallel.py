@@ -1,7 +1,7 @@
 """Many independent jobs (schedule rows, span-table cells) on the local cores or on a Dask cluster.
 
-- Local: `concurrent.futures.ProcessPoolExecutor` (`jobs` processes); one job or `jobs = 1` runs in
-  this process. On Linux, while this process runs a single thread, the workers are forked from it
+- Local: `concurrent.futures.ProcessPoolExecutor` (`jobs` processes); `jobs = 1` runs in this
+  process. On Linux, while this process runs a single thread, the workers are forked from it
   after it has imported what the jobs need, so they start at once with sizer loaded; elsewhere (fork
   is unsafe on macOS and absent on Windows) or beside other threads, each is a fresh interpreter
   (spawn) that imports sizer itself. The results are the same either way.
@@ -315,6 +315,9 @@ class Workers:
                         sharing[job.key] = [index]
                         bar.begin()
                         runner.start(index, job)
+                    for done, result in runner.ready():
+                        finished(done, result)
+                        bar.advance(taken[done].label)
                 for index, result in runner.finished():
                     finished(index, result)
                     bar.advance(taken[index].label)
@@ -356,62 +359,95 @@ class _Here:
     def start(self, index: int, job: Job) -> None:
         self.done.append((index, self.work(job.payload)))
 
-    def finished(self) -> Iterator[tuple[int, dict]]:
-        yield from self.done
+    def ready(self) -> list[tuple[int, dict]]:
+        """(index, result) of the jobs finished since last asked."""
+        done, self.done = self.done, []
+        return done
+
+    def finished(self) -> list[tuple[int, dict]]:
+        """(index, result) of the rest (none: each job finishes when it is started)."""
+        return self.ready()
 
     def cancel(self) -> None:
         pass
 
 
-class _Processes:
+class _Futures:
+    """Started jobs' futures in the order started: `ready()` takes those finished at the front
+    without waiting (the progress bar moves while later jobs are still being read), `finished()`
+    waits for the rest and gives each as it finishes (those finished together in the jobs' order)."""
+
+    def __init__(self) -> None:
+        self.started: list[tuple[Any, int]] = []
+        self.front = 0
+
+    def ready(self) -> list[tuple[int, dict]]:
+        done = []
+        while self.front < len(self.started) and self.started[self.front][0].done():
+            future, index = self.started[self.front]
+            done.append((index, future.result()))
+            self.front += 1
+        return done
+
+    def finished(self) -> Iterator[tuple[int, dict]]:
+        waiting = {future: index for future, index in self.started[self.front:]}
+        self.front = len(self.started)
+        for batch in self.completed(list(waiting)):
+            for future in sorted(batch, key=waiting.__getitem__):
+                yield waiting[future], future.result()
+
+    def completed(self, futures: list[Any]) -> Iterator[list[Any]]:
+        raise NotImplementedError
+
+
+class _Processes(_Futures):
     """Jobs on the local worker processes (forked or spawned: see `local_context`), which keep their
     results themselves."""
 
     keeps = True
 
     def __init__(self, work: Work, pool: Any) -> None:
-        self.work, self.pool, self.futures = work, pool, {}
+        super().__init__()
+        self.work, self.pool = work, pool
 
     def start(self, index: int, job: Job) -> None:
-        self.futures[self.pool.submit(_work_and_keep, self.work, job.key, job.payload)] = index
+        self.started.append((self.pool.submit(_work_and_keep, self.work, job.key, job.payload), index))
 
-    def finished(self) -> Iterator[tuple[int, dict]]:
-        """(index, result) as the jobs finish; those finished together in the jobs' order."""
+    def completed(self, futures: list[Any]) -> Iterator[list[Any]]:
         from concurrent.futures import FIRST_COMPLETED, wait
 
-        waiting = set(self.futures)
+        waiting = set(futures)
         while waiting:
             done, waiting = wait(waiting, return_when=FIRST_COMPLETED)
-            for future in sorted(done, key=self.futures.__getitem__):
-                yield self.futures[future], future.result()
+            yield list(done)
 
     def cancel(self) -> None:
-        for future in self.futures:
+        for future, _ in self.started:
             future.cancel()
 
 
-class _Cluster:
+class _Cluster(_Futures):
     """Jobs on an existing Dask distributed cluster (the client is closed by Workers, the cluster left
     running); its workers may not share this machine's files, so the results are kept here."""
 
     keeps = False
 
     def __init__(self, work: Work, client: Any) -> None:
-        self.work, self.client, self.futures = work, client, {}
+        super().__init__()
+        self.work, self.client = work, client
 
     def start(self, index: int, job: Job) -> None:
-        future = self.client.submit(self.work, job.payload, key=f"sizer-{job.key}", pure=False)
-        self.futures[future.key] = (future, index)
+        self.started.append((self.client.submit(self.work, job.payload, key=f"sizer-{job.key}", pure=False), index))
 
-    def finished(self) -> Iterator[tuple[int, dict]]:
+    def completed(self, futures: list[Any]) -> Iterator[list[Any]]:
         from distributed import as_completed
 
-        for future in as_completed([future for future, _ in self.futures.values()], loop=self.client.loop):
-            yield self.futures[future.key][1], future.result()
+        for future in as_completed(futures, loop=self.client.loop):
+            yield [future]
 
     def cancel(self) -> None:
-        if self.futures:
-            self.client.cancel([future for future, _ in self.futures.values()])
+        if self.started:
+            self.client.cancel([future for future, _ in self.started])
 
 
 def _cluster_client(address: str) -> Any:
