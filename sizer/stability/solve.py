@@ -128,9 +128,10 @@ def _largest_eigenpairs(c: np.ndarray, count: int) -> tuple[np.ndarray, np.ndarr
 
 @lru_cache(maxsize=64)
 def _start_vector(size: int) -> np.ndarray:
-    """A fixed start for inverse iteration with no symmetry (a vector of ones can be orthogonal to a
-    mode by symmetry; this one, the sine of a multiple of the golden angle in turn, cannot be), the
-    same in every run (read-only: it is shared; numpy.random would cost its import)."""
+    """A fixed start for inverse iteration without symmetry (a vector of ones is orthogonal to every
+    antisymmetric mode; the sines of multiples of the golden angle have no such pattern, and each
+    solve amplifies the wanted mode some 1e8 times over the others), the same in every run
+    (read-only: it is shared; numpy.random would cost its import)."""
     vector = np.sin(2.399963229728653 * np.arange(1, size + 1))
     vector.flags.writeable = False
     return vector
