@@ -265,3 +265,31 @@ def test_largest_eigenpair_by_inverse_iteration_matches_numpy_eigh(size: int, se
     vector, reference = vectors[:, 0], reference_vectors[:, -1]
     assert np.linalg.norm(vector) == pytest.approx(1.0, rel=1e-12)
     assert min(np.abs(vector - reference).max(), np.abs(vector + reference).max()) < 1e-8
+
+
+def test_combinations_that_only_scale_a_load_set_share_its_solve() -> None:
+    """A combination's load factor equals a direct solve of its own load set (common practice:
+    linear buckling scales inversely with the loads), also where the solver reuses the solve of an
+    earlier combination whose load set is the same up to a factor: a sideways wind gives no
+    major-axis moment, so "dead + wind" buckles sideways as "dead" does, and "uplift" (0.6 x dead)
+    at 1/0.6 of its load factor; the wind's end compression is shared the same way."""
+    L = 6.0
+    loads = ('[[loads]]\ntype = "line"\ncase = "dead"\nwy = "-4 kN/m"\n'
+             '[[loads]]\ntype = "line"\ncase = "wind"\nwz = "1.5 kN/m"\n'
+             f'[[loads]]\ntype = "point"\ncase = "wind"\nat = "{L} m"\nfx = "-40 kN"\n'
+             '[combinations]\n"dead" = { dead = 1.0 }\n"dead + wind" = { dead = 1.0, wind = 1.0 }\n'
+             '"uplift" = { dead = 0.6, wind = 1.0 }\n"dead + less wind" = { dead = 1.0, wind = 0.75 }\n')
+    text = f'[member]\nlength = "{L} m"\nmaterial = "steel"\nself_weight = false\n{SIMPLE.format(L=L)}\n{loads}'
+    member = member_from_text(text)
+    solution = solve_member(member, Stiffness.unit(), None)
+    model, s = MemberStability(member, solution), section(**IPE300)
+    solver = model.for_section(s)
+    weights = solution.weights(None)
+    for c in range(len(solution.combination_names)):
+        shared = solver.combination("lateral", c, 0.0)
+        direct = model.lateral_buckling(s, weights[c])
+        assert shared.load_factor == pytest.approx(direct.load_factor, rel=1e-9)
+        if c:  # every combination but "dead" compresses the member
+            assert solver.combination("axial", c, 0.0).load_factor == pytest.approx(model.axial_buckling(s, weights[c]).load_factor, rel=1e-9)
+    assert solver.combination("lateral", 2, 0.0).load_factor == pytest.approx(solver.combination("lateral", 0, 0.0).load_factor / 0.6, rel=1e-12)
+    assert len(solver._solved["lateral"]) == 1 and len(solver._solved["axial"]) == 1  # one load shape each

@@ -11,6 +11,7 @@ Two solves per load set (a combination, with its self-weight):
 
 from __future__ import annotations
 
+import math
 from functools import cached_property
 
 import numpy as np
@@ -158,7 +159,8 @@ class SectionStability:
     def __init__(self, model: MemberStability, section: StabilitySection, stiffness: np.ndarray, basis: np.ndarray) -> None:
         self.model, self.section = model, section
         self.reduced = Reduced(stiffness, basis)
-        self._columns: dict[tuple[str, int, bool], np.ndarray] = {}
+        self._columns: dict[tuple[str, int, bool], np.ndarray | None] = {}
+        self._solved: dict[str, list[tuple[LoadShape, Buckling]]] = {"axial": [], "lateral": []}
 
     def axial(self, weights: np.ndarray) -> Buckling:
         return self.reduced.modes(self.model.geometry("axial", self.section, weights), 1)[0]
@@ -167,22 +169,46 @@ class SectionStability:
         return self.reduced.modes(self.model.geometry("lateral", self.section, weights), 1)[0]
 
     def combination(self, kind: str, combination: int, mass: float) -> Buckling:
-        """The lowest load factor of a combination (self-weight of `mass` kg/m) for `kind` "axial" or "lateral"."""
+        """The lowest load factor of a combination (self-weight of `mass` kg/m) for `kind` "axial" or
+        "lateral". Combinations whose load sets for this kind are the same up to a positive factor
+        share one solve (the load factor scales inversely with the loads, the buckled shape is the
+        same): a case that gives no geometric term of the kind (a sideways wind in the lateral
+        solve, say) counts as absent, and a combination that only scales another (0.6 x dead) is
+        solved once."""
         loads, per_mass = self.model.rows
-        b = np.zeros(self.reduced.k.shape)
-        for column, weight in enumerate(loads[combination] + mass * per_mass[combination]):
-            if weight != 0.0:
-                b += abs(weight) * self._column(kind, column, weight > 0)
-        return self.reduced.projected_modes(b, 1)[0]
+        terms = [(column, weight) for column, weight in enumerate(loads[combination] + mass * per_mass[combination])
+                 if weight != 0.0 and self._column(kind, column, weight > 0) is not None]
+        if not terms:
+            return Buckling(math.inf, None)
+        scale = max(abs(weight) for _, weight in terms)
+        shape = tuple((column, weight > 0, abs(weight) / scale) for column, weight in terms)
+        found = next((known for known_shape, known in self._solved[kind] if _same_load_shape(known_shape, shape)), None)
+        if found is None:
+            b = sum(share * self._column(kind, column, positive) for column, positive, share in shape)
+            found = self.reduced.projected_modes(b, 1)[0]
+            self._solved[kind].append((shape, found))
+        return Buckling(found.load_factor / scale, found.mode, found.free_movement)
 
-    def _column(self, kind: str, column: int, positive: bool) -> np.ndarray:
-        """B of one load-case column at weight +1 or -1 for this section, projected (made once)."""
+    def _column(self, kind: str, column: int, positive: bool) -> np.ndarray | None:
+        """B of one load-case column at weight +1 or -1 for this section, projected (made once); None
+        where the column gives no geometric term of this kind."""
         key = (kind, column, positive)
         if key not in self._columns:
             terms = self.model.column_terms(kind, column, positive)
             full = -weighted_sum(terms, term_coefficients(kind, self.section)) + np.zeros((self.model.mesh.size,) * 2)
-            self._columns[key] = self.reduced.project(full)
+            projected = self.reduced.project(full)
+            self._columns[key] = projected if np.any(projected) else None
         return self._columns[key]
+
+
+LoadShape = tuple[tuple[int, bool, float], ...]  # (column, positive, |weight| / largest |weight|) of a load set
+SAME_SHARE = 1e-12  # shares this close (relative) are the same load set: the solves differ by round-off only
+
+
+def _same_load_shape(a: LoadShape, b: LoadShape) -> bool:
+    """Whether two load sets are the same up to a positive factor (their shares equal to round-off)."""
+    return len(a) == len(b) and all(ca == cb and pa == pb and abs(sa - sb) <= SAME_SHARE * max(sa, sb)
+                                    for (ca, pa, sa), (cb, pb, sb) in zip(a, b))
 
 
 def term_coefficients(kind: str, section: StabilitySection) -> dict[str, object]:
