@@ -273,16 +273,8 @@ def test_combinations_that_only_scale_a_load_set_share_its_solve() -> None:
     earlier combination whose load set is the same up to a factor: a sideways wind gives no
     major-axis moment, so "dead + wind" buckles sideways as "dead" does, and "uplift" (0.6 x dead)
     at 1/0.6 of its load factor; the wind's end compression is shared the same way."""
-    L = 6.0
-    loads = ('[[loads]]\ntype = "line"\ncase = "dead"\nwy = "-4 kN/m"\n'
-             '[[loads]]\ntype = "line"\ncase = "wind"\nwz = "1.5 kN/m"\n'
-             f'[[loads]]\ntype = "point"\ncase = "wind"\nat = "{L} m"\nfx = "-40 kN"\n'
-             '[combinations]\n"dead" = { dead = 1.0 }\n"dead + wind" = { dead = 1.0, wind = 1.0 }\n'
-             '"uplift" = { dead = 0.6, wind = 1.0 }\n"dead + less wind" = { dead = 1.0, wind = 0.75 }\n')
-    text = f'[member]\nlength = "{L} m"\nmaterial = "steel"\nself_weight = false\n{SIMPLE.format(L=L)}\n{loads}'
-    member = member_from_text(text)
-    solution = solve_member(member, Stiffness.unit(), None)
-    model, s = MemberStability(member, solution), section(**IPE300)
+    model, solution = dead_and_wind_member()
+    s = section(**IPE300)
     solver = model.for_section(s)
     weights = solution.weights(None)
     for c in range(len(solution.combination_names)):
@@ -293,3 +285,32 @@ def test_combinations_that_only_scale_a_load_set_share_its_solve() -> None:
             assert solver.combination("axial", c, 0.0).load_factor == pytest.approx(model.axial_buckling(s, weights[c]).load_factor, rel=1e-9)
     assert solver.combination("lateral", 2, 0.0).load_factor == pytest.approx(solver.combination("lateral", 0, 0.0).load_factor / 0.6, rel=1e-12)
     assert len(solver._solved["lateral"]) == 1 and len(solver._solved["axial"]) == 1  # one load shape each
+
+
+def dead_and_wind_member() -> tuple[MemberStability, object]:
+    """An invented 6 m beam: dead load down, wind sideways with an end compression; combinations that
+    repeat or scale each other's load sets for one kind of solve or the other."""
+    L = 6.0
+    loads = ('[[loads]]\ntype = "line"\ncase = "dead"\nwy = "-4 kN/m"\n'
+             '[[loads]]\ntype = "line"\ncase = "wind"\nwz = "1.5 kN/m"\n'
+             f'[[loads]]\ntype = "point"\ncase = "wind"\nat = "{L} m"\nfx = "-40 kN"\n'
+             '[combinations]\n"dead" = { dead = 1.0 }\n"dead + wind" = { dead = 1.0, wind = 1.0 }\n'
+             '"uplift" = { dead = 0.6, wind = 1.0 }\n"dead + less wind" = { dead = 1.0, wind = 0.75 }\n')
+    text = f'[member]\nlength = "{L} m"\nmaterial = "steel"\nself_weight = true\n{SIMPLE.format(L=L)}\n{loads}'
+    member = member_from_text(text)
+    solution = solve_member(member, Stiffness.unit(), None)
+    return MemberStability(member, solution), solution
+
+
+def test_the_sizing_bounds_share_solves_as_the_check_does() -> None:
+    """The Rayleigh-Ritz bounds of the sizing screen treat the same combinations as one, with the
+    factor that scales their load factors, for every mass of self-weight (which here is in the dead
+    case, so 0.6 x dead scales it too)."""
+    from sizer.sizing.stability_bounds import same_load_sets
+
+    model, _ = dead_and_wind_member()
+    keys = {(kind, c) for kind in ("axial", "lateral") for c in range(4)} - {("axial", 0)}
+    alias = same_load_sets(model, keys)
+    assert alias[("lateral", 1)] == (("lateral", 0), pytest.approx(1.0)) and alias[("lateral", 3)] == (("lateral", 0), pytest.approx(1.0))
+    assert alias[("lateral", 2)] == (("lateral", 0), pytest.approx(0.6))
+    assert alias[("axial", 2)] == (("axial", 1), pytest.approx(1.0)) and alias[("axial", 3)] == (("axial", 1), pytest.approx(0.75))

@@ -25,7 +25,7 @@ from sizer.sizing.candidates import CandidateTable
 from sizer.sizing.screen import Screen
 from sizer.stability import MemberStability, minor_axis_is_weaker
 from sizer.stability.boundary import admissible_basis
-from sizer.stability.problem import term_coefficients
+from sizer.stability.problem import SAME_SHARE, term_coefficients
 from sizer.stability.ritz import Projection, assemble, largest_inverse, project, strict_rows
 
 class StabilityBounds:
@@ -36,8 +36,10 @@ class StabilityBounds:
         self.model, self.table, self.member, self.material = model, table, member, material
         self.demand = {"axial": found.compression, "lateral": found.moment}
         self.lateral_applies = minor_axis_is_weaker(table)  # Iz and Iy: the geometric tier, known for every row
-        self.wanted = {(kind, c) for kind, demand in self.demand.items() for c in range(len(base.combination_names))
-                       if np.any(demand[c] > ZERO_ACTION)}
+        wanted = {(kind, c) for kind, demand in self.demand.items() for c in range(len(base.combination_names))
+                  if np.any(demand[c] > ZERO_ACTION)}
+        self.alias = same_load_sets(model, wanted)
+        self.wanted = {key for key, (representative, _) in self.alias.items() if key == representative}
         self.basis: np.ndarray | None = None  # made with the first shapes
         self.shapes: dict[tuple[str, int], list[np.ndarray]] = {key: [] for key in self.wanted}
         self.projections: dict[tuple[str, int], Projection] = {}
@@ -53,7 +55,7 @@ class StabilityBounds:
             for kind, found in (("axial", entry.axial), ("lateral", entry.lateral)):
                 if (kind, c) in self.wanted and found is not None and found.mode is not None:
                     self.shapes[(kind, c)].append(self.basis @ (self.basis.T @ found.mode))
-                    self.stale.add((kind, c))
+                    self.stale.add((kind, c))  # a combination that scales this one has the same shape: taken once
 
     def lower_bounds(self, rows: np.ndarray) -> dict[str, np.ndarray]:
         """check -> (len(rows),) proven lower bound of its utilization for the candidates `rows`, with
@@ -62,7 +64,8 @@ class StabilityBounds:
             terms_loads, terms_mass = self.model.combination_terms(*key)  # made once, shared with the full checks
             self.projections[key] = project(self.model, np.column_stack(self.shapes[key]), terms_loads, terms_mass)
         self.stale.clear()
-        factors = {key: self._ritz(key, rows) for key in self.projections}
+        solved = {key: self._ritz(key, rows) for key in self.projections}
+        factors = {key: solved[representative] / scale for key, (representative, scale) in self.alias.items() if representative in solved}
         return {"buckling": self._buckling(rows, factors), "lateral-torsional": self._lateral(rows, factors)}
 
     def _ritz(self, key: tuple[str, int], rows: np.ndarray) -> np.ndarray:
@@ -107,3 +110,26 @@ class StabilityBounds:
             worst = np.maximum(worst, np.nan_to_num(value, nan=0.0))
         return worst
 
+
+def same_load_sets(model: MemberStability, keys: set[tuple[str, int]]) -> dict[tuple[str, int], tuple[tuple[str, int], float]]:
+    """(kind, combination) -> (the first such key whose load set, for every mass of self-weight, this
+    one's is k > 0 times, k): its load factor is that one's / k and its buckled shape the same, so
+    one bound serves both (as one solve serves both in the full check). Load cases that give no
+    geometric term of the kind (a sideways wind in the lateral solve) do not count."""
+    loads, per_mass = model.rows
+    found: dict[tuple[str, int], tuple[tuple[str, int], float]] = {}
+    seen: list[tuple[tuple[str, int], np.ndarray, float]] = []
+    for kind, c in sorted(keys):
+        live = [column for column in range(loads.shape[1])
+                if any(np.any(matrix) for matrix in model.column_terms(kind, column, True).values())]
+        load_set = np.concatenate([loads[c, live], per_mass[c, live]])
+        scale = float(np.abs(load_set).max(initial=0.0))
+        unit = load_set / scale if scale > 0 else load_set
+        match = next(((key, other_scale) for key, other, other_scale in seen
+                      if key[0] == kind and other_scale > 0 and scale > 0 and np.abs(unit - other).max(initial=0.0) <= SAME_SHARE), None)
+        if match is None:
+            seen.append(((kind, c), unit, scale))
+            found[(kind, c)] = ((kind, c), 1.0)
+        else:
+            found[(kind, c)] = (match[0], scale / match[1])
+    return found
