@@ -125,6 +125,34 @@ def test_polygon_integrals_do_not_depend_on_where_a_ring_starts_runs_or_sits(poi
 
 
 @settings(max_examples=40, deadline=None)
+@given(points=st.lists(st.tuples(st.floats(-50, 50), st.floats(-50, 50)), min_size=3, max_size=8),
+       hole=st.floats(0.05, 0.4), reverse=st.booleans())
+def test_the_second_order_closed_forms_equal_the_general_integrals(points, hole, reverse) -> None:
+    """plane_moments (the shoelace closed forms, used for the normal stresses alone) gives the area,
+    centroid and second moments of polygon_moments (the general triangle formula) to round-off, with
+    a hole and either direction of the rings."""
+    from shapely.geometry import MultiPoint
+
+    from sizer.sections.polygon import plane_moments
+
+    hull = MultiPoint(points).convex_hull
+    if hull.geom_type != "Polygon" or hull.area < 1.0:
+        return
+    ring = np.asarray(hull.exterior.coords)[:-1]
+    centre = ring.mean(axis=0)
+    inner = centre + hole * (ring - centre)  # a smaller copy inside (the hull is convex)
+    if reverse:
+        ring, inner = ring[::-1], inner[::-1]
+    general = polygon_moments(ring, [inner])
+    area, centroid, xx, yy, xy = plane_moments(ring, [inner])
+    size = max(np.ptp(ring, axis=0))
+    assert area == pytest.approx(general.area, rel=1e-12)
+    assert centroid == pytest.approx(general.centroid, abs=1e-12 * size)
+    for value, name in ((xx, "xx"), (yy, "yy"), (xy, "xy")):
+        assert value == pytest.approx(getattr(general, name), rel=1e-10, abs=1e-12 * general.area * size**2)
+
+
+@settings(max_examples=40, deadline=None)
 @given(depth=st.floats(40, 600), width_ratio=st.floats(0.3, 1.0), flange=st.floats(0.02, 0.12), web=st.floats(0.02, 0.08))
 def test_sharp_i_beam_against_its_closed_form(depth: float, width_ratio: float, flange: float, web: float) -> None:
     """An I-beam with sharp corners (mm): A = 2 b tf + (h - 2 tf) tw, Iz = [b h^3 - (b - tw)(h - 2 tf)^3] / 12,

@@ -376,7 +376,7 @@ class _Block:
 
 def local_utilizations(table: WallTable, actions: np.ndarray, area: Any, Iz: Any, Iy: Any, Iyz: Any, E: Any, nu: Any,
                        yield_strength: float | None, allowable: Any, safety_factor: float,
-                       block_values: int = BLOCK_VALUES) -> tuple[np.ndarray, np.ndarray]:
+                       block_values: int = BLOCK_VALUES, largest: bool = True) -> tuple[np.ndarray, np.ndarray]:
     """Largest local utilization of each section (S,) over rows and walls, and the row where it is
     (S,) int (the first such row); 0.0 and row -1 where no wall is ever in compression (or the section
     has no walls).
@@ -386,7 +386,9 @@ def local_utilizations(table: WallTable, actions: np.ndarray, area: Any, Iz: Any
     None; safety_factor SF. Same numbers as local_check at the same rows (the same elementwise
     formulas). Each wall's demand over its allowable at psi = 1 bounds its utilization from above; the
     exact value is computed only where that bound reaches the exact value at the section's largest
-    bound. Blocks of sections and rows keep at most `block_values` (section, row, wall) values at once."""
+    bound. Blocks of sections and rows keep at most `block_values` (section, row, wall) values at once.
+    With `largest` False, only the exact value at the largest bound of each block is made: a lower
+    bound of the largest, for a screen that only has to prove failures."""
     count, walls = table.mask.shape
     actions = np.asarray(actions, dtype=float)
     rows = actions.shape[-2]
@@ -406,8 +408,11 @@ def local_utilizations(table: WallTable, actions: np.ndarray, area: Any, Iz: Any
             block = _Block(start, e, n, f, terms, _compressed(table, sections, terms, a))
             bound = np.where(block.compressed, terms.peak / lowest, -np.inf)
             top = np.unravel_index(bound.reshape(len(a), -1).argmax(axis=1), bound.shape[1:])
-            value, row = _largest_exact(table, block, bound >= _exact_at(table, block, top, yield_strength, safety_factor)[:, None, None],
-                                        yield_strength, safety_factor)
+            at_top = _exact_at(table, block, top, yield_strength, safety_factor)
+            if largest:
+                value, row = _largest_exact(table, block, bound >= at_top[:, None, None], yield_strength, safety_factor)
+            else:
+                value, row = np.where(np.isfinite(at_top), at_top, -np.inf), top[0]
             better = value > best[sections]
             best[sections] = np.where(better, value, best[sections])
             where[sections] = np.where(better, first + row, where[sections])

@@ -23,7 +23,7 @@ import numpy as np
 from sizer.errors import InputError
 from sizer.sections.fields import UnitStressField
 from sizer.sections.geometry import MM, outline_rings
-from sizer.sections.polygon import PolygonMoments, polygon_moments
+from sizer.sections.polygon import PolygonMoments, plane_moments, polygon_moments
 from sizer.sections.spec import SectionSpec
 
 GEOMETRIC_NAMES: tuple[str, ...] = (
@@ -43,9 +43,14 @@ def geometric_scalars(spec: SectionSpec) -> dict[str, float]:
 @lru_cache(maxsize=256)
 def normal_stress_field(spec: SectionSpec) -> UnitStressField:
     """Normal stresses per unit N, My, Mz at the outline's corners (points from the centroid, member
-    axes); no shear stresses (shear_known False). Remembered for the sections last asked for."""
-    moments, corners = _moments_and_corners(spec)
-    scalars = _scalars(moments, corners)
+    axes); no shear stresses (shear_known False). Remembered for the sections last asked for. Only
+    the moments up to the second order are needed (sizer.sections.polygon.plane_moments)."""
+    exterior, holes = outline_rings(spec)
+    area, centroid, xx, yy, xy = plane_moments(exterior, holes)
+    corners = _corners(spec, exterior, holes, area, centroid)
+    inertia = 1 / MM**4
+    scalars = {"area": area / MM**2, "Iz": xx * inertia, "Iy": yy * inertia, "Iyz": -xy * inertia}
+    scalars["Iyz"] = _product_without_noise(scalars["Iz"], scalars["Iy"], scalars["Iyz"])
     sigma = np.vstack([np.full(len(corners), 1.0 / scalars["area"]), *(corners @ per_moment for per_moment in bending_coefficients(scalars))])
     return UnitStressField(corners, sigma, np.zeros((3, len(corners), 2)), shear_known=False)
 
@@ -54,12 +59,18 @@ def _moments_and_corners(spec: SectionSpec) -> tuple[PolygonMoments, np.ndarray]
     """The outline's moments (mm) and every corner of outline and holes as (y, z) from the centroid, m."""
     exterior, holes = outline_rings(spec)
     moments = polygon_moments(exterior, holes)
-    if not moments.area > 0:  # only past the catalogue's checks (a section built in code)
+    return moments, _corners(spec, exterior, holes, moments.area, moments.centroid)
+
+
+def _corners(spec: SectionSpec, exterior: np.ndarray, holes: list[np.ndarray], area: float, centroid: tuple[float, float]) -> np.ndarray:
+    """Every corner of outline and holes as (y, z) from the centroid, m (outline in mm); bad input
+    where the outline encloses no area (only past the catalogue's checks: a section built in code)."""
+    if not area > 0:
         raise InputError(spec.source, "sections", f"section {spec.name!r}: its outline encloses no area",
                          "check the dimensions or the polygon's points", spec.line)
-    cx, cy = moments.centroid
+    cx, cy = centroid
     points = np.vstack([exterior, *holes])
-    return moments, np.column_stack([(points[:, 1] - cy) / MM, -(points[:, 0] - cx) / MM])
+    return np.column_stack([(points[:, 1] - cy) / MM, -(points[:, 0] - cx) / MM])
 
 
 def bending_coefficients(s: dict[str, float]) -> tuple[np.ndarray, np.ndarray]:
@@ -108,8 +119,12 @@ def _without_noise(s: dict[str, float]) -> None:
     for name in ("centroid_y", "centroid_z"):
         if abs(s[name]) < 1e-5 * size:
             s[name] = 0.0
-    if abs(s["Iyz"]) < 1e-9 * math.sqrt(s["Iz"] * s["Iy"]):
-        s["Iyz"] = 0.0
+    s["Iyz"] = _product_without_noise(s["Iz"], s["Iy"], s["Iyz"])
     for name in ("Py", "Pz"):
         if abs(s[name]) < 1e-7 * (s["Iz"] + s["Iy"]) * size:
             s[name] = 0.0
+
+
+def _product_without_noise(Iz: float, Iy: float, Iyz: float) -> float:
+    """The product of inertia, exactly zero below 1e-9 of sqrt(Iz Iy) (a symmetric section's round-off)."""
+    return 0.0 if abs(Iyz) < 1e-9 * math.sqrt(Iz * Iy) else Iyz

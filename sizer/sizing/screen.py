@@ -73,9 +73,10 @@ def screen(table: CandidateTable, member: Member, material: Material, base: Memb
 
 def local_lower_bound(found: Screen, index: int, member: Member, material: Material) -> float | None:
     """The local check's own value for one candidate at the screen's worst rows of its stress checks
-    (where the compression in its walls peaks; the wall stresses are linear in the actions): a lower
-    bound of the check's, which looks at every station and the moment peaks between them. None when
-    it cannot be made here (no allowable for the walls: the check says why)."""
+    (where the compression in its walls peaks; the wall stresses are linear in the actions), at the
+    wall and row where its upper bound is largest: a lower bound of the check's, which looks at every
+    wall, station and moment peak between them. None when it cannot be made here (no allowable for the
+    walls: the check says why)."""
     from sizer.checks.local import local_utilizations, poisson_ratio, section_walls, table_of_walls, wall_allowable
     from sizer.errors import InputError
 
@@ -89,7 +90,7 @@ def local_lower_bound(found: Screen, index: int, member: Member, material: Mater
     walls = table_of_walls([section_walls(table.specs[index], (float(table.centroid_y[index]), float(table.centroid_z[index])))])
     return float(local_utilizations(walls, actions, table.area[row], table.Iz[row], table.Iy[row], table.Iyz[row],
                                     material.elastic_modulus, nu, material.yield_strength, allowable,
-                                    member.checks.buckling_safety_factor)[0][0])
+                                    member.checks.buckling_safety_factor, largest=False)[0][0])
 
 
 def given_length_compression(table: CandidateTable, member: Member, material: Material) -> np.ndarray:
