@@ -314,3 +314,11 @@ def test_the_sizing_bounds_share_solves_as_the_check_does() -> None:
     assert alias[("lateral", 1)] == (("lateral", 0), pytest.approx(1.0)) and alias[("lateral", 3)] == (("lateral", 0), pytest.approx(1.0))
     assert alias[("lateral", 2)] == (("lateral", 0), pytest.approx(0.6))
     assert alias[("axial", 2)] == (("axial", 1), pytest.approx(1.0)) and alias[("axial", 3)] == (("axial", 1), pytest.approx(0.75))
+
+
+def test_a_bound_without_trial_shapes_says_nothing() -> None:
+    """Where every trial shape was held entirely by the strictest constraints (none left), the
+    Rayleigh-Ritz bound is no bound (an infinite load factor), not a failure."""
+    from sizer.stability.ritz import largest_inverse
+
+    assert np.all(np.isinf(largest_inverse(np.zeros((3, 0, 0)), np.zeros((3, 0, 0)))))

@@ -87,7 +87,10 @@ def _independent(shapes: np.ndarray) -> np.ndarray:
 
 
 def largest_inverse(stiffness: np.ndarray, geometric: np.ndarray) -> np.ndarray:
-    """(S,) 1 / the largest mu of geometric r = mu stiffness r per section (inf where mu <= 0)."""
+    """(S,) 1 / the largest mu of geometric r = mu stiffness r per section (inf where mu <= 0, and
+    where no trial shape is left: shapes that the strictest constraints hold entirely are dropped)."""
+    if stiffness.shape[-1] == 0:
+        return np.full(stiffness.shape[0], np.inf)
     try:
         lower = np.linalg.cholesky(stiffness)
     except np.linalg.LinAlgError:
