@@ -160,7 +160,7 @@ class SectionStability:
         self.model, self.section = model, section
         self.reduced = Reduced(stiffness, basis)
         self._columns: dict[tuple[str, int, bool], np.ndarray | None] = {}
-        self._solved: dict[str, list[tuple[LoadShape, Buckling]]] = {"axial": [], "lateral": []}
+        self._solved: dict[tuple[str, tuple], list[tuple[LoadShape, Buckling]]] = {}  # (kind, columns and signs) -> solves
 
     def axial(self, weights: np.ndarray) -> Buckling:
         return self.reduced.modes(self.model.geometry("axial", self.section, weights), 1)[0]
@@ -182,11 +182,12 @@ class SectionStability:
             return Buckling(math.inf, None)
         scale = max(abs(weight) for _, weight in terms)
         shape = tuple((column, weight > 0, abs(weight) / scale) for column, weight in terms)
-        found = next((known for known_shape, known in self._solved[kind] if _same_load_shape(known_shape, shape)), None)
+        solved = self._solved.setdefault((kind, tuple((column, positive) for column, positive, _ in shape)), [])
+        found = next((known for known_shape, known in solved if _same_load_shape(known_shape, shape)), None)
         if found is None:
             b = sum(share * self._column(kind, column, positive) for column, positive, share in shape)
             found = self.reduced.projected_modes(b, 1)[0]
-            self._solved[kind].append((shape, found))
+            solved.append((shape, found))
         return Buckling(found.load_factor / scale, found.mode, found.free_movement)
 
     def _column(self, kind: str, column: int, positive: bool) -> np.ndarray | None:
