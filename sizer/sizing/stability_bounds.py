@@ -117,18 +117,20 @@ def same_load_sets(model: MemberStability, keys: set[tuple[str, int]]) -> dict[t
     one bound serves both (as one solve serves both in the full check). Load cases that give no
     geometric term of the kind (a sideways wind in the lateral solve) do not count."""
     loads, per_mass = model.rows
+    live = {kind: [column for column in range(loads.shape[1])
+                   if any(np.any(matrix) for matrix in model.column_terms(kind, column, True).values())]
+            for kind in ("axial", "lateral")}
     found: dict[tuple[str, int], tuple[tuple[str, int], float]] = {}
-    seen: list[tuple[tuple[str, int], np.ndarray, float]] = []
+    seen: dict[tuple, list[tuple[tuple[str, int], np.ndarray, float]]] = {}  # (kind, signs) -> load sets so far
     for kind, c in sorted(keys):
-        live = [column for column in range(loads.shape[1])
-                if any(np.any(matrix) for matrix in model.column_terms(kind, column, True).values())]
-        load_set = np.concatenate([loads[c, live], per_mass[c, live]])
+        load_set = np.concatenate([loads[c, live[kind]], per_mass[c, live[kind]]])
         scale = float(np.abs(load_set).max(initial=0.0))
         unit = load_set / scale if scale > 0 else load_set
-        match = next(((key, other_scale) for key, other, other_scale in seen
-                      if key[0] == kind and other_scale > 0 and scale > 0 and np.abs(unit - other).max(initial=0.0) <= SAME_SHARE), None)
+        bucket = seen.setdefault((kind, tuple(np.sign(unit).astype(int))), [])
+        match = next(((key, other_scale) for key, other, other_scale in bucket
+                      if other_scale > 0 and scale > 0 and np.abs(unit - other).max(initial=0.0) <= SAME_SHARE), None)
         if match is None:
-            seen.append(((kind, c), unit, scale))
+            bucket.append(((kind, c), unit, scale))
             found[(kind, c)] = ((kind, c), 1.0)
         else:
             found[(kind, c)] = (match[0], scale / match[1])
