@@ -264,12 +264,15 @@ class Workers:
             from concurrent.futures import ProcessPoolExecutor
 
             context = local_context()
-            if context.get_start_method() == "fork":
+            forked = context.get_start_method() == "fork"
+            if forked:
                 import_job_modules()
-                gc.freeze()  # the objects forked workers share are left out of every collection: no copy-on-write by the collector
+                gc.freeze()  # the workers' copies of this process's objects stay out of their collections: no copy-on-write by them
             self.pool = ProcessPoolExecutor(self.count, mp_context=context, initializer=warm_up)
             for _ in range(self.count):
-                self.pool.submit(int)
+                self.pool.submit(int)  # the first submit forks every worker
+            if forked:
+                gc.unfreeze()  # this process collects as before (a notebook's objects are not kept for good)
         return self
 
     def __exit__(self, *exc: Any) -> None:
