@@ -284,7 +284,7 @@ def test_combinations_that_only_scale_a_load_set_share_its_solve() -> None:
         if c:  # every combination but "dead" compresses the member
             assert solver.combination("axial", c, 0.0).load_factor == pytest.approx(model.axial_buckling(s, weights[c]).load_factor, rel=1e-9)
     assert solver.combination("lateral", 2, 0.0).load_factor == pytest.approx(solver.combination("lateral", 0, 0.0).load_factor / 0.6, rel=1e-12)
-    solves = {kind: sum(len(found) for (k, _), found in solver._solved.items() if k == kind) for kind in ("axial", "lateral")}
+    solves = {kind: sum(len(found) for found in solver._solved[kind].groups.values()) for kind in ("axial", "lateral")}
     assert solves == {"axial": 1, "lateral": 1}  # one load shape each
 
 

@@ -53,7 +53,7 @@ class _Edges:
 
     def __init__(self, rings: Sequence[np.ndarray]) -> None:
         a = np.vstack(rings) if rings else np.zeros((0, 2))
-        b = np.vstack([np.roll(ring, -1, axis=0) for ring in rings]) if rings else a
+        b = np.vstack([following(ring) for ring in rings]) if rings else a
         self.cross = a[:, 0] * b[:, 1] - b[:, 0] * a[:, 1]
         exponents = np.arange(4)[:, None]
         self.powers = [a[:, d] ** exponents for d in (0, 1)]  # (4, n): a_x^k, a_y^k for k = 0..3
@@ -103,7 +103,7 @@ def polygon_moments(exterior: np.ndarray, holes: Sequence[np.ndarray] = ()) -> P
         area=area, centroid=centroid, xx=central.integral(0, 2), yy=central.integral(2, 0), xy=central.integral(1, 1),
         third={order: central.integral(*order) for order in THIRD_ORDER},
         bounds=(float(outline[:, 0].min()), float(outline[:, 0].max()), float(outline[:, 1].min()), float(outline[:, 1].max())),
-        perimeter=float(np.hypot(*(np.roll(outline, -1, axis=0) - outline).T).sum()),
+        perimeter=float(np.hypot(*(following(outline) - outline).T).sum()),
     )
 
 
@@ -131,9 +131,13 @@ def plane_moments(exterior: np.ndarray, holes: Sequence[np.ndarray] = ()) -> tup
 
 def _ring_edges(ring: np.ndarray) -> tuple[np.ndarray, ...]:
     """x, y of each corner, x, y of the next one, and the cross product x y_next - x_next y."""
-    x, y = ring[:, 0], ring[:, 1]
-    xn, yn = np.concatenate((x[1:], x[:1])), np.concatenate((y[1:], y[:1]))
+    (x, y), (xn, yn) = ring.T, following(ring).T
     return x, y, xn, yn, x * yn - xn * y
+
+
+def following(ring: np.ndarray) -> np.ndarray:
+    """Each corner's next corner around the ring (the last one's is the first)."""
+    return np.concatenate((ring[1:], ring[:1]))
 
 
 def clipped(ring: np.ndarray, axis: int, level: float) -> np.ndarray:
@@ -141,12 +145,12 @@ def clipped(ring: np.ndarray, axis: int, level: float) -> np.ndarray:
     by one line, Sutherland and Hodgman 1974): every corner on that side, and the crossing of every
     edge that crosses the line."""
     side = ring[:, axis] - level
-    following, side_next = np.roll(ring, -1, axis=0), np.roll(side, -1)
+    side_next = following(side)
     inside = side >= 0
     crosses = inside != (side_next >= 0)
     with np.errstate(divide="ignore", invalid="ignore"):
         t = np.where(crosses, side / (side - side_next), 0.0)
-    crossing = ring + t[:, None] * (following - ring)
+    crossing = ring + t[:, None] * (following(ring) - ring)
     return np.stack([ring, crossing], axis=1).reshape(-1, 2)[np.stack([inside, crosses], axis=1).ravel()]
 
 
@@ -174,4 +178,4 @@ def plastic_modulus(rings: Sequence[np.ndarray], axis: int) -> float:
 
 def _area(rings: Sequence[np.ndarray]) -> float:
     """The signed area of rings (the shoelace sum)."""
-    return float(sum(np.sum(ring[:, 0] * np.roll(ring[:, 1], -1) - np.roll(ring[:, 0], -1) * ring[:, 1]) for ring in rings) / 2)
+    return float(sum(_ring_edges(ring)[4].sum() for ring in rings) / 2)

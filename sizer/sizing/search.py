@@ -54,7 +54,6 @@ class Search:
     model: MemberStability | None = None
     bounded: dict[int, int] = field(default_factory=dict)  # candidate index -> stability epoch of its bounds
     reveal_count: int = 1  # candidates revealed together next: doubles while revealed ones keep failing
-    learning: bool = True  # whether full checks add their buckled shapes to the stability bounds' trial shapes
 
     def compute(self, candidates: Sequence[Candidate]) -> None:
         """Make sure the warping tiers and stress fields of `candidates` are cached (on the workers
@@ -75,9 +74,9 @@ class Search:
             for row in rows:
                 self.bounded.pop(row, None)  # its stability bounds are made again when next asked for
 
-    def full_check(self, candidate: Candidate) -> CheckReport:
-        """The full stress-field check of one candidate (the same as `sizer check`); its buckled
-        shapes sharpen the stability bounds of the others."""
+    def full_check(self, candidate: Candidate, learn: bool = True) -> CheckReport:
+        """The full stress-field check of one candidate (the same as `sizer check`); with `learn`, its
+        buckled shapes sharpen the stability bounds of the others."""
         from sizer.sections import unit_stress_field
 
         if candidate.report is None:
@@ -85,7 +84,7 @@ class Search:
             design = design_for(self.member, self.material, candidate, self.base)
             candidate.design = design
             candidate.report = check_design(design, unit_stress_field(candidate.spec), stability=self.model)
-            if self.learning and self.stability is not None and candidate.report.stability is not None:
+            if learn and self.stability is not None and candidate.report.stability is not None:
                 self.stability.add(candidate.report.stability)
         return candidate.report
 
@@ -136,7 +135,7 @@ class Search:
                 candidate.raise_bound("local", local)
         return candidate.certainly_fails
 
-    def passes_in_full(self, candidate: Candidate) -> bool:
+    def passes_in_full(self, candidate: Candidate, learn: bool = True) -> bool:
         """False at once when a proven lower bound rules the candidate out, first from the geometric
         tier alone, then with its warping tier (J, Iw, shear centre, peak shear stresses: computed
         only now, for a section the geometric tier cannot rule out); else the verdict of the full
@@ -151,7 +150,7 @@ class Search:
                 if self.ruled_out(candidate):
                     self.reveal_count = min(2 * self.reveal_count, REVEAL_MOST)
                     return False
-        passes = self.full_check(candidate).passes
+        passes = self.full_check(candidate, learn).passes
         self.reveal_count = 1 if passes else min(2 * self.reveal_count, REVEAL_MOST)
         return passes
 
@@ -183,23 +182,17 @@ class Search:
         return best
 
     def confirm_runners_up(self, chosen: Candidate | None, top: int) -> None:
-        """The `top` lighter sections just below the choice are shown failing: by their full check, or
-        by the proven lower bound that ruled them out in the walk (shown as such). The `top` heavier
-        ones that pass are found by full checks (heavier ones a lower bound rules out are skipped);
-        their buckled shapes are not added to the trial shapes (each new shape would have the bounds
-        of the sections ahead made again, for a walk that is nearly over)."""
+        """The `top` heavier sections that pass, found by full checks (heavier ones a lower bound rules
+        out are skipped); their buckled shapes are not added to the trial shapes (each new shape would
+        have the bounds of the sections ahead made again, for a walk that is nearly over). The lighter
+        ones shown need nothing more: the walk either checked each in full or proved it fails."""
         if chosen is None:
             return
-        position = self.candidates.index(chosen)
-        for candidate in self.candidates[max(0, position - top):position]:
-            if not candidate.certainly_fails:
-                self.full_check(candidate)
         heavier = 0
-        self.learning = False
-        for candidate in self.candidates[position + 1:]:
+        for candidate in self.candidates[self.candidates.index(chosen) + 1:]:
             if heavier >= top:
                 break
-            heavier += self.passes_in_full(candidate)
+            heavier += self.passes_in_full(candidate, learn=False)
 
 
 def size_member(member: Member, catalogue: Any, material: Material, families: Sequence[str] = (),

@@ -25,7 +25,7 @@ from sizer.sizing.candidates import CandidateTable
 from sizer.sizing.screen import Screen
 from sizer.stability import MemberStability, minor_axis_is_weaker
 from sizer.stability.boundary import admissible_basis
-from sizer.stability.problem import SAME_SHARE, term_coefficients
+from sizer.stability.problem import SameLoadSets, load_shape, term_coefficients
 from sizer.stability.ritz import Projection, assemble, largest_inverse, project, strict_rows
 
 class StabilityBounds:
@@ -117,20 +117,16 @@ def same_load_sets(model: MemberStability, keys: set[tuple[str, int]]) -> dict[t
     one bound serves both (as one solve serves both in the full check). Load cases that give no
     geometric term of the kind (a sideways wind in the lateral solve) do not count."""
     loads, per_mass = model.rows
-    live = {kind: [column for column in range(loads.shape[1])
-                   if any(np.any(matrix) for matrix in model.column_terms(kind, column, True).values())]
-            for kind in ("axial", "lateral")}
+    columns = loads.shape[1]
+    seen = {"axial": SameLoadSets(), "lateral": SameLoadSets()}
     found: dict[tuple[str, int], tuple[tuple[str, int], float]] = {}
-    seen: dict[tuple, list[tuple[tuple[str, int], np.ndarray, float]]] = {}  # (kind, signs) -> load sets so far
     for kind, c in sorted(keys):
-        load_set = np.concatenate([loads[c, live[kind]], per_mass[c, live[kind]]])
-        scale = float(np.abs(load_set).max(initial=0.0))
-        unit = load_set / scale if scale > 0 else load_set
-        bucket = seen.setdefault((kind, tuple(np.sign(unit).astype(int))), [])
-        match = next(((key, other_scale) for key, other, other_scale in bucket
-                      if other_scale > 0 and scale > 0 and np.abs(unit - other).max(initial=0.0) <= SAME_SHARE), None)
+        live = sorted(model.live_columns(kind))
+        # the loads' columns, then the self-weight's per kg/m as columns of their own: the same shape for every mass
+        shape, scale = load_shape([(j, loads[c, j]) for j in live] + [(columns + j, per_mass[c, j]) for j in live])
+        match = seen[kind].find(shape) if shape else None
         if match is None:
-            bucket.append(((kind, c), unit, scale))
+            seen[kind].add(shape, ((kind, c), scale))
             found[(kind, c)] = ((kind, c), 1.0)
         else:
             found[(kind, c)] = (match[0], scale / match[1])

@@ -13,6 +13,7 @@ from __future__ import annotations
 
 import math
 from functools import cached_property
+from typing import Any, Iterable
 
 import numpy as np
 
@@ -45,6 +46,7 @@ class MemberStability:
         self.cases = list(solution.cases)
         self._terms: dict[tuple[str, int], tuple[dict[str, np.ndarray], dict[str, np.ndarray]]] = {}
         self._columns: dict[tuple[str, int, bool], dict[str, np.ndarray]] = {}
+        self._live: dict[tuple[str, str], frozenset[int]] = {}
 
     def actions(self, weights: np.ndarray) -> np.ndarray:
         """(E, G, 6) internal actions in the section's axes at the Gauss points of the load set
@@ -98,6 +100,15 @@ class MemberStability:
             for name, matrix in self.column_terms(kind, column, weight > 0).items():
                 total[name] = total[name] + abs(weight) * matrix if name in total else abs(weight) * matrix
         return total
+
+    def live_columns(self, kind: str) -> frozenset[int]:
+        """The load-case columns that give some geometric term of this kind (a sideways wind gives
+        none in the lateral solve): the others are left out of the load sets that solves share."""
+        key = (kind, "live")
+        if key not in self._live:
+            self._live[key] = frozenset(column for column in range(len(self.cases) + 1)
+                                        if any(np.any(matrix) for matrix in self.column_terms(kind, column, True).values()))
+        return self._live[key]
 
     def column_terms(self, kind: str, column: int, positive: bool) -> dict[str, np.ndarray]:
         """load_set_terms of one load-case column at weight +1 or -1 (made once)."""
@@ -159,8 +170,8 @@ class SectionStability:
     def __init__(self, model: MemberStability, section: StabilitySection, stiffness: np.ndarray, basis: np.ndarray) -> None:
         self.model, self.section = model, section
         self.reduced = Reduced(stiffness, basis)
-        self._columns: dict[tuple[str, int, bool], np.ndarray | None] = {}
-        self._solved: dict[tuple[str, tuple], list[tuple[LoadShape, Buckling]]] = {}  # (kind, columns and signs) -> solves
+        self._columns: dict[tuple[str, int, bool], np.ndarray] = {}
+        self._solved = {"axial": SameLoadSets(), "lateral": SameLoadSets()}
 
     def axial(self, weights: np.ndarray) -> Buckling:
         return self.reduced.modes(self.model.geometry("axial", self.section, weights), 1)[0]
@@ -176,29 +187,25 @@ class SectionStability:
         solve, say) counts as absent, and a combination that only scales another (0.6 x dead) is
         solved once."""
         loads, per_mass = self.model.rows
-        terms = [(column, weight) for column, weight in enumerate(loads[combination] + mass * per_mass[combination])
-                 if weight != 0.0 and self._column(kind, column, weight > 0) is not None]
-        if not terms:
+        live = self.model.live_columns(kind)
+        shape, scale = load_shape((column, weight) for column, weight in enumerate(loads[combination] + mass * per_mass[combination])
+                                  if column in live)
+        if not shape:
             return Buckling(math.inf, None)
-        scale = max(abs(weight) for _, weight in terms)
-        shape = tuple((column, weight > 0, abs(weight) / scale) for column, weight in terms)
-        solved = self._solved.setdefault((kind, tuple((column, positive) for column, positive, _ in shape)), [])
-        found = next((known for known_shape, known in solved if _same_load_shape(known_shape, shape)), None)
+        found = self._solved[kind].find(shape)
         if found is None:
             b = sum(share * self._column(kind, column, positive) for column, positive, share in shape)
             found = self.reduced.projected_modes(b, 1)[0]
-            solved.append((shape, found))
+            self._solved[kind].add(shape, found)
         return Buckling(found.load_factor / scale, found.mode, found.free_movement)
 
-    def _column(self, kind: str, column: int, positive: bool) -> np.ndarray | None:
-        """B of one load-case column at weight +1 or -1 for this section, projected (made once); None
-        where the column gives no geometric term of this kind."""
+    def _column(self, kind: str, column: int, positive: bool) -> np.ndarray:
+        """B of one load-case column at weight +1 or -1 for this section, projected (made once)."""
         key = (kind, column, positive)
         if key not in self._columns:
             terms = self.model.column_terms(kind, column, positive)
             full = -weighted_sum(terms, term_coefficients(kind, self.section)) + np.zeros((self.model.mesh.size,) * 2)
-            projected = self.reduced.project(full)
-            self._columns[key] = projected if np.any(projected) else None
+            self._columns[key] = self.reduced.project(full)
         return self._columns[key]
 
 
@@ -206,10 +213,34 @@ LoadShape = tuple[tuple[int, bool, float], ...]  # (column, positive, |weight| /
 SAME_SHARE = 1e-12  # shares this close (relative) are the same load set: the solves differ by round-off only
 
 
-def _same_load_shape(a: LoadShape, b: LoadShape) -> bool:
-    """Whether two load sets are the same up to a positive factor (their shares equal to round-off)."""
-    return len(a) == len(b) and all(ca == cb and pa == pb and abs(sa - sb) <= SAME_SHARE * max(sa, sb)
-                                    for (ca, pa, sa), (cb, pb, sb) in zip(a, b))
+def load_shape(weights: Iterable[tuple[int, float]]) -> tuple[LoadShape, float]:
+    """A load set, (column, weight) pairs, as its shape (column, positive, |weight| / largest |weight|,
+    zero weights left out) and that largest |weight|: load sets k > 0 times each other have one shape."""
+    terms = [(column, float(weight)) for column, weight in weights if weight != 0.0]
+    scale = max((abs(weight) for _, weight in terms), default=0.0)
+    return tuple((column, weight > 0, abs(weight) / scale) for column, weight in terms), scale
+
+
+class SameLoadSets:
+    """What was found for each load shape so far (a solve, or which combination was solved), looked
+    up by shape: its columns and signs first, then its shares to round-off (SAME_SHARE)."""
+
+    def __init__(self) -> None:
+        self.groups: dict[tuple[tuple[int, bool], ...], list[tuple[LoadShape, Any]]] = {}
+
+    def find(self, shape: LoadShape) -> Any:
+        """What was kept for this shape, or None."""
+        for known, value in self.groups.get(_columns_and_signs(shape), ()):
+            if all(abs(a - b) <= SAME_SHARE * max(a, b) for (_, _, a), (_, _, b) in zip(known, shape)):
+                return value
+        return None
+
+    def add(self, shape: LoadShape, value: Any) -> None:
+        self.groups.setdefault(_columns_and_signs(shape), []).append((shape, value))
+
+
+def _columns_and_signs(shape: LoadShape) -> tuple[tuple[int, bool], ...]:
+    return tuple((column, positive) for column, positive, _ in shape)
 
 
 def term_coefficients(kind: str, section: StabilitySection) -> dict[str, object]:
