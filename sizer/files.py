@@ -70,6 +70,14 @@ def _writable(path: Path, mode: int) -> bool:
         return False
 
 
+def read_text(path: str | Path, what: str = "the file", fix: str = "check the path") -> str:
+    """The UTF-8 text of a file the user named; InputError naming it where it cannot be read."""
+    try:
+        return Path(path).read_text(encoding="utf-8")
+    except (OSError, UnicodeDecodeError) as exc:
+        raise InputError(str(path), "", f"cannot read {what} ({exc})", fix) from None
+
+
 def write_atomic(path: str | Path, data: bytes | str, durable: bool = True) -> None:
     """Write `data` to `path` atomically (temp file in the same folder, fsync, os.replace). A file
     that is replaced keeps its permissions; a new one gets the usual mode (0o666 less the umask).

@@ -21,6 +21,7 @@ from pathlib import Path
 from typing import Any, Iterator, Sequence
 
 from sizer.errors import InputError
+from sizer.files import read_text
 from sizer.model import LineLoad, Member, PointLoad
 from sizer.parallel import Job, JobFailed, RunSummary, ShippedCatalogue, Workers, code_fingerprint, content_hash, error_result, result_error, ship_catalogue
 
@@ -92,10 +93,7 @@ class ScheduleResult:
 def read_schedule(path: str | Path) -> Schedule:
     """A schedule file (TOML, or CSV by its .csv suffix) read into rows; InputError names file, row and key."""
     path = Path(path)
-    try:
-        text = path.read_text(encoding="utf-8")
-    except (OSError, UnicodeDecodeError) as exc:
-        raise InputError(str(path), "", f"cannot read the schedule ({exc})", "check the path") from None
+    text = read_text(path, "the schedule")
     rows = _csv_rows(path, text) if path.suffix.lower() == ".csv" else None
     title = ""
     if rows is None:

@@ -22,6 +22,7 @@ from typing import Any, Sequence
 
 from sizer import units
 from sizer.errors import InputError
+from sizer.files import read_text
 from sizer.model import Material
 from sizer.sections import catalogue_cache
 from sizer.sections.catalogue_cache import ParsedFile
@@ -165,7 +166,7 @@ def load_catalogue(paths: Sequence[Path]) -> Catalogue:
 def _catalogue_file(path: Path, from_folder: bool) -> ParsedFile:
     """The sections and materials of one file: remembered when its text (and path, and the code)
     are unchanged, else parsed now and remembered. `foreign` only for a file `from_folder`."""
-    text = _read_text(path)
+    text = read_text(path, fix="check the path and that it is a UTF-8 text file")
     digest = catalogue_cache.content_digest(path, text)
     remembered = catalogue_cache.read_parsed(path, digest)
     if remembered is not None and (from_folder or not remembered.foreign):
@@ -186,13 +187,6 @@ def _parse_file(path: Path, text: str, from_folder: bool) -> ParsedFile:
 
 def _place(file: str, line: int | None) -> str:
     return f"{file}:{line}" if line is not None else file
-
-
-def _read_text(path: Path) -> str:
-    try:
-        return path.read_text(encoding="utf-8")
-    except (OSError, UnicodeDecodeError) as exc:
-        raise InputError(str(path), "", f"cannot read the file ({exc})", "check the path and that it is a UTF-8 text file") from None
 
 
 def _parse_toml(text: str, path: Path) -> dict:

@@ -15,7 +15,7 @@ from pathlib import Path
 from typing import Any
 
 from sizer.errors import InputError
-from sizer.files import write_atomic
+from sizer.files import read_text, write_atomic
 from sizer.model import Material
 from sizer.sections.catalogue import SectionSpec, load_catalogue, parse_catalogue_text, parse_section
 from sizer.sections.shapes import SHAPES
@@ -68,10 +68,9 @@ def _document(file: Path) -> Any:
 
     if not file.exists():
         return tomlkit.document()
+    text = read_text(file)
     try:
-        return tomlkit.parse(file.read_text(encoding="utf-8"))
-    except (OSError, UnicodeDecodeError) as exc:
-        raise InputError(str(file), "", f"cannot read the file ({exc})", "check the path") from None
+        return tomlkit.parse(text)
     except Exception as exc:  # tomlkit's parse errors
         raise InputError(str(file), "", f"not valid TOML: {exc}", "correct the TOML syntax first") from None
 

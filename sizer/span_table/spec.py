@@ -10,6 +10,7 @@ from pathlib import Path
 from typing import Any, Sequence
 
 from sizer.errors import InputError
+from sizer.files import read_text
 from sizer.parallel import RunSummary, ShippedCatalogue
 
 TOP_KEYS = ("title", "span_table", "materials")
@@ -157,10 +158,7 @@ def read_span_table(path: str | Path) -> SpanTableSpec:
     from sizer.inputfile import parse_toml
 
     path = Path(path)
-    try:
-        text = path.read_text(encoding="utf-8")
-    except (OSError, UnicodeDecodeError) as exc:
-        raise InputError(str(path), "", f"cannot read the span table ({exc})", "check the path") from None
+    text = read_text(path, "the span table")
     data = parse_toml(text, path)
     values = _FileReader(path, text)
     values.reader.known_keys(data, TOP_KEYS, "")
