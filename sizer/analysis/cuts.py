@@ -7,6 +7,7 @@ Actions on the +x face of the left segment (N, Vy, Vz, T in N and N*m; My, Mz in
 
 from __future__ import annotations
 
+import math
 from typing import Sequence
 
 import numpy as np
@@ -49,8 +50,8 @@ def section_actions(sources: Sequence[tuple[Points, Lines] | None], weights: np.
     at = np.concatenate([src[0].at for _, src in used]) if used else np.zeros(0)
     forces = np.concatenate([src[0].forces[:, None, :] * weights[:, j][None, :, None] for j, src in used]) if used else np.zeros((0, n_sets, 6))
     cut = np.where(right[:, None], at[None, :] <= xs[:, None] + tol, at[None, :] < xs[:, None] - tol).astype(float)
-    sums = np.tensordot(cut, forces, axes=(1, 0))  # (n, C, 6)
-    first = np.tensordot(cut, at[:, None, None] * forces[:, :, :3], axes=(1, 0))  # (n, C, 3): sum of a * F
+    # columns 0-5: sum of F; 6-8: sum of a * F (forces only), over the items left of each cut
+    totals = contract(cut, np.concatenate([forces, at[:, None, None] * forces[:, :, :3]], axis=2))  # (n, C, 9)
     lines = [(j, src[1]) for j, src in used if len(src[1].start)]
     if lines:
         start = np.concatenate([ln.start for _, ln in lines])
@@ -58,14 +59,24 @@ def section_actions(sources: Sequence[tuple[Points, Lines] | None], weights: np.
         q0 = np.concatenate([ln.q0[:, None, :] * weights[:, j][None, :, None] for j, ln in lines])  # (J, C, 4)
         slope = np.concatenate([ln.slope[:, None, :] * weights[:, j][None, :, None] for j, ln in lines])
         u = np.clip(xs[:, None], start[None, :], end[None, :]) - start[None, :]
-        u2, u3 = u * u / 2, u**3 / 3
-        sums[:, :, :4] += np.tensordot(u, q0, axes=(1, 0)) + np.tensordot(u2, slope, axes=(1, 0))
         lever = start[:, None, None]
-        first += (np.tensordot(u, lever * q0, axes=(1, 0)) + np.tensordot(u2, lever * slope + q0, axes=(1, 0))
-                  + np.tensordot(u3, slope, axes=(1, 0)))[:, :, :3]
+        # resultant: u q0 + u^2/2 slope; its first moment about x = 0: u lever q0 + u^2/2 (lever slope + q0) + u^3/3 slope
+        powers = np.concatenate([u, u * u / 2, u**3 / 3], axis=1)  # (n, 3J)
+        zero = np.zeros_like(q0)
+        resultant = np.concatenate([q0, slope, zero])
+        moment = np.concatenate([lever * q0, lever * slope + q0, slope])[:, :, :3]
+        from_lines = contract(powers, np.concatenate([resultant, moment], axis=2))  # (n, C, 7)
+        totals[:, :, :4] += from_lines[:, :, :4]
+        totals[:, :, 6:] += from_lines[:, :, 4:]
+    sums, first = totals[:, :, :6], totals[:, :, 6:]
     out = np.empty((n_sets, xs.size, 6))
     x = xs[:, None]
     out[:, :, :4] = -sums[:, :, :4].transpose(1, 0, 2)
     out[:, :, 4] = (-sums[:, :, 4] + first[:, :, 2] - x * sums[:, :, 2]).T
     out[:, :, 5] = (-sums[:, :, 5] - first[:, :, 1] + x * sums[:, :, 1]).T
     return out + 0.0  # no negative zeros
+
+
+def contract(a: np.ndarray, b: np.ndarray) -> np.ndarray:
+    """(n, C, d) sums over k of a (n, k) times b (k, C, d): one matrix product."""
+    return (a @ b.reshape(b.shape[0], math.prod(b.shape[1:]))).reshape((a.shape[0],) + b.shape[1:])

@@ -10,6 +10,7 @@ from typing import Sequence
 
 import numpy as np
 
+from sizer.analysis.cuts import contract
 from sizer.analysis.layout import Layout
 from sizer.analysis.problems import MOMENT_SIGN, POINT_COMPONENT, Problem, element_freedoms
 from sizer.model import Load, PointLoad
@@ -35,15 +36,14 @@ class Terms:
         """For each shift: (n, ..., 4) sums over the terms in elements[j] of
         coef <s_j - at>^(power + shift) / (power + shift)!. Shift 0: load resultant on [0, s];
         1: its moment about s (for bars: its integral); 2, 3: further integrals from the element start."""
-        out = [np.zeros((len(s),) + self.coef.shape[1:]) for _ in shifts]
+        out = np.zeros((len(shifts), len(s)) + self.coef.shape[1:])
         for element in sorted(set(elements.tolist()) & set(self.element.tolist())):  # one element at a time: small blocks
             rows, cols = np.flatnonzero(elements == element), np.flatnonzero(self.element == element)
             gap = np.maximum(s[rows, None] - self.at[None, cols], 0.0)
-            for values, shift in zip(out, shifts):
-                order = self.power[cols] + shift
-                powers = np.where((gap > 0) & (order >= 0), gap ** np.maximum(order, 0) / _FACTORIAL[np.maximum(order, 0)], 0.0)
-                values[rows] = np.tensordot(powers, self.coef[cols], axes=(1, 0))
-        return out
+            order = self.power[cols][None, None, :] + np.asarray(shifts)[:, None, None]  # (shifts, 1, terms)
+            powers = np.where((gap > 0) & (order >= 0), gap ** np.maximum(order, 0) / _FACTORIAL[np.maximum(order, 0)], 0.0)
+            out[:, rows] = contract(powers.reshape(-1, len(cols)), self.coef[cols]).reshape((len(shifts), len(rows)) + self.coef.shape[1:])
+        return list(out)
 
     def weighted(self, factors: np.ndarray) -> "Terms":
         """The terms of one case (coef (T, 4)) with coef scaled by each factor: coef (T, len(factors), 4)."""

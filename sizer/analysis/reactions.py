@@ -45,9 +45,22 @@ def _active_supports(problem: Problem, layout: Layout) -> tuple[np.ndarray, np.n
     return active, translation[active], rotation[active]
 
 
-def _problem_reactions(problem: Problem, layout: Layout, u: np.ndarray, loads: tuple[Points, Lines], fixed: np.ndarray,
-                       positions: np.ndarray) -> np.ndarray:
-    """(n_supports, 2) reactions (force, moment) of each support in this problem.
+def _bay_cuts(problem: Problem, layout: Layout) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
+    """The supports acting in this problem (by position, and what each holds), the longest element of
+    each bay between neighbouring ones, and the cuts (m): just right of each such element's start,
+    and the member's end."""
+    active, holds_translation, holds_rotation = _active_supports(problem, layout)
+    nodes = layout.support_nodes[active]
+    lengths = layout.lengths
+    longest = np.array([start + int(np.argmax(lengths[start:stop])) for start, stop in zip(nodes[:-1], nodes[1:])], dtype=int)
+    xs = np.concatenate([layout.nodes[longest], [layout.length]]) if len(active) else np.zeros(0)
+    return active, holds_translation, holds_rotation, longest, xs
+
+
+def _problem_reactions(problem: Problem, layout: Layout, u: np.ndarray, fixed: np.ndarray, positions: np.ndarray,
+                       bays: tuple[np.ndarray, ...], from_loads: np.ndarray) -> np.ndarray:
+    """(n_supports, 2) reactions (force, moment) of each support in this problem; `bays` as
+    _bay_cuts gives them, `from_loads` (cuts, 6) the actions of the loads alone at its cuts.
 
     Computed by statics, bay by bay: between two neighbouring acting supports, the actions just
     right of the start of the bay's longest element (from its end forces, well conditioned) give
@@ -55,17 +68,11 @@ def _problem_reactions(problem: Problem, layout: Layout, u: np.ndarray, loads: t
     last it balances the loads. Each reaction is the difference of neighbouring resultants. (The
     residual K u - F would lose digits on short elements.)"""
     out = np.zeros((len(positions), 2))
-    active, holds_translation, holds_rotation = _active_supports(problem, layout)
+    active, holds_translation, holds_rotation, longest, xs = bays
     if not len(active):
         return out
     force_col, moment_col = POINT_COMPONENT[problem.name]
-    nodes = layout.support_nodes[active]
-    starts, stops = nodes[:-1], nodes[1:]
-    lengths = layout.lengths
-    longest = np.array([start + int(np.argmax(lengths[start:stop])) for start, stop in zip(starts, stops)], dtype=int)
-    xs = np.concatenate([layout.nodes[longest], [layout.length]])
     elastic = np.vstack([_element_start_actions(problem, layout, u, fixed, longest), np.zeros((1, 2))])
-    from_loads = section_actions([loads], np.ones((1, 1)), xs, np.ones(xs.size, bool), layout.tol)[0]
     columns = [force_col] + ([moment_col] if moment_col is not None else [])
     of_reactions = elastic[:, : len(columns)] - from_loads[:, columns]
     force = np.concatenate([[0.0], -of_reactions[:, 0]])  # resultant force of the reactions left of each bay
@@ -80,14 +87,23 @@ def _problem_reactions(problem: Problem, layout: Layout, u: np.ndarray, loads: t
     return out
 
 
-def case_reactions(problems: dict[str, Problem], layout: Layout, displacement: dict[str, np.ndarray], column: int,
-               loads: tuple[Points, Lines], fixed: np.ndarray, positions: np.ndarray) -> np.ndarray:
-    """(n_supports, 6) reactions Fx, Fy, Fz, Mx, My, Mz of each support for one load column."""
-    reactions = np.zeros((len(positions), 6))
-    for name, problem in problems.items():
-        values = _problem_reactions(problem, layout, displacement[name][:, column], loads, fixed, positions)
-        force_col, moment_col = POINT_COMPONENT[name]
-        reactions[:, force_col] = values[:, 0]
-        if moment_col is not None:
-            reactions[:, moment_col] = values[:, 1]
-    return reactions + 0.0
+def column_reactions(problems: dict[str, Problem], layout: Layout, displacement: dict[str, np.ndarray],
+                     loads: list[tuple[Points, Lines]], fixed: list[np.ndarray], positions: np.ndarray) -> list[np.ndarray]:
+    """(n_supports, 6) reactions Fx, Fy, Fz, Mx, My, Mz of each support for each load column
+    (`loads` and `fixed` one per column; displacement[name] (size, columns)); the loads' actions at
+    every problem's cuts in one pass."""
+    bays = {name: _bay_cuts(problem, layout) for name, problem in problems.items()}
+    xs = np.concatenate([cuts[-1] for cuts in bays.values()])
+    splits = np.cumsum([len(cuts[-1]) for cuts in bays.values()])[:-1]
+    at_cuts = section_actions(loads, np.eye(len(loads)), xs, np.ones(xs.size, bool), layout.tol)  # (columns, cuts, 6)
+    found = []
+    for column in range(len(loads)):
+        reactions = np.zeros((len(positions), 6))
+        for (name, problem), from_loads in zip(problems.items(), np.split(at_cuts[column], splits)):
+            values = _problem_reactions(problem, layout, displacement[name][:, column], fixed[column], positions, bays[name], from_loads)
+            force_col, moment_col = POINT_COMPONENT[name]
+            reactions[:, force_col] = values[:, 0]
+            if moment_col is not None:
+                reactions[:, moment_col] = values[:, 1]
+        found.append(reactions + 0.0)
+    return found

@@ -17,7 +17,7 @@ from sizer.analysis.layout import Layout, build_layout
 from sizer.analysis.loads import lines_of, points_of
 from sizer.analysis.mechanisms import engaged_modes, mechanism_error
 from sizer.analysis.problems import Problem, build_problems
-from sizer.analysis.reactions import case_reactions
+from sizer.analysis.reactions import column_reactions
 from sizer.analysis.support_stability import check_support_stability
 from sizer.analysis.validation import check_geometry, check_loads, check_springs_need_stiffness
 from sizer.errors import InputError
@@ -76,6 +76,7 @@ def solve_columns(member: Member, load_sets: Sequence[Sequence[Load]], names: Se
         raise InputError(member.source, "", "the solution is not a finite number: the member's loads, supports and "
                          "stiffness are too far apart in size to compute", "give values within the ranges of docs/limits.md")
     positions = np.array([s.at for s in member.supports], dtype=float)
+    reactions = column_reactions(problems, layout, displacement, list(zip(points, lines)), fixed, positions)
     solutions: list[CaseSolution | None] = []
     for column, case in enumerate(names):
         if errors[column] is not None:
@@ -84,8 +85,7 @@ def solve_columns(member: Member, load_sets: Sequence[Sequence[Load]], names: Se
         field = None
         if stiffness is not None:
             field = case_field(problems, layout, displacement, column, terms[column][1], fixed[column], stiffness)
-        reactions = case_reactions(problems, layout, displacement, column, (points[column], lines[column]), fixed[column], positions)
-        solutions.append(CaseSolution(case, member.length, positions, reactions, points[column], lines[column], field, layout.tol))
+        solutions.append(CaseSolution(case, member.length, positions, reactions[column], points[column], lines[column], field, layout.tol))
     return _Solved(solutions, errors)
 
 
