@@ -55,8 +55,10 @@ MEMBER = '[member]\nlength = "3 m"\nsection = "beam 200"\n'
 
 @pytest.fixture()
 def folder(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> Path:
-    """A catalogue folder holding stock.toml, with a cache folder of its own."""
+    """A catalogue folder holding stock.toml, with a cache folder of its own; each read goes to the
+    cache folder, as a new process's would (the reads within one process: test_read_again_here)."""
     monkeypatch.setenv("SIZER_CACHE_DIR", str(tmp_path / "cache"))
+    monkeypatch.setattr(catalogue, "READ_HERE_MOST", 0)
     library = tmp_path / "library"
     library.mkdir()
     (library / "stock.toml").write_text(STOCK, encoding="utf-8")
@@ -247,3 +249,19 @@ def test_warm_read_needs_no_toml_parser(folder: Path) -> None:
     done = subprocess.run([sys.executable, "-c", script], capture_output=True, text=True, env=env, timeout=60)
     assert done.returncode == 0, done.stderr
     assert float(done.stdout) == pytest.approx(0.0056)  # 5.6 mm
+
+
+def test_read_again_here_skips_the_cache_folder_until_the_text_changes(folder: Path, monkeypatch: pytest.MonkeyPatch) -> None:
+    monkeypatch.setattr(catalogue, "READ_HERE_MOST", 4)
+    monkeypatch.setattr(catalogue, "_READ_HERE", {})
+    good = _summary(load_catalogue([folder]))
+    [slot] = _slots()
+    _garbage(slot)  # a read that went to the cache folder would have to parse again
+    _no_parsing(monkeypatch)
+    assert _summary(load_catalogue([folder])) == good
+    monkeypatch.undo()
+    monkeypatch.setattr(catalogue, "READ_HERE_MOST", 4)
+    stock = folder / "stock.toml"
+    stock.write_text(STOCK.replace('"50 mm"', '"60 mm"'), encoding="utf-8")
+    edited = load_catalogue([folder])
+    assert edited.sections["flat 50x10"].dims["depth"] == pytest.approx(0.060)  # 60 mm (SI prefixes, common practice)
