@@ -36,13 +36,17 @@ class Terms:
         """For each shift: (n, ..., 4) sums over the terms in elements[j] of
         coef <s_j - at>^(power + shift) / (power + shift)!. Shift 0: load resultant on [0, s];
         1: its moment about s (for bars: its integral); 2, 3: further integrals from the element start."""
+        shifts = np.asarray(shifts)
         out = np.zeros((len(shifts), len(s)) + self.coef.shape[1:])
-        for element in sorted(set(elements.tolist()) & set(self.element.tolist())):  # one element at a time: small blocks
-            rows, cols = np.flatnonzero(elements == element), np.flatnonzero(self.element == element)
-            gap = np.maximum(s[rows, None] - self.at[None, cols], 0.0)
-            order = self.power[cols][None, None, :] + np.asarray(shifts)[:, None, None]  # (shifts, 1, terms)
+        count = len(self.element)
+        order = self.power[None, None, :] + shifts[:, None, None]  # (shifts, 1, terms)
+        step = max(1, BLOCK_ENTRIES // max(count * len(shifts), 1))
+        for lo in range(0, len(s) if count else 0, step):  # every term at once, a block of stations at a time
+            rows = slice(lo, lo + step)
+            gap = np.where(elements[rows, None] == self.element[None, :], np.maximum(s[rows, None] - self.at[None, :], 0.0), 0.0)
             powers = np.where((gap > 0) & (order >= 0), gap ** np.maximum(order, 0) / _FACTORIAL[np.maximum(order, 0)], 0.0)
-            out[:, rows] = contract(powers.reshape(-1, len(cols)), self.coef[cols]).reshape((len(shifts), len(rows)) + self.coef.shape[1:])
+            block = contract(powers.reshape(-1, count), self.coef)
+            out[:, rows] = block.reshape((len(shifts), -1) + self.coef.shape[1:])
         return list(out)
 
     def weighted(self, factors: np.ndarray) -> "Terms":
@@ -57,6 +61,7 @@ def concat_terms(parts: Sequence[Terms]) -> Terms:
 
 PROBLEM_ORDER: tuple[str, ...] = ("axial", "torsion", "xy", "xz")
 _FACTORIAL = np.array([1.0, 1.0, 2.0, 6.0, 24.0, 120.0])
+BLOCK_ENTRIES = 1 << 18  # stations x terms x shifts evaluated at once, at most (bounds the memory of a long patterned member)
 
 
 def case_terms(layout: Layout, loads: Sequence[Load]) -> tuple[np.ndarray, Terms]:
