@@ -536,3 +536,18 @@ def test_point_items_are_the_loads_then_the_reactions():
     np.testing.assert_allclose(at, [1.0, 0.0, length])
     # Statics: R = P b / L and P a / L (AISC Table 3-23 case 8).
     np.testing.assert_allclose(forces[:, FY], [-p, p * 3.0 / length, p * 1.0 / length], rtol=STATICS)
+
+
+def test_deflection_curve_evaluated_a_few_stations_at_a_time(monkeypatch: pytest.MonkeyPatch):
+    """The element loads' integrals evaluated a small block of stations at a time (as for a very long
+    patterned member) give the same deflection curve: AISC Table 3-23 case 2, as above."""
+    from sizer.analysis import element_loads
+
+    monkeypatch.setattr(element_loads, "BLOCK_ENTRIES", 7)
+    length, w = 6.0, 9e3
+    member = member_of(length, [support(0.0, "pin"), support(length, "roller")],
+                       [LineLoad("load", 0.0, length, (0.0, 0.0, 0.0, 0.0), (0.0, -w, 0.0, 0.0))])
+    s = solve_case(member, member.loads, STEEL, "load")
+    xs = np.linspace(0.0, length, 37)
+    expected = w * xs * (7 * length**4 - 10 * length**2 * xs**2 + 3 * xs**4) / (360 * EI * length)
+    np.testing.assert_allclose(s.displacements(xs)[:, UY], -expected, rtol=DEFLECTION, atol=DEFLECTION * expected.max())
