@@ -10,6 +10,8 @@ a second run skips the cold build), then prints:
   (a)          `sizer --help` wall time (median of N runs, subprocess)
   (b)          `sizer size MEMBER --catalogue DIR` wall time (median, subprocess, warm cache), ratio to (a);
                (a) and (b) run in turn, and the median of the N pairs' ratios is shown too
+  (b0)         what `size` pays before it sizes anything: the interpreter importing the modules the
+               command imports (numpy, sizer's analysis, sections, checks, sizing and renderers), ratio to (a)
   (c)          screening throughput: sections x combinations x stations / time of sizing.screen (in-process)
   (d)          the naive way: full stress-field check of a sample of sections, extrapolated to the whole
                catalogue, against the measured size_member time; and the naive answer on the sample
@@ -38,6 +40,9 @@ from sizer.sections import shipped_library  # noqa: E402
 
 VENV_BIN = Path(sys.executable).parent
 SIZER = str(VENV_BIN / "sizer")
+# what `sizer size` imports before it sizes anything (the command line, the api, the renderer of its output)
+SIZE_IMPORTS = ("import sizer.cli, sizer.api, sizer.commands, sizer.inputfile, sizer.render.size, sizer.render.sections, sizer.sizing, "
+                "rich.console, rich.panel")
 
 # An invented member: a mezzanine edge beam continuous over three supports with a short overhang,
 # carrying floor loads, a wind load across it and a bracing force along it. 3 cases, 6 combinations.
@@ -185,6 +190,10 @@ def main() -> None:
     print(f"(b) sizer size, 1000 sections, warm cache: median {size_time:.3f} s of {args.runs} ({', '.join(f'{t:.2f}' for t in size_runs)}); "
           f"ratio to --help {size_time / help_time:.2f}x of the medians, {statistics.median(ratios):.2f}x the median of the pairs "
           f"run in turn (target <= 2.5x)")
+
+    imports_alone = statistics.median(wall_time([sys.executable, "-c", SIZE_IMPORTS], env) for _ in range(args.runs))
+    print(f"(b0) the imports of `size` alone, nothing sized: median {imports_alone:.3f} s, {imports_alone / help_time:.2f}x (a); "
+          f"sizing, checking and printing take the remaining {size_time - imports_alone:.3f} s")
 
     in_process_figures(member, catalogue, args.runs)
     if not args.no_profile:
