@@ -59,6 +59,7 @@ def folder(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> Path:
     cache folder, as a new process's would (the reads within one process: test_read_again_here)."""
     monkeypatch.setenv("SIZER_CACHE_DIR", str(tmp_path / "cache"))
     monkeypatch.setattr(catalogue, "READ_HERE_MOST", 0)
+    monkeypatch.setattr(catalogue, "_READ_HERE", {})
     library = tmp_path / "library"
     library.mkdir()
     (library / "stock.toml").write_text(STOCK, encoding="utf-8")
