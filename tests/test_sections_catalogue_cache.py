@@ -254,15 +254,16 @@ def test_warm_read_needs_no_toml_parser(folder: Path) -> None:
 
 def test_read_again_here_skips_the_cache_folder_until_the_text_changes(folder: Path, monkeypatch: pytest.MonkeyPatch) -> None:
     monkeypatch.setattr(catalogue, "READ_HERE_MOST", 4)
-    monkeypatch.setattr(catalogue, "_READ_HERE", {})
+    parsed: list[Path] = []
+    parse = catalogue._parse_file
+    monkeypatch.setattr(catalogue, "_parse_file", lambda path, *rest: parsed.append(path) or parse(path, *rest))
     good = _summary(load_catalogue([folder]))
     [slot] = _slots()
     _garbage(slot)  # a read that went to the cache folder would have to parse again
-    _no_parsing(monkeypatch)
     assert _summary(load_catalogue([folder])) == good
-    monkeypatch.undo()
-    monkeypatch.setattr(catalogue, "READ_HERE_MOST", 4)
+    assert len(parsed) == 1
     stock = folder / "stock.toml"
     stock.write_text(STOCK.replace('"50 mm"', '"60 mm"'), encoding="utf-8")
     edited = load_catalogue([folder])
+    assert len(parsed) == 2
     assert edited.sections["flat 50x10"].dims["depth"] == pytest.approx(0.060)  # 60 mm (SI prefixes, common practice)
