@@ -11,6 +11,7 @@ import os
 import pickle
 import subprocess
 import sys
+from functools import lru_cache
 from pathlib import Path
 
 import pytest
@@ -58,8 +59,7 @@ def folder(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> Path:
     """A catalogue folder holding stock.toml, with a cache folder of its own; each read goes to the
     cache folder, as a new process's would (the reads within one process: test_read_again_here)."""
     monkeypatch.setenv("SIZER_CACHE_DIR", str(tmp_path / "cache"))
-    monkeypatch.setattr(catalogue, "READ_HERE_MOST", 0)
-    monkeypatch.setattr(catalogue, "_READ_HERE", {})
+    monkeypatch.setattr(catalogue, "_remembered_file", catalogue._remembered_file.__wrapped__)
     library = tmp_path / "library"
     library.mkdir()
     (library / "stock.toml").write_text(STOCK, encoding="utf-8")
@@ -253,7 +253,7 @@ def test_warm_read_needs_no_toml_parser(folder: Path) -> None:
 
 
 def test_read_again_here_skips_the_cache_folder_until_the_text_changes(folder: Path, monkeypatch: pytest.MonkeyPatch) -> None:
-    monkeypatch.setattr(catalogue, "READ_HERE_MOST", 4)
+    monkeypatch.setattr(catalogue, "_remembered_file", lru_cache(maxsize=4)(catalogue._remembered_file))  # this process's memory, empty
     parsed: list[Path] = []
     parse = catalogue._parse_file
     monkeypatch.setattr(catalogue, "_parse_file", lambda path, *rest: parsed.append(path) or parse(path, *rest))

@@ -17,6 +17,7 @@ import math
 import re
 import sys
 from dataclasses import dataclass
+from functools import lru_cache
 from pathlib import Path
 from typing import Any, Sequence
 
@@ -164,36 +165,27 @@ def load_catalogue(paths: Sequence[Path]) -> Catalogue:
     return Catalogue(sections, materials, tuple(files))
 
 
-_READ_HERE: dict[tuple[str, str], ParsedFile] = {}  # (path as given, digest) -> parse, for this process's later reads
-READ_HERE_MOST = 64  # 0: every read goes to the cache folder, as a new process's would
-
-
 def _catalogue_file(path: Path, from_folder: bool) -> ParsedFile:
     """The sections and materials of one file: remembered when its text (and path, and the code)
     are unchanged, else parsed now and remembered: in this process (a schedule reads the same
     catalogue for every row) and in the cache folder. `foreign` only for a file `from_folder`."""
     text = read_text(path, fix="check the path and that it is a UTF-8 text file")
     digest = catalogue_cache.content_digest(path, text)
-    here = (str(path), digest) if digest is not None else None
-    remembered = _READ_HERE.get(here) if here else None
-    if remembered is None:
-        remembered = catalogue_cache.read_parsed(path, digest)
+    if digest is None:  # no code fingerprint: nothing is remembered
+        return _parse_file(path, text, from_folder)
+    return _remembered_file(path, text, digest, from_folder)
+
+
+@lru_cache(maxsize=64)
+def _remembered_file(path: Path, text: str, digest: str, from_folder: bool) -> ParsedFile:
+    """The parse of `text` (read from `path`, with the digest of both and the code) from the cache
+    folder, else parsed now and written there; kept in memory for this process's later reads."""
+    remembered = catalogue_cache.read_parsed(path, digest)
     if remembered is not None and (from_folder or not remembered.foreign):
-        _remember_here(here, remembered)
         return remembered
     parsed = _parse_file(path, text, from_folder)
     catalogue_cache.write_parsed(path, digest, parsed)
-    _remember_here(here, parsed)
     return parsed
-
-
-def _remember_here(key: tuple[str, str] | None, parsed: ParsedFile) -> None:
-    """Keep a parse for this process's later reads of the same text (the oldest dropped past READ_HERE_MOST)."""
-    if key is None or READ_HERE_MOST <= 0:
-        return
-    if key not in _READ_HERE and len(_READ_HERE) >= READ_HERE_MOST:
-        del _READ_HERE[next(iter(_READ_HERE))]
-    _READ_HERE[key] = parsed
 
 
 def _parse_file(path: Path, text: str, from_folder: bool) -> ParsedFile:
