@@ -15,6 +15,11 @@ of earlier runs removed first so every row is worked out):
   (d)  the machine's own ceiling: two copies of a fixed CPU-bound kernel (small numpy eigen-solves and
        Python arithmetic, no sizer code, nothing shared) run in turn and then at once; on a shared
        virtual machine two busy cores are slower than one, and no parallel program beats this ratio
+  (d') the same ceiling for this schedule's own work: N copies of `schedule --jobs 1` at once, each with
+       a cache folder of its own (a copy of the user's, without kept rows), against one alone
+  (e)  the best speed-up this schedule can reach here (Amdahl's law): the serial start, measured as a
+       one-member schedule with --jobs N (interpreter, imports, workers forked, one row, output) less
+       one row's share of (a), runs once whatever the jobs; the rest of (a) at best divides by (d')
 Target (issue 16): (a) / (b) >= 1.8 on 2 cores.
 The section cache is the user's (or SIZER_CACHE_DIR); run once to warm it if the catalogue is new there.
 """
@@ -96,13 +101,13 @@ deflection_limit = 360
 """
 
 
-def write_schedule(folder: Path, members: int) -> Path:
+def write_schedule(folder: Path, members: int, name: str = "schedule.toml") -> Path:
     (folder / "members").mkdir(parents=True, exist_ok=True)
     rows = []
     for index in range(members):
         (folder / "members" / f"m{index:03d}.toml").write_text(member_text(index))
         rows.append(f'[[members]]\nmark = "M{index:03d}"\nfile = "members/m{index:03d}.toml"\nquantity = {1 + index % 4}\n')
-    path = folder / "schedule.toml"
+    path = folder / name
     path.write_text('title = "Benchmark schedule (invented)"\n' + "".join(rows))
     return path
 
@@ -159,6 +164,29 @@ def machine_ceiling(copies: int) -> tuple[float, float]:
     return in_turn, time.perf_counter() - start
 
 
+def workload_ceiling(folder: Path, schedule: Path, copies: int) -> float:
+    """`copies` x the wall time of one `schedule --jobs 1` alone / that of `copies` run at once, each
+    with its own copy of the cache folder (so that none takes another's kept rows)."""
+    from sizer.files import cache_root
+    from sizer.parallel import RUNS_FOLDER
+
+    caches = [folder / f"cache-{k}" for k in range(copies)]
+    for cache in caches:
+        shutil.rmtree(cache, ignore_errors=True)
+        shutil.copytree(cache_root(), cache, ignore=shutil.ignore_patterns(RUNS_FOLDER))
+    command = [SIZER, "schedule", str(schedule), "--jobs", "1", "--json"]
+    start = time.perf_counter()
+    subprocess.run(command, capture_output=True, env={**ENV, "SIZER_CACHE_DIR": str(caches[0])})
+    alone = time.perf_counter() - start
+    shutil.rmtree(caches[0] / RUNS_FOLDER, ignore_errors=True)
+    start = time.perf_counter()
+    runs = [subprocess.Popen(command, stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL, env={**ENV, "SIZER_CACHE_DIR": str(cache)})
+            for cache in caches]
+    for process in runs:
+        process.wait()
+    return copies * alone / (time.perf_counter() - start)
+
+
 def rows_of(document: dict) -> list[tuple]:
     """What must not depend on who ran the rows: each row's section and utilization, in order."""
     return [(row["section"], row["utilization"]) for row in document["members"]]
@@ -196,8 +224,19 @@ def main() -> None:
           f"rows identical in every run: {same}")
     print(f"    load average after: {os.getloadavg()[0]:.1f}")
     ceilings = [machine_ceiling(options.jobs) for _ in range(3)]
-    print(f"(d) the machine's ceiling for {options.jobs} processes: {statistics.median(a / b for a, b in ceilings):.2f} "
+    ceiling = statistics.median(a / b for a, b in ceilings)
+    print(f"(d) the machine's ceiling for {options.jobs} processes: {ceiling:.2f} "
           f"(median of {', '.join(f'{a / b:.2f}' for a, b in ceilings)}; {options.jobs} copies of a CPU-bound kernel in turn / at once)")
+    own = [workload_ceiling(folder, schedule, options.jobs) for _ in range(3)]
+    print(f"(d') the ceiling for this schedule's own work: {statistics.median(own):.2f} (median of {', '.join(f'{x:.2f}' for x in own)}; "
+          f"{options.jobs} runs of `schedule --jobs 1` at once, each with its own cache folder, against one alone)")
+    ceiling = statistics.median(own)
+    single = write_schedule(folder, 1, "schedule_one.toml")
+    starts = [timed(["schedule", str(single), "--jobs", str(options.jobs)])[0] for _ in range(options.repeats)]
+    serial = statistics.median(starts) - (one - statistics.median(starts)) / (options.members - 1)
+    print(f"(e) best speed-up here: {one / (serial + (one - serial) / ceiling):.2f} (Amdahl's law: serial start {serial:.2f} s, from a "
+          f"one-member schedule with --jobs {options.jobs}, {', '.join(f'{run:.2f}' for run in starts)} s, less one row's share of (a); "
+          f"the rest of (a) divided by (d'))")
 
     if options.spans < 1:
         return

@@ -267,6 +267,7 @@ class Workers:
             forked = context.get_start_method() == "fork"
             if forked:
                 import_job_modules()
+                cache_root()  # the cache folder (platformdirs) found once here, not again in each worker's first job
                 gc.freeze()  # the workers' copies of this process's objects stay out of their collections: no copy-on-write by them
             self.pool = ProcessPoolExecutor(self.count, mp_context=context, initializer=warm_up)
             for _ in range(self.count):
@@ -316,11 +317,14 @@ class Workers:
                         sharing[job.key].append(index)
                     else:
                         sharing[job.key] = [index]
-                        bar.begin()
                         runner.start(index, job)
+                        if len(sharing) >= self.count:
+                            bar.begin()  # once every worker has a job: the bar's imports hold none of them up
                     for done, result in runner.ready():
                         finished(done, result)
                         bar.advance(taken[done].label)
+                if sharing:
+                    bar.begin()  # fewer jobs to run than workers
                 for index, result in runner.finished():
                     finished(index, result)
                     bar.advance(taken[index].label)
@@ -417,12 +421,13 @@ class _Processes(_Futures):
         self.started.append((self.pool.submit(_work_and_keep, self.work, job.key, job.payload), index))
 
     def completed(self, futures: list[Any]) -> Iterator[list[Any]]:
-        from concurrent.futures import FIRST_COMPLETED, wait
+        from concurrent.futures import as_completed
 
-        waiting = set(futures)
-        while waiting:
-            done, waiting = wait(waiting, return_when=FIRST_COMPLETED)
-            yield list(done)
+        done = [future for future in futures if future.done()]
+        if done:
+            yield done
+        for future in as_completed([future for future in futures if not future.done()]):
+            yield [future]
 
     def cancel(self) -> None:
         for future, _ in self.started:

@@ -265,6 +265,33 @@ def test_rows_worked_out_by_local_processes_are_kept_by_them(project):
     assert second.rows == first.rows
 
 
+def test_progress_bar_starts_once_every_worker_has_a_job(monkeypatch):
+    """The bar (rich, about 20 ms to import) starts once as many jobs have started as there are
+    workers, so that its imports hold up no worker; with fewer jobs than workers, before the wait
+    for them; a run of kept results only shows none (common practice: nothing is running)."""
+    from sizer.parallel import Job, Workers, _progress
+
+    forget_kept_rows()
+    events: list[str] = []
+    monkeypatch.setattr(_progress, "begin", lambda self: events.append("bar") if "bar" not in events else None)
+
+    def work(payload: int) -> dict:
+        events.append(f"job {payload}")
+        return {"value": payload}
+
+    def run(count: int, keys: list[str]) -> list[dict]:
+        events.clear()
+        results, _ = Workers(count).run(work, [Job(key, k) for k, key in enumerate(keys)], show_progress=True)
+        return results
+
+    assert run(2, ["bar-a", "bar-b", "bar-c"]) == [{"value": 0}, {"value": 1}, {"value": 2}]
+    assert events == ["job 0", "job 1", "bar", "job 2"]
+    run(3, ["bar-d"])
+    assert events == ["job 0", "bar"]
+    run(2, ["bar-a", "bar-b"])
+    assert events == []
+
+
 def test_local_workers_are_forked_only_where_that_is_safe():
     """fork on Linux while one thread runs (a fork copies only the calling thread, and a lock held by
     another could never be released in the copy); spawn beside other threads (common practice, and
