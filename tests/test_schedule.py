@@ -292,6 +292,45 @@ def test_progress_bar_starts_once_every_worker_has_a_job(monkeypatch):
     assert events == []
 
 
+class _InlinePool:
+    """A stand-in for the process pool: runs each task at once, here, and notes the jobs it carried."""
+
+    def __init__(self, events: list[str]) -> None:
+        self.events = events
+
+    def submit(self, function, *args):
+        from concurrent.futures import Future
+
+        self.events.append(f"task of {len(args[1])}")
+        future = Future()
+        future.set_result(function(*args))
+        return future
+
+
+def test_local_workers_get_jobs_in_pairs_but_the_last_singly(monkeypatch):
+    """Jobs go to the pool in pairs (half the round trips), the last two per worker singly so that the
+    workers finish together; every result comes back to its own job, in the jobs' order, and is kept
+    (common practice: batching short tasks, as `Executor.map(chunksize=)` does)."""
+    from sizer.parallel import Job, Workers, _progress, read_kept
+
+    forget_kept_rows()
+    events: list[str] = []
+    monkeypatch.setattr(_progress, "begin", lambda self: events.append("bar") if "bar" not in events else None)
+
+    def work(payload: int) -> dict:
+        events.append(f"job {payload}")
+        return {"value": payload * payload}
+
+    workers = Workers(2)
+    workers.pool = _InlinePool(events)
+    keys = [f"pair-{k}" for k in range(9)]
+    results, summary = workers.run(work, [Job(key, k) for k, key in enumerate(keys)], show_progress=True)
+    assert results == [{"value": k * k} for k in range(9)] and (summary.ran, summary.resumed) == (9, 0)
+    assert [event for event in events if event.startswith("task")] == ["task of 2"] * 2 + ["task of 1"] * 5
+    assert events.index("bar") == events.index("job 3") + 1  # once both workers have work
+    assert [read_kept(key) for key in keys] == results
+
+
 def test_local_workers_are_forked_only_where_that_is_safe():
     """fork on Linux while one thread runs (a fork copies only the calling thread, and a lock held by
     another could never be released in the copy); spawn beside other threads (common practice, and
