@@ -512,8 +512,8 @@ def _cluster_client(address: str) -> Any:
 
 class _progress:
     """A context giving a progress bar on stderr (rich: count done, time left), when shown: `begin()`
-    shows it (at the first job that runs: a run of kept results only shows none), `advance(label)`
-    counts one job done."""
+    shows it (Workers.run calls it once every worker has work, so that rich's imports delay no job;
+    a run of kept results only shows none), `advance(label)` counts one job done."""
 
     def __init__(self, description: str, total: int, shown: bool) -> None:
         self.description, self.total, self.shown = description, total, shown

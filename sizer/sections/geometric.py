@@ -48,9 +48,7 @@ def normal_stress_field(spec: SectionSpec) -> UnitStressField:
     exterior, holes = outline_rings(spec)
     area, centroid, xx, yy, xy = plane_moments(exterior, holes)
     corners = _corners(spec, exterior, holes, area, centroid)
-    inertia = 1 / MM**4
-    scalars = {"area": area / MM**2, "Iz": xx * inertia, "Iy": yy * inertia, "Iyz": -xy * inertia}
-    scalars["Iyz"] = _product_without_noise(scalars["Iz"], scalars["Iy"], scalars["Iyz"])
+    scalars = _second_moments(area, xx, yy, xy)
     sigma = np.vstack([np.full(len(corners), 1.0 / scalars["area"]), *(corners @ per_moment for per_moment in bending_coefficients(scalars))])
     return UnitStressField(corners, sigma, np.zeros((3, len(corners), 2)), shear_known=False)
 
@@ -80,14 +78,22 @@ def bending_coefficients(s: dict[str, float]) -> tuple[np.ndarray, np.ndarray]:
     return np.array([-s["Iyz"], s["Iz"]]) / det, np.array([-s["Iy"], s["Iyz"]]) / det
 
 
+def _second_moments(area: float, xx: float, yy: float, xy: float) -> dict[str, float]:
+    """area, Iz, Iy, Iyz (m^2, m^4, member axes) from the outline's area and second moments about its
+    centroid (mm^2, mm^4); a product of inertia below 1e-9 of sqrt(Iz Iy) is exactly zero (a
+    symmetric section's round-off)."""
+    inertia = 1 / MM**4
+    Iz, Iy, Iyz = xx * inertia, yy * inertia, -xy * inertia
+    return {"area": area * (1 / MM**2), "Iz": Iz, "Iy": Iy, "Iyz": 0.0 if abs(Iyz) < 1e-9 * math.sqrt(Iz * Iy) else Iyz}
+
+
 def _scalars(m: PolygonMoments, corners: np.ndarray) -> dict[str, float]:
     x_min, x_max, y_min, y_max = m.bounds
     cx, cy = m.centroid
-    length, area, inertia, fifth = 1 / MM, 1 / MM**2, 1 / MM**4, 1 / MM**5
+    length, fifth = 1 / MM, 1 / MM**5
     s = {
-        "area": m.area * area,
+        **_second_moments(m.area, m.xx, m.yy, m.xy),
         "centroid_y": (cy - (y_min + y_max) / 2) * length, "centroid_z": -(cx - (x_min + x_max) / 2) * length,
-        "Iz": m.xx * inertia, "Iy": m.yy * inertia, "Iyz": -m.xy * inertia,
         "y_top": (y_max - cy) * length, "y_bottom": (cy - y_min) * length, "z_plus": (cx - x_min) * length, "z_minus": (x_max - cx) * length,
         "Py": (m.third[(0, 3)] + m.third[(2, 1)]) * fifth, "Pz": -(m.third[(1, 2)] + m.third[(3, 0)]) * fifth,
         "depth": (y_max - y_min) * length, "width": (x_max - x_min) * length, "perimeter": m.perimeter * length,
@@ -112,19 +118,14 @@ def _principal(Iz: float, Iy: float, Iyz: float) -> tuple[float, float, float]:
 
 
 def _without_noise(s: dict[str, float]) -> None:
-    """Round-off set to exactly zero: centroid offsets below 1e-5 of the section's size, a product of
-    inertia below 1e-9 of sqrt(Iz Iy), monosymmetry integrals below 1e-7 of (Iz + Iy) size (a
-    symmetric section's)."""
+    """Round-off set to exactly zero: centroid offsets below 1e-5 of the section's size and
+    monosymmetry integrals below 1e-7 of (Iz + Iy) size (a symmetric section's; the product of
+    inertia: _second_moments)."""
     size = max(s["depth"], s["width"])
     for name in ("centroid_y", "centroid_z"):
         if abs(s[name]) < 1e-5 * size:
             s[name] = 0.0
-    s["Iyz"] = _product_without_noise(s["Iz"], s["Iy"], s["Iyz"])
     for name in ("Py", "Pz"):
         if abs(s[name]) < 1e-7 * (s["Iz"] + s["Iy"]) * size:
             s[name] = 0.0
 
-
-def _product_without_noise(Iz: float, Iy: float, Iyz: float) -> float:
-    """The product of inertia, exactly zero below 1e-9 of sqrt(Iz Iy) (a symmetric section's round-off)."""
-    return 0.0 if abs(Iyz) < 1e-9 * math.sqrt(Iz * Iy) else Iyz

@@ -106,15 +106,8 @@ class Search:
 
     def ahead(self, candidate: Candidate) -> list[Candidate]:
         """The candidate and those of the BATCH after it that no bound rules out yet: the ones the
-        walk will judge next. When the candidate has its bounds for the current shapes, the BATCH from
-        the first one that has not (so that a walk which moves on without new shapes takes its bounds
-        a batch at a time, not one by one)."""
-        position = candidate.index
-        epoch = self.stability.epoch if self.stability is not None else 0
-        if candidate.report is None and self.bounded.get(position, -1) >= epoch:
-            position = next((c.index for c in self.candidates[position:position + BATCH] if c.report is None
-                             and self.bounded.get(c.index, -1) < epoch), position)
-        return [c for c in self.candidates[position:position + BATCH] if not c.certainly_fails]
+        walk will judge next, whose stability bounds are made in one batch."""
+        return [c for c in self.candidates[candidate.index:candidate.index + BATCH] if not c.certainly_fails]
 
     def ruled_out(self, candidate: Candidate) -> bool:
         """Whether a proven lower bound rules the candidate out, tried in turn while none does: the

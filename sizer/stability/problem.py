@@ -46,7 +46,7 @@ class MemberStability:
         self.cases = list(solution.cases)
         self._terms: dict[tuple[str, int], tuple[dict[str, np.ndarray], dict[str, np.ndarray]]] = {}
         self._columns: dict[tuple[str, int, bool], dict[str, np.ndarray]] = {}
-        self._live: dict[tuple[str, str], frozenset[int]] = {}
+        self._live: dict[str, frozenset[int]] = {}
 
     def actions(self, weights: np.ndarray) -> np.ndarray:
         """(E, G, 6) internal actions in the section's axes at the Gauss points of the load set
@@ -104,11 +104,10 @@ class MemberStability:
     def live_columns(self, kind: str) -> frozenset[int]:
         """The load-case columns that give some geometric term of this kind (a sideways wind gives
         none in the lateral solve): the others are left out of the load sets that solves share."""
-        key = (kind, "live")
-        if key not in self._live:
-            self._live[key] = frozenset(column for column in range(len(self.cases) + 1)
-                                        if any(np.any(matrix) for matrix in self.column_terms(kind, column, True).values()))
-        return self._live[key]
+        if kind not in self._live:
+            self._live[kind] = frozenset(column for column in range(len(self.cases) + 1)
+                                         if any(np.any(matrix) for matrix in self.column_terms(kind, column, True).values()))
+        return self._live[kind]
 
     def column_terms(self, kind: str, column: int, positive: bool) -> dict[str, np.ndarray]:
         """load_set_terms of one load-case column at weight +1 or -1 (made once)."""
