@@ -1,7 +1,7 @@
 """From a member file to a solved design: the section and material it names, the rigidities that
 follow from them, the mass per length for self-weight, and the solution of every load case.
 
-Orientation (SPEC section 2): a catalogue section is drawn with its depth along y. "major": the
+Orientation (docs/design.md section 2): a catalogue section is drawn with its depth along y. "major": the
 member's x-y bending uses the section's Iz (major); "minor": the section is turned a quarter turn,
 so x-y bending uses the section's Iy (minor) and x-z bending its Iz.
 """

@@ -1,6 +1,6 @@
 """The member model: plain dataclasses, SI floats, no behaviour beyond small derived values.
 
-Axes and signs (SPEC section 2): x along the member from end A (x = 0) to end B (x = L); y is the
+Axes and signs (docs/design.md section 2): x along the member from end A (x = 0) to end B (x = L); y is the
 section's depth direction (up for a horizontal beam); z completes a right-handed set. Forces and
 moments act along or about +x, +y, +z. Freedoms: ux, uy, uz (translations), rx (twist), ry, rz.
 """

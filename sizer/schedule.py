@@ -77,7 +77,7 @@ class RowError:
 
 @dataclass
 class ScheduleResult:
-    """Every good row (the JSON entries of SPEC section 11, plus the record's HTML where made), the bad
+    """Every good row (the JSON entries of docs/design.md section 11, plus the record's HTML where made), the bad
     rows, and how the run went."""
 
     schedule: Schedule
@@ -367,7 +367,7 @@ def run_schedule(schedule: Schedule, catalogue: Sequence[Path] = (), jobs: int |
 
 
 def schedule_entry(row: ScheduleRow, task: RowTask, result: dict, notes: list[str]) -> dict:
-    """A row of the JSON document (SPEC section 11): the member's result with the schedule's mark,
+    """A row of the JSON document (docs/design.md section 11): the member's result with the schedule's mark,
     quantity and length; total mass = mass per length x length x quantity (kg)."""
     mass = result["mass_per_length"]
     length = task.member.length
@@ -381,7 +381,7 @@ def schedule_entry(row: ScheduleRow, task: RowTask, result: dict, notes: list[st
 
 
 def schedule_totals(rows: list[dict]) -> dict:
-    """Totals (SPEC section 11): whether all pass, the failing marks, the total mass (kg), and per
+    """Totals (docs/design.md section 11): whether all pass, the failing marks, the total mass (kg), and per
     section (in order of first use) the count, total length (m) and mass (kg), for ordering."""
     by_section: dict[str, dict] = {}
     for row in rows:
@@ -406,7 +406,7 @@ def schedule_notes(result: ScheduleResult) -> list[str]:
 
 
 def schedule_json(result: ScheduleResult) -> dict:
-    """The `sizer schedule --json` document (SPEC section 11)."""
+    """The `sizer schedule --json` document (docs/design.md section 11)."""
     from sizer.render.schedule import schedule_document
 
     order = {row.mark: index for index, row in enumerate(result.schedule.rows)}

@@ -1,5 +1,5 @@
-"""The steel the tests use: E 200 GPa, G 77 GPa, 7850 kg/m^3 (REFERENCES.md, common practice);
-allowables from the 1989 AISC allowable-stress practice for Fy = 250 MPa (REFERENCES.md, from
+"""The steel the tests use: E 200 GPa, G 77 GPa, 7850 kg/m^3 (docs/references.md, common practice);
+allowables from the 1989 AISC allowable-stress practice for Fy = 250 MPa (docs/references.md, from
 memory): 0.60 Fy tension and compression, 0.66 Fy bending, 0.40 Fy shear; equivalent our choice."""
 
 STEEL_TOML = """

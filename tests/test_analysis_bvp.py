@@ -27,7 +27,7 @@ from scipy.integrate import solve_bvp
 from sizer.analysis import solve_case
 from sizer.model import Hinge, LineLoad, Member, PointLoad, Stiffness, Support, SUPPORT_TYPES
 
-# IPE 300 handbook properties from REFERENCES.md (from memory; European axis names): A = 53.8 cm^2,
+# IPE 300 handbook properties from docs/references.md (from memory; European axis names): A = 53.8 cm^2,
 # strong axis 8356 cm^4 (our EIz), weak axis 604 cm^4 (our EIy), It = 20.1 cm^4; steel E = 200 GPa,
 # G = 77 GPa (common practice).
 E_STEEL = 200e9

@@ -1,11 +1,11 @@
 """The member analysis against closed-form beam, shaft and bar results.
 
-Sources (all from memory, as listed in REFERENCES.md): AISC Steel Construction Manual Table 3-23
+Sources (all from memory, as listed in docs/references.md): AISC Steel Construction Manual Table 3-23
 "Shears, Moments and Deflections"; Roark's Formulas for Stress and Strain Table 8.1; Gere and
 Timoshenko, Mechanics of Materials (beam deflection appendix). Where a value follows from statics
 or compatibility by hand, the derivation is given beside it.
 
-Signs (SPEC section 2): actions on the +x face of the left segment; beam convention V = -Vy,
+Signs (docs/design.md section 2): actions on the +x face of the left segment; beam convention V = -Vy,
 M = Mz (sagging positive); reactions are what the support exerts on the member.
 Tolerances: rel 1e-9 for statics, 1e-6 for deflections and slopes.
 """
@@ -31,7 +31,7 @@ from sizer.errors import InputError
 from sizer.model import SUPPORT_TYPES, Hinge, LineLoad, Load, Member, PointLoad, Stiffness, Support
 from sizer.units import GRAVITY
 
-# IPE 300 in steel (REFERENCES.md, handbook values from memory): A = 53.8 cm^2, I major = 8356 cm^4,
+# IPE 300 in steel (docs/references.md, handbook values from memory): A = 53.8 cm^2, I major = 8356 cm^4,
 # I minor = 604 cm^4, It = 20.1 cm^4; E = 200 GPa, G = 77 GPa (common practice for steel).
 E, G = 200e9, 77e9
 I_MAJOR, I_MINOR, AREA, J_TORSION = 8.356e-5, 6.04e-6, 53.8e-4, 20.1e-8
@@ -77,7 +77,7 @@ def value(solution, column: int, x: float, side: str = "right", kind: str = "act
 
 
 # --------------------------------------------------------------------------------------------
-# The beam table of REFERENCES.md
+# The beam table of docs/references.md
 # --------------------------------------------------------------------------------------------
 
 

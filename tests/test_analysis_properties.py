@@ -4,7 +4,7 @@ Every expected value here is computed independently of sizer.analysis: resultant
 by direct summation and by scipy.integrate.quad_vec, stability of a layout by a rigid-piece
 kinematic count, and derivatives by central finite differences.
 
-Sign relations used (derived from SPEC section 2; statics of the left segment [0, x], any
+Sign relations used (derived from docs/design.md section 2; statics of the left segment [0, x], any
 mechanics of materials text): the actions on the +x face of the left segment balance every
 concentrated item and line load on it, so
 
@@ -36,7 +36,7 @@ from sizer.analysis import extremes, load_sign_change_points, load_sign_change_p
 from sizer.errors import InputError
 from sizer.model import Hinge, LineLoad, Member, PointLoad, Stiffness, Support, SUPPORT_TYPES
 
-# IPE 300 on steel (REFERENCES.md handbook values, from memory; European axis names): A = 53.8 cm^2,
+# IPE 300 on steel (docs/references.md handbook values, from memory; European axis names): A = 53.8 cm^2,
 # strong axis 8356 cm^4 (our EIz), weak axis 604 cm^4 (our EIy), It = 20.1 cm^4; E = 200 GPa,
 # G = 77 GPa (common practice).
 STEEL_IPE300 = Stiffness(EA=200e9 * 53.8e-4, GJ=77e9 * 20.1e-8, EIz=200e9 * 8356e-8, EIy=200e9 * 604e-8)
@@ -200,7 +200,7 @@ def engaged(loads, indices: tuple[int, ...]) -> bool:
 
 
 def unheld_freedoms(member: Member, loads) -> list[str]:
-    """Why the member cannot be solved (SPEC section 3; empty list: it can): a sideways or
+    """Why the member cannot be solved (docs/design.md section 3; empty list: it can): a sideways or
     rotational mechanism of the layout, whatever the loads; sliding (ux) or twist (rx) that no
     support holds while any load of the member (or `loads`) acts along or about x."""
     out = []
@@ -432,7 +432,7 @@ def test_load_close_to_a_spring_support_keeps_equilibrium(gap: float):
 @given(problems())
 def test_mechanism_is_bad_input_and_a_stable_layout_solves(problem: Problem):
     """A layout with a free sideways or rotational movement, or free sliding or twist under a load
-    acting that way, is InputError whatever the loads (SPEC section 3: balanced loads do not make
+    acting that way, is InputError whatever the loads (docs/design.md section 3: balanced loads do not make
     a mechanism stable); any other layout always solves."""
     member = problem.member
     for case in problem.cases:
@@ -723,7 +723,7 @@ EXTREME_NAMES = ("N", "Vy", "Vz", "T", "My", "Mz", "V", "M")
 def test_extremes_bound_the_diagrams(names: tuple[str, ...], problem: Problem):
     """extremes: each reported largest / smallest value is at least as far out as every value of
     a dense sampling (both sides of every concentrated item on the member, 2001 even points), and
-    is the action found at the reported position (on one side of it). V = -Vy, M = Mz (SPEC 2).
+    is the action found at the reported position (on one side of it). V = -Vy, M = Mz (docs/design.md section 2).
     Moments peak at items or where the shear is zero; N, shears and T also peak inside a span
     where a line load's intensity changes sign."""
     assume(stable(problem))

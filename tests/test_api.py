@@ -2,7 +2,7 @@
 
 Sources: simply supported beam under a uniform load, M max = w L^2 / 8 at midspan and
 R = w L / 2 (AISC Steel Construction Manual Table 3-23, from memory); IPE 300 elastic section
-modulus Wel,y = 557 cm^3 (EN 10365 handbook value, from memory, REFERENCES.md).
+modulus Wel,y = 557 cm^3 (EN 10365 handbook value, from memory, docs/references.md).
 """
 
 from __future__ import annotations

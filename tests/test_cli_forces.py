@@ -1,4 +1,4 @@
-"""`sizer forces` from the command line: SPEC section 6 JSON, both sides of a concentrated load,
+"""`sizer forces` from the command line: docs/design.md section 6 JSON, both sides of a concentrated load,
 cuts on request, units, and the cautions. Check values: simply supported beam with a point load P
 at a: R_left = Pb/L, M under the load = Pab/L (AISC Manual Table 3-23, from memory)."""
 
@@ -43,7 +43,7 @@ def test_json_reactions_and_cuts_both_sides_of_the_load(beam):
     result = CliRunner().invoke(app, ["forces", str(beam), "--at", "2 m", "--at", "3500 mm", "--json"])
     assert result.exit_code == 0, result.output
     whole = json.loads(result.stdout)
-    [document] = whole["combinations"]  # always a list (SPEC section 6), even of one
+    [document] = whole["combinations"]  # always a list (docs/design.md section 6), even of one
     P, a, b, L = 10e3, 2.0, 3.0, 5.0
     assert document["combination"] == "all"
     assert document["reactions"][0]["Fy"] == pytest.approx(P * b / L, rel=1e-12)  # Pb/L

@@ -7,12 +7,12 @@ References (Euler-Bernoulli beams, AISC Manual Table 3-23 and Roark Table 8.1, f
 - simply supported, moment M_B at one end (sagging positive): deflection(x) = M_B x (L^2 - x^2) / (6 EI L)
   (downward positive), so a hogging M_B = -P a lifts the span;
 - overhang a beyond a simple span L, P at the tip: tip deflection P a^2 (L + a) / (3 EI);
-- two equal spans, one span loaded: support moment -wL^2/16 (REFERENCES.md, continuous-beam table),
+- two equal spans, one span loaded: support moment -wL^2/16 (docs/references.md, continuous-beam table),
   so the loaded span deflects as the first two cases together (about 0.0092 wL^4/EI, the table's
   value from memory);
 - a rigid beam on a spring k at one end settles R / k there, and the chord carries it linearly
   (Hooke's law, common practice).
-Rectangle I = b h^3 / 12 (REFERENCES.md); E = 200 GPa (tests/steel.py). sectionproperties' I of a
+Rectangle I = b h^3 / 12 (docs/references.md); E = 200 GPa (tests/steel.py). sectionproperties' I of a
 rectangle is within 1e-3 of b h^3 / 12 on its mesh.
 """
 
@@ -163,7 +163,7 @@ def test_relative_to_supports_false_counts_the_settlement(tmp_path: Path, stock:
 
 
 def test_several_entries_report_the_worst_and_name_it(tmp_path: Path, stock: Path) -> None:
-    """span/360 under imposed alone and span/240 under the total (building practice, REFERENCES.md):
+    """span/360 under imposed alone and span/240 under the total (building practice, docs/references.md):
     both are checked and the worse is reported, naming its entry."""
     L, imposed, dead = 3.0, 2000.0, 2500.0
     EI = E * inertia("B 20x80")

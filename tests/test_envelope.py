@@ -3,14 +3,14 @@
 References:
 - the envelope is the largest and smallest of each action over the combinations, so it equals the
   extremes of the combinations taken one by one (common practice);
-- two equal spans, one loaded: support moment -wL^2/16 (REFERENCES.md, a handbook's
+- two equal spans, one loaded: support moment -wL^2/16 (docs/references.md, a handbook's
   continuous-beam table, from memory), so the far end's reaction is -wL/16 (statics of the unloaded
   span);
 - simply supported beam, uniform w: midspan deflection 5wL^4/(384EI) (AISC Manual Table 3-23, from
   memory);
 - a shaft held in twist at both ends with a torque T at midspan: each end takes T/2 and the middle
   twists (T/2)(L/2)/(GJ) = TL/(4GJ) (any mechanics of materials text, from memory); solid circle
-  J = pi d^4/32, I = pi d^4/64 (REFERENCES.md); E = 200 GPa, G = 77 GPa (tests/steel.py).
+  J = pi d^4/32, I = pi d^4/64 (docs/references.md); E = 200 GPa, G = 77 GPa (tests/steel.py).
 """
 
 from __future__ import annotations

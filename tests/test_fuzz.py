@@ -2,7 +2,7 @@
 typer's CliRunner): whatever a file holds (random keys, values, units, unicode, huge and tiny
 numbers, truncation), sizer ends with exit 0, 1 or 2, never a traceback, never a hang past 10 s and
 never a non-finite number on screen; bad input is one line on stderr. These are invariants of the
-program (SPEC sections 5 and 8), so no outside check values are needed.
+program (docs/design.md sections 5 and 8), so no outside check values are needed.
 """
 
 from __future__ import annotations

@@ -5,7 +5,7 @@ right verdict. Check values (from memory, standard beam tables such as AISC Manu
 cantilever with a tip load P: tip deflection P L^3 / (3 EI); simply supported beam with a central
 load: end rotation P L^2 / (16 EI); fixed-fixed beam under w: end moments -w L^2 / 12. Rectangle
 b x d: Iz = b d^3 / 12 (elementary beam theory). The stability rule, spring threshold, input ranges
-and the small-deflection fraction are sizer's own stated rules (SPEC section 3, docs/limits.md).
+and the small-deflection fraction are sizer's own stated rules (docs/design.md section 3, docs/limits.md).
 """
 
 from __future__ import annotations

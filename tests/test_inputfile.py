@@ -1,4 +1,4 @@
-"""Member files: what is read, and every bad input of SPEC section 8 that concerns member files:
+"""Member files: what is read, and every bad input of docs/design.md section 8 that concerns member files:
 one line naming file, key (and line) and the fix, exit code 2, no traceback, nothing written."""
 
 from __future__ import annotations
@@ -55,9 +55,9 @@ def test_reads_units_to_si(tmp_path):
     assert member.loads[1].q_start[1] == pytest.approx(-2500.0)
     assert member.loads[1].q_end[1] == pytest.approx(-4000.0)
     assert member.loads[1].start == 0.0 and member.loads[1].end == pytest.approx(6.0)
-    assert member.supports[0].restrain == frozenset({"ux", "uy", "uz", "rx"})  # SPEC section 3
+    assert member.supports[0].restrain == frozenset({"ux", "uy", "uz", "rx"})  # docs/design.md section 3
     assert member.supports[1].restrain == frozenset({"uy", "uz", "rx"})
-    # default combination: every case x 1.0 (SPEC section 3)
+    # default combination: every case x 1.0 (docs/design.md section 3)
     assert member.combinations == {"all": {"imposed": 1.0, "dead": 1.0}}
 
 

@@ -1,8 +1,8 @@
 """Local (plate) buckling of the flat walls of catalogue shapes. Sources beside each value:
 - sigma_cr = k pi^2 E / (12 (1 - nu^2)) (t/b)^2 (Bryan; Timoshenko & Gere, Theory of Elastic
-  Stability, ch. 9, from memory; REFERENCES.md), nu = E / (2 G) - 1 (isotropic elasticity, any text);
+  Stability, ch. 9, from memory; docs/references.md), nu = E / (2 G) - 1 (isotropic elasticity, any text);
 - k = 4.0 for a long plate simply supported on both long edges in uniform compression, 23.9 in pure
-  in-plane bending, 0.425 with one long edge free (Timoshenko & Gere ch. 9, from memory; REFERENCES.md);
+  in-plane bending, 0.425 with one long edge free (Timoshenko & Gere ch. 9, from memory; docs/references.md);
 - EN 1993-1-5 Tables 4.1 and 4.2 (from memory): internal k = 8.2/(1.05 + psi), 7.81 - 6.29 psi +
   9.78 psi^2, 5.98 (1 - psi)^2; outstand k = 0.43 (uniform), 0.57 - 0.21 psi + 0.07 psi^2 (free
   edge more compressed), 0.578/(psi + 0.34) and 1.7 - 5 psi + 17.1 psi^2 (supported edge more
@@ -10,9 +10,9 @@
 - sigma = N/A - Mz y/Iz for a doubly symmetric section, I = (b d^3 - (b - tw)(d - 2 tf)^3)/12 for a
   sharp-cornered I-section, A = D^2 - (D - 2t)^2 for a sharp-cornered square tube (any mechanics of
   materials text, e.g. Gere & Timoshenko, Mechanics of Materials, from memory);
-- Johnson parabola sigma_J = Fy (1 - Fy/(4 sigma_cr)) above Fy/2 (REFERENCES.md), and the reduced
+- Johnson parabola sigma_J = Fy (1 - Fy/(4 sigma_cr)) above Fy/2 (docs/references.md), and the reduced
   allowable min(F, F sigma_J/Fy, sigma_cr/SF) with F the larger of the compression and bending
-  allowables (sizer's stated rule, SPEC section 10);
+  allowables (sizer's stated rule, docs/design.md section 10);
 - the section outlines themselves come from sectionproperties (its steel_sections library).
 """
 
@@ -322,7 +322,7 @@ def test_flange_outstand_in_uniform_compression(tmp_path: Path) -> None:
 
 
 def test_signs_put_the_governing_outstand_on_the_compressed_side(tmp_path: Path) -> None:
-    """A positive Mz compresses the top (SPEC section 2), a positive My the -z side (sigma = My z / Iy);
+    """A positive Mz compresses the top (docs/design.md section 2), a positive My the -z side (sigma = My z / Iy);
     the demand is the peak over the wall's faces (M c / I, c to the top face)."""
     design = design_of(tmp_path, "WIDE 200x200")
     sagging = one_station(design, Mz=10e3)

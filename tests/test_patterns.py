@@ -4,7 +4,7 @@ per-span solutions against solving each arrangement directly, and `sizer check` 
 giving their verdict over every arrangement.
 
 References:
-- Continuous-beam coefficient table (a handbook's continuous-beam table, REFERENCES.md, from memory):
+- Continuous-beam coefficient table (a handbook's continuous-beam table, docs/references.md, from memory):
   two equal spans, both loaded: support -0.125 wL^2, span 0.070 wL^2; one span loaded: span
   0.096 wL^2, support -0.0625 wL^2. Three equal spans, all loaded: supports -0.100 wL^2, end spans
   0.080 wL^2, middle span 0.025 wL^2; spans 1 and 3 loaded: end span 0.101 wL^2; spans 1 and 2
@@ -14,7 +14,7 @@ References:
   i-1, i, i+1 with spans L_l, L_r carrying uniform w_l, w_r (downward), M_{i-1} L_l + 2 M_i (L_l +
   L_r) + M_{i+1} L_r = -(w_l L_l^3 + w_r L_r^3) / 4, sagging positive; the moment in a span is the
   straight line between its end moments plus w x (L - x) / 2.
-- Rectangle section modulus S = b h^2 / 6 (REFERENCES.md); bending allowable 0.66 Fy = 165 MPa
+- Rectangle section modulus S = b h^2 / 6 (docs/references.md); bending allowable 0.66 Fy = 165 MPa
   (tests/steel.py).
 """
 

@@ -2,7 +2,7 @@
 process, local processes, a Dask cluster); resume; totals; bad rows.
 
 Outside values: a simply supported flat bar under a uniform load w has M max = w L^2 / 8 (AISC
-Manual Table 3-23, from memory; REFERENCES.md) and S = b h^2 / 6, so its bending utilization is
+Manual Table 3-23, from memory; docs/references.md) and S = b h^2 / 6, so its bending utilization is
 w L^2 / 8 / (S Fb); mass per length = density x b h (elementary geometry).
 """
 

@@ -3,7 +3,7 @@ are rebuilt, warm look-ups need no sectionproperties, catalogues build in parall
 
 Check values: rectangle A = bh, I = bh^3/12 (elementary beam theory, any mechanics of materials
 text, e.g. Gere & Timoshenko, from memory); mass per length = A x density with steel at 7850 kg/m^3
-(REFERENCES.md, common practice)."""
+(docs/references.md, common practice)."""
 
 from __future__ import annotations
 

@@ -120,13 +120,13 @@ def test_shipped_catalogue_reads_and_matches_the_standard_dimensions() -> None:
     catalogue = load_catalogue([shipped_library()])
     assert {"IPE 80", "IPE 600", "HE 100 A", "HE 500 A", "RHS 100x50x4"} <= set(catalogue.sections)
     assert len(catalogue.select(["ipe"])) == 18 and len(catalogue.select(["hea"])) == 17
-    ipe = catalogue.get("IPE 300").dims  # EN 10365 dimensions as given in REFERENCES.md
+    ipe = catalogue.get("IPE 300").dims  # EN 10365 dimensions as given in docs/references.md
     assert ipe == pytest.approx({"depth": 0.300, "width": 0.150, "web_thickness": 0.0071, "flange_thickness": 0.0107, "root_radius": 0.015})
-    steel = catalogue.materials["mild-steel"]  # 0.60 / 0.66 / 0.40 Fy practice, REFERENCES.md
+    steel = catalogue.materials["mild-steel"]  # 0.60 / 0.66 / 0.40 Fy practice, docs/references.md
     assert steel.density == 7850 and steel.elastic_modulus == 200e9 and steel.yield_strength == 250e6
     assert steel.allowable.tension == pytest.approx(0.60 * 250e6) and steel.allowable.bending == pytest.approx(0.66 * 250e6)
     assert steel.allowable.shear == pytest.approx(0.40 * 250e6)
-    aluminium = catalogue.materials["aluminium-6061-t6"]  # REFERENCES.md: E about 69 GPa, 2700 kg/m^3
+    aluminium = catalogue.materials["aluminium-6061-t6"]  # docs/references.md: E about 69 GPa, 2700 kg/m^3
     assert aluminium.elastic_modulus == 69e9 and aluminium.density == 2700
     assert aluminium.allowable.tension < aluminium.yield_strength
 

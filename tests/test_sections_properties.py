@@ -116,7 +116,7 @@ def test_solid_circle_against_closed_forms(catalogue) -> None:
 
 
 def test_thin_tubes_against_bredt(catalogue) -> None:
-    # Bredt: J = 4 A_m^2 t / perimeter of the mid-line (REFERENCES.md)
+    # Bredt: J = 4 A_m^2 t / perimeter of the mid-line (docs/references.md)
     t = 2 * MM
     box = props(catalogue, "thin box")
     a_m = (200 * MM - t) * (100 * MM - t)
@@ -130,7 +130,7 @@ def test_thin_tubes_against_bredt(catalogue) -> None:
 
 
 HANDBOOK = [
-    # EN 10365 sections, handbook properties (from memory; IPE 300 also in REFERENCES.md).
+    # EN 10365 sections, handbook properties (from memory; IPE 300 also in docs/references.md).
     # name, A cm^2, Iy cm^4 (our Iz), Wel,y cm^3, Iz cm^4 (our Iy), It cm^4, Iw 10^3 cm^6
     ("IPE 300", 53.8, 8356, 557, 604, 20.1, 125.9),
     ("IPE 200", 28.5, 1943, 194, 142.4, 6.98, 12.99),
@@ -206,7 +206,7 @@ def test_radii_and_mass(catalogue) -> None:
 # unit stress fields
 
 def test_unit_normal_stresses_follow_beam_theory(catalogue) -> None:
-    # sigma = N/A - Mz y/Iz + My z/Iy for a doubly symmetric section (SPEC section 2 signs)
+    # sigma = N/A - Mz y/Iz + My z/Iy for a doubly symmetric section (docs/design.md section 2 signs)
     p = props(catalogue, "IPE 300")
     field = unit_stress_field(catalogue.get("IPE 300"))
     y, z = field.points[:, 0], field.points[:, 1]
@@ -261,7 +261,7 @@ def test_shear_in_a_circle(catalogue) -> None:
 
 
 def test_torsion_of_a_round_bar(catalogue) -> None:
-    # peak torsional shear 16 T / (pi d^3) (REFERENCES.md), at the surface, turning with T
+    # peak torsional shear 16 T / (pi d^3) (docs/references.md), at the surface, turning with T
     d = 40 * MM
     field = unit_stress_field(catalogue.get("round 40"))
     assert field.tau_peak[2] == pytest.approx(16 / (math.pi * d**3), rel=0.02)

@@ -28,11 +28,11 @@ from steel import STEEL_TOML
 
 MM = 1e-3
 KN = 1e3
-E_STEEL = 200e9  # Pa, structural steel (REFERENCES.md, common practice)
-DENSITY = 7850.0  # kg/m^3, structural steel (REFERENCES.md, common practice)
+E_STEEL = 200e9  # Pa, structural steel (docs/references.md, common practice)
+DENSITY = 7850.0  # kg/m^3, structural steel (docs/references.md, common practice)
 GRAVITY = constants.g  # m/s^2, standard gravity (scipy.constants)
-BENDING_ALLOWABLE = 165e6  # Pa, 0.66 Fy for Fy = 250 MPa (REFERENCES.md, 1989 AISC ASD from memory)
-SHEAR_ALLOWABLE = 100e6  # Pa, 0.40 Fy for Fy = 250 MPa (REFERENCES.md, 1989 AISC ASD from memory)
+BENDING_ALLOWABLE = 165e6  # Pa, 0.66 Fy for Fy = 250 MPa (docs/references.md, 1989 AISC ASD from memory)
+SHEAR_ALLOWABLE = 100e6  # Pa, 0.40 Fy for Fy = 250 MPa (docs/references.md, 1989 AISC ASD from memory)
 MARGIN = 0.03  # every closed-form utilization is at least this far from 1.0
 MESH_TOLERANCE = 0.01  # relative: sectionproperties against the closed forms for solid bars and tubes
 SAME = 1e-9  # relative: `sizer size` and `sizer check` make the same computation
@@ -43,7 +43,7 @@ Entries = dict[str, tuple[str, dict[str, str], str]]  # name -> (shape, dimensio
 
 
 # ----------------------------------------------------------------------------------------------
-# closed forms (REFERENCES.md)
+# closed forms (docs/references.md)
 
 def rectangle(width: float, depth: float) -> dict[str, float]:
     """Solid rectangle b x h (m) bending about the axis parallel to b: A = bh, I = bh^3/12,
@@ -52,7 +52,7 @@ def rectangle(width: float, depth: float) -> dict[str, float]:
 
 
 def round_bar(diameter: float) -> dict[str, float]:
-    """Solid circle d (m): A = pi d^2/4, I = pi d^4/64, S = pi d^3/32 (REFERENCES.md)."""
+    """Solid circle d (m): A = pi d^2/4, I = pi d^4/64, S = pi d^3/32 (docs/references.md)."""
     return {"A": math.pi * diameter**2 / 4, "I": math.pi * diameter**4 / 64, "S": math.pi * diameter**3 / 32,
             "depth": diameter, "width": diameter}
 
@@ -84,7 +84,7 @@ def udl_deflection_utilization(section: dict[str, float], w: float, span: float,
 
 def udl_shear_utilization(section: dict[str, float], w: float, span: float) -> float:
     """Simply supported beam, uniform w: V = wL/2 at the supports (AISC Table 3-23, from memory);
-    rectangle peak shear 1.5 V/A (REFERENCES.md) against the shear allowable."""
+    rectangle peak shear 1.5 V/A (docs/references.md) against the shear allowable."""
     return 1.5 * (w * span / 2) / section["A"] / SHEAR_ALLOWABLE
 
 
@@ -278,7 +278,7 @@ def test_max_depth_and_width_limit_the_choice(stocks: dict[str, Path], tmp_path:
 
 
 def test_deflection_governs(stocks: dict[str, Path], tmp_path: Path) -> None:
-    span, w, limit = 3.0, 1.6 * KN, 360  # span/360 (REFERENCES.md, building code practice)
+    span, w, limit = 3.0, 1.6 * KN, 360  # span/360 (docs/references.md, building code practice)
     sections = bar_forms(DEFLECTION_BARS)
 
     def worst(section: dict[str, float]) -> float:
@@ -340,7 +340,7 @@ def test_families_and_size_limits(stocks: dict[str, Path], tmp_path: Path, optio
 
 @pytest.mark.parametrize("families", [("rods",), ("flat", "rods")])
 def test_unknown_family_is_bad_input(stocks: dict[str, Path], tmp_path: Path, families: tuple[str, ...]) -> None:
-    """SPEC section 8: bad input gets one line naming the key and the fix, exit 2. A mistyped family
+    """docs/design.md section 8: bad input gets one line naming the key and the fix, exit 2. A mistyped family
     ("rods" for "rod") must not quietly narrow the search to the other families given."""
     options = [part for family in families for part in ("--family", family)]
     result = run("size", write_member(tmp_path, simple_beam(2.0, 3.6 * KN)), "--catalogue", stocks["families"], *options)
@@ -351,7 +351,7 @@ def test_unknown_family_is_bad_input(stocks: dict[str, Path], tmp_path: Path, fa
 
 
 def test_a_catalogue_without_sections_is_bad_input(tmp_path: Path) -> None:
-    """SPEC section 8: one line naming the file and the fix, exit 2, nothing on stdout."""
+    """docs/design.md section 8: one line naming the file and the fix, exit 2, nothing on stdout."""
     (tmp_path / "stock.toml").write_text(MATERIAL, encoding="utf-8")
     result = run("size", write_member(tmp_path, simple_beam(2.0, 3.6 * KN)), "--catalogue", tmp_path / "stock.toml")
     assert result.exit_code == 2 and result.stdout == ""
@@ -361,7 +361,7 @@ def test_a_catalogue_without_sections_is_bad_input(tmp_path: Path) -> None:
 
 def test_minor_orientation_uses_the_other_axis_and_the_installed_depth(stocks: dict[str, Path], tmp_path: Path) -> None:
     """orientation = "minor": the section turns a quarter turn, so a b x h entry bends with S = h b^2/6
-    (the rectangle's other axis, REFERENCES.md), and --max-depth limits the installed depth, which is
+    (the rectangle's other axis, docs/references.md), and --max-depth limits the installed depth, which is
     the catalogue width."""
     span, w = 2.0, 3.6 * KN
     turned = {"FL 60x30": rectangle(30 * MM, 60 * MM), "FL 60x40": rectangle(40 * MM, 60 * MM),  # width and depth swap
@@ -410,7 +410,7 @@ def test_nothing_passes_names_the_strongest_and_its_governing_check(stocks: dict
 
 def test_strongest_is_the_least_utilized_even_when_the_screen_rejected_it(stocks: dict[str, Path], tmp_path: Path) -> None:
     """Equal loads along -y and +z: resultant w sqrt(2). A round has the same S and I in every
-    direction, so its bending and deflection follow from the resultant (REFERENCES.md: S = pi d^3/32,
+    direction, so its bending and deflection follow from the resultant (docs/references.md: S = pi d^3/32,
     deflection 5wL^4/(384EI)). The solid round fails deflection only (1.11); the thin pipe passes
     deflection but fails bending (1.17). The round is the strongest the catalogue has."""
     span, w, limit = 2.0, 1.4 * KN, 135
@@ -706,7 +706,7 @@ def test_screen_matches_the_full_check_on_every_section(stocks: dict[str, Path],
 
 
 def test_lighter_sections_are_listed_with_their_governing_check(stocks: dict[str, Path], tmp_path: Path) -> None:
-    """SPEC section 6: candidates "include the lighter sections that fail, with their governing
+    """docs/design.md section 6: candidates "include the lighter sections that fail, with their governing
     check". A section checked in full is listed with exactly what `sizer check` says. A section the
     screen ruled out is listed with the check that rules it out and a proven lower bound of its
     utilization: that check fails in `sizer check` too, at a utilization no lower than listed."""

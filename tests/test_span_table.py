@@ -1,11 +1,11 @@
 """Span tables: the longest span and the largest load found on the full check, against closed forms.
 
 Closed forms (simply supported beam under a uniform load w, span L): M max = w L^2 / 8 and midspan
-deflection 5 w L^4 / (384 E I) (AISC Manual Table 3-23, from memory; REFERENCES.md). Cantilever:
+deflection 5 w L^4 / (384 E I) (AISC Manual Table 3-23, from memory; docs/references.md). Cantilever:
 M at the root = w L^2 / 2 (same table). Two equal continuous spans, uniform load on both: support
-moment -0.125 w L^2 (a handbook's continuous-beam table, from memory; REFERENCES.md). Rectangle
+moment -0.125 w L^2 (a handbook's continuous-beam table, from memory; docs/references.md). Rectangle
 b x h: S = b h^2 / 6, I = b h^3 / 12 (elementary beam theory). IPE 300: Wel,y = 557 cm^3,
-Iy = 8356 cm^4 (handbook values, from memory; REFERENCES.md: about 1 %).
+Iy = 8356 cm^4 (handbook values, from memory; docs/references.md: about 1 %).
 """
 
 from __future__ import annotations
@@ -28,7 +28,7 @@ B, H = 0.010, 0.100  # FL 100x10, m
 S_FLAT, I_FLAT = B * H**2 / 6, B * H**3 / 12
 S_IPE, I_IPE = 557e-6, 8356e-8  # handbook, from memory
 
-# Without a yield strength the stability checks use elastic critical stresses / SF alone (SPEC section
+# Without a yield strength the stability checks use elastic critical stresses / SF alone (docs/design.md section
 # 10); for these sections (a deck holds them sideways) those lie far above the bending allowable, so
 # bending governs as the closed form assumes. With one, the local check's Johnson reduction of the
 # IPE flanges would govern by a few per cent.
@@ -138,7 +138,7 @@ def test_command_writes_json_csv_and_plot(tmp_path):
     assert document["cautions"]
     point = document["sections"][0]["rows"][1]
     assert point["kind"] == "point"
-    exact = 4 * FB * S_FLAT / 3e3  # P L / 4 at midspan (REFERENCES.md, AISC Table 3-23, from memory)
+    exact = 4 * FB * S_FLAT / 3e3  # P L / 4 at midspan (docs/references.md, AISC Table 3-23, from memory)
     assert_on_grid_below(point["longest_span"], exact, 0.02, 1e-4)
     assert (tmp_path / "t.csv").read_text().startswith("section,")
     assert (tmp_path / "t.png").read_bytes()[:4] == b"\x89PNG"

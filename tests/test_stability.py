@@ -10,10 +10,10 @@ closed forms, each source named beside its value:
   + G J L^2 / (pi^2 E Iy))], beta positive with the larger flange in compression (Trahair,
   Flexural-Torsional Buckling of Structures, from memory);
 - three-factor formula for the load-height effect (approximate factors: C1 about 1.13, C2 about 0.45
-  for a uniform load on a simply supported beam; REFERENCES.md, from memory);
+  for a uniform load on a simply supported beam; docs/references.md, from memory);
 - pinned singly symmetric column: the lower root of (P - Pb)(P - Pt) r0^2 - P^2 y0^2 = 0 (Timoshenko &
   Gere ch. 5, from memory).
-The section values of the I-beam are the handbook IPE 300 (EN 10365 dimensions; REFERENCES.md, from
+The section values of the I-beam are the handbook IPE 300 (EN 10365 dimensions; docs/references.md, from
 memory); the solver is given them directly, so only the solver is tested here.
 """
 
@@ -32,8 +32,8 @@ from sizer.api import member_from_text
 from sizer.model import Restraint, Stiffness
 from sizer.stability import MemberStability, StabilitySection, mode_name
 
-E, G = 200e9, 77e9  # Pa, structural steel (REFERENCES.md, common practice)
-IPE300 = dict(area=53.8e-4, Iz=8356e-8, Iy=604e-8, J=20.1e-8, Iw=125.9e3 * 1e-12, h=0.300)  # handbook (REFERENCES.md)
+E, G = 200e9, 77e9  # Pa, structural steel (docs/references.md, common practice)
+IPE300 = dict(area=53.8e-4, Iz=8356e-8, Iy=604e-8, J=20.1e-8, Iw=125.9e3 * 1e-12, h=0.300)  # handbook (docs/references.md)
 FINE = 64  # elements per length for the convergence check (8x the default)
 
 
@@ -136,7 +136,7 @@ def test_load_height_against_the_three_factor_formula() -> None:
         model, weights = beam(L, SIMPLE.format(L=L), f'[[loads]]\ntype = "line"\nwy = "-1 kN/m"\nheight = "{height}"')
         found[height] = model.lateral_buckling(s, weights).load_factor * 1e3 * L**2 / 8
     assert found["top"] < found["centre"] < found["bottom"]
-    C1, C2 = 1.13, 0.45  # REFERENCES.md (approximate)
+    C1, C2 = 1.13, 0.45  # docs/references.md (approximate)
     for height, zg in (("top", IPE300["h"] / 2), ("centre", 0.0)):
         base = math.pi**2 * E * IPE300["Iy"] / L**2
         inner = IPE300["Iw"] / IPE300["Iy"] + L**2 * G * IPE300["J"] / (math.pi**2 * E * IPE300["Iy"]) + (C2 * zg) ** 2

@@ -23,7 +23,7 @@ rigid-body motion is a mechanism (`mechanisms`).
 
 Reactions come from statics bay by bay (`reactions`). Internal actions at x come from the method of
 sections (`cuts`): every load and reaction on the left segment [0, x] is summed exactly. They are
-the actions on the +x face of the left segment (SPEC section 2): N, Vy, Vz, T, My, Mz.
+the actions on the +x face of the left segment (docs/design.md section 2): N, Vy, Vz, T, My, Mz.
 Beam convention for x-y loading: V = -Vy, M = Mz (sagging positive).
 
 Displacements inside an element (`displacements`): Hermite cubic (linear for axial and twist) from

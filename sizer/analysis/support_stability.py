@@ -1,4 +1,4 @@
-"""Stability of the support layout, decided from the supports alone (SPEC section 3): the rigid-body
+"""Stability of the support layout, decided from the supports alone (docs/design.md section 3): the rigid-body
 movements of the unloaded member that its supports and hinges leave free.
 
 - Sideways movements (uy, uz) and rotations about y and z, of the whole member or of any part

@@ -1,4 +1,4 @@
-"""The checks of SPEC section 7 for one member and one section: stresses from the internal actions
+"""The checks of docs/design.md section 7 for one member and one section: stresses from the internal actions
 on the full cross-section stress field, against the user's allowables.
 
 Modules: results (CheckResult, CheckReport), stations (where to look, the actions there), field

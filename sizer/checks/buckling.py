@@ -1,4 +1,4 @@
-"""Buckling of the member as a column (SPEC sections 7 and 10): the lowest elastic buckling load of
+"""Buckling of the member as a column (docs/design.md sections 7 and 10): the lowest elastic buckling load of
 each combination from the eigen-solve on the member (flexural about either axis, torsional,
 flexural-torsional, with its supports and restraints), beside Euler's load on any buckling length the
 user gives (the lower governs and the output says which), reduced by the Johnson parabola below the

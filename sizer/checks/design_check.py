@@ -1,4 +1,4 @@
-"""Every check of SPEC section 7 for one member and one section, and the assumptions behind them.
+"""Every check of docs/design.md section 7 for one member and one section, and the assumptions behind them.
 """
 
 from __future__ import annotations
@@ -25,7 +25,7 @@ from sizer.stability.boundary import warping_held
 
 
 def check_design(design: Design, unit_field: Any, n_even: int = 200, stability: MemberStability | None = None) -> CheckReport:
-    """Every check of SPEC section 7 for the design's section, on the full stress field. `stability`:
+    """Every check of docs/design.md section 7 for the design's section, on the full stress field. `stability`:
     the member's MemberStability to reuse (sizing checks many sections of one member)."""
     xs, sides = check_stations(design, n_even)
     names = design.solution.combination_names

@@ -1,4 +1,4 @@
-"""Lateral-torsional buckling (SPEC sections 7 and 10): the bending allowable reduced for sideways
+"""Lateral-torsional buckling (docs/design.md sections 7 and 10): the bending allowable reduced for sideways
 buckling, from the eigen-solve on the member as it is.
 
 For each combination with major-axis bending: critical_moment = load_factor x the peak |Mz| along the

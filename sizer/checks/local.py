@@ -1,4 +1,4 @@
-"""Local buckling of the flat walls of catalogue shapes (SPEC sections 7 and 10, check "local").
+"""Local buckling of the flat walls of catalogue shapes (docs/design.md sections 7 and 10, check "local").
 
 Each flat wall (flange outstand, web, stem, angle leg, tube wall) is a long plate with its own edge
 conditions: "internal" (both long edges joined to other walls: taken as simply supported) or
@@ -22,7 +22,7 @@ compression over the wall's four corners (its two long edges, each face). Utiliz
 F_red, for every wall, combination and station; a wall counts as compressed where sigma1 x the
 section's area exceeds ZERO_ACTION (round-off below that is no compression).
 
-Normal stress over the section is exactly linear in the actions (section axes, SPEC section 2):
+Normal stress over the section is exactly linear in the actions (section axes, docs/design.md section 2):
     sigma(y, z) = N / A + a y + b z,   -Mz = a Iz + b Iyz,   My = a Iyz + b Iy   (tension positive),
 so the stress at any point of a wall is known without the mesh. Positions (y, z) are in m from the
 centroid in the section's own axes (y up along the depth as drawn in the catalogue, z = -X of

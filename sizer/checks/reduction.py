@@ -1,7 +1,7 @@
 """The allowable stress that a buckling mode leaves, from its elastic critical stress (Pa).
 
 Johnson parabola: sigma_J = sigma_cr where sigma_cr <= Fy / 2, else Fy (1 - Fy / (4 sigma_cr))
-(REFERENCES: Johnson's parabola, common practice); without a yield strength sigma_J = sigma_cr.
+(docs/references.md: Johnson's parabola, common practice); without a yield strength sigma_J = sigma_cr.
 
 Reduced allowable (lateral-torsional and local buckling):
     F_red = min(F, F sigma_J / Fy, sigma_cr / SF)      (with a yield strength)

@@ -26,7 +26,7 @@ class CheckResult:
     combination: str | None = None
     quantity: str = "stress"  # "stress", "deflection", "force", "ratio"
     detail: str = ""  # what the numbers are, e.g. "compression", "about the minor axis", "span 2"
-    extra: dict = field(default_factory=dict)  # check-specific values (SPEC section 6), e.g. critical_load, mode
+    extra: dict = field(default_factory=dict)  # check-specific values (docs/design.md section 6), e.g. critical_load, mode
 
     @property
     def made(self) -> bool:

@@ -91,7 +91,7 @@ def stability_report(design: Design, actions: np.ndarray, xs: np.ndarray, model:
 
 def _checked(buckling: Buckling, model: MemberStability, design: Design, combination: str) -> Buckling:
     """The buckling result, or bad input when the member is free to move in a way the loading drives
-    (SPEC section 3: every movement a load engages must be held)."""
+    (docs/design.md section 3: every movement a load engages must be held)."""
     if not buckling.free_movement:
         return buckling
     fields = model.mesh.field_of()

@@ -1,4 +1,4 @@
-"""The stress checks (SPEC section 7): axial, bending, interaction, shear and equivalent. Each reads the full-field peaks and the user's allowables
+"""The stress checks (docs/design.md section 7): axial, bending, interaction, shear and equivalent. Each reads the full-field peaks and the user's allowables
 (Pa); a missing allowable is bad input only when the check has a demand.
 """
 

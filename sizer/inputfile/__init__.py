@@ -1,4 +1,4 @@
-"""Member files (TOML, SPEC section 3) to `model.Member`, with errors that name file, key and line.
+"""Member files (TOML, docs/design.md section 3) to `model.Member`, with errors that name file, key and line.
 
 Every dimensioned value is a string with its unit, parsed by `units.parse` to SI. Unknown keys are
 errors (a misspelt key would otherwise be silently ignored).

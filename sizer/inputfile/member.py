@@ -1,4 +1,4 @@
-"""Member files (TOML, SPEC section 3) to `model.Member`: the [member] table, supports, hinges,
+"""Member files (TOML, docs/design.md section 3) to `model.Member`: the [member] table, supports, hinges,
 restraints, self-weight and combinations; loads, checks and materials come from their own modules.
 """
 
@@ -43,7 +43,7 @@ def read_member_file(path: str | Path) -> Member:
 
 
 def parse_member_text(text: str, path: Path) -> Member:
-    """Parse member-file text (SPEC section 3) read from `path`."""
+    """Parse member-file text (docs/design.md section 3) read from `path`."""
     text = text.removeprefix("\ufeff")
     data = parse_toml(text, path)
     reader = Reader(path, text)

@@ -25,7 +25,7 @@ PASSES, FAILS = "passes", "fails"  # the one pair of status words of every outpu
 
 
 def check_json(design: Design, report: CheckReport, notes: list[str]) -> dict[str, Any]:
-    """SPEC section 6 `check` document (SI base units)."""
+    """docs/design.md section 6 `check` document (SI base units)."""
     governing = report.governing
     return {
         "section": report.section,

@@ -100,7 +100,7 @@ def deflection_summary(solution: MemberSolution, combination: str, n: int = 801)
 
 
 def forces_document(solution: MemberSolution, combination: str, xs: np.ndarray) -> dict[str, Any]:
-    """SPEC section 6 `forces` object for one combination (SI base units)."""
+    """docs/design.md section 6 `forces` object for one combination (SI base units)."""
     reactions = reactions_without_round_off(solution.reactions(combination), solution.member.length)
     document: dict[str, Any] = {
         "combination": combination,
@@ -158,7 +158,7 @@ def extremes_json(solution: MemberSolution, combination: str, planar: bool) -> l
 
 
 def forces_json(solution: MemberSolution, combinations: list[str], xs: np.ndarray, notes: list[str], envelope: bool = False) -> dict[str, Any]:
-    """The whole --json document (SPEC section 6): {"combinations": [one object per combination,
+    """The whole --json document (docs/design.md section 6): {"combinations": [one object per combination,
     always a list], ["envelope": over those combinations,] "units", "assumptions", "cautions"}."""
     planar = is_planar(solution.member)
     documents = []

@@ -29,7 +29,7 @@ CHECK_SHORT = {"axial": "axial", "bending": "bend", "interaction": "inter", "she
 # schedule: documents
 
 def schedule_document(title: str, rows: list[dict], totals: dict, errors: list[dict], notes: list[str]) -> dict:
-    """SPEC section 11 `schedule` document: members, totals, bad rows, assumptions and cautions."""
+    """docs/design.md section 11 `schedule` document: members, totals, bad rows, assumptions and cautions."""
     return {"title": title, "members": rows, "totals": totals, "bad_rows": errors, "units": UNITS_NOTE,
             "assumptions": notes, "cautions": list(CAUTIONS)}
 
@@ -198,7 +198,7 @@ def _member_html_row(row: dict, link: str | None) -> str:
 # span table
 
 def span_table_document(title: str, mode: str, sections: list[dict], notes: list[str], resolution: float | None) -> dict:
-    """SPEC section 11 `span-table` document; `resolution` (m) is the span step of mode "span"."""
+    """docs/design.md section 11 `span-table` document; `resolution` (m) is the span step of mode "span"."""
     return {"title": title, "mode": mode, "resolution": resolution if mode == "span" else None,
             "sections": [_public_section(entry, mode) for entry in sections], "units": UNITS_NOTE, "assumptions": notes,
             "cautions": list(CAUTIONS)}

@@ -46,7 +46,7 @@ def listed_candidates(result: SizingResult) -> list[Candidate]:
 
 
 def size_json(result: SizingResult, notes: list[str]) -> dict[str, Any]:
-    """SPEC section 6 `size` document (SI base units). Candidates: every lighter section (each with its
+    """docs/design.md section 6 `size` document (SI base units). Candidates: every lighter section (each with its
     governing check), the choice, and the heavier sections confirmed to pass."""
     chosen = result.chosen
     document: dict[str, Any] = {

@@ -1,4 +1,4 @@
-"""Catalogue files (SPEC section 4): TOML files holding [materials.NAME] tables and [[sections]]
+"""Catalogue files (docs/design.md section 4): TOML files holding [materials.NAME] tables and [[sections]]
 entries, read into SectionSpec and Material objects with errors that name file, key and line.
 
 Every dimension is a string with its unit, read to metres. Section names are unique across all the
@@ -235,7 +235,7 @@ def parse_catalogue_text(text: str, path: Path, data: dict | None = None) -> Cat
 
 
 def parse_material(name: str, table: dict, file: str, key_prefix: str, text: str = "") -> Material:
-    """A [materials.NAME] table (SPEC section 3 form) to a Material; `text` (the file's text, when
+    """A [materials.NAME] table (docs/design.md section 3 form) to a Material; `text` (the file's text, when
     known) gives line numbers. The one reader shared with member files (sizer.inputfile)."""
     from sizer.inputfile import Reader
     from sizer.inputfile import parse_material as read_material

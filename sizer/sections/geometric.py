@@ -73,7 +73,7 @@ def _corners(spec: SectionSpec, exterior: np.ndarray, holes: list[np.ndarray], a
 
 def bending_coefficients(s: dict[str, float]) -> tuple[np.ndarray, np.ndarray]:
     """(b, c) of sigma = b y + c z per unit My and per unit Mz (Pa per N*m, y and z in m): from
-    My = integral sigma z dA and Mz = -integral sigma y dA (SPEC section 2 signs)."""
+    My = integral sigma z dA and Mz = -integral sigma y dA (docs/design.md section 2 signs)."""
     det = s["Iz"] * s["Iy"] - s["Iyz"] ** 2
     return np.array([-s["Iyz"], s["Iz"]]) / det, np.array([-s["Iy"], s["Iyz"]]) / det
 

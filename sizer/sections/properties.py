@@ -15,7 +15,7 @@ The sizing reads the geometric tier of every candidate and asks for the others s
 (sizer.sizing); `section_properties`, `section_table` and `build_catalogue` give every tier.
 
 Axes. A section is drawn with its depth along sectionproperties' Y axis, "across" along its X
-axis, and sectionproperties' Z out of the drawing. The member's axes (SPEC section 2) are
+axis, and sectionproperties' Z out of the drawing. The member's axes (docs/design.md section 2) are
     member x = Z (the member axis, towards the viewer: we look at the +x cut face),
     member y = Y (depth, up),
     member z = -X (so x, y, z is right-handed: z points left in the drawing).

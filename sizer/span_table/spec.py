@@ -1,4 +1,4 @@
-"""The span-table file (SPEC section 11) read into a SpanTableSpec: layout, spans, material,
+"""The span-table file (docs/design.md section 11) read into a SpanTableSpec: layout, spans, material,
 restraint, mode with its loads or lengths, resolution and checks, with errors naming file, key and
 line; and the records of a search: a Trial, a cell's task, the result of the whole table.
 """

@@ -10,7 +10,7 @@ member buckles where K + lam G is singular):
 with W = N r0^2 + dW/dMz Mz + dW/dMy My the Wagner coefficient (the normal stress acting through
 the twist rate at each fibre's distance from the shear centre), q a transverse load along the depth
 (N/m, or N at a point) and a its height above the shear centre (m): a downward load above the shear
-centre lowers the buckling load. N is tension positive; Mz, My are the section-axis moments (SPEC
+centre lowers the buckling load. N is tension positive; Mz, My are the section-axis moments (docs/design.md
 section 2 signs). The N and W terms follow from the normal stress times the second-order strain;
 the moment coupling is written M w'' phi (as in the classical equations EIy w'''' + (M phi)'' = 0),
 which is exact for moment that varies along the member.
