@@ -14,3 +14,12 @@ import pytest  # noqa: E402
 def isolated_cache(tmp_path_factory, monkeypatch):
     """Every test writes section caches to a temporary folder, never the user's."""
     monkeypatch.setenv("SIZER_CACHE_DIR", str(tmp_path_factory.getbasetemp() / "section-cache"))
+
+
+def pytest_collection_modifyitems(items: list[pytest.Item]) -> None:
+    """The fast subset (`pytest -m "not slow"`) leaves out every property test (hypothesis draws
+    many members each) besides the tests marked slow by hand."""
+    for item in items:
+        function = getattr(item, "function", None)
+        if getattr(function, "is_hypothesis_test", False):
+            item.add_marker(pytest.mark.slow)

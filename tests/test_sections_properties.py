@@ -306,6 +306,7 @@ def _analysed(spec, analyse):
 # ----------------------------------------------------------------------------------------------
 # mesh rule
 
+@pytest.mark.slow
 def test_mesh_rule_converges(catalogue) -> None:
     """J at the mesh rule's size within 1 % of a mesh with elements 9 times smaller in area."""
     from sectionproperties.analysis import Section
