@@ -3,7 +3,8 @@ buckling, from the eigen-solve on the member as it is.
 
 For each combination with major-axis bending: critical_moment = load_factor x the peak |Mz| along the
 member; sigma_cr = critical_moment / the elastic modulus of the fibre it compresses; the reduced
-allowable Fb_LT = min(Fb, Fb sigma_J / Fy, sigma_cr / SF) (sizer.checks.reduction). A combination
+allowable Fb_LT = min(Fb, Fb rho, sigma_cr / SF) (sizer.checks.reduction; rho = 1 up to the plateau
+lambda_LT = sqrt(Fy / sigma_cr) <= 0.2 of EN 1993-1-1 6.3.2.2, the general case, then the Johnson curve). A combination
 under which the member cannot buckle sideways (held along its length) keeps Fb and adds no row;
 when none can, the check is not made and says why; demand = the peak major-axis bending stress, |Mz| x the section's
 largest stress per unit Mz (exact: the field is linear). Stresses in Pa, moments in N*m.
@@ -14,7 +15,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from sizer.checks.reduction import reduced_allowable
+from sizer.checks.reduction import PLATEAU_LATERAL, reduced_allowable, slenderness
 from sizer.checks.results import CheckResult
 from sizer.checks.stability import StabilityReport
 from sizer.design import Design
@@ -50,7 +51,8 @@ def lateral_buckling(design: Design, report: StabilityReport, bending_allowable:
         critical = entry.lateral.load_factor * entry.moment
         modulus = props.Sz_top if entry.moment_sign > 0 else props.Sz_bottom
         sigma_cr = critical / modulus
-        allowable = float(reduced_allowable(bending_allowable, sigma_cr, material.yield_strength, settings.buckling_safety_factor))
+        allowable = float(reduced_allowable(bending_allowable, sigma_cr, material.yield_strength, settings.buckling_safety_factor,
+                                             PLATEAU_LATERAL))
         found.append(LateralBuckling(entry.combination, entry.moment, entry.moment_at, entry.lateral.load_factor, critical, sigma_cr,
                                      allowable, entry.moment * per_unit))
     return found
@@ -69,6 +71,11 @@ def lateral_check(entries: list[LateralBuckling | None], report: StabilityReport
     factor = design.member.checks.buckling_safety_factor
     detail = (f"load factor {worst.load_factor:.3g} on the combination, M_cr = {worst.critical_moment / 1e3:.4g} kN·m, "
               f"σcr = {worst.critical_stress / 1e6:.4g} MPa, Fb_LT = {worst.allowable / 1e6:.4g} MPa (safety factor {factor:g})")
-    extra = {"critical_moment": worst.critical_moment, "load_factor": worst.load_factor, "mode": "lateral-torsional"}
+    extra = {"critical_moment": worst.critical_moment, "load_factor": worst.load_factor, "mode": "lateral-torsional",
+             "plateau_slenderness": PLATEAU_LATERAL}
+    fy = design.material.yield_strength
+    if fy:
+        extra["slenderness"] = float(slenderness(worst.critical_stress, fy))
+        detail += f", λ_LT = {extra['slenderness']:.3g} (no reduction up to {PLATEAU_LATERAL:g})"
     return CheckResult("lateral-torsional", worst.utilization, worst.demand, worst.allowable, worst.at, worst.combination, detail=detail,
                        extra=extra)

@@ -16,8 +16,10 @@ channel flanges width - web_thickness - root_radius; webs between flanges depth 
 leg - thickness - root_radius (outstands); rectangular_tube walls outer dimension - 2 max(outer_radius,
 thickness) (internal).
 
-Allowable (sizer.checks.reduction): F_red = min(F, F sigma_J / Fy, sigma_cr / SF), F the larger of
-the user's compression and bending allowables, SF the buckling safety factor. Demand: the peak
+Allowable (sizer.checks.reduction): F_red = min(F, F rho, sigma_cr / SF), F the larger of the user's
+compression and bending allowables, SF the buckling safety factor, rho the Johnson curve with the
+plateau of EN 1993-1-5 4.4(2): no reduction for lambda_p = sqrt(Fy / sigma_cr) up to
+0.5 + sqrt(0.085 - 0.055 psi) for internal walls (0.673 in uniform compression), 0.748 for outstands. Demand: the peak
 compression over the wall's four corners (its two long edges, each face). Utilization = demand /
 F_red, for every wall, combination and station; a wall counts as compressed where sigma1 x the
 section's area exceeds ZERO_ACTION (round-off below that is no compression).
@@ -38,7 +40,7 @@ from typing import Any
 
 import numpy as np
 
-from sizer.checks.reduction import johnson, reduced_allowable
+from sizer.checks.reduction import PLATEAU_OUTSTAND, governing_term, internal_plateau, reduced_allowable, slenderness
 from sizer.checks.results import ZERO_ACTION, CheckResult
 from sizer.design import Design
 from sizer.errors import InputError
@@ -51,7 +53,10 @@ PSI_LOWEST_SUPPORTED_EDGE = -1.0
 BLOCK_VALUES = 200_000  # (section, row, wall) values at once: about 20 float64 arrays of 1.6 MB, ~17 MB at peak
 ASSUMPTIONS = ("Local buckling: each flat wall is a long plate, simply supported where it joins another wall "
                "and free at an outstand's tip, over its clear flat width; k from EN 1993-1-5 Tables 4.1 and 4.2 "
-               "for the wall's stress ratio; no restraint from neighbouring walls and no post-buckling reserve.")
+               "for the wall's stress ratio; no restraint from neighbouring walls and no post-buckling reserve. "
+               "No reduction while the wall's slenderness sqrt(Fy / sigma_cr) is within the plateau of EN 1993-1-5 4.4(2): "
+               "0.5 + sqrt(0.085 - 0.055 psi) for internal walls (0.673 in uniform compression), 0.748 for outstands; "
+               "above it the Johnson parabola, joined by a straight transition so that the allowable has no jump.")
 
 Point = tuple[float, float]
 
@@ -179,6 +184,12 @@ def plate_coefficient(kind: Any, psi: Any, free_edge_more_compressed: Any) -> np
     p = np.maximum(psi, PSI_LOWEST_SUPPORTED_EDGE)
     k_supported = np.where(p >= 0.0, 0.578 / (np.maximum(p, 0.0) + 0.34), 1.7 - 5.0 * p + 17.1 * p * p)
     return np.where(internal, k_internal, np.where(free_more, k_free, k_supported))
+
+
+def wall_plateau(kind: Any, psi: Any) -> np.ndarray:
+    """The plateau slenderness lambda_0 of a wall, elementwise: internal 0.5 + sqrt(0.085 - 0.055 psi),
+    outstand 0.748 (EN 1993-1-5 4.4(2), from memory; sizer.checks.reduction)."""
+    return np.where(np.asarray(kind) == INTERNAL, internal_plateau(psi), PLATEAU_OUTSTAND)
 
 
 def elastic_plate_stress(k: Any, E: Any, nu: Any, t: Any, b: Any) -> Any:
@@ -336,7 +347,7 @@ def _plate_values(kind: np.ndarray, middle: np.ndarray, spread: np.ndarray, dema
         psi = (middle - np.abs(spread)) / larger
     k = plate_coefficient(kind, psi, spread <= 0.0)
     critical = elastic_plate_stress(k, E, nu, thickness, width)
-    reduced = reduced_allowable(allowable, critical, yield_strength, safety_factor)
+    reduced = reduced_allowable(allowable, critical, yield_strength, safety_factor, wall_plateau(kind, psi))
     return psi, k, critical, reduced, demand / reduced
 
 
@@ -352,13 +363,14 @@ def _plate_numbers(table: WallTable, sections: slice, terms: WallTerms, compress
 
 def _lowest_allowables(table: WallTable, sections: slice, E: np.ndarray, nu: np.ndarray, yield_strength: float | None,
                        allowable: np.ndarray, safety_factor: float) -> np.ndarray:
-    """(Sb, 1, W): each wall's F_red at its smallest k (uniform compression, psi = 1; k never falls as
-    psi falls), so demand / this bounds the utilization from above at every row."""
+    """(Sb, 1, W): each wall's F_red at its smallest k and plateau (uniform compression, psi = 1; neither
+    k nor the plateau limit falls as psi falls), so demand / this bounds the utilization from above at
+    every row."""
     kind = table.kind[sections]
     k = np.minimum(plate_coefficient(kind, 1.0, True), plate_coefficient(kind, 1.0, False))
     per = (slice(None), None)
     critical = elastic_plate_stress(k, E[per], nu[per], table.thickness[sections], table.width[sections])
-    return reduced_allowable(allowable[per], critical, yield_strength, safety_factor)[:, None, :]
+    return reduced_allowable(allowable[per], critical, yield_strength, safety_factor, wall_plateau(kind, 1.0))[:, None, :]
 
 
 @dataclass(frozen=True)
@@ -485,15 +497,13 @@ def local_check(design: Design, actions: np.ndarray, xs: np.ndarray, names: Sequ
     pick = (0, 0, w)
     critical, reduced = float(numbers.critical[pick]), float(numbers.allowable[pick])
     wall = table.names[0][w]
-    detail = (f"{wall}, k = {numbers.k[pick]:.3g} (psi = {numbers.psi[pick]:.2f}), sigma_cr = {critical / 1e6:.4g} MPa, "
-              f"allowable {reduced / 1e6:.4g} MPa ({_governing_term(F, critical, yield_strength, safety_factor)}, SF {safety_factor:g})")
-    return CheckResult("local", float(numbers.utilization[pick]), float(numbers.demand[pick]), reduced, float(xs[s]), names[c],
-                       detail=detail, extra={"critical_stress": critical, "element": wall})
-
-
-def _governing_term(allowable: float, critical: float, yield_strength: float | None, safety_factor: float) -> str:
-    """Which term of F_red = min(F, F sigma_J / Fy, sigma_cr / SF) governs, in words."""
-    terms = {"not reduced": allowable, "sigma_cr / SF": critical / safety_factor}
+    plateau = float(wall_plateau(table.kind[0, w], numbers.psi[pick]))
+    extra = {"critical_stress": critical, "element": wall, "plateau_slenderness": plateau}
     if yield_strength:
-        terms["Johnson"] = allowable * float(johnson(critical, yield_strength)) / yield_strength
-    return min(terms, key=terms.get)
+        extra["slenderness"] = float(slenderness(critical, yield_strength))
+    detail = (f"{wall}, k = {numbers.k[pick]:.3g} (psi = {numbers.psi[pick]:.2f}), sigma_cr = {critical / 1e6:.4g} MPa, "
+              + (f"lambda_p = {extra['slenderness']:.3g} (plateau {plateau:.3g}), " if yield_strength else "")
+              + f"allowable {reduced / 1e6:.4g} MPa ({governing_term(F, critical, yield_strength, safety_factor, plateau)}, SF {safety_factor:g})")
+    return CheckResult("local", float(numbers.utilization[pick]), float(numbers.demand[pick]), reduced, float(xs[s]), names[c],
+                       detail=detail, extra=extra)
+

@@ -17,7 +17,7 @@ import numpy as np
 
 from sizer.analysis import MemberSolution
 from sizer.checks.buckling import given_euler_loads
-from sizer.checks.reduction import johnson, reduced_allowable
+from sizer.checks.reduction import PLATEAU_LATERAL, johnson, reduced_allowable
 from sizer.checks.results import ZERO_ACTION
 from sizer.checks.stability import StabilityReport
 from sizer.model import Material, Member
@@ -104,7 +104,7 @@ class StabilityBounds:
             factor = factors.get(("lateral", c), np.full(len(rows), np.inf))
             with np.errstate(invalid="ignore", over="ignore"):
                 allowable = reduced_allowable(bending, np.where(moment > ZERO_ACTION, factor * moment, np.inf) / modulus, material.yield_strength,
-                                              self.member.checks.buckling_safety_factor)
+                                              self.member.checks.buckling_safety_factor, PLATEAU_LATERAL)
                 bound = (moment > ZERO_ACTION) & self.lateral_applies[rows] & np.isfinite(factor)  # else the bending check says as much
                 value = np.where(bound, moment * table.sigma_peak_Mz[rows] / allowable, 0.0)
             worst = np.maximum(worst, np.nan_to_num(value, nan=0.0))

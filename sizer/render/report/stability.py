@@ -12,7 +12,7 @@ from typing import Any
 
 from sizer import units
 from sizer.checks import CheckReport, CheckResult
-from sizer.checks.reduction import johnson
+from sizer.checks.reduction import johnson, reduction_factor, slenderness
 from sizer.design import Design
 from sizer.render.basis import lateral_sigma, safety_text
 from sizer.render.plots.buckled_shape import buckling_pick, height_text, holds_at_supports
@@ -106,15 +106,19 @@ def _buckling_line(design: Design, result: CheckResult, system: str) -> str:
             f"against the peak compression {_fmt(result.demand, 'force', system)}.")
 
 
-def _reduced(allowable: float, sigma_cr: float, fy: float | None, sf: float, system: str, name: str) -> str:
-    """F_red = min(F, F sigma_J / Fy, sigma_cr / SF) written out with its terms."""
+def _reduced(allowable: float, sigma_cr: float, fy: float | None, sf: float, system: str, name: str, plateau: float) -> str:
+    """F_red = min(F, F rho, sigma_cr / SF) written out with its terms; rho = 1 within the plateau
+    lambda <= lambda_0, then the Johnson curve (sizer.checks.reduction)."""
     terms = [_fmt(allowable, "stress", system)]
     if fy:
-        sigma_j = float(johnson(sigma_cr, fy))
-        terms.append(f"{_fmt(allowable, 'stress', system)} x {_fmt(sigma_j, 'stress', system)} / {_fmt(fy, 'stress', system)} = "
-                     f"{_fmt(allowable * sigma_j / fy, 'stress', system)}")
+        lam = float(slenderness(sigma_cr, fy))
+        rho = float(reduction_factor(sigma_cr, fy, plateau))
+        where = ("within the plateau, no reduction" if lam <= plateau else
+                 "Johnson σ_J / Fy" if math.isclose(rho, float(johnson(sigma_cr, fy)) / fy, rel_tol=1e-12) else "transition")
+        terms.append(f"{_fmt(allowable, 'stress', system)} x ρ = {_fmt(allowable, 'stress', system)} x {rho:.4g} "
+                     f"(λ = √(Fy / σ_cr) = {lam:.3g}, plateau λ_0 = {plateau:.3g}: {where}) = {_fmt(allowable * rho, 'stress', system)}")
     terms.append(f"{_fmt(sigma_cr, 'stress', system)} / {sf:g} = {_fmt(sigma_cr / sf, 'stress', system)}")
-    formula = "min(F, F σ_J / Fy, σ_cr / SF)" if fy else "min(F, σ_cr / SF)"
+    formula = "min(F, F ρ, σ_cr / SF)" if fy else "min(F, σ_cr / SF)"
     return f"{name} = {formula} = min({'; '.join(terms)})"
 
 
@@ -129,7 +133,7 @@ def _lateral_line(design: Design, report: CheckReport, result: CheckResult, syst
                if fy else "")
     return (f"Lateral-torsional buckling, combination {result.combination}: load factor {factor:.4g}, "
             f"M_cr = {_fmt(result.extra['critical_moment'], 'moment', system)}, σ_cr = M_cr / S = {_fmt(sigma, 'stress', system)}"
-            f"{sigma_j}; {_reduced(fb, sigma, fy, sf, system, 'Fb_LT')} = {_fmt(result.allowable, 'stress', system)} "
+            f"{sigma_j}; {_reduced(fb, sigma, fy, sf, system, 'Fb_LT', float(result.extra.get('plateau_slenderness', 0.0)))} = {_fmt(result.allowable, 'stress', system)} "
             f"against the peak major-axis bending stress {_fmt(result.demand, 'stress', system)}.")
 
 
@@ -138,7 +142,7 @@ def _local_line(design: Design, result: CheckResult, system: str) -> str:
     given = [value for value in (allowable.compression, allowable.bending) if value is not None]
     critical = float(result.extra.get("critical_stress") or math.inf)
     sf, fy = design.member.checks.buckling_safety_factor, design.material.yield_strength
-    formula = _reduced(max(given), critical, fy, sf, system, "F_red") if given and math.isfinite(critical) else "F_red"
+    formula = _reduced(max(given), critical, fy, sf, system, "F_red", float(result.extra.get("plateau_slenderness", 0.0))) if given and math.isfinite(critical) else "F_red"
     return (f"Local buckling of the {result.extra.get('element', 'wall')}, combination {result.combination}: plate buckling "
             f"σ_cr = k π² E / (12 (1 - ν²)) (t / b)² = {_fmt(critical, 'stress', system)}; {formula} = "
             f"{_fmt(result.allowable, 'stress', system)} (F: the larger of the compression and bending allowables) against the "
