@@ -58,6 +58,8 @@ class Support:
     springs: dict[str, float] = field(default_factory=dict)
     label: str = ""  # e.g. "pin", "roller", "fixed", "custom"
     warping: str | None = None  # for stability: "free" or "held"; None: held by fixed supports, free otherwise
+    bearing: float = 0.0  # stiff bearing length along the member (m) for the web check; 0: knife edge
+    stiffened: bool = False  # a web stiffener here: no web check at this support
 
 
 @dataclass(frozen=True)
@@ -79,6 +81,8 @@ class PointLoad:
     moment: tuple[float, float, float] = (0.0, 0.0, 0.0)
     height: str | float | None = None  # where a transverse force acts on the section (see Restraint); None: default
     pattern: bool = False  # pattern loading: the span it is on is loaded in some arrangements only (analysis.patterns)
+    bearing: float = 0.0  # stiff bearing length along the member (m) for the web check; 0: knife edge
+    stiffened: bool = False  # a web stiffener here: no web check under this load
 
 
 @dataclass(frozen=True)
@@ -169,6 +173,7 @@ class CheckSettings:
     buckling_length_minor: float | None = None  # default: member length
     buckling_safety_factor: float = 2.0
     buckling_safety_factor_given: bool = False
+    web_stiffener_spacing: float | None = None  # panel length for web shear buckling; None: the span between supports
 
 
 @dataclass(frozen=True)

@@ -17,6 +17,7 @@ from sizer.checks.local import local_check
 from sizer.checks.results import CheckReport
 from sizer.checks.stability import StabilityReport, stability_report
 from sizer.checks.stations import check_stations, member_actions
+from sizer.checks.web import web_check, web_notes
 from sizer.checks.strength import (axial_check, bending_check, compression_allowables, equivalent_check, interaction_check, needs_allowable,
                                    shear_check)
 from sizer.design import Design
@@ -47,6 +48,7 @@ def check_design(design: Design, unit_field: Any, n_even: int = 200, stability: 
         buckling_check(columns, design),
         lateral_check(laterals, report, design),
         local_check(design, actions, xs, names),
+        web_check(design),
     ]
     nodes = np.asarray(unit_field.sigma).shape[1]
     notes = check_notes(design, report, given, len(xs), len(names), nodes)
@@ -76,6 +78,7 @@ def check_notes(design: Design, report: StabilityReport, given: list[BucklingAxi
     ]
     notes += restraint_notes(design)
     notes.append(LOCAL_ASSUMPTIONS)
+    notes += web_notes(design)
     if design.material.yield_strength is None:
         notes.append("No yield strength given: elastic buckling only (no Johnson parabola); unsafe for stocky members.")
     span_limit, overhang_limit = deflection_limits(settings)

@@ -8,7 +8,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Any
 
-CHECK_NAMES = ("axial", "bending", "interaction", "shear", "equivalent", "deflection", "buckling", "lateral-torsional", "local")
+CHECK_NAMES = ("axial", "bending", "interaction", "shear", "equivalent", "deflection", "buckling", "lateral-torsional", "local", "web")
 CHUNK_VALUES = 4_000_000  # station x node values evaluated at once (memory bound, ~32 MB per array)
 ZERO_ACTION = 1e-9  # N or N*m: below this an action is treated as absent (round-off)
 

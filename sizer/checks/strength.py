@@ -10,6 +10,7 @@ from typing import Any
 import numpy as np
 
 from sizer.checks.field import FieldPeaks
+from sizer.checks.reduction import PLATEAU_SHEAR
 from sizer.checks.results import ZERO_ACTION, CheckResult
 from sizer.design import Design
 from sizer.errors import InputError
@@ -98,12 +99,40 @@ def interaction_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...]
 
 
 def shear_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], design: Design) -> CheckResult:
-    """Peak shear stress from Vy, Vz and T together (full field) against the shear allowable."""
+    """Peak shear stress from Vy, Vz and T together (full field) against the shear allowable, reduced
+    where a web panel carrying that row's shear buckles first (sizer.checks.web: the lower of the
+    panels along y and z that carry shear in the row)."""
+    from sizer.checks.web import shear_panels, shear_slenderness
+
     if stress.shear_upper.max() <= 0.0:
         return CheckResult("shear", None, detail="no shear force or torque")
     allowable = needs_allowable(design.member, design.material, "shear", "shear")
-    value, at, combination = _place(stress.largest(stress.shear_upper, lambda rows, exact: exact[:, 1]), xs, names)
-    return CheckResult("shear", value / allowable, value, allowable, at, combination, detail="Vy, Vz and T together")
+    panels = shear_panels(design, xs, allowable)
+    if panels is None:
+        value, at, combination = _place(stress.largest(stress.shear_upper, lambda rows, exact: exact[:, 1]), xs, names)
+        return CheckResult("shear", value / allowable, value, allowable, at, combination, detail="Vy, Vz and T together")
+    stations = len(xs)
+    station = np.tile(np.arange(stations), stress.shape[0])
+    carries = np.abs(stress.flat[:, 1:3]) > ZERO_ACTION  # (rows, 2): shear along y, z
+    per_row = np.min(np.where(carries, panels.allowable[:, station].T, allowable), axis=1)
+    found = stress.largest(stress.shear_upper / per_row, lambda rows, exact: exact[:, 1] / per_row[rows])
+    utilization, (c, s) = found
+    row = c * stations + s
+    demand, fv = utilization * per_row[row], float(per_row[row])
+    detail, extra = "Vy, Vz and T together", {}
+    if fv < allowable:
+        axis = int(np.argmin(np.where(carries[row], panels.allowable[:, s], np.inf)))
+        critical = float(panels.critical[axis, s])
+        lam = shear_slenderness(critical, design.material.yield_strength)
+        extra = {"critical_shear_stress": critical, "k_tau": float(panels.k_tau[axis, s]), "panel_length": float(panels.length[s]),
+                 "element": "web" if axis == 0 else "walls across the depth", "plateau_slenderness": PLATEAU_SHEAR}
+        if lam is not None:
+            extra["slenderness"] = lam
+        detail += (f"; web shear buckling: h = {panels.h[axis] * 1e3:.4g} mm, t = {panels.t[axis] * 1e3:.4g} mm, "
+                   f"a = {panels.length[s]:.4g} m, k_tau = {panels.k_tau[axis, s]:.3g}, tau_cr = {critical / 1e6:.4g} MPa, "
+                   + (f"lambda_w = {lam:.3g} (no reduction up to {PLATEAU_SHEAR:g}), " if lam is not None else "")
+                   + f"Fv reduced to {fv / 1e6:.4g} MPa (SF {design.member.checks.buckling_safety_factor:g})")
+    return CheckResult("shear", float(utilization), float(demand), fv, float(xs[s]), names[c], detail=detail, extra=extra)
 
 
 def equivalent_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], design: Design) -> CheckResult:

@@ -1,5 +1,5 @@
 """The [checks] table of a member file: deflection limits (the single keys or [[checks.deflection]]
-entries), buckling lengths and the buckling safety factor.
+entries), buckling lengths, the buckling safety factor and the spacing of web stiffeners.
 """
 
 from __future__ import annotations
@@ -14,7 +14,7 @@ SINGLE_DEFLECTION_KEYS = ("deflection_limit", "deflection_limit_overhang", "defl
 
 CHECK_KEYS = {
     *SINGLE_DEFLECTION_KEYS, "deflection",
-    "buckling_length_major", "buckling_length_minor", "buckling_safety_factor",
+    "buckling_length_major", "buckling_length_minor", "buckling_safety_factor", "web_stiffener_spacing",
 }
 
 
@@ -33,10 +33,11 @@ def read_checks(reader: Reader, value: Any, length: float, combinations: dict[st
         raise reader.error(f"checks.{single[0]}", "deflection limits are given both as single keys and as [[checks.deflection]] entries",
                            f"move {single[0]} into a [[checks.deflection]] entry (limit, overhang_limit, combinations), or remove the entries")
     lengths = {}
-    for name in ("buckling_length_major", "buckling_length_minor"):
+    for name in ("buckling_length_major", "buckling_length_minor", "web_stiffener_spacing"):
         lengths[name] = reader.quantity(table, name, "length", "checks")
         if lengths[name] is not None and lengths[name] <= 0:
-            raise reader.error(f"checks.{name}", "a buckling length must be greater than zero", 'give e.g. "3 m"')
+            what = "a buckling length" if name.startswith("buckling") else "the spacing of web stiffeners"
+            raise reader.error(f"checks.{name}", f"{what} must be greater than zero", 'give e.g. "3 m"')
     factor_given = "buckling_safety_factor" in table
     factor = reader.number(table["buckling_safety_factor"], "checks.buckling_safety_factor") if factor_given else 2.0
     return CheckSettings(
@@ -48,6 +49,7 @@ def read_checks(reader: Reader, value: Any, length: float, combinations: dict[st
         buckling_length_minor=lengths["buckling_length_minor"],
         buckling_safety_factor=factor,
         buckling_safety_factor_given=factor_given,
+        web_stiffener_spacing=lengths["web_stiffener_spacing"],
     )
 
 

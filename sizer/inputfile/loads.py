@@ -8,11 +8,11 @@ from dataclasses import replace
 from typing import Any
 
 from sizer import units
-from sizer.inputfile.reader import Reader, array_of_tables, read_height
+from sizer.inputfile.reader import Reader, array_of_tables, read_bearing, read_height
 from sizer.model import DEFAULT_CASE, LineLoad, Load, PointLoad, Pressure
 
 LOAD_KEYS = {
-    "point": {"type", "case", "at", "fx", "fy", "fz", "height", "pattern"},
+    "point": {"type", "case", "at", "fx", "fy", "fz", "height", "pattern", "bearing", "stiffened"},
     "moment": {"type", "case", "at", "mx", "my", "mz", "pattern"},
     "line": {"type", "case", "from", "to", "wx", "wy", "wz", "mx", "wx_end", "wy_end", "wz_end", "mx_end", "height", "pattern"},
     "area": {"type", "case", "from", "to", "px", "py", "pz", "px_end", "py_end", "pz_end", "width", "height", "pattern"},
@@ -69,7 +69,8 @@ def _read_point_load(reader: Reader, table: dict, prefix: str, case: str, kind: 
     if not any(name in table for name in names):
         raise reader.error(prefix, f"the {kind} load has no components", f"give at least one of {', '.join(names)}")
     if kind == "point":
-        return PointLoad(case=case, at=at, force=values, height=read_height(reader, table, prefix, None))
+        bearing, stiffened = read_bearing(reader, table, prefix)
+        return PointLoad(case=case, at=at, force=values, height=read_height(reader, table, prefix, None), bearing=bearing, stiffened=stiffened)
     return PointLoad(case=case, at=at, moment=values)
 
 

@@ -12,7 +12,7 @@ from sizer.errors import InputError
 from sizer.inputfile.checks_table import read_checks
 from sizer.inputfile.loads import read_loads
 from sizer.inputfile.materials import parse_material
-from sizer.inputfile.reader import Reader, array_of_tables, parse_toml, read_height
+from sizer.inputfile.reader import Reader, array_of_tables, parse_toml, read_bearing, read_height
 from sizer.model import DEFAULT_COMBINATION, FREEDOMS, RESTRAINT_HOLDS, SUPPORT_TYPES, WARPING_CHOICES, Hinge, Load, Member, Restraint, Support
 
 GRAVITY_DIRECTIONS = {"-x": (0, -1), "+x": (0, 1), "-y": (1, -1), "+y": (1, 1), "-z": (2, -1), "+z": (2, 1)}
@@ -24,7 +24,7 @@ TOP_KEYS = {"title", "member", "supports", "hinges", "restraints", "loads", "com
 MEMBER_KEYS = {"length", "material", "section", "orientation", "self_weight", "gravity"}
 
 
-SUPPORT_KEYS = {"at", "type", "restrain", "springs", "warping"}
+SUPPORT_KEYS = {"at", "type", "restrain", "springs", "warping", "bearing", "stiffened"}
 
 
 RESTRAINT_KEYS = {"at", "from", "to", "hold", "height"}
@@ -118,8 +118,9 @@ def _read_supports(reader: Reader, value: Any, length: float) -> list[Support]:
                 raise reader.error(f"{prefix}.at", f"two supports at {units.fmt(at, 'length')}",
                                    "merge them into one support with the freedoms of both")
         warping = _read_warping(reader, table, prefix)
+        bearing, stiffened = read_bearing(reader, table, prefix)
         supports.append(Support(at=at, restrain=frozenset(restrain), springs=springs, label=label if not springs or label == "springs" else f"{label} + springs",
-                                warping=warping))
+                                warping=warping, bearing=bearing, stiffened=stiffened))
     return supports
 
 

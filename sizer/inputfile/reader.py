@@ -146,3 +146,15 @@ def array_of_tables(reader: Reader, value: Any, name: str) -> list[dict]:
     if not isinstance(value, list) or not all(isinstance(item, dict) for item in value):
         raise reader.error(name, "expected an array of tables", f"write each entry as [[{name}]]")
     return value
+
+
+def read_bearing(reader: Reader, table: dict, prefix: str) -> tuple[float, bool]:
+    """`bearing` (the stiff bearing length along the member, m; default 0: a knife edge) and
+    `stiffened` (true: a web stiffener there; default false) of a point load or support."""
+    bearing = reader.quantity(table, "bearing", "length", prefix, 0.0)
+    if bearing < 0:
+        raise reader.error(f"{prefix}.bearing", "a bearing length cannot be negative", 'give e.g. bearing = "100 mm", or leave it out for a knife edge')
+    stiffened = table.get("stiffened", False)
+    if not isinstance(stiffened, bool):
+        raise reader.error(f"{prefix}.stiffened", f"expected true or false, got {stiffened!r}", "write stiffened = true (no quotes)")
+    return bearing, stiffened

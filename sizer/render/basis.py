@@ -32,9 +32,27 @@ def basis_text(result: CheckResult, design: Design, report: CheckReport, system:
         return lateral_basis(result, design, report, system)
     if result.check == "local":
         return local_basis(result, design, system)
+    if result.check == "shear" and "critical_shear_stress" in result.extra:
+        return WHAT["shear"] + "; " + web_shear_basis(result, design, system)
     if result.check in WHAT:
         return WHAT[result.check]
     return in_display_units(result.detail, system)
+
+
+def plateau_text(result: CheckResult, symbol: str) -> str:
+    """"λ_p = 0.91 (no reduction up to 0.673)" from the check's slenderness and plateau ("" without a yield strength)."""
+    lam, plateau = result.extra.get("slenderness"), result.extra.get("plateau_slenderness")
+    if lam is None or plateau is None:
+        return ""
+    return f"; {symbol} = {lam:.3g} ({'within' if lam <= plateau else 'beyond'} the plateau {plateau:.3g})"
+
+
+def web_shear_basis(result: CheckResult, design: Design, system: str) -> str:
+    """The web panel, its shear buckling stress and the reduced shear allowable."""
+    critical, k_tau, length = result.extra["critical_shear_stress"], result.extra["k_tau"], result.extra["panel_length"]
+    return (f"web shear buckling, panel a = {units.fmt(length, 'length', system)}, k_τ = {k_tau:.3g}, "
+            f"τ_cr = {units.fmt(critical, 'stress', system)}{plateau_text(result, 'λ_w')}; "
+            f"Fv reduced to {units.fmt(result.allowable, 'stress', system)} with {safety_text(design)}")
 
 
 def safety_text(design: Design) -> str:
@@ -78,7 +96,7 @@ def lateral_basis(result: CheckResult, design: Design, report: CheckReport, syst
     critical = float(result.extra["critical_moment"])
     sigma = lateral_sigma(design, report, result)
     return (f"load factor {factor:.3g} on the combination: M_cr = {units.fmt(critical, 'moment', system)}, "
-            f"σ_cr = M_cr / S = {units.fmt(sigma, 'stress', system)}; Fb_LT = {units.fmt(result.allowable, 'stress', system)} "
+            f"σ_cr = M_cr / S = {units.fmt(sigma, 'stress', system)}{plateau_text(result, 'λ_LT')}; Fb_LT = {units.fmt(result.allowable, 'stress', system)} "
             f"with {safety_text(design)}")
 
 
@@ -87,7 +105,7 @@ def local_basis(result: CheckResult, design: Design, system: str) -> str:
     critical = result.extra.get("critical_stress")
     wall = result.extra.get("element", "wall")
     critical_text = units.fmt(float(critical), "stress", system) if critical is not None else "none"
-    return (f"{wall}: plate buckling σ_cr = {critical_text}; reduced allowable {units.fmt(result.allowable, 'stress', system)} "
+    return (f"{wall}: plate buckling σ_cr = {critical_text}{plateau_text(result, 'λ_p')}; reduced allowable {units.fmt(result.allowable, 'stress', system)} "
             f"with {safety_text(design)}; demand = peak compression in that wall")
 
 

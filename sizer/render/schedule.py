@@ -22,7 +22,7 @@ SCHEDULE_CSV_COLUMNS = (("mark", "mark"), ("file", "file"), ("do", "do"), ("sect
                         ("utilization", "utilization"), ("governing", "governing"), ("mass_per_length", "mass_per_length_kg_per_m"),
                         ("quantity", "quantity"), ("length", "length_m"), ("total_mass", "total_mass_kg"))
 CHECK_SHORT = {"axial": "axial", "bending": "bend", "interaction": "inter", "shear": "shear", "equivalent": "equiv",
-               "deflection": "defl", "buckling": "buck", "lateral-torsional": "LTB", "local": "local"}
+               "deflection": "defl", "buckling": "buck", "lateral-torsional": "LTB", "local": "local", "web": "web"}
 
 
 # ----------------------------------------------------------------------------------------------

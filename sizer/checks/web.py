@@ -1,0 +1,300 @@
+"""Webs under concentrated forces (check "web") and the shear buckling of webs (in check "shear").
+
+Concentrated forces: at every support (its reaction) and every point load (the loads at one position
+summed per combination) of an i_beam, channel or rectangular_tube, the force along the web (the
+section's depth direction; for a tube also across, on the other pair of walls) against the allowable
+force of the American steel specification, AISC 360-16 section J10 (from memory), in its allowable
+strength form Rn / Omega:
+- bearing at the web's toe of fillet, web local yielding (J10.2, Omega = 1.50):
+      Rn = Fy tw (5 k + lb)       (eq. J10-2) where the force is more than d from the member's end,
+      Rn = Fy tw (2.5 k + lb)     (eq. J10-3) where it is within d of it;
+- web crippling (J10.3, Omega = 2.00), Qf = 1:
+      Rn = 0.80 tw^2 [1 + 3 (lb/d) (tw/tf)^1.5] sqrt(E Fy tf / tw)            (eq. J10-4), at least d/2 from the end,
+      Rn = 0.40 tw^2 [1 + 3 (lb/d) (tw/tf)^1.5] sqrt(E Fy tf / tw)            (eq. J10-5a), within d/2, lb/d <= 0.2,
+      Rn = 0.40 tw^2 [1 + (4 lb/d - 0.2) (tw/tf)^1.5] sqrt(E Fy tf / tw)      (eq. J10-5b), within d/2, lb/d > 0.2;
+with d the section's depth, tw and tf the web and flange thicknesses, k the distance from the flange's
+outer face to the web's toe of fillet (tf + root_radius; a tube wall: max(outer_radius, t)), lb the
+stiff bearing length (`bearing`, default 0: a knife edge). A tube has two webs (its side walls, each
+with tf = tw = t): twice the force of one. Every force is taken as pushing on the web (crippling
+applies), the safe side. A support or load with `stiffened = true` is not checked (the stiffener
+carries the force; it is stated). Fy: the material's yield strength; without one, the largest of the
+allowable stresses given (a yield strength is never below an allowable stress: the safe side).
+
+Shear buckling of webs: each web panel (the web of an i_beam or channel, the walls of a tube) between
+stiffeners a apart (`web_stiffener_spacing`; default: the span between supports that the station is
+in, the longer one at a support) has the elastic shear buckling stress
+    tau_cr = k_tau pi^2 E / (12 (1 - nu^2)) (t / h)^2,
+    k_tau = 5.34 + 4 (h/a)^2 for a/h >= 1,  4 + 5.34 (h/a)^2 for a/h < 1
+(Timoshenko & Gere ch. 9; EN 1993-1-5 Annex A.3, from memory), h the clear depth between the
+flanges (depth - 2 tf; a tube wall: outer size - 2 t). The shear allowable where the panel carries
+shear is reduced as local buckling is (sizer.checks.reduction) with the shear yield Fy / sqrt(3)
+and the plateau lambda_w = 0.83 of EN 1993-1-5 5.3 Table 5.1 (eta = 1).
+Units: N, m, Pa.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+from sizer.checks.reduction import PLATEAU_SHEAR, reduced_allowable, slenderness
+from sizer.checks.results import ZERO_ACTION, CheckResult
+from sizer.design import Design
+from sizer.errors import InputError
+from sizer.model import Member, PointLoad
+
+METHOD = "AISC 360-16 J10.2 (web local yielding: bearing at the toe of the fillet) and J10.3 (web crippling)"
+OMEGA_YIELDING = 1.50  # AISC 360-16 J10.2, allowable strength design (from memory)
+OMEGA_CRIPPLING = 2.00  # AISC 360-16 J10.3, allowable strength design (from memory)
+WEB_SHAPES = ("i_beam", "channel", "rectangular_tube")
+ASSUMPTIONS = (f"Webs under concentrated forces: {METHOD}, allowable force Rn / Omega with Omega = {OMEGA_YIELDING:.2f} "
+               f"(yielding) and {OMEGA_CRIPPLING:.2f} (crippling), Qf = 1, at every support and point load; end formulas within "
+               "d (yielding) or d/2 (crippling) of a member end; every force taken as pushing on the web; a tube's two "
+               "side walls each as a web (tf = tw = t).")
+
+
+@dataclass(frozen=True)
+class Web:
+    """One web direction of a section: the walls that carry a force along `axis` (1: section y, the
+    depth; 2: section z). d, tw, tf, k in m; `webs` walls side by side; h the clear depth (m)."""
+
+    axis: int
+    depth: float
+    tw: float
+    tf: float
+    k: float
+    webs: int
+    h: float
+
+
+def section_webs(shape: str, dims: dict[str, float]) -> list[Web]:
+    """The webs of a section (empty for shapes without one)."""
+    if shape in ("i_beam", "channel"):
+        d, tf, tw, r = dims["depth"], dims["flange_thickness"], dims["web_thickness"], dims.get("root_radius", 0.0)
+        return [Web(1, d, tw, tf, tf + r, 1, d - 2 * tf)]
+    if shape == "rectangular_tube":
+        d, b, t = dims["depth"], dims["width"], dims["thickness"]
+        k = max(dims.get("outer_radius", 0.0), t)
+        return [Web(1, d, t, t, k, 2, d - 2 * t), Web(2, b, t, t, k, 2, b - 2 * t)]
+    return []
+
+
+def no_web_reason(shape: str) -> str | None:
+    if shape in WEB_SHAPES:
+        return None
+    return f"a {shape.replace('_', ' ')} has no web of an I, channel or tube: not made; check concentrated forces by hand"
+
+
+# ----------------------------------------------------------------------------------------------
+# the published formulas (one web)
+
+def web_yielding(web: Web, fy: float, bearing: float, near_end: bool) -> float:
+    """Rn of web local yielding, N (AISC 360-16 eqs. J10-2 and J10-3), all the section's webs."""
+    return web.webs * fy * web.tw * ((2.5 if near_end else 5.0) * web.k + bearing)
+
+
+def web_crippling(web: Web, E: float, fy: float, bearing: float, near_end: bool) -> float:
+    """Rn of web crippling, N (AISC 360-16 eqs. J10-4, J10-5a, J10-5b, Qf = 1), all the section's webs."""
+    ratio, thin = bearing / web.depth, (web.tw / web.tf) ** 1.5
+    root = math.sqrt(E * fy * web.tf / web.tw)
+    if not near_end:
+        factor = 0.80 * (1 + 3 * ratio * thin)
+    elif ratio <= 0.2:
+        factor = 0.40 * (1 + 3 * ratio * thin)
+    else:
+        factor = 0.40 * (1 + (4 * ratio - 0.2) * thin)
+    return web.webs * factor * web.tw**2 * root
+
+
+# ----------------------------------------------------------------------------------------------
+# the concentrated forces
+
+@dataclass(frozen=True)
+class Concentrated:
+    """A support's reaction or the point loads at one position: forces (C, 3) along the section's
+    x, y, z per combination (N), the stiff bearing length (m) and whether a stiffener is there."""
+
+    what: str
+    at: float
+    forces: np.ndarray
+    bearing: float
+    stiffened: bool
+
+
+def concentrated_forces(design: Design) -> list[Concentrated]:
+    """Every support's reaction and every point load position, forces in section axes."""
+    solution = design.solution
+    member = solution.member
+    names = solution.combination_names
+    turn = (lambda f: np.stack([f[:, 0], f[:, 2], -f[:, 1]], axis=1)) if member.orientation == "minor" else (lambda f: f)
+    found = []
+    reactions = np.stack([solution.reactions(name)[:, :3] for name in names], axis=1) if member.supports else np.zeros((0, len(names), 3))
+    for index, support in enumerate(member.supports):
+        found.append(Concentrated(f"support S{index + 1} ({support.label})", support.at, turn(reactions[index]), support.bearing, support.stiffened))
+    tol = 1e-9 * member.length
+    loads = [load for load in member.loads if isinstance(load, PointLoad) and any(load.force)]
+    positions: list[float] = []
+    for at in sorted({load.at for load in loads}):
+        if not positions or at - positions[-1] > tol:
+            positions.append(at)
+    for at in positions:
+        group = [load for load in loads if abs(load.at - at) <= tol]
+        forces = np.array([[sum(member.combinations[name].get(load.case, 0.0) * load.force[i] for load in group) for i in range(3)]
+                           for name in names])
+        found.append(Concentrated(f"point load at {at:.4g} m", at, turn(forces), min(load.bearing for load in group),
+                                  all(load.stiffened for load in group)))
+    return found
+
+
+def web_yield_strength(design: Design) -> tuple[float, str]:
+    """Fy for the web formulas (Pa) and how it was found; bad input when neither a yield strength nor
+    an allowable stress is given."""
+    material = design.material
+    if material.yield_strength:
+        return material.yield_strength, "yield strength"
+    allow = material.allowable
+    given = [v for v in (allow.tension, allow.compression, allow.bending, allow.shear, allow.equivalent) if v is not None]
+    if not given:
+        raise InputError(material.source or design.member.source, f"materials.{material.name}.yield_strength",
+                         "the web check under concentrated forces needs the yield strength, which is not given",
+                         f'add yield_strength = "... MPa" under [materials.{material.name}]')
+    return max(given), "no yield strength given: Fy taken as the largest allowable stress (the safe side)"
+
+
+def web_check(design: Design) -> CheckResult:
+    """The web check: the largest utilization (force / allowable force) of any web under any
+    concentrated force and combination."""
+    reason = no_web_reason(design.spec.shape)
+    if reason:
+        return CheckResult("web", None, detail=reason)
+    webs = section_webs(design.spec.shape, design.spec.dims)
+    names = design.solution.combination_names
+    member = design.member
+    items = concentrated_forces(design)
+    if not items:
+        return CheckResult("web", None, detail="no support or point load")
+    checked = [item for item in items if not item.stiffened]
+    if not checked:
+        return CheckResult("web", None, detail="every support and point load is stiffened (stated): not made")
+    fy, fy_text = None, ""
+    best: CheckResult | None = None
+    for item in checked:
+        for web in webs:
+            force = np.abs(item.forces[:, web.axis])
+            if force.max() * (1 + 1e-12) <= ZERO_ACTION:
+                continue
+            if fy is None:
+                fy, fy_text = web_yield_strength(design)
+            end = min(item.at, member.length - item.at)
+            yielding = web_yielding(web, fy, item.bearing, end <= web.depth) / OMEGA_YIELDING
+            crippling = web_crippling(web, design.material.elastic_modulus, fy, item.bearing, end < web.depth / 2) / OMEGA_CRIPPLING
+            allowable = min(yielding, crippling)
+            c = int(np.argmax(force))
+            utilization = float(force[c] / allowable)
+            if best is None or utilization > best.utilization:
+                governs = "web local yielding" if yielding <= crippling else "web crippling"
+                where = ("near the member's end" if end < web.depth / 2 else "within d of the member's end (yielding), interior (crippling)"
+                         if end <= web.depth else "interior")
+                bearing = f"lb = {item.bearing * 1e3:.4g} mm" if item.bearing > 0 else "lb = 0 (knife edge)"
+                walls = "two side walls" if web.webs == 2 else "web"
+                detail = (f"{item.what}, {walls} tw = {web.tw * 1e3:.4g} mm, k = {web.k * 1e3:.4g} mm, {bearing}, {where}: "
+                          f"yielding Rn/Ω = {yielding / 1e3:.4g} kN, crippling Rn/Ω = {crippling / 1e3:.4g} kN; {governs} governs "
+                          f"(AISC 360-16 J10.2 and J10.3, Fy = {fy / 1e6:.4g} MPa)")
+                extra = {"method": METHOD, "element": item.what, "web_local_yielding": yielding, "web_crippling": crippling,
+                         "bearing": item.bearing, "yield_strength": fy, "governing_limit": governs}
+                best = CheckResult("web", utilization, float(force[c]), allowable, item.at, names[c], quantity="force", detail=detail,
+                                   extra=extra)
+    if best is None:
+        return CheckResult("web", None, detail="no concentrated force along a web")
+    if fy_text != "yield strength":
+        best = CheckResult(best.check, best.utilization, best.demand, best.allowable, best.at, best.combination, best.quantity,
+                           best.detail + "; " + fy_text, best.extra)
+    return best
+
+
+def web_notes(design: Design) -> list[str]:
+    """The web check's assumptions: the method, bearing lengths and stiffeners as used."""
+    if no_web_reason(design.spec.shape):
+        return []
+    items = concentrated_forces(design)
+    if not items:
+        return []
+    parts = [f"{item.what}: " + ("stiffened, not checked" if item.stiffened else
+                                   f"bearing {item.bearing * 1e3:.4g} mm" if item.bearing > 0 else "knife edge (bearing 0 mm, the default)")
+             for item in items]
+    return [ASSUMPTIONS + " " + "; ".join(parts) + "."]
+
+
+# ----------------------------------------------------------------------------------------------
+# shear buckling of web panels
+
+def shear_buckling_coefficient(h: float | np.ndarray, a: float | np.ndarray) -> np.ndarray:
+    """k_tau of a panel h deep and a long, simply supported on all edges (Timoshenko & Gere ch. 9;
+    EN 1993-1-5 Annex A.3, from memory): 5.34 + 4 (h/a)^2 for a/h >= 1, 4 + 5.34 (h/a)^2 for a/h < 1."""
+    ratio = np.asarray(h, dtype=float) / np.asarray(a, dtype=float)
+    return np.where(ratio <= 1.0, 5.34 + 4.0 * ratio**2, 4.0 + 5.34 * ratio**2)
+
+
+def elastic_shear_buckling(k_tau: float | np.ndarray, E: float, nu: float, t: float, h: float) -> np.ndarray:
+    """tau_cr = k_tau pi^2 E / (12 (1 - nu^2)) (t / h)^2 (Pa)."""
+    return np.asarray(k_tau) * math.pi**2 * E / (12.0 * (1.0 - nu * nu)) * (t / h) ** 2
+
+
+def panel_lengths(member: Member, xs: np.ndarray) -> np.ndarray:
+    """The web panel length a (m) at each station: web_stiffener_spacing where given, else the span
+    (between supports, or an overhang) the station is in, the longer one at a support."""
+    from sizer.analysis.patterns import spans
+
+    given = member.checks.web_stiffener_spacing
+    if given is not None:
+        return np.full(len(xs), given)
+    found = spans(member) or []
+    lengths = np.zeros(len(xs))
+    tol = 1e-9 * member.length
+    for span in found:
+        inside = (xs >= span.start - tol) & (xs <= span.end + tol)
+        lengths = np.where(inside, np.maximum(lengths, span.length), lengths)
+    return np.where(lengths > 0, lengths, member.length)
+
+
+@dataclass(frozen=True)
+class ShearPanels:
+    """The shear allowable of each station for shear along section y and z (Pa, (S,) each; the
+    user's Fv where no web carries that shear or nothing buckles), and the numbers behind them."""
+
+    allowable: np.ndarray  # (2, S): along y, along z
+    critical: np.ndarray  # (2, S) tau_cr, inf without a web
+    k_tau: np.ndarray  # (2, S)
+    length: np.ndarray  # (S,) panel length a
+    h: tuple[float, float]  # clear depth of the web along y and z (0 without one)
+    t: tuple[float, float]
+
+
+def shear_panels(design: Design, xs: np.ndarray, allowable: float) -> ShearPanels | None:
+    """The reduced shear allowables at the stations xs (m); None for a section without a web."""
+    from sizer.checks.local import poisson_ratio
+
+    webs = section_webs(design.spec.shape, design.spec.dims)
+    if not webs:
+        return None
+    material = design.material
+    a = panel_lengths(design.member, xs)
+    nu = poisson_ratio(material, design.member.source)
+    fy = material.yield_strength
+    tau_y = fy / math.sqrt(3.0) if fy else None
+    reduced, critical, ks = np.full((2, len(xs)), allowable), np.full((2, len(xs)), np.inf), np.zeros((2, len(xs)))
+    h, t = [0.0, 0.0], [0.0, 0.0]
+    for web in webs:
+        row = web.axis - 1
+        ks[row] = shear_buckling_coefficient(web.h, a)
+        critical[row] = elastic_shear_buckling(ks[row], material.elastic_modulus, nu, web.tw, web.h)
+        reduced[row] = reduced_allowable(allowable, critical[row], tau_y, design.member.checks.buckling_safety_factor, PLATEAU_SHEAR)
+        h[row], t[row] = web.h, web.tw
+    return ShearPanels(reduced, critical, ks, a, (h[0], h[1]), (t[0], t[1]))
+
+
+def shear_slenderness(critical: float, yield_strength: float | None) -> float | None:
+    """lambda_w = sqrt((Fy / sqrt(3)) / tau_cr), None without a yield strength."""
+    return float(slenderness(critical, yield_strength / math.sqrt(3.0))) if yield_strength else None
