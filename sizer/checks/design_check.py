@@ -14,6 +14,7 @@ from sizer.checks.field import FieldPeaks
 from sizer.checks.lateral import lateral_buckling, lateral_check
 from sizer.checks.local import ASSUMPTIONS as LOCAL_ASSUMPTIONS
 from sizer.checks.local import local_check
+from sizer.checks.reduction import PLATEAU_WORDS, TRANSITION_WORDS
 from sizer.checks.results import CheckReport
 from sizer.checks.stability import StabilityReport, stability_report
 from sizer.checks.stations import check_stations, member_actions
@@ -78,6 +79,7 @@ def check_notes(design: Design, report: StabilityReport, given: list[BucklingAxi
     ]
     notes += restraint_notes(design)
     notes.append(LOCAL_ASSUMPTIONS)
+    notes.append(plateau_note())
     notes += web_notes(design)
     if design.material.yield_strength is None:
         notes.append("No yield strength given: elastic buckling only (no Johnson parabola); unsafe for stocky members.")
@@ -88,6 +90,13 @@ def check_notes(design: Design, report: StabilityReport, given: list[BucklingAxi
         notes.append(f"Deflection limits: {spans_text}, overhang/{overhang_limit:g}, "
                      f"relative to the supports, combinations: {chosen}.")
     return notes
+
+
+def plateau_note() -> str:
+    """Where each buckling reduction starts (its plateau) and how it joins the Johnson curve."""
+    return ("No reduction below the published slenderness limits (plateaus): lateral-torsional "
+            f"{PLATEAU_WORDS['lateral-torsional']}; web shear buckling {PLATEAU_WORDS['shear']}; local buckling "
+            f"{PLATEAU_WORDS['local']}; {TRANSITION_WORDS}.")
 
 
 def stability_note(design: Design, report: StabilityReport, given: list[BucklingAxis]) -> str:

@@ -19,7 +19,7 @@ thickness) (internal).
 Allowable (sizer.checks.reduction): F_red = min(F, F rho, sigma_cr / SF), F the larger of the user's
 compression and bending allowables, SF the buckling safety factor, rho the Johnson curve with the
 plateau of EN 1993-1-5 4.4(2): no reduction for lambda_p = sqrt(Fy / sigma_cr) up to
-0.5 + sqrt(0.085 - 0.055 psi) for internal walls (0.673 in uniform compression), 0.748 for outstands. Demand: the peak
+0.5 + sqrt(0.085 - 0.055 psi) for internal walls (0.673 under uniform compression), 0.748 for outstands. Demand: the peak
 compression over the wall's four corners (its two long edges, each face). Utilization = demand /
 F_red, for every wall, combination and station; a wall counts as compressed where sigma1 x the
 section's area exceeds ZERO_ACTION (round-off below that is no compression).
@@ -55,7 +55,7 @@ ASSUMPTIONS = ("Local buckling: each flat wall is a long plate, simply supported
                "and free at an outstand's tip, over its clear flat width; k from EN 1993-1-5 Tables 4.1 and 4.2 "
                "for the wall's stress ratio; no restraint from neighbouring walls and no post-buckling reserve. "
                "No reduction while the wall's slenderness sqrt(Fy / sigma_cr) is within the plateau of EN 1993-1-5 4.4(2): "
-               "0.5 + sqrt(0.085 - 0.055 psi) for internal walls (0.673 in uniform compression), 0.748 for outstands; "
+               "0.5 + sqrt(0.085 - 0.055·ψ) for internal walls (0.673 under uniform compression), 0.748 for outstands; "
                "above it the Johnson parabola, joined by a straight transition so that the allowable has no jump.")
 
 Point = tuple[float, float]

@@ -42,12 +42,12 @@ PLATEAU_SHEAR = 0.83  # EN 1993-1-5 5.3 Table 5.1, chi_w = 1 for lambda_w < 0.83
 TRANSITION_END = 1.0  # lambda_e at least this: the Johnson curve unchanged wherever sigma_cr <= Fy
 TRANSITION_LEAST = 0.1  # lambda_e at least lambda_0 + this
 PLATEAU_WORDS = {
-    "local": "EN 1993-1-5 4.4(2): 0.5 + sqrt(0.085 - 0.055 psi) for internal walls (0.673 in uniform compression), 0.748 for outstands",
-    "lateral-torsional": f"EN 1993-1-1 6.3.2.2, general case: lambda_LT,0 = {PLATEAU_LATERAL:g}",
-    "shear": f"EN 1993-1-5 5.3 Table 5.1 with eta = 1: lambda_w = {PLATEAU_SHEAR:g}",
+    "local": "λ_p = √(Fy / σ_cr) up to 0.5 + √(0.085 - 0.055·ψ) for internal walls (0.673 under uniform compression) and 0.748 for outstands (EN 1993-1-5 4.4(2))",
+    "lateral-torsional": f"λ_LT = √(Fy / σ_cr) up to {PLATEAU_LATERAL:g} (EN 1993-1-1 6.3.2.2, the general case)",
+    "shear": f"λ_w = √(Fy / (√3 τ_cr)) up to {PLATEAU_SHEAR:g} (EN 1993-1-5 5.3, Table 5.1 with η = 1)",
 }
-TRANSITION_WORDS = ("above the limit lambda_0 a straight line in lambda from 1 down to the Johnson value at lambda_e = max(1, lambda_0 + 0.1) "
-                    "(or the Johnson curve where higher), the Johnson parabola beyond: no jump")
+TRANSITION_WORDS = ("above a limit λ_0 the allowable follows a straight line in λ from no reduction down to the Johnson parabola's value "
+                    "at λ_e = max(1, λ_0 + 0.1) (or the parabola where higher), and the parabola beyond, so that it has no jump")
 
 
 def internal_plateau(psi: Any) -> Any:
