@@ -8,6 +8,7 @@ from typing import Any
 import numpy as np
 
 from sizer.analysis.section_axes import to_section_axes
+from sizer.checks.bracing import brace_demands, brace_notes
 from sizer.checks.buckling import BucklingAxis, buckling_check, column_buckling, given_length_axes
 from sizer.checks.deflection import deflection_check, deflection_limits
 from sizer.checks.field import FieldPeaks
@@ -53,7 +54,9 @@ def check_design(design: Design, unit_field: Any, n_even: int = 200, stability: 
     ]
     nodes = np.asarray(unit_field.sigma).shape[1]
     notes = check_notes(design, report, given, len(xs), len(names), nodes)
-    return CheckReport(design.spec.name, checks, notes, len(xs), nodes, stability=report)
+    braces = brace_demands(design, actions, xs)
+    notes += brace_notes(braces)
+    return CheckReport(design.spec.name, checks, notes, len(xs), nodes, stability=report, restraints=braces)
 
 
 def _bending_allowable(design: Design, report: StabilityReport) -> float | None:

@@ -47,6 +47,7 @@ class CheckReport:
     stations_checked: int = 0
     nodes: int = 0
     stability: Any = None  # sizer.checks.stability.StabilityReport: load factors and buckled shapes
+    restraints: list = field(default_factory=list)  # sizer.checks.bracing.BraceDemand: what each restraint must carry
 
     @property
     def made(self) -> list[CheckResult]:

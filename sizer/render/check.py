@@ -34,6 +34,7 @@ def check_json(design: Design, report: CheckReport, notes: list[str]) -> dict[st
         "governing": governing.check if governing else None,
         "checks": [check_entry(c) for c in report.checks],
         "reactions": reactions_json(design),
+        "restraints": [demand.to_json() for demand in report.restraints],
         "mass_per_length": design.mass_per_length,
         "units": "SI base units (m, N, N*m, Pa, kg/m)",
         "assumptions": notes,
