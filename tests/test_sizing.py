@@ -130,6 +130,9 @@ MIXED_SHAPES: Entries = {
     "PIPE 89x5": ("round_tube", {"diameter": "89 mm", "thickness": "5 mm"}, "pipe"),
     "I 100x50": ("i_beam", {"depth": "100 mm", "width": "50 mm", "flange_thickness": "6 mm", "web_thickness": "4 mm", "root_radius": "6 mm"}, "i"),
     "C 100x50": ("channel", {"depth": "100 mm", "width": "50 mm", "flange_thickness": "7 mm", "web_thickness": "5 mm", "root_radius": "7 mm"}, "channel"),
+    # an invented family of welded plate girders (no fillets) with slender webs: h / tw = 95 and 47
+    "PG 200x2": ("i_beam", {"depth": "200 mm", "width": "50 mm", "flange_thickness": "5 mm", "web_thickness": "2 mm"}, "plate-girder"),
+    "PG 250x5": ("i_beam", {"depth": "250 mm", "width": "100 mm", "flange_thickness": "8 mm", "web_thickness": "5 mm"}, "plate-girder"),
 }
 
 STOCKS: dict[str, Entries] = {
@@ -602,6 +605,81 @@ height = "top"
 
 [combinations]''')
 
+POINT_LOADS_NEAR_SUPPORTS = """
+[member]
+length = "2.4 m"
+material = "steel"
+
+[[supports]]
+at = "0 m"
+type = "pin"
+
+[[supports]]
+at = "2.4 m"
+type = "roller"
+bearing = "40 mm"
+
+[[restraints]]
+from = "0 m"
+to = "2.4 m"
+hold = ["lateral", "twist"]
+height = "top"
+
+[[loads]]
+type = "point"
+case = "imposed"
+at = "0.08 m"
+fy = "-12 kN"
+bearing = "30 mm"
+
+[[loads]]
+type = "point"
+case = "imposed"
+at = "1.2 m"
+fy = "-4 kN"
+
+[[loads]]
+type = "line"
+case = "dead"
+wy = "-0.5 kN/m"
+
+[combinations]
+"dead + imposed" = { dead = 1.0, imposed = 1.0 }
+"""
+
+SLENDER_WEBS = """
+[member]
+length = "1.2 m"
+material = "steel"
+
+[[supports]]
+at = "0 m"
+type = "pin"
+stiffened = true
+
+[[supports]]
+at = "1.2 m"
+type = "roller"
+stiffened = true
+
+[[restraints]]
+from = "0 m"
+to = "1.2 m"
+hold = ["lateral", "twist"]
+height = "top"
+
+[[loads]]
+type = "line"
+case = "imposed"
+wy = "-50 kN/m"
+
+[combinations]
+"dead + imposed" = { dead = 1.0, imposed = 1.0 }
+
+[checks]
+web_stiffener_spacing = "0.6 m"
+"""
+
 AGREEMENT_MEMBERS = {
     "unbraced beam": UNBRACED_BEAM,
     "braced at thirds": BRACED_AT_THIRDS,
@@ -609,6 +687,8 @@ AGREEMENT_MEMBERS = {
     "beam-column, minor": BEAM_COLUMN.format(orientation="minor"),
     "post with torque": POST,
     "springs, hinge, overhang": SPRUNG_OVERHANG,
+    "point loads near supports": POINT_LOADS_NEAR_SUPPORTS,
+    "slender built-up webs": SLENDER_WEBS,
 }
 
 
