@@ -158,11 +158,11 @@ def one_station(design, N: float = 0.0, My: float = 0.0, Mz: float = 0.0):
 def reduced(critical: float, plateau: float) -> float:
     """min(F, F rho, sigma_cr / SF): rho = 1 for lambda = sqrt(Fy / sigma_cr) <= plateau (EN 1993-1-5
     4.4(2), from memory: 0.673 internal in uniform compression, 0.748 outstand, 0.5 + sqrt(0.085 - 0.055
-    psi) generally), the Johnson parabola sigma_J / Fy from lambda_e = max(1, plateau + 0.1) on, and
+    psi) generally), the Johnson parabola sigma_J / Fy from lambda_e = max(1, plateau + 0.2) on, and
     between them the larger of Johnson and the straight line from 1 to Johnson's value at lambda_e
     (sizer's stated transition, docs/output.md)."""
     johnson = lambda s: (s if s <= FY / 2 else FY * (1 - FY / (4 * s))) / FY
-    lam, end = math.sqrt(FY / critical), max(1.0, plateau + 0.1)
+    lam, end = math.sqrt(FY / critical), max(1.0, plateau + 0.2)
     if lam <= plateau:
         rho = 1.0
     elif lam < end:

@@ -261,11 +261,12 @@ def test_internal_plateau_under_a_stress_gradient() -> None:
 @given(st.floats(0.05, 3.0), st.floats(0.0, 0.2), st.sampled_from([0.2, 0.673, 0.748, 0.83, 0.95, 1.0]))
 def test_reduction_never_rises_with_slenderness_and_has_no_jump(lam: float, step: float, plateau: float) -> None:
     """rho is non-increasing in lambda, never below the Johnson parabola, and Lipschitz (no jump):
-    |rho(l + d) - rho(l)| <= 3 d (common practice: a reduction curve is continuous)."""
+    |rho(l + d) - rho(l)| <= 2 d (common practice: a reduction curve is continuous; the steepest part,
+    the transition after the limit 1.0, falls 0.36 over 0.2)."""
     rho = lambda l: float(reduction_factor(FY / l**2, FY, plateau))
     assert rho(lam + step) <= rho(lam) + 1e-12
     assert rho(lam) >= float(johnson(FY / lam**2, FY)) / FY - 1e-12
-    assert abs(rho(lam + step) - rho(lam)) <= 3.0 * step + 1e-12
+    assert abs(rho(lam + step) - rho(lam)) <= 2.0 * step + 1e-12
 
 
 def test_readme_braced_ipe_300_is_governed_by_bending(tmp_path: Path) -> None:

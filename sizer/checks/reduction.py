@@ -12,7 +12,7 @@ PLATEAU_* below):
     rho = max(J(lambda), 1 - (1 - J(lambda_e)) (lambda - lambda_0) / (lambda_e - lambda_0))
                                                   for lambda_0 < lambda < lambda_e (the transition)
     rho = J(lambda) = sigma_J / Fy                for lambda >= lambda_e (the Johnson curve, as before)
-with lambda_e = max(1, lambda_0 + 0.1) (sigma_cr = Fy for every limit below 0.9) and J(lambda) =
+with lambda_e = max(1, lambda_0 + 0.2) (sigma_cr = Fy for every limit up to 0.8) and J(lambda) =
 sigma_J / Fy. The transition is a straight line in lambda from 1 at the plateau limit to the Johnson
 value at lambda_e (or the Johnson curve where that is higher, so that rho is never below its value
 without a plateau), so rho is continuous (no jump at lambda_0 nor at lambda_e) and never rises with
@@ -40,14 +40,14 @@ PLATEAU_INTERNAL_UNIFORM = 0.673  # EN 1993-1-5 4.4(2), internal elements, psi =
 PLATEAU_LATERAL = 0.2  # EN 1993-1-1 6.3.2.2, lambda_LT,0 of the general case (from memory; 0.4 for rolled shapes in 6.3.2.3)
 PLATEAU_SHEAR = 0.83  # EN 1993-1-5 5.3 Table 5.1, chi_w = 1 for lambda_w < 0.83 / eta, taken with eta = 1 (from memory)
 TRANSITION_END = 1.0  # lambda_e at least this: the Johnson curve unchanged wherever sigma_cr <= Fy
-TRANSITION_LEAST = 0.1  # lambda_e at least lambda_0 + this
+TRANSITION_LEAST = 0.2  # lambda_e at least lambda_0 + this
 PLATEAU_WORDS = {
     "local": "λ_p = √(Fy / σ_cr) up to 0.5 + √(0.085 - 0.055·ψ) for internal walls (0.673 under uniform compression) and 0.748 for outstands (EN 1993-1-5 4.4(2))",
     "lateral-torsional": f"λ_LT = √(Fy / σ_cr) up to {PLATEAU_LATERAL:g} (EN 1993-1-1 6.3.2.2, the general case)",
     "shear": f"λ_w = √(Fy / (√3 τ_cr)) up to {PLATEAU_SHEAR:g} (EN 1993-1-5 5.3, Table 5.1 with η = 1)",
 }
 TRANSITION_WORDS = ("above a limit λ_0 the allowable follows a straight line in λ from no reduction down to the Johnson parabola's value "
-                    "at λ_e = max(1, λ_0 + 0.1) (or the parabola where higher), and the parabola beyond, so that it has no jump")
+                    "at λ_e = max(1, λ_0 + 0.2) (or the parabola where higher), and the parabola beyond, so that it has no jump")
 
 
 def internal_plateau(psi: Any) -> Any:
