@@ -23,7 +23,7 @@ from hypothesis import strategies as st
 
 from sizer.api import check, member_from_text
 from sizer.checks.reduction import PLATEAU_OUTSTAND, internal_plateau, johnson, reduced_allowable, reduction_factor
-from sizer.checks.web import shear_buckling_coefficient, web_check
+from sizer.checks.web import Web, shear_buckling_coefficient, web_check, web_crippling, web_yielding
 from sizer.design import prepare
 from sizer.errors import InputError
 from tests.steel import STEEL_TOML
@@ -195,6 +195,19 @@ def test_web_check_without_yield_strength_uses_the_largest_allowable(tmp_path: P
                                       str(tmp_path / "member.toml")), [stock(tmp_path, bare)])
     with pytest.raises(InputError, match="yield_strength"):
         web_check(design)
+
+
+@settings(max_examples=100, deadline=None)
+@given(st.floats(0.0, 0.5), st.floats(0.0, 0.3), st.floats(0.002, 0.02), st.floats(0.004, 0.04))
+def test_web_capacity_grows_with_bearing_and_away_from_the_ends(bearing: float, more: float, tw: float, tf: float) -> None:
+    """Common practice, and so the published formulas: a longer stiff bearing never lowers the
+    allowable force; a force near a member's end never gets more than one in the interior."""
+    web = Web(1, 0.4, tw, tf, tf + 0.01, 1, 0.4 - 2 * tf)
+    for near_end in (False, True):
+        assert web_yielding(web, FY, bearing + more, near_end) >= web_yielding(web, FY, bearing, near_end)
+        assert web_crippling(web, E, FY, bearing + more, near_end) >= web_crippling(web, E, FY, bearing, near_end) * (1 - 1e-12)
+    assert web_yielding(web, FY, bearing, True) <= web_yielding(web, FY, bearing, False)
+    assert web_crippling(web, E, FY, bearing, True) <= web_crippling(web, E, FY, bearing, False)
 
 
 # ----------------------------------------------------------------------------------------------

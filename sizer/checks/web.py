@@ -35,7 +35,7 @@ Units: N, m, Pa.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 import numpy as np
 
@@ -52,7 +52,7 @@ WEB_SHAPES = ("i_beam", "channel", "rectangular_tube")
 ASSUMPTIONS = (f"Webs under concentrated forces: {METHOD}, allowable force Rn / Omega with Omega = {OMEGA_YIELDING:.2f} "
                f"(yielding) and {OMEGA_CRIPPLING:.2f} (crippling), Qf = 1, at every support and point load; end formulas within "
                "d (yielding) or d/2 (crippling) of a member end; every force taken as pushing on the web; a tube's two "
-               "side walls each as a web (tf = tw = t).")
+               "side walls each as a web (tf = tw = t); forces across an I's or channel's web (along its flanges) not checked.")
 
 
 @dataclass(frozen=True)
@@ -170,8 +170,6 @@ def web_check(design: Design) -> CheckResult:
     if reason:
         return CheckResult("web", None, detail=reason)
     webs = section_webs(design.spec.shape, design.spec.dims)
-    names = design.solution.combination_names
-    member = design.member
     items = concentrated_forces(design)
     if not items:
         return CheckResult("web", None, detail="no support or point load")
@@ -183,35 +181,39 @@ def web_check(design: Design) -> CheckResult:
     for item in checked:
         for web in webs:
             force = np.abs(item.forces[:, web.axis])
-            if force.max() * (1 + 1e-12) <= ZERO_ACTION:
+            if force.max() <= ZERO_ACTION:
                 continue
             if fy is None:
                 fy, fy_text = web_yield_strength(design)
-            end = min(item.at, member.length - item.at)
-            yielding = web_yielding(web, fy, item.bearing, end <= web.depth) / OMEGA_YIELDING
-            crippling = web_crippling(web, design.material.elastic_modulus, fy, item.bearing, end < web.depth / 2) / OMEGA_CRIPPLING
-            allowable = min(yielding, crippling)
-            c = int(np.argmax(force))
-            utilization = float(force[c] / allowable)
-            if best is None or utilization > best.utilization:
-                governs = "web local yielding" if yielding <= crippling else "web crippling"
-                where = ("near the member's end" if end < web.depth / 2 else "within d of the member's end (yielding), interior (crippling)"
-                         if end <= web.depth else "interior")
-                bearing = f"lb = {item.bearing * 1e3:.4g} mm" if item.bearing > 0 else "lb = 0 (knife edge)"
-                walls = "two side walls" if web.webs == 2 else "web"
-                detail = (f"{item.what}, {walls} tw = {web.tw * 1e3:.4g} mm, k = {web.k * 1e3:.4g} mm, {bearing}, {where}: "
-                          f"yielding Rn/Ω = {yielding / 1e3:.4g} kN, crippling Rn/Ω = {crippling / 1e3:.4g} kN; {governs} governs "
-                          f"(AISC 360-16 J10.2 and J10.3, Fy = {fy / 1e6:.4g} MPa)")
-                extra = {"method": METHOD, "element": item.what, "web_local_yielding": yielding, "web_crippling": crippling,
-                         "bearing": item.bearing, "yield_strength": fy, "governing_limit": governs}
-                best = CheckResult("web", utilization, float(force[c]), allowable, item.at, names[c], quantity="force", detail=detail,
-                                   extra=extra)
+            found = _web_result(design, item, web, force, fy)
+            if best is None or found.utilization > best.utilization:
+                best = found
     if best is None:
         return CheckResult("web", None, detail="no concentrated force along a web")
     if fy_text != "yield strength":
-        best = CheckResult(best.check, best.utilization, best.demand, best.allowable, best.at, best.combination, best.quantity,
-                           best.detail + "; " + fy_text, best.extra)
+        best = replace(best, detail=best.detail + "; " + fy_text)
     return best
+
+
+def _web_result(design: Design, item: Concentrated, web: Web, force: np.ndarray, fy: float) -> CheckResult:
+    """The web check of one concentrated force (its largest combination) on one web direction."""
+    end = min(item.at, design.member.length - item.at)
+    yield_end, crippling_end = end <= web.depth, end < web.depth / 2
+    yielding = web_yielding(web, fy, item.bearing, yield_end) / OMEGA_YIELDING
+    crippling = web_crippling(web, design.material.elastic_modulus, fy, item.bearing, crippling_end) / OMEGA_CRIPPLING
+    allowable = min(yielding, crippling)
+    c = int(np.argmax(force))
+    governs = "web local yielding" if yielding <= crippling else "web crippling"
+    where = "end formulas" if crippling_end else "end formula for yielding (within d of the end)" if yield_end else "interior formulas"
+    bearing = f"lb = {item.bearing * 1e3:.4g} mm" if item.bearing > 0 else "lb = 0 (knife edge)"
+    walls = "two side walls" if web.webs == 2 else "web"
+    detail = (f"{item.what}, {walls} tw = {web.tw * 1e3:.4g} mm, k = {web.k * 1e3:.4g} mm, {bearing}, {where}: "
+              f"yielding Rn/Ω = {yielding / 1e3:.4g} kN, crippling Rn/Ω = {crippling / 1e3:.4g} kN; {governs} governs "
+              f"(AISC 360-16 J10.2 and J10.3, Fy = {fy / 1e6:.4g} MPa)")
+    extra = {"method": METHOD, "element": item.what, "web_local_yielding": yielding, "web_crippling": crippling,
+             "bearing": item.bearing, "yield_strength": fy, "governing_limit": governs}
+    return CheckResult("web", float(force[c] / allowable), float(force[c]), allowable, item.at, design.solution.combination_names[c],
+                       quantity="force", detail=detail, extra=extra)
 
 
 def web_notes(design: Design) -> list[str]:
