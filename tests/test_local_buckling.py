@@ -161,7 +161,9 @@ def reduced(critical: float, plateau: float) -> float:
     psi) generally), the Johnson parabola sigma_J / Fy from lambda_e = max(1, plateau + 0.2) on, and
     between them the larger of Johnson and the straight line from 1 to Johnson's value at lambda_e
     (sizer's stated transition, docs/output.md)."""
-    johnson = lambda s: (s if s <= FY / 2 else FY * (1 - FY / (4 * s))) / FY
+    def johnson(s: float) -> float:
+        return (s if s <= FY / 2 else FY * (1 - FY / (4 * s))) / FY
+
     lam, end = math.sqrt(FY / critical), max(1.0, plateau + 0.2)
     if lam <= plateau:
         rho = 1.0

@@ -251,7 +251,9 @@ def test_stocky_web_keeps_the_full_shear_allowable(tmp_path: Path) -> None:
                                             (PLATEAU_OUTSTAND, "outstand")])
 def test_plateau_limits_and_continuity(plateau: float, name: str) -> None:
     assert plateau == pytest.approx(0.673 if name.startswith("internal") else 0.748, abs=5e-4)  # EN 1993-1-5 4.4(2)
-    sigma_at = lambda lam: FY / lam**2
+    def sigma_at(lam: float) -> float:
+        return FY / lam**2
+
     below, at, above = (float(reduction_factor(sigma_at(lam), FY, plateau)) for lam in (plateau - 1e-3, plateau, plateau + 1e-7))
     assert below == 1.0 and at == 1.0  # no reduction up to the limit
     assert above == pytest.approx(1.0, abs=1e-6)  # and no jump beyond it
@@ -276,7 +278,9 @@ def test_reduction_never_rises_with_slenderness_and_has_no_jump(lam: float, step
     """rho is non-increasing in lambda, never below the Johnson parabola, and Lipschitz (no jump):
     |rho(l + d) - rho(l)| <= 2 d (common practice: a reduction curve is continuous; the steepest part,
     the transition after the limit 1.0, falls 0.36 over 0.2)."""
-    rho = lambda l: float(reduction_factor(FY / l**2, FY, plateau))
+    def rho(slender: float) -> float:
+        return float(reduction_factor(FY / slender**2, FY, plateau))
+
     assert rho(lam + step) <= rho(lam) + 1e-12
     assert rho(lam) >= float(johnson(FY / lam**2, FY)) / FY - 1e-12
     assert abs(rho(lam + step) - rho(lam)) <= 2.0 * step + 1e-12
