@@ -316,4 +316,5 @@ def test_point_brace_force_and_stiffness(tmp_path: Path) -> None:
     assert brace.stiffness == pytest.approx(2.0 * 10 * 45e3 / (3.0 * h_o), rel=1e-6)
     document = outcome.to_json()
     assert document["restraints"][0]["required_force"] == pytest.approx(brace.force)
-    assert any("Required of the restraints" in note for note in outcome.notes)
+    assert any(note.startswith("Restraints must carry") and "AISC 360-16 Appendix 6" in note for note in outcome.notes)
+    assert any(note.startswith("restraint 1 at 3 m, sideways: force 3.11 kN") for note in outcome.notes)

@@ -131,19 +131,19 @@ def brace_demands(design: Design, actions: np.ndarray, xs: np.ndarray) -> list[B
 
 
 def brace_notes(demands: list[BraceDemand]) -> list[str]:
-    """One line for the assumptions: the rule and each restraint's requirement (SI)."""
+    """The rule, then one line per requirement (SI), for the assumptions."""
     if not demands:
         return []
-    parts = []
+    lines = [f"Restraints must carry, by {RULE}:"]
     for d in demands:
+        basis = f"M_r = {d.moment / 1e3:.4g} kN·m, P_r = {d.compression / 1e3:.4g} kN, h_o = {d.lever * 1e3:.4g} mm"
         if d.kind == "lateral point":
-            parts.append(f"{d.restraint}: force {d.force / 1e3:.3g} kN, stiffness {d.stiffness / 1e6:.3g} kN/mm "
-                         f"(M_r = {d.moment / 1e3:.4g} kN·m, P_r = {d.compression / 1e3:.4g} kN, h_o = {d.lever * 1e3:.4g} mm, "
-                         f"L_br = {d.braced_length:.4g} m, C_d = {d.cd:g}, combination {d.combination})")
+            lines.append(f"{d.restraint}, sideways: force {d.force / 1e3:.3g} kN, stiffness {d.stiffness / 1e6:.3g} kN/mm "
+                         f"({basis}, L_br = {d.braced_length:.4g} m, C_d = {d.cd:g}; combination {d.combination}).")
         elif d.kind == "lateral continuous":
-            parts.append(f"{d.restraint}: shear {d.force / 1e3:.3g} kN along it (M_r = {d.moment / 1e3:.4g} kN·m, "
-                         f"P_r = {d.compression / 1e3:.4g} kN, combination {d.combination}); stiffness not assessed")
+            lines.append(f"{d.restraint}, sideways: shear {d.force / 1e3:.3g} kN along it ({basis}, C_d = {d.cd:g}; "
+                         f"combination {d.combination}); stiffness not assessed.")
         else:
-            parts.append(f"{d.restraint}: twist moment {d.force / 1e3:.3g} kN·m (M_r = {d.moment / 1e3:.4g} kN·m, "
-                         f"combination {d.combination}); stiffness not assessed")
-    return [f"Required of the restraints, by {RULE}: " + "; ".join(parts) + "."]
+            lines.append(f"{d.restraint}, twist: moment {d.force / 1e3:.3g} kN·m (M_r = {d.moment / 1e3:.4g} kN·m; "
+                         f"combination {d.combination}); stiffness not assessed.")
+    return lines

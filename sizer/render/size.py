@@ -56,6 +56,7 @@ def size_json(result: SizingResult, notes: list[str]) -> dict[str, Any]:
         "utilization": chosen.utilization if chosen else None,
         "governing": chosen.governing if chosen else None,
         "checks": [check_entry(c) for c in chosen.report.checks] if chosen else [],
+        "restraints": [demand.to_json() for demand in chosen.report.restraints] if chosen else [],
         "candidates": [candidate_entry(c) for c in listed_candidates(result)],
     }
     if chosen is None and result.strongest is not None:
