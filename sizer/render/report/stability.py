@@ -90,7 +90,34 @@ def reduction_lines(design: Design, report: CheckReport, system: str) -> list[st
         lines.append(_lateral_line(design, report, checks["lateral-torsional"], system))
     if "local" in checks:
         lines.append(_local_line(design, checks["local"], system))
+    if "shear" in checks and "critical_shear_stress" in checks["shear"].extra:
+        lines.append(_web_shear_line(design, checks["shear"], system))
+    if "web" in checks:
+        lines.append(_web_line(design, checks["web"], system))
     return lines
+
+
+def _web_shear_line(design: Design, result: CheckResult, system: str) -> str:
+    """Web shear buckling: k_tau, tau_cr and the reduced shear allowable with its terms."""
+    fy, sf = design.material.yield_strength, design.member.checks.buckling_safety_factor
+    critical, k_tau = float(result.extra["critical_shear_stress"]), float(result.extra["k_tau"])
+    shear_yield = fy / math.sqrt(3.0) if fy else None
+    formula = _reduced(design.material.allowable.shear, critical, shear_yield, sf, system, "Fv_red",
+                       float(result.extra.get("plateau_slenderness", 0.0)))
+    return (f"Web shear buckling, combination {result.combination}: panel a = {_fmt(result.extra['panel_length'], 'length', system)}, "
+            f"k_τ = 5.34 + 4 (h/a)² or 4 + 5.34 (h/a)² = {k_tau:.4g}; τ_cr = k_τ π² E / (12 (1 - ν²)) (t / h)² = "
+            f"{_fmt(critical, 'stress', system)}; with the shear yield Fy / √3 in place of Fy, {formula} = "
+            f"{_fmt(result.allowable, 'stress', system)} against the peak shear stress {_fmt(result.demand, 'stress', system)}.")
+
+
+def _web_line(design: Design, result: CheckResult, system: str) -> str:
+    """The web under the governing concentrated force: the published method and its two limits."""
+    extra = result.extra
+    return (f"Web under a concentrated force, {extra['element']}, combination {result.combination}: {extra['method']}, "
+            f"Fy = {_fmt(extra['yield_strength'], 'stress', system)}, stiff bearing lb = {_fmt(extra['bearing'], 'length', system)}; "
+            f"allowable force min(web local yielding Rn / 1.50 = {_fmt(extra['web_local_yielding'], 'force', system)}, "
+            f"web crippling Rn / 2.00 = {_fmt(extra['web_crippling'], 'force', system)}) = {_fmt(result.allowable, 'force', system)} "
+            f"({extra['governing_limit']}) against {_fmt(result.demand, 'force', system)}.")
 
 
 def _buckling_line(design: Design, result: CheckResult, system: str) -> str:
