@@ -1,7 +1,7 @@
 """Webs and walls: concentrated forces on webs, web shear buckling, the plateau of the buckling
 reductions, and what restraints must carry. Sources beside each value:
 - k_tau = 5.34 + 4 (h/a)^2 for a/h >= 1, 4 + 5.34 (h/a)^2 for a/h < 1 (Timoshenko & Gere, Theory of
-  Elastic Stability, ch. 9; EN 1993-1-5 Annex A.3; from memory; REFERENCES.md);
+  Elastic Stability, ch. 9; EN 1993-1-5 Annex A.3; from memory; docs/references.md);
 - tau_cr = k_tau pi^2 E / (12 (1 - nu^2)) (t/h)^2 (same sources);
 - web local yielding and web crippling: AISC 360-16 (the American steel specification) J10.2 eqs.
   J10-2 and J10-3, J10.3 eqs. J10-4, J10-5a, J10-5b, with Omega = 1.50 and 2.00 (from memory);
@@ -9,7 +9,7 @@ reductions, and what restraints must carry. Sources beside each value:
   uniform compression) and 0.748 for outstands; EN 1993-1-1 6.3.2.2 lambda_LT,0 = 0.2 (from memory);
 - brace force 2 % of the flange force M / h_o (common practice; AISC 360-16 Appendix 6 eq. A-6-7,
   from memory); stiffness 2.00 x 10 M C_d / (L_br h_o) (eq. A-6-8, from memory);
-- IPE 300 dimensions EN 10365 (REFERENCES.md).
+- IPE 300 dimensions EN 10365 (docs/references.md).
 """
 
 from __future__ import annotations

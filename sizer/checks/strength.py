@@ -12,6 +12,7 @@ import numpy as np
 from sizer.checks.field import FieldPeaks
 from sizer.checks.reduction import PLATEAU_SHEAR
 from sizer.checks.results import ZERO_ACTION, CheckResult
+from sizer.checks.web import shear_panels, shear_slenderness
 from sizer.design import Design
 from sizer.errors import InputError
 from sizer.model import Member
@@ -102,8 +103,6 @@ def shear_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], desi
     """Peak shear stress from Vy, Vz and T together (full field) against the shear allowable, reduced
     where a web panel carrying that row's shear buckles first (sizer.checks.web: the lower of the
     panels along y and z that carry shear in the row)."""
-    from sizer.checks.web import shear_panels, shear_slenderness
-
     if stress.shear_upper.max() <= 0.0:
         return CheckResult("shear", None, detail="no shear force or torque")
     allowable = needs_allowable(design.member, design.material, "shear", "shear")
