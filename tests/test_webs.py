@@ -177,6 +177,23 @@ def test_plate_girder_with_a_thin_web_fails_under_a_large_point_load(tmp_path: P
     assert web.utilization >= 1000e3 / (FY * 0.006 * 5 * 0.025 / 1.5) - 1e-9
 
 
+def test_load_over_an_interior_support_checks_web_compression_buckling(tmp_path: Path) -> None:
+    """Two 3 m spans of PG 982x6 (d 982, tw 6, tf 20 mm, no fillet: k = 20 mm, h = d - 2k = 942 mm),
+    a 300 kN column load directly over the middle support, which is stiffened-free: AISC 360-16
+    J10.5 (eq. J10-8, from memory): Rn = 24 tw^3 sqrt(E Fy) / h = 24 x 216 x sqrt(200000 x 250) / 942 N
+    = 38.9 kN; / 1.67 = 23.3 kN, against the smaller of the load (300 kN) and the reaction (> 300 kN)."""
+    supports = ('[[supports]]\nat = "0 m"\ntype = "pin"\n[[supports]]\nat = "3 m"\ntype = "roller"\n'
+                '[[supports]]\nat = "6 m"\ntype = "roller"\n')
+    outcome = run(tmp_path, beam("PG 982x6", 6.0, '[[loads]]\ntype = "point"\nat = "3 m"\nfy = "-300 kN"\n'
+                                 '[[loads]]\ntype = "line"\nwy = "-5 kN/m"\n', supports=supports))
+    web = checks_of(outcome)["web"]
+    expected = 24 * 0.006**3 * math.sqrt(E * FY) / 0.942 / 1.67
+    assert expected == pytest.approx(23.3e3, rel=2e-3)
+    assert web.extra["governing_limit"] == "web compression buckling"
+    assert web.allowable == pytest.approx(expected, rel=1e-9) and web.demand == pytest.approx(300e3, rel=1e-9)
+    assert not web.passes
+
+
 def test_tube_has_two_webs_and_other_shapes_are_not_made(tmp_path: Path) -> None:
     """RHS 200x100x5, outer radius 10 mm: k = 10 mm, two side walls: end yielding 2 x Fy t 2.5 k / 1.5."""
     web = checks_of(run(tmp_path, beam("RHS 200x100x5", 3.0, '[[loads]]\ntype = "line"\nwy = "-10 kN/m"\n')))["web"]

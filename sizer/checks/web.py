@@ -12,6 +12,9 @@ strength form Rn / Omega:
       Rn = 0.80 tw^2 [1 + 3 (lb/d) (tw/tf)^1.5] sqrt(E Fy tf / tw)            (eq. J10-4), at least d/2 from the end,
       Rn = 0.40 tw^2 [1 + 3 (lb/d) (tw/tf)^1.5] sqrt(E Fy tf / tw)            (eq. J10-5a), within d/2, lb/d <= 0.2,
       Rn = 0.40 tw^2 [1 + (4 lb/d - 0.2) (tw/tf)^1.5] sqrt(E Fy tf / tw)      (eq. J10-5b), within d/2, lb/d > 0.2;
+- web compression buckling where a point load sits directly over a support (J10.5, Omega = 1.67),
+  under the smaller of the two opposed forces (the web strip between them carries it):
+      Rn = 24 tw^3 sqrt(E Fy) / h      (eq. J10-8), h = d - 2k; half of it within d/2 of the end;
 with d the section's depth, tw and tf the web and flange thicknesses, k the distance from the flange's
 outer face to the web's toe of fillet (tf + root_radius; a tube wall: max(outer_radius, t)), lb the
 stiff bearing length (`bearing`, default 0: a knife edge). A tube has two webs (its side walls, each
@@ -45,12 +48,15 @@ from sizer.design import Design
 from sizer.errors import InputError
 from sizer.model import Member, PointLoad
 
-METHOD = "AISC 360-16 J10.2 (web local yielding: bearing at the toe of the fillet) and J10.3 (web crippling)"
+METHOD = ("AISC 360-16 J10.2 (web local yielding: bearing at the toe of the fillet), J10.3 (web crippling) and J10.5 "
+          "(web compression buckling under a load directly over a support)")
 OMEGA_YIELDING = 1.50  # AISC 360-16 J10.2, allowable strength design (from memory)
 OMEGA_CRIPPLING = 2.00  # AISC 360-16 J10.3, allowable strength design (from memory)
+OMEGA_COMPRESSION = 1.67  # AISC 360-16 J10.5, allowable strength design (from memory)
 WEB_SHAPES = ("i_beam", "channel", "rectangular_tube")
 ASSUMPTIONS = (f"Webs under concentrated forces: {METHOD}, allowable force Rn / Omega with Omega = {OMEGA_YIELDING:.2f} "
-               f"(yielding) and {OMEGA_CRIPPLING:.2f} (crippling), Qf = 1, at every support and point load; end formulas within "
+               f"(yielding), {OMEGA_CRIPPLING:.2f} (crippling) and {OMEGA_COMPRESSION:.2f} (compression buckling under a load over a support), "
+               "Qf = 1, at every support and point load; end formulas within "
                "d (yielding) or d/2 (crippling) of a member end; every force taken as pushing on the web; a tube's two "
                "side walls each as a web (tf = tw = t); forces across an I's or channel's web (along its flanges) not checked.")
 
@@ -106,6 +112,12 @@ def web_crippling(web: Web, E: float, fy: float, bearing: float, near_end: bool)
     else:
         factor = 0.40 * (1 + (4 * ratio - 0.2) * thin)
     return web.webs * factor * web.tw**2 * root
+
+
+def web_compression_buckling(web: Web, E: float, fy: float, near_end: bool) -> float:
+    """Rn of web compression buckling under a pair of opposed forces, N (AISC 360-16 eq. J10-8, Qf = 1):
+    24 tw^3 sqrt(E Fy) / h with h = d - 2k, half within d/2 of the member's end; all the section's webs."""
+    return web.webs * 24.0 * web.tw**3 * math.sqrt(E * fy) / (web.depth - 2 * web.k) * (0.5 if near_end else 1.0)
 
 
 # ----------------------------------------------------------------------------------------------
@@ -188,6 +200,17 @@ def web_check(design: Design) -> CheckResult:
             found = _web_result(design, item, web, force, fy)
             if best is None or found.utilization > best.utilization:
                 best = found
+    for load, support in opposed_pairs(checked, design.member.length):
+        for web in webs:
+            pushed, held = load.forces[:, web.axis], support.forces[:, web.axis]
+            force = np.where(pushed * held < 0, np.minimum(np.abs(pushed), np.abs(held)), 0.0)
+            if force.max() <= ZERO_ACTION:
+                continue
+            if fy is None:
+                fy, fy_text = web_yield_strength(design)
+            found = _pair_result(design, load, support, web, force, fy)
+            if best is None or found.utilization > best.utilization:
+                best = found
     if best is None:
         return CheckResult("web", None, detail="no concentrated force along a web")
     if fy_text != "yield strength":
@@ -213,6 +236,29 @@ def _web_result(design: Design, item: Concentrated, web: Web, force: np.ndarray,
     extra = {"method": METHOD, "element": item.what, "web_local_yielding": yielding, "web_crippling": crippling,
              "bearing": item.bearing, "yield_strength": fy, "governing_limit": governs}
     return CheckResult("web", float(force[c] / allowable), float(force[c]), allowable, item.at, design.solution.combination_names[c],
+                       quantity="force", detail=detail, extra=extra)
+
+
+def opposed_pairs(items: list[Concentrated], length: float) -> list[tuple[Concentrated, Concentrated]]:
+    """(point loads, support) at one position: a force on one flange and a reaction on the other."""
+    tol = 1e-9 * length
+    supports = [item for item in items if item.what.startswith("support")]
+    return [(load, support) for load in items if not load.what.startswith("support")
+            for support in supports if abs(load.at - support.at) <= tol]
+
+
+def _pair_result(design: Design, load: Concentrated, support: Concentrated, web: Web, force: np.ndarray, fy: float) -> CheckResult:
+    """Web compression buckling under a load directly over a support (the smaller of the two opposed
+    forces, in the combination where it is largest)."""
+    end = min(load.at, design.member.length - load.at)
+    allowable = web_compression_buckling(web, design.material.elastic_modulus, fy, end < web.depth / 2) / OMEGA_COMPRESSION
+    c = int(np.argmax(force))
+    detail = (f"{load.what} over {support.what}: web compression buckling (AISC 360-16 J10.5) under the smaller of the two "
+              f"opposed forces, h = d - 2k = {(web.depth - 2 * web.k) * 1e3:.4g} mm, Rn/Ω = {allowable / 1e3:.4g} kN"
+              + (" (half: within d/2 of the end)" if end < web.depth / 2 else "") + f", Fy = {fy / 1e6:.4g} MPa")
+    extra = {"method": METHOD, "element": f"{load.what} over {support.what}", "web_compression_buckling": allowable,
+             "bearing": min(load.bearing, support.bearing), "yield_strength": fy, "governing_limit": "web compression buckling"}
+    return CheckResult("web", float(force[c] / allowable), float(force[c]), allowable, load.at, design.solution.combination_names[c],
                        quantity="force", detail=detail, extra=extra)
 
 

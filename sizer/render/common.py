@@ -13,10 +13,10 @@ CAUTIONS: tuple[str, ...] = (
     "Stability (column, lateral-torsional and local buckling) is checked from elastic critical values "
     "that sizer computes, divided by the safety factor stated in the assumptions; not by a design "
     "code's buckling curves.",
-    "Checked under concentrated loads: web bearing (local yielding) and web crippling of I, channel and "
-    "tube webs at supports and point loads (AISC 360-16 J10.2 and J10.3), and web shear buckling between "
-    "supports or stiffeners. Not checked by sizer: connections, the stiffeners themselves, web buckling "
-    "under opposed forces at one point, concentrated loads on other shapes, fatigue, fire and dynamic effects.",
+    "Checked under concentrated loads: web bearing (local yielding), web crippling and, for a load over a "
+    "support, web compression buckling of I, channel and tube webs (AISC 360-16 J10.2, J10.3, J10.5), and web "
+    "shear buckling between supports or stiffeners. Not checked by sizer: connections, the stiffeners themselves, "
+    "concentrated loads on other shapes or across a web, fatigue, fire and dynamic effects.",
     "A qualified engineer must check these results against the governing local code before "
     "anything is built.",
 )

@@ -113,6 +113,11 @@ def _web_shear_line(design: Design, result: CheckResult, system: str) -> str:
 def _web_line(design: Design, result: CheckResult, system: str) -> str:
     """The web under the governing concentrated force: the published method and its two limits."""
     extra = result.extra
+    if "web_compression_buckling" in extra:
+        return (f"Web under a load directly over a support, {extra['element']}, combination {result.combination}: web compression "
+                f"buckling (AISC 360-16 J10.5), Rn / 1.67 = {_fmt(result.allowable, 'force', system)} with "
+                f"Fy = {_fmt(extra['yield_strength'], 'stress', system)}, against the smaller of the two opposed forces "
+                f"{_fmt(result.demand, 'force', system)}.")
     return (f"Web under a concentrated force, {extra['element']}, combination {result.combination}: {extra['method']}, "
             f"Fy = {_fmt(extra['yield_strength'], 'stress', system)}, stiff bearing lb = {_fmt(extra['bearing'], 'length', system)}; "
             f"allowable force min(web local yielding Rn / 1.50 = {_fmt(extra['web_local_yielding'], 'force', system)}, "
