@@ -639,6 +639,12 @@ at = "1.2 m"
 fy = "-4 kN"
 
 [[loads]]
+type = "point"
+case = "imposed"
+at = "2.4 m"
+fy = "-3 kN"
+
+[[loads]]
 type = "line"
 case = "dead"
 wy = "-0.5 kN/m"
