@@ -335,3 +335,14 @@ def test_point_brace_force_and_stiffness(tmp_path: Path) -> None:
     assert document["restraints"][0]["required_force"] == pytest.approx(brace.force)
     assert any(note.startswith("Restraints must carry") and "AISC 360-16 Appendix 6" in note for note in outcome.notes)
     assert any(note.startswith("restraint 1 at 3 m, sideways: force 3.11 kN") for note in outcome.notes)
+
+
+def test_cautions_say_what_is_checked_and_what_is_not(tmp_path: Path) -> None:
+    """Every output carries the cautions (common practice for a design aid): now that webs are
+    checked they say so, and they still name what is not checked."""
+    document = run(tmp_path, beam("IPE 300", 6.0, '[[loads]]\ntype = "line"\nwy = "-10 kN/m"\n')).to_json()
+    text = " ".join(document["cautions"])
+    for checked in ("web crippling", "web compression buckling", "web shear buckling", "J10.2"):
+        assert checked in text.split("Not checked by sizer")[0]
+    for left_out in ("connections", "fatigue", "fire", "dynamic effects"):
+        assert left_out in text.split("Not checked by sizer")[1]
