@@ -17,6 +17,8 @@ SUPPORT_TYPES: dict[str, frozenset[str]] = {
     "roller": frozenset({"uy", "uz", "rx"}),
 }
 HEIGHT_FACES: tuple[str, ...] = ("top", "centre", "bottom")
+ACROSS_NAMES: tuple[str, ...] = ("shear-centre", "centroid")
+DEFAULT_ACROSS = "centroid"
 WARPING_CHOICES: tuple[str, ...] = ("free", "held")
 RESTRAINT_HOLDS: tuple[str, ...] = ("lateral", "twist")
 DEFAULT_CASE = "load"
@@ -59,6 +61,13 @@ class Support:
     label: str = ""  # e.g. "pin", "roller", "fixed", "custom"
     warping: str | None = None  # for stability: "free" or "held"; None: held by fixed supports, free otherwise
 
+    @property
+    def holds_warping(self) -> bool:
+        """True when the support holds warping: as given, else when it holds rx, ry and rz (built in)."""
+        if self.warping is not None:
+            return self.warping == "held"
+        return {"rx", "ry", "rz"} <= set(self.restrain)
+
 
 @dataclass(frozen=True)
 class Hinge:
@@ -79,6 +88,7 @@ class PointLoad:
     moment: tuple[float, float, float] = (0.0, 0.0, 0.0)
     height: str | float | None = None  # where a transverse force acts on the section (see Restraint); None: default
     pattern: bool = False  # pattern loading: the span it is on is loaded in some arrangements only (analysis.patterns)
+    across: str | float = DEFAULT_ACROSS  # where across the section the force acts: "shear-centre", "centroid" or z from the shear centre (m)
 
 
 @dataclass(frozen=True)
@@ -105,6 +115,7 @@ class LineLoad:
     height: str | float | None = None  # where the transverse load acts on the section (see Restraint); None: default
     pattern: bool = False  # pattern loading: each span it covers is loaded in some arrangements only (analysis.patterns)
     area: Pressure | None = None
+    across: str | float = DEFAULT_ACROSS  # where across the section the load acts: "shear-centre", "centroid" or z from the shear centre (m)
 
 
 Load = PointLoad | LineLoad
