@@ -130,6 +130,8 @@ MIXED_SHAPES: Entries = {
     "PIPE 89x5": ("round_tube", {"diameter": "89 mm", "thickness": "5 mm"}, "pipe"),
     "I 100x50": ("i_beam", {"depth": "100 mm", "width": "50 mm", "flange_thickness": "6 mm", "web_thickness": "4 mm", "root_radius": "6 mm"}, "i"),
     "C 100x50": ("channel", {"depth": "100 mm", "width": "50 mm", "flange_thickness": "7 mm", "web_thickness": "5 mm", "root_radius": "7 mm"}, "channel"),
+    "C 140x60": ("channel", {"depth": "140 mm", "width": "60 mm", "flange_thickness": "8 mm", "web_thickness": "6 mm", "root_radius": "8 mm"}, "channel"),
+    "L 70x70x7": ("angle", {"depth": "70 mm", "width": "70 mm", "thickness": "7 mm", "root_radius": "7 mm"}, "angle"),
 }
 
 STOCKS: dict[str, Entries] = {
@@ -602,6 +604,58 @@ height = "top"
 
 [combinations]''')
 
+ECCENTRIC_LINTEL = """
+[member]
+length = "2.4 m"
+material = "steel"
+
+[[supports]]
+at = "0 m"
+type = "pin"
+
+[[supports]]
+at = "2.4 m"
+type = "roller"
+
+[[loads]]
+type = "area"
+case = "imposed"
+py = "-3 kPa"
+width = "0.6 m"
+
+[[loads]]
+type = "point"
+case = "imposed"
+at = "1 m"
+fy = "-0.6 kN"
+across = "-5 mm"
+
+[combinations]
+"dead + imposed" = { dead = 1.0, imposed = 1.0 }
+"""
+
+ANGLE_LINTEL = """
+[member]
+length = "1.8 m"
+material = "steel"
+
+[[supports]]
+at = "0 m"
+type = "fixed"
+
+[[supports]]
+at = "1.8 m"
+type = "pin"
+
+[[loads]]
+type = "line"
+case = "imposed"
+wy = "-1.5 kN/m"
+
+[combinations]
+"dead + imposed" = { dead = 1.0, imposed = 1.0 }
+"""
+
 AGREEMENT_MEMBERS = {
     "unbraced beam": UNBRACED_BEAM,
     "braced at thirds": BRACED_AT_THIRDS,
@@ -609,6 +663,8 @@ AGREEMENT_MEMBERS = {
     "beam-column, minor": BEAM_COLUMN.format(orientation="minor"),
     "post with torque": POST,
     "springs, hinge, overhang": SPRUNG_OVERHANG,
+    "eccentric channel lintel": ECCENTRIC_LINTEL,
+    "angle lintel": ANGLE_LINTEL,
 }
 
 

@@ -42,12 +42,13 @@ def may_twist(member: Member, shape: str) -> bool:
 
 
 def check_across(design: Design, points: np.ndarray) -> None:
-    """InputError for a load placed across the section outside the section's extent along member z;
-    points (p, 2): the section's points (y, z) from the centroid in its own axes."""
+    """InputError for a load placed across the section outside the section's extent along member z
+    (the shear centre itself included: a bracket may carry a load there); points (p, 2): the
+    section's points (y, z) from the centroid in its own axes."""
     ys, zs = design.props.shear_centre
     minor = design.member.orientation == "minor"
     sc_z, along = (ys, points[:, 0]) if minor else (zs, points[:, 1])
-    extent = (float(along.min()), float(along.max())) if len(along) else (sc_z, sc_z)
+    extent = (min(float(along.min()), sc_z), max(float(along.max()), sc_z)) if len(along) else (sc_z, sc_z)
     for index, load in enumerate(design.member.given_loads, start=1):
         if isinstance(load.across, float):
             z = sc_z + load.across

@@ -119,7 +119,7 @@ class Search:
             self.stability_bounds(self.ahead(candidate))
             if candidate.certainly_fails:
                 return True
-        prove_lower_bounds(candidate, self.found, self.material)
+        prove_lower_bounds(candidate, self.found, self.material, self.member)
         if candidate.certainly_fails:
             return True
         if "local" not in candidate.bounds:
