@@ -106,6 +106,23 @@ def test_torque_statics_and_warping_free_ends(ratio: float, where: float, kind: 
         assert np.abs(ends[:, 2]).max() <= 1e-8 * total * max(A, length)
 
 
+def test_across_torques_as_explicit_loads() -> None:
+    """A load at the centroid equals the same load through the shear centre plus its torque F x e
+    given as a torque load (statics, common practice)."""
+    from sizer.analysis.torsion import across_torque_loads
+
+    e = (0.0, -0.05)  # the centroid 50 mm from the shear centre along -z
+    placed = [PointLoad("load", 1.0, force=(0.0, -4e3, 0.0)), LineLoad("load", 0.5, 2.5, (0, -2e3, 0, 0), (0, -1e3, 0, 0))]
+    explicit = [PointLoad("load", 1.0, force=(0.0, -4e3, 0.0), across="shear-centre"),
+                LineLoad("load", 0.5, 2.5, (0, -2e3, 0, 0), (0, -1e3, 0, 0), across="shear-centre")] + across_torque_loads(placed, e)
+    assert [load.moment[0] if isinstance(load, PointLoad) else load.q_start[3] for load in explicit[2:]] == pytest.approx([-200.0, -100.0])
+    member = _member(3.0, "fixed", placed)
+    xs = np.linspace(0, 3.0, 13)
+    first = solve_torsion(member, torque_columns(member, [placed], e), GJ, EIW, 1e-9)
+    second = solve_torsion(member, torque_columns(member, [explicit], e), GJ, EIW, 1e-9)
+    assert _at(first, xs) == pytest.approx(_at(second, xs), rel=1e-12, abs=1e-9)
+
+
 def test_no_warping_constant_is_uniform_torsion() -> None:
     """Iw = 0 (closed tubes, solid sections): no bimoment, and the torque splits between two twist
     holds as G J / length (statically indeterminate bar; common practice)."""

@@ -67,6 +67,26 @@ def load_torque(force_y: float, force_z: float, at: tuple[float, float]) -> floa
     return at[0] * force_z - at[1] * force_y
 
 
+def across_torque_loads(loads: Sequence[Load], centroid: tuple[float, float]) -> list[Load]:
+    """The torques (as `moment` point loads and `mx` line loads, same cases and places) that the
+    transverse forces among `loads` exert about the shear centre from where across the section they
+    act; `centroid`: (dy, dz) of the centroid from the shear centre (m, member axes). Adding these to
+    the member's loads gives a member whose torques are all explicit (for solvers that read mx only)."""
+    made: list[Load] = []
+    for load in loads:
+        if isinstance(load, PointLoad):
+            torque = load_torque(load.force[1], load.force[2], lever(load, centroid))
+            if torque:
+                made.append(PointLoad(load.case, load.at, moment=(torque, 0.0, 0.0), pattern=load.pattern, across="shear-centre"))
+        elif isinstance(load, LineLoad):
+            arm = lever(load, centroid)
+            first, last = (load_torque(q[1], q[2], arm) for q in (load.q_start, load.q_end))
+            if first or last:
+                made.append(LineLoad(load.case, load.start, load.end, (0.0, 0.0, 0.0, first), (0.0, 0.0, 0.0, last), pattern=load.pattern,
+                                     across="shear-centre"))
+    return made
+
+
 def torque_columns(member: Member, load_sets: Sequence[Sequence[Load]], centroid: tuple[float, float]) -> TorqueLoads:
     """The torques of each load set (one column each): given torques (mx) plus the torque of every
     transverse force about the shear centre from where across the section it acts."""

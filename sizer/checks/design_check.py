@@ -17,7 +17,7 @@ from sizer.checks.local import local_check
 from sizer.checks.results import CheckReport
 from sizer.checks.stability import StabilityReport, stability_report
 from sizer.checks.stations import check_stations, member_actions
-from sizer.checks.torsion import check_across, torsion_actions, torsion_note
+from sizer.checks.torsion import check_across, torsion_actions, torsion_note, torsion_summary
 from sizer.checks.strength import (axial_check, bending_check, compression_allowables, equivalent_check, interaction_check, needs_allowable,
                                    shear_check)
 from sizer.design import Design
@@ -57,7 +57,7 @@ def check_design(design: Design, unit_field: Any, n_even: int = 200, stability: 
     nodes = np.asarray(unit_field.sigma).shape[1]
     notes = check_notes(design, report, given, len(xs), len(names), nodes)
     notes.insert(1, torsion_note(design))
-    return CheckReport(design.spec.name, checks, notes, len(xs), nodes, stability=report)
+    return CheckReport(design.spec.name, checks, notes, len(xs), nodes, stability=report, torsion=torsion_summary(design, torsion, xs))
 
 
 def with_warping_compression(actions: np.ndarray, warping: np.ndarray, unit_field: Any, area: float) -> np.ndarray:

@@ -47,6 +47,7 @@ class CheckReport:
     stations_checked: int = 0
     nodes: int = 0
     stability: Any = None  # sizer.checks.stability.StabilityReport: load factors and buckled shapes
+    torsion: Any = None  # sizer.checks.torsion.TorsionSummary: peaks of T, Tw, B; None when nothing twists the member
 
     @property
     def made(self) -> list[CheckResult]:

@@ -73,6 +73,41 @@ class TorsionActions:
         return np.stack([self.bimoment, self.warping_torque], axis=-1)
 
 
+@dataclass(frozen=True)
+class TorsionPeak:
+    """The largest |value| of one torsion quantity over the stations and combinations."""
+
+    name: str  # "torque", "saint_venant_torque", "warping_torque", "bimoment"
+    value: float  # signed, N*m or N*m^2
+    at: float  # m
+    combination: str
+
+
+@dataclass(frozen=True)
+class TorsionSummary:
+    """Torsion of the checked member: its torsion parameter a = sqrt(E Iw / G J) (m; 0 for uniform
+    torsion), where across the section its loads act, and the peaks of T, T - Tw, Tw and B."""
+
+    parameter: float
+    centroid_offset: tuple[float, float]  # (dy, dz) of the centroid from the shear centre, member axes, m
+    peaks: tuple[TorsionPeak, ...]
+
+
+def torsion_summary(design: Design, torsion: TorsionActions, xs: np.ndarray) -> TorsionSummary | None:
+    """The peaks of the torsion actions (None when nothing twists the member)."""
+    quantities = {"torque": torsion.torque, "saint_venant_torque": torsion.torque - torsion.warping_torque,
+                  "warping_torque": torsion.warping_torque, "bimoment": torsion.bimoment}
+    if not np.any(torsion.torque) and not np.any(torsion.bimoment):
+        return None
+    names = design.solution.combination_names
+    peaks = []
+    for name, values in quantities.items():
+        c, s = np.unravel_index(int(np.argmax(np.abs(values))), values.shape)
+        peaks.append(TorsionPeak(name, float(values[c, s]), float(xs[s]), names[c]))
+    eiw = design.material.elastic_modulus * design.props.Iw
+    return TorsionSummary(float(np.sqrt(eiw / design.stiffness.GJ)), member_axes_offset(design), tuple(peaks))
+
+
 def torsion_actions(design: Design, xs: np.ndarray, sides: np.ndarray) -> TorsionActions:
     """T, Tw and B of every combination at stations xs (m) on `sides`, from the non-uniform torsion
     solve on the design's section with every load's torque about the shear centre."""
@@ -100,7 +135,8 @@ def torsion_note(design: Design) -> str:
                      if not (hasattr(load, "moment") and not any(load.force))})
     offset = f"centroid {1e3 * dz:+.3g} mm along z" + (f", {1e3 * dy:+.3g} mm along y" if dy else "") + " from the shear centre"
     text = (f"Torsion: loads act across the section at {', '.join(places) or 'the centroid'} ({offset}); self-weight at the centroid; "
-            "each transverse load's torque about the shear centre is added to the given torques. ")
+            "each transverse load's torque about the shear centre is added to the given torques; the elastic critical values are "
+            "not changed by these torques (no geometric stiffness from a first-order torque in the linear buckling solve). ")
     if props.Iw > 0:
         a = np.sqrt(design.material.elastic_modulus * props.Iw / design.stiffness.GJ)
         return text + (f"Non-uniform torsion (G J and E Iw, torsion parameter a = {a:.3g} m): warping held at fixed supports or as "

@@ -34,6 +34,7 @@ def check_json(design: Design, report: CheckReport, notes: list[str]) -> dict[st
         "governing": governing.check if governing else None,
         "checks": [check_entry(c) for c in report.checks],
         "reactions": reactions_json(design),
+        "torsion": torsion_json(report.torsion),
         "mass_per_length": design.mass_per_length,
         "units": "SI base units (m, N, N*m, Pa, kg/m)",
         "assumptions": notes,
@@ -54,6 +55,14 @@ def check_entry(result: CheckResult) -> dict[str, Any]:
         "detail": result.detail,
         **result.extra,
     }
+
+
+def torsion_json(summary: Any) -> dict[str, Any] | None:
+    """The torsion peaks (SI: N*m, N*m^2, m), or None when nothing twists the member."""
+    if summary is None:
+        return None
+    return {"torsion_parameter": summary.parameter, "centroid_from_shear_centre": list(summary.centroid_offset),
+            "peaks": {peak.name: {"value": peak.value, "at": peak.at, "combination": peak.combination} for peak in summary.peaks}}
 
 
 def reactions_json(design: Design) -> dict[str, list[dict[str, float]]]:
@@ -125,6 +134,26 @@ def checks_ledger(report: CheckReport, design: Design, system: str) -> Ledger:
     return ledger
 
 
+TORSION_ROWS = {"torque": ("torque T", "moment"), "saint_venant_torque": ("Saint-Venant torque T - Tw", "moment"),
+                "warping_torque": ("warping torque Tw", "moment"), "bimoment": ("bimoment B", "bimoment")}
+
+
+def torsion_ledger(report: CheckReport, system: str) -> Ledger | None:
+    """The largest torque, its Saint-Venant and warping parts and the bimoment, with where each is."""
+    from rich.markup import escape
+
+    summary = report.torsion
+    if summary is None:
+        return None
+    a = units.fmt(summary.parameter, "length", system) if summary.parameter else "0 (uniform torsion)"
+    ledger = Ledger(f"Torsion · largest values; torsion parameter a = {a}", [
+        Column("action"), Column("value", right=True), Column("at", right=True), Column("combination", fold=True)])
+    for peak in summary.peaks:
+        label, kind = TORSION_ROWS[peak.name]
+        ledger.add_row(label, units.fmt(peak.value, kind, system), units.fmt(peak.at, "length", system), escape(peak.combination))
+    return ledger
+
+
 def reactions_ledger(design: Design, system: str) -> Ledger:
     """The reactions of every combination: a group line per combination, a row per support; the
     unit of each column in its header. Beyond REACTIONS_LISTED combinations (pattern arrangements),
@@ -193,8 +222,12 @@ def check_renderables(design: Design, report: CheckReport, notes: list[str], sys
 
     title = escape(design.member.title or design.member.source)
     return [Heading(f"sizer check · {title}"), *design_summary(design, system), "", verdict_block(report, system), "",
-            checks_ledger(report, design, system), "", reactions_ledger(design, system), "",
+            checks_ledger(report, design, system), "", *_optional(torsion_ledger(report, system)), reactions_ledger(design, system), "",
             notes_panel(notes, system=system), cautions_panel()]
+
+
+def _optional(block: Any) -> list[Any]:
+    return [] if block is None else [block, ""]
 
 
 def print_check(console: Any, design: Design, report: CheckReport, notes: list[str], system: str) -> None:
