@@ -38,6 +38,8 @@ class Station:
     side: str
     check: str
     actions: np.ndarray
+    bimoment: float = 0.0  # B, N*m^2
+    warping_torque: float = 0.0  # Tw, N*m (T in actions is the total torque)
 
 
 def hand_station(design: Design, report: CheckReport, checks: tuple[str, ...] = STRESS_CHECKS) -> Station:
@@ -50,9 +52,17 @@ def hand_station(design: Design, report: CheckReport, checks: tuple[str, ...] = 
     else:
         (combination, x), check = governing_cut(design, report), "largest bending moment"
     side = cut_side(design, report, combination, x)
+    from sizer.checks.torsion import torsion_actions
+
     member_actions = design.solution.actions(combination, [x], side)
+    torsion = torsion_actions(design, np.array([x]), np.array([side]))
+    row = design.solution.combination_names.index(combination)
+    member_actions[:, 3] = torsion.torque[row]
     actions = to_section_axes(member_actions, design.member.orientation)[0]
-    return Station(combination, x, side, check, np.where(np.abs(actions) < 1e-9, 0.0, actions))
+    scale = 1e-9 * max(1.0, abs(float(torsion.torque[row, 0])) * design.member.length)  # round-off of the twist solve
+    bimoment, warping_torque = (float(v[row, 0]) for v in (torsion.bimoment, torsion.warping_torque))
+    return Station(combination, x, side, check, np.where(np.abs(actions) < 1e-9, 0.0, actions),
+                   bimoment if abs(bimoment) > scale else 0.0, warping_torque if abs(warping_torque) > scale else 0.0)
 
 
 def neutral_axis_cut(design: Design, across: str) -> tuple[float, float]:
@@ -112,7 +122,9 @@ def by_hand_lines(design: Design, station: Station, unit_field: Any, system: str
     """(what, the formula with numbers, the full field and how it compares) for each stress."""
     props = design.props
     N, Vy, Vz, T, My, Mz = (float(v) for v in station.actions)
-    _, tau = unit_field.stresses(N=N, Vy=Vy, Vz=Vz, T=T, My=My, Mz=Mz)
+    B, Tw = station.bimoment, station.warping_torque
+    _, tau = unit_field.stresses(N=N, Vy=Vy, Vz=Vz, T=T - Tw, My=My, Mz=Mz)
+    tau = tau + Tw * unit_field.warping_tau
     bend_only, _ = unit_field.stresses(My=My, Mz=Mz)
     f, s = units.fmt, system
     rows = []
@@ -127,6 +139,14 @@ def by_hand_lines(design: Design, station: Station, unit_field: Any, system: str
         text += (f"; fby = |My| / Sy = {f(abs(My), 'moment', s)} / {f(min(props.Sy_plus, props.Sy_minus), 'modulus_section', s)} = "
                  f"{_stress(fby, s)}; fbz + fby = {_stress(fbz + fby, s)}")
     rows.append(("bending", text, f"peak {_stress(field_bending, s)}: {_pct(fbz + fby, field_bending)}"))
+    if B:
+        omega_max = float(unit_field.warping_peaks[0]) * props.Iw
+        warping = abs(B) * omega_max / props.Iw
+        with_warping = float(np.abs(bend_only + B * unit_field.warping_sigma).max(initial=0.0))
+        rows.append(("warping", f"σw = |B| ω_max / Iw = {f(abs(B), 'bimoment', s)} x {omega_max * 1e6:.4g} mm² / "
+                                f"{f(props.Iw, 'warping', s)} = {_stress(warping, s)}; at most fbz + fby + σw = {_stress(fbz + fby + warping, s)}",
+                     f"bending and warping together: peak {_stress(with_warping, s)} (ω and bending stress peak at different points, "
+                     "or with opposite signs)"))
     shear_parts, hand_shear = [], 0.0
     for name, V, inertia, across, label in (("Vy", Vy, props.Iz, "y", "Iz"), ("Vz", Vz, props.Iy, "z", "Iy")):
         if V == 0:
@@ -137,10 +157,11 @@ def by_hand_lines(design: Design, station: Station, unit_field: Any, system: str
         shear_parts.append(f"τ = |{name}| Q / ({label} t) = {f(abs(V), 'force', s)} x {f(Q, 'modulus_section', s)} / "
                            f"({f(inertia, 'inertia', s)} x {f(t, 'dimension', s)}) = {_stress(value, s)}")
     torsion = torsion_formula(design)
-    if T and torsion is not None:
-        value = abs(T) * torsion[1]
+    if T - Tw and torsion is not None:
+        value = abs(T - Tw) * torsion[1]
         hand_shear += value
-        shear_parts.append(f"{torsion[0]}: {f(abs(T), 'moment', s)} gives {_stress(value, s)}")
+        named = "the Saint-Venant torque T - Tw " if Tw else ""
+        shear_parts.append(f"{torsion[0]}: {named}{f(abs(T - Tw), 'moment', s)} gives {_stress(value, s)}")
     if shear_parts:
         field_shear = float(np.hypot(tau[:, 0], tau[:, 1]).max(initial=0.0))
         text = "; ".join(shear_parts) + (f"; sum {_stress(hand_shear, s)}" if len(shear_parts) > 1 else "")
