@@ -112,8 +112,12 @@ def torque_columns(member: Member, load_sets: Sequence[Sequence[Load]], centroid
                     rate = np.zeros(columns)
                     rate[column] = (last - first) / (load.end - load.start)
                     slope.append(rate)
-    shaped = lambda rows: np.array(rows, dtype=float).reshape(len(rows), columns)  # noqa: E731
-    return TorqueLoads(np.array(at, dtype=float), shaped(point), np.array(start, dtype=float), np.array(end, dtype=float), shaped(m0), shaped(slope))
+    return TorqueLoads(np.array(at, dtype=float), _rows(point, columns), np.array(start, dtype=float), np.array(end, dtype=float),
+                       _rows(m0, columns), _rows(slope, columns))
+
+
+def _rows(rows: list[np.ndarray], columns: int) -> np.ndarray:
+    return np.array(rows, dtype=float).reshape(len(rows), columns)
 
 
 def member_torque_columns(member: Member, case_names: Sequence[str], self_weight: bool, centroid: tuple[float, float]) -> TorqueLoads:
@@ -189,14 +193,6 @@ class TorsionSolution:
         self.nodes, self._elements, self._loads, self._d = nodes, elements, loads, freedoms
         self.a, self.gj, self.support_at, self.reactions, self._tol = a, gj, support_at, reactions, tol
 
-    def _element_load(self, e: int) -> tuple[np.ndarray, np.ndarray]:
-        """(C,) intensity at the element's start and slope of the line torques on element e."""
-        lo, hi = self.nodes[e], self.nodes[e + 1]
-        loads = self._loads
-        on = (loads.start <= lo + self._tol) & (loads.end >= hi - self._tol)
-        m0 = ((loads.m0 + loads.slope * (lo - loads.start)[:, None]) * on[:, None]).sum(axis=0)
-        return m0, (loads.slope * on[:, None]).sum(axis=0)
-
     def torque(self, xs: np.ndarray, right: np.ndarray) -> np.ndarray:
         """(C, n) total torque T (N*m) on the +x face at each x, by the method of sections."""
         loads, tol = self._loads, self._tol
@@ -221,7 +217,7 @@ class TorsionSolution:
             where = element == e
             lo, item = self.nodes[e], self._elements[e]
             s = np.clip(xs[where] - lo, 0.0, item.length)
-            m0, m1 = self._element_load(e)
+            m0, m1 = element_load(self._loads, self.nodes[e], self.nodes[e + 1], self._tol)
             ends = _particular(np.array([0.0, item.length]), m0, m1, self.gj)  # (4, C, 2)
             d_p = np.stack([ends[0, :, 0], ends[1, :, 0], ends[0, :, 1], ends[1, :, 1]])  # (4, C)
             coefficients = item.h_inverse @ (self._d[2 * e:2 * e + 4] - d_p)  # (4, C)
@@ -238,6 +234,14 @@ class TorsionSolution:
         return np.stack([self.torque(xs, right), tw, bimoment], axis=-1)
 
 
+def element_load(loads: TorqueLoads, lo: float, hi: float, tol: float) -> tuple[np.ndarray, np.ndarray]:
+    """(C,) intensity at lo and slope of the line torques on the element from lo to hi (m); nodes
+    lie at every end of a line torque, so each covers an element whole or not at all."""
+    on = (loads.start <= lo + tol) & (loads.end >= hi - tol)
+    m0 = ((loads.m0 + loads.slope * (lo - loads.start)[:, None]) * on[:, None]).sum(axis=0)
+    return m0, (loads.slope * on[:, None]).sum(axis=0)
+
+
 class TwistFree(ValueError):
     """Torques on a member whose supports leave the twist free."""
 
@@ -248,17 +252,15 @@ def solve_torsion(member: Member, loads: TorqueLoads, gj: float, eiw: float, tol
     a = float(np.sqrt(eiw / gj)) if eiw > 0 else 0.0
     support_at = np.array([s.at for s in member.supports], dtype=float)
     marks = np.concatenate([[0.0, member.length], support_at, loads.at, loads.start, loads.end])
-    nodes = np.unique(np.round(np.sort(marks) / tol) * tol) if tol > 0 else np.unique(marks)
-    nodes = np.unique(np.clip(nodes, 0.0, member.length))
+    nodes = np.unique(np.clip(np.round(marks / tol) * tol if tol > 0 else marks, 0.0, member.length))
     n, columns = len(nodes), loads.columns
     node_of = lambda x: int(np.argmin(np.abs(nodes - x)))  # noqa: E731
     stiffness, force = np.zeros((2 * n, 2 * n)), np.zeros((2 * n, columns))
     elements = [_element(float(hi - lo), a, gj) for lo, hi in zip(nodes[:-1], nodes[1:])]
-    solution = TorsionSolution(nodes, elements, loads, np.zeros((2 * n, columns)), a, gj, support_at, np.zeros((len(support_at), columns)), tol)
     for e, item in enumerate(elements):
         block = slice(2 * e, 2 * e + 4)
         stiffness[block, block] += item.stiffness
-        force[block] += _equivalent_loads(item, *solution._element_load(e), a, gj)
+        force[block] += _equivalent_loads(item, *element_load(loads, nodes[e], nodes[e + 1], tol), a, gj)
     for x, values in zip(loads.at, loads.point):
         force[2 * node_of(x)] += values
     held, springs = np.zeros(2 * n, bool), np.zeros(2 * n)
@@ -272,7 +274,7 @@ def solve_torsion(member: Member, loads: TorqueLoads, gj: float, eiw: float, tol
     if not (held[0::2].any() or springs.any()):
         if loads.any:
             raise TwistFree("torques act on the member and no support holds its twist")
-        return solution
+        return TorsionSolution(nodes, elements, loads, np.zeros((2 * n, columns)), a, gj, support_at, np.zeros((len(support_at), columns)), tol)
     free = ~held
     matrix = stiffness[np.ix_(free, free)] + np.diag(springs[free])
     scale = np.sqrt(np.diag(matrix))

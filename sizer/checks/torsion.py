@@ -114,6 +114,9 @@ def torsion_actions(design: Design, xs: np.ndarray, sides: np.ndarray) -> Torsio
     solution, member = design.solution, design.solution.member
     stiffness, props, material = design.stiffness, design.props, design.material
     columns = member_torque_columns(member, list(solution.cases), solution.self_weight is not None, member_axes_offset(design))
+    if not columns.any:
+        nothing = np.zeros((len(solution.combination_names), len(xs)))
+        return TorsionActions(nothing, nothing, nothing)
     try:
         solved = solve_torsion(member, columns, stiffness.GJ, material.elastic_modulus * props.Iw, position_tolerance(member))
     except TwistFree:
