@@ -232,3 +232,54 @@ def test_across_is_validated(tmp_path: Path) -> None:
         _check(tmp_path, 'across = "+300 mm"')
     with pytest.raises(InputError, match=r"loads\[1\]\.across"):
         _check(tmp_path, 'across = "left"')
+
+
+def test_warping_function_of_a_channel() -> None:
+    """Thin-walled channel (common practice): shear centre e_s = 3 b'^2 t_f / (6 b' t_f + h_s t_w) from the
+    web's mid-line; mid-line warping function (b' - e_s) h_s / 2 at the flange tips and e_s h_s / 2 at
+    the flange-web junctions, of opposite signs (b' = b - t_w / 2, h_s = d - t_f). The field's value at
+    the tip's mid-thickness is the mean of its two tip corners (linear across the thickness there)."""
+    from sizer.sections import section_properties, unit_stress_field
+
+    spec = _steel_catalogue().get("C 200x80x7", "", "x")
+    props, field = section_properties(spec, 7850.0), unit_stress_field(spec)
+    d = spec.dims
+    b, h_s = d["width"] - d["web_thickness"] / 2, d["depth"] - d["flange_thickness"]
+    e_s = 3 * b**2 * d["flange_thickness"] / (6 * b * d["flange_thickness"] + h_s * d["web_thickness"])
+    web_line = props.shear_centre[1] - e_s  # z of the web's mid-line (member axes, from the centroid)
+    assert web_line == pytest.approx(field.points[:, 1].max() - d["web_thickness"] / 2, abs=2e-3)
+    omega = field.warping_sigma * props.Iw
+    y, z = field.points[:, 0], field.points[:, 1]
+    tip = np.isclose(z, z.min(), atol=1e-9)
+    corners = [np.argmin(np.where(tip, np.abs(y - level), np.inf)) for level in (d["depth"] / 2, d["depth"] / 2 - d["flange_thickness"])]
+    assert float(np.mean(omega[corners])) == pytest.approx((b - e_s) * h_s / 2, rel=0.03)
+    web = np.isclose(z, z.max(), atol=1e-9) & np.isclose(y, d["depth"] / 2, atol=1e-9)
+    assert float(omega[web][0]) == pytest.approx(-(e_s * h_s / 2 + h_s / 2 * d["web_thickness"] / 2), rel=0.05)
+
+
+def test_warping_stress_of_an_i_beam_under_torque(tmp_path: Path) -> None:
+    """IPE 200, 3 m on forks, 0.6 kN m/m of torque and nothing else: the bending check's demand is the
+    warping normal stress B omega_max / Iw with mid-span B = t a^2 (1 - sech(L / 2a)) (the closed form
+    above) and omega_max = h_s b / 4 (thin-walled, common practice; within 5 % of the field's)."""
+    from sizer import api
+
+    path = tmp_path / "ibeam.toml"
+    path.write_text('[member]\nlength = "3 m"\nmaterial = "mild-steel"\nsection = "IPE 200"\nself_weight = false\n'
+                    '[[supports]]\nat = "0 m"\ntype = "pin"\n[[supports]]\nat = "3 m"\ntype = "roller"\n'
+                    '[[loads]]\ntype = "line"\nmx = "0.6 kN*m/m"\n', encoding="utf-8")
+    outcome = api.check(str(path))
+    props, material, spec = outcome.design.props, outcome.design.material, outcome.design.spec
+    a = math.sqrt(material.elastic_modulus * props.Iw / (material.shear_modulus * props.J))
+    bimoment = 600.0 * a**2 * (1 - 1 / math.cosh(3.0 / (2 * a)))
+    h_s = spec.dims["depth"] - spec.dims["flange_thickness"]
+    demand = next(c for c in outcome.checks if c.check == "bending").demand
+    assert demand == pytest.approx(bimoment * h_s * spec.dims["width"] / 4 / props.Iw, rel=0.05)
+    peak = outcome.report.torsion.peaks[3]  # at the check station nearest mid-span; B = E Iw phi'' < 0 where the twist peaks
+    assert peak.value == pytest.approx(-600.0 * a**2 * (1 - math.cosh((peak.at - 1.5) / a) / math.cosh(1.5 / a)), rel=1e-9)
+
+
+def test_minor_orientation_turns_the_offset(tmp_path: Path) -> None:
+    """A channel turned a quarter turn (orientation "minor") has its centroid off the shear centre along
+    the load's own line: a y load at the centroid makes no torque (statics)."""
+    outcome = _check(tmp_path, extra='orientation = "minor"\nself_weight = false')
+    assert outcome["torsion"] is None
