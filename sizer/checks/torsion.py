@@ -15,6 +15,7 @@ from sizer.design import Design
 from sizer.errors import InputError
 from sizer.model import Member
 
+WARPING_SIZE_RATIO = 1.0  # a below this x the section's size: uniform torsion (see warping_rigidity)
 SYMMETRIC_SHAPES = frozenset({"rectangle", "round", "rectangular_tube", "round_tube", "i_beam"})  # shear centre at the centroid
 
 
@@ -60,6 +61,19 @@ def check_across(design: Design, points: np.ndarray) -> None:
                                  'give a distance within the section, or "centroid" / "shear-centre"')
 
 
+def warping_rigidity(design: Design) -> float:
+    """E Iw for the twist solve (N*m^4): the section's, or 0 (uniform torsion) where its torsion
+    parameter a = sqrt(E Iw / G J) is below its size (closed tubes, solid shapes, angles and tees:
+    there warping settles within about one section size of where it is held, Saint-Venant's
+    principle, and is left out as is common practice; open I and channel shapes have a of 2 to 7
+    times their size)."""
+    props = design.props
+    eiw = design.material.elastic_modulus * props.Iw
+    if eiw <= 0.0 or np.sqrt(eiw / design.stiffness.GJ) < WARPING_SIZE_RATIO * max(props.depth, props.width):
+        return 0.0
+    return eiw
+
+
 @dataclass(frozen=True)
 class TorsionActions:
     """Torsion of every combination at the stations: (C, n) each."""
@@ -100,11 +114,13 @@ def torsion_summary(design: Design, torsion: TorsionActions, xs: np.ndarray) -> 
     if not np.any(torsion.torque) and not np.any(torsion.bimoment):
         return None
     names = design.solution.combination_names
+    eiw = warping_rigidity(design)
+    if not eiw:
+        quantities = {"torque": torsion.torque}
     peaks = []
     for name, values in quantities.items():
         c, s = np.unravel_index(int(np.argmax(np.abs(values))), values.shape)
         peaks.append(TorsionPeak(name, float(values[c, s]), float(xs[s]), names[c]))
-    eiw = design.material.elastic_modulus * design.props.Iw
     return TorsionSummary(float(np.sqrt(eiw / design.stiffness.GJ)), member_axes_offset(design), tuple(peaks))
 
 
@@ -118,7 +134,7 @@ def torsion_actions(design: Design, xs: np.ndarray, sides: np.ndarray) -> Torsio
         nothing = np.zeros((len(solution.combination_names), len(xs)))
         return TorsionActions(nothing, nothing, nothing)
     try:
-        solved = solve_torsion(member, columns, stiffness.GJ, material.elastic_modulus * props.Iw, position_tolerance(member))
+        solved = solve_torsion(member, columns, stiffness.GJ, warping_rigidity(design), position_tolerance(member))
     except TwistFree:
         raise InputError(member.source, "supports", "loads twist the member (given torques, or loads off the shear centre: "
                          "see `across`) and no support holds its twist", 'hold rx at a support, or give across = "shear-centre"') from None
@@ -136,13 +152,20 @@ def torsion_note(design: Design) -> str:
     dy, dz = member_axes_offset(design)
     places = sorted({load.across if isinstance(load.across, str) else f"{load.across * 1e3:+g} mm" for load in design.member.given_loads
                      if not (hasattr(load, "moment") and not any(load.force))})
-    offset = f"centroid {1e3 * dz:+.3g} mm along z" + (f", {1e3 * dy:+.3g} mm along y" if dy else "") + " from the shear centre"
+    if dy or dz:
+        offset = f"centroid {1e3 * dz:+.3g} mm along z" + (f", {1e3 * dy:+.3g} mm along y" if dy else "") + " from the shear centre"
+    else:
+        offset = "the centroid is the shear centre"
     text = (f"Torsion: loads act across the section at {', '.join(places) or 'the centroid'} ({offset}); self-weight at the centroid; "
             "each transverse load's torque about the shear centre is added to the given torques; the elastic critical values are "
             "not changed by these torques (no geometric stiffness from a first-order torque in the linear buckling solve). ")
-    if props.Iw > 0:
-        a = np.sqrt(design.material.elastic_modulus * props.Iw / design.stiffness.GJ)
+    eiw = warping_rigidity(design)
+    if eiw:
+        a = np.sqrt(eiw / design.stiffness.GJ)
         return text + (f"Non-uniform torsion (G J and E Iw, torsion parameter a = {a:.3g} m): warping held at fixed supports or as "
                        "given, free at pins and rollers; bimoment B and warping torque Tw give the warping normal stress B omega / Iw and "
                        "the warping shear stress in the full field; local wall checks add the peak warping stress as uniform compression.")
-    return text + "Uniform torsion (the section's warping constant is zero)."
+    a = np.sqrt(design.material.elastic_modulus * props.Iw / design.stiffness.GJ)
+    return text + (f"Uniform torsion (G J only): the section's torsion parameter a = sqrt(E Iw / G J) = {a:.3g} m is below its size, so "
+                   "warping settles within about a section size of where it is held and is left out (common practice for closed, solid, "
+                   "angle and tee shapes).")

@@ -145,8 +145,8 @@ def torsion_ledger(report: CheckReport, system: str) -> Ledger | None:
     summary = report.torsion
     if summary is None:
         return None
-    a = units.fmt(summary.parameter, "length", system) if summary.parameter else "0 (uniform torsion)"
-    ledger = Ledger(f"Torsion · largest values; torsion parameter a = {a}", [
+    a = f"torsion parameter a = {units.fmt(summary.parameter, 'length', system)}" if summary.parameter else "uniform torsion (G J only)"
+    ledger = Ledger(f"Torsion · largest values; {a}", [
         Column("action"), Column("value", right=True), Column("at", right=True), Column("combination", fold=True)])
     for peak in summary.peaks:
         label, kind = TORSION_ROWS[peak.name]
