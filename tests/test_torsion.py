@@ -283,3 +283,25 @@ def test_minor_orientation_turns_the_offset(tmp_path: Path) -> None:
     the load's own line: a y load at the centroid makes no torque (statics)."""
     outcome = _check(tmp_path, extra='orientation = "minor"\nself_weight = false')
     assert outcome["torsion"] is None
+
+
+@settings(max_examples=15, deadline=None)
+@given(st.integers(0, 2**31 - 1))
+def test_field_peaks_with_warping_match_every_row(seed: int) -> None:
+    """The largest stresses found by bounds equal those of every row evaluated, with the bimoment and
+    warping torque columns too; each bound is above its row's exact value (|sum a_i s_i| <= sum |a_i|
+    max |s_i|, common practice)."""
+    from sizer.checks.field import FieldPeaks, full_field_stresses
+    from sizer.sections import unit_stress_field
+
+    field = unit_stress_field(_steel_catalogue().get("C 150x75x6", "", "x"))
+    rng = np.random.default_rng(seed)
+    actions = rng.normal(size=(2, 40, 6)) * [1e4, 1e4, 1e3, 300.0, 1e3, 1e4]
+    warping = rng.normal(size=(2, 40, 2)) * [100.0, 200.0]
+    every = full_field_stresses(actions, field, 2.3e-3, warping)
+    peaks = FieldPeaks(actions, field, 2.3e-3, warping)
+    for k, (upper, exact) in enumerate(((peaks.bending_upper, every.bending), (peaks.shear_upper, every.shear),
+                                        (peaks.equivalent_upper, every.equivalent))):
+        assert np.all(upper * (1 + 1e-9) >= exact.ravel())
+        value, _ = peaks.largest(upper, lambda rows, stress, k=k: stress[:, k])
+        assert value == pytest.approx(exact.max(), rel=1e-12)

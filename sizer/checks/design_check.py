@@ -25,12 +25,16 @@ from sizer.stability import MemberStability
 from sizer.stability.boundary import warping_held
 
 
-def check_design(design: Design, unit_field: Any, n_even: int = 200, stability: MemberStability | None = None) -> CheckReport:
+def check_design(design: Design, unit_field: Any, n_even: int = 200, stability: MemberStability | None = None,
+                 validate_across: bool = True) -> CheckReport:
     """Every check of docs/design.md section 7 for the design's section, on the full stress field. `stability`:
-    the member's MemberStability to reuse (sizing checks many sections of one member)."""
+    the member's MemberStability to reuse (sizing checks many sections of one member). With
+    `validate_across` a load placed across the section beyond it is bad input (sizing checks every
+    candidate with the load where given, as on a bracket)."""
     xs, sides = check_stations(design, n_even)
     names = design.solution.combination_names
-    check_across(design, np.asarray(unit_field.points))
+    if validate_across:
+        check_across(design, np.asarray(unit_field.points))
     torsion = torsion_actions(design, xs, sides)
     first = member_actions(design, xs, sides)
     first[..., 3] = torsion.torque  # with the torques of loads across the section, split between supports by the warping solve
