@@ -128,7 +128,7 @@ def torsion_actions(design: Design, xs: np.ndarray, sides: np.ndarray) -> Torsio
     """T, Tw and B of every combination at stations xs (m) on `sides`, from the non-uniform torsion
     solve on the design's section with every load's torque about the shear centre."""
     solution, member = design.solution, design.solution.member
-    stiffness, props, material = design.stiffness, design.props, design.material
+    stiffness = design.stiffness
     columns = member_torque_columns(member, list(solution.cases), solution.self_weight is not None, member_axes_offset(design))
     if not columns.any:
         nothing = np.zeros((len(solution.combination_names), len(xs)))
