@@ -39,7 +39,7 @@ def _member(length: float, kind: str, loads: list) -> Member:
 
 
 def _solve(member: Member, eiw: float = EIW):
-    return solve_torsion(member, torque_columns(member, [member.loads], (0.0, 0.0)), GJ, eiw, 1e-9)
+    return solve_torsion(member, torque_columns([member.loads], (0.0, 0.0)), GJ, eiw, 1e-9)
 
 
 def _at(solution, xs, right=True) -> np.ndarray:
@@ -118,8 +118,8 @@ def test_across_torques_as_explicit_loads() -> None:
     assert [load.moment[0] if isinstance(load, PointLoad) else load.q_start[3] for load in explicit[2:]] == pytest.approx([-200.0, -100.0])
     member = _member(3.0, "fixed", placed)
     xs = np.linspace(0, 3.0, 13)
-    first = solve_torsion(member, torque_columns(member, [placed], e), GJ, EIW, 1e-9)
-    second = solve_torsion(member, torque_columns(member, [explicit], e), GJ, EIW, 1e-9)
+    first = solve_torsion(member, torque_columns([placed], e), GJ, EIW, 1e-9)
+    second = solve_torsion(member, torque_columns([explicit], e), GJ, EIW, 1e-9)
     assert _at(first, xs) == pytest.approx(_at(second, xs), rel=1e-12, abs=1e-9)
 
 

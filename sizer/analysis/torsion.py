@@ -87,7 +87,7 @@ def across_torque_loads(loads: Sequence[Load], centroid: tuple[float, float]) ->
     return made
 
 
-def torque_columns(member: Member, load_sets: Sequence[Sequence[Load]], centroid: tuple[float, float]) -> TorqueLoads:
+def torque_columns(load_sets: Sequence[Sequence[Load]], centroid: tuple[float, float]) -> TorqueLoads:
     """The torques of each load set (one column each): given torques (mx) plus the torque of every
     transverse force about the shear centre from where across the section it acts."""
     at, point, start, end, m0, slope = [], [], [], [], [], []
@@ -126,7 +126,7 @@ def member_torque_columns(member: Member, case_names: Sequence[str], self_weight
     sets: list[list[Load]] = [[load for load in member.loads if load.case == name] for name in case_names]
     if self_weight:
         sets.append([self_weight_load(member)])
-    return torque_columns(member, sets, centroid)
+    return torque_columns(sets, centroid)
 
 
 def _sinh_less(t: np.ndarray) -> np.ndarray:
