@@ -10,6 +10,8 @@ from __future__ import annotations
 
 from typing import Any
 
+import math
+
 from sizer import units
 from sizer.checks import CheckReport, CheckResult, spans
 from sizer.design import Design
@@ -146,7 +148,9 @@ def torsion_ledger(report: CheckReport, system: str) -> Ledger | None:
     if summary is None:
         return None
     a = f"torsion parameter a = {units.fmt(summary.parameter, 'length', system)}" if summary.parameter else "uniform torsion (G J only)"
-    ledger = Ledger(f"Torsion · largest values; {a}", [
+    offset = math.hypot(*summary.centroid_offset)
+    where = f"centroid {units.fmt(offset, 'dimension', system)} from the shear centre" if offset else "centroid on the shear centre"
+    ledger = Ledger(f"Torsion · largest values; {where}; {a}", [
         Column("action"), Column("value", right=True), Column("at", right=True), Column("combination", fold=True)])
     for peak in summary.peaks:
         label, kind = TORSION_ROWS[peak.name]
