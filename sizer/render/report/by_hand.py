@@ -224,5 +224,28 @@ def by_hand_section(design: Design, report: CheckReport, system: str) -> str:
                   "It differs from Euler's load on "
                   "the member length where the axial force varies along the member, where supports or restraints are not pins, or "
                   "where the mode twists.</p>")
-    return (f'<section id="by-hand"><h2>6. The governing station by hand</h2>{intro}{table}{why}'
+    return (f'<section id="by-hand"><h2>6. The governing station by hand</h2>{intro}{table}{why}{torsion_paragraph(design, report, system)}'
             f"<h3>Column buckling by formula</h3><ul>{columns}</ul>{solved}</section>")
+
+
+TORSION_WORDS = {"torque": ("torque T", "moment"), "saint_venant_torque": ("Saint-Venant torque T - Tw", "moment"),
+                 "warping_torque": ("warping torque Tw", "moment"), "bimoment": ("bimoment B", "bimoment")}
+
+
+def torsion_paragraph(design: Design, report: CheckReport, system: str) -> str:
+    """The member's torsion in words: where the loads act across the section, the torsion parameter
+    and the largest T, T - Tw, Tw and B with where each is ("" when nothing twists the member)."""
+    summary = report.torsion
+    if summary is None:
+        return ""
+    offset = math.hypot(*summary.centroid_offset)
+    parts = ", ".join(f"{TORSION_WORDS[p.name][0]} {_fmt(p.value, TORSION_WORDS[p.name][1], system)} at x = {_fmt(p.at, 'length', system)} "
+                      f"({p.combination})" for p in summary.peaks)
+    if summary.parameter:
+        solved = (f"Twist by non-uniform torsion, torsion parameter a = √(E Iw / G J) = {_fmt(summary.parameter, 'length', system)}: "
+                  "the bimoment B = E Iw φ″ gives the warping normal stress B ω / Iw and the warping torque Tw = -E Iw φ‴ the warping "
+                  "shear, both in the full field.")
+    else:
+        solved = "Twist by uniform torsion (G J): the section's warping settles within about its own size and is left out."
+    where = f"the centroid is {_fmt(offset, 'dimension', system)} from the shear centre" if offset else "the centroid is the shear centre"
+    return f"<h3>Torsion</h3><p>{_e(solved)} Loads act across the section where `across` says ({_e(where)}). Largest values: {_e(parts)}.</p>"
