@@ -17,6 +17,8 @@ SUPPORT_TYPES: dict[str, frozenset[str]] = {
     "roller": frozenset({"uy", "uz", "rx"}),
 }
 HEIGHT_FACES: tuple[str, ...] = ("top", "centre", "bottom")
+ACROSS_NAMES: tuple[str, ...] = ("shear-centre", "centroid")
+DEFAULT_ACROSS = "centroid"
 WARPING_CHOICES: tuple[str, ...] = ("free", "held")
 RESTRAINT_HOLDS: tuple[str, ...] = ("lateral", "twist")
 DEFAULT_CASE = "load"
@@ -61,6 +63,13 @@ class Support:
     bearing: float = 0.0  # stiff bearing length along the member (m) for the web check; 0: knife edge
     stiffened: bool = False  # a web stiffener here: no web check at this support
 
+    @property
+    def holds_warping(self) -> bool:
+        """True when the support holds warping: as given, else when it holds rx, ry and rz (built in)."""
+        if self.warping is not None:
+            return self.warping == "held"
+        return {"rx", "ry", "rz"} <= set(self.restrain)
+
 
 @dataclass(frozen=True)
 class Hinge:
@@ -83,6 +92,7 @@ class PointLoad:
     pattern: bool = False  # pattern loading: the span it is on is loaded in some arrangements only (analysis.patterns)
     bearing: float = 0.0  # stiff bearing length along the member (m) for the web check; 0: knife edge
     stiffened: bool = False  # a web stiffener here: no web check under this load
+    across: str | float = DEFAULT_ACROSS  # where across the section the force acts: "shear-centre", "centroid" or z from the shear centre (m)
 
 
 @dataclass(frozen=True)
@@ -109,6 +119,7 @@ class LineLoad:
     height: str | float | None = None  # where the transverse load acts on the section (see Restraint); None: default
     pattern: bool = False  # pattern loading: each span it covers is loaded in some arrangements only (analysis.patterns)
     area: Pressure | None = None
+    across: str | float = DEFAULT_ACROSS  # where across the section the load acts: "shear-centre", "centroid" or z from the shear centre (m)
 
 
 Load = PointLoad | LineLoad

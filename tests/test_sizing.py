@@ -130,6 +130,8 @@ MIXED_SHAPES: Entries = {
     "PIPE 89x5": ("round_tube", {"diameter": "89 mm", "thickness": "5 mm"}, "pipe"),
     "I 100x50": ("i_beam", {"depth": "100 mm", "width": "50 mm", "flange_thickness": "6 mm", "web_thickness": "4 mm", "root_radius": "6 mm"}, "i"),
     "C 100x50": ("channel", {"depth": "100 mm", "width": "50 mm", "flange_thickness": "7 mm", "web_thickness": "5 mm", "root_radius": "7 mm"}, "channel"),
+    "C 140x60": ("channel", {"depth": "140 mm", "width": "60 mm", "flange_thickness": "8 mm", "web_thickness": "6 mm", "root_radius": "8 mm"}, "channel"),
+    "L 70x70x7": ("angle", {"depth": "70 mm", "width": "70 mm", "thickness": "7 mm", "root_radius": "7 mm"}, "angle"),
     # an invented family of welded plate girders (no fillets) with slender webs: h / tw = 95 and 47
     "PG 200x2": ("i_beam", {"depth": "200 mm", "width": "50 mm", "flange_thickness": "5 mm", "web_thickness": "2 mm"}, "plate-girder"),
     "PG 250x5": ("i_beam", {"depth": "250 mm", "width": "100 mm", "flange_thickness": "8 mm", "web_thickness": "5 mm"}, "plate-girder"),
@@ -686,6 +688,61 @@ wy = "-50 kN/m"
 web_stiffener_spacing = "0.6 m"
 """
 
+# a slab bearing on a channel at its centroid (the lightest passing section is a channel, checked with its
+# warping stresses; a lighter channel fails on them) and a bracket load off the shear centre
+ECCENTRIC_LINTEL = """
+[member]
+length = "2.4 m"
+material = "steel"
+
+[[supports]]
+at = "0 m"
+type = "pin"
+
+[[supports]]
+at = "2.4 m"
+type = "roller"
+
+[[loads]]
+type = "area"
+case = "imposed"
+py = "-12 kPa"
+width = "0.6 m"
+
+[[loads]]
+type = "point"
+case = "imposed"
+at = "1 m"
+fy = "-0.6 kN"
+across = "-5 mm"
+
+[combinations]
+"dead + imposed" = { dead = 1.0, imposed = 1.0 }
+"""
+
+# an angle lintel: its load at the centroid twists it (uniform torsion; the angle fails on local buckling)
+ANGLE_LINTEL = """
+[member]
+length = "1.8 m"
+material = "steel"
+
+[[supports]]
+at = "0 m"
+type = "fixed"
+
+[[supports]]
+at = "1.8 m"
+type = "pin"
+
+[[loads]]
+type = "line"
+case = "imposed"
+wy = "-8 kN/m"
+
+[combinations]
+"dead + imposed" = { dead = 1.0, imposed = 1.0 }
+"""
+
 AGREEMENT_MEMBERS = {
     "unbraced beam": UNBRACED_BEAM,
     "braced at thirds": BRACED_AT_THIRDS,
@@ -695,6 +752,8 @@ AGREEMENT_MEMBERS = {
     "springs, hinge, overhang": SPRUNG_OVERHANG,
     "point loads near supports": POINT_LOADS_NEAR_SUPPORTS,
     "slender built-up webs": SLENDER_WEBS,
+    "eccentric channel lintel": ECCENTRIC_LINTEL,
+    "angle lintel": ANGLE_LINTEL,
 }
 
 

@@ -20,6 +20,7 @@ from sizer.checks.results import CheckReport
 from sizer.checks.stability import StabilityReport, stability_report
 from sizer.checks.stations import check_stations, member_actions
 from sizer.checks.web import web_check, web_notes
+from sizer.checks.torsion import check_across, torsion_actions, torsion_note, torsion_summary
 from sizer.checks.strength import (axial_check, bending_check, compression_allowables, equivalent_check, interaction_check, needs_allowable,
                                    shear_check)
 from sizer.design import Design
@@ -27,13 +28,22 @@ from sizer.stability import MemberStability
 from sizer.stability.boundary import warping_held
 
 
-def check_design(design: Design, unit_field: Any, n_even: int = 200, stability: MemberStability | None = None) -> CheckReport:
+def check_design(design: Design, unit_field: Any, n_even: int = 200, stability: MemberStability | None = None,
+                 validate_across: bool = True) -> CheckReport:
     """Every check of docs/design.md section 7 for the design's section, on the full stress field. `stability`:
-    the member's MemberStability to reuse (sizing checks many sections of one member)."""
+    the member's MemberStability to reuse (sizing checks many sections of one member). With
+    `validate_across` a load placed across the section beyond it is bad input (sizing checks every
+    candidate with the load where given, as on a bracket)."""
     xs, sides = check_stations(design, n_even)
     names = design.solution.combination_names
-    actions = to_section_axes(member_actions(design, xs, sides), design.member.orientation)
-    stress = FieldPeaks(actions, unit_field, design.props.area)
+    if validate_across:
+        check_across(design, np.asarray(unit_field.points))
+    torsion = torsion_actions(design, xs, sides)
+    first = member_actions(design, xs, sides)
+    first[..., 3] = torsion.torque  # with the torques of loads across the section, split between supports by the warping solve
+    actions = to_section_axes(first, design.member.orientation)
+    warping = torsion.warping()
+    stress = FieldPeaks(actions, unit_field, design.props.area, warping)
     report = stability_report(design, actions, xs, stability)
     given = given_length_axes(design.member, design.props, design.material)
     columns = column_buckling(design, report, given)
@@ -49,14 +59,27 @@ def check_design(design: Design, unit_field: Any, n_even: int = 200, stability: 
         deflection_check(design),
         buckling_check(columns, design),
         lateral_check(laterals, report, design),
-        local_check(design, actions, xs, names),
+        local_check(design, with_warping_compression(actions, warping, unit_field, design.props.area), xs, names),
         web_check(design),
     ]
     nodes = np.asarray(unit_field.sigma).shape[1]
     notes = check_notes(design, report, given, len(xs), len(names), nodes)
+    notes.insert(1, torsion_note(design))
     braces = brace_demands(design, actions, xs)
     notes += brace_notes(braces)
-    return CheckReport(design.spec.name, checks, notes, len(xs), nodes, stability=report, restraints=braces)
+    return CheckReport(design.spec.name, checks, notes, len(xs), nodes, stability=report, restraints=braces,
+                       torsion=torsion_summary(design, torsion, xs))
+
+
+def with_warping_compression(actions: np.ndarray, warping: np.ndarray, unit_field: Any, area: float) -> np.ndarray:
+    """Actions for the local wall check with the peak warping normal stress |B| max|omega| / Iw added
+    as uniform compression to every wall (as an axial force of that stress x area): conservative."""
+    extra = np.abs(warping[..., 0]) * unit_field.warping_peaks[0]
+    if not np.any(extra):
+        return actions
+    moved = actions.copy()
+    moved[..., 0] -= extra * area
+    return moved
 
 
 def _bending_allowable(design: Design, report: StabilityReport) -> float | None:

@@ -48,6 +48,7 @@ class CheckReport:
     nodes: int = 0
     stability: Any = None  # sizer.checks.stability.StabilityReport: load factors and buckled shapes
     restraints: list = field(default_factory=list)  # sizer.checks.bracing.BraceDemand: what each restraint must carry
+    torsion: Any = None  # sizer.checks.torsion.TorsionSummary: peaks of T, Tw, B; None when nothing twists the member
 
     @property
     def made(self) -> list[CheckResult]:

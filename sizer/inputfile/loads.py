@@ -8,14 +8,14 @@ from dataclasses import replace
 from typing import Any
 
 from sizer import units
-from sizer.inputfile.reader import Reader, array_of_tables, read_bearing, read_height
+from sizer.inputfile.reader import Reader, array_of_tables, read_across, read_bearing, read_height
 from sizer.model import DEFAULT_CASE, LineLoad, Load, PointLoad, Pressure
 
 LOAD_KEYS = {
-    "point": {"type", "case", "at", "fx", "fy", "fz", "height", "pattern", "bearing", "stiffened"},
+    "point": {"type", "case", "at", "fx", "fy", "fz", "height", "across", "pattern", "bearing", "stiffened"},
     "moment": {"type", "case", "at", "mx", "my", "mz", "pattern"},
-    "line": {"type", "case", "from", "to", "wx", "wy", "wz", "mx", "wx_end", "wy_end", "wz_end", "mx_end", "height", "pattern"},
-    "area": {"type", "case", "from", "to", "px", "py", "pz", "px_end", "py_end", "pz_end", "width", "height", "pattern"},
+    "line": {"type", "case", "from", "to", "wx", "wy", "wz", "mx", "wx_end", "wy_end", "wz_end", "mx_end", "height", "across", "pattern"},
+    "area": {"type", "case", "from", "to", "px", "py", "pz", "px_end", "py_end", "pz_end", "width", "height", "across", "pattern"},
 }
 
 
@@ -47,7 +47,10 @@ def read_loads(reader: Reader, value: Any, length: float) -> list[Load]:
             load = _read_area_load(reader, table, prefix, case, length)
         else:
             load = _read_point_load(reader, table, prefix, case, kind, length)
-        loads.append(replace(load, pattern=_read_pattern(reader, table, prefix)))
+        load = replace(load, pattern=_read_pattern(reader, table, prefix))
+        if kind != "moment":
+            load = replace(load, across=read_across(reader, table, prefix))
+        loads.append(load)
     return loads
 
 

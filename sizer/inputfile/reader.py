@@ -12,7 +12,7 @@ from typing import Any
 
 from sizer import units
 from sizer.errors import InputError
-from sizer.model import HEIGHT_FACES
+from sizer.model import ACROSS_NAMES, DEFAULT_ACROSS, HEIGHT_FACES
 
 LARGEST_NUMBER = 1e6  # plain numbers (factors, limits, ratios) are at most this in size (docs/limits.md)
 
@@ -137,6 +137,23 @@ def read_height(reader: Reader, table: dict, prefix: str, default: str | None) -
         raise reader.error(f"{prefix}.height", f"{value!r} is not a height", fix)
     try:
         return reader.quantity(table, "height", "length", prefix)
+    except InputError as error:
+        error.fix = fix
+        raise
+
+
+def read_across(reader: Reader, table: dict, prefix: str) -> str | float:
+    """`across`: "shear-centre", "centroid" (default) or a distance along z from the shear centre (m)."""
+    if "across" not in table:
+        return DEFAULT_ACROSS
+    value = table["across"]
+    if isinstance(value, str) and value.strip() in ACROSS_NAMES:
+        return value.strip()
+    fix = 'use "shear-centre", "centroid" or a distance along z from the shear centre such as "+40 mm"'
+    if not isinstance(value, str):
+        raise reader.error(f"{prefix}.across", f"{value!r} is not a place across the section", fix)
+    try:
+        return reader.quantity(table, "across", "length", prefix)
     except InputError as error:
         error.fix = fix
         raise

@@ -14,8 +14,8 @@ from sizer.design import Design
 from sizer.render.si_text import in_display_units
 
 WHAT = {
-    "bending": "peak stress of My and Mz together, full section field",
-    "shear": "peak stress of Vy, Vz and T together, full section field",
+    "bending": "peak stress of My, Mz and the bimoment (warping) together, full section field",
+    "shear": "peak stress of Vy, Vz and T (Saint-Venant and warping) together, full section field",
     "equivalent": "peak von Mises stress, full section field",
 }
 

@@ -10,6 +10,8 @@ from __future__ import annotations
 
 from typing import Any
 
+import math
+
 from sizer import units
 from sizer.checks import CheckReport, CheckResult, spans
 from sizer.design import Design
@@ -35,6 +37,7 @@ def check_json(design: Design, report: CheckReport, notes: list[str]) -> dict[st
         "checks": [check_entry(c) for c in report.checks],
         "reactions": reactions_json(design),
         "restraints": [demand.to_json() for demand in report.restraints],
+        "torsion": torsion_json(report.torsion),
         "mass_per_length": design.mass_per_length,
         "units": "SI base units (m, N, N*m, Pa, kg/m)",
         "assumptions": notes,
@@ -55,6 +58,14 @@ def check_entry(result: CheckResult) -> dict[str, Any]:
         "detail": result.detail,
         **result.extra,
     }
+
+
+def torsion_json(summary: Any) -> dict[str, Any] | None:
+    """The torsion peaks (SI: N*m, N*m^2, m), or None when nothing twists the member."""
+    if summary is None:
+        return None
+    return {"torsion_parameter": summary.parameter, "centroid_from_shear_centre": list(summary.centroid_offset),
+            "peaks": {peak.name: {"value": peak.value, "at": peak.at, "combination": peak.combination} for peak in summary.peaks}}
 
 
 def reactions_json(design: Design) -> dict[str, list[dict[str, float]]]:
@@ -126,6 +137,28 @@ def checks_ledger(report: CheckReport, design: Design, system: str) -> Ledger:
     return ledger
 
 
+TORSION_ROWS = {"torque": ("torque T", "moment"), "saint_venant_torque": ("Saint-Venant torque T - Tw", "moment"),
+                "warping_torque": ("warping torque Tw", "moment"), "bimoment": ("bimoment B", "bimoment")}
+
+
+def torsion_ledger(report: CheckReport, system: str) -> Ledger | None:
+    """The largest torque, its Saint-Venant and warping parts and the bimoment, with where each is."""
+    from rich.markup import escape
+
+    summary = report.torsion
+    if summary is None:
+        return None
+    a = f"torsion parameter a = {units.fmt(summary.parameter, 'length', system)}" if summary.parameter else "uniform torsion (G J only)"
+    offset = math.hypot(*summary.centroid_offset)
+    where = f"centroid {units.fmt(offset, 'dimension', system)} from the shear centre" if offset else "centroid on the shear centre"
+    ledger = Ledger(f"Torsion · largest values; {where}; {a}", [
+        Column("action"), Column("value", right=True), Column("at", right=True), Column("combination", fold=True)])
+    for peak in summary.peaks:
+        label, kind = TORSION_ROWS[peak.name]
+        ledger.add_row(label, units.fmt(peak.value, kind, system), units.fmt(peak.at, "length", system), escape(peak.combination))
+    return ledger
+
+
 def reactions_ledger(design: Design, system: str) -> Ledger:
     """The reactions of every combination: a group line per combination, a row per support; the
     unit of each column in its header. Beyond REACTIONS_LISTED combinations (pattern arrangements),
@@ -194,8 +227,12 @@ def check_renderables(design: Design, report: CheckReport, notes: list[str], sys
 
     title = escape(design.member.title or design.member.source)
     return [Heading(f"sizer check · {title}"), *design_summary(design, system), "", verdict_block(report, system), "",
-            checks_ledger(report, design, system), "", reactions_ledger(design, system), "",
+            checks_ledger(report, design, system), "", *_optional(torsion_ledger(report, system)), reactions_ledger(design, system), "",
             notes_panel(notes, system=system), cautions_panel()]
+
+
+def _optional(block: Any) -> list[Any]:
+    return [] if block is None else [block, ""]
 
 
 def print_check(console: Any, design: Design, report: CheckReport, notes: list[str], system: str) -> None:

@@ -88,7 +88,8 @@ def member_notes(member: Member) -> list[str]:
     if member.hinges:
         notes.append("Internal hinges release both bending moments (My and Mz); axial force, shears and torque pass through.")
     notes += free_movement_notes(member)
-    notes.append("Loads act through the shear centre; torsion comes only from loads given as torques.")
+    notes.append("Transverse loads act at the centroid unless `across` says otherwise; the checks add each one's torque about the "
+                 "shear centre (non-uniform torsion on the section); force diagrams and reactions show only torques given as loads.")
     return notes
 
 

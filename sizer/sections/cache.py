@@ -37,8 +37,8 @@ from sizer.files import cache_root, write_atomic
 from sizer.sections.geometry import mesh_settings
 from sizer.sections.spec import SectionSpec
 
-SCHEMA_VERSION = 7  # 7: entries hold the warping tier only (the geometric tier comes from the outline)
-ARRAY_NAMES = ("points", "sigma", "tau")
+SCHEMA_VERSION = 8  # 7: entries hold the warping tier only (the geometric tier comes from the outline); 8: warping stress fields
+ARRAY_NAMES = ("points", "sigma", "tau", "omega", "tau_w")
 RAW = np.dtype("<f8")
 _GEOMETRY_MARK = "GEOMETRY"  # stands for the geometry key in the key text built once per process
 
@@ -160,7 +160,7 @@ def read_arrays(key: str, entry: dict) -> dict[str, np.ndarray] | None:
             return None
         nodes = int(entry["scalars"]["mesh_nodes"])
         values = np.frombuffer(payload, dtype=RAW).astype(float)
-        if values.size != 11 * nodes or not np.isfinite(values).all():  # 2 + 3 + 6 values per node
+        if values.size != 14 * nodes or not np.isfinite(values).all():  # 2 + 3 + 6 + 1 + 2 values per node
             return None
         return _split_arrays(values, nodes)
     except Exception:  # any damage at all: recompute
@@ -168,9 +168,11 @@ def read_arrays(key: str, entry: dict) -> dict[str, np.ndarray] | None:
 
 
 def _split_arrays(values: np.ndarray, nodes: int) -> dict[str, np.ndarray]:
-    """points (nodes, 2), sigma (3, nodes), tau (3, nodes, 2) from their values one after the other."""
-    points, sigma, tau = np.split(values, [2 * nodes, 5 * nodes])
-    return {"points": points.reshape(nodes, 2), "sigma": sigma.reshape(3, nodes), "tau": tau.reshape(3, nodes, 2)}
+    """points (nodes, 2), sigma (3, nodes), tau (3, nodes, 2), omega (nodes,), tau_w (nodes, 2) from
+    their values one after the other."""
+    points, sigma, tau, omega, tau_w = np.split(values, [2 * nodes, 5 * nodes, 11 * nodes, 12 * nodes])
+    return {"points": points.reshape(nodes, 2), "sigma": sigma.reshape(3, nodes), "tau": tau.reshape(3, nodes, 2),
+            "omega": omega, "tau_w": tau_w.reshape(nodes, 2)}
 
 
 def write_entry(key: str, scalars: dict[str, float], arrays: dict[str, np.ndarray]) -> bool:

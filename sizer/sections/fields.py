@@ -18,12 +18,33 @@ class UnitStressField:
     sigma (3, p): sigma_xx (tension +) per unit N (1 N), My (1 N*m), Mz (1 N*m).
     tau (3, p, 2): (tau_xy, tau_xz) per unit Vy (1 N), Vz (1 N), T (1 N*m), through the shear centre.
     shear_known: False for a field of normal stresses alone (tau is zero there, not computed).
+    omega (p,): warping normal stress per unit bimoment B (1 N*m^2): omega / Iw; None: not known (zero).
+    tau_w (p, 2): warping shear stress per unit warping torque Tw (1 N*m); None: not known (zero).
     """
 
     points: np.ndarray
     sigma: np.ndarray
     tau: np.ndarray
     shear_known: bool = True
+    omega: np.ndarray | None = None
+    tau_w: np.ndarray | None = None
+
+    @cached_property
+    def warping_sigma(self) -> np.ndarray:
+        """(p,) warping normal stress per unit bimoment (zeros when not known)."""
+        return np.zeros(len(self.points)) if self.omega is None else np.asarray(self.omega)
+
+    @cached_property
+    def warping_tau(self) -> np.ndarray:
+        """(p, 2) warping shear stress per unit warping torque (zeros when not known)."""
+        return np.zeros((len(self.points), 2)) if self.tau_w is None else np.asarray(self.tau_w)
+
+    @cached_property
+    def warping_peaks(self) -> np.ndarray:
+        """(2,) largest |warping normal stress| per unit B and largest warping shear per unit Tw."""
+        if not len(self.points):
+            return np.zeros(2)
+        return np.array([np.abs(self.warping_sigma).max(), np.hypot(self.warping_tau[:, 0], self.warping_tau[:, 1]).max()])
 
     @cached_property
     def sigma_peak(self) -> np.ndarray:

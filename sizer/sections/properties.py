@@ -262,7 +262,7 @@ def clear_memory() -> None:
 
 
 def _remember_field(geometry: str, arrays: dict[str, np.ndarray]) -> UnitStressField:
-    unit_field = UnitStressField(arrays["points"], arrays["sigma"], arrays["tau"])
+    unit_field = UnitStressField(arrays["points"], arrays["sigma"], arrays["tau"], omega=arrays["omega"], tau_w=arrays["tau_w"])
     _FIELDS[geometry] = unit_field
     _FIELDS.move_to_end(geometry)
     while len(_FIELDS) > FIELD_MEMORY:

@@ -97,6 +97,8 @@ class Warping:
     tau_torque: np.ndarray
     tau_vx: np.ndarray
     tau_vy: np.ndarray
+    omega: np.ndarray  # (n,) warping function about the shear centre, normalised (integral of omega, x omega, y omega zero), mm^2
+    tau_warping: np.ndarray  # (n, 2) (tau_zx, tau_zy) per unit warping torque (N/mm^2 per N mm); zero when omega is
 
 
 def solve_warping(mesh: Mesh, centroid: tuple[float, float], inertia: Inertia) -> Warping:
@@ -116,8 +118,8 @@ def solve_warping(mesh: Mesh, centroid: tuple[float, float], inertia: Inertia) -
         _assembled(elements, count, np.einsum("eg,gk,eg->ek", w, four.n, 2 * (inertia.ixx * x - inertia.ixy * y))),  # Psi
         _assembled(elements, count, np.einsum("eg,gk,eg->ek", w, four.n, 2 * (inertia.iyy * y - inertia.ixy * x))),  # Phi
     ])
-    bordered = bmat([[stiffness, constraint[:, None]], [constraint[None, :], None]], format="csc")
-    omega, psi, phi = splu(bordered).solve(np.vstack([loads, np.zeros((1, 3))])).T[:, :count]
+    bordered = splu(bmat([[stiffness, constraint[:, None]], [constraint[None, :], None]], format="csc"))
+    omega, psi, phi = bordered.solve(np.vstack([loads, np.zeros((1, 3))])).T[:, :count]
     j = inertia.ixx + inertia.iyy - omega @ loads[:, 0]
     delta = 2 * (inertia.ixx * inertia.iyy - inertia.ixy**2)
     x_se, y_se = -loads[:, 0] @ phi / delta, loads[:, 0] @ psi / delta
@@ -126,6 +128,8 @@ def solve_warping(mesh: Mesh, centroid: tuple[float, float], inertia: Inertia) -
     i_x_omega, i_y_omega = np.sum(w * x * at_points), np.sum(w * y * at_points)
     kappa = [np.sum(w[..., None] * np.einsum("egdk,ek->egd", four.b, values[elements]) ** 2) for values in (psi, phi)]
     six = quadrature(coords, RULE_6)
+    normal = _normalised_warping(omega, mesh.nodes - np.asarray(centroid), inertia, (q_omega, i_x_omega, i_y_omega))
+    warping_torque = _warping_shear(bordered, four, six, elements, count, normal)
     torque = (np.einsum("egdk,ek->egd", six.b, omega[elements]) - np.stack([six.xy[..., 1], -six.xy[..., 0]], axis=-1)) / j
     return Warping(
         j=float(j), shear_centre=(float(x_se), float(y_se)),
@@ -134,7 +138,30 @@ def solve_warping(mesh: Mesh, centroid: tuple[float, float], inertia: Inertia) -
         tau_torque=_at_nodes(elements, count, torque),
         tau_vx=_at_nodes(elements, count, np.einsum("egdk,ek->egd", six.b, psi[elements]) / delta),
         tau_vy=_at_nodes(elements, count, np.einsum("egdk,ek->egd", six.b, phi[elements]) / delta),
+        omega=normal, tau_warping=warping_torque,
     )
+
+
+def _normalised_warping(omega: np.ndarray, xy: np.ndarray, inertia: Inertia, integrals: tuple[float, float, float]) -> np.ndarray:
+    """(n,) the warping function about the shear centre: omega less its L2 projection on 1, x and y
+    (coordinates from the centroid; x and y are exact on six-node elements), so that its integral and
+    its first moments vanish and the integral of its square is the warping constant (mm^2)."""
+    gram = np.array([[inertia.area, 0.0, 0.0], [0.0, inertia.iyy, inertia.ixy], [0.0, inertia.ixy, inertia.ixx]])
+    c0, cx, cy = np.linalg.solve(gram, np.asarray(integrals))
+    return omega - c0 - cx * xy[:, 0] - cy * xy[:, 1]
+
+
+def _warping_shear(bordered: object, four: Quadrature, six: Quadrature, elements: np.ndarray, count: int, omega: np.ndarray) -> np.ndarray:
+    """(n, 2) shear stresses (tau_zx, tau_zy) per unit warping torque Tw (N/mm^2 per N mm): tau = grad chi
+    with laplacian(chi) = omega / Iw and no stress across the outline (equilibrium with the warping
+    normal stress B omega / Iw, dB/dx = -Tw). Zero when the warping constant is zero."""
+    at_points = np.einsum("gk,ek->eg", four.n, omega[elements])
+    warping_constant = float(np.sum(four.weight * at_points**2))
+    if warping_constant <= 0.0:
+        return np.zeros((count, 2))
+    load = -_assembled(elements, count, np.einsum("eg,gk,eg->ek", four.weight, four.n, at_points)) / warping_constant
+    chi = bordered.solve(np.append(load, 0.0))[:count]  # type: ignore[attr-defined]
+    return _at_nodes(elements, count, np.einsum("egdk,ek->egd", six.b, chi[elements]))
 
 
 def _assembled(elements: np.ndarray, count: int, per_element: np.ndarray) -> np.ndarray:

@@ -11,7 +11,9 @@ nodes, largest element area (m^2).
 
 Unit stress fields at the mesh nodes: sigma per unit N, My, Mz is the exact linear field of the
 geometric tier; tau per unit Vy, Vz, T comes from the shear functions and the warping function
-(loads through the shear centre, Poisson's ratio 0).
+(loads through the shear centre, Poisson's ratio 0); the warping normal stress per unit bimoment is
+omega / Iw (omega the warping function about the shear centre, u = omega dphi/dx) and the warping
+shear per unit warping torque the gradient field in equilibrium with it.
 
 `analyse` is sectionproperties' own analysis of the same mesh: the reference the tests compare with.
 """
@@ -67,7 +69,19 @@ def compute(spec: SectionSpec, geometric: dict[str, float]) -> tuple[dict[str, f
         "tau_peak_Vy": tau_peak[0], "tau_peak_Vz": tau_peak[1], "tau_peak_T": tau_peak[2],
         "mesh_elements": len(made.elements), "mesh_nodes": len(made.nodes), "max_element_area": made.max_area / MM**2,
     }
-    return _without_noise({name: float(value) for name, value in scalars.items()}, geometric), {"points": points, "sigma": sigma, "tau": tau}
+    scalars = _without_noise({name: float(value) for name, value in scalars.items()}, geometric)
+    omega, tau_w = _warping_fields(found, scalars["Iw"])
+    return scalars, {"points": points, "sigma": sigma, "tau": tau, "omega": omega, "tau_w": tau_w}
+
+
+def _warping_fields(found: Any, warping_constant: float) -> tuple[np.ndarray, np.ndarray]:
+    """Warping normal stress per unit bimoment, omega / Iw (Pa per N*m^2), and the warping shear
+    stress (tau_xy, tau_xz) per unit warping torque (Pa per N*m) at the mesh nodes; zero where the
+    warping constant is (solver noise)."""
+    if warping_constant == 0.0:
+        return np.zeros(len(found.omega)), np.zeros((len(found.omega), 2))
+    omega = found.omega / MM**2 / warping_constant
+    return omega, found.tau_warping[:, ::-1] * [1.0, -1.0] * _MOMENT_TO_PA
 
 
 def _without_noise(s: dict[str, float], geometric: dict[str, float]) -> dict[str, float]:

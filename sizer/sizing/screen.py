@@ -24,6 +24,7 @@ from sizer.checks import StationStresses, full_field_stresses, span_points
 from sizer.checks.deflection import limit_entries, limited_spans, measured
 from sizer.checks.buckling import given_euler_loads
 from sizer.checks.reduction import johnson
+from sizer.checks.torsion import may_twist
 from sizer.design import oriented_stiffness
 from sizer.model import DeflectionLimit, Material, Member
 from sizer.sizing.candidates import Candidate, CandidateTable
@@ -220,19 +221,20 @@ def _limited_deflections(entry: DeflectionLimit, base: MemberSolution, n: int) -
             for (span, limit), loads, per_mass in zip(pairs, zero, unit)]
 
 
-def prove_lower_bounds(candidate: Candidate, found: Screen, material: Material) -> None:
+def prove_lower_bounds(candidate: Candidate, found: Screen, material: Material, member: Member) -> None:
     """The stress field at the screen's worst station of each stress check estimated to fail: true
     lower bounds of the full check (it uses these stations too; the interaction with upper bounds
     of its allowables: Fa on the given buckling lengths only, Fb unreduced). The full field once the
     candidate's warping tier is known; before, the normal stresses at the outline's corners, which
     give bending and the interaction as the full field does (sizer.sections.geometric); the shear
-    and equivalent estimates wait for the warping tier (NaN until then, see `rescreen`)."""
+    and equivalent estimates wait for the warping tier (NaN until then, see `rescreen`). None for a
+    section the member's loads may twist (their torsion is the full check's alone)."""
     from sizer.sections import unit_stress_field
     from sizer.sections.geometric import normal_stress_field
 
     wanted = [name for name, values in found.estimate.items() if values[candidate.index] > 1.0 and name not in candidate.bounds]
-    if not wanted:
-        return
+    if not wanted or may_twist(member, candidate.spec.shape):
+        return  # torsion of this section (warping, torques across it) is not in the screen's stations: no proof from them
     rows = sorted({int(found.worst[name][candidate.index]) for name in wanted})
     actions = (found.loads[rows] + candidate.mass_per_length * found.per_mass[rows])[None]
     field = unit_stress_field(candidate.spec) if found.table.known[candidate.index] else normal_stress_field(candidate.spec)

@@ -83,7 +83,7 @@ class Search:
             self.reveal([candidate])
             design = design_for(self.member, self.material, candidate, self.base)
             candidate.design = design
-            candidate.report = check_design(design, unit_stress_field(candidate.spec), stability=self.model)
+            candidate.report = check_design(design, unit_stress_field(candidate.spec), stability=self.model, validate_across=False)
             if learn and self.stability is not None and candidate.report.stability is not None:
                 self.stability.add(candidate.report.stability)
         return candidate.report
@@ -119,7 +119,7 @@ class Search:
             self.stability_bounds(self.ahead(candidate))
             if candidate.certainly_fails:
                 return True
-        prove_lower_bounds(candidate, self.found, self.material)
+        prove_lower_bounds(candidate, self.found, self.material, self.member)
         if candidate.certainly_fails:
             return True
         if "local" not in candidate.bounds:

@@ -38,6 +38,8 @@ class Station:
     side: str
     check: str
     actions: np.ndarray
+    bimoment: float = 0.0  # B, N*m^2
+    warping_torque: float = 0.0  # Tw, N*m (T in actions is the total torque)
 
 
 def hand_station(design: Design, report: CheckReport, checks: tuple[str, ...] = STRESS_CHECKS) -> Station:
@@ -50,9 +52,17 @@ def hand_station(design: Design, report: CheckReport, checks: tuple[str, ...] = 
     else:
         (combination, x), check = governing_cut(design, report), "largest bending moment"
     side = cut_side(design, report, combination, x)
+    from sizer.checks.torsion import torsion_actions
+
     member_actions = design.solution.actions(combination, [x], side)
+    torsion = torsion_actions(design, np.array([x]), np.array([side]))
+    row = design.solution.combination_names.index(combination)
+    member_actions[:, 3] = torsion.torque[row]
     actions = to_section_axes(member_actions, design.member.orientation)[0]
-    return Station(combination, x, side, check, np.where(np.abs(actions) < 1e-9, 0.0, actions))
+    scale = 1e-9 * max(1.0, abs(float(torsion.torque[row, 0])) * design.member.length)  # round-off of the twist solve
+    bimoment, warping_torque = (float(v[row, 0]) for v in (torsion.bimoment, torsion.warping_torque))
+    return Station(combination, x, side, check, np.where(np.abs(actions) < 1e-9, 0.0, actions),
+                   bimoment if abs(bimoment) > scale else 0.0, warping_torque if abs(warping_torque) > scale else 0.0)
 
 
 def neutral_axis_cut(design: Design, across: str) -> tuple[float, float]:
@@ -112,7 +122,9 @@ def by_hand_lines(design: Design, station: Station, unit_field: Any, system: str
     """(what, the formula with numbers, the full field and how it compares) for each stress."""
     props = design.props
     N, Vy, Vz, T, My, Mz = (float(v) for v in station.actions)
-    _, tau = unit_field.stresses(N=N, Vy=Vy, Vz=Vz, T=T, My=My, Mz=Mz)
+    B, Tw = station.bimoment, station.warping_torque
+    _, tau = unit_field.stresses(N=N, Vy=Vy, Vz=Vz, T=T - Tw, My=My, Mz=Mz)
+    tau = tau + Tw * unit_field.warping_tau
     bend_only, _ = unit_field.stresses(My=My, Mz=Mz)
     f, s = units.fmt, system
     rows = []
@@ -127,6 +139,14 @@ def by_hand_lines(design: Design, station: Station, unit_field: Any, system: str
         text += (f"; fby = |My| / Sy = {f(abs(My), 'moment', s)} / {f(min(props.Sy_plus, props.Sy_minus), 'modulus_section', s)} = "
                  f"{_stress(fby, s)}; fbz + fby = {_stress(fbz + fby, s)}")
     rows.append(("bending", text, f"peak {_stress(field_bending, s)}: {_pct(fbz + fby, field_bending)}"))
+    if B:
+        omega_max = float(unit_field.warping_peaks[0]) * props.Iw
+        warping = abs(B) * omega_max / props.Iw
+        with_warping = float(np.abs(bend_only + B * unit_field.warping_sigma).max(initial=0.0))
+        rows.append(("warping", f"σw = |B| ω_max / Iw = {f(abs(B), 'bimoment', s)} x {omega_max * 1e6:.4g} mm² / "
+                                f"{f(props.Iw, 'warping', s)} = {_stress(warping, s)}; at most fbz + fby + σw = {_stress(fbz + fby + warping, s)}",
+                     f"bending and warping together: peak {_stress(with_warping, s)} (ω and bending stress peak at different points, "
+                     "or with opposite signs)"))
     shear_parts, hand_shear = [], 0.0
     for name, V, inertia, across, label in (("Vy", Vy, props.Iz, "y", "Iz"), ("Vz", Vz, props.Iy, "z", "Iy")):
         if V == 0:
@@ -137,10 +157,11 @@ def by_hand_lines(design: Design, station: Station, unit_field: Any, system: str
         shear_parts.append(f"τ = |{name}| Q / ({label} t) = {f(abs(V), 'force', s)} x {f(Q, 'modulus_section', s)} / "
                            f"({f(inertia, 'inertia', s)} x {f(t, 'dimension', s)}) = {_stress(value, s)}")
     torsion = torsion_formula(design)
-    if T and torsion is not None:
-        value = abs(T) * torsion[1]
+    if T - Tw and torsion is not None:
+        value = abs(T - Tw) * torsion[1]
         hand_shear += value
-        shear_parts.append(f"{torsion[0]}: {f(abs(T), 'moment', s)} gives {_stress(value, s)}")
+        named = "the Saint-Venant torque T - Tw " if Tw else ""
+        shear_parts.append(f"{torsion[0]}: {named}{f(abs(T - Tw), 'moment', s)} gives {_stress(value, s)}")
     if shear_parts:
         field_shear = float(np.hypot(tau[:, 0], tau[:, 1]).max(initial=0.0))
         text = "; ".join(shear_parts) + (f"; sum {_stress(hand_shear, s)}" if len(shear_parts) > 1 else "")
@@ -203,5 +224,28 @@ def by_hand_section(design: Design, report: CheckReport, system: str) -> str:
                   "It differs from Euler's load on "
                   "the member length where the axial force varies along the member, where supports or restraints are not pins, or "
                   "where the mode twists.</p>")
-    return (f'<section id="by-hand"><h2>6. The governing station by hand</h2>{intro}{table}{why}'
+    return (f'<section id="by-hand"><h2>6. The governing station by hand</h2>{intro}{table}{why}{torsion_paragraph(design, report, system)}'
             f"<h3>Column buckling by formula</h3><ul>{columns}</ul>{solved}</section>")
+
+
+TORSION_WORDS = {"torque": ("torque T", "moment"), "saint_venant_torque": ("Saint-Venant torque T - Tw", "moment"),
+                 "warping_torque": ("warping torque Tw", "moment"), "bimoment": ("bimoment B", "bimoment")}
+
+
+def torsion_paragraph(design: Design, report: CheckReport, system: str) -> str:
+    """The member's torsion in words: where the loads act across the section, the torsion parameter
+    and the largest T, T - Tw, Tw and B with where each is ("" when nothing twists the member)."""
+    summary = report.torsion
+    if summary is None:
+        return ""
+    offset = math.hypot(*summary.centroid_offset)
+    parts = ", ".join(f"{TORSION_WORDS[p.name][0]} {_fmt(p.value, TORSION_WORDS[p.name][1], system)} at x = {_fmt(p.at, 'length', system)} "
+                      f"({p.combination})" for p in summary.peaks)
+    if summary.parameter:
+        solved = (f"Twist by non-uniform torsion, torsion parameter a = √(E Iw / G J) = {_fmt(summary.parameter, 'length', system)}: "
+                  "the bimoment B = E Iw φ″ gives the warping normal stress B ω / Iw and the warping torque Tw = -E Iw φ‴ the warping "
+                  "shear, both in the full field.")
+    else:
+        solved = "Twist by uniform torsion (G J): the section's warping settles within about its own size and is left out."
+    where = f"the centroid is {_fmt(offset, 'dimension', system)} from the shear centre" if offset else "the centroid is the shear centre"
+    return f"<h3>Torsion</h3><p>{_e(solved)} Loads act across the section where `across` says ({_e(where)}). Largest values: {_e(parts)}.</p>"
