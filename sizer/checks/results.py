@@ -48,6 +48,7 @@ class CheckReport:
     nodes: int = 0
     stability: Any = None  # sizer.checks.stability.StabilityReport: load factors and buckled shapes
     restraints: list = field(default_factory=list)  # sizer.checks.bracing.BraceDemand: what each restraint must carry
+    reserve: Any = None  # sizer.checks.reserve.Reserve, where found (check, size, schedules)
 
     @property
     def made(self) -> list[CheckResult]:

@@ -15,6 +15,7 @@ from sizer.checks import CheckReport, check_design
 from sizer.model import Material, Member, Stiffness
 from sizer.sections.properties import AnalysisWorkers
 from sizer.sizing.candidates import Candidate, CandidateTable, candidate_sections, design_for
+from sizer.sizing.cost import Ranking
 from sizer.sizing.screen import Screen, local_lower_bound, prove_lower_bounds, rescreen, screen
 from sizer.sizing.stability_bounds import StabilityBounds
 from sizer.stability import MemberStability
@@ -31,6 +32,7 @@ class SizingResult:
     chosen: Candidate | None
     strongest: Candidate | None = None  # when nothing passes: the least utilized on the full check
     notes: list[str] = field(default_factory=list)
+    ranking: Ranking = field(default_factory=Ranking)  # the order of `candidates` (sizer.sizing.cost)
 
     @property
     def full_checks(self) -> int:
@@ -190,18 +192,21 @@ class Search:
 
 def size_member(member: Member, catalogue: Any, material: Material, families: Sequence[str] = (),
                 max_depth: float | None = None, max_width: float | None = None, top: int = 3,
-                progress: Callable[[int, int, str], None] | None = None) -> SizingResult:
-    """The lightest candidate that passes every check on the full stress field, with runners-up
-    (`progress` hears of the warping tiers computed: only for the sections whose verdict needs them)."""
+                progress: Callable[[int, int, str], None] | None = None, ranking: Ranking | None = None) -> SizingResult:
+    """The first candidate in the order of `ranking` (default: the lightest) that passes every check
+    on the full stress field, with runners-up (`progress` hears of the warping tiers computed: only
+    for the sections whose verdict needs them)."""
     with AnalysisWorkers(progress=progress) as workers:
-        return _size(member, catalogue, material, families, max_depth, max_width, top, workers)
+        return _size(member, catalogue, material, families, max_depth, max_width, top, workers, ranking or Ranking())
 
 
 def _size(member: Member, catalogue: Any, material: Material, families: Sequence[str], max_depth: float | None,
-          max_width: float | None, top: int, workers: AnalysisWorkers) -> SizingResult:
-    candidates, table = candidate_sections(catalogue, member, material, families, max_depth, max_width, lazy=True)
+          max_width: float | None, top: int, workers: AnalysisWorkers, ranking: Ranking) -> SizingResult:
+    candidates, table = candidate_sections(catalogue, member, material, families, max_depth, max_width, lazy=True, ranking=ranking)
     count = f"{len(candidates)} candidate section" + ("" if len(candidates) == 1 else "s")
     notes = [f"{count} after filters, each with its own self-weight, in material {material.name} (the member's)."]
+    notes += ranking.notes(any(not c.costing.available for c in candidates), any(c.costing.cost is None for c in candidates),
+                           any(c.costing.terms.stock_lengths for c in candidates))
     search = Search(member, material, candidates, table, workers)
     if member.has_springs:
         search.compute(candidates)
@@ -216,11 +221,13 @@ def _size(member: Member, catalogue: Any, material: Material, families: Sequence
                      "so far); every verdict of a section shown in full rests on the full stress-field check.")
     chosen = search.first_passing()
     search.confirm_runners_up(chosen, top)
+    if chosen is not None and not chosen.costing.available:
+        notes.append(f"No available section passes: the choice {chosen.name} is {chosen.costing.unavailable}.")
     strongest = None
     if chosen is None:
         search.stability_bounds(candidates)
         strongest = search.least_utilized()
-    return SizingResult(member, material, candidates, chosen, strongest, notes)
+    return SizingResult(member, material, candidates, chosen, strongest, notes, ranking)
 
 
 def prepare_screen(search: Search, table: CandidateTable) -> None:

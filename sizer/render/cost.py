@@ -1,0 +1,58 @@
+"""Cost, bars to order and the reserve factor in words and in JSON, shared by `size`, `check` and
+schedules (sizer.sizing.cost, sizer.checks.reserve)."""
+
+from __future__ import annotations
+
+from typing import Any
+
+from sizer import units
+
+
+def money(value: float | None, currency: str | None) -> str:
+    """A cost with its currency ("412.50 EUR"); "no price" for None."""
+    if value is None:
+        return "no price"
+    return f"{value:,.2f} {currency or '(no currency)'}"
+
+
+def bars_text(order: Any, system: str = "si") -> str:
+    """The bars of a sizer.sizing.cost.BarOrder in words: "2 x 6 m + 1 x 12 m (offcut 0.6 m)"."""
+    if order is None:
+        return "not available in one bar"
+    if order.cut_to_length:
+        return f"{order.pieces} x {units.fmt(order.piece_length, 'length', system)} cut to length"
+    bars = " + ".join(f"{count} x {units.fmt(length, 'length', system)}" for length, count in order.bars)
+    return f"{bars} (offcut {units.fmt(order.offcut, 'length', system)})"
+
+
+def bars_json(order: Any) -> dict[str, Any] | None:
+    """A BarOrder in SI (m): pieces, piece length, bars by stock length, metres bought, offcut."""
+    if order is None:
+        return None
+    return {"pieces": order.pieces, "piece_length": order.piece_length, "cut_to_length": order.cut_to_length,
+            "bars": [{"length": length, "count": count} for length, count in order.bars],
+            "metres": order.metres, "offcut": order.offcut}
+
+
+def costing_json(costing: Any) -> dict[str, Any]:
+    """A candidate's cost entries (sizer.sizing.cost.Costing) for the JSON documents."""
+    if costing is None:
+        return {}
+    terms = costing.terms
+    return {"cost": costing.cost, "cost_per_kg": terms.cost_per_kg, "stocked": terms.is_stocked,
+            "available": costing.available, "unavailable": costing.unavailable or None, "bars": bars_json(costing.order)}
+
+
+def reserve_sentence(reserve: Any) -> str:
+    """The reserve factor for a verdict line ("" when not found)."""
+    if reserve is None or reserve.combination is None:
+        return ""
+    from rich.markup import escape
+
+    if reserve.factor is None:
+        return f" Reserve factor: unbounded in {escape(reserve.combination)}."
+    if reserve.factor < 1:
+        return (f" Reserve factor [bold]{reserve.factor:.3f}[/]: it would pass only with every load of {escape(reserve.combination)} "
+                "(self-weight included) times this factor or less.")
+    return (f" Reserve factor [bold]{reserve.factor:.3f}[/]: every load of {escape(reserve.combination)} "
+            "(self-weight included) may be multiplied by this and every check still passes.")
