@@ -56,3 +56,21 @@ def reserve_sentence(reserve: Any) -> str:
                 "(self-weight included) times this factor or less.")
     return (f" Reserve factor [bold]{reserve.factor:.3f}[/]: every load of {escape(reserve.combination)} "
             "(self-weight included) may be multiplied by this and every check still passes.")
+
+
+def price_text(terms: Any, currency: str | None) -> str:
+    """A section's price per kg ("1.45 EUR/kg"; "—" when not given)."""
+    return f"{terms.cost_per_kg:g} {currency or '(no currency)'}/kg" if terms.cost_per_kg is not None else "—"
+
+
+def stock_text(terms: Any, system: str = "si") -> str:
+    """Whether a section is stocked, and in which bar lengths."""
+    lengths = ("bars of " + ", ".join(units.fmt(length, "length", system) for length in terms.stock_lengths)
+               if terms.stock_lengths else "cut to length")
+    return f"stocked, {lengths}" if terms.is_stocked else f"not stocked ({lengths})"
+
+
+def purchase_json(terms: Any, currency: str | None) -> dict[str, Any]:
+    """A section's purchase terms (its own, else its family's) in SI (m)."""
+    return {"cost_per_kg": terms.cost_per_kg, "currency": currency, "stocked": terms.is_stocked,
+            "stock_lengths": list(terms.stock_lengths) if terms.stock_lengths else None}
