@@ -192,9 +192,10 @@ def check_outcome(design: Any, report: Any, notes: list[str], units: str = "si")
                         list(report.checks), notes, design, report, units=units, reserve_factor=reserve)
 
 
-def check(member: MemberLike, section: str | None = None, catalogue: Sequence[str | Path] = (), units: str = "si") -> CheckOutcome:
+def check(member: MemberLike, section: str | None = None, catalogue: Sequence[str | Path] = (), units: str = "si",
+          reserve: bool = True) -> CheckOutcome:
     """Every check of one section (the member's own, or `section` from the catalogue), on its full
-    cross-section stress field."""
+    cross-section stress field; with `reserve`, its reserve factor too (a few more full checks)."""
     from sizer.checks import check_design
     from sizer.design import prepare
     from sizer.render.common import member_notes, small_deflection_cautions
@@ -203,7 +204,8 @@ def check(member: MemberLike, section: str | None = None, catalogue: Sequence[st
     member = as_member(member)
     design = prepare(member, [Path(path) for path in catalogue], section, need_section=True)
     report = check_design(design, unit_stress_field(design.spec))
-    add_reserve(design, report)
+    if reserve:
+        add_reserve(design, report)
     notes = member_notes(member) + design.notes + report.notes + small_deflection_cautions(design.solution)
     return check_outcome(design, report, notes, units)
 
@@ -274,12 +276,12 @@ class SizeOutcome:
 
 def size(member: MemberLike, catalogue: Sequence[str | Path] = (), families: Sequence[str] = (),
          max_depth: float | str | None = None, max_width: float | str | None = None, top: int = 3, units: str = "si",
-         progress: Progress | None = None, by: str = "mass", include_unstocked: bool = False) -> SizeOutcome:
+         progress: Progress | None = None, by: str = "mass", include_unstocked: bool = False, reserve: bool = True) -> SizeOutcome:
     """The lightest catalogue section that passes every check (or the cheapest, or the shallowest:
     `by` "mass", "cost" or "depth"), the ones ranked before it that fail (why) and the next ones
     that pass (`top` each side); sections not stocked or not available in one bar rank after the
     others unless `include_unstocked`. `progress(done, total, name)` hears of section properties
-    computed first."""
+    computed first. With `reserve`, the chosen section's reserve factor too (a few more full checks)."""
     from sizer.design import catalogue_for, resolve_material
     from sizer.errors import InputError
     from sizer.render.common import member_notes, small_deflection_cautions
@@ -299,7 +301,7 @@ def size(member: MemberLike, catalogue: Sequence[str | Path] = (), families: Seq
     result = size_member(member, catalogue_data, material, families, depth, width, top, progress, ranking)
     notes = member_notes(member) + result.notes
     chosen = result.chosen
-    if chosen is not None:
+    if chosen is not None and reserve:
         add_reserve(chosen.design, chosen.report)
         notes += chosen.report.notes
     summaries = [CandidateSummary(**{key: entry[key] for key in ("section", "mass_per_length", "utilization", "passes", "governing", "basis", "cost")})

@@ -16,13 +16,13 @@ def money(value: float | None, currency: str | None) -> str:
 
 
 def bars_text(order: Any, system: str = "si") -> str:
-    """The bars of a sizer.sizing.cost.BarOrder in words: "2 x 6 m + 1 x 12 m (offcut 0.6 m)"."""
+    """The bars of a sizer.sizing.cost.BarOrder in words: "bars 1 x 12.00 m + 1 x 6.000 m, offcut 0.600 m"."""
     if order is None:
         return "not available in one bar"
     if order.cut_to_length:
         return f"{order.pieces} x {units.fmt(order.piece_length, 'length', system)} cut to length"
     bars = " + ".join(f"{count} x {units.fmt(length, 'length', system)}" for length, count in order.bars)
-    return f"{bars} (offcut {units.fmt(order.offcut, 'length', system)})"
+    return f"bars {bars}, offcut {units.fmt(order.offcut, 'length', system)}"
 
 
 def bars_json(order: Any) -> dict[str, Any] | None:
@@ -49,13 +49,14 @@ def reserve_sentence(reserve: Any) -> str:
         return ""
     from rich.markup import escape
 
+    combination = escape(reserve.combination)
     if reserve.factor is None:
-        return f" Reserve factor: unbounded in {escape(reserve.combination)}."
+        return f" Reserve factor: unbounded in combination {combination}."
     if reserve.factor < 1:
-        return (f" Reserve factor [bold]{reserve.factor:.3f}[/]: it would pass only with every load of {escape(reserve.combination)} "
-                "(self-weight included) times this factor or less.")
-    return (f" Reserve factor [bold]{reserve.factor:.3f}[/]: every load of {escape(reserve.combination)} "
-            "(self-weight included) may be multiplied by this and every check still passes.")
+        return (f" Reserve factor [bold]{reserve.factor:.3f}[/]: every check would pass only with every load of combination "
+                f"{combination}, self-weight included, times {reserve.factor:.3f} or less.")
+    return (f" Reserve factor [bold]{reserve.factor:.3f}[/]: every check still passes with every load of combination "
+            f"{combination}, self-weight included, times {reserve.factor:.3f}.")
 
 
 def price_text(terms: Any, currency: str | None) -> str:

@@ -138,7 +138,7 @@ class Ranking:
         elif any_stock:
             notes.append("A member longer than every stock length of a section cannot be bought in one piece (no splice).")
         if any_unavailable:
-            notes.append("Sections not stocked or longer than every stock length are shown but ranked after the available ones"
+            notes.append("Sections not stocked or longer than every stock length are shown but ranked after the available ones."
                          if not self.include_unstocked else "Sections not stocked or not available in one bar are ranked with the others (--include-unstocked).")
         return notes
 
