@@ -15,13 +15,14 @@ from sizer.sizing import Candidate, SizingResult
 
 
 def shown_candidates(result: SizingResult, top: int) -> list[Candidate]:
-    """The `top` lighter failing sections next to the choice, the choice, and the heavier ones checked."""
+    """The `top` failing sections ranked next before the choice, the choice, the next ones that pass,
+    and those not available that would otherwise rank before the choice."""
     if result.chosen is None:
         return [c for c in result.candidates if c.report is not None]
     position = result.candidates.index(result.chosen)
     lighter = result.candidates[max(0, position - top):position]
-    heavier = [c for c in result.candidates[position + 1:] if c.report is not None and c.report.passes][:top]
-    return lighter + [result.chosen] + heavier
+    heavier = [c for c in result.candidates[position + 1:] if c.report is not None and c.report.passes and c.costing.available][:top]
+    return lighter + [result.chosen] + heavier + result.unavailable
 
 
 def candidate_entry(candidate: Candidate) -> dict[str, Any]:
@@ -39,13 +40,15 @@ def candidate_entry(candidate: Candidate) -> dict[str, Any]:
 
 
 def listed_candidates(result: SizingResult) -> list[Candidate]:
-    """Every section lighter than the choice (each with its governing check), the choice, and the
-    heavier sections confirmed to pass; every candidate when nothing passes."""
+    """Every section ranked before the choice (each with its governing check), the choice, the
+    sections after it confirmed to pass, and those not available that would otherwise rank before
+    the choice; every candidate when nothing passes."""
     chosen = result.chosen
     if chosen is None:
         return list(result.candidates)
     position = result.candidates.index(chosen)
-    return result.candidates[:position + 1] + [c for c in result.candidates[position + 1:] if c.report is not None and c.report.passes]
+    after = [c for c in result.candidates[position + 1:] if (c.report is not None and c.report.passes) or c in result.unavailable]
+    return result.candidates[:position + 1] + after
 
 
 def size_json(result: SizingResult, notes: list[str]) -> dict[str, Any]:
@@ -103,7 +106,7 @@ def candidates_ledger(result: SizingResult, top: int, system: str) -> Ledger:
         cost_cell = [money(candidate.costing.cost, ranking.currency) if candidate.costing.available or candidate.costing.cost is not None
                      else "n/a"] if costs else []
         notes = [f"chosen: {RANKED[ranking.by][1]} that passes"] if is_chosen else []
-        if costs:
+        if costs and candidate.costing.order is not None:
             notes.append(escape(bars_text(candidate.costing.order, system)))
             if not candidate.costing.available:
                 notes.append(escape(candidate.costing.unavailable) + ": ranked after the available sections"

@@ -93,6 +93,7 @@ class Candidate:
     report: CheckReport | None = None  # full check, where made
     design: Design | None = None  # the solved design of that full check
     costing: Costing | None = None  # its cost for the member and whether it is available (sizer.sizing.cost)
+    rank: tuple = ()  # its sort key (sizer.sizing.cost.Ranking.key)
 
     @cached_property
     def props(self) -> Any:
@@ -167,8 +168,10 @@ def candidate_sections(catalogue: Any, member: Member, material: Material, famil
     kept = np.flatnonzero(keep).tolist()
     costs = {i: costing(catalogue.purchase(specs[i]), float(mass[i]), member.length) for i in kept}
     installed_depth = ranking_depth(column, member.orientation)
-    order = sorted(kept, key=lambda i: ranking.key(specs[i].name, float(mass[i]), float(installed_depth[i]), costs[i]))
-    candidates = [Candidate(specs[i].name, specs[i], float(mass[i]), material.density, k, costing=costs[i]) for k, i in enumerate(order)]
+    keys = {i: ranking.key(specs[i].name, float(mass[i]), float(installed_depth[i]), costs[i]) for i in kept}
+    order = sorted(kept, key=keys.__getitem__)
+    candidates = [Candidate(specs[i].name, specs[i], float(mass[i]), material.density, k, costing=costs[i], rank=keys[i])
+                  for k, i in enumerate(order)]
     return candidates, CandidateTable({name: values[order] for name, values in column.items()}, mass[order], tuple(specs[i] for i in order),
                                       np.full(len(order), not lazy))
 

@@ -33,6 +33,7 @@ class SizingResult:
     strongest: Candidate | None = None  # when nothing passes: the least utilized on the full check
     notes: list[str] = field(default_factory=list)
     ranking: Ranking = field(default_factory=Ranking)  # the order of `candidates` (sizer.sizing.cost)
+    unavailable: list[Candidate] = field(default_factory=list)  # not available, ranked after the choice for that alone
 
     @property
     def full_checks(self) -> int:
@@ -189,6 +190,17 @@ class Search:
                 break
             heavier += self.passes_in_full(candidate, learn=False)
 
+    def unavailable_ahead(self, chosen: Candidate | None, top: int) -> list[Candidate]:
+        """Up to `top` sections not available (not stocked, or longer than every stock length) that rank
+        after the choice only for that reason, each judged as the others are (a proven lower bound or the
+        full check): what stocking them would offer."""
+        if chosen is None:
+            return []
+        found = [c for c in self.candidates[self.candidates.index(chosen) + 1:] if not c.costing.available and c.rank[1:] < chosen.rank[1:]]
+        for candidate in found[:top]:
+            self.passes_in_full(candidate, learn=False)
+        return found[:top]
+
 
 def size_member(member: Member, catalogue: Any, material: Material, families: Sequence[str] = (),
                 max_depth: float | None = None, max_width: float | None = None, top: int = 3,
@@ -221,13 +233,14 @@ def _size(member: Member, catalogue: Any, material: Material, families: Sequence
                      "so far); every verdict of a section shown in full rests on the full stress-field check.")
     chosen = search.first_passing()
     search.confirm_runners_up(chosen, top)
+    unavailable = search.unavailable_ahead(chosen, top)
     if chosen is not None and not chosen.costing.available:
         notes.append(f"No available section passes: the choice {chosen.name} is {chosen.costing.unavailable}.")
     strongest = None
     if chosen is None:
         search.stability_bounds(candidates)
         strongest = search.least_utilized()
-    return SizingResult(member, material, candidates, chosen, strongest, notes, ranking)
+    return SizingResult(member, material, candidates, chosen, strongest, notes, ranking, unavailable)
 
 
 def prepare_screen(search: Search, table: CandidateTable) -> None:
