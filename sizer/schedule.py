@@ -420,9 +420,7 @@ def schedule_totals(rows: list[dict]) -> dict:
 
 def schedule_notes(result: ScheduleResult) -> list[str]:
     """The run's own assumptions: how and where the rows ran; sizing rows with no passing section."""
-    from sizer.schedule_cost import ORDER_NOTE
-
-    notes = [result.summary.note("members"), ORDER_NOTE]
+    notes = [result.summary.note("members")]
     unsized = [row["mark"] for row in result.rows if row["section"] is None]
     if unsized:
         notes.append("No catalogue section passes for " + ", ".join(unsized) + ": those rows are left out of the totals.")
@@ -435,4 +433,7 @@ def schedule_json(result: ScheduleResult) -> dict:
 
     order = {row.mark: index for index, row in enumerate(result.schedule.rows)}
     errors = [{"mark": error.mark, "where": error.where, "message": error.message} for error in sorted(result.errors, key=lambda e: order[e.mark])]
-    return schedule_document(result.schedule.title, result.rows, schedule_totals(result.rows), errors, schedule_notes(result))
+    from sizer.schedule_cost import cost_notes
+
+    totals = schedule_totals(result.rows)
+    return schedule_document(result.schedule.title, result.rows, totals, errors, schedule_notes(result) + cost_notes(totals))

@@ -73,8 +73,9 @@ def section_orders(rows: list[dict]) -> dict[str, dict[str, Any]]:
 
 
 def add_costs(totals: dict, rows: list[dict]) -> None:
-    """The totals' cost (None when a section has no price or no bar long enough), currency and, per
-    section, its cost and bars to order."""
+    """The totals' cost (None when a section has no price or no bar long enough), currency, whether
+    the catalogue gives prices or stock lengths for any of them (`ordering`: else every piece is
+    simply bought cut to length) and, per section, its cost and bars to order."""
     orders = section_orders(rows)
     for entry in totals["by_section"]:
         entry.update(orders.get(entry["section"], {}))
@@ -83,3 +84,21 @@ def add_costs(totals: dict, rows: list[dict]) -> None:
     totals["cost"] = sum(costs) if costs and all(cost is not None for cost in costs) else None
     totals["priced_cost"] = sum(cost for cost in costs if cost is not None)
     totals["currency"] = next(iter(currencies)) if len(currencies) == 1 else None
+    totals["ordering"] = any(entry.get("cost") is not None or entry.get("not_available")
+                             or not all(bar["cut_to_length"] for bar in entry.get("bars", [])) for entry in totals["by_section"])
+
+
+def cost_notes(totals: dict) -> list[str]:
+    """How the bars to order were found and what the totals' cost leaves out (sections without a
+    price, pieces no stock length holds), where the catalogue gives prices or stock lengths."""
+    if not totals.get("ordering"):
+        return []
+    notes = [ORDER_NOTE]
+    unpriced = [entry["section"] for entry in totals["by_section"] if entry.get("cost") is None and not entry.get("not_available")]
+    if unpriced and totals.get("priced_cost"):
+        notes.append("The total cost leaves out the sections without a price (cost_per_kg): " + ", ".join(unpriced) + ".")
+    for entry in totals["by_section"]:
+        if entry.get("not_available"):
+            lengths = ", ".join(f"{length:g} m" for length in entry["not_available"])
+            notes.append(f"{entry['section']}: pieces of {lengths} are longer than every stock length (no splice): not in the bars to order.")
+    return notes

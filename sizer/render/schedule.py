@@ -47,15 +47,22 @@ def schedule_csv(document: dict) -> str:
     for error in document["bad_rows"]:
         writer.writerow([error["mark"], "", "", "", "", "", f"bad input: {error['message']}"])
     totals = document["totals"]
-    writer.writerow([])
-    writer.writerow(ORDER_CSV_COLUMNS)
-    for entry in totals["by_section"]:
+    if orders_to_show(totals):
+        writer.writerow([])
+        writer.writerow(ORDER_CSV_COLUMNS)
+    for entry in totals["by_section"] if orders_to_show(totals) else ():
         writer.writerow([entry["section"], entry["quantity"], repr(entry["length"]), repr(entry["mass"]),
                          "" if entry.get("cost") is None else repr(entry["cost"]), totals.get("currency") or "",
                          bars_to_order_text(entry), repr(entry.get("metres", 0.0)), repr(entry.get("offcut", 0.0))])
     for caution in CAUTIONS:
         writer.writerow([f"# {caution}"])
     return out.getvalue()
+
+
+def orders_to_show(totals: dict) -> bool:
+    """Whether the catalogue gave prices or stock lengths for a section of the totals (then the cost
+    and the bars to order are shown)."""
+    return bool(totals.get("ordering"))
 
 
 def bars_to_order_text(entry: dict, system: str = "si") -> str:
@@ -144,8 +151,7 @@ def _totals_table(totals: dict) -> Any:
     from rich.table import Table
 
     table = Table(title="Totals by section (for ordering)", title_justify="left", header_style="bold", box=box.SIMPLE_HEAD, pad_edge=False)
-    ordering = any(entry.get("cost") is not None or entry.get("not_available") or not all(bar["cut_to_length"] for bar in entry.get("bars", []))
-                   for entry in totals["by_section"])  # the catalogue gives prices or stock lengths
+    ordering = orders_to_show(totals)
     for name, justify in (("section", "left"), ("pieces", "right"), ("total length", "right"), ("mass", "right")) + (
             (("cost", "right"), ("bars to order", "left")) if ordering else ()):
         table.add_column(name, justify=justify, no_wrap=name != "bars to order")
@@ -155,7 +161,7 @@ def _totals_table(totals: dict) -> Any:
                       *((_money(entry.get("cost"), currency), bars_to_order_text(entry)) if ordering else ()))
     total_cost = totals.get("cost")
     cost_text = _money(total_cost, currency) if total_cost is not None else (
-        f"≥ {_money(totals.get('priced_cost'), currency)} (some unpriced)" if totals.get("priced_cost") else "—")
+        f"≥ {_money(totals.get('priced_cost'), currency)}" if totals.get("priced_cost") else "—")
     table.add_row("[bold]all[/]", str(sum(e["quantity"] for e in totals["by_section"])),
                   units.fmt(sum(e["length"] for e in totals["by_section"]), "length"), f"[bold]{_number(totals['mass'], 0)} kg[/]",
                   *((f"[bold]{cost_text}[/]", "") if ordering else ()))
