@@ -400,3 +400,18 @@ def test_reserve_in_size_and_the_terminal(priced: Path, tmp_path: Path) -> None:
     assert sized.to_json()["reserve_factor"] == sized.reserve_factor
     result = run("check", path, "--section", sized.section, "--catalogue", priced)
     assert f"Reserve factor {checked.reserve_factor:.3f}" in re.sub(r"\s+", " ", result.stdout)
+
+
+def test_reserve_on_a_pattern_arrangement_is_one_over_utilization(priced: Path, tmp_path: Path) -> None:
+    """A patterned continuous beam: the governing combination is one arrangement; its checks are
+    linear in its loads (common practice), so the reserve is 1 / utilization; deflection limits that
+    name the given combination still apply to the arrangement alone."""
+    from test_patterns import continuous_beam
+
+    path = tmp_path / "member.toml"
+    path.write_text(continuous_beam([4.0, 3.0, 4.0], 1500.0, extra='[checks]\ndeflection_limit = 300\ndeflection_combinations = ["all"]\n',
+                                    section="BOX 100x60x4"), encoding="utf-8")
+    outcome = api.check(path, None, [priced])
+    assert outcome.report.reserve.combination != "all"  # an arrangement of it
+    assert outcome.reserve_factor == pytest.approx(1 / outcome.utilization, rel=0.005)
+    assert outcome.reserve_factor <= (1 / outcome.utilization) * (1 + 1e-6)

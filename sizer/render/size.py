@@ -84,17 +84,26 @@ def _reserve_factor(chosen: Candidate | None) -> float | None:
 RANKED = {"mass": ("mass per length", "the lightest"), "cost": ("cost", "the cheapest"), "depth": ("depth", "the shallowest")}
 
 
+def ranked_by(result: SizingResult) -> str:
+    """The ranking in effect: --by cost without any priced candidate ranks by mass (its notes say so)."""
+    by = result.ranking.by
+    if by == "cost" and all(c.costing is None or c.costing.cost is None for c in result.candidates):
+        return "mass"
+    return by
+
+
 def candidates_ledger(result: SizingResult, top: int, system: str) -> Ledger:
     """Sections ranked before the choice that fail (with why), the choice, and the next ones that
     pass. A utilization from the screen is a proven lower bound, shown with ">=" before it. With
     costs: the member's cost in each section and the bars it takes."""
     from rich.markup import escape
 
-    ranking = result.ranking
-    costs = ranking.by == "cost" or any(c.costing is not None and (c.costing.cost is not None or not c.costing.available)
-                                        for c in result.candidates)
-    columns = [Column("section"), Column("mass", right=True)] + ([Column("cost", right=True)] if costs else [])
-    ledger = Ledger(f"Candidates by {RANKED[ranking.by][0]}", columns + [
+    ranking, by = result.ranking, ranked_by(result)
+    costs = any(c.costing is not None and (c.costing.cost is not None or not c.costing.available or c.costing.terms.stock_lengths)
+                for c in result.candidates)
+    columns = [Column("section")] + ([Column("depth", right=True)] if by == "depth" else []) + [Column("mass", right=True)] + (
+        [Column("cost", right=True)] if costs else [])
+    ledger = Ledger(f"Candidates by {RANKED[by][0]}", columns + [
         Column("utilization"), Column("governing", fold=True), Column("status", fold=True), Column("decided by", fold=True)],
         caption="decided by: \"full field\" = the full stress-field check, as `sizer check` makes it; \"screen\" = "
                 "ruled out by a proven lower bound of that check (the true utilization is at least the one shown).")
@@ -105,13 +114,14 @@ def candidates_ledger(result: SizingResult, top: int, system: str) -> Ledger:
         status = PASSES if candidate.passes else f"[reverse]{FAILS}[/]"
         cost_cell = [money(candidate.costing.cost, ranking.currency) if candidate.costing.available or candidate.costing.cost is not None
                      else "n/a"] if costs else []
-        notes = [f"chosen: {RANKED[ranking.by][1]} that passes"] if is_chosen else []
+        notes = [f"chosen: {RANKED[by][1]} that passes"] if is_chosen else []
         if costs and candidate.costing.order is not None:
             notes.append(escape(bars_text(candidate.costing.order, system)))
-            if not candidate.costing.available:
-                notes.append(escape(candidate.costing.unavailable) + ": ranked after the available sections"
-                             if not ranking.include_unstocked else escape(candidate.costing.unavailable))
-        ledger.add_row(escape(candidate.name), units.fmt(candidate.mass_per_length, "mass_per_length", system), *cost_cell,
+        if not candidate.costing.available:
+            notes.append(escape(candidate.costing.unavailable) + ": ranked after the available sections"
+                         if not ranking.include_unstocked else escape(candidate.costing.unavailable))
+        depth_cell = [units.fmt(candidate.rank[1], "dimension", system)] if by == "depth" else []  # the rank's depth as installed
+        ledger.add_row(escape(candidate.name), *depth_cell, units.fmt(candidate.mass_per_length, "mass_per_length", system), *cost_cell,
                        (">=" if bound else "  ") + cell, escape(candidate.governing or ""), status,
                        "screen" if bound else "full field", note="; ".join(notes), style="bold" if is_chosen else "")
     return ledger
@@ -124,7 +134,7 @@ def sizing_verdict(result: SizingResult, system: str) -> VerdictBlock:
     chosen = result.chosen
     if chosen is not None:
         governing = chosen.report.governing
-        by = result.ranking.by
+        by = ranked_by(result)
         cost = f", cost {money(chosen.costing.cost, result.ranking.currency)} ({escape(bars_text(chosen.costing.order, system))})" \
             if chosen.costing is not None and chosen.costing.cost is not None else ""
         return VerdictBlock(

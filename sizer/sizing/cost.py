@@ -124,7 +124,7 @@ class Ranking:
             return (tier, depth, mass, name)
         return (tier, mass, name)
 
-    def notes(self, any_unavailable: bool, any_unpriced: bool, any_stock: bool) -> list[str]:
+    def notes(self, any_unavailable: bool, any_unpriced: bool, any_stock: bool, any_priced: bool = True) -> list[str]:
         """The assumptions of the ranking, for the outputs."""
         words = {"mass": "mass per length (the lightest first)", "cost": "cost of the member (the cheapest first)",
                  "depth": "depth as installed (the shallowest first)"}
@@ -133,7 +133,9 @@ class Ranking:
             notes.append(f"Cost = metres of bar bought x mass per length x cost_per_kg ({self.currency or 'no currency stated'}); "
                          "pieces are cut from the mix of stock lengths that buys the fewest metres, offcut paid for, no saw kerf, "
                          "no splices; a section without stock lengths is bought cut to length.")
-            if any_unpriced:
+            if not any_priced:
+                notes.append("No candidate has a price (cost_per_kg): they are ranked by mass per length.")
+            elif any_unpriced:
                 notes.append("Sections without a cost_per_kg rank after every priced section.")
         elif any_stock:
             notes.append("A member longer than every stock length of a section cannot be bought in one piece (no splice).")

@@ -218,7 +218,7 @@ def _size(member: Member, catalogue: Any, material: Material, families: Sequence
     count = f"{len(candidates)} candidate section" + ("" if len(candidates) == 1 else "s")
     notes = [f"{count} after filters, each with its own self-weight, in material {material.name} (the member's)."]
     notes += ranking.notes(any(not c.costing.available for c in candidates), any(c.costing.cost is None for c in candidates),
-                           any(c.costing.terms.stock_lengths for c in candidates))
+                           any(c.costing.terms.stock_lengths for c in candidates), any(c.costing.cost is not None for c in candidates))
     search = Search(member, material, candidates, table, workers)
     if member.has_springs:
         search.compute(candidates)
