@@ -415,3 +415,31 @@ def test_reserve_on_a_pattern_arrangement_is_one_over_utilization(priced: Path, 
     assert outcome.report.reserve.combination != "all"  # an arrangement of it
     assert outcome.reserve_factor == pytest.approx(1 / outcome.utilization, rel=0.005)
     assert outcome.reserve_factor <= (1 / outcome.utilization) * (1 + 1e-6)
+
+
+@settings(max_examples=40, deadline=None)
+@given(piece=st.floats(0.4, 6.0), count=st.integers(1, 60),
+       stock=st.lists(st.sampled_from([3.0, 4.5, 6.0, 7.5, 9.0, 12.0]), min_size=1, max_size=3, unique=True))
+def test_large_orders_match_the_plain_search(piece: float, count: int, stock: list[float]) -> None:
+    """The best length bought outright beyond the searched rest gives the plain covering search's metres and bars."""
+    from sizer.sizing.cost import _cheapest_cover
+
+    order = bars_for(piece, count, tuple(stock))
+    usable = [(length, math.floor(length / piece * (1 + 1e-9))) for length in stock]
+    usable = [(length, holds) for length, holds in usable if holds > 0]
+    if not usable:
+        assert order is None
+        return
+    plain = _cheapest_cover(count, usable)
+    assert order.metres == pytest.approx(sum(length * n for length, n in plain.items()))
+    assert order.count == sum(plain.values())
+
+
+def test_a_very_large_quantity_is_quick() -> None:
+    import time
+
+    start = time.perf_counter()
+    order = bars_for(0.7, 10**7, (6.0, 12.0))  # 12 m holds 17, 6 m holds 8: 17 per 12 m is the best
+    assert time.perf_counter() - start < 0.5
+    assert sum(n * math.floor(length / 0.7 * (1 + 1e-9)) for length, n in order.bars) >= 10**7
+    assert order.metres <= 12.0 * math.ceil(10**7 / 17)

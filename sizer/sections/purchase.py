@@ -13,6 +13,7 @@ from dataclasses import dataclass
 from typing import Any
 
 PURCHASE_KEYS: tuple[str, ...] = ("cost_per_kg", "stocked", "stock_lengths")
+LARGEST_PRICE = 1e6  # per kg, in any currency (as plain numbers elsewhere: docs/limits.md)
 
 
 @dataclass(frozen=True)
@@ -50,8 +51,8 @@ def _cost(table: dict, reader: Any, prefix: str, label: str) -> float | None:
     value = table.get("cost_per_kg")
     if value is None:
         return None
-    if isinstance(value, bool) or not isinstance(value, (int, float)) or not math.isfinite(value) or value < 0:
-        raise reader.error(f"{prefix}.cost_per_kg", f"{label}: cost_per_kg must be a number, zero or more, got {value!r}",
+    if isinstance(value, bool) or not isinstance(value, (int, float)) or not math.isfinite(value) or not 0 <= value <= LARGEST_PRICE:
+        raise reader.error(f"{prefix}.cost_per_kg", f"{label}: cost_per_kg must be a number from 0 to {LARGEST_PRICE:g}, got {str(value)[:40]}",
                            'write the price per kg as a plain number, e.g. cost_per_kg = 1.4 (the currency once, at the top: currency = "EUR")')
     return float(value)
 

@@ -53,29 +53,46 @@ class BarOrder:
 
 def bars_for(piece_length: float, pieces: int, stock_lengths: tuple[float, ...] | None) -> BarOrder | None:
     """The cheapest bars for `pieces` pieces of `piece_length` (m) from `stock_lengths` (m): fewest
-    metres bought, then fewest bars (exact: a covering knapsack over the number of pieces). None when
-    the piece is longer than every stock length (no splice)."""
+    metres bought, then fewest bars. None when the piece is longer than every stock length (no splice).
+
+    Exact: a covering knapsack over the number of pieces. Some best order uses each other length
+    fewer times than the best one's pieces per bar (the best: least metres per piece, then most
+    pieces per bar; swapping that many bars of another length for bars of the best never buys more
+    metres or more bars), so beyond those the best length is bought directly and only the rest is
+    searched: any quantity is quick."""
     if not stock_lengths:
         return BarOrder(piece_length, pieces, ((piece_length, pieces),) if pieces else (), cut_to_length=True)
     per_bar = {length: math.floor(length / piece_length * (1 + FIT)) for length in stock_lengths}
     usable = [(length, count) for length, count in per_bar.items() if count > 0]
     if not usable:
         return None
-    best: list[tuple[float, int]] = [(0.0, 0)] + [(math.inf, 0)] * pieces  # (metres, bars) for j pieces
-    choice: list[float] = [0.0] * (pieces + 1)
+    best, holds = min(usable, key=lambda item: (item[0] / item[1], -item[1]))
+    others = sum((holds - 1) * count for length, count in usable if length != best)
+    direct = max(0, -(-(pieces - others - holds) // holds))  # bars of the best length bought outright
+    counts = _cheapest_cover(pieces - direct * holds, usable)
+    if direct:
+        counts[best] = counts.get(best, 0) + direct
+    return BarOrder(piece_length, pieces, tuple(sorted(counts.items(), reverse=True)))
+
+
+def _cheapest_cover(pieces: int, usable: list[tuple[float, int]]) -> dict[float, int]:
+    """Bars (length -> count) holding at least `pieces` pieces with the fewest metres, then bars;
+    `usable`: (bar length, pieces it holds)."""
+    best: list[tuple[float, int]] = [(0.0, 0)] + [(math.inf, 0)] * max(pieces, 0)  # (metres, bars) for j pieces
+    choice: list[tuple[float, int]] = [(0.0, 0)] * (max(pieces, 0) + 1)
     for j in range(1, pieces + 1):
         for length, count in usable:
             before = best[max(0, j - count)]
             trial = (round(before[0] + length, 9), before[1] + 1)
             if trial < best[j]:
-                best[j], choice[j] = trial, length
+                best[j], choice[j] = trial, (length, count)
     counts: dict[float, int] = {}
     j = pieces
     while j > 0:
-        length = choice[j]
+        length, count = choice[j]
         counts[length] = counts.get(length, 0) + 1
-        j = max(0, j - per_bar[length])
-    return BarOrder(piece_length, pieces, tuple(sorted(counts.items(), reverse=True)))
+        j = max(0, j - count)
+    return counts
 
 
 @dataclass(frozen=True)
