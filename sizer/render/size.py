@@ -21,7 +21,7 @@ def shown_candidates(result: SizingResult, top: int) -> list[Candidate]:
         return [c for c in result.candidates if c.report is not None]
     position = result.candidates.index(result.chosen)
     lighter = result.candidates[max(0, position - top):position]
-    heavier = [c for c in result.candidates[position + 1:] if c.report is not None and c.report.passes and c.costing.available][:top]
+    heavier = [c for c in result.candidates[position + 1:] if c.report is not None and c.report.passes and c not in result.unavailable][:top]
     return lighter + [result.chosen] + heavier + result.unavailable
 
 
