@@ -2,7 +2,7 @@
 
 Every price, stock length and member here is invented for the tests (marked "invented"). Hand
 values: bar counts and costs by arithmetic written out beside each check; Euler's critical load of
-a pinned strut, pi^2 E I / L^2 (REFERENCES.md, from memory) with the Johnson parabola of
+a pinned strut, pi^2 E I / L^2 (docs/references.md, from memory) with the Johnson parabola of
 docs/design.md; the reserve factor of a member whose checks are all linear in its loads is
 1 / utilization (linearity of elastic stresses: common practice).
 """
