@@ -69,7 +69,7 @@ def _purchase_note(spec: SectionSpec, catalogue: Any, system: str) -> str:
 
     from sizer.render.cost import price_text, stock_text
 
-    if catalogue is None or (not catalogue.family_purchase and all(other.purchase is None for other in catalogue.sections.values())):
+    if catalogue is None or not catalogue.has_purchase_terms:
         return ""
     terms = catalogue.purchase(spec)
     return escape(f"; {price_text(terms, catalogue.currency)}; {stock_text(terms, system)}")

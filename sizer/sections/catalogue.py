@@ -52,10 +52,9 @@ class Catalogue:
         return own.over(self.family_purchase.get(spec.family)) if spec.family else own
 
     @property
-    def priced(self) -> bool:
-        """True when some section has a cost_per_kg (its own or its family's)."""
-        return any(terms.cost_per_kg is not None for terms in self.family_purchase.values()) or any(
-            spec.purchase is not None and spec.purchase.cost_per_kg is not None for spec in self.sections.values())
+    def has_purchase_terms(self) -> bool:
+        """True when the catalogue gives any purchase terms (a family's or a section's own)."""
+        return bool(self.family_purchase) or any(spec.purchase is not None for spec in self.sections.values())
 
     def get(self, name: str, file_for_error: str = "", key_for_error: str = "section", line: int | None = None) -> SectionSpec:
         """The section called `name`; InputError (suggesting close names) when there is none."""
