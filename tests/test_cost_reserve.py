@@ -436,7 +436,8 @@ def test_large_orders_match_the_plain_search(piece: float, count: int, stock: li
 
 
 def test_a_very_large_quantity() -> None:
-    """Ten million pieces of 0.7 m: 12 m holds 17, 6 m holds 8; 17 per 12 m is the best ratio (hand count)."""
+    """Ten million pieces of 0.7 m: 12 m holds 17, 6 m holds 8 (hand count); 588,235 bars of 12 m hold
+    9,999,995 pieces and the last 5 fit one 6 m bar, cheaper than a 588,236th 12 m bar."""
     order = bars_for(0.7, 10**7, (6.0, 12.0))
-    assert sum(n * math.floor(length / 0.7 * (1 + 1e-9)) for length, n in order.bars) >= 10**7
-    assert order.metres <= 12.0 * math.ceil(10**7 / 17)
+    assert order.bars == ((12.0, 588_235), (6.0, 1))
+    assert order.metres == pytest.approx(588_235 * 12.0 + 6.0)
