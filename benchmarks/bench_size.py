@@ -1,14 +1,14 @@
 """Speed figures for `sizer size` on a catalogue of 1000 generated I-sections (a plain script; not part
 of the test suite).
 
-    .venv/bin/python benchmarks/bench_size.py [--workdir DIR] [--runs N] [--no-profile]
+    .venv/bin/python benchmarks/bench_size.py [--workdir DIR] [--runs N] [--no-profile] [--by mass|cost|depth]
 
 Writes the catalogue (the generated sections and a copy of the shipped materials file, for the
 member's mild-steel) and its own section cache into a temporary folder (or DIR, kept and reused:
 a second run skips the cold build), then prints:
   cold build   `sizer sections build --catalogue DIR`, seconds per section
   (a)          `sizer --help` wall time (median of N runs, subprocess)
-  (b)          `sizer size MEMBER --catalogue DIR` wall time (median, subprocess, warm cache), ratio to (a);
+  (b)          `sizer size MEMBER --catalogue DIR [--by B]` wall time (median, subprocess, warm cache), ratio to (a);
                (a) and (b) run in turn, and the median of the N pairs' ratios is shown too
   (b0)         what `size` pays before it sizes anything: the interpreter importing the modules the
                command imports (numpy, sizer's analysis, sections, checks, sizing and renderers), ratio to (a)
@@ -16,8 +16,11 @@ a second run skips the cold build), then prints:
   (d)          the naive way: full stress-field check of a sample of sections, extrapolated to the whole
                catalogue, against the measured size_member time; and the naive answer on the sample
                around the chosen section
+  (e)          `sizer size --by cost` against `sizer size` (by mass), run in turn: median wall times and ratio
+               (the catalogue carries invented prices that vary by size, and stock lengths of 6, 8 and 12 m)
   profile      the top 25 lines of `python -m cProfile -s cumtime` over `sizer size`
-Targets (issues 5 and 11, the member unbraced): (b)/(a) <= 2.5, (c) >= 50 million station-checks per second, (d) >= 100.
+Targets (issues 5, 11 and 28, the member unbraced): (b)/(a) <= 2.5, (c) >= 50 million station-checks per second, (d) >= 100,
+(e) <= 1.2.
 """
 
 from __future__ import annotations
@@ -127,11 +130,24 @@ def generated_sections() -> list[str]:
     return entries
 
 
+def generated_prices() -> str:
+    """Invented purchase terms: a currency, the family's stock lengths, and a price per kg on every
+    section that grows with the width ratio and varies with the depth (so the cheapest is not the lightest)."""
+    return 'currency = "EUR"\n\n[families.gen]\nstock_lengths = ["6 m", "8 m", "12 m"]\ncost_per_kg = 1.2\n\n'
+
+
+def priced(entry: str, index: int) -> str:
+    """A generated entry with its own invented price (every fifth keeps the family's)."""
+    if index % 5 == 0:
+        return entry
+    return entry + f"cost_per_kg = {1.0 + 0.07 * (index % 7) + 0.04 * (index % 3):.2f}\n"
+
+
 def write_inputs(workdir: Path) -> tuple[Path, Path, int]:
     catalogue = workdir / "catalogue"
     catalogue.mkdir(parents=True, exist_ok=True)
     entries = generated_sections()
-    (catalogue / "generated.toml").write_text("\n".join(entries), encoding="utf-8")
+    (catalogue / "generated.toml").write_text(generated_prices() + "\n".join(priced(entry, k) for k, entry in enumerate(entries)), encoding="utf-8")
     (catalogue / "materials.toml").write_text((shipped_library() / "materials.toml").read_text(encoding="utf-8"), encoding="utf-8")
     member = workdir / "mezzanine_beam.toml"
     member.write_text(MEMBER, encoding="utf-8")
@@ -168,6 +184,7 @@ def main() -> None:
     parser.add_argument("--workdir", type=Path, default=None, help="keep the catalogue and cache here (reused when present)")
     parser.add_argument("--runs", type=int, default=5, help="runs per median")
     parser.add_argument("--no-profile", action="store_true")
+    parser.add_argument("--by", choices=("mass", "cost", "depth"), default="mass", help="the ranking (b) and the profile use")
     args = parser.parse_args()
     workdir = args.workdir or Path(tempfile.mkdtemp(prefix="sizer-bench-size-"))
     workdir.mkdir(parents=True, exist_ok=True)
@@ -181,7 +198,7 @@ def main() -> None:
     print(f"build: {seconds:.1f} s = {seconds / count * 1e3:.1f} ms per section "
           "(cold unless --workdir already held the cache; process start-up and imports included)")
 
-    size_command = [SIZER, "size", str(member), "--catalogue", str(catalogue)]
+    size_command = [SIZER, "size", str(member), "--catalogue", str(catalogue), "--by", args.by]
     wall_time(size_command, env)  # the first run after a change compiles sizer's modules, as an install does once
     help_runs, size_runs = paired_times([SIZER, "--help"], size_command, env, args.runs)
     help_time, size_time = statistics.median(help_runs), statistics.median(size_runs)
@@ -196,6 +213,12 @@ def main() -> None:
           f"sizing, checking and printing take the remaining {size_time - imports_alone:.3f} s")
 
     in_process_figures(member, catalogue, args.runs)
+    by_mass, by_cost = paired_times([SIZER, "size", str(member), "--catalogue", str(catalogue)],
+                                    [SIZER, "size", str(member), "--catalogue", str(catalogue), "--by", "cost"], env, args.runs)
+    cost_ratios = [b / a for a, b in zip(by_mass, by_cost)]
+    print(f"(e) sizer size --by cost: median {statistics.median(by_cost):.3f} s against {statistics.median(by_mass):.3f} s by mass, "
+          f"run in turn {args.runs} times; ratio {statistics.median(by_cost) / statistics.median(by_mass):.2f}x of the medians, "
+          f"{statistics.median(cost_ratios):.2f}x the median of the pairs (target <= 1.2x)")
     if not args.no_profile:
         profile(size_command, env)
 

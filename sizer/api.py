@@ -165,6 +165,7 @@ class CheckOutcome:
     report: Any = field(repr=False)
     cautions: tuple[str, ...] = CAUTIONS
     units: str = "si"
+    reserve_factor: float | None = None  # the largest factor on the governing combination's loads that still passes
 
     def to_json(self) -> dict[str, Any]:
         """The `sizer check --json` document."""
@@ -186,13 +187,15 @@ class CheckOutcome:
 def check_outcome(design: Any, report: Any, notes: list[str], units: str = "si") -> CheckOutcome:
     """A CheckOutcome of a checked design (sizer.design.Design and sizer.checks.CheckReport)."""
     governing = report.governing
+    reserve = report.reserve.factor if report.reserve is not None else None
     return CheckOutcome(report.section, report.passes, report.utilization, governing.check if governing else None,
-                        list(report.checks), notes, design, report, units=units)
+                        list(report.checks), notes, design, report, units=units, reserve_factor=reserve)
 
 
-def check(member: MemberLike, section: str | None = None, catalogue: Sequence[str | Path] = (), units: str = "si") -> CheckOutcome:
+def check(member: MemberLike, section: str | None = None, catalogue: Sequence[str | Path] = (), units: str = "si",
+          reserve: bool = True) -> CheckOutcome:
     """Every check of one section (the member's own, or `section` from the catalogue), on its full
-    cross-section stress field."""
+    cross-section stress field; with `reserve`, its reserve factor too (a few more full checks)."""
     from sizer.checks import check_design
     from sizer.design import prepare
     from sizer.render.common import member_notes, small_deflection_cautions
@@ -201,8 +204,20 @@ def check(member: MemberLike, section: str | None = None, catalogue: Sequence[st
     member = as_member(member)
     design = prepare(member, [Path(path) for path in catalogue], section, need_section=True)
     report = check_design(design, unit_stress_field(design.spec))
+    if reserve:
+        add_reserve(design, report)
     notes = member_notes(member) + design.notes + report.notes + small_deflection_cautions(design.solution)
     return check_outcome(design, report, notes, units)
+
+
+def add_reserve(design: Any, report: Any) -> None:
+    """Find the reserve factor of a checked design (sizer.checks.reserve) and keep it, and its note,
+    in the report."""
+    from sizer.checks.reserve import reserve_factor
+    from sizer.sections import unit_stress_field
+
+    report.reserve = reserve_factor(design, report, unit_stress_field(design.spec))
+    report.notes.append(report.reserve.note)
 
 
 # ----------------------------------------------------------------------------------------------
@@ -219,6 +234,7 @@ class CandidateSummary:
     passes: bool
     governing: str
     basis: str  # "full stress field" or "screen"
+    cost: float | None = None  # of the member in this section (the catalogue's currency); None: no price or not available
 
 
 @dataclass
@@ -237,6 +253,9 @@ class SizeOutcome:
     top: int = 3
     cautions: tuple[str, ...] = CAUTIONS
     units: str = "si"
+    cost: float | None = None  # of the member in the chosen section (currency), None: no price or not available
+    currency: str | None = None
+    reserve_factor: float | None = None  # of the chosen section (sizer.checks.reserve)
 
     def to_json(self) -> dict[str, Any]:
         """The `sizer size --json` document."""
@@ -257,28 +276,35 @@ class SizeOutcome:
 
 def size(member: MemberLike, catalogue: Sequence[str | Path] = (), families: Sequence[str] = (),
          max_depth: float | str | None = None, max_width: float | str | None = None, top: int = 3, units: str = "si",
-         progress: Progress | None = None) -> SizeOutcome:
-    """The lightest catalogue section that passes every check, the lighter ones that fail (why) and
-    the next heavier ones that pass (`top` each side). `progress(done, total, name)` hears of
-    section properties computed first."""
+         progress: Progress | None = None, by: str = "mass", include_unstocked: bool = False, reserve: bool = True) -> SizeOutcome:
+    """The lightest catalogue section that passes every check (or the cheapest, or the shallowest:
+    `by` "mass", "cost" or "depth"), the ones ranked before it that fail (why) and the next ones
+    that pass (`top` each side); sections not stocked or not available in one bar rank after the
+    others unless `include_unstocked`. `progress(done, total, name)` hears of section properties
+    computed first. With `reserve`, the chosen section's reserve factor too (a few more full checks)."""
     from sizer.design import catalogue_for, resolve_material
     from sizer.errors import InputError
     from sizer.render.common import member_notes, small_deflection_cautions
     from sizer.render.size import candidate_entry, listed_candidates
     from sizer.sizing import size_member
+    from sizer.sizing.cost import RANKINGS, Ranking
 
     member = as_member(member)
     depth, width = _length_limit(max_depth, "--max-depth"), _length_limit(max_width, "--max-width")
     if top < 0:
         raise InputError("", "--top", "must be zero or more", "give e.g. --top 3")
+    if by not in RANKINGS:
+        raise InputError("", "--by", f"unknown ranking {by!r}", "use one of: " + ", ".join(RANKINGS))
     catalogue_data = catalogue_for(member, [Path(path) for path in catalogue])
     material = resolve_material(member, catalogue_data)
-    result = size_member(member, catalogue_data, material, families, depth, width, top, progress)
+    ranking = Ranking(by, include_unstocked, catalogue_data.currency)
+    result = size_member(member, catalogue_data, material, families, depth, width, top, progress, ranking)
     notes = member_notes(member) + result.notes
     chosen = result.chosen
-    if chosen is not None:
+    if chosen is not None and reserve:
+        add_reserve(chosen.design, chosen.report)
         notes += chosen.report.notes
-    summaries = [CandidateSummary(**{key: entry[key] for key in ("section", "mass_per_length", "utilization", "passes", "governing", "basis")})
+    summaries = [CandidateSummary(**{key: entry[key] for key in ("section", "mass_per_length", "utilization", "passes", "governing", "basis", "cost")})
                  for entry in map(candidate_entry, listed_candidates(result))]
     chosen_check = None
     if chosen is not None:
@@ -287,4 +313,5 @@ def size(member: MemberLike, catalogue: Sequence[str | Path] = (), families: Seq
         chosen_check = check_outcome(chosen_design, chosen.report, notes, units)
     return SizeOutcome(chosen.name if chosen else None, chosen is not None, chosen.mass_per_length if chosen else None,
                        chosen.utilization if chosen else None, chosen.governing if chosen else None, summaries, chosen_check,
-                       notes, result, top, units=units)
+                       notes, result, top, units=units, cost=chosen.costing.cost if chosen else None, currency=ranking.currency,
+                       reserve_factor=chosen_check.reserve_factor if chosen_check else None)

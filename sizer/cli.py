@@ -100,18 +100,21 @@ def size(
     max_depth: Optional[str] = typer.Option(None, "--max-depth", help='Largest depth as installed, e.g. "300 mm".'),
     max_width: Optional[str] = typer.Option(None, "--max-width", help='Largest width as installed, e.g. "150 mm".'),
     top: int = typer.Option(3, "--top", help="How many runners-up to show on each side of the choice."),
+    by: str = typer.Option("mass", "--by", help="Rank by mass (per length), cost (of the bars the member takes) or depth."),
+    include_unstocked: bool = typer.Option(False, "--include-unstocked", help="Rank sections not stocked, or longer than every "
+                                           "stock length, with the others (default: after them)."),
     json_output: bool = typer.Option(False, "--json", help="JSON in SI base units on stdout."),
     report_out: Optional[Path] = typer.Option(None, "--report", help="Also write the calculation record of the chosen section (.html)."),
     units_system: str = UNITS_OPTION,
 ) -> None:
-    """The lightest catalogue section that passes every check, and why each lighter one fails.
-    Exit 0 found, 1 nothing passes, 2 bad input."""
+    """The lightest (or cheapest, or shallowest) catalogue section that passes every check, and why
+    each one ranked before it fails. Exit 0 found, 1 nothing passes, 2 bad input."""
 
     def work() -> int:
         from sizer.commands import run_size
 
         return run_size(file, catalogue or [], family or [], max_depth, max_width, top, json_output, unit_system(units_system),
-                        report_out)
+                        report_out, by, include_unstocked)
 
     run_guarded(work)
 

@@ -72,10 +72,10 @@ def list_sections(
         with_build_progress("Section properties", lambda progress: section_table(specs, progress=progress))
         rows = _with_mass(loaded, specs)
         if json_output:
-            typer.echo(dumps(list_json([(spec, props, name) for spec, props, name, _ in rows])))
+            typer.echo(dumps(list_json([(spec, props, name) for spec, props, name, _ in rows], loaded)))
         else:
             out = _console()
-            out.print(list_table([(spec, props, note) for spec, props, _, note in rows], system))
+            out.print(list_table([(spec, props, note) for spec, props, _, note in rows], system, loaded))
         return 0
 
     run_guarded(work)
@@ -108,10 +108,10 @@ def show_section(
         if plot is not None:
             write_section_plot(spec, props, plot, system)
         if json_output:
-            typer.echo(dumps(section_json(spec, props, material, note)))
+            typer.echo(dumps(section_json(spec, props, material, note, loaded)))
         else:
             out = _console()
-            for renderable in show_renderables(spec, props, note, system):
+            for renderable in show_renderables(spec, props, note, system, loaded):
                 out.print(renderable)
             if plot is not None:
                 out.print(f"Drawing written to {plot}")

@@ -288,19 +288,32 @@ def work_row(task: RowTask) -> dict:
             outcome = api.size(task.member, paths)
             checked = outcome.chosen
             found = {"section": outcome.section, "passes": outcome.passes, "utilization": outcome.utilization,
-                     "governing": outcome.governing, "mass_per_length": outcome.mass_per_length}
+                     "governing": outcome.governing, "mass_per_length": outcome.mass_per_length, "reserve_factor": outcome.reserve_factor}
             notes = outcome.notes
         else:
             checked = outcome = api.check(task.member, task.section, paths)
             found = {"section": outcome.section, "passes": outcome.passes, "utilization": outcome.utilization,
-                     "governing": outcome.governing, "mass_per_length": outcome.design.mass_per_length}
+                     "governing": outcome.governing, "mass_per_length": outcome.design.mass_per_length,
+                     "reserve_factor": outcome.reserve_factor}
             notes = outcome.notes
+        found["purchase"] = _purchase(task.member, paths, found["section"])
         record = _record_html(checked) if task.record and checked is not None else None
     except InputError as error:
         return error_result(error)
     from sizer.render.common import to_jsonable
 
     return to_jsonable({**found, "assumptions": notes, "record": record})
+
+
+def _purchase(member: Member, paths: Sequence[Path], section: str | None) -> dict | None:
+    """The purchase terms of the row's section (its own, else its family's) and the catalogue's currency."""
+    if section is None:
+        return None
+    from sizer.design import catalogue_for
+    from sizer.render.cost import purchase_json
+
+    catalogue = catalogue_for(member, paths)
+    return purchase_json(catalogue.purchase(catalogue.get(section)), catalogue.currency)
 
 
 def _record_html(checked: Any) -> str:
@@ -368,7 +381,10 @@ def run_schedule(schedule: Schedule, catalogue: Sequence[Path] = (), jobs: int |
 
 def schedule_entry(row: ScheduleRow, task: RowTask, result: dict, notes: list[str]) -> dict:
     """A row of the JSON document (docs/design.md section 11): the member's result with the schedule's mark,
-    quantity and length; total mass = mass per length x length x quantity (kg)."""
+    quantity and length; total mass = mass per length x length x quantity (kg); the reserve factor;
+    the cost of its pieces and their bars (sizer.schedule_cost)."""
+    from sizer.schedule_cost import row_cost
+
     mass = result["mass_per_length"]
     length = task.member.length
     return {
@@ -376,6 +392,8 @@ def schedule_entry(row: ScheduleRow, task: RowTask, result: dict, notes: list[st
         "section": result["section"], "passes": result["passes"], "utilization": result["utilization"],
         "governing": result["governing"], "mass_per_length": mass, "quantity": row.quantity, "length": length,
         "total_mass": mass * length * row.quantity if mass is not None else None,
+        "reserve_factor": result.get("reserve_factor"), "purchase": result.get("purchase"),
+        **row_cost(result, length, row.quantity),
         "assumptions": notes + result["assumptions"],
     }
 
@@ -392,8 +410,12 @@ def schedule_totals(rows: list[dict]) -> dict:
         entry["length"] += row["length"] * row["quantity"]
         entry["mass"] += row["total_mass"]
     failing = [row["mark"] for row in rows if not row["passes"]]
-    return {"passes": not failing, "failing": failing, "mass": sum(entry["mass"] for entry in by_section.values()),
-            "by_section": list(by_section.values())}
+    totals = {"passes": not failing, "failing": failing, "mass": sum(entry["mass"] for entry in by_section.values()),
+              "by_section": list(by_section.values())}
+    from sizer.schedule_cost import add_costs
+
+    add_costs(totals, rows)
+    return totals
 
 
 def schedule_notes(result: ScheduleResult) -> list[str]:
@@ -411,4 +433,7 @@ def schedule_json(result: ScheduleResult) -> dict:
 
     order = {row.mark: index for index, row in enumerate(result.schedule.rows)}
     errors = [{"mark": error.mark, "where": error.where, "message": error.message} for error in sorted(result.errors, key=lambda e: order[e.mark])]
-    return schedule_document(result.schedule.title, result.rows, schedule_totals(result.rows), errors, schedule_notes(result))
+    from sizer.schedule_cost import cost_notes
+
+    totals = schedule_totals(result.rows)
+    return schedule_document(result.schedule.title, result.rows, totals, errors, schedule_notes(result) + cost_notes(totals))

@@ -49,6 +49,7 @@ class CheckReport:
     stability: Any = None  # sizer.checks.stability.StabilityReport: load factors and buckled shapes
     restraints: list = field(default_factory=list)  # sizer.checks.bracing.BraceDemand: what each restraint must carry
     torsion: Any = None  # sizer.checks.torsion.TorsionSummary: peaks of T, Tw, B; None when nothing twists the member
+    reserve: Any = None  # sizer.checks.reserve.Reserve, where found (check, size, schedules)
 
     @property
     def made(self) -> list[CheckResult]:

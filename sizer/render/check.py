@@ -35,6 +35,8 @@ def check_json(design: Design, report: CheckReport, notes: list[str]) -> dict[st
         "utilization": report.utilization,
         "governing": governing.check if governing else None,
         "checks": [check_entry(c) for c in report.checks],
+        "reserve_factor": report.reserve.factor if report.reserve is not None else None,
+        "reserve_combination": report.reserve.combination if report.reserve is not None else None,
         "reactions": reactions_json(design),
         "restraints": [demand.to_json() for demand in report.restraints],
         "torsion": torsion_json(report.torsion),
@@ -200,7 +202,9 @@ def verdict_block(report: CheckReport, system: str) -> VerdictBlock:
     where = f" at x = {units.fmt(governing.at, 'length', system)}" if governing.at is not None else ""
     text = (f"[bold]{escape(report.section)}[/] {word}: utilization {governing.utilization:.3f}, governed by "
             f"[bold]{governing.check}[/]{where} in combination {escape(governing.combination or '')}.")
-    return VerdictBlock(text, report.passes)
+    from sizer.render.cost import reserve_sentence
+
+    return VerdictBlock(text + reserve_sentence(report.reserve), report.passes)
 
 
 def design_summary(design: Design, system: str) -> list[Any]:

@@ -20,7 +20,9 @@ from sizer.render.common import CAUTIONS, cautions_panel, notes_panel
 UNITS_NOTE = "SI base units (m, N, N*m, Pa, kg/m, kg)"
 SCHEDULE_CSV_COLUMNS = (("mark", "mark"), ("file", "file"), ("do", "do"), ("section", "section"), ("passes", "passes"),
                         ("utilization", "utilization"), ("governing", "governing"), ("mass_per_length", "mass_per_length_kg_per_m"),
-                        ("quantity", "quantity"), ("length", "length_m"), ("total_mass", "total_mass_kg"))
+                        ("quantity", "quantity"), ("length", "length_m"), ("total_mass", "total_mass_kg"), ("reserve_factor", "reserve_factor"),
+                        ("cost", "cost"), ("currency", "currency"))
+ORDER_CSV_COLUMNS = ("order_section", "pieces", "total_length_m", "mass_kg", "cost", "currency", "bars_to_order", "metres_bought_m", "offcut_m")
 CHECK_SHORT = {"axial": "axial", "bending": "bend", "interaction": "inter", "shear": "shear", "equivalent": "equiv",
                "deflection": "defl", "buckling": "buck", "lateral-torsional": "LTB", "local": "local", "web": "web"}
 
@@ -44,9 +46,31 @@ def schedule_csv(document: dict) -> str:
         writer.writerow(["" if row[key] is None else _csv_value(row[key]) for key, _ in SCHEDULE_CSV_COLUMNS])
     for error in document["bad_rows"]:
         writer.writerow([error["mark"], "", "", "", "", "", f"bad input: {error['message']}"])
+    totals = document["totals"]
+    if orders_to_show(totals):
+        writer.writerow([])
+        writer.writerow(ORDER_CSV_COLUMNS)
+    for entry in totals["by_section"] if orders_to_show(totals) else ():
+        writer.writerow([entry["section"], entry["quantity"], repr(entry["length"]), repr(entry["mass"]),
+                         "" if entry.get("cost") is None else repr(entry["cost"]), totals.get("currency") or "",
+                         bars_to_order_text(entry), repr(entry.get("metres", 0.0)), repr(entry.get("offcut", 0.0))])
     for caution in CAUTIONS:
         writer.writerow([f"# {caution}"])
     return out.getvalue()
+
+
+def orders_to_show(totals: dict) -> bool:
+    """Whether the catalogue gave prices or stock lengths for a section of the totals (then the cost
+    and the bars to order are shown)."""
+    return bool(totals.get("ordering"))
+
+
+def bars_to_order_text(entry: dict, system: str = "si") -> str:
+    """A section's bars to order in words: "4 x 12.00 m + 1 x 6.000 m" (and any pieces no bar is long enough for)."""
+    parts = [f"{bar['count']} x {units.fmt(bar['length'], 'length', system)}" + (" cut to length" if bar["cut_to_length"] else "")
+             for bar in entry.get("bars", [])]
+    missing = [f"{units.fmt(length, 'length', system)} pieces: longer than every stock length" for length in entry.get("not_available", [])]
+    return " + ".join(parts) + ("; " if parts and missing else "") + "; ".join(missing)
 
 
 def _csv_value(value: Any) -> Any:
@@ -90,16 +114,26 @@ def _members_table(rows: list[dict]) -> Any:
     from rich.table import Table
 
     table = Table(title="Members", title_justify="left", header_style="bold", box=box.SIMPLE_HEAD, pad_edge=False, padding=0, show_edge=False)
-    for name, justify in (("mark", "left"), ("do", "left"), ("section", "left"), ("util.", "right"), ("governing", "left"),
-                          ("verdict", "left"), ("kg/m", "right"), ("qty", "right"), ("length", "right"), ("mass", "right")):
+    priced = any(row.get("cost") is not None for row in rows)
+    for name, justify in (("mark", "left"), ("do", "left"), ("section", "left"), ("util.", "right"), ("reserve", "right"), ("governing", "left"),
+                          ("verdict", "left"), ("kg/m", "right"), ("qty", "right"), ("length", "right"), ("mass", "right")) + ((("cost", "right"),) if priced else ()):
         table.add_column(name, justify=justify, no_wrap=True, overflow="ellipsis")
     for row in rows:
         utilization = row["utilization"]
         verdict = "ok" if row["passes"] else ("[reverse]none[/]" if row["section"] is None else "[reverse]FAILS[/]")
+        reserve = row.get("reserve_factor")
         table.add_row(row["mark"], row["do"], row["section"] or "none passes", _utilization_text(utilization),
+                      "—" if reserve is None else f"{reserve:.2f}",
                       row["governing"] or "—", verdict, _number(row["mass_per_length"], 1), str(row["quantity"]),
-                      units.fmt(row["length"], "length", digits=3), f"{_number(row['total_mass'], 0)} kg" if row["total_mass"] is not None else "—")
+                      units.fmt(row["length"], "length", digits=3), f"{_number(row['total_mass'], 0)} kg" if row["total_mass"] is not None else "—",
+                      *([_money(row.get("cost"), row.get("currency"))] if priced else []))
     return table
+
+
+def _money(value: float | None, currency: str | None) -> str:
+    from sizer.render.cost import money
+
+    return "—" if value is None else money(value, currency)
 
 
 def _utilization_text(value: float | None) -> str:
@@ -117,12 +151,20 @@ def _totals_table(totals: dict) -> Any:
     from rich.table import Table
 
     table = Table(title="Totals by section (for ordering)", title_justify="left", header_style="bold", box=box.SIMPLE_HEAD, pad_edge=False)
-    for name, justify in (("section", "left"), ("pieces", "right"), ("total length", "right"), ("mass", "right")):
-        table.add_column(name, justify=justify, no_wrap=True)
+    ordering = orders_to_show(totals)
+    for name, justify in (("section", "left"), ("pieces", "right"), ("total length", "right"), ("mass", "right")) + (
+            (("cost", "right"), ("bars to order", "left")) if ordering else ()):
+        table.add_column(name, justify=justify, no_wrap=name != "bars to order")
+    currency = totals.get("currency")
     for entry in totals["by_section"]:
-        table.add_row(entry["section"], str(entry["quantity"]), units.fmt(entry["length"], "length"), f"{_number(entry['mass'], 0)} kg")
+        table.add_row(entry["section"], str(entry["quantity"]), units.fmt(entry["length"], "length"), f"{_number(entry['mass'], 0)} kg",
+                      *((_money(entry.get("cost"), currency), bars_to_order_text(entry)) if ordering else ()))
+    total_cost = totals.get("cost")
+    cost_text = _money(total_cost, currency) if total_cost is not None else (
+        f"≥ {_money(totals.get('priced_cost'), currency)}" if totals.get("priced_cost") else "—")
     table.add_row("[bold]all[/]", str(sum(e["quantity"] for e in totals["by_section"])),
-                  units.fmt(sum(e["length"] for e in totals["by_section"]), "length"), f"[bold]{_number(totals['mass'], 0)} kg[/]")
+                  units.fmt(sum(e["length"] for e in totals["by_section"]), "length"), f"[bold]{_number(totals['mass'], 0)} kg[/]",
+                  *((f"[bold]{cost_text}[/]", "") if ordering else ()))
     return table
 
 

@@ -33,10 +33,10 @@ def dimensions_text(spec: SectionSpec, system: str = "si") -> str:
     return " · ".join(parts) + f" {label}"
 
 
-def list_table(items: list[tuple[SectionSpec, SectionProperties, str]], system: str = "si") -> Any:
+def list_table(items: list[tuple[SectionSpec, SectionProperties, str]], system: str = "si", catalogue: Any = None) -> Any:
     """The catalogue as a ledger: name, family, mass per length, A, Iz, Iy (units in the headers),
-    with the shape and its dimensions on the line under each name; the caption says which material
-    gave each mass."""
+    with the shape and its dimensions on the line under each name (and its price and stock lengths
+    where the `catalogue` gives any); the caption says which material gave each mass."""
     from rich.markup import escape
 
     from sizer.render.text import Column, Ledger
@@ -51,14 +51,28 @@ def list_table(items: list[tuple[SectionSpec, SectionProperties, str]], system: 
                                           Column(header("A", "area"), right=True), Column(header("Iz", "inertia"), right=True),
                                           Column(header("Iy", "inertia"), right=True)], caption=escape(caption))
 
-    def number(value: float, kind: str) -> str:
+    def number(value: float | None, kind: str) -> str:
+        if value is None:
+            return "—"  # no density: no mass
         return units.fmt_number(units.to_display(value, kind, system))
 
     for spec, props, _ in items:
         table.add_row(escape(spec.name), escape(spec.family or ""), number(props.mass_per_length, "mass_per_length"),
                       number(props.area, "area"), number(props.Iz, "inertia"), number(props.Iy, "inertia"),
-                      note=f"{spec.shape}: {escape(dimensions_text(spec, system))}")
+                      note=f"{spec.shape}: {escape(dimensions_text(spec, system))}" + _purchase_note(spec, catalogue, system))
     return table
+
+
+def _purchase_note(spec: SectionSpec, catalogue: Any, system: str) -> str:
+    """"; 1.45 EUR/kg; stocked, bars of 6.000 m, 12.00 m" where the catalogue gives purchase terms, else ""."""
+    from rich.markup import escape
+
+    from sizer.render.cost import price_text, stock_text
+
+    if catalogue is None or not catalogue.has_purchase_terms:
+        return ""
+    terms = catalogue.purchase(spec)
+    return escape(f"; {price_text(terms, catalogue.currency)}; {stock_text(terms, system)}")
 
 
 def _per_unit(value: float, per: str, system: str) -> str:
@@ -100,7 +114,7 @@ def property_rows(props: SectionProperties, system: str = "si") -> list[tuple[st
     return rows
 
 
-def show_renderables(spec: SectionSpec, props: SectionProperties, mass_note: str, system: str = "si") -> list[Any]:
+def show_renderables(spec: SectionSpec, props: SectionProperties, mass_note: str, system: str = "si", catalogue: Any = None) -> list[Any]:
     """The `sections show` screen: dimensions, then every property with its unit and meaning."""
     from rich.markup import escape
 
@@ -110,6 +124,11 @@ def show_renderables(spec: SectionSpec, props: SectionProperties, mass_note: str
     rows = [("outline", dimensions_text(spec, system))] if spec.shape == "polygon" else []
     rows += [(key.replace("_", " "), units.fmt(value, "dimension", system)) for key, value in spec.dims.items()]
     rows += [("mass from", mass_note), ("source", f"{spec.source}" + (f":{spec.line}" if spec.line else ""))]
+    if catalogue is not None:
+        from sizer.render.cost import price_text, stock_text
+
+        terms = catalogue.purchase(spec)
+        rows += [("price", price_text(terms, catalogue.currency)), ("stock", stock_text(terms, system))]
     head += [Paragraph(f"[bold]{escape(label):<16}[/] {escape(text)}", hang=17) for label, text in rows]
     caption = (f"{AXES_NOTE}\n{PEAK_NOTE}\nMesh: {props.mesh_elements} six-node triangles, {props.mesh_nodes} nodes, "
                f"largest element {units.fmt(props.max_element_area, 'area', system)}.")
@@ -119,8 +138,10 @@ def show_renderables(spec: SectionSpec, props: SectionProperties, mass_note: str
     return head + ["", body]
 
 
-def section_json(spec: SectionSpec, props: SectionProperties, mass_material: str | None, mass_note: str) -> dict[str, Any]:
+def section_json(spec: SectionSpec, props: SectionProperties, mass_material: str | None, mass_note: str, catalogue: Any = None) -> dict[str, Any]:
     """`sections show --json`: SI base units."""
+    from sizer.render.cost import purchase_json
+
     data: dict[str, Any] = {
         "name": spec.name, "shape": spec.shape, "family": spec.family, "material": spec.material,
         "dimensions": dict(spec.dims),
@@ -141,17 +162,23 @@ def section_json(spec: SectionSpec, props: SectionProperties, mass_material: str
         "mesh": {"elements": props.mesh_elements, "nodes": props.mesh_nodes, "max_element_area": props.max_element_area},
         "source": spec.source, "line": spec.line, "axes": AXES_NOTE, "cautions": list(CAUTIONS),
     }
+    if catalogue is not None:
+        data.update(purchase_json(catalogue.purchase(spec), catalogue.currency))
     if spec.shape == "polygon":
         data["points"] = [list(point) for point in spec.points]
         data["holes"] = [[list(point) for point in hole] for hole in spec.holes]
     return data
 
 
-def list_json(items: list[tuple[SectionSpec, SectionProperties, str | None]]) -> dict[str, Any]:
-    """`sections list --json`: {"sections": one small record per section, "cautions"}, SI base units."""
+def list_json(items: list[tuple[SectionSpec, SectionProperties, str | None]], catalogue: Any = None) -> dict[str, Any]:
+    """`sections list --json`: {"sections": one small record per section, "cautions"}, SI base units;
+    with the `catalogue`, each section's purchase terms too."""
+    from sizer.render.cost import purchase_json
+
     rows = [{"name": spec.name, "shape": spec.shape, "family": spec.family, "dimensions": dict(spec.dims),
              "mass_per_length": props.mass_per_length, "mass_material": mass_material,
-             "area": props.area, "Iz": props.Iz, "Iy": props.Iy, "J": props.J, "depth": props.depth, "width": props.width}
+             "area": props.area, "Iz": props.Iz, "Iy": props.Iy, "J": props.J, "depth": props.depth, "width": props.width,
+             **(purchase_json(catalogue.purchase(spec), catalogue.currency) if catalogue is not None else {})}
             for spec, props, mass_material in items]
     return {"sections": rows, "cautions": list(CAUTIONS)}
 

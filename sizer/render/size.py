@@ -8,19 +8,21 @@ from typing import Any
 from sizer import units
 from sizer.render.check import FAILS, PASSES, VerdictBlock, check_entry, checks_ledger, utilization_cell
 from sizer.render.common import CAUTIONS, cautions_panel, notes_panel
+from sizer.render.cost import bars_text, costing_json, money, reserve_sentence
 from sizer.render.forces import plural
 from sizer.render.text import Column, Heading, Ledger, Paragraph
 from sizer.sizing import Candidate, SizingResult
 
 
 def shown_candidates(result: SizingResult, top: int) -> list[Candidate]:
-    """The `top` lighter failing sections next to the choice, the choice, and the heavier ones checked."""
+    """The `top` failing sections ranked next before the choice, the choice, the next ones that pass,
+    and those not available that would otherwise rank before the choice."""
     if result.chosen is None:
         return [c for c in result.candidates if c.report is not None]
     position = result.candidates.index(result.chosen)
     lighter = result.candidates[max(0, position - top):position]
-    heavier = [c for c in result.candidates[position + 1:] if c.report is not None and c.report.passes][:top]
-    return lighter + [result.chosen] + heavier
+    heavier = [c for c in result.candidates[position + 1:] if c.report is not None and c.report.passes and c not in result.unavailable][:top]
+    return lighter + [result.chosen] + heavier + result.unavailable
 
 
 def candidate_entry(candidate: Candidate) -> dict[str, Any]:
@@ -32,17 +34,21 @@ def candidate_entry(candidate: Candidate) -> dict[str, Any]:
         "governing": candidate.governing,
         "basis": candidate.decided_by,
         "utilization_is_lower_bound": candidate.report is None,
+        "cost": candidate.costing.cost if candidate.costing is not None else None,
+        **costing_json(candidate.costing),
     }
 
 
 def listed_candidates(result: SizingResult) -> list[Candidate]:
-    """Every section lighter than the choice (each with its governing check), the choice, and the
-    heavier sections confirmed to pass; every candidate when nothing passes."""
+    """Every section ranked before the choice (each with its governing check), the choice, the
+    sections after it confirmed to pass, and those not available that would otherwise rank before
+    the choice; every candidate when nothing passes."""
     chosen = result.chosen
     if chosen is None:
         return list(result.candidates)
     position = result.candidates.index(chosen)
-    return result.candidates[:position + 1] + [c for c in result.candidates[position + 1:] if c.report is not None and c.report.passes]
+    after = [c for c in result.candidates[position + 1:] if (c.report is not None and c.report.passes) or c in result.unavailable]
+    return result.candidates[:position + 1] + after
 
 
 def size_json(result: SizingResult, notes: list[str]) -> dict[str, Any]:
@@ -57,6 +63,12 @@ def size_json(result: SizingResult, notes: list[str]) -> dict[str, Any]:
         "governing": chosen.governing if chosen else None,
         "checks": [check_entry(c) for c in chosen.report.checks] if chosen else [],
         "restraints": [demand.to_json() for demand in chosen.report.restraints] if chosen else [],
+        "ranked_by": result.ranking.by,
+        "include_unstocked": result.ranking.include_unstocked,
+        "currency": result.ranking.currency,
+        "cost": chosen.costing.cost if chosen else None,
+        "reserve_factor": _reserve_factor(chosen),
+        "reserve_combination": chosen.report.reserve.combination if chosen and chosen.report.reserve else None,
         "candidates": [candidate_entry(c) for c in listed_candidates(result)],
     }
     if chosen is None and result.strongest is not None:
@@ -65,14 +77,34 @@ def size_json(result: SizingResult, notes: list[str]) -> dict[str, Any]:
     return document
 
 
+def _reserve_factor(chosen: Candidate | None) -> float | None:
+    return chosen.report.reserve.factor if chosen is not None and chosen.report.reserve is not None else None
+
+
+RANKED = {"mass": ("mass per length", "the lightest"), "cost": ("cost", "the cheapest"), "depth": ("depth", "the shallowest")}
+
+
+def ranked_by(result: SizingResult) -> str:
+    """The ranking in effect: --by cost without any priced candidate ranks by mass (its notes say so)."""
+    by = result.ranking.by
+    if by == "cost" and all(c.costing is None or c.costing.cost is None for c in result.candidates):
+        return "mass"
+    return by
+
+
 def candidates_ledger(result: SizingResult, top: int, system: str) -> Ledger:
-    """Lighter sections that fail (with why), the choice, and the heavier ones that pass. A
-    utilization from the screen is a proven lower bound, shown with ">=" before it."""
+    """Sections ranked before the choice that fail (with why), the choice, and the next ones that
+    pass. A utilization from the screen is a proven lower bound, shown with ">=" before it. With
+    costs: the member's cost in each section and the bars it takes."""
     from rich.markup import escape
 
-    ledger = Ledger("Candidates by mass per length", [
-        Column("section"), Column("mass", right=True), Column("utilization"), Column("governing", fold=True),
-        Column("status", fold=True), Column("decided by", fold=True)],
+    ranking, by = result.ranking, ranked_by(result)
+    costs = any(c.costing is not None and (c.costing.cost is not None or not c.costing.available or c.costing.terms.stock_lengths)
+                for c in result.candidates)
+    columns = [Column("section")] + ([Column("depth", right=True)] if by == "depth" else []) + [Column("mass", right=True)] + (
+        [Column("cost", right=True)] if costs else [])
+    ledger = Ledger(f"Candidates by {RANKED[by][0]}", columns + [
+        Column("utilization"), Column("governing", fold=True), Column("status", fold=True), Column("decided by", fold=True)],
         caption="decided by: \"full field\" = the full stress-field check, as `sizer check` makes it; \"screen\" = "
                 "ruled out by a proven lower bound of that check (the true utilization is at least the one shown).")
     for candidate in shown_candidates(result, top):
@@ -80,10 +112,18 @@ def candidates_ledger(result: SizingResult, top: int, system: str) -> Ledger:
         bound = candidate.report is None
         cell = utilization_cell(candidate.utilization)
         status = PASSES if candidate.passes else f"[reverse]{FAILS}[/]"
-        ledger.add_row(escape(candidate.name), units.fmt(candidate.mass_per_length, "mass_per_length", system),
+        cost_cell = [money(candidate.costing.cost, ranking.currency) if candidate.costing.available or candidate.costing.cost is not None
+                     else "n/a"] if costs else []
+        notes = [f"chosen: {RANKED[by][1]} that passes"] if is_chosen else []
+        if costs and candidate.costing.order is not None:
+            notes.append(escape(bars_text(candidate.costing.order, system)))
+        if not candidate.costing.available:
+            notes.append(escape(candidate.costing.unavailable) + ": ranked after the available sections"
+                         if not ranking.include_unstocked else escape(candidate.costing.unavailable))
+        depth_cell = [units.fmt(candidate.rank[1], "dimension", system)] if by == "depth" else []  # the rank's depth as installed
+        ledger.add_row(escape(candidate.name), *depth_cell, units.fmt(candidate.mass_per_length, "mass_per_length", system), *cost_cell,
                        (">=" if bound else "  ") + cell, escape(candidate.governing or ""), status,
-                       "screen" if bound else "full field", note="chosen: the lightest that passes" if is_chosen else "",
-                       style="bold" if is_chosen else "")
+                       "screen" if bound else "full field", note="; ".join(notes), style="bold" if is_chosen else "")
     return ledger
 
 
@@ -94,11 +134,14 @@ def sizing_verdict(result: SizingResult, system: str) -> VerdictBlock:
     chosen = result.chosen
     if chosen is not None:
         governing = chosen.report.governing
+        by = ranked_by(result)
+        cost = f", cost {money(chosen.costing.cost, result.ranking.currency)} ({escape(bars_text(chosen.costing.order, system))})" \
+            if chosen.costing is not None and chosen.costing.cost is not None else ""
         return VerdictBlock(
-            f"[bold]{escape(chosen.name)}[/] [bold]{PASSES}[/]: the lightest passing section, "
-            f"{units.fmt(chosen.mass_per_length, 'mass_per_length', system)}, utilization {chosen.utilization:.3f}, governed by "
+            f"[bold]{escape(chosen.name)}[/] [bold]{PASSES}[/]: {RANKED[by][1]} passing section, "
+            f"{units.fmt(chosen.mass_per_length, 'mass_per_length', system)}{cost}, utilization {chosen.utilization:.3f}, governed by "
             f"[bold]{governing.check}[/] at x = {units.fmt(governing.at, 'length', system)} in combination "
-            f"{escape(governing.combination or '')}.", True)
+            f"{escape(governing.combination or '')}." + reserve_sentence(chosen.report.reserve), True)
     strongest = result.strongest
     governing = strongest.report.governing
     over = (strongest.utilization - 1.0) * 100

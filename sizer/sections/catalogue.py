@@ -16,7 +16,7 @@ import difflib
 import math
 import re
 import sys
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from functools import lru_cache
 from pathlib import Path
 from typing import Any, Sequence
@@ -27,11 +27,12 @@ from sizer.files import read_text
 from sizer.model import Material
 from sizer.sections import catalogue_cache
 from sizer.sections.catalogue_cache import ParsedFile
+from sizer.sections.purchase import Purchase, parse_currency, parse_families, parse_purchase
 from sizer.sections.shapes import MAX_AREA_PER_WALL_SQUARED, RADIUS_KEYS, SHAPES, allowed_keys, fit_problems
 from sizer.sections.spec import Point, SectionSpec
 
 SHIPPED_PACKAGE = "sizer.section_library"
-TOP_KEYS = ("title", "materials", "sections")
+TOP_KEYS = ("title", "currency", "families", "materials", "sections")
 DEFAULT_MATERIAL = "mild-steel"
 FOREIGN_TABLES = frozenset({"member", "project", "build-system", "tool"})  # member files, pyproject.toml
 
@@ -42,6 +43,18 @@ class Catalogue:
     sections: dict[str, SectionSpec]
     materials: dict[str, Material]
     files: tuple[Path, ...] = ()
+    currency: str | None = None  # stated once per catalogue (any file; files that state it agree)
+    family_purchase: dict[str, Purchase] = field(default_factory=dict)  # [families.NAME] purchase terms
+
+    def purchase(self, spec: SectionSpec) -> Purchase:
+        """The section's purchase terms: its own keys, else its family's (sizer.sections.purchase)."""
+        own = spec.purchase or Purchase()
+        return own.over(self.family_purchase.get(spec.family)) if spec.family else own
+
+    @property
+    def has_purchase_terms(self) -> bool:
+        """True when the catalogue gives any purchase terms (a family's or a section's own)."""
+        return bool(self.family_purchase) or any(spec.purchase is not None for spec in self.sections.values())
 
     def get(self, name: str, file_for_error: str = "", key_for_error: str = "section", line: int | None = None) -> SectionSpec:
         """The section called `name`; InputError (suggesting close names) when there is none."""
@@ -138,6 +151,8 @@ class CatalogueFile:
     path: Path
     sections: list[SectionSpec]
     materials: dict[str, Material]
+    currency: str | None = None
+    families: dict[str, Purchase] = field(default_factory=dict)
 
 
 def load_catalogue(paths: Sequence[Path]) -> Catalogue:
@@ -146,11 +161,13 @@ def load_catalogue(paths: Sequence[Path]) -> Catalogue:
     sections: dict[str, SectionSpec] = {}
     materials: dict[str, Material] = {}
     files: list[Path] = []
+    terms = _PurchaseTerms()
     for path, from_folder in catalogue_files(paths):
         content = _catalogue_file(path, from_folder)
         if content.foreign:
             continue  # a member file or project file kept beside the catalogue files
         files.append(path)
+        terms.add(path, content)
         for index, spec in enumerate(content.sections, start=1):
             if spec.name in sections:
                 first = sections[spec.name]
@@ -162,7 +179,47 @@ def load_catalogue(paths: Sequence[Path]) -> Catalogue:
                 raise InputError(str(path), f"materials.{name}", f"material {name!r} is also defined in {materials[name].source}",
                                  "material names must be unique across the catalogue: rename or remove one")
             materials[name] = material
-    return Catalogue(sections, materials, tuple(files))
+    terms.check(sections)
+    return Catalogue(sections, materials, tuple(files), terms.currency, terms.families)
+
+
+class _PurchaseTerms:
+    """The catalogue's currency and family purchase terms, gathered file by file: a currency stated
+    twice must agree, a family's terms are given in one file only, and each names a family that
+    some section is in."""
+
+    def __init__(self) -> None:
+        self.currency: str | None = None
+        self.currency_file = ""
+        self.families: dict[str, Purchase] = {}
+        self.family_files: dict[str, Path] = {}
+        self.priced_file: Path | None = None
+
+    def add(self, path: Path, content: ParsedFile) -> None:
+        if content.currency is not None:
+            if self.currency is not None and content.currency != self.currency:
+                raise InputError(str(path), "currency", f"currency {content.currency!r} differs from {self.currency!r} in {self.currency_file}",
+                                 "state one currency for the whole catalogue (or remove it from all but one file)")
+            self.currency, self.currency_file = content.currency, str(path)
+        for name, terms in content.families.items():
+            if name in self.families:
+                raise InputError(str(path), f"families.{name}", f"family {name!r} has purchase terms in {self.family_files[name]} too",
+                                 "give each family's terms in one file only")
+            self.families[name], self.family_files[name] = terms, path
+            if terms.cost_per_kg is not None:
+                self.priced_file = self.priced_file or path
+        if self.priced_file is None and any(spec.purchase is not None and spec.purchase.cost_per_kg is not None for spec in content.sections):
+            self.priced_file = path
+
+    def check(self, sections: dict[str, SectionSpec]) -> None:
+        families = {spec.family for spec in sections.values() if spec.family}
+        for name, path in self.family_files.items():
+            if name not in families:
+                raise InputError(str(path), f"families.{name}", f"no section is in family {name!r}",
+                                 "use the family name the sections give (family = \"...\"), or remove the table")
+        if self.priced_file is not None and self.currency is None:
+            raise InputError(str(self.priced_file), "currency", "the catalogue gives prices (cost_per_kg) but no currency",
+                             'add currency = "EUR" (or your currency) once, at the top of a catalogue file')
 
 
 def _catalogue_file(path: Path, from_folder: bool) -> ParsedFile:
@@ -194,7 +251,7 @@ def _parse_file(path: Path, text: str, from_folder: bool) -> ParsedFile:
     if from_folder and FOREIGN_TABLES & data.keys():
         return ParsedFile(True, [], {})
     content = parse_catalogue_text(text, path, data)
-    return ParsedFile(False, content.sections, content.materials)
+    return ParsedFile(False, content.sections, content.materials, content.currency, content.families)
 
 
 def _place(file: str, line: int | None) -> str:
@@ -231,7 +288,7 @@ def parse_catalogue_text(text: str, path: Path, data: dict | None = None) -> Cat
                                "section names must be unique across the catalogue: rename one")
         lines[spec.name] = spec.line
         sections.append(spec)
-    return CatalogueFile(path, sections, materials)
+    return CatalogueFile(path, sections, materials, parse_currency(data, reader), parse_families(data, reader))
 
 
 def parse_material(name: str, table: dict, file: str, key_prefix: str, text: str = "") -> Material:
@@ -267,13 +324,14 @@ def parse_section(table: dict, reader: Any, prefix: str) -> SectionSpec:
     family = _optional_text(table, "family", reader, prefix, label)
     material = _optional_text(table, "material", reader, prefix, label)
     line = reader.key_lines.find(f"{prefix}.name")
+    purchase = parse_purchase(table, reader, prefix, label)
     if shape == "polygon":
         points, holes = _polygon(table, reader, prefix, label)
-        return SectionSpec(name, shape, {}, points, holes, family, material, reader.file, line)
+        return SectionSpec(name, shape, {}, points, holes, family, material, reader.file, line, purchase)
     dims = {key: _dimension(table, key, reader, prefix, label) for key in SHAPES[shape].all}
     for problem in fit_problems(shape, dims)[:1]:
         raise reader.error(f"{prefix}.{problem.key}", f"{label}: {problem.problem}", problem.fix)
-    return SectionSpec(name, shape, dims, (), (), family, material, reader.file, line)
+    return SectionSpec(name, shape, dims, (), (), family, material, reader.file, line, purchase)
 
 
 def _optional_text(table: dict, key: str, reader: Any, prefix: str, label: str) -> str | None:

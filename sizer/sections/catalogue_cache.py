@@ -14,8 +14,8 @@ overwritten, so the folder holds one file per catalogue file read.
 
 Only files that parsed without error are stored, so a bad file is parsed, and its error raised, on
 every read. Reading trusts nothing: a missing or damaged file, another digest of the text, a pickle
-that does not match its digest, a pickle naming any class but ParsedFile, SectionSpec, Material and
-Allowables, or contents of the wrong types all read as absent. Files are written atomically (sizer.files.write_atomic).
+that does not match its digest, a pickle naming any class but ParsedFile, SectionSpec, Material,
+Allowables and Purchase, or contents of the wrong types all read as absent. Files are written atomically (sizer.files.write_atomic).
 """
 
 from __future__ import annotations
@@ -31,11 +31,12 @@ from pathlib import Path
 
 from sizer.files import cache_root, write_atomic
 from sizer.model import Allowables, Material
+from sizer.sections.purchase import Purchase
 from sizer.sections.spec import SectionSpec
 
 # the modules whose code shapes a catalogue file's parse result, relative to the sizer package
 FINGERPRINT_SOURCES = (
-    "sections/catalogue.py", "sections/catalogue_cache.py", "sections/shapes.py", "sections/spec.py", "model.py", "units.py", "inputfile/__init__.py", "inputfile/reader.py",
+    "sections/catalogue.py", "sections/catalogue_cache.py", "sections/shapes.py", "sections/spec.py", "sections/purchase.py", "model.py", "units.py", "inputfile/__init__.py", "inputfile/reader.py",
     "inputfile/materials.py",
 )
 
@@ -46,15 +47,18 @@ class ParsedFile:
     (A plain class: a dataclass or NamedTuple would add up to half a millisecond to importing this
     module, which every catalogue read pays.)"""
 
-    __slots__ = ("foreign", "sections", "materials")
+    __slots__ = ("foreign", "sections", "materials", "currency", "families")
 
-    def __init__(self, foreign: bool, sections: list[SectionSpec], materials: dict[str, Material]) -> None:
+    def __init__(self, foreign: bool, sections: list[SectionSpec], materials: dict[str, Material], currency: str | None = None,
+                 families: dict[str, Purchase] | None = None) -> None:
         self.foreign = foreign
         self.sections = sections
         self.materials = materials
+        self.currency = currency  # the file's top-level currency
+        self.families = families or {}  # [families.NAME] purchase terms
 
 
-_ALLOWED_CLASSES = {(cls.__module__, cls.__qualname__): cls for cls in (ParsedFile, SectionSpec, Material, Allowables)}
+_ALLOWED_CLASSES = {(cls.__module__, cls.__qualname__): cls for cls in (ParsedFile, SectionSpec, Material, Allowables, Purchase)}
 
 
 def cache_folder() -> Path:
@@ -133,7 +137,11 @@ def _well_typed(parsed: object) -> bool:
     return (type(parsed) is ParsedFile and type(parsed.foreign) is bool
             and type(parsed.sections) is list and all(type(spec) is SectionSpec for spec in parsed.sections)
             and type(parsed.materials) is dict
-            and all(type(name) is str and type(material) is Material for name, material in parsed.materials.items()))
+            and all(type(name) is str and type(material) is Material for name, material in parsed.materials.items())
+            and (parsed.currency is None or type(parsed.currency) is str)
+            and type(parsed.families) is dict
+            and all(type(name) is str and type(terms) is Purchase for name, terms in parsed.families.items())
+            and all(spec.purchase is None or type(spec.purchase) is Purchase for spec in parsed.sections))
 
 
 def _unpickle(payload: bytes) -> object:

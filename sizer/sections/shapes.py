@@ -38,7 +38,7 @@ SHAPES: dict[str, ShapeKeys] = {
     "angle": ShapeKeys(("depth", "width", "thickness"), ("root_radius",)),
     "polygon": ShapeKeys(("points",), ("holes",)),
 }
-COMMON_KEYS: tuple[str, ...] = ("name", "shape", "family", "material")
+COMMON_KEYS: tuple[str, ...] = ("name", "shape", "family", "material", "cost_per_kg", "stocked", "stock_lengths")
 RADIUS_KEYS = frozenset({"root_radius", "outer_radius"})
 ALL_DIMENSION_KEYS: tuple[str, ...] = (
     "depth", "width", "thickness", "flange_thickness", "web_thickness", "diameter", "root_radius", "outer_radius",

@@ -1,5 +1,5 @@
 """One catalogue section as the user wrote it (SectionSpec), in SI: its shape, dimensions (m) or
-polygon points, family, material and where it was read. The data every other part of sizer.sections
+polygon points, family, material, purchase terms and where it was read. The data every other part of sizer.sections
 works from; it imports nothing of theirs.
 """
 
@@ -9,6 +9,8 @@ import hashlib
 import json
 from dataclasses import dataclass, field
 from functools import cached_property
+
+from sizer.sections.purchase import Purchase
 
 Point = tuple[float, float]
 
@@ -31,6 +33,7 @@ class SectionSpec:
     material: str | None = None
     source: str = ""
     line: int | None = None
+    purchase: Purchase | None = None  # the section's own purchase terms (sizer.sections.purchase), family ones not applied
 
     def geometry_key(self) -> str:
         """A stable hash of the shape and its dimensions (not the name, family or material)."""

@@ -22,6 +22,7 @@ from sizer.checks import CheckReport
 from sizer.design import Design, oriented_stiffness
 from sizer.errors import InputError
 from sizer.model import Material, Member
+from sizer.sizing.cost import Costing, Ranking, costing, ranking_depth
 from sizer.stability import StabilitySection
 from sizer.stability.section import SCALARS, section_of
 
@@ -91,6 +92,8 @@ class Candidate:
     bounds: dict[str, float] = field(default_factory=dict)  # check -> proven lower bound of its utilization
     report: CheckReport | None = None  # full check, where made
     design: Design | None = None  # the solved design of that full check
+    costing: Costing | None = None  # its cost for the member and whether it is available (sizer.sizing.cost)
+    rank: tuple = ()  # its sort key (sizer.sizing.cost.Ranking.key)
 
     @cached_property
     def props(self) -> Any:
@@ -132,11 +135,12 @@ class Candidate:
 
 def candidate_sections(catalogue: Any, member: Member, material: Material, families: Sequence[str],
                        max_depth: float | None, max_width: float | None,
-                       progress: Callable[[int, int, str], None] | None = None, lazy: bool = False) -> tuple[list[Candidate], CandidateTable]:
-    """Catalogue sections after the filters, sorted by mass per length, and their table: every tier
-    (any not cached computed first, reporting to `progress`), or with `lazy` the geometric tier
-    alone (no sectionproperties; the warping columns NaN). Depth and width are as installed (a
-    minor orientation swaps them)."""
+                       progress: Callable[[int, int, str], None] | None = None, lazy: bool = False,
+                       ranking: Ranking | None = None) -> tuple[list[Candidate], CandidateTable]:
+    """Catalogue sections after the filters, in the order of `ranking` (default: by mass per
+    length), each with its cost for the member, and their table: every tier (any not cached computed
+    first, reporting to `progress`), or with `lazy` the geometric tier alone (no sectionproperties;
+    the warping columns NaN). Depth and width are as installed (a minor orientation swaps them)."""
     from sizer.sections.properties import SCALAR_NAMES, geometric_table, section_table
     from sizer.sections.geometric import GEOMETRIC_NAMES
 
@@ -160,8 +164,14 @@ def candidate_sections(catalogue: Any, member: Member, material: Material, famil
     if not keep.any():
         raise InputError("", "--max-depth", "no catalogue section fits the depth and width limits", "relax --max-depth / --max-width")
     mass = column["area"] * material.density
-    order = sorted(np.flatnonzero(keep).tolist(), key=lambda i: (mass[i], specs[i].name))
-    candidates = [Candidate(specs[i].name, specs[i], float(mass[i]), material.density, k) for k, i in enumerate(order)]
+    ranking = ranking or Ranking()
+    kept = np.flatnonzero(keep).tolist()
+    costs = {i: costing(catalogue.purchase(specs[i]), float(mass[i]), member.length) for i in kept}
+    installed_depth = ranking_depth(column, member.orientation)
+    keys = {i: ranking.key(specs[i].name, float(mass[i]), float(installed_depth[i]), costs[i]) for i in kept}
+    order = sorted(kept, key=keys.__getitem__)
+    candidates = [Candidate(specs[i].name, specs[i], float(mass[i]), material.density, k, costing=costs[i], rank=keys[i])
+                  for k, i in enumerate(order)]
     return candidates, CandidateTable({name: values[order] for name, values in column.items()}, mass[order], tuple(specs[i] for i in order),
                                       np.full(len(order), not lazy))
 

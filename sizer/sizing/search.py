@@ -15,6 +15,7 @@ from sizer.checks import CheckReport, check_design
 from sizer.model import Material, Member, Stiffness
 from sizer.sections.properties import AnalysisWorkers
 from sizer.sizing.candidates import Candidate, CandidateTable, candidate_sections, design_for
+from sizer.sizing.cost import Ranking
 from sizer.sizing.screen import Screen, local_lower_bound, prove_lower_bounds, rescreen, screen
 from sizer.sizing.stability_bounds import StabilityBounds
 from sizer.stability import MemberStability
@@ -31,6 +32,8 @@ class SizingResult:
     chosen: Candidate | None
     strongest: Candidate | None = None  # when nothing passes: the least utilized on the full check
     notes: list[str] = field(default_factory=list)
+    ranking: Ranking = field(default_factory=Ranking)  # the order of `candidates` (sizer.sizing.cost)
+    unavailable: list[Candidate] = field(default_factory=list)  # not available, ranked after the choice for that alone
 
     @property
     def full_checks(self) -> int:
@@ -187,21 +190,35 @@ class Search:
                 break
             heavier += self.passes_in_full(candidate, learn=False)
 
+    def unavailable_ahead(self, chosen: Candidate | None, top: int) -> list[Candidate]:
+        """Up to `top` sections not available (not stocked, or longer than every stock length) that rank
+        after the choice only for that reason, each judged as the others are (a proven lower bound or the
+        full check): what stocking them would offer."""
+        if chosen is None:
+            return []
+        found = [c for c in self.candidates[self.candidates.index(chosen) + 1:] if not c.costing.available and c.rank[1:] < chosen.rank[1:]]
+        for candidate in found[:top]:
+            self.passes_in_full(candidate, learn=False)
+        return found[:top]
+
 
 def size_member(member: Member, catalogue: Any, material: Material, families: Sequence[str] = (),
                 max_depth: float | None = None, max_width: float | None = None, top: int = 3,
-                progress: Callable[[int, int, str], None] | None = None) -> SizingResult:
-    """The lightest candidate that passes every check on the full stress field, with runners-up
-    (`progress` hears of the warping tiers computed: only for the sections whose verdict needs them)."""
+                progress: Callable[[int, int, str], None] | None = None, ranking: Ranking | None = None) -> SizingResult:
+    """The first candidate in the order of `ranking` (default: the lightest) that passes every check
+    on the full stress field, with runners-up (`progress` hears of the warping tiers computed: only
+    for the sections whose verdict needs them)."""
     with AnalysisWorkers(progress=progress) as workers:
-        return _size(member, catalogue, material, families, max_depth, max_width, top, workers)
+        return _size(member, catalogue, material, families, max_depth, max_width, top, workers, ranking or Ranking())
 
 
 def _size(member: Member, catalogue: Any, material: Material, families: Sequence[str], max_depth: float | None,
-          max_width: float | None, top: int, workers: AnalysisWorkers) -> SizingResult:
-    candidates, table = candidate_sections(catalogue, member, material, families, max_depth, max_width, lazy=True)
+          max_width: float | None, top: int, workers: AnalysisWorkers, ranking: Ranking) -> SizingResult:
+    candidates, table = candidate_sections(catalogue, member, material, families, max_depth, max_width, lazy=True, ranking=ranking)
     count = f"{len(candidates)} candidate section" + ("" if len(candidates) == 1 else "s")
     notes = [f"{count} after filters, each with its own self-weight, in material {material.name} (the member's)."]
+    notes += ranking.notes(any(not c.costing.available for c in candidates), any(c.costing.cost is None for c in candidates),
+                           any(c.costing.terms.stock_lengths for c in candidates), any(c.costing.cost is not None for c in candidates))
     search = Search(member, material, candidates, table, workers)
     if member.has_springs:
         search.compute(candidates)
@@ -216,11 +233,14 @@ def _size(member: Member, catalogue: Any, material: Material, families: Sequence
                      "so far); every verdict of a section shown in full rests on the full stress-field check.")
     chosen = search.first_passing()
     search.confirm_runners_up(chosen, top)
+    unavailable = search.unavailable_ahead(chosen, top)
+    if chosen is not None and not chosen.costing.available:
+        notes.append(f"No available section passes: the choice {chosen.name} is {chosen.costing.unavailable}.")
     strongest = None
     if chosen is None:
         search.stability_bounds(candidates)
         strongest = search.least_utilized()
-    return SizingResult(member, material, candidates, chosen, strongest, notes)
+    return SizingResult(member, material, candidates, chosen, strongest, notes, ranking, unavailable)
 
 
 def prepare_screen(search: Search, table: CandidateTable) -> None:

@@ -21,7 +21,7 @@ def run_trial(spec: SpanTableSpec, section: str, span: float, imposed: AppliedLo
     """The full check (`sizer check`) of one trial member."""
     from sizer import api
 
-    outcome = api.check(trial_member(spec, section, span, imposed), None, catalogue)
+    outcome = api.check(trial_member(spec, section, span, imposed), None, catalogue, reserve=False)
     return Trial(outcome.passes, outcome.utilization, outcome.governing)
 
 

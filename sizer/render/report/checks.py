@@ -24,7 +24,17 @@ def _verdict_text(document: dict[str, Any], system: str) -> str:
         return f'<span class="word">{word}</span> no check could be made.'
     return (f'<span class="word">{word}</span> Section <b>{_e(document["section"])}</b>: governing check '
             f'<b>{_e(governing["check"])}</b>, utilization <b data-value="{governing["utilization"]!r}">{governing["utilization"]:.3f}</b> '
-            f'at x = {_fmt(governing["at"], "length", system)} in combination <b>{_e(governing["combination"])}</b>.')
+            f'at x = {_fmt(governing["at"], "length", system)} in combination <b>{_e(governing["combination"])}</b>.'
+            + _reserve_text(document))
+
+
+def _reserve_text(document: dict[str, Any]) -> str:
+    """The reserve factor (sizer.checks.reserve) in a sentence, where found."""
+    factor, combination = document.get("reserve_factor"), document.get("reserve_combination")
+    if factor is None or combination is None:
+        return ""
+    return (f' Reserve factor <b data-value="{factor!r}">{factor:.3f}</b>: every load of combination <b>{_e(combination)}</b>, '
+            f'self-weight included, times {factor:.3f} {"still passes" if factor >= 1 else "is the most that would pass"} every check.')
 
 
 def verdict_box(document: dict[str, Any], system: str) -> str:

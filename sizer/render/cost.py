@@ -1,0 +1,77 @@
+"""Cost, bars to order and the reserve factor in words and in JSON, shared by `size`, `check` and
+schedules (sizer.sizing.cost, sizer.checks.reserve)."""
+
+from __future__ import annotations
+
+from typing import Any
+
+from sizer import units
+
+
+def money(value: float | None, currency: str | None) -> str:
+    """A cost with its currency ("412.50 EUR"); "no price" for None."""
+    if value is None:
+        return "no price"
+    return f"{value:,.2f} {currency or '(no currency)'}"
+
+
+def bars_text(order: Any, system: str = "si") -> str:
+    """The bars of a sizer.sizing.cost.BarOrder in words: "bars 1 x 12.00 m + 1 x 6.000 m, offcut 0.600 m"."""
+    if order is None:
+        return "not available in one bar"
+    if order.cut_to_length:
+        return f"{order.pieces} x {units.fmt(order.piece_length, 'length', system)} cut to length"
+    bars = " + ".join(f"{count} x {units.fmt(length, 'length', system)}" for length, count in order.bars)
+    return f"bars {bars}, offcut {units.fmt(order.offcut, 'length', system)}"
+
+
+def bars_json(order: Any) -> dict[str, Any] | None:
+    """A BarOrder in SI (m): pieces, piece length, bars by stock length, metres bought, offcut."""
+    if order is None:
+        return None
+    return {"pieces": order.pieces, "piece_length": order.piece_length, "cut_to_length": order.cut_to_length,
+            "bars": [{"length": length, "count": count} for length, count in order.bars],
+            "metres": order.metres, "offcut": order.offcut}
+
+
+def costing_json(costing: Any) -> dict[str, Any]:
+    """A candidate's cost entries (sizer.sizing.cost.Costing) for the JSON documents."""
+    if costing is None:
+        return {}
+    terms = costing.terms
+    return {"cost": costing.cost, "cost_per_kg": terms.cost_per_kg, "stocked": terms.is_stocked,
+            "available": costing.available, "unavailable": costing.unavailable or None, "bars": bars_json(costing.order)}
+
+
+def reserve_sentence(reserve: Any) -> str:
+    """The reserve factor for a verdict line ("" when not found)."""
+    if reserve is None or reserve.combination is None:
+        return ""
+    from rich.markup import escape
+
+    combination = escape(reserve.combination)
+    if reserve.factor is None:
+        return f" Reserve factor: unbounded in combination {combination}."
+    if reserve.factor < 1:
+        return (f" Reserve factor [bold]{reserve.factor:.3f}[/]: every check would pass only with every load of combination "
+                f"{combination}, self-weight included, times {reserve.factor:.3f} or less.")
+    return (f" Reserve factor [bold]{reserve.factor:.3f}[/]: every check still passes with every load of combination "
+            f"{combination}, self-weight included, times {reserve.factor:.3f}.")
+
+
+def price_text(terms: Any, currency: str | None) -> str:
+    """A section's price per kg ("1.45 EUR/kg"; "—" when not given)."""
+    return f"{terms.cost_per_kg:g} {currency or '(no currency)'}/kg" if terms.cost_per_kg is not None else "—"
+
+
+def stock_text(terms: Any, system: str = "si") -> str:
+    """Whether a section is stocked, and in which bar lengths."""
+    lengths = ("bars of " + ", ".join(units.fmt(length, "length", system) for length in terms.stock_lengths)
+               if terms.stock_lengths else "cut to length")
+    return f"stocked, {lengths}" if terms.is_stocked else f"not stocked ({lengths})"
+
+
+def purchase_json(terms: Any, currency: str | None) -> dict[str, Any]:
+    """A section's purchase terms (its own, else its family's) in SI (m)."""
+    return {"cost_per_kg": terms.cost_per_kg, "currency": currency, "stocked": terms.is_stocked,
+            "stock_lengths": list(terms.stock_lengths) if terms.stock_lengths else None}
