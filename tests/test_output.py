@@ -303,10 +303,10 @@ def test_hand_formulas_use_the_closed_form_section_values(files: dict[str, Path]
 def test_record_writes_euler_with_kl_over_r(files: dict[str, Path]) -> None:
     """P_e = pi^2 E A / (KL/r)^2 = pi^2 E I / L^2 about the minor axis on the given 2 m."""
     import sizer
-    from sizer.render.report.by_hand import column_lines
+    from sizer.render.report.hand_stability import column_items
 
     outcome = sizer.check(files["member"], catalogue=[files["catalogue"]])
-    lines = dict(column_lines(outcome.design, outcome.report, "si"))
+    lines = {line.split(" axis:")[0]: line for line in column_items(outcome.design, outcome.report, "si")}
     E, I_minor, length = 200e9, 0.120 * 0.040**3 / 12, 2.0
     euler = math.pi**2 * E * I_minor / length**2  # Timoshenko & Gere
     shown = float(re.search(r"P_e = [^;]* = ([\d.]+) kN;", lines["minor"]).group(1)) * 1e3

@@ -14,12 +14,12 @@ from typing import Any
 
 import numpy as np
 
+from sizer.checks.mode_label import mode_label
 from sizer.checks.reduction import johnson
 from sizer.checks.results import CheckResult
 from sizer.checks.stability import StabilityReport
 from sizer.design import Design
 from sizer.model import Member
-from sizer.stability import mode_name
 
 
 @dataclass(frozen=True)
@@ -133,7 +133,8 @@ def column_buckling(design: Design, report: StabilityReport, given: list[Bucklin
             continue
         load, mode = entry.axial.load_factor * entry.compression, "none"
         if entry.axial.mode is not None:
-            mode = mode_name(report.model.energy_shares(report.section, entry.axial.mode))
+            shares = report.model.energy_shares(report.section, entry.axial.mode)
+            mode = mode_label(shares, bool(np.isclose(report.section.Iz, report.section.Iy, rtol=1e-3)))
         for axis in given:
             euler = math.pi**2 * material.elastic_modulus * axis.radius**2 * area / axis.length**2
             if euler < load:

@@ -18,11 +18,11 @@ import numpy as np
 
 from sizer import units
 from sizer.analysis.section_axes import to_section_axes
-from sizer.checks import CheckReport, buckling_axes
+from sizer.checks import CheckReport
 from sizer.design import Design
+from sizer.render.report.hand_stability import hand_stability_html
 from sizer.render.report.markup import _e, _fmt
 from sizer.render.report.segment import cut_side, governing_cut
-from sizer.render.si_text import in_display_units
 
 STRESS_CHECKS = ("axial", "bending", "interaction", "shear", "equivalent", "lateral-torsional", "local")
 CLOSE = 0.02  # formula and field within 2 %: "they agree"
@@ -169,28 +169,6 @@ def by_hand_lines(design: Design, station: Station, unit_field: Any, system: str
     return rows
 
 
-def column_lines(design: Design, report: CheckReport, system: str) -> list[tuple[str, str]]:
-    """(axis, Euler's load with KL/r and, where it applies, the Johnson parabola) per principal axis."""
-    material, props = design.material, design.props
-    E, Fy = material.elastic_modulus, material.yield_strength
-    rows = []
-    for axis in buckling_axes(design.member, props, material):
-        euler = math.pi**2 * E * props.area / axis.slenderness**2
-        text = (f"KL/r = {units.fmt(axis.length, 'dimension', system)} / {units.fmt(axis.radius, 'dimension', system)} = {axis.slenderness:.1f}; "
-                f"P_e = π² E A / (KL/r)² = π² x {units.fmt(E, 'modulus', system)} x {units.fmt(props.area, 'area', system)} / "
-                f"{axis.slenderness:.1f}² = {units.fmt(euler, 'force', system)}")
-        if Fy:
-            transition = math.pi * math.sqrt(2 * E / Fy)
-            text += f"; Cc = π √(2 E / Fy) = {transition:.1f}"
-            if axis.slenderness < transition:
-                text += (f" > KL/r, so the Johnson parabola: σ = Fy (1 - (KL/r)² / (2 Cc²)) = "
-                         f"{units.fmt(axis.critical_stress, 'stress', system)}")
-            else:
-                text += " ≤ KL/r, so Euler's load applies"
-        rows.append((axis.axis, text))
-    return rows
-
-
 def by_hand_section(design: Design, report: CheckReport, system: str) -> str:
     """The HTML of section 6."""
     from sizer.sections import unit_stress_field
@@ -215,17 +193,8 @@ def by_hand_section(design: Design, report: CheckReport, system: str) -> str:
            "re-entrant corners (which raise the torsional shear above T t / J), and it adds the actions at one point instead of "
            "adding their separate peaks. For bending about a principal axis the two agree, since S is taken from the same outline.</p>")
     table = f"<table><thead><tr><th></th><th>formula with the numbers</th><th>full field</th></tr></thead><tbody>{body}</tbody></table>"
-    columns = "".join(f"<li>{_e(axis)} axis: {_e(text)}</li>" for axis, text in column_lines(design, report, system))
-    buckling = next((c for c in report.checks if c.check == "buckling" and c.made), None)
-    solved = ""
-    if buckling is not None:
-        solved = (f"<p>The member's own eigen-solve gives P_cr = {_fmt(buckling.extra.get('critical_load'), 'force', system)} "
-                  f"({_e(in_display_units(str(buckling.extra.get('mode', '')), system))}) in combination {_e(buckling.combination)}. "
-                  "It differs from Euler's load on "
-                  "the member length where the axial force varies along the member, where supports or restraints are not pins, or "
-                  "where the mode twists.</p>")
     return (f'<section id="by-hand"><h2>6. The governing station by hand</h2>{intro}{table}{why}{torsion_paragraph(design, report, system)}'
-            f"<h3>Column buckling by formula</h3><ul>{columns}</ul>{solved}</section>")
+            f"{hand_stability_html(design, report, system)}</section>")
 
 
 TORSION_WORDS = {"torque": ("torque T", "moment"), "saint_venant_torque": ("Saint-Venant torque T - Tw", "moment"),
