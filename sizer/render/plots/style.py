@@ -79,8 +79,34 @@ def figure_bytes(figure: Any, image_format: str) -> bytes:
 
     buffer = io.BytesIO()
     with matplotlib.rc_context(style()):
+        keep_texts_inside(figure)
         figure.savefig(buffer, format=image_format, dpi=DPI, metadata=_metadata(image_format))
     return buffer.getvalue()
+
+
+EDGE_MARGIN = 0.12  # inches kept clear between any text and the sheet's edges
+
+
+def keep_texts_inside(figure: Any) -> None:
+    """Move every text (titles, labels, legends' texts) that would run past the sheet's left or
+    right edge back inside it, by the overhang plus EDGE_MARGIN: nothing is cut off."""
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+    from matplotlib.text import Annotation, Text
+
+    renderer = FigureCanvasAgg(figure).get_renderer()
+    width, margin = figure.bbox.width, EDGE_MARGIN * figure.dpi
+    for text in figure.findobj(Text):
+        if not text.get_visible() or not text.get_text():
+            continue
+        box = text.get_window_extent(renderer)
+        shift = min(width - margin - box.x1, 0.0) or max(margin - box.x0, 0.0)
+        if not shift or box.width > width - 2 * margin:
+            continue
+        if isinstance(text, Annotation) and text.anncoords == "offset points":
+            text.xyann = (text.xyann[0] + shift * 72 / figure.dpi, text.xyann[1])
+        elif not isinstance(text, Annotation):
+            x, y = text.get_transform().transform(text.get_position())
+            text.set_position(tuple(text.get_transform().inverted().transform((x + shift, y))))
 
 
 def _metadata(image_format: str) -> dict[str, Any]:
@@ -105,4 +131,5 @@ def draw_text(ax: Any, x: float, y: float, text: str, color: str = LOAD_INK, **k
     kw.setdefault("ha", "center")
     kw.setdefault("va", "bottom")
     kw.setdefault("fontsize", 7.5)
+    kw.setdefault("bbox", {"facecolor": "white", "edgecolor": "none", "pad": 0.4, "alpha": 0.9})  # guide lines pass behind
     ax.text(x, y, text, color=color, zorder=8, **kw)

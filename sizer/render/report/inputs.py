@@ -63,7 +63,39 @@ def _supports_table(design: Design, system: str) -> str:
                             for f, k in support.springs.items()) or "—"
         rows.append(_row([f"<td>S{index}</td>", _cell(_fmt(support.at, "length", system), support.at),
                           f"<td>{_e(support.label)}</td>", f"<td>{_e(held)}</td>", f"<td>{_e(springs)}</td>"]))
-    return "<h3>1.2 Supports</h3>" + _table(["support", "at", "type", "holds", "springs"], rows, numeric=[1])
+    return ("<h3>1.2 Supports and restraints</h3>" + _table(["support", "at", "type", "holds", "springs"], rows, numeric=[1])
+            + _restraints_table(design, system))
+
+
+def _restraints_table(design: Design, system: str) -> str:
+    """The [[restraints]] as given: where, what each holds and at what height its lateral hold acts."""
+    from sizer.render.plots.buckled_shape import height_text
+
+    rows = []
+    for index, restraint in enumerate(design.member.restraints, start=1):
+        where = (f"{_fmt(restraint.start, 'length', system)} to {_fmt(restraint.end, 'length', system)} (continuous)"
+                 if restraint.continuous else _fmt(restraint.start, "length", system))
+        holds = " and ".join(word for word, on in (("lateral", restraint.lateral), ("twist", restraint.twist)) if on)
+        height = height_text(restraint.height, system) if restraint.lateral else "—"
+        rows.append(_row([f"<td>R{index}</td>", f"<td>{where}</td>", f"<td>{holds}</td>", f"<td>{_e(height)}</td>"]))
+    if not rows:
+        return "<p>Restraints against buckling: none given; the member is held against buckling at its supports only.</p>"
+    return "<p>Restraints against buckling:</p>" + _table(["restraint", "at", "holds", "lateral hold acts at"], rows)
+
+
+def _load_height(load: PointLoad | LineLoad, design: Design, system: str) -> str:
+    """Where a load acts on the section's depth, for stability: as given, else the default; "—" for
+    a load with no component along the depth."""
+    from sizer.render.plots.buckled_shape import height_text
+    from sizer.stability.heights import depth_axis
+
+    axis = depth_axis(design.member.orientation)
+    along = [load.force[axis]] if isinstance(load, PointLoad) else [load.q_start[axis], load.q_end[axis]]
+    if not any(along):
+        return "—"
+    if load.height is not None:
+        return height_text(load.height, system)
+    return "the face it pushes on (default)"
 
 
 def _load_values(load: PointLoad | LineLoad, system: str) -> str:
@@ -111,18 +143,19 @@ def _loads_table(design: Design, system: str) -> str:
             kind = "area" if load.area is not None else "line"
             where = f"{_fmt(load.start, 'length', system)} to {_fmt(load.end, 'length', system)}"
         rows.append(_row([f"<td>L{index}</td>", f"<td>{_e(load.case)}</td>", f"<td>{kind}</td>", f"<td>{where}</td>",
-                          f"<td>{_e(_load_values(load, system))}</td>"]))
+                          f"<td>{_e(_load_values(load, system))}</td>", f"<td>{_e(_load_height(load, design, system))}</td>"]))
     member = design.member
     if member.self_weight_case:
         axis, sign = member.gravity
         rows.append(_row(["<td>SW</td>", f"<td>{_e(member.self_weight_case)}</td>", "<td>line</td>",
                           f"<td>{_fmt(0.0, 'length', system)} to {_fmt(member.length, 'length', system)}</td>",
                           f"<td>self-weight {_fmt(design.mass_per_length * units.GRAVITY, 'force_per_length', system)} "
-                          f"along {'+' if sign > 0 else '-'}{'xyz'[axis]} (mass per length × g)</td>"]))
+                          f"along {'+' if sign > 0 else '-'}{'xyz'[axis]} (mass per length × g)</td>", "<td>centroid</td>"]))
     text = "<h3>1.3 Loads (as given, before factors)</h3>"
     if not rows:
         return text + "<p>No loads.</p>"
-    return text + _table(["load", "case", "type", "where", "components (+ along +x, +y, +z; moments about them)"], rows)
+    return text + _table(["load", "case", "type", "where", "components (+ along +x, +y, +z; moments about them)",
+                          "acts at (height on the section)"], rows)
 
 
 def _combinations_table(design: Design) -> str:
