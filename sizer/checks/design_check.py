@@ -96,7 +96,8 @@ def check_notes(design: Design, report: StabilityReport, given: list[BucklingAxi
     settings = design.member.checks
     factor_text = "default" if not settings.buckling_safety_factor_given else "given"
     notes = [
-        f"Verdict from the full cross-section stress field: {n_stations} stations x {n_combinations} combinations, "
+        f"Verdict from the full cross-section stress field: {n_stations} stations x {n_combinations} "
+        f"combination{'' if n_combinations == 1 else 's'}, "
         f"each on all {nodes} mesh nodes (unit stress fields of the section's finite-element elasticity solution, combined linearly).",
         stability_note(design, report, given) + f" Safety factor {settings.buckling_safety_factor:g} ({factor_text}).",
         "Interaction: fa/Fa + fb/Fb with fb the peak bending stress from My and Mz together; Fa in compression is "
@@ -128,10 +129,18 @@ def plateau_note() -> str:
 def stability_note(design: Design, report: StabilityReport, given: list[BucklingAxis]) -> str:
     """How the buckling loads were found."""
     model = report.model
+    solves = []
+    if any(entry.axial is not None for entry in report.combinations):
+        solves.append("under its axial force (flexural, torsional, flexural-torsional)")
+    if any(entry.lateral is not None for entry in report.combinations):
+        solves.append("under its major-axis bending with the loads' heights (lateral-torsional)")
+    if not solves:
+        return ("Buckling: no eigen-solve was needed: no combination compresses the member, and "
+                + (report.lateral_reason or "none bends it about its major axis") + ".")
+    weight = ", self-weight included" if design.member.self_weight_case else ""
     text = (f"Buckling: eigen-solves on the member as it is ({len(model.mesh.nodes) - 1} thin-walled beam elements: "
-            "sideways and in-plane bending, twist and warping), for each combination under its axial force "
-            "(flexural, torsional, flexural-torsional) and under its major-axis bending with the loads' heights "
-            "(lateral-torsional); the load factor scales the whole combination, self-weight included.")
+            f"sideways and in-plane bending, twist and warping), for each combination {' and '.join(solves)}; "
+            f"the load factor scales the whole combination{weight}.")
     if given:
         text += " Euler loads on the given buckling lengths (" + ", ".join(f"{a.axis} {a.length:g} m" for a in given) + ") are kept beside them; the lower governs."
     return text
@@ -155,7 +164,8 @@ def restraint_notes(design: Design) -> list[str]:
         notes.append("Restraints: none given: the member is held against buckling at its supports only.")
     heights = sorted({_height_text(load.height) for load in member.loads if hasattr(load, "height") and load.height is not None})
     text = "Load heights: transverse loads act on the face they push on (top for a downward load) unless given"
-    notes.append(text + (f" ({', '.join(heights)} given)" if heights else "") + "; self-weight at the centroid.")
+    weight = "; self-weight at the centroid" if member.self_weight_case else ""
+    notes.append(text + (f" ({', '.join(heights)} given)" if heights else "") + weight + ".")
     return notes
 
 

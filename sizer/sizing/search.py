@@ -216,7 +216,8 @@ def _size(member: Member, catalogue: Any, material: Material, families: Sequence
           max_width: float | None, top: int, workers: AnalysisWorkers, ranking: Ranking) -> SizingResult:
     candidates, table = candidate_sections(catalogue, member, material, families, max_depth, max_width, lazy=True, ranking=ranking)
     count = f"{len(candidates)} candidate section" + ("" if len(candidates) == 1 else "s")
-    notes = [f"{count} after filters, each with its own self-weight, in material {material.name} (the member's)."]
+    weight = ", each with its own self-weight" if member.self_weight_case else " (self-weight not included: self_weight = false)"
+    notes = [f"{count} after filters{weight}, in material {material.name} (the member's)."]
     notes += ranking.notes(any(not c.costing.available for c in candidates), any(c.costing.cost is None for c in candidates),
                            any(c.costing.terms.stock_lengths for c in candidates), any(c.costing.cost is not None for c in candidates))
     search = Search(member, material, candidates, table, workers)
@@ -227,7 +228,8 @@ def _size(member: Member, catalogue: Any, material: Material, families: Sequence
         notes.append("Spring supports: forces depend on stiffness, so every candidate was solved and checked in full.")
     else:
         prepare_screen(search, table)
-        notes.append("Screened all candidates at once (one solve per load case and one unit self-weight solve, "
+        solves = "one solve per load case and one unit self-weight solve" if member.self_weight_case else "one solve per load case"
+        notes.append(f"Screened all candidates at once ({solves}, "
                      "superposed); a lighter section is ruled out only by a proven lower bound of its full check "
                      "(stability: Rayleigh-Ritz bounds of its buckling load factors from the buckled shapes found "
                      "so far); every verdict of a section shown in full rests on the full stress-field check.")
