@@ -29,3 +29,8 @@ def __getattr__(name: str) -> Any:
 
         return getattr(api, name)
     raise AttributeError(f"module 'sizer' has no attribute {name!r}")
+
+
+def __dir__() -> list[str]:
+    """The public names: the version and the API, whether or not sizer.api is imported yet."""
+    return sorted(__all__)

@@ -239,7 +239,9 @@ class CandidateSummary:
 
 @dataclass
 class SizeOutcome:
-    """The lightest passing section, its full check, and the candidates around it."""
+    """The lightest passing section, its full check, and the candidates around it: `candidates` are
+    the ones `sizer size --top N` lists (the `top` lighter failing sections, the choice and the `top`
+    next heavier ones that pass); to_json() has every lighter section, as `sizer size --json`."""
 
     section: str | None
     passes: bool
@@ -285,7 +287,7 @@ def size(member: MemberLike, catalogue: Sequence[str | Path] = (), families: Seq
     from sizer.design import catalogue_for, resolve_material
     from sizer.errors import InputError
     from sizer.render.common import member_notes, small_deflection_cautions
-    from sizer.render.size import candidate_entry, listed_candidates
+    from sizer.render.size import candidate_entry, shown_candidates
     from sizer.sizing import size_member
     from sizer.sizing.cost import RANKINGS, Ranking
 
@@ -305,7 +307,7 @@ def size(member: MemberLike, catalogue: Sequence[str | Path] = (), families: Seq
         add_reserve(chosen.design, chosen.report)
         notes += chosen.report.notes
     summaries = [CandidateSummary(**{key: entry[key] for key in ("section", "mass_per_length", "utilization", "passes", "governing", "basis", "cost")})
-                 for entry in map(candidate_entry, listed_candidates(result))]
+                 for entry in map(candidate_entry, shown_candidates(result, top))]
     chosen_check = None
     if chosen is not None:
         chosen_design = chosen.design  # solved for its full check

@@ -16,6 +16,7 @@ from sizer import units
 from sizer.checks import CheckReport, CheckResult, spans
 from sizer.design import Design
 from sizer.render.basis import basis_text, combination_text
+from sizer.render.axis_names import inertia_pair
 from sizer.render.common import CAUTIONS, cautions_panel, notes_panel, reactions_without_round_off
 from sizer.render.forces import REACTION_NAMES, plural, reactions_ledger_values
 from sizer.render.text import Column, Heading, Ledger, Paragraph
@@ -219,7 +220,7 @@ def design_summary(design: Design, system: str) -> list[Any]:
     rows = [("Member", f"length {units.fmt(member.length, 'length', system)}, {plural(len(member.supports), 'support')}, {span_text}"),
             ("Section", f"[bold]{escape(design.spec.name)}[/] ({design.spec.shape}, {member.orientation} orientation), "
                         f"{units.fmt(design.mass_per_length, 'mass_per_length', system)}, A = {units.fmt(props.area, 'area', system)}, "
-                        f"Iz = {units.fmt(props.Iz, 'inertia', system)}, Iy = {units.fmt(props.Iy, 'inertia', system)}"),
+                        + inertia_pair(props, lambda value: units.fmt(value, "inertia", system))),
             ("Material", f"{escape(material.name)}, E = {units.fmt(material.elastic_modulus, 'modulus', system)}; "
                          f"allowables: {allowables or 'none'}")]
     return [Paragraph(f"[dim]{label:<9}[/] {text}", hang=10) for label, text in rows]

@@ -86,7 +86,7 @@ def schedule_renderables(document: dict) -> list[Any]:
 
     parts: list[Any] = [Text(document["title"] or "Schedule", style="bold"), _members_table(document["members"]), _totals_table(document["totals"])]
     totals = document["totals"]
-    parts.append(Text("Every member passes." if totals["passes"] else f"FAILING: {', '.join(totals['failing'])}.", style="bold"))
+    parts.append(Text("Every member passes." if totals["passes"] else f"These members fail: {', '.join(totals['failing'])}.", style="bold"))
     if document["bad_rows"]:
         parts.append(notes_panel([error["message"] for error in document["bad_rows"]], "Bad rows (not run)"))
     parts.append(notes_panel(shown_notes(document["members"], document["assumptions"])))
@@ -94,16 +94,16 @@ def schedule_renderables(document: dict) -> list[Any]:
     return parts
 
 
-def shown_notes(rows: list[dict], run_notes: list[str], every_member: bool = False) -> list[str]:
+def shown_notes(rows: list[dict], run_notes: list[str]) -> list[str]:
     """The assumptions once each: those every member shares, the schedule's own (overrides), the run's;
-    with `every_member`, each member's own too (marked). Without it, a last line says where they are."""
+    a last line says where each member's own are (its JSON and its calculation record)."""
     shared = set.intersection(*(set(row["assumptions"]) for row in rows)) if rows else set()
     notes = [note for note in rows[0]["assumptions"] if note in shared] if rows else []
     for row in rows:
         own = [note for note in row["assumptions"] if note not in shared]
         marked = [note for note in own if note.startswith(f"{row['mark']}: ")]
-        notes += marked + ([f"{row['mark']}: {note}" for note in own if note not in marked] if every_member else [])
-    if not every_member and rows:
+        notes += marked
+    if rows:
         notes.append("Each member's own assumptions (its section and self-weight, supports and restraints for stability, deflection "
                      "limits, stations and mesh) are listed with it in --json and in its calculation record (-o).")
     return list(dict.fromkeys(notes + run_notes))
@@ -120,7 +120,7 @@ def _members_table(rows: list[dict]) -> Any:
         table.add_column(name, justify=justify, no_wrap=True, overflow="ellipsis")
     for row in rows:
         utilization = row["utilization"]
-        verdict = "ok" if row["passes"] else ("[reverse]none[/]" if row["section"] is None else "[reverse]FAILS[/]")
+        verdict = "passes" if row["passes"] else ("[reverse]nothing passes[/]" if row["section"] is None else "[reverse]fails[/]")
         reserve = row.get("reserve_factor")
         table.add_row(row["mark"], row["do"], row["section"] or "none passes", _utilization_text(utilization),
                       "—" if reserve is None else f"{reserve:.2f}",
@@ -169,7 +169,7 @@ def _totals_table(totals: dict) -> Any:
 
 
 def _number(value: float | None, decimals: int) -> str:
-    return "—" if value is None else f"{value:,.{decimals}f}"
+    return "—" if value is None else f"{value:.{decimals}f}"
 
 
 # ----------------------------------------------------------------------------------------------
@@ -196,14 +196,14 @@ def schedule_html(document: dict, links: dict[str, str]) -> str:
 
     title = document["title"] or "Schedule"
     totals = document["totals"]
-    verdict = ("<div class=\"verdict pass\"><span class=\"word\">ALL PASS</span>every member passes every check</div>" if totals["passes"]
-               else f"<div class=\"verdict fail\"><span class=\"word\">FAILING</span>{_e(', '.join(totals['failing']))}</div>")
+    verdict = ("<div class=\"verdict pass\"><span class=\"word\">passes</span>every member passes every check</div>" if totals["passes"]
+               else f"<div class=\"verdict fail\"><span class=\"word\">fails</span>these members fail: {_e(', '.join(totals['failing']))}</div>")
     cautions = "".join(f"<li>{_e(c)}</li>" for c in CAUTIONS)
     member_rows = "".join(_member_html_row(row, links.get(row["mark"])) for row in document["members"])
     total_rows = "".join(f"<tr><td>{_e(e['section'])}</td><td class=\"num\">{e['quantity']}</td><td class=\"num\">{_e(units.fmt(e['length'], 'length'))}</td>"
                          f"<td class=\"num\">{_number(e['mass'], 0)} kg</td></tr>" for e in totals["by_section"])
     bad = "".join(f"<li>{_e(error['message'])}</li>" for error in document["bad_rows"])
-    notes = "".join(f"<li>{_e(note)}</li>" for note in shown_notes(document["members"], document["assumptions"], every_member=True))
+    notes = "".join(f"<li>{_e(note)}</li>" for note in shown_notes(document["members"], document["assumptions"]))
     data = dumps(document).replace("</", "<\\/")
     body = (f"<header><h1>Schedule: {_e(title)}</h1><p class=\"meta\">made by sizer {_e(__version__)}</p></header>{verdict}"
             f"<section class=\"cautions\"><h2>⚠ Cautions</h2><ul>{cautions}</ul></section>"
@@ -228,7 +228,7 @@ def _member_html_row(row: dict, link: str | None) -> str:
 
     utilization = row["utilization"]
     verdict = ("<td class=\"ok\">passes</td>" if row["passes"]
-               else f"<td class=\"fails\">{'nothing passes' if row['section'] is None else 'FAILS'}</td>")
+               else f"<td class=\"fails\">{'nothing passes' if row['section'] is None else 'fails'}</td>")
     record = f"<a href=\"{_e(link)}\">{_e(link)}</a>" if link else "— (no section passes)" if row["section"] is None else "—"
     return (f"<tr><td>{_e(row['mark'])}</td><td>{_e(row['do'])}</td><td>{_e(row['section'] or '—')}</td>"
             f"<td class=\"num\">{f'{utilization:.3f}' if utilization is not None else '—'}</td><td>{_e(row['governing'] or '—')}</td>{verdict}"

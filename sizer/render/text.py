@@ -22,13 +22,15 @@ _NUMBER_UNIT = re.compile(r"(?<=[\d.])( )(?=(?:" + "|".join(map(re.escape, _UNIT
 _SYMBOL_EQUALS = re.compile(r"(?<=\S)( )(=)( )(?=\S)")
 _RANGE = re.compile(r"(?<=\d)( )(to)( )(?=[-+\d])")
 _OPERATOR = re.compile(r"(?<=\S)( )([/x×])( )(?=\S)")
+_AXIS_WORD = re.compile(r"(?<=\w)( )(?=\((?:major|minor)\))")  # "Iz (major)" stays on one line
 
 
 def glued(plain: str) -> str:
     """`plain` with the spaces that must not break replaced by no-break spaces (same length): between
     a number and its unit, around "=", around "/", "x" and "×" between terms, before a " · "
-    separator, and inside "a to b" ranges of numbers."""
+    separator, inside "a to b" ranges of numbers, and between a symbol and its axis word ("Iz (major)")."""
     text = _NUMBER_UNIT.sub("\xa0", plain)
+    text = _AXIS_WORD.sub("\xa0", text)
     text = _SYMBOL_EQUALS.sub("\xa0=\xa0", text)
     text = _OPERATOR.sub(lambda match: "\xa0" + match.group(2) + "\xa0", text)
     text = text.replace(" ·", "\xa0·")

@@ -200,8 +200,8 @@ def _material_table(design: Design, system: str) -> str:
 
 
 SECTION_ROWS = (
-    ("area", "Area A", "area"), ("Iz", "Second moment Iz (about the horizontal axis)", "inertia"),
-    ("Iy", "Second moment Iy (about the vertical axis)", "inertia"), ("Iyz", "Product of inertia Iyz", "inertia"),
+    ("area", "Area A", "area"), ("Iz", "Second moment Iz (about the horizontal axis: {Iz})", "inertia"),
+    ("Iy", "Second moment Iy (about the vertical axis: {Iy})", "inertia"), ("Iyz", "Product of inertia Iyz", "inertia"),
     ("I11", "Principal I11", "inertia"), ("I22", "Principal I22", "inertia"),
     ("Sz_top", "Elastic modulus Sz, top fibre", "modulus_section"), ("Sz_bottom", "Elastic modulus Sz, bottom fibre", "modulus_section"),
     ("Sy_plus", "Elastic modulus Sy, +z fibre", "modulus_section"), ("Sy_minus", "Elastic modulus Sy, -z fibre", "modulus_section"),
@@ -215,7 +215,10 @@ SECTION_ROWS = (
 def _section_block(design: Design, system: str) -> str:
     props, spec = design.props, design.spec
     dims = ", ".join(f"{_e(key.replace('_', ' '))} {_fmt(value, 'dimension', system)}" for key, value in spec.dims.items() if value)
-    rows = [_row([f"<th>{_e(label)}</th>", _cell(_large(getattr(props, name), kind, system), float(getattr(props, name)))])
+    from sizer.render.axis_names import axis_words
+
+    words = dict(zip(("Iz", "Iy"), axis_words(props)))
+    rows = [_row([f"<th>{_e(label.format(**words))}</th>", _cell(_large(getattr(props, name), kind, system), float(getattr(props, name)))])
             for name, label, kind in SECTION_ROWS]
     ys, zs = props.shear_centre
     rows.append(_row(["<th>Shear centre (y, z) from the centroid</th>",
