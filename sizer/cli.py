@@ -140,7 +140,7 @@ def report(
 @app.command()
 def init(
     out: Path = typer.Option(Path("member.toml"), "-o", "--out", help="The member file to write (never overwritten)."),
-    layout: str = typer.Option("simple", "--layout", help="simple, cantilever, continuous or post."),
+    layout: str = typer.Option("simple", "--layout", help="The layout: simple, cantilever, continuous or post."),
 ) -> None:
     """Write a commented starter member file for a common layout, to edit and run."""
 
@@ -163,7 +163,21 @@ def _mount_optional_commands() -> None:
     register(app)
 
 
+def flow_help(typer_app: typer.Typer) -> None:
+    """Each command's help is its docstring as one paragraph, so the help screens wrap it at whole
+    words instead of keeping the source's line breaks (which parted sentences)."""
+    import inspect
+
+    for info in typer_app.registered_commands:
+        if info.help is None and info.callback is not None and info.callback.__doc__:
+            info.help = " ".join(inspect.getdoc(info.callback).split())
+    for group in typer_app.registered_groups:
+        if group.typer_instance is not None:
+            flow_help(group.typer_instance)
+
+
 _mount_optional_commands()
+flow_help(app)
 
 
 def main() -> None:

@@ -80,7 +80,7 @@ deflection_limit = 360           # span / 360
 [member]
 length = "1.2 m"
 material = "mild-steel"
-section = "RHS 100x50x4"
+section = "RHS 150x100x6"
 self_weight = "dead"
 
 [[supports]]                     # end A: built in (holds all six freedoms, and warping)
