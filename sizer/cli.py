@@ -141,13 +141,14 @@ def report(
 def init(
     out: Path = typer.Option(Path("member.toml"), "-o", "--out", help="The member file to write (never overwritten)."),
     layout: str = typer.Option("simple", "--layout", help="The layout: simple, cantilever, continuous or post."),
+    units_system: str = typer.Option("si", "--units", help="Units of the values written: si (m, kN, MPa) or us (ft, kip, ksi)."),
 ) -> None:
     """Write a commented starter member file for a common layout, to edit and run."""
 
     def work() -> int:
         from sizer.starter import write_starter
 
-        written = write_starter(out, layout)
+        written = write_starter(out, layout, unit_system(units_system))
         typer.echo(f"Wrote {written} ({layout} layout). Edit it, then run: sizer check {written}")
         return 0
 

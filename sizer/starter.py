@@ -5,6 +5,7 @@ each key means and which keys are optional (docs/member-file.md has them all).
 
 from __future__ import annotations
 
+import re
 from pathlib import Path
 
 from sizer.errors import InputError
@@ -195,21 +196,37 @@ buckling_length_minor = "3 m"
 }
 
 
-def starter_text(layout: str, name: str = "member.toml") -> str:
-    """The commented member file for `layout` (one of LAYOUTS)."""
+def starter_text(layout: str, name: str = "member.toml", system: str = "si") -> str:
+    """The commented member file for `layout` (one of LAYOUTS), its values in `system`'s units."""
     if layout not in LAYOUTS:
         raise InputError("", "--layout", f"unknown layout {layout!r}", "use one of: " + ", ".join(LAYOUTS))
     what, title, body = _BODIES[layout]
-    return _HEAD.format(what=what, name=name, title=title) + body + _MATERIAL
+    text = _HEAD.format(what=what, name=name, title=title) + body + _MATERIAL
+    return text if system == "si" else _VALUE.sub(lambda match: _converted(match, system), text)
 
 
-def write_starter(path: str | Path, layout: str) -> Path:
-    """Write the starter file for `layout` to `path`; InputError if the file exists (it is never
-    overwritten), cannot be written (files.check_output) or the layout is unknown."""
+_KINDS = {"m": "length", "mm": "dimension", "kN": "force", "kN/m": "force_per_length", "kN*m": "moment", "MPa": "stress",
+          "GPa": "modulus", "kN/mm": "translational_stiffness", "kg/m^3": "density"}  # the starters' SI units by kind
+_VALUE = re.compile(r'"(-?\d+(?:\.\d+)?) (' + "|".join(re.escape(unit) for unit in sorted(_KINDS, key=len, reverse=True)) + r')"')
+
+
+def _converted(match: re.Match[str], system: str) -> str:
+    """A quoted SI value of the starter, written in `system`'s display unit to 4 significant figures."""
+    from sizer import units
+
+    kind = _KINDS[match.group(2)]
+    value = units.parse(f"{match.group(1)} {match.group(2)}", "length" if kind == "dimension" else kind, "", "starter")
+    return f'"{units.fmt(value, kind, system)}"'
+
+
+def write_starter(path: str | Path, layout: str, system: str = "si") -> Path:
+    """Write the starter file for `layout` to `path`, its values in `system`'s units; InputError if
+    the file exists (it is never overwritten), cannot be written (files.check_output) or the layout
+    is unknown."""
     from sizer.files import check_output, write_atomic
 
     path = Path(path)
-    text = starter_text(layout, path.name)
+    text = starter_text(layout, path.name, system)
     if path.exists():
         raise InputError(str(path), "-o", "the file already exists; sizer init never overwrites a file",
                          "give another name with -o, or remove the file first")
