@@ -10,7 +10,7 @@ from typing import List, Optional
 
 import typer
 
-from sizer.cli_common import run_guarded
+from sizer.cli_common import run_guarded, unit_system
 from sizer.errors import InputError
 
 CATALOGUE_OPTION = typer.Option(None, "--catalogue", help="Catalogue file or folder; may repeat.")
@@ -19,6 +19,7 @@ CLUSTER_OPTION = typer.Option(None, "--cluster", help="Run on the Dask scheduler
                               "(pip install 'sizer\\[cluster]'; the workers need sizer installed).")
 JSON_OPTION = typer.Option(False, "--json", help="JSON in SI base units on stdout.")
 CSV_OPTION = typer.Option(None, "--csv", help="Also write the rows as CSV (SI base units) to this file.")
+UNITS_OPTION = typer.Option("si", "--units", help="Display units: si (m, kN, kg) or us (ft, kip, lb); JSON and CSV stay in SI.")
 
 
 def register(app: typer.Typer) -> None:
@@ -42,12 +43,13 @@ def schedule(
     json_output: bool = JSON_OPTION,
     csv_out: Optional[Path] = CSV_OPTION,
     out: Optional[Path] = typer.Option(None, "-o", "--out", help="Write an HTML record of the schedule, linking each member's calculation record."),
+    units_system: str = UNITS_OPTION,
 ) -> None:
     """Size or check every member of a schedule: one table, totals by section, the cautions.
     Exit 0 all pass, 1 a member fails, 2 bad input."""
 
     def work() -> int:
-        return run_schedule_command(file, catalogue or [], jobs, cluster, keep_going, json_output, csv_out, out)
+        return run_schedule_command(file, catalogue or [], jobs, cluster, keep_going, json_output, csv_out, out, unit_system(units_system))
 
     run_guarded(work)
 
@@ -61,12 +63,14 @@ def span_table(
     json_output: bool = JSON_OPTION,
     csv_out: Optional[Path] = CSV_OPTION,
     plot: Optional[Path] = typer.Option(None, "--plot", help="Draw load against span, one curve per section, to a PNG or SVG file."),
+    units_system: str = UNITS_OPTION,
 ) -> None:
     """For each catalogue section, the longest span for each load, or the largest load at each span,
     found on the full check. Exit 0 done, 2 bad input."""
 
     def work() -> int:
-        return run_span_table_command(file, catalogue or [], family or [], jobs, cluster, json_output, csv_out, plot)
+        return run_span_table_command(file, catalogue or [], family or [], jobs, cluster, json_output, csv_out, plot,
+                                      unit_system(units_system))
 
     run_guarded(work)
 
@@ -75,7 +79,7 @@ def span_table(
 # bodies
 
 def run_schedule_command(file: Path, catalogue: list[Path], jobs: int | None, cluster: str | None, keep_going: bool,
-                         json_output: bool, csv_out: Path | None, out: Path | None) -> int:
+                         json_output: bool, csv_out: Path | None, out: Path | None, system: str) -> int:
     """Read, run, then write every output; exit 2 with bad rows (--keep-going), else 1 when a member fails."""
     from sizer.render.common import console, dumps
     from sizer.render.schedule import schedule_csv, schedule_renderables
@@ -89,12 +93,12 @@ def run_schedule_command(file: Path, catalogue: list[Path], jobs: int | None, cl
     if csv_out is not None:
         _write(csv_out, schedule_csv(document))
     if out is not None:
-        _write_schedule_record(out, document, result.records)
+        _write_schedule_record(out, document, result.records, system)
     if json_output:
         sys.stdout.write(dumps(document) + "\n")
     else:
         terminal = console()
-        for part in schedule_renderables(document):
+        for part in schedule_renderables(document, system):
             terminal.print(part)
     if result.errors:
         return 2
@@ -107,7 +111,7 @@ def _write(path: Path, text: str) -> None:
     write_atomic(path, text)
 
 
-def _write_schedule_record(out: Path, document: dict, records: dict[str, str]) -> None:
+def _write_schedule_record(out: Path, document: dict, records: dict[str, str], system: str) -> None:
     """OUT.html and, beside it in OUT_records/, each member's calculation record."""
     from sizer.render.schedule import record_names, schedule_html
 
@@ -115,11 +119,11 @@ def _write_schedule_record(out: Path, document: dict, records: dict[str, str]) -
     names = record_names([row["mark"] for row in document["members"] if row["mark"] in records])
     for mark, name in names.items():
         _write(folder / name, records[mark])
-    _write(out, schedule_html(document, {mark: f"{folder.name}/{name}" for mark, name in names.items()}))
+    _write(out, schedule_html(document, {mark: f"{folder.name}/{name}" for mark, name in names.items()}, system))
 
 
 def run_span_table_command(file: Path, catalogue: list[Path], families: list[str], jobs: int | None, cluster: str | None,
-                           json_output: bool, csv_out: Path | None, plot: Path | None) -> int:
+                           json_output: bool, csv_out: Path | None, plot: Path | None, system: str) -> int:
     """Read, run every cell, then write every output; exit 0 (a span table has nothing to fail)."""
     from sizer.render.common import console, dumps
     from sizer.render.schedule import span_table_csv, span_table_document, span_table_renderables, write_span_plot
@@ -136,11 +140,11 @@ def run_span_table_command(file: Path, catalogue: list[Path], families: list[str
     if csv_out is not None:
         _write(csv_out, span_table_csv(document))
     if plot is not None:
-        write_span_plot(document, plot)
+        write_span_plot(document, plot, system)
     if json_output:
         sys.stdout.write(dumps(document) + "\n")
     else:
         terminal = console()
-        for part in span_table_renderables(document, terminal.width):
+        for part in span_table_renderables(document, terminal.width, system):
             terminal.print(part)
     return 0

@@ -16,6 +16,7 @@ from typing import Any, Sequence
 
 from sizer import units
 from sizer.render.common import CAUTIONS, cautions_panel, notes_panel
+from sizer.render.si_text import in_display_units
 
 UNITS_NOTE = "SI base units (m, N, N*m, Pa, kg/m, kg)"
 SCHEDULE_CSV_COLUMNS = (("mark", "mark"), ("file", "file"), ("do", "do"), ("section", "section"), ("passes", "passes"),
@@ -80,16 +81,17 @@ def _csv_value(value: Any) -> Any:
 # ----------------------------------------------------------------------------------------------
 # schedule: terminal
 
-def schedule_renderables(document: dict) -> list[Any]:
-    """The members table, totals by section, bad rows, assumptions and cautions."""
+def schedule_renderables(document: dict, system: str) -> list[Any]:
+    """The members table, totals by section, bad rows, assumptions and cautions, in `system`'s units."""
     from rich.text import Text
 
-    parts: list[Any] = [Text(document["title"] or "Schedule", style="bold"), _members_table(document["members"]), _totals_table(document["totals"])]
+    parts: list[Any] = [Text(document["title"] or "Schedule", style="bold"), _members_table(document["members"], system),
+                        _totals_table(document["totals"], system)]
     totals = document["totals"]
     parts.append(Text("Every member passes." if totals["passes"] else f"These members fail: {', '.join(totals['failing'])}.", style="bold"))
     if document["bad_rows"]:
         parts.append(notes_panel([error["message"] for error in document["bad_rows"]], "Bad rows (not run)"))
-    parts.append(notes_panel(shown_notes(document["members"], document["assumptions"])))
+    parts.append(notes_panel(shown_notes(document["members"], document["assumptions"]), system=system))
     parts.append(cautions_panel())
     return parts
 
@@ -109,14 +111,15 @@ def shown_notes(rows: list[dict], run_notes: list[str]) -> list[str]:
     return list(dict.fromkeys(notes + run_notes))
 
 
-def _members_table(rows: list[dict]) -> Any:
+def _members_table(rows: list[dict], system: str) -> Any:
     from rich import box
     from rich.table import Table
 
     table = Table(title="Members", title_justify="left", header_style="bold", box=box.SIMPLE_HEAD, pad_edge=False, padding=0, show_edge=False)
     priced = any(row.get("cost") is not None for row in rows)
     for name, justify in (("mark", "left"), ("do", "left"), ("section", "left"), ("util.", "right"), ("reserve", "right"), ("governing", "left"),
-                          ("verdict", "left"), ("kg/m", "right"), ("qty", "right"), ("length", "right"), ("mass", "right")) + ((("cost", "right"),) if priced else ()):
+                          ("verdict", "left"), (units.unit_label("mass_per_length", system), "right"), ("qty", "right"), ("length", "right"),
+                          ("mass", "right")) + ((("cost", "right"),) if priced else ()):
         table.add_column(name, justify=justify, no_wrap=True, overflow="ellipsis")
     for row in rows:
         utilization = row["utilization"]
@@ -124,8 +127,8 @@ def _members_table(rows: list[dict]) -> Any:
         reserve = row.get("reserve_factor")
         table.add_row(row["mark"], row["do"], row["section"] or "none passes", _utilization_text(utilization),
                       "—" if reserve is None else f"{reserve:.2f}",
-                      row["governing"] or "—", verdict, _number(row["mass_per_length"], 1), str(row["quantity"]),
-                      units.fmt(row["length"], "length", digits=3), f"{_number(row['total_mass'], 0)} kg" if row["total_mass"] is not None else "—",
+                      row["governing"] or "—", verdict, _number(row["mass_per_length"], 1, "mass_per_length", system), str(row["quantity"]),
+                      units.fmt(row["length"], "length", system, digits=3), _mass(row["total_mass"], system),
                       *([_money(row.get("cost"), row.get("currency"))] if priced else []))
     return table
 
@@ -146,7 +149,7 @@ def _utilization_text(value: float | None) -> str:
     return f"[{style}]{value:.3f}[/]" if style else f"{value:.3f}"
 
 
-def _totals_table(totals: dict) -> Any:
+def _totals_table(totals: dict, system: str) -> Any:
     from rich import box
     from rich.table import Table
 
@@ -157,19 +160,25 @@ def _totals_table(totals: dict) -> Any:
         table.add_column(name, justify=justify, no_wrap=name != "bars to order")
     currency = totals.get("currency")
     for entry in totals["by_section"]:
-        table.add_row(entry["section"], str(entry["quantity"]), units.fmt(entry["length"], "length"), f"{_number(entry['mass'], 0)} kg",
-                      *((_money(entry.get("cost"), currency), bars_to_order_text(entry)) if ordering else ()))
+        table.add_row(entry["section"], str(entry["quantity"]), units.fmt(entry["length"], "length", system), _mass(entry["mass"], system),
+                      *((_money(entry.get("cost"), currency), bars_to_order_text(entry, system)) if ordering else ()))
     total_cost = totals.get("cost")
     cost_text = _money(total_cost, currency) if total_cost is not None else (
         f"≥ {_money(totals.get('priced_cost'), currency)}" if totals.get("priced_cost") else "—")
     table.add_row("[bold]all[/]", str(sum(e["quantity"] for e in totals["by_section"])),
-                  units.fmt(sum(e["length"] for e in totals["by_section"]), "length"), f"[bold]{_number(totals['mass'], 0)} kg[/]",
+                  units.fmt(sum(e["length"] for e in totals["by_section"]), "length", system), f"[bold]{_mass(totals['mass'], system)}[/]",
                   *((f"[bold]{cost_text}[/]", "") if ordering else ()))
     return table
 
 
-def _number(value: float | None, decimals: int) -> str:
-    return "—" if value is None else f"{value:.{decimals}f}"
+def _number(value: float | None, decimals: int, kind: str, system: str) -> str:
+    """An SI value in `system`'s display unit of `kind`, to `decimals` decimals, without its unit."""
+    return "—" if value is None else f"{units.to_display(value, kind, system):.{decimals}f}"
+
+
+def _mass(value: float | None, system: str) -> str:
+    """A mass (kg) in whole display units with the unit: "507 kg", "1118 lb"."""
+    return "—" if value is None else f"{_number(value, 0, 'mass', system)} {units.unit_label('mass', system)}"
 
 
 # ----------------------------------------------------------------------------------------------
@@ -187,7 +196,7 @@ def record_names(marks: Sequence[str]) -> dict[str, str]:
     return names
 
 
-def schedule_html(document: dict, links: dict[str, str]) -> str:
+def schedule_html(document: dict, links: dict[str, str], system: str) -> str:
     """The schedule's HTML record: verdict, cautions, the members (each linking its calculation record
     where made), totals, bad rows and assumptions; the JSON document embedded whole."""
     from sizer import __version__
@@ -199,21 +208,21 @@ def schedule_html(document: dict, links: dict[str, str]) -> str:
     verdict = ("<div class=\"verdict pass\"><span class=\"word\">passes</span>every member passes every check</div>" if totals["passes"]
                else f"<div class=\"verdict fail\"><span class=\"word\">fails</span>these members fail: {_e(', '.join(totals['failing']))}</div>")
     cautions = "".join(f"<li>{_e(c)}</li>" for c in CAUTIONS)
-    member_rows = "".join(_member_html_row(row, links.get(row["mark"])) for row in document["members"])
-    total_rows = "".join(f"<tr><td>{_e(e['section'])}</td><td class=\"num\">{e['quantity']}</td><td class=\"num\">{_e(units.fmt(e['length'], 'length'))}</td>"
-                         f"<td class=\"num\">{_number(e['mass'], 0)} kg</td></tr>" for e in totals["by_section"])
+    member_rows = "".join(_member_html_row(row, links.get(row["mark"]), system) for row in document["members"])
+    total_rows = "".join(f"<tr><td>{_e(e['section'])}</td><td class=\"num\">{e['quantity']}</td><td class=\"num\">{_e(units.fmt(e['length'], 'length', system))}</td>"
+                         f"<td class=\"num\">{_mass(e['mass'], system)}</td></tr>" for e in totals["by_section"])
     bad = "".join(f"<li>{_e(error['message'])}</li>" for error in document["bad_rows"])
-    notes = "".join(f"<li>{_e(note)}</li>" for note in shown_notes(document["members"], document["assumptions"]))
+    notes = "".join(f"<li>{_e(in_display_units(note, system))}</li>" for note in shown_notes(document["members"], document["assumptions"]))
     data = dumps(document).replace("</", "<\\/")
     body = (f"<header><h1>Schedule: {_e(title)}</h1><p class=\"meta\">made by sizer {_e(__version__)}</p></header>{verdict}"
             f"<section class=\"cautions\"><h2>⚠ Cautions</h2><ul>{cautions}</ul></section>"
             "<h2>Members</h2><table><tr><th>mark</th><th>do</th><th>section</th><th class=\"num\">utilization</th><th>governing</th>"
-            "<th>verdict</th><th class=\"num\">kg/m</th><th class=\"num\">quantity</th><th class=\"num\">length</th><th class=\"num\">mass</th>"
+            f"<th>verdict</th><th class=\"num\">{units.unit_label('mass_per_length', system)}</th><th class=\"num\">quantity</th><th class=\"num\">length</th><th class=\"num\">mass</th>"
             f"<th>calculation record</th></tr>{member_rows}</table>"
             "<h2>Totals by section</h2><table><tr><th>section</th><th class=\"num\">pieces</th><th class=\"num\">total length</th>"
             f"<th class=\"num\">mass</th></tr>{total_rows}<tr><td><b>all</b></td><td class=\"num\">{sum(e['quantity'] for e in totals['by_section'])}</td>"
-            f"<td class=\"num\">{_e(units.fmt(sum(e['length'] for e in totals['by_section']), 'length'))}</td>"
-            f"<td class=\"num\"><b>{_number(totals['mass'], 0)} kg</b></td></tr></table>"
+            f"<td class=\"num\">{_e(units.fmt(sum(e['length'] for e in totals['by_section']), 'length', system))}</td>"
+            f"<td class=\"num\"><b>{_mass(totals['mass'], system)}</b></td></tr></table>"
             + (f"<h2>Bad rows (not run)</h2><ul class=\"notes\">{bad}</ul>" if bad else "")
             + f"<h2>Assumptions</h2><ul class=\"notes\">{notes}</ul>"
             f"<section class=\"cautions\"><h2>⚠ Cautions</h2><ul>{cautions}</ul></section>"
@@ -223,7 +232,7 @@ def schedule_html(document: dict, links: dict[str, str]) -> str:
             f"<script type=\"application/json\" id=\"sizer-data\">{data}</script>\n</body>\n</html>\n")
 
 
-def _member_html_row(row: dict, link: str | None) -> str:
+def _member_html_row(row: dict, link: str | None, system: str) -> str:
     from sizer.render.report.markup import _e
 
     utilization = row["utilization"]
@@ -232,8 +241,8 @@ def _member_html_row(row: dict, link: str | None) -> str:
     record = f"<a href=\"{_e(link)}\">{_e(link)}</a>" if link else "— (no section passes)" if row["section"] is None else "—"
     return (f"<tr><td>{_e(row['mark'])}</td><td>{_e(row['do'])}</td><td>{_e(row['section'] or '—')}</td>"
             f"<td class=\"num\">{f'{utilization:.3f}' if utilization is not None else '—'}</td><td>{_e(row['governing'] or '—')}</td>{verdict}"
-            f"<td class=\"num\">{_number(row['mass_per_length'], 1)}</td><td class=\"num\">{row['quantity']}</td>"
-            f"<td class=\"num\">{_e(units.fmt(row['length'], 'length'))}</td><td class=\"num\">{_number(row['total_mass'], 0)} kg</td><td>{record}</td></tr>")
+            f"<td class=\"num\">{_number(row['mass_per_length'], 1, 'mass_per_length', system)}</td><td class=\"num\">{row['quantity']}</td>"
+            f"<td class=\"num\">{_e(units.fmt(row['length'], 'length', system))}</td><td class=\"num\">{_mass(row['total_mass'], system)}</td><td>{record}</td></tr>")
 
 
 # ----------------------------------------------------------------------------------------------
@@ -252,42 +261,44 @@ def _public_section(entry: dict, mode: str) -> dict:
     return {"section": entry["section"], "mass_per_length": entry["mass_per_length"], "rows": [{key: row[key] for key in keys} for row in entry["rows"]]}
 
 
-def _load_text(value: float, kind: str) -> str:
-    return units.fmt(value, "force_per_length" if kind == "line" else "force", digits=3)
+def _load_text(value: float, kind: str, system: str) -> str:
+    return units.fmt(value, "force_per_length" if kind == "line" else "force", system, digits=3)
 
 
-def _columns(document: dict) -> list[str]:
+def _columns(document: dict, system: str) -> list[str]:
     """Column headings: the loads (mode span) or the spans (mode load)."""
     first = document["sections"][0]["rows"] if document["sections"] else []
     if document["mode"] == "span":
-        return [_load_text(row["load"], row["kind"]) for row in first]
-    return [units.fmt(row["length"], "length", digits=3) for row in first]
+        return [_load_text(row["load"], row["kind"], system) for row in first]
+    return [units.fmt(row["length"], "length", system, digits=3) for row in first]
 
 
-def _span_text(value: float, resolution: float) -> str:
-    """A span in m with as many decimals as the resolution needs (10 mm: 2)."""
-    decimals = max(0, math.ceil(-math.log10(resolution) - 1e-9))
-    return f"{value:.{decimals}f} m"
+def _span_text(value: float, resolution: float, system: str) -> str:
+    """A span in display length units with as many decimals as the resolution needs (10 mm: 2)."""
+    step = units.to_display(resolution, "length", system)
+    decimals = max(0, math.ceil(-math.log10(step) - 1e-9))
+    return f"{units.to_display(value, 'length', system):.{decimals}f} {units.unit_label('length', system)}"
 
 
-def _cell_text(row: dict, mode: str, resolution: float | None) -> str:
+def _cell_text(row: dict, mode: str, resolution: float | None, system: str) -> str:
     value = row["longest_span"] if mode == "span" else row["largest_load"]
     if value is None:
         return "none"
-    text = _span_text(value, resolution) if mode == "span" else _load_text(value, row["kind"])
+    text = _span_text(value, resolution, system) if mode == "span" else _load_text(value, row["kind"], system)
     if row["beyond_limit"]:
         return "≥ " + text
     return f"{text} {CHECK_SHORT.get(row['governing'], row['governing'] or '')}"
 
 
-def span_table_renderables(document: dict, width: int = 80) -> list[Any]:
-    """The table (sections down, columns across, split to fit `width`), the key, assumptions, cautions."""
+def span_table_renderables(document: dict, width: int, system: str) -> list[Any]:
+    """The table (sections down, columns across, split to fit `width`), the key, assumptions, cautions,
+    in `system`'s units."""
     from rich import box
     from rich.table import Table
     from rich.text import Text
 
     mode = document["mode"]
-    headings = _columns(document)
+    headings = _columns(document, system)
     per_table = max(1, (width - 26) // 17)
     what = "Longest span for each load" if mode == "span" else "Largest load at each span"
     parts: list[Any] = [Text(f"{document['title'] or 'Span table'}: {what.lower()}", style="bold")]
@@ -295,16 +306,17 @@ def span_table_renderables(document: dict, width: int = 80) -> list[Any]:
         shown = range(first, min(first + per_table, len(headings)))
         table = Table(title=what if first == 0 else None, title_justify="left", header_style="bold", box=box.SIMPLE_HEAD, pad_edge=False)
         table.add_column("section", no_wrap=True)
-        table.add_column("kg/m", justify="right", no_wrap=True)
+        table.add_column(units.unit_label("mass_per_length", system), justify="right", no_wrap=True)
         for k in shown:
             table.add_column(headings[k], justify="right", no_wrap=True)
         for entry in document["sections"]:
-            table.add_row(entry["section"], f"{entry['mass_per_length']:.1f}", *(_cell_text(entry["rows"][k], mode, document["resolution"]) for k in shown))
+            table.add_row(entry["section"], _number(entry["mass_per_length"], 1, "mass_per_length", system),
+                          *(_cell_text(entry["rows"][k], mode, document["resolution"], system) for k in shown))
         parts.append(table)
     key = ", ".join(f"{short} = {name}" for name, short in CHECK_SHORT.items() if short != name)
     parts.append(Text(f"After each value: the check that fails just beyond it ({key}); ≥: still passing at the search limit; "
                       "none: fails even at the smallest step.", style="dim"))
-    parts.append(notes_panel(document["assumptions"]))
+    parts.append(notes_panel(document["assumptions"], system=system))
     parts.append(cautions_panel())
     return parts
 
@@ -330,18 +342,47 @@ def span_table_csv(document: dict) -> str:
 
 
 def span_curves(document: dict) -> list[tuple[str, list[float], list[float]]]:
-    """(section, spans in m, load magnitudes in N/m or N) for each section, cells with a value only."""
+    """(section, spans in m, loads in N/m or N, signed as in the table) for each section, cells with a value only."""
     curves = []
     for entry in document["sections"]:
-        points = [(row["longest_span"], abs(row["load"])) if document["mode"] == "span" else (row["length"], abs(row["largest_load"]))
+        points = [(row["longest_span"], row["load"]) if document["mode"] == "span" else (row["length"], row["largest_load"])
                   for row in entry["rows"] if (row["longest_span"] if document["mode"] == "span" else row["largest_load"]) is not None]
         points.sort()
         curves.append((entry["section"], [p[0] for p in points], [p[1] for p in points]))
     return curves
 
 
-def span_plot_bytes(document: dict, image_format: str) -> bytes:
-    """Load against span, one curve per section (matplotlib, imported here)."""
+FAMILY_INKS = ("#1d3557", "#a23b2a", "#2d6a4f", "#7b4f9d", "#b7791f", "#2b7a8c", "#555555", "#c2185b", "#6b8e23", "#8d6e63")
+DASHES = ("-", "--", ":", "-.")
+MARKS = "osD^vP"
+
+
+def family_of(name: str) -> str:
+    """A section's family for the plot: its name up to the first digit ("IPE 200" -> "IPE", "HE 100 A" -> "HE")."""
+    head = re.match(r"[^\d]*", name).group(0).strip()
+    return head or name
+
+
+def series_styles(names: Sequence[str]) -> list[dict[str, Any]]:
+    """One look per series: a colour per family (FAMILY_INKS, in the order families first appear),
+    and within a family a different dash and marker for each member, so no two series look alike."""
+    families: dict[str, int] = {}
+    count: dict[str, int] = {}
+    looks = []
+    for name in names:
+        family = family_of(name)
+        families.setdefault(family, len(families))
+        k = count.get(family, 0)
+        count[family] = k + 1
+        looks.append({"color": FAMILY_INKS[families[family] % len(FAMILY_INKS)], "linestyle": DASHES[k % len(DASHES)],
+                      "marker": MARKS[(k // len(DASHES) + families[family]) % len(MARKS)]})
+    return looks
+
+
+def span_plot_bytes(document: dict, image_format: str, system: str) -> bytes:
+    """Load against span, one curve per section (matplotlib, imported here): a colour per family and
+    a dash and marker per section, the legend beside the plot; the loads signed as in the table
+    (negative: downward) with the heavier load drawn higher up."""
     import matplotlib
 
     matplotlib.use("Agg")
@@ -349,30 +390,33 @@ def span_plot_bytes(document: dict, image_format: str) -> bytes:
 
     kinds = {row["kind"] for entry in document["sections"] for row in entry["rows"]}
     kind = "force_per_length" if kinds == {"line"} else "force" if kinds == {"point"} else None
-    figure = Figure(figsize=(8, 5.5), dpi=120)
-    axes = figure.add_subplot()
     curves = span_curves(document)
-    palette = matplotlib.colormaps["viridis"]
-    for index, (name, spans, loads) in enumerate(curves):
+    columns = 1 + len(curves) // 24
+    figure = Figure(figsize=(8 + 1.7 * columns, 6), dpi=120)
+    axes = figure.add_axes((0.08, 0.1, 0.62 if columns == 1 else 0.5, 0.82))
+    for (name, spans, loads), look in zip(curves, series_styles([c[0] for c in curves])):
         if spans:
-            axes.plot(spans, [units.to_display(v, kind) if kind else v for v in loads], marker="osD^v"[index % 5], markersize=3.5,
-                      linewidth=1.2, color=palette(0.92 * index / max(1, len(curves) - 1)), label=name)
-    axes.set_xlabel("span (m)")
-    axes.set_ylabel(f"load, downward ({units.unit_label(kind)})" if kind else "load, downward (N/m for uniform, N for point loads)")
+            axes.plot([units.to_display(v, "length", system) for v in spans], [units.to_display(v, kind, system) if kind else v for v in loads],
+                      markersize=3.5, linewidth=1.2, label=name, **look)
+    if curves and all(v <= 0 for _, _, loads in curves for v in loads):
+        axes.invert_yaxis()  # downward loads are negative: the heavier load drawn higher up
+    axes.set_xlabel(f"span ({units.unit_label('length', system)})")
+    unit = f"{units.unit_label(kind, system)}" if kind else "N/m for uniform, N for point loads"
+    axes.set_ylabel(f"load as in the table ({unit}; negative: downward)")
     axes.set_title(("Longest span for each load" if document["mode"] == "span" else "Largest load at each span")
-                   + " — every check passes on and below each curve", fontsize=10)
+                   + ": every check passes on and below each curve", fontsize=10, loc="left")
     axes.grid(True, linewidth=0.4, alpha=0.6)
-    if len(document["sections"]) <= 30:
-        axes.legend(fontsize=7, ncol=2 if len(document["sections"]) > 12 else 1, loc="upper right")
-    figure.text(0.01, 0.005, "Check against the governing code before use; see the cautions in the table's output.", fontsize=7, color="0.35")
+    axes.legend(fontsize=6.5, ncol=columns, loc="upper left", bbox_to_anchor=(1.02, 1.0), borderaxespad=0.0, frameon=False,
+                title="section (colour: family)", title_fontsize=7)
+    figure.text(0.01, 0.01, "Check against the governing code before use; see the cautions in the table's output.", fontsize=7, color="0.35")
     buffer = io.BytesIO()
     figure.savefig(buffer, format=image_format, bbox_inches="tight")
     return buffer.getvalue()
 
 
-def write_span_plot(document: dict, path: Path) -> None:
-    """The span-table plot to a PNG or SVG file (written whole)."""
+def write_span_plot(document: dict, path: Path, system: str) -> None:
+    """The span-table plot to a PNG or SVG file (written whole), in `system`'s units."""
     from sizer.files import write_atomic
     from sizer.render.plots import check_plot_path
 
-    write_atomic(path, span_plot_bytes(document, check_plot_path(path)))
+    write_atomic(path, span_plot_bytes(document, check_plot_path(path), system))
