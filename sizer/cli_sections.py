@@ -163,8 +163,10 @@ def add_section(
     diameter: Optional[str] = typer.Option(None, "--diameter", help="Outside diameter (round, round_tube)."),
     family: Optional[str] = typer.Option(None, "--family", help="Family, for filters."),
     material: Optional[str] = typer.Option(None, "--material", help="Default material, defined in the catalogue folder."),
+    units_system: str = UNITS_OPTION,
 ) -> None:
-    """Append one section to a catalogue file, keeping its comments and other entries."""
+    """Append one section to a catalogue file, keeping its comments and other entries, and say
+    which dimensions it was given."""
 
     def work() -> int:
         from sizer.files import check_output
@@ -176,11 +178,19 @@ def add_section(
         given = {"depth": depth, "width": width, "thickness": thickness, "flange_thickness": flange_thickness,
                  "web_thickness": web_thickness, "root_radius": root_radius, "outer_radius": outer_radius, "diameter": diameter}
         values = {key: value for key, value in given.items() if value is not None}
+        system = unit_system(units_system)
         spec = append_section(file, ordered_table(name, shape, values, family, material))
-        typer.echo(f"Added {spec.name} ({spec.shape}) to {file}.")
+        typer.echo(f"Added {spec.name} ({spec.shape}: {added_dimensions(spec, system)}) to {file}.")
         return 0
 
     run_guarded(work)
+
+
+def added_dimensions(spec: Any, system: str) -> str:
+    """The section's given dimensions in display units: "depth 60.00 mm, width 8.000 mm"."""
+    from sizer import units
+
+    return ", ".join(f"{key.replace('_', ' ')} {units.fmt(value, 'dimension', system)}" for key, value in spec.dims.items() if value)
 
 
 @app.command("import")
