@@ -127,8 +127,8 @@ def _draw_restraint(ax: Any, restraint: Restraint, label: str) -> None:
         ax.axvspan(restraint.start, restraint.end, ymin=0.0, ymax=0.09, facecolor="none", edgecolor=LOAD_INK, hatch="////", lw=0.6,
                    zorder=2)
         ax.text((restraint.start + restraint.end) / 2, -1.38, f"{label}, continuous", ha="center", va="bottom", fontsize=6.5,
-                color=LOAD_INK, zorder=8)
+                color=LOAD_INK, zorder=8, bbox={"facecolor": "white", "edgecolor": "none", "pad": 0.4, "alpha": 0.9})
         return
     ax.plot([restraint.start], [0.0], marker="s", markersize=5.5, markerfacecolor=LOAD_INK, markeredgecolor=LOAD_INK, zorder=6)
     ax.annotate(label, (restraint.start, 0.0), xytext=(0, -11), textcoords="offset points", ha="center", va="top", fontsize=6.5,
-                color=LOAD_INK, zorder=8)
+                color=LOAD_INK, zorder=8, bbox={"facecolor": "white", "edgecolor": "none", "pad": 0.4, "alpha": 0.9})

@@ -6,7 +6,7 @@ every combination, not only the governing one.
 
 from __future__ import annotations
 
-from typing import Any
+from typing import Any, Sequence
 
 import numpy as np
 
@@ -25,6 +25,16 @@ def curve_style(index: int) -> dict[str, Any]:
     return {"ls": LINE_STYLES[index % len(LINE_STYLES)], "color": INKS[(index // len(LINE_STYLES)) % len(INKS)]}
 
 
+LEGEND_ROW = 0.19  # inches per row of the legend
+LEGEND_CHARS = 96  # characters of legend text that fit across the sheet beside the line samples
+
+
+def legend_columns(names: Sequence[str]) -> int:
+    """How many legend columns fit across the sheet (at most 3) for these combination names."""
+    longest = max((len(name) for name in names), default=1)
+    return max(1, min(3, LEGEND_CHARS // (longest + 10)))
+
+
 def build_combinations_figure(design: Design, system: str = "si") -> Any:
     """The figure; its attribute `sizer_panels` lists the panels top to bottom."""
     import matplotlib
@@ -35,9 +45,10 @@ def build_combinations_figure(design: Design, system: str = "si") -> Any:
     planar = is_planar(design.member)
     names = ["N", "V", "M"] + ([] if planar else ["Vz", "My", "T"])
     panels = names + (["deflection"] if design.solution.has_displacements else [])
-    top, bottom = 0.75, 0.6
-    height = top + len(panels) * DIAGRAM_HEIGHT + (len(panels) - 1) * GAP + bottom
     combinations = design.solution.combination_names
+    columns = legend_columns(combinations)
+    top, bottom = 0.45 + LEGEND_ROW * -(-len(combinations) // columns), 0.6
+    height = top + len(panels) * DIAGRAM_HEIGHT + (len(panels) - 1) * GAP + bottom
     with matplotlib.rc_context(style()):
         figure = Figure(figsize=(FIG_WIDTH, height))
         axes = panel_axes(figure, [(name, DIAGRAM_HEIGHT) for name in panels], height, top)
@@ -47,7 +58,7 @@ def build_combinations_figure(design: Design, system: str = "si") -> Any:
             _draw_combination(axes, design, combination, names, system, curve_style(index))
         length_axis(axes, design.member.length, system)
         handles, labels = axes[panels[0]].get_legend_handles_labels()
-        figure.legend(handles, labels, loc="upper left", bbox_to_anchor=(LEFT / FIG_WIDTH, 1 - 0.08 / height), ncol=3, fontsize=7.5,
+        figure.legend(handles, labels, loc="upper left", bbox_to_anchor=(LEFT / FIG_WIDTH, 1 - 0.08 / height), ncol=columns, fontsize=7.5,
                       frameon=False, title="Every combination (loads factored)", title_fontsize=9, alignment="left")
     figure.sizer_panels = panels
     return figure

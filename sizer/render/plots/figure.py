@@ -21,6 +21,7 @@ from sizer.render.plots.buckled_shape import buckling_pick, draw_buckled_shape
 from sizer.render.plots.combination_loads import factored_loads
 from sizer.render.plots.diagrams import draw_diagrams, mark_governing
 from sizer.render.plots.member_view import draw_member_view
+from sizer.render.plots.upright import UPRIGHT_HEIGHT, draw_upright, stands_upright
 from sizer.render.plots.style import (
     BOTTOM,
     DIAGRAM_HEIGHT,
@@ -51,7 +52,8 @@ def build_figure(design: Design, combination: str, report: CheckReport | None = 
                  buckled: bool = True) -> Any:
     """The matplotlib Figure of the member and its diagrams for `combination`, and with a report the
     buckled shape of its governing stability check (unless `buckled` is False). Its attribute `sizer_panels` lists the panels top
-    to bottom: elevation, [plan], N, V, M, [Vz, My, T], [deflection], [sideways, twist]."""
+    to bottom: [upright], elevation, [plan], N, V, M, [Vz, My, T], [deflection], [sideways, twist]; "upright" is the member drawn
+    vertical, for a member that stands on end (gravity along x)."""
     import matplotlib
     from matplotlib.figure import Figure
 
@@ -60,7 +62,9 @@ def build_figure(design: Design, combination: str, report: CheckReport | None = 
     points, lines = factored_loads(design, combination)
     views = {plane: layout_member_view(member, points, lines, plane, system) for plane in (["elevation"] if planar else ["elevation", "plan"])}
     names = ["N", "V", "M"] + ([] if planar else ["Vz", "My", "T"])
-    panels = [(plane, view.height) for plane, view in views.items()] + [(name, DIAGRAM_HEIGHT) for name in names]
+    upright = stands_upright(member)
+    panels = ([("upright", UPRIGHT_HEIGHT)] if upright else []) + [(plane, view.height) for plane, view in views.items()]
+    panels += [(name, DIAGRAM_HEIGHT) for name in names]
     if design.solution.has_displacements:
         panels.append(("deflection", DIAGRAM_HEIGHT))
     pick = buckling_pick(report) if buckled else None
@@ -72,6 +76,8 @@ def build_figure(design: Design, combination: str, report: CheckReport | None = 
     with matplotlib.rc_context(style()):
         figure = Figure(figsize=(FIG_WIDTH, height), dpi=DPI)
         axes = panel_axes(figure, panels, height, top)
+        if upright:
+            draw_upright(axes.pop("upright"), member, points, lines, system)
         pad = END_PAD * views["elevation"].m_per_inch
         for ax in axes.values():
             ax.set_xlim(-pad, member.length + pad)
@@ -85,8 +91,8 @@ def build_figure(design: Design, combination: str, report: CheckReport | None = 
             mark_governing(axes, governing)
         length_axis(axes, member.length, system)
         _title_block(figure, member, subtitle, height)
-        _footer(figure, planar)
-    figure.sizer_panels = list(axes)
+        _footer(figure, planar, bool(member.restraints))
+    figure.sizer_panels = (["upright"] if upright else []) + list(axes)
     return figure
 
 
@@ -115,7 +121,7 @@ def panel_axes(figure: Any, panels: list[tuple[str, float]], height: float, titl
     for name, panel_height in panels:
         bottom = top - panel_height
         ax = figure.add_axes((LEFT / FIG_WIDTH, bottom / height, width, panel_height / height))
-        if name in ("elevation", "plan"):
+        if name in ("upright", "elevation", "plan"):
             ax.set_axis_off()
         else:
             ax.tick_params(labelbottom=False, direction="in", length=3)
@@ -156,8 +162,10 @@ def _subtitle_lines(design: Design, combination: str, report: CheckReport | None
     return [part for line in lines for part in textwrap.wrap(line, SUBTITLE_CHARS)]
 
 
-def _footer(figure: Any, planar: bool) -> None:
+def _footer(figure: Any, planar: bool, restraints: bool) -> None:
     text = "Diagrams: positive up, hatched //// where positive and \\\\\\\\ where negative; values of this combination."
+    if restraints:
+        text += "\nRestraints against buckling: filled squares on the member at a point, a cross-hatched strip under it where continuous."
     if not planar:
         text += "\nPlan view seen from +y: +z points down the page; a double-headed arrow is a torque about x (right-hand rule)."
     figure.text(LEFT / FIG_WIDTH, 0.1 / figure.get_figheight(), text, fontsize=7, color="#444444", va="bottom", linespacing=1.4)

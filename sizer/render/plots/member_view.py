@@ -16,6 +16,7 @@ from sizer.render.plots.style import (
     END_PAD,
     GUIDE,
     INK,
+    REACTION_INK,
     draw_arrow,
     draw_text,
 )
@@ -33,10 +34,14 @@ def draw_member_view(ax: Any, view: MemberView, member: Member, points: list[Dra
         draw_support(ax, view, support, member.length)
     for hinge in member.hinges:
         draw_hinge(ax, hinge.at)
+    for restraint in member.restraints:
+        draw_restraint(ax, restraint)
     draw_point_loads(ax, view, points, member.length)
     draw_dimension_chain(ax, view, _chain_positions(member), -view.below + 0.45)
     draw_triad(ax, view, -END_PAD * view.m_per_inch, view.above)
     title = "Member in elevation (x-y plane)" if view.plane.name == "elevation" else "Member in plan (x-z plane, seen from +y)"
+    if member.gravity[0] == 0:  # it stands on end: drawn upright above; here laid along x like the diagrams
+        title = title.replace("Member in", "Member laid along x, in") + ", end A on the left"
     ax.set_title(title + ": supports and factored loads", loc="left", pad=2)
 
 
@@ -49,6 +54,18 @@ def draw_beam(ax: Any, start: float, end: float) -> None:
     from matplotlib.patches import Rectangle
 
     ax.add_patch(Rectangle((start, -BEAM_HALF), end - start, 2 * BEAM_HALF, facecolor="#bdbdbd", edgecolor=INK, lw=1.0, zorder=3))
+
+
+def draw_restraint(ax: Any, restraint: Any) -> None:
+    """A restraint against buckling: a filled square on the member at a point, a hatched strip just
+    under the member where it is continuous (what it holds is in the record's inputs)."""
+    from matplotlib.patches import Rectangle
+
+    if restraint.continuous:
+        ax.add_patch(Rectangle((restraint.start, -BEAM_HALF - 0.07), restraint.end - restraint.start, 0.06, facecolor="none",
+                               edgecolor=REACTION_INK, hatch="xxxx", lw=0.6, zorder=2))
+        return
+    ax.plot([restraint.start], [0.0], marker="s", markersize=5, markerfacecolor=REACTION_INK, markeredgecolor="white", zorder=7, ls="none")
 
 
 def draw_hinge(ax: Any, x: float) -> None:

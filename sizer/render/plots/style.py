@@ -88,25 +88,42 @@ EDGE_MARGIN = 0.12  # inches kept clear between any text and the sheet's edges
 
 
 def keep_texts_inside(figure: Any) -> None:
-    """Move every text (titles, labels, legends' texts) that would run past the sheet's left or
-    right edge back inside it, by the overhang plus EDGE_MARGIN: nothing is cut off."""
+    """Keep every text (titles, labels, legends' texts) inside the sheet, and a text clipped to its
+    panel inside the panel: one that runs past the right or left edge moves back in by the overhang
+    (plus EDGE_MARGIN at the sheet's edges); a panel title, or a text that would then cross the
+    other edge, is wrapped at whole words to the room it has. Nothing is cut off."""
     from matplotlib.backends.backend_agg import FigureCanvasAgg
     from matplotlib.text import Annotation, Text
 
     renderer = FigureCanvasAgg(figure).get_renderer()
-    width, margin = figure.bbox.width, EDGE_MARGIN * figure.dpi
+    margin = EDGE_MARGIN * figure.dpi
+    titles = {id(title) for ax in figure.axes for title in (ax.title, ax._left_title, ax._right_title)}
     for text in figure.findobj(Text):
         if not text.get_visible() or not text.get_text():
             continue
+        clip = text.axes.bbox if text.get_clip_on() and text.axes is not None else None  # drawn clipped to its panel
+        low, high = (clip.x0 + 2, clip.x1 - 2) if clip is not None else (margin, figure.bbox.width - margin)
         box = text.get_window_extent(renderer)
-        shift = min(width - margin - box.x1, 0.0) or max(margin - box.x0, 0.0)
-        if not shift or box.width > width - 2 * margin:
+        shift = min(high - box.x1, 0.0) or max(low - box.x0, 0.0)
+        if not shift:
             continue
-        if isinstance(text, Annotation) and text.anncoords == "offset points":
+        if id(text) in titles or box.x0 + shift < low or box.x1 + shift > high:
+            _wrap_to(text, (high - max(box.x0, low)) / box.width)
+        elif isinstance(text, Annotation) and text.anncoords == "offset points":
             text.xyann = (text.xyann[0] + shift * 72 / figure.dpi, text.xyann[1])
         elif not isinstance(text, Annotation):
             x, y = text.get_transform().transform(text.get_position())
             text.set_position(tuple(text.get_transform().inverted().transform((x + shift, y))))
+
+
+def _wrap_to(text: Any, share: float) -> None:
+    """Wrap a text's lines at whole words to `share` (0..1) of their present width."""
+    import textwrap
+
+    lines = text.get_text().split("\n")
+    longest = max(len(line) for line in lines)
+    chars = max(12, int(longest * share) - 1)
+    text.set_text("\n".join(textwrap.fill(line, chars) for line in lines))
 
 
 def _metadata(image_format: str) -> dict[str, Any]:
