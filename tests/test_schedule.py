@@ -9,6 +9,7 @@ w L^2 / 8 / (S Fb); mass per length = density x b h (elementary geometry).
 from __future__ import annotations
 
 import json
+import re
 import shutil
 
 import pytest
@@ -350,3 +351,24 @@ def test_local_workers_are_forked_only_where_that_is_safe():
     finally:
         stop.set()
         other.join()
+
+
+def test_schedule_speaks_as_every_other_screen_in_the_units_asked(project):
+    """passes / fails as `sizer check` says them, no thousands separator, --units us in feet and
+    pounds, and the HTML's assumptions once each (each member's own are in its linked record)."""
+    from sizer.render.schedule import _mass
+
+    out = project / "out" / "floor.html"
+    result = invoke("schedule", project / "schedule.toml", "--catalogue", project / "catalogue.toml", "--jobs", "1",
+                    "--units", "us", "-o", out)
+    words = set(re.findall(r"\b(ok|FAILS|ALL PASS|FAILING|passes|fails)\b", result.stdout))
+    assert words <= {"passes", "fails"} and "fails" in words
+    assert " ft " in result.stdout and " lb" in result.stdout and "lb/ft" in result.stdout
+    assert _mass(12345.4, "si") == "12345 kg" and _mass(0.45359237 * 2000, "us") == "2000 lb"  # 1 lb = 0.45359237 kg (exact)
+    index = out.read_text()
+    assumptions = index.split("<h2>Assumptions</h2>")[1].split("</ul>")[0]
+    items = re.findall(r"<li>(.*?)</li>", assumptions)
+    assert len(items) == len(set(items))
+    assert not any(re.match(r"B\d: (Verdict|Buckling|Section|Supports)", item) for item in items)  # no member's own lines repeated
+    assert any("listed with it in --json and in its calculation record" in item for item in items)
+    assert "ALL PASS" not in index and "FAILING" not in index and ">fails<" in index

@@ -62,24 +62,10 @@ def critical_stress(slenderness: float, modulus: float, yield_strength: float | 
     return stress, "Euler" if slenderness >= _transition_slenderness(modulus, yield_strength) else "Johnson"
 
 
-def buckling_lengths(member: Member) -> tuple[float, float]:
-    """Buckling lengths (m) about the major (I11) and minor (I22) principal axes; default: the member length."""
-    settings = member.checks
-    return tuple(length if length is not None else member.length
-                 for length in (settings.buckling_length_major, settings.buckling_length_minor))  # type: ignore[return-value]
-
-
 def _axis(axis: str, inertia: float, length: float, props: Any, material: Any) -> BucklingAxis:
     radius = math.sqrt(inertia / props.area)
     stress, formula = critical_stress(length / radius, material.elastic_modulus, material.yield_strength)
     return BucklingAxis(axis, length, radius, length / radius, stress, formula)
-
-
-def buckling_axes(member: Member, props: Any, material: Any) -> list[BucklingAxis]:
-    """Buckling about the section's principal axes: major (I11) with buckling_length_major, minor (I22)
-    with buckling_length_minor; defaults: the member length (for the record's hand calculation)."""
-    return [_axis(axis, inertia, length, props, material)
-            for axis, inertia, length in zip(("major", "minor"), (props.I11, props.I22), buckling_lengths(member))]
 
 
 def given_length_axes(member: Member, props: Any, material: Any) -> list[BucklingAxis]:

@@ -6,7 +6,7 @@ the diagrams of the governing combination and of every combination; the method o
 governing cut (free body of the left segment, each load and reaction on it, the equilibrium
 equations with the numbers put in, and the actions they give beside the analysis's); every check;
 the governing station by hand (each stress by its formula beside the full field, column buckling
-with KL/r); stability (the eigen-solve in words, load factors, critical values, reduced allowables
+with KL/r from the effective lengths of the eigen-solve, and the lateral-torsional closed form); stability (the eigen-solve in words, load factors, critical values, reduced allowables
 with their numbers, the buckled shape); the verdict; the assumptions; the cautions again.
 
 Every check number shown is taken from render.check.check_json (the `sizer check --json`

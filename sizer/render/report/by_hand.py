@@ -2,7 +2,8 @@
 largest stress utilization, each stress is written out as its textbook formula with the numbers put
 in (N/A, M/S about each axis, V Q / (I t) at the neutral axis, the torsion formula of the shape),
 beside the peak of the full section field that the checks use, with a sentence on why they differ;
-then the column-buckling formula with KL/r on each axis beside the member's own eigen-solve.
+then the stability hand checks (render.report.hand_stability): column buckling with KL from the eigen-solve, and the
+lateral-torsional closed form beside the eigen value.
 
 Q and t come from the section's outline (shapely): Q is the first moment about the neutral axis
 of the part beyond it, t the width of the section along the neutral axis. Values in display units.

@@ -9,7 +9,7 @@ from __future__ import annotations
 from pathlib import Path
 
 from sizer import units
-from sizer.checks import buckling_axes, spans
+from sizer.checks import given_length_axes, spans
 from sizer.checks.deflection import entry_text, limit_entries
 from sizer.design import Design
 from sizer.model import FREEDOMS, LineLoad, PointLoad
@@ -245,10 +245,15 @@ def _settings_table(design: Design, system: str) -> str:
     rows = [_row(["<th>Deflection limits</th>", f"<td>{_e(deflection)}</td>"]),
             _row(["<th>Buckling safety factor</th>",
                   f"<td>{settings.buckling_safety_factor:g} ({'given' if settings.buckling_safety_factor_given else 'default'})</td>"])]
-    axes = buckling_axes(design.member, design.props, design.material)
+    axes = given_length_axes(design.member, design.props, design.material)
+    if not axes:
+        return (f"<h3>1.7 Check settings</h3><table><tbody>{''.join(rows)}</tbody></table>"
+                "<p>Buckling lengths: none given; the eigen-solve on the member as it is decides (section 6 gives the effective "
+                "lengths it implies).</p>")
     axis_rows = [_row([f"<td>{_e(a.axis)}</td>", _cell(_fmt(a.length, "length", system), a.length),
                        _cell(_fmt(a.radius, "dimension", system), a.radius), _cell(f"{a.slenderness:.1f}", a.slenderness),
                        f"<td>{_e(a.formula)}</td>", _cell(_fmt(a.critical_stress, "stress", system), a.critical_stress)])
                  for a in axes]
     return (f"<h3>1.7 Check settings</h3><table><tbody>{''.join(rows)}</tbody></table>"
+            + "<p>Buckling lengths given (Euler's load on each is kept beside the eigen-solve; the lower governs):</p>"
             + _table(["buckling axis", "length KL", "radius r", "KL/r", "formula", "critical stress σcr"], axis_rows, (1, 2, 3, 5)))
