@@ -384,5 +384,8 @@ def test_axes_named_in_words(tmp_path: Path) -> None:
     assert float(found.group(1)) == pytest.approx(8356, rel=0.005) and float(found.group(2)) == pytest.approx(603.8, rel=0.005)
     post = screen_words(["check", write(tmp_path, "post.toml", POST.format(self_weight="false", extra=""))])
     assert "Iz = Iy = " in post and "(no major axis)" in post
+    show = screen_words(["sections", "show", "IPE 200"])
+    assert "Iz (major) 1946 cm⁴ second moment about the horizontal axis (EN y-y, AISC x-x)" in show  # IPE 200: 1943 cm^4 (EN tables)
+    assert "Iy (minor) 142.4 cm⁴ second moment about the vertical axis (EN z-z, AISC y-y)" in show
     docs = (Path(__file__).parent.parent / "docs" / "output.md").read_text()
     assert "| z-z, major: `Iz`, `Mz`, `Sz` | y-y: I_y, M_y, W_el,y | x-x: I_x, M_x, S_x |" in docs

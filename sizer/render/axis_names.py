@@ -19,9 +19,11 @@ def axis_words(props: Any) -> tuple[str, str]:
 
 
 def named(symbol: str, props: Any) -> str:
-    """"Iz (major)", "Iy (minor)", "Mz (major)" ...: a symbol whose last letter is its axis, with the word."""
+    """"Iz (major)", "Iy (minor)", "Mz (major)" ...: a symbol whose last letter is its axis, with the
+    word; the bare symbol for a section equally stiff about both axes."""
     z_word, y_word = axis_words(props)
-    return f"{symbol} ({z_word if symbol.endswith('z') else y_word})"
+    word = z_word if symbol.endswith("z") else y_word
+    return f"{symbol} ({word})" if word != "equal" else symbol
 
 
 def inertia_pair(props: Any, value: Any) -> str:

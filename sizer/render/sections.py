@@ -11,12 +11,15 @@ from typing import Any, Callable, TypeVar
 from sizer import units
 from sizer.files import write_atomic
 from sizer.render.common import CAUTIONS
+from sizer.render.axis_names import axis_words, named
 from sizer.sections import SectionProperties, SectionSpec
 
 T = TypeVar("T")
+HANDBOOK = {"major": " (EN y-y, AISC x-x)", "minor": " (EN z-z, AISC y-y)", "equal": ""}  # docs/output.md maps the axes
 
 AXES_NOTE = ("Member axes: y along the depth (up as drawn), z = -across (to the left as drawn, looking at "
-             "the +x cut face), x along the member. Iz is about the horizontal (major) axis.")
+             "the +x cut face), x along the member. Iz is about the horizontal axis, Iy about the vertical one; the larger "
+             "is the major axis (handbooks: EN y-y, AISC x-x), the smaller the minor (EN z-z, AISC y-y).")
 PEAK_NOTE = ("Unit peaks: largest stress at the mesh nodes per unit action (finite-element elasticity "
              "solution, Poisson's ratio 0, loads through the shear centre).")
 _SHORT = {"depth": "d", "width": "b", "thickness": "t", "flange_thickness": "tf", "web_thickness": "tw",
@@ -90,8 +93,8 @@ def property_rows(props: SectionProperties, system: str = "si") -> list[tuple[st
         ("m", f(props.mass_per_length, "mass_per_length", system), "mass per length"),
         ("depth, width", f"{f(props.depth, 'dimension', system)}, {f(props.width, 'dimension', system)}", "bounding box"),
         ("y_c, z_c", f"{f(props.centroid[0], 'dimension', system)}, {f(props.centroid[1], 'dimension', system)}", "centroid from the bounding box centre"),
-        ("Iz", f(props.Iz, "inertia", system), "second moment about the horizontal axis (major)"),
-        ("Iy", f(props.Iy, "inertia", system), "second moment about the vertical axis"),
+        (named("Iz", props), f(props.Iz, "inertia", system), "second moment about the horizontal axis" + HANDBOOK[axis_words(props)[0]]),
+        (named("Iy", props), f(props.Iy, "inertia", system), "second moment about the vertical axis" + HANDBOOK[axis_words(props)[1]]),
         ("Iyz", f(props.Iyz, "inertia", system), "product of inertia (∫ y z dA)"),
         ("I11, I22", f"{f(props.I11, 'inertia', system)}, {f(props.I22, 'inertia', system)}", "principal second moments"),
         ("α", angle, "principal angle: z axis to the 11 axis, positive about +x"),

@@ -22,7 +22,8 @@ _NUMBER_UNIT = re.compile(r"(?<=[\d.])( )(?=(?:" + "|".join(map(re.escape, _UNIT
 _SYMBOL_EQUALS = re.compile(r"(?<=\S)( )(=)( )(?=\S)")
 _RANGE = re.compile(r"(?<=\d)( )(to)( )(?=[-+\d])")
 _OPERATOR = re.compile(r"(?<=\S)( )([/x×])( )(?=\S)")
-_AXIS_WORD = re.compile(r"(?<=\w)( )(?=\((?:major|minor)\))")  # "Iz (major)" stays on one line
+_AXIS_WORD = re.compile(r"(?<=\w)( )(?=\((?:major|minor)\))|(?<=\bEN)( )(?=[xyz]-[xyz])|(?<=AISC)( )(?=[xyz]-[xyz])")
+# "Iz (major)" and "EN y-y" stay on one line
 
 
 def glued(plain: str) -> str:
