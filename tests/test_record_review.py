@@ -391,3 +391,11 @@ def test_axes_named_in_words(tmp_path: Path) -> None:
     assert float(major.group(1)) == pytest.approx(1943, rel=0.005) and float(minor.group(1)) == pytest.approx(142.4, rel=0.005)
     docs = (Path(__file__).parent.parent / "docs" / "output.md").read_text()
     assert "| z-z, major: `Iz`, `Mz`, `Sz` | y-y: I_y, M_y, W_el,y | x-x: I_x, M_x, S_x |" in docs
+
+
+def test_record_stability_words_name_only_what_was_solved(tmp_path: Path) -> None:
+    post = record_text(write(tmp_path, "post.toml", POST.format(self_weight="false", extra="")), tmp_path)
+    assert "It is solved under the axial force alone" in post and "lateral-torsional buckling)" not in post.split("It is solved")[1][:200]
+    assert "self-weight at the centroid" not in post
+    beam = record_text(write(tmp_path, "beam.toml", BEAM.format(loads=UNIFORM)), tmp_path)
+    assert "It is solved under the bending with the load heights" in beam

@@ -26,17 +26,25 @@ def _factor(value: float | None) -> str:
 
 
 def solve_words(design: Design, report: CheckReport) -> str:
-    """How the critical values were found, in words."""
-    elements = len(report.stability.model.mesh.nodes) - 1
+    """How the critical values were found, in words: only the solves that were made."""
+    stability = report.stability
+    elements = len(stability.model.mesh.nodes) - 1
+    axial = any(entry.axial is not None for entry in stability.combinations)
+    lateral = any(entry.lateral is not None for entry in stability.combinations)
+    kinds = ([("under the axial force alone (flexural, torsional and flexural-torsional column buckling)", "peak compression")] if axial else [])
+    kinds += [("under the bending with the load heights (lateral-torsional buckling)", "peak moment")] if lateral else []
+    if not kinds:
+        return ("<p>No eigen-solve was needed: no combination compresses the member, and "
+                f"{_e(stability.lateral_reason or 'none bends it about its major axis')}.</p>")
+    solved = " and ".join(what for what, _ in kinds)
+    peaks = " or ".join(peak for _, peak in kinds)
     return ("<p>For each combination sizer finds the elastic buckling of the member as it is: the member is cut into "
             f"{elements} thin-walled beam elements (sideways displacement and its slope, twist and its rate, with warping); "
             "the elastic stiffness K comes from the section's E Iy, G J and E Iw, the geometric stiffness G from the combination's "
-            "own axial force N(x) and major-axis moment M(x) (exact between nodes), the heights at which the loads act and the "
-            "shear-centre offset. The eigen-solve K d + λ G d = 0 gives the lowest positive λ, the <i>load factor</i>: the whole "
-            "combination times λ would buckle the member, in the shape d. It is solved twice per combination: under the axial "
-            "force alone (flexural, torsional and flexural-torsional column buckling) and under the bending with the load "
-            "heights (lateral-torsional buckling). Critical values are the load factor times the combination's peak compression "
-            f"or peak moment. Safety factor: {_e(safety_text(design))}.</p>")
+            "own internal actions (exact between nodes), the heights at which the loads act and the shear-centre offset. The "
+            "eigen-solve K d + λ G d = 0 gives the lowest positive λ, the <i>load factor</i>: the whole combination times λ would "
+            f"buckle the member, in the shape d. It is solved {_e(solved)}. Critical values are the load factor times the "
+            f"combination's {peaks}. Safety factor: {_e(safety_text(design))}.</p>")
 
 
 def holds_list(design: Design, system: str) -> str:
@@ -58,7 +66,8 @@ def holds_list(design: Design, system: str) -> str:
         items.append("no restraints given: held against buckling at the supports only")
     heights = sorted({height_text(load.height, system) for load in design.member.loads if getattr(load, "height", None) is not None})
     items.append("load heights: each transverse load on the face it pushes on (top for a downward load)"
-                 + (f", except where given ({', '.join(heights)})" if heights else "") + "; self-weight at the centroid")
+                 + (f", except where given ({', '.join(heights)})" if heights else "")
+                 + ("; self-weight at the centroid" if design.member.self_weight_case else ""))
     return "<ul>" + "".join(f"<li>{_e(item)}</li>" for item in items) + "</ul>"
 
 
