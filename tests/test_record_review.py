@@ -239,6 +239,11 @@ def test_buckling_line_names_only_the_solves_made(tmp_path: Path) -> None:
     assert "no eigen-solve was needed: no combination compresses the member" in text
     beam = screen_words(["check", write(tmp_path, "beam.toml", BEAM.format(loads=UNIFORM))])
     assert "under its major-axis bending" in beam and "under its axial force" not in beam
+    assert "Interaction: fa/Fa" not in beam and "pins and rollers are forks" in beam  # no axial force: no interaction check
+    post = screen_words(["check", write(tmp_path, "post.toml", POST.format(self_weight="false", extra=""))])
+    assert "Supports for stability: fixed at 0 m (warping held)." in post and "forks" not in post
+    rod = screen_words(["check", write(tmp_path, "rod.toml", tie.replace("SHS 80x80x5", "RD 32"))])
+    assert "Local buckling: each flat wall" not in rod  # a round bar has no flat walls: the check is not made
 
 
 # ----------------------------------------------------------------------------------------------

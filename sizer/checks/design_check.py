@@ -63,7 +63,7 @@ def check_design(design: Design, unit_field: Any, n_even: int = 200, stability: 
         web_check(design),
     ]
     nodes = np.asarray(unit_field.sigma).shape[1]
-    notes = check_notes(design, report, given, len(xs), len(names), nodes)
+    notes = check_notes(design, report, given, len(xs), len(names), nodes, {c.check for c in checks if c.made})
     notes.insert(1, torsion_note(design))
     braces = brace_demands(design, actions, xs)
     notes += brace_notes(braces)
@@ -91,8 +91,9 @@ def _bending_allowable(design: Design, report: StabilityReport) -> float | None:
 
 
 def check_notes(design: Design, report: StabilityReport, given: list[BucklingAxis], n_stations: int, n_combinations: int,
-                nodes: int) -> list[str]:
-    """The assumptions behind the checks, stated so that none is hidden."""
+                nodes: int, made: set[str]) -> list[str]:
+    """The assumptions behind the checks, stated so that none is hidden; the interaction and local
+    buckling lines only where those checks were `made`."""
     settings = design.member.checks
     factor_text = "default" if not settings.buckling_safety_factor_given else "given"
     notes = [
@@ -100,12 +101,14 @@ def check_notes(design: Design, report: StabilityReport, given: list[BucklingAxi
         f"combination{'' if n_combinations == 1 else 's'}, "
         f"each on all {nodes} mesh nodes (unit stress fields of the section's finite-element elasticity solution, combined linearly).",
         stability_note(design, report, given) + f" Safety factor {settings.buckling_safety_factor:g} ({factor_text}).",
-        "Interaction: fa/Fa + fb/Fb with fb the peak bending stress from My and Mz together; Fa in compression is "
-        "the compression allowable reduced to the combination's buckling stress / safety factor where lower; Fb is the "
-        "bending allowable reduced for lateral-torsional buckling.",
     ]
+    if "interaction" in made:
+        notes.append("Interaction: fa/Fa + fb/Fb with fb the peak bending stress from My and Mz together; Fa in compression is "
+                     "the compression allowable reduced to the combination's buckling stress / safety factor where lower; Fb is "
+                     "the bending allowable reduced for lateral-torsional buckling.")
     notes += restraint_notes(design)
-    notes.append(LOCAL_ASSUMPTIONS)
+    if "local" in made:
+        notes.append(LOCAL_ASSUMPTIONS)
     notes.append(plateau_note())
     notes += web_notes(design)
     if design.material.yield_strength is None:
@@ -151,7 +154,8 @@ def restraint_notes(design: Design) -> list[str]:
     member = design.member
     notes = []
     supports = ", ".join(f"{s.label} at {s.at:g} m (warping {'held' if warping_held(s) else 'free'})" for s in member.supports)
-    notes.append(f"Supports for stability: {supports}; pins and rollers are forks (sideways movement and twist held).")
+    forks = any(s.label in ("pin", "roller") for s in member.supports)
+    notes.append(f"Supports for stability: {supports}" + ("; pins and rollers are forks (sideways movement and twist held)." if forks else "."))
     if member.restraints:
         parts = []
         for r in member.restraints:
