@@ -404,3 +404,15 @@ def test_record_stability_words_name_only_what_was_solved(tmp_path: Path) -> Non
     assert "self-weight at the centroid" not in post
     beam = record_text(write(tmp_path, "beam.toml", BEAM.format(loads=UNIFORM)), tmp_path)
     assert "It is solved under the bending with the load heights" in beam
+
+
+def test_upright_sketch_gives_z_its_right_handed_direction(tmp_path: Path) -> None:
+    """x up the page and y to the right: z = x × y points into the page (right-hand rule)."""
+    from sizer.render.plots.figure import build_figure
+
+    post = write(tmp_path, "post.toml", POST.format(self_weight="false", extra='[[loads]]\ntype = "point"\ncase = "dead"\nat = "2 m"\n'
+                                                     'fz = "1 kN"\n'))
+    outcome = sizer.check(post)
+    figure = build_figure(outcome.design, "all", outcome.report)
+    words = " ".join(text.get_text() for text in figure.axes[0].texts)
+    assert "fz 1.00 kN (into the page)" in words

@@ -1,7 +1,8 @@
 """The upright sketch of a member that stands on end (gravity along its axis, `gravity = "-x"` or
 "+x"): the member drawn vertical, to scale, with its supports, restraints and factored loads, its
 ends named and its height dimensioned, beside the views and diagrams that run along x. The page's
-right is the member's +y; a force along z is written beside its point (out of or into the page).
+right is the member's +y, so +z points into the page when x points up (gravity along -x) and out
+of it when x points down; a force along z is written beside its point with that direction.
 Panel coordinates are inches of paper.
 """
 
@@ -128,10 +129,11 @@ def _point_notes(ax: Any, member: Member, points: list[DrawnPoint], system: str)
     """The forces along z and the moments of the point loads at one position, written once, one per
     line, to the left of the member."""
     lines = []
+    z_into_page = member.gravity[1] < 0  # x up the page and y to the right: +z points into the page
     for point in points:
         fz = point.force[2]
         if fz:
-            lines.append(f"fz {units.fmt(fz, 'force', system, 3)} ({'out of' if fz > 0 else 'into'} the page)")
+            lines.append(f"fz {units.fmt(fz, 'force', system, 3)} ({'into' if (fz > 0) == z_into_page else 'out of'} the page)")
         lines += [f"m{axis} {units.fmt(m, 'moment', system, 3)}" for axis, m in zip("xyz", point.moment) if m]
     if lines:
         draw_text(ax, POST_X - 0.3, height_of(member, points[0].at), "\n".join(lines), ha="right", va="center", fontsize=7, linespacing=1.3)
