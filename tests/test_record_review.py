@@ -178,12 +178,14 @@ def test_destabilising_load_lengthens_the_segment(tmp_path: Path) -> None:
 def test_inputs_show_restraints_and_load_heights(tmp_path: Path) -> None:
     loads = UNIFORM + '[[restraints]]\nat = "3 m"\nhold = ["lateral", "twist"]\nheight = "top"\n' \
         '[[restraints]]\nfrom = "0 m"\nto = "2 m"\nhold = ["lateral"]\nheight = "bottom"\n' \
-        '[[loads]]\ntype = "point"\nat = "2 m"\nfy = "-3 kN"\n'
+        '[[loads]]\ntype = "point"\nat = "2 m"\nfy = "-3 kN"\nacross = "+40 mm"\n'
     words = record_text(write(tmp_path, "held.toml", BEAM.format(loads=loads)), tmp_path)
     assert "restraint at holds lateral hold acts at R1 3.000 m lateral and twist top" in words
     assert "R2 0 m to 2.000 m (continuous) lateral bottom" in words
     assert "acts at (height on the section)" in words
-    assert "wy = -4.000 kN/m centre" in words and "fy = -3.000 kN the face it pushes on (default)" in words
+    assert "acts at (height on the section) across the section" in words
+    assert "wy = -4.000 kN/m centre centroid (default)" in words
+    assert "fy = -3.000 kN the face it pushes on (default) +40.00 mm from the shear centre" in words
 
 
 # ----------------------------------------------------------------------------------------------
@@ -416,3 +418,13 @@ def test_upright_sketch_gives_z_its_right_handed_direction(tmp_path: Path) -> No
     figure = build_figure(outcome.design, "all", outcome.report)
     words = " ".join(text.get_text() for text in figure.axes[0].texts)
     assert "fz 1.00 kN (into the page)" in words
+
+
+def test_reserve_factor_says_whether_it_scales_a_self_weight(tmp_path: Path) -> None:
+    without = write(tmp_path, "post.toml", POST.format(self_weight="false", extra=""))
+    document = json.loads(invoke(["check", without, "--json"]).stdout)
+    assert document["reserve_self_weight"] is False
+    assert "no self-weight (self_weight = false), times" in screen_words(["check", without])
+    assert "no self-weight (self_weight = false), times" in record_text(without, tmp_path)
+    with_weight = write(tmp_path, "post_sw.toml", POST.format(self_weight='"dead"', extra=""))
+    assert "self-weight included, times" in screen_words(["check", with_weight])

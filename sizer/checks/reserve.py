@@ -31,11 +31,18 @@ SAFE_SIDE = 1 - 1e-7  # a linear step lands just inside, not on the limit's roun
 @dataclass(frozen=True)
 class Reserve:
     """factor: the reserve factor (None when no check has any demand in the combination, or it is
-    above LARGEST); combination: the governing combination it scales; evaluations: full checks made."""
+    above LARGEST); combination: the governing combination it scales; evaluations: full checks made;
+    self_weight: whether the member carries its self-weight (then scaled with the other loads)."""
 
     factor: float | None
     combination: str | None
     evaluations: int = 0
+    self_weight: bool = True
+
+    @property
+    def scaled_words(self) -> str:
+        """What the factor multiplies, in words."""
+        return "self-weight included" if self.self_weight else "no self-weight (self_weight = false)"
 
     @property
     def note(self) -> str:
@@ -44,7 +51,7 @@ class Reserve:
             return "Reserve factor: not found (no check has a governing combination)."
         if self.factor is None:
             return f"Reserve factor: unbounded (no check of combination '{self.combination}' fails below {LARGEST:g} x its loads)."
-        return (f"Reserve factor {self.factor:.3f}: every load of combination '{self.combination}', self-weight included, times this "
+        return (f"Reserve factor {self.factor:.3f}: every load of combination '{self.combination}', {self.scaled_words}, times this "
                 f"factor still passes every check (full checks with the loads scaled, to {TOLERANCE:.1%}; "
                 f"{self.evaluations} full checks).")
 
@@ -86,10 +93,10 @@ def reserve_factor(design: Design, report: CheckReport, unit_field: Any, toleran
     while failing > passing * (1 + tolerance) and count < MOST_EVALUATIONS:
         factor = _next_factor(factor, value, passing, failing, tolerance, count >= SECANT_STEPS)
         if factor > LARGEST:
-            return Reserve(None, combination, count)
+            return Reserve(None, combination, count, bool(design.member.self_weight_case))
         passes, value = utilization(factor)
         passing, failing = (factor, failing) if passes else (passing, factor)
-    return Reserve(passing, combination, count)
+    return Reserve(passing, combination, count, bool(design.member.self_weight_case))
 
 
 def _next_factor(factor: float, value: float, passing: float, failing: float, tolerance: float, bisect: bool) -> float:

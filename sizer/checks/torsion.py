@@ -156,7 +156,8 @@ def torsion_note(design: Design) -> str:
         offset = f"centroid {1e3 * dz:+.3g} mm along z" + (f", {1e3 * dy:+.3g} mm along y" if dy else "") + " from the shear centre"
     else:
         offset = "the centroid is the shear centre"
-    text = (f"Torsion: loads act across the section at {', '.join(places) or 'the centroid'} ({offset}); self-weight at the centroid; "
+    weight = "self-weight at the centroid; " if design.member.self_weight_case else ""
+    text = (f"Torsion: loads act across the section at {', '.join(places) or 'the centroid'} ({offset}); {weight}"
             "each transverse load's torque about the shear centre is added to the given torques; the elastic critical values are "
             "not changed by these torques (no geometric stiffness from a first-order torque in the linear buckling solve). ")
     eiw = warping_rigidity(design)

@@ -38,6 +38,7 @@ def check_json(design: Design, report: CheckReport, notes: list[str]) -> dict[st
         "checks": [check_entry(c) for c in report.checks],
         "reserve_factor": report.reserve.factor if report.reserve is not None else None,
         "reserve_combination": report.reserve.combination if report.reserve is not None else None,
+        "reserve_self_weight": report.reserve.self_weight if report.reserve is not None else None,
         "reactions": reactions_json(design),
         "restraints": [demand.to_json() for demand in report.restraints],
         "torsion": torsion_json(report.torsion),

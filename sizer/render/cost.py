@@ -54,9 +54,9 @@ def reserve_sentence(reserve: Any) -> str:
         return f" Reserve factor: unbounded in combination {combination}."
     if reserve.factor < 1:
         return (f" Reserve factor [bold]{reserve.factor:.3f}[/]: every check would pass only with every load of combination "
-                f"{combination}, self-weight included, times {reserve.factor:.3f} or less.")
+                f"{combination}, {reserve.scaled_words}, times {reserve.factor:.3f} or less.")
     return (f" Reserve factor [bold]{reserve.factor:.3f}[/]: every check still passes with every load of combination "
-            f"{combination}, self-weight included, times {reserve.factor:.3f}.")
+            f"{combination}, {reserve.scaled_words}, times {reserve.factor:.3f}.")
 
 
 def price_text(terms: Any, currency: str | None) -> str:

@@ -34,7 +34,8 @@ def _reserve_text(document: dict[str, Any]) -> str:
     if factor is None or combination is None:
         return ""
     return (f' Reserve factor <b data-value="{factor!r}">{factor:.3f}</b>: every load of combination <b>{_e(combination)}</b>, '
-            f'self-weight included, times {factor:.3f} {"still passes" if factor >= 1 else "is the most that would pass"} every check.')
+            f'{"self-weight included" if document["reserve_self_weight"] else "no self-weight (self_weight = false)"}, '
+            f'times {factor:.3f} {"still passes" if factor >= 1 else "is the most that would pass"} every check.')
 
 
 def verdict_box(document: dict[str, Any], system: str) -> str:

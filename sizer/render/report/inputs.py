@@ -98,6 +98,17 @@ def _load_height(load: PointLoad | LineLoad, design: Design, system: str) -> str
     return "the face it pushes on (default)"
 
 
+def _load_across(load: PointLoad | LineLoad, system: str) -> str:
+    """Where across the section (along z) a load acts: "centroid" (the default), "shear-centre", or
+    its signed offset from the shear centre in display units."""
+    from sizer.model import DEFAULT_ACROSS
+
+    if isinstance(load.across, str):
+        return load.across + (" (default)" if load.across == DEFAULT_ACROSS else "")
+    text = _fmt(load.across, "dimension", system)
+    return (text if text.startswith("-") else "+" + text) + " from the shear centre"
+
+
 def _load_values(load: PointLoad | LineLoad, system: str) -> str:
     """The non-zero components of a load as given (unfactored); an area load as its pressure x
     tributary width = the line load it makes; "patterned" when it is."""
@@ -143,19 +154,20 @@ def _loads_table(design: Design, system: str) -> str:
             kind = "area" if load.area is not None else "line"
             where = f"{_fmt(load.start, 'length', system)} to {_fmt(load.end, 'length', system)}"
         rows.append(_row([f"<td>L{index}</td>", f"<td>{_e(load.case)}</td>", f"<td>{kind}</td>", f"<td>{where}</td>",
-                          f"<td>{_e(_load_values(load, system))}</td>", f"<td>{_e(_load_height(load, design, system))}</td>"]))
+                          f"<td>{_e(_load_values(load, system))}</td>", f"<td>{_e(_load_height(load, design, system))}</td>",
+                          f"<td>{_e(_load_across(load, system))}</td>"]))
     member = design.member
     if member.self_weight_case:
         axis, sign = member.gravity
         rows.append(_row(["<td>SW</td>", f"<td>{_e(member.self_weight_case)}</td>", "<td>line</td>",
                           f"<td>{_fmt(0.0, 'length', system)} to {_fmt(member.length, 'length', system)}</td>",
                           f"<td>self-weight {_fmt(design.mass_per_length * units.GRAVITY, 'force_per_length', system)} "
-                          f"along {'+' if sign > 0 else '-'}{'xyz'[axis]} (mass per length × g)</td>", "<td>centroid</td>"]))
+                          f"along {'+' if sign > 0 else '-'}{'xyz'[axis]} (mass per length × g)</td>", "<td>centroid</td>", "<td>centroid</td>"]))
     text = "<h3>1.3 Loads (as given, before factors)</h3>"
     if not rows:
         return text + "<p>No loads.</p>"
     return text + _table(["load", "case", "type", "where", "components (+ along +x, +y, +z; moments about them)",
-                          "acts at (height on the section)"], rows)
+                          "acts at (height on the section)", "across the section"], rows)
 
 
 def _combinations_table(design: Design) -> str:
