@@ -112,20 +112,23 @@ def shown_notes(rows: list[dict], run_notes: list[str]) -> list[str]:
 
 
 def _members_table(rows: list[dict], system: str) -> Any:
-    from rich import box
-    from rich.table import Table
+    """The members as a ledger: a column that does not fit at the terminal's width moves to the row's
+    second line with its header (a number is never cut short)."""
+    from rich.markup import escape
 
-    table = Table(title="Members", title_justify="left", header_style="bold", box=box.SIMPLE_HEAD, pad_edge=False, padding=0, show_edge=False)
+    from sizer.render.text import Column, Ledger
+
     priced = any(row.get("cost") is not None for row in rows)
-    for name, justify in (("mark", "left"), ("do", "left"), ("section", "left"), ("util.", "right"), ("reserve", "right"), ("governing", "left"),
-                          ("verdict", "left"), (units.unit_label("mass_per_length", system), "right"), ("qty", "right"), ("length", "right"),
-                          ("mass", "right")) + ((("cost", "right"),) if priced else ()):
-        table.add_column(name, justify=justify, no_wrap=True, overflow="ellipsis")
+    columns = [Column("mark"), Column("do"), Column("section"), Column("util.", right=True), Column("reserve", right=True, fold=True),
+               Column("governing"), Column("verdict"), Column(units.unit_label("mass_per_length", system), right=True, fold=True),
+               Column("qty", right=True, fold=True), Column("length", right=True, fold=True), Column("mass", right=True, fold=True)]
+    columns += [Column("cost", right=True, fold=True)] if priced else []
+    table = Ledger("Members", columns)
     for row in rows:
         utilization = row["utilization"]
         verdict = "passes" if row["passes"] else ("[reverse]nothing passes[/]" if row["section"] is None else "[reverse]fails[/]")
         reserve = row.get("reserve_factor")
-        table.add_row(row["mark"], row["do"], row["section"] or "none passes", _utilization_text(utilization),
+        table.add_row(escape(row["mark"]), row["do"], escape(row["section"] or "none passes"), _utilization_text(utilization),
                       "—" if reserve is None else f"{reserve:.2f}",
                       row["governing"] or "—", verdict, _number(row["mass_per_length"], 1, "mass_per_length", system), str(row["quantity"]),
                       units.fmt(row["length"], "length", system, digits=3), _mass(row["total_mass"], system),
