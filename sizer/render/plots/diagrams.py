@@ -80,7 +80,8 @@ def draw_action_diagram(ax: Any, name: str, samples: Samples, design: Design, co
     ax.set_ylabel(units.unit_label(kind, system))
     if not np.any(values):
         ax.set_ylim(-1.0, 1.0)
-        ax.text(0.5, 0.55, "zero along the member", transform=ax.transAxes, ha="center", fontsize=7.5, color="#555555")
+        ax.text(0.5, 0.55, "zero along the member", transform=ax.transAxes, ha="center", fontsize=7.5, color="#555555",
+                zorder=8, bbox={"facecolor": "white", "edgecolor": "none", "pad": 0.4, "alpha": 0.9})
         return
     extreme = extremes(design.solution, combination)[name]
     marks = [(extreme.max_value, extreme.max_at, 1.0), (extreme.min_value, extreme.min_at, -1.0)]

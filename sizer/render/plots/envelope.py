@@ -98,7 +98,8 @@ def _draw_band(ax: Any, name: str, xs: np.ndarray, high: np.ndarray, low: np.nda
     ax.set_ylabel(unit)
     if not np.any(top) and not np.any(bottom):
         ax.set_ylim(-1.0, 1.0)
-        ax.text(0.5, 0.55, "zero along the member in every combination", transform=ax.transAxes, ha="center", fontsize=7.5, color="#555555")
+        ax.text(0.5, 0.55, "zero along the member in every combination", transform=ax.transAxes, ha="center", fontsize=7.5, color="#555555",
+                zorder=8, bbox={"facecolor": "white", "edgecolor": "none", "pad": 0.4, "alpha": 0.9})
         return
     span = max(float(top.max()), 0.0) - min(float(bottom.min()), 0.0)
     ax.set_ylim(min(float(bottom.min()), 0.0) - 0.45 * span, max(float(top.max()), 0.0) + 0.45 * span)
