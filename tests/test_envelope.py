@@ -70,13 +70,13 @@ def test_envelope_in_the_terminal_json_and_plot(tmp_path: Path) -> None:
     result = run("forces", path, "--envelope", "--json")
     assert result.exit_code == 0, result.stderr
     document = json.loads(result.stdout)
-    assert len(document["combinations"]) == 3 and document["envelope"]["combinations"] == 3
+    assert len(document["combinations"]) == 4 and document["envelope"]["combinations"] == 4
     end = document["envelope"]["reactions"][2]["Fy"]
     assert end["min"] == pytest.approx(-w * L / 16, rel=1e-9) and end["min_combination"] == "all (imposed on span 1)"
     assert document["envelope"]["deflection"] is None  # no section: no deflections
     text = run("forces", path, "--envelope", "--at", "2 m", "--plot", tmp_path / "envelope.png")
     assert text.exit_code == 0, text.stderr
-    assert "Envelope of 3 combinations" in text.stdout and "largest in all (imposed on span 1)" in text.stdout
+    assert "Envelope of 4 combinations" in text.stdout and "largest in all (imposed on span 1)" in text.stdout
     assert "Internal actions at cuts: largest and smallest" in text.stdout and "Cautions" in text.stdout
     assert (tmp_path / "envelope.png").read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
 
@@ -126,9 +126,9 @@ def test_displacements_and_twist_at_cuts_with_their_directions(tmp_path: Path, r
 
 
 def test_many_arrangements_in_check_and_the_record(tmp_path: Path, round_bar: Path) -> None:
-    """Two patterned cases over three spans: (2^3 - 1)^2 = 49 arrangements of one combination. The
-    check's terminal gives each support's reactions at their largest and smallest rather than 49
-    blocks, and the record draws their envelope rather than 49 curves; the verdict names the
+    """Two patterned cases over three spans: 2^3 x 2^3 = 64 arrangements of one combination. The
+    check's terminal gives each support's reactions at their largest and smallest rather than 64
+    blocks, and the record draws their envelope rather than 64 curves; the verdict names the
     governing arrangement."""
     extra = ('[[loads]]\ntype = "line"\ncase = "snow"\nwy = "-300 N/m"\npattern = true\n'
              '[combinations]\n"imposed + snow" = { imposed = 1.0, snow = 1.0 }\n')
@@ -136,11 +136,11 @@ def test_many_arrangements_in_check_and_the_record(tmp_path: Path, round_bar: Pa
     path.write_text(continuous_beam([1.0, 1.0, 1.0], 400.0, extra=extra, section="RD 40"), encoding="utf-8")
     result = run("check", path, "--catalogue", round_bar)
     assert result.exit_code in (0, 1), result.stderr
-    assert "Reactions: largest and smallest over 49 combinations" in result.stdout
+    assert "Reactions: largest and smallest over 64 combinations" in result.stdout
     assert "imposed + snow (imposed on spans" in result.stdout and "; snow on span" in result.stdout
     record = tmp_path / "many.html"
     result = run("report", path, "--catalogue", round_bar, "-o", record)
     assert result.exit_code in (0, 1), result.stderr
     html = record.read_text(encoding="utf-8")
-    assert "The envelope of all 49 combinations" in html and "Every combination: the internal actions" not in html
-    assert "at their largest and smallest over the 49 combinations" in html and "arrangements checked" in html
+    assert "The envelope of all 64 combinations" in html and "Every combination: the internal actions" not in html
+    assert "at their largest and smallest over the 64 combinations" in html and "arrangements checked" in html

@@ -109,11 +109,9 @@ def span_peak(length: float, w: float, left: float, right: float) -> float:
 
 def three_moment_envelope(lengths: list[float], w: float) -> tuple[float, float]:
     """(largest, smallest) moment anywhere over every arrangement of w on the spans (at least one
-    span loaded), by the theorem of three moments."""
-    high, low = -np.inf, np.inf
+    span loaded, or none: zero everywhere), by the theorem of three moments."""
+    high, low = 0.0, 0.0
     for loaded in itertools.product([0.0, w], repeat=len(lengths)):
-        if not any(loaded):
-            continue
         M = support_moments(lengths, list(loaded))
         high = max(high, max(span_peak(L, q, M[i], M[i + 1]) for i, (L, q) in enumerate(zip(lengths, loaded))))
         low = min(low, float(M.min()))
@@ -130,7 +128,7 @@ def test_two_equal_spans_under_patterned_load(tmp_path: Path) -> None:
     L, w = 5.0, 8000.0
     document = forces_json(write(tmp_path, continuous_beam([L, L], w)), "--envelope")
     names = [entry["combination"] for entry in document["combinations"]]
-    assert names == ["all (imposed on spans 1 and 2)", "all (imposed on span 1)", "all (imposed on span 2)"]
+    assert names == ["all (imposed on spans 1 and 2)", "all (imposed on span 1)", "all (imposed on span 2)", "all (imposed on no span)"]
     envelope = document["envelope"]["actions"]["M"]
     assert envelope["min"] / (w * L**2) == pytest.approx(-0.125, abs=TABLE)
     assert envelope["min_combination"] == "all (imposed on spans 1 and 2)" and envelope["min_at"] == pytest.approx(L)
@@ -149,7 +147,7 @@ def test_three_equal_spans_under_patterned_load(tmp_path: Path) -> None:
     end spans 0.080 and the middle span 0.025 wL^2 (coefficient table)."""
     L, w = 4.0, 6000.0
     document = forces_json(write(tmp_path, continuous_beam([L, L, L], w)), "--envelope", "--at", f"{1.5 * L} m")
-    assert len(document["combinations"]) == 7  # 2^3 - 1 arrangements: a case with nothing else is never left out whole
+    assert len(document["combinations"]) == 8  # 2^3 arrangements: the case absent everywhere is one of them
     envelope = document["envelope"]["actions"]["M"]
     assert envelope["max"] / (w * L**2) == pytest.approx(0.101, abs=TABLE)
     assert envelope["max_combination"] == "all (imposed on spans 1 and 3)"
@@ -274,11 +272,11 @@ def test_two_patterned_cases_give_every_pair_and_unpatterned_combinations_keep_t
              '"dead only" = { dead = 1.0 }\n"dead + snow, no imposed" = { dead = 1.0, snow = 1.5, imposed = 0.0 }\n')
     names = arrangement_names(continuous_beam([4.0, 4.0], 1000.0, extra=extra))
     paired = [name for name in names if name.startswith("dead + imposed + snow")]
-    assert len(paired) == 3 * 3
+    assert len(paired) == 4 * 4  # each case on both spans, one of them, or none
     assert paired[0] == "dead + imposed + snow (imposed on spans 1 and 2; snow on spans 1 and 2)"
     assert "dead only" in names  # uses no patterned case
     assert [name for name in names if name.startswith("dead + snow")] == [
-        f"dead + snow, no imposed (snow on {words})" for words in ("spans 1 and 2", "span 1", "span 2")]  # a zero factor: not used
+        f"dead + snow, no imposed (snow on {words})" for words in ("spans 1 and 2", "span 1", "span 2", "no span")]  # a zero factor: not used
 
 
 def test_an_overhang_is_a_span_and_a_load_on_a_support_belongs_to_the_span_on_its_right() -> None:
@@ -291,19 +289,19 @@ def test_an_overhang_is_a_span_and_a_load_on_a_support_belongs_to_the_span_on_it
             '[combinations]\n"crowd" = { crowd = 1.0 }\n"imposed" = { imposed = 1.0 }\n')
     member = api.as_member(api.member_from_text(text, "overhangs.toml"))
     assert member.patterning.spans == ((0.0, 1.0), (1.0, 5.0), (5.0, 7.0))
-    assert sum(1 for name in member.combinations if member.origin(name) == "imposed") == 7
+    assert sum(1 for name in member.combinations if member.origin(name) == "imposed") == 8
     assert [load.case for load in member.loads if isinstance(load, PointLoad)] == [f"crowd{PART_MARK}3"]
-    assert "crowd" in member.combinations  # one arrangement only: the name is kept
+    assert list(member.combinations)[:2] == ["crowd (crowd on span 3)", "crowd (crowd on no span)"]
 
 
 def test_too_many_arrangements_is_bad_input(tmp_path: Path) -> None:
-    """13 spans patterned give 2^13 - 1 = 8191 arrangements, more than the stated cap."""
-    assert 2**13 - 1 > MAX_ARRANGEMENTS
+    """13 spans patterned give 2^13 = 8192 arrangements, more than the stated cap."""
+    assert 2**13 > MAX_ARRANGEMENTS
     path = write(tmp_path, continuous_beam([1.0] * 13, 1000.0))
     result = run("forces", path)
     assert result.exit_code == 2
     [line] = result.stderr.strip().splitlines()
-    assert "8191" in line and str(MAX_ARRANGEMENTS) in line and "fix:" in line and "Traceback" not in result.output
+    assert "8192" in line and str(MAX_ARRANGEMENTS) in line and "fix:" in line and "Traceback" not in result.output
 
 
 def test_a_case_name_kept_for_pattern_parts_is_bad_input(tmp_path: Path) -> None:
@@ -320,7 +318,7 @@ def test_pattern_must_be_true_or_false(tmp_path: Path) -> None:
 
 def test_combination_option_takes_every_arrangement_of_a_given_combination(tmp_path: Path) -> None:
     document = forces_json(write(tmp_path, continuous_beam([3.0, 3.0], 1000.0)), "--combination", DEFAULT_COMBINATION)
-    assert len(document["combinations"]) == 3
+    assert len(document["combinations"]) == 4
     assert any("Pattern loading" in note for note in document["assumptions"])
 
 
@@ -367,7 +365,7 @@ def test_check_fails_a_section_that_only_the_patterns_overload(tmp_path: Path, b
     assert code == 1 and document["passes"] is False
     assert bending["utilization"] == pytest.approx(bending_utilization("B 30x60", 7 / 60), rel=0.01)  # mesh within 1 %
     assert bending["combination"] in ("all (imposed on spans 1 and 2)", "all (imposed on spans 2 and 3)")
-    assert len(document["reactions"]) == 7
+    assert len(document["reactions"]) == 8
     code, document = results["plain"]
     assert code == 0 and next(e for e in document["checks"] if e["check"] == "bending")["utilization"] == pytest.approx(
         bending_utilization("B 30x60", 0.100), rel=0.01)
@@ -400,3 +398,37 @@ def test_size_agrees_with_check_over_every_arrangement(tmp_path: Path, bars: Pat
             reference = next(c for c in checked[entry["section"]]["checks"] if c["check"] == entry["governing"])
             assert checked[entry["section"]]["passes"] is False and entry["utilization"] <= reference["utilization"] * (1 + SAME)
     assert not checked["B 30x60"]["passes"]  # failed by an arrangement (test above)
+
+
+# ----------------------------------------------------------------------------------------------
+# the case absent everywhere is an arrangement too
+
+OVERHANG = ('[member]\nlength = "8 m"\nmaterial = "steel"\nself_weight = false\n{section}'
+            '[[supports]]\nat = "0 m"\ntype = "pin"\n[[supports]]\nat = "6 m"\ntype = "roller"\n'
+            '[[loads]]\ntype = "line"\ncase = "dead"\nto = "6 m"\nwy = "-10 kN/m"\n'
+            '[[loads]]\ntype = "line"\ncase = "imposed"\nfrom = "6 m"\nwy = "-20 kN/m"\npattern = true\n'
+            '[[restraints]]\nfrom = "0 m"\nto = "8 m"\nhold = ["lateral", "twist"]\n'
+            '[combinations]\n"dead + imposed" = { dead = 1.0, imposed = 1.0 }\n')
+
+
+def test_a_patterned_load_only_on_an_overhang_is_also_checked_absent(tmp_path: Path, bars: Path) -> None:
+    """A 6 m span with 10 kN/m dead load and a 2 m overhang whose 20 kN/m imposed load is all
+    patterned: the span sags most with the overhang unloaded, w L^2 / 8 = 45 kN m (simply supported
+    beam under uniform load, from memory); loaded, the overhang's hogging -20 x 2^2 / 2 = -40 kN m
+    (cantilever, from memory) lifts it to R^2 / (2 w) = 27.2 kN m with R = 30 - 40/6 kN. The
+    unloaded arrangement is checked, and names the governing sagging."""
+    document = forces_json(write(tmp_path, OVERHANG.replace("{section}", "")), "--envelope")
+    assert [entry["combination"] for entry in document["combinations"]] == [
+        "dead + imposed (imposed on span 2)", "dead + imposed (imposed on no span)"]
+    sagging = document["envelope"]["actions"]["M"]
+    assert sagging["max"] == pytest.approx(10e3 * 6.0**2 / 8, rel=1e-9)
+    assert sagging["max_combination"] == "dead + imposed (imposed on no span)" and sagging["max_at"] == pytest.approx(3.0)
+    assert sagging["min"] == pytest.approx(-20e3 * 2.0**2 / 2, rel=1e-9)
+    loaded = extreme(document["combinations"][0], "M")["max"]
+    assert loaded == pytest.approx((30e3 - 40e3 / 6) ** 2 / (2 * 10e3), rel=1e-9)
+    result = run("check", write(tmp_path, OVERHANG.replace("{section}", 'section = "B 40x60"\n'), "checked.toml"), "--catalogue", bars, "--json")
+    assert result.exit_code == 1, result.stdout + result.stderr
+    bending = next(entry for entry in json.loads(result.stdout)["checks"] if entry["check"] == "bending")
+    b, d = (v * 1e-3 for v in BARS["B 40x60"])
+    assert bending["utilization"] == pytest.approx(45e3 / (b * d**2 / 6) / 165e6, rel=0.01)  # mesh within 1 %
+    assert bending["combination"] == "dead + imposed (imposed on no span)" and bending["at"] == pytest.approx(3.0, abs=0.05)

@@ -13,9 +13,9 @@ solves, however many arrangements there are.
 
 Arrangements: a combination that uses a case with patterned loads (a factor other than zero)
 becomes one combination per arrangement of that case: each subset of the spans its patterned loads
-reach, all loaded first, then fewer and fewer. The empty arrangement is left out when the case has
-nothing else (no unpatterned load, and it is not the self-weight case, which is never patterned).
-The patterned loads of one case switch together; a case's unpatterned loads stay in every
+reach, all loaded first, then fewer and fewer, and last the empty one: the case absent everywhere
+is an arrangement too (a load on an overhang relieves the back span; without it the back span sags
+most). The patterned loads of one case switch together; a case's unpatterned loads stay in every
 arrangement. Two patterned cases in one combination: every pair of arrangements (2^n x 2^m), and
 so on. Each arrangement keeps the combination's factors and is named by it in words:
 "dead + imposed (imposed on spans 1 and 3)". A combination that uses no patterned case keeps its
@@ -117,10 +117,10 @@ def span_words(numbers: Sequence[int]) -> str:
     return "spans " + ", ".join(map(str, numbers[:-1])) + f" and {numbers[-1]}"
 
 
-def case_arrangements(reached: Sequence[int], keep_empty: bool) -> list[tuple[int, ...]]:
+def case_arrangements(reached: Sequence[int]) -> list[tuple[int, ...]]:
     """The loaded spans of each arrangement of a case whose patterned loads reach `reached` spans:
-    all of them first, then every smaller subset (in order), the empty one last when kept."""
-    sizes = range(len(reached), -1 if keep_empty else 0, -1)
+    all of them first, then every smaller subset (in order), the empty one last."""
+    sizes = range(len(reached), -1, -1)
     return [subset for size in sizes for subset in subsets_of_size(reached, size)]
 
 
@@ -142,9 +142,7 @@ def expand_patterns(member: Member) -> Member:
             loads.append(replace(part, case=f"{load.case}{PART_MARK}{number}"))
             reached.setdefault(load.case, set()).add(number)
     _refuse_taken_case_names(member, loads)
-    alone = {case for case in reached if case != member.self_weight_case and not any(
-        load.case == case for load in member.loads if not load.pattern)}
-    choices = {case: case_arrangements(sorted(numbers), case not in alone) for case, numbers in reached.items()}
+    choices = {case: case_arrangements(sorted(numbers)) for case, numbers in reached.items()}
     combinations: dict[str, dict[str, float]] = {}
     origins: dict[str, str] = {}
     for name, factors in member.combinations.items():
