@@ -66,6 +66,7 @@ from sizer.analysis.stations import (
     load_sign_change_positions,
     stations,
     zero_shear_points,
+    segment_ends,
     zero_shear_positions,
 )
 
@@ -98,5 +99,6 @@ __all__ = [
     "solve_member",
     "stations",
     "zero_shear_points",
+    "segment_ends",
     "zero_shear_positions",
 ]

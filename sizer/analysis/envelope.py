@@ -19,7 +19,7 @@ import numpy as np
 from numpy.typing import ArrayLike
 
 from sizer.analysis.member_solution import MemberSolution
-from sizer.analysis.stations import EXTREME_ACTIONS, load_sign_change_positions, stations, zero_shear_positions
+from sizer.analysis.stations import EXTREME_ACTIONS, load_sign_change_positions, segment_ends, stations, zero_shear_positions
 
 CHUNK = 64  # combinations evaluated together (memory: CHUNK x stations x 6 values)
 
@@ -138,11 +138,12 @@ class LargestDeflection:
 
 
 def largest_deflection(solution: MemberSolution, combinations: Sequence[str], n: int = 801) -> LargestDeflection | None:
-    """The largest transverse deflection over `combinations` at n even points and the supports;
+    """The largest transverse deflection over `combinations` at n even points, the supports, hinges
+    and load positions;
     None without the member's stiffness (a section)."""
     if not solution.has_displacements:
         return None
-    xs = np.unique(np.concatenate([np.linspace(0.0, solution.member.length, n), [s.at for s in solution.member.supports]]))
+    xs = np.unique(np.concatenate([np.linspace(0.0, solution.member.length, n), segment_ends(solution.member)]))
     best: LargestDeflection | None = None
     for start in range(0, len(combinations), CHUNK):
         names = list(combinations[start:start + CHUNK])

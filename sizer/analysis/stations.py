@@ -70,11 +70,17 @@ def _quadratic_roots(v0: np.ndarray, vm: np.ndarray, v1: np.ndarray) -> list[np.
     return [seg[inside], t[inside]]
 
 
-def _segments(member: Member) -> tuple[np.ndarray, np.ndarray]:
-    """Starts and ends (m) of the segments between concentrated items (supports, hinges, point loads,
-    line-load ends) and the member's ends."""
+def segment_ends(member: Member) -> np.ndarray:
+    """Sorted ends (m) of the segments between concentrated items (supports, hinges, point loads,
+    line-load ends) and the member's ends: within each segment every action and displacement is one
+    polynomial in x (for linearly varying line loads)."""
     ends = distinct(np.concatenate([[0.0, member.length], _concentrated_positions(member)]))
-    ends = merge_positions(ends, position_tolerance(member))
+    return merge_positions(ends, position_tolerance(member))
+
+
+def _segments(member: Member) -> tuple[np.ndarray, np.ndarray]:
+    """Starts and ends (m) of the segments of segment_ends."""
+    ends = segment_ends(member)
     return ends[:-1], ends[1:]
 
 

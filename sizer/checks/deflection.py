@@ -19,13 +19,17 @@ from typing import Iterable
 
 import numpy as np
 
-from sizer.analysis import MemberSolution
+from sizer.analysis import MemberSolution, segment_ends
 from sizer.analysis.patterns import Span, arrangements_of, spans
 from sizer.checks.results import CheckResult
 from sizer.design import Design
 from sizer.model import CheckSettings, DeflectionLimit, Member
 
 SMALL_DEFLECTION_FRACTION = 1 / 50  # deflection / span beyond which small-deflection theory is not trusted
+PIECE_POINTS = 13  # per piece between concentrated items: the squared deflection there has degree <= 10
+PEAK_GRID = 65  # grid on each piece where its largest value is first looked for
+NEWTON_STEPS = 6  # polishing steps from the grid's best point
+DEFLECTION_CHUNK = 512  # combinations at a time (bounds the memory of many pattern arrangements)
 
 __all__ = ["SMALL_DEFLECTION_FRACTION", "Span", "deflection_check", "deflection_limits", "deflection_notes", "large_deflection",
            "limit_entries", "limited_spans", "relative_to_supports", "solution_span_deflections", "span_deflections", "span_points", "spans"]
@@ -111,17 +115,72 @@ def span_deflections(design: Design, span_list: list[Span], combinations: Iterab
 
 def solution_span_deflections(solution: MemberSolution, span_list: list[Span], combinations: Iterable[str],
                               n: int = 201, relative: bool = True) -> list[tuple[float, float, str]]:
-    """span_deflections of a solved member (with displacements)."""
+    """span_deflections of a solved member (with displacements): the exact largest of each span
+    (see span_peak); `n` is kept for callers and not used."""
     names = list(combinations)
-    points = [span_points(span, n) for span in span_list]
-    moved = solution.weighted_displacements(solution.combination_weights(names), np.concatenate(points))[..., 1:3]  # (c, spans x (n + 1), 2): uy, uz
-    found = []
-    for span, xs, part in zip(span_list, points, np.split(moved, len(span_list), axis=1)):
-        deflection = measured(part, span, relative)
-        size = np.hypot(deflection[..., 0], deflection[..., 1])
-        c, k = np.unravel_index(int(np.argmax(size)), size.shape)
-        found.append((float(size[c, k]), float(xs[k]), names[c]))
-    return found
+    found = [(-1.0, 0.0, 0)] * len(span_list)
+    for start in range(0, len(names), DEFLECTION_CHUNK):
+        rows = solution.combination_weights(names[start:start + DEFLECTION_CHUNK])
+        for index, span in enumerate(span_list):
+            value, at, row = span_peak(solution, span, rows, relative)
+            if value > found[index][0]:
+                found[index] = (value, at, start + row)
+    return [(value, at, names[row]) for value, at, row in found]
+
+
+def span_peak(solution: MemberSolution, span: Span, weights: np.ndarray, relative: bool) -> tuple[float, float, int]:
+    """(largest deflection (m), x (m), row of `weights`) over one span, found exactly: between
+    neighbouring concentrated items (supports, hinges, point loads, line-load ends) the squared
+    deflection is one polynomial of degree at most 10 in x (Euler-Bernoulli, linearly varying loads:
+    each displacement of degree 5, less a straight chord), so its values at PIECE_POINTS Chebyshev
+    points give it exactly; its maximum on each piece is searched on a fine grid and polished by
+    Newton steps on the polynomial, and the ends of each piece (a hinge's kink) are candidates."""
+    from numpy.polynomial import chebyshev
+
+    ends = segment_ends(solution.member)
+    inside = ends[(ends > span.start) & (ends < span.end)]
+    edges = np.concatenate([[span.start], inside, [span.end]])
+    lo, hi = edges[:-1], edges[1:]
+    t = -np.cos(np.pi * np.arange(PIECE_POINTS) / (PIECE_POINTS - 1))  # Chebyshev points on [-1, 1], ends included
+    xs = (lo[:, None] + (t[None, :] + 1) / 2 * (hi - lo)[:, None]).ravel()
+    reference = [span.base] if span.overhang else [span.start, span.end]
+    moved = solution.weighted_displacements(weights, np.concatenate([xs, reference]))[..., 1:3]  # (C, points + refs, 2)
+    body = moved[:, :xs.size]
+    if relative and span.overhang:
+        body = body - moved[:, -1:]
+    elif relative:
+        along = ((xs - span.start) / span.length)[None, :, None]
+        body = body - ((1 - along) * moved[:, -2:-1] + along * moved[:, -1:])
+    squared = (body**2).sum(axis=2).reshape(len(weights), lo.size, PIECE_POINTS)  # (C, pieces, points)
+    coef = chebyshev.chebfit(t, squared.reshape(-1, PIECE_POINTS).T, PIECE_POINTS - 1)  # (points, C x pieces)
+    value, where = _polynomial_peaks(coef)
+    best = int(np.argmax(value))
+    row, piece = divmod(best, lo.size)
+    at = lo[piece] + (where[best] + 1) / 2 * (hi[piece] - lo[piece])
+    return float(np.sqrt(max(value[best], 0.0))), float(at), row
+
+
+def _polynomial_peaks(coef: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """(largest value, t) on [-1, 1] of each Chebyshev series coef[:, k]: the best of a fine grid,
+    then Newton steps on the derivative kept only where they improve the value."""
+    from numpy.polynomial import chebyshev
+
+    grid = np.linspace(-1.0, 1.0, PEAK_GRID)
+    values = chebyshev.chebval(grid, coef)  # (K, grid)
+    pick = values.argmax(axis=1)
+    best, where = values[np.arange(len(pick)), pick], grid[pick]
+    first, second = chebyshev.chebder(coef), chebyshev.chebder(coef, 2)
+    step = 2.0 / (PEAK_GRID - 1)
+    low, high = np.maximum(where - step, -1.0), np.minimum(where + step, 1.0)
+    t = where.copy()
+    for _ in range(NEWTON_STEPS):
+        slope, curvature = chebyshev.chebval(t, first, tensor=False), chebyshev.chebval(t, second, tensor=False)
+        moved = np.where(curvature < 0, t - slope / np.where(curvature < 0, curvature, -1.0), t)
+        t = np.clip(moved, low, high)
+        value = chebyshev.chebval(t, coef, tensor=False)
+        better = value > best
+        best, where = np.where(better, value, best), np.where(better, t, where)
+    return best, where
 
 
 def entry_results(design: Design, entry: DeflectionLimit, label: str) -> list[CheckResult]:
