@@ -61,6 +61,7 @@ from sizer.analysis.solve import solve_case
 from sizer.analysis.stations import (
     EXTREME_ACTIONS,
     Extreme,
+    extreme_positions,
     extremes,
     load_sign_change_points,
     load_sign_change_positions,
@@ -91,6 +92,7 @@ __all__ = [
     "expand_patterns",
     "spans",
     "distinct",
+    "extreme_positions",
     "extremes",
     "load_sign_change_points",
     "load_sign_change_positions",

@@ -19,7 +19,7 @@ import numpy as np
 from numpy.typing import ArrayLike
 
 from sizer.analysis.member_solution import MemberSolution
-from sizer.analysis.stations import EXTREME_ACTIONS, load_sign_change_positions, segment_ends, stations, zero_shear_positions
+from sizer.analysis.stations import EXTREME_ACTIONS, extreme_positions, segment_ends, stations
 
 CHUNK = 64  # combinations evaluated together (memory: CHUNK x stations x 6 values)
 
@@ -67,11 +67,11 @@ def action_envelope(solution: MemberSolution, combinations: Sequence[str], n_eve
     low = np.full(len(EXTREME_ACTIONS), np.inf)
     high_at, low_at = np.zeros(len(EXTREME_ACTIONS)), np.zeros(len(EXTREME_ACTIONS))
     high_name, low_name = [""] * len(EXTREME_ACTIONS), [""] * len(EXTREME_ACTIONS)
+    extra = extreme_positions(solution, combinations)
+    x = np.concatenate([base_x, extra])
+    side = np.concatenate([base_side, np.full(extra.size, "right")])
     for start in range(0, len(combinations), CHUNK):
         names = list(combinations[start:start + CHUNK])
-        extra = np.concatenate([zero_shear_positions(solution, names), load_sign_change_positions(solution, names)])
-        x = np.concatenate([base_x, extra])
-        side = np.concatenate([base_side, np.full(extra.size, "right")])
         values = with_beam_convention(solution.weighted_actions(solution.combination_weights(names), x, side))  # (c, n, 8)
         flat = values.reshape(-1, values.shape[-1])
         for column in range(flat.shape[1]):

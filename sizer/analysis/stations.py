@@ -173,3 +173,90 @@ def extremes(solution: MemberSolution, combination: str, n_even: int = 400) -> d
         high, low = int(np.argmax(table[:, column])), int(np.argmin(table[:, column]))
         found[name] = Extreme(name, float(table[high, column]), float(x[high]), float(table[low, column]), float(x[low]))
     return found
+
+
+def extreme_positions(solution: MemberSolution, combinations: Sequence[str]) -> np.ndarray:
+    """Sorted distinct x (m) where some action of the combinations can have its largest or smallest
+    value away from the segment ends: for a combination on its own, its zero-shear points and the
+    points where its line load changes sign; for the pattern arrangements of one given combination
+    together, the points of pattern_extreme_positions (as many for n spans as for a few, however
+    many arrangements there are)."""
+    groups: dict[str, list[str]] = {}
+    for name in combinations:
+        groups.setdefault(solution.member.origin(name), []).append(name)
+    alone = [names[0] for names in groups.values() if len(names) == 1]
+    found = [zero_shear_positions(solution, alone), load_sign_change_positions(solution, alone)]
+    found += [pattern_extreme_positions(solution, names) for names in groups.values() if len(names) > 1]
+    return distinct(np.concatenate(found))
+
+
+def switch_weights(solution: MemberSolution, combinations: Sequence[str]) -> tuple[np.ndarray, np.ndarray]:
+    """(base, switches) of the pattern arrangements of one combination: the weights (as
+    MemberSolution.weights) with every patterned part off, and (J, columns) each part's own
+    weights, so that an arrangement is base + the sum of the switches it loads (superposition)."""
+    table = solution.combination_weights(combinations)
+    varying = np.flatnonzero(np.ptp(table, axis=0) > 0)
+    off = np.flatnonzero(np.all(table[:, varying] == 0.0, axis=1))
+    base = table[off[0]] if off.size else np.where(np.isin(np.arange(table.shape[1]), varying), 0.0, table[0])
+    switches = np.zeros((varying.size, table.shape[1]))
+    for k, column in enumerate(varying):
+        values = table[:, column]
+        switches[k, column] = values[np.flatnonzero(values)[0]]
+    return base, switches
+
+
+SAMPLE_T = np.array([0.0, 1.0 / 3.0, 2.0 / 3.0, 1.0])
+CUBIC = np.linalg.inv(np.vander(SAMPLE_T, 4, increasing=True))  # values at SAMPLE_T -> coefficients of 1, t, t^2, t^3
+
+
+def pattern_extreme_positions(solution: MemberSolution, combinations: Sequence[str]) -> np.ndarray:
+    """x (m) where an action's envelope over every arrangement of loaded spans (base + each switch
+    of one sign, see switch_weights) has an extreme inside a segment between concentrated items.
+    Within a segment each switch's contribution to an action is a cubic in x; between the points
+    where any contribution changes sign (kept too) the worst arrangement for each action and sense
+    is one arrangement, and the envelope's extremes there are that arrangement's stationary points.
+    Cost: (switches + 1) load sets at four points a segment, not one per arrangement."""
+    base, switches = switch_weights(solution, combinations)
+    lo, hi = _segments(solution.member)
+    x = (lo[:, None] + SAMPLE_T[None, :] * (hi - lo)[:, None]).ravel()
+    side = np.tile(np.array(["right", "right", "right", "left"]), lo.size)
+    values = solution.weighted_actions(np.vstack([base, switches]), x, side).reshape(1 + len(switches), lo.size, 4, 6)
+    coef = np.einsum("kt,rsta->rsak", CUBIC, values)  # (rows, segments, actions, 4)
+    found = [lo[segment] + t * (hi[segment] - lo[segment]) for segment in range(lo.size) for action in range(6)
+             for t in _envelope_stationary_points(coef[0, segment, action], coef[1:, segment, action])]
+    return distinct(np.array(found, dtype=float))
+
+
+def _envelope_stationary_points(base: np.ndarray, parts: np.ndarray) -> list[float]:
+    """t in (0, 1) where base + the sum of the positive (or of the negative) cubics `parts` (J, 4)
+    has a stationary point, and where any part changes sign; coefficients ascending in t."""
+    breaks = sorted({float(t) for row in parts for t in _unit_roots(row)})
+    edges = [0.0] + breaks + [1.0]
+    found = list(breaks)
+    for a, b in zip(edges[:-1], edges[1:]):
+        if b - a <= 1e-12:
+            continue
+        mid = 0.5 * (a + b)
+        signs = np.polynomial.polynomial.polyval(mid, parts.T) if len(parts) else np.zeros(0)
+        for worst in (signs > 0, signs < 0):
+            total = base + parts[worst].sum(axis=0)
+            slope = total[1:] * np.arange(1, 4)
+            found += [t for t in _unit_roots(slope) if a < t < b]
+    return found
+
+
+def _unit_roots(coef: np.ndarray) -> list[float]:
+    """Real roots in (0, 1) of the polynomial with ascending coefficients `coef`, its negligible
+    leading terms dropped (relative 1e-10 of the largest)."""
+    scale = np.abs(coef).max() if coef.size else 0.0
+    if scale == 0.0:
+        return []
+    kept = coef / scale
+    degree = len(kept) - 1
+    while degree > 0 and abs(kept[degree]) < 1e-10:
+        degree -= 1
+    if degree == 0:
+        return []
+    roots = np.roots(kept[degree::-1])
+    real = roots.real[np.abs(roots.imag) <= 1e-9 * np.maximum(1.0, np.abs(roots))]
+    return [float(t) for t in real if 1e-12 < t < 1 - 1e-12]

@@ -7,17 +7,18 @@ from __future__ import annotations
 
 import numpy as np
 
-from sizer.analysis import distinct, load_sign_change_positions, stations, zero_shear_positions
+from sizer.analysis import extreme_positions, stations
 from sizer.design import Design
 
 
 def check_stations(design: Design, n_even: int = 200) -> tuple[np.ndarray, np.ndarray]:
     """Stations x (m) and sides: supports, loads, hinges (both sides), even spacing, the zero-shear
     points of every combination (local extremes of the bending moments) and the points where a line
-    load changes sign (local extremes of the shear forces, axial force and torque)."""
+    load changes sign (local extremes of the shear forces, axial force and torque); for pattern
+    arrangements, the extremes of their envelope (analysis.stations.extreme_positions)."""
     xs, sides = stations(design.member, n_even)
     names = design.solution.combination_names
-    extra = distinct(np.concatenate([zero_shear_positions(design.solution, names), load_sign_change_positions(design.solution, names)]))
+    extra = extreme_positions(design.solution, names)
     xs = np.concatenate([xs, extra])
     sides = np.concatenate([sides, np.full(extra.shape, "right")])
     order = np.argsort(xs, kind="stable")
