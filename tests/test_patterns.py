@@ -432,3 +432,80 @@ def test_a_patterned_load_only_on_an_overhang_is_also_checked_absent(tmp_path: P
     b, d = (v * 1e-3 for v in BARS["B 40x60"])
     assert bending["utilization"] == pytest.approx(45e3 / (b * d**2 / 6) / 165e6, rel=0.01)  # mesh within 1 %
     assert bending["combination"] == "dead + imposed (imposed on no span)" and bending["at"] == pytest.approx(3.0, abs=0.05)
+
+
+# ----------------------------------------------------------------------------------------------
+# the envelope over arrangements against enumerating every arrangement
+
+@st.composite
+def two_case_members(draw: st.DrawFn) -> Member:
+    """A member on 2 to 6 transverse supports (1 to 5 bays), perhaps overhanging, with dead load and
+    two patterned cases (imposed, snow) of line loads (varying, in and out of plane, with some axial
+    load and torque), point forces and moments; one combination uses both: up to 4^6 arrangements."""
+    bays = draw(st.lists(st.floats(1.0, 4.0), min_size=1, max_size=5))
+    before = draw(st.sampled_from([0.0, 0.7])) if len(bays) < 5 else 0.0
+    held = before + np.concatenate([[0.0], np.cumsum(bays)])
+    length = float(held[-1] + (draw(st.sampled_from([0.0, 0.9])) if before == 0.0 else 0.0))
+    supports = tuple(Support(float(x), frozenset({"uy", "uz", "rx"} | ({"ux"} if i == 0 else set())), label="pin" if i == 0 else "roller")
+                     for i, x in enumerate(held))
+    position = st.floats(0.0, 1.0).map(lambda t: t * length)
+    force = st.floats(-5000, 5000)
+    loads: list = [LineLoad("dead", 0.0, length, (0.0, -800.0, 0.0, 0.0), (0.0, -800.0, 0.0, 0.0))]
+    for case in ("imposed", "snow"):
+        a, b = sorted((draw(position), draw(position)))
+        if b - a < 0.05:
+            a, b = 0.0, length
+        loads.append(LineLoad(case, a, b, (draw(force) / 10, draw(force), draw(force) / 3, draw(force) / 20),
+                              (0.0, draw(force), draw(force) / 3, 0.0), pattern=True))
+        loads.append(PointLoad(case, draw(position), (draw(force), draw(force), draw(force)), (draw(force) / 10, 0.0, draw(force)), pattern=True))
+    combinations = {"dead + imposed + snow": {"dead": 1.2, "imposed": 1.5, "snow": 0.75}}
+    return Member(length, "steel", supports, tuple(loads), combinations, self_weight_case=None, combinations_given=True)
+
+
+def enumerated_extremes(solution, names: list[str]) -> tuple[np.ndarray, np.ndarray]:
+    """(largest, smallest) of N, Vy, Vz, T, My, Mz over every arrangement in `names`, each arrangement
+    on its own: within each segment between concentrated items every action is a cubic in x (linearly
+    varying loads; method of sections, common practice), so its extremes are at the segment's ends
+    (both sides) or where its derivative vanishes."""
+    from sizer.analysis import segment_ends
+
+    ends = segment_ends(solution.member)
+    lo, hi = ends[:-1], ends[1:]
+    t = np.array([0.0, 1 / 3, 2 / 3, 1.0])
+    x = (lo[:, None] + t[None, :] * (hi - lo)[:, None]).ravel()
+    side = np.tile(["right", "right", "right", "left"], lo.size)
+    values = solution.weighted_actions(solution.combination_weights(names), x, side).reshape(len(names), lo.size, 4, 6)
+    coef = np.einsum("kt,astj->asjk", np.linalg.inv(np.vander(t, 4, increasing=True)), values)  # (A, segments, 6, 4): 1, t, t^2, t^3
+    a, b, c = 3 * coef[..., 3], 2 * coef[..., 2], coef[..., 1]  # derivative a t^2 + b t + c
+    root = np.sqrt(np.maximum(b * b - 4 * a * c, 0.0))
+    quadratic = np.abs(a) > 1e-12 * (np.abs(coef).max(axis=-1) + 1e-300)
+    safe = np.where(quadratic, a, 1.0)
+    linear = np.where(np.abs(b) > 0, -c / np.where(np.abs(b) > 0, b, 1.0), 0.0)
+    candidates = [np.zeros_like(a), np.ones_like(a),
+                  np.where(quadratic, (-b + root) / (2 * safe), linear), np.where(quadratic, (-b - root) / (2 * safe), linear)]
+    found = []
+    for tc in candidates:
+        tc = np.clip(np.nan_to_num(tc), 0.0, 1.0)
+        found.append(coef[..., 0] + tc * (coef[..., 1] + tc * (coef[..., 2] + tc * coef[..., 3])))
+    stacked = np.stack(found)  # (4, A, segments, 6)
+    return stacked.max(axis=(0, 1, 2)), stacked.min(axis=(0, 1, 2))
+
+
+@settings(max_examples=12, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(member=two_case_members())
+def test_envelope_over_arrangements_equals_enumeration(member: Member) -> None:
+    """The envelope's largest and smallest of every action (from the stations linear in spans) equal
+    those found by enumerating every arrangement (the empty one included) and each one's extremes."""
+    from sizer.analysis import action_envelope
+
+    solution = solve_member(member, None, None)
+    names = list(solution.member.combinations)
+    parts = {case for load in solution.member.loads if PART_MARK in load.case for case in [load.case]}
+    assert len(names) == 2 ** len(parts)  # every part of each case on or off, independently
+    assert names[-1].endswith("(imposed on no span; snow on no span)")
+    envelope = action_envelope(solution, names)
+    high, low = enumerated_extremes(solution, names)
+    scale = 1e-9 * (np.abs(high).max() + np.abs(low).max() + 1.0)
+    for k, action in enumerate(("N", "Vy", "Vz", "T", "My", "Mz")):
+        assert envelope[action].largest.value == pytest.approx(high[k], abs=scale), action
+        assert envelope[action].smallest.value == pytest.approx(low[k], abs=scale), action
