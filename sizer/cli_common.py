@@ -19,12 +19,16 @@ def unit_system(value: str) -> str:
 
 
 def run_guarded(work: Callable[[], int]) -> None:
-    """Run a command body; bad input, or a file that cannot be read or written -> one line on
-    stderr, exit 2; otherwise exit with its code."""
+    """Run a command body; bad input, a file that cannot be read or written, or a request that runs
+    out of memory -> one line on stderr, exit 2; otherwise exit with its code."""
     try:
         code = work()
     except InputError as error:
         typer.echo(f"sizer: {error}", err=True)
+        raise typer.Exit(2) from None
+    except MemoryError:
+        typer.echo("sizer: the request needs more memory than this machine has (fix: check fewer combinations or pattern "
+                   "arrangements at once, e.g. pattern fewer spans, or use --combination)", err=True)
         raise typer.Exit(2) from None
     except OSError as error:
         where = f"{error.filename}: " if error.filename else ""

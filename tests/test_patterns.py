@@ -304,6 +304,21 @@ def test_too_many_arrangements_is_bad_input(tmp_path: Path) -> None:
     assert "8192" in line and str(MAX_ARRANGEMENTS) in line and "fix:" in line and "Traceback" not in result.output
 
 
+def test_running_out_of_memory_is_one_line_and_exit_2(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
+    """A request that does not fit in memory (simulated: the solve raises MemoryError) ends with one
+    line naming a fix, exit 2, no traceback."""
+    import sizer.analysis.member_solution as member_solution
+
+    def no_memory(*args: object, **kwargs: object) -> None:
+        raise MemoryError
+
+    monkeypatch.setattr(member_solution, "solve_columns", no_memory)
+    result = run("forces", write(tmp_path, continuous_beam([3.0, 3.0], 1000.0)))
+    assert result.exit_code == 2 and "Traceback" not in result.output
+    [line] = result.stderr.strip().splitlines()
+    assert "memory" in line and "fix:" in line
+
+
 def test_a_case_name_kept_for_pattern_parts_is_bad_input(tmp_path: Path) -> None:
     extra = f'[[loads]]\ntype = "point"\ncase = "imposed{PART_MARK}1"\nat = "1 m"\nfy = "-1 kN"\n'
     result = run("forces", write(tmp_path, continuous_beam([3.0, 3.0], 1000.0, extra=extra)))
