@@ -16,8 +16,8 @@ from sizer.checks.lateral import lateral_buckling, lateral_check
 from sizer.checks.local import ASSUMPTIONS as LOCAL_ASSUMPTIONS
 from sizer.checks.local import local_check
 from sizer.checks.reduction import PLATEAU_WORDS, TRANSITION_WORDS
-from sizer.checks.results import CheckReport
-from sizer.checks.stability import StabilityReport, stability_report
+from sizer.checks.results import CheckReport, CheckResult
+from sizer.checks.stability import StabilityReport, stability_mass, stability_report
 from sizer.checks.stations import check_stations, member_actions
 from sizer.checks.web import web_check, web_notes
 from sizer.checks.torsion import check_across, torsion_actions, torsion_note, torsion_summary
@@ -48,17 +48,19 @@ def check_design(design: Design, unit_field: Any, n_even: int = 200, stability: 
     given = given_length_axes(design.member, design.props, design.material)
     columns = column_buckling(design, report, given)
     fb = _bending_allowable(design, report)
-    laterals = lateral_buckling(design, report, fb) if fb is not None else [None] * len(names)
-    fb_allowed = np.array([fb if entry is None else entry.allowable for entry in laterals]) if fb is not None else np.full(len(names), np.inf)
+    interaction, lateral = _lateral_checks(design, report, stress, xs, columns, fb)
+    while stale := report.bounded([interaction.combination, lateral.combination]):  # a bounded arrangement governs: solve it
+        report.solve_exactly(stale, design, stability_mass(design))
+        interaction, lateral = _lateral_checks(design, report, stress, xs, columns, fb)
     checks = [
         axial_check(stress, xs, names, design),
         bending_check(stress, xs, names, design),
-        interaction_check(stress, xs, names, design, compression_allowables(design, columns), fb_allowed),
+        interaction,
         shear_check(stress, xs, names, design),
         equivalent_check(stress, xs, names, design),
         deflection_check(design),
         buckling_check(columns, design),
-        lateral_check(laterals, report, design),
+        lateral,
         local_check(design, with_warping_compression(actions, warping, unit_field, design.props.area), xs, names),
         web_check(design),
     ]
@@ -80,6 +82,17 @@ def with_warping_compression(actions: np.ndarray, warping: np.ndarray, unit_fiel
     moved = actions.copy()
     moved[..., 0] -= extra * area
     return moved
+
+
+def _lateral_checks(design: Design, report: StabilityReport, stress: FieldPeaks, xs: np.ndarray, columns: list,
+                    fb: float | None) -> tuple[CheckResult, CheckResult]:
+    """The interaction and lateral-torsional checks, which use each combination's Fb reduced for
+    lateral-torsional buckling."""
+    names = design.solution.combination_names
+    laterals = lateral_buckling(design, report, fb) if fb is not None else [None] * len(names)
+    fb_allowed = np.array([fb if entry is None else entry.allowable for entry in laterals]) if fb is not None else np.full(len(names), np.inf)
+    return (interaction_check(stress, xs, names, design, compression_allowables(design, columns), fb_allowed),
+            lateral_check(laterals, report, design))
 
 
 def _bending_allowable(design: Design, report: StabilityReport) -> float | None:
@@ -144,6 +157,11 @@ def stability_note(design: Design, report: StabilityReport, given: list[Buckling
     text = (f"Buckling: eigen-solves on the member as it is ({len(model.mesh.nodes) - 1} thin-walled beam elements: "
             f"sideways and in-plane bending, twist and warping), for each combination {' and '.join(solves)}; "
             f"the load factor scales the whole combination{weight}.")
+    bounded = sum(entry.lateral_bound for entry in report.combinations)
+    if bounded:
+        text += (f" Pattern arrangements: lateral-torsional buckling by branch and bound over the loaded spans; {bounded} of "
+                 f"{len(report.combinations)} arrangements were not solved on their own: a proven lower bound of their load "
+                 "factor (all spans' loads together) shows that none of them can govern.")
     if given:
         text += " Euler loads on the given buckling lengths (" + ", ".join(f"{a.axis} {a.length:g} m" for a in given) + ") are kept beside them; the lower governs."
     return text

@@ -15,6 +15,8 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
+import numpy as np
+
 from sizer.checks.reduction import PLATEAU_LATERAL, reduced_allowable, slenderness
 from sizer.checks.results import CheckResult
 from sizer.checks.stability import StabilityReport
@@ -41,21 +43,35 @@ class LateralBuckling:
 
 def lateral_buckling(design: Design, report: StabilityReport, bending_allowable: float) -> list[LateralBuckling | None]:
     """Per combination (None where it has no major-axis bending or the check does not apply)."""
-    props, material, settings = design.props, design.material, design.member.checks
-    per_unit = props.sigma_peak[2]  # largest |stress| per unit Mz (section axes), Pa per N*m
     found: list[LateralBuckling | None] = []
     for entry in report.combinations:
         if entry.lateral is None or math.isinf(entry.lateral.load_factor):  # cannot buckle sideways: Fb stands
             found.append(None)
             continue
-        critical = entry.lateral.load_factor * entry.moment
-        modulus = props.Sz_top if entry.moment_sign > 0 else props.Sz_bottom
-        sigma_cr = critical / modulus
-        allowable = float(reduced_allowable(bending_allowable, sigma_cr, material.yield_strength, settings.buckling_safety_factor,
-                                             PLATEAU_LATERAL))
-        found.append(LateralBuckling(entry.combination, entry.moment, entry.moment_at, entry.lateral.load_factor, critical, sigma_cr,
-                                     allowable, entry.moment * per_unit))
+        found.append(lateral_entry(design, bending_allowable, entry.combination, entry.moment, entry.moment_at, entry.moment_sign,
+                                   entry.lateral.load_factor))
     return found
+
+
+def lateral_entry(design: Design, bending_allowable: float, combination: str, moment: float, at: float, sign: float,
+                  load_factor: float) -> LateralBuckling:
+    """One combination's LateralBuckling from its peak |Mz| (N*m) at `at` (m), the sign of Mz there
+    and its load factor."""
+    critical, sigma_cr, allowable = lateral_allowables(design, bending_allowable, np.array([moment]), np.array([sign]), load_factor)
+    return LateralBuckling(combination, moment, at, load_factor, float(critical[0]), float(sigma_cr[0]), float(allowable[0]),
+                           moment * design.props.sigma_peak[2])
+
+
+def lateral_allowables(design: Design, bending_allowable: float, moment: np.ndarray, sign: np.ndarray,
+                       load_factor: float) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """(critical moment N*m, sigma_cr Pa, Fb_LT Pa) of combinations with peak |Mz| `moment` (N*m),
+    the sign of Mz there and one load factor: Fb_LT never rises as the load factor falls (the
+    reduction factor never rises with slenderness, sizer.checks.reduction)."""
+    props, material, settings = design.props, design.material, design.member.checks
+    critical = load_factor * moment
+    sigma_cr = critical / np.where(sign > 0, props.Sz_top, props.Sz_bottom)
+    return critical, sigma_cr, reduced_allowable(bending_allowable, sigma_cr, material.yield_strength, settings.buckling_safety_factor,
+                                                 PLATEAU_LATERAL)
 
 
 def lateral_check(entries: list[LateralBuckling | None], report: StabilityReport, design: Design) -> CheckResult:

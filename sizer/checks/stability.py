@@ -10,7 +10,9 @@ bending with the loads' heights. A load factor scales the whole combination (sel
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+import math
+from dataclasses import dataclass, field, replace
+from typing import Any, Iterable
 
 import numpy as np
 
@@ -38,6 +40,7 @@ class CombinationStability:
     moment_sign: float  # sign of Mz there (+1 sagging: top fibre in compression)
     axial: Buckling | None  # None: no compression
     lateral: Buckling | None  # None: no major-axis bending, or the member cannot buckle sideways
+    lateral_bound: bool = False  # True: `lateral` is a proven lower bound of the load factor, not solved (pattern arrangements)
 
 
 @dataclass
@@ -49,6 +52,19 @@ class StabilityReport:
     section: StabilitySection
     lateral_reason: str
     combinations: list[CombinationStability] = field(default_factory=list)
+    solver: Any = None  # the section's solves (SectionStability), for solving bounded entries exactly
+
+    def bounded(self, names: Iterable[str]) -> list[int]:
+        """Indices of the named combinations whose lateral load factor is a bound, not solved."""
+        wanted = set(names)
+        return [c for c, entry in enumerate(self.combinations) if entry.combination in wanted and entry.lateral_bound]
+
+    def solve_exactly(self, combinations: Iterable[int], design: Design, mass: float) -> None:
+        """Replace the bounded lateral load factors of these combinations with their exact ones."""
+        for c in combinations:
+            entry = self.combinations[c]
+            found = _checked(self.solver.combination("lateral", c, mass), self.model, design, entry.combination)
+            self.combinations[c] = replace(entry, lateral=found, lateral_bound=False)
 
 
 def lateral_not_applicable(design: Design, section: StabilitySection, moments: np.ndarray) -> str:
@@ -72,8 +88,10 @@ def stability_report(design: Design, actions: np.ndarray, xs: np.ndarray, model:
     section = stability_section(design.props, design.material.elastic_modulus, design.material.shear_modulus)
     reason = lateral_not_applicable(design, section, actions[..., MZ])
     report = StabilityReport(model, section, reason)
-    mass = (design.mass_per_length or 0.0) if design.member.self_weight_case else 0.0
+    mass = stability_mass(design)
     solver = model.for_section(section)
+    report.solver = solver
+    patterned = {} if reason else pattern_laterals(design, actions, xs, solver, mass)
     for c, name in enumerate(design.solution.combination_names):
         compression = np.maximum(-actions[c, :, N], 0.0)
         moments = np.abs(actions[c, :, MZ])
@@ -81,12 +99,55 @@ def stability_report(design: Design, actions: np.ndarray, xs: np.ndarray, model:
         axial = lateral = None
         if compression[at_n] > ZERO_ACTION:
             axial = _checked(solver.combination("axial", c, mass), model, design, name)
+        bound = False
         if not reason and moments[at_m] > ZERO_ACTION:
-            lateral = _checked(solver.combination("lateral", c, mass), model, design, name)
+            lateral, exact = patterned.get(c, (None, True))
+            bound = not exact
+            if exact:
+                lateral = _checked(lateral or solver.combination("lateral", c, mass), model, design, name)
         report.combinations.append(CombinationStability(
             name, float(compression[at_n]), float(xs[at_n]), float(moments[at_m]), float(xs[at_m]),
-            float(np.sign(actions[c, at_m, MZ]) or 1.0), axial, lateral))
+            float(np.sign(actions[c, at_m, MZ]) or 1.0), axial, lateral, bound))
     return report
+
+
+def stability_mass(design: Design) -> float:
+    """The self-weight (kg/m) the stability solves count: the section's, where the member has a self-weight case."""
+    return (design.mass_per_length or 0.0) if design.member.self_weight_case else 0.0
+
+
+def pattern_laterals(design: Design, actions: np.ndarray, xs: np.ndarray, solver: Any, mass: float) -> dict[int, tuple[Buckling, bool]]:
+    """combination -> (lateral Buckling, exact?) for the pattern arrangements of each combination,
+    by branch and bound (sizer.checks.arrangement_stability): exact where it could give the largest
+    lateral-torsional utilization, a proven lower bound of the load factor elsewhere. Empty without
+    pattern arrangements or a bending allowable."""
+    from sizer.checks.arrangement_stability import lateral_over_arrangements
+    from sizer.checks.lateral import lateral_allowables
+
+    fb = design.material.allowable.bending
+    names = design.solution.combination_names
+    groups: dict[str, list[int]] = {}
+    for c, name in enumerate(names):
+        groups.setdefault(design.solution.member.origin(name), []).append(c)
+    if fb is None or all(len(rows) == 1 for rows in groups.values()):
+        return {}
+    loads, per_mass = solver.model.rows
+    moments = np.abs(actions[..., MZ])
+    at = moments.argmax(axis=1)
+    peak = moments[np.arange(len(names)), at]
+    sign = np.where(actions[np.arange(len(names)), at, MZ] < 0, -1.0, 1.0)
+    found: dict[int, tuple[Buckling, bool]] = {}
+    for rows in (np.array(rows) for rows in groups.values() if len(rows) > 1):
+        def utilization(picked: np.ndarray, factor: float, rows: np.ndarray = rows) -> np.ndarray:
+            """The lateral-torsional utilization (sizer.checks.lateral) of arrangements `picked` at this load factor."""
+            c = rows[picked]
+            if not math.isfinite(factor):
+                return np.zeros(len(c))
+            return peak[c] * design.props.sigma_peak[2] / lateral_allowables(design, fb, peak[c], sign[c], factor)[2]
+
+        solved = lateral_over_arrangements(solver, loads[rows] + mass * per_mass[rows], peak[rows] > ZERO_ACTION, utilization)
+        found.update({int(rows[row]): value for row, value in (solved or {}).items()})
+    return found
 
 
 def _checked(buckling: Buckling, model: MemberStability, design: Design, combination: str) -> Buckling:

@@ -198,6 +198,17 @@ class SectionStability:
             self._solved[kind].add(shape, found)
         return Buckling(found.load_factor / scale, found.mode, found.free_movement)
 
+    def load_matrix(self, kind: str, weights: np.ndarray) -> np.ndarray:
+        """B of a load set (weights as a row of MemberSolution.weights, self-weight included) for this
+        section, projected as Reduced.project: the sum of its live columns' matrices."""
+        live = self.model.live_columns(kind)
+        size = self.reduced.k.shape[0]
+        total = np.zeros((size, size))
+        for column, weight in enumerate(np.asarray(weights, dtype=float)):
+            if weight != 0.0 and column in live:
+                total += abs(weight) * self._column(kind, column, weight > 0)
+        return total
+
     def _column(self, kind: str, column: int, positive: bool) -> np.ndarray:
         """B of one load-case column at weight +1 or -1 for this section, projected (made once)."""
         key = (kind, column, positive)

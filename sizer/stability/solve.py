@@ -88,6 +88,25 @@ class Reduced:
             found.append(Buckling(1.0 / float(value), self._full(reduced)))
         return found or [Buckling(math.inf, None)]
 
+    def standard_forms(self, matrices: list[np.ndarray]) -> list[np.ndarray] | None:
+        """Each B (already projected) in standard form C = L^-1 B L^-T on the freedoms any of them
+        touches (K condensed onto those exactly), so that the largest eigenvalue of a sum of them is
+        1 / the load factor of the summed load set; None when K has free movements."""
+        if self.free is not None:
+            return None
+        size = max((np.abs(b).max(initial=0.0) for b in matrices), default=0.0)
+        if size == 0.0:
+            return [np.zeros((0, 0)) for _ in matrices]
+        active = np.zeros(self.k.shape[0], bool)
+        for b in matrices:
+            active |= np.abs(b).max(axis=1) > ZERO_GEOMETRY * size
+        inverse, _ = self._factor(active)
+        forms = []
+        for b in matrices:
+            c = inverse @ b[np.ix_(active, active)] @ inverse.T
+            forms.append((c + c.T) / 2)
+        return forms
+
     def _factor(self, active: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
         """For the freedoms `active` that B touches: the inverse Cholesky factor of K condensed onto
         them (exact: the others carry no geometric term) and the condensation (others = -coupling @ active)."""

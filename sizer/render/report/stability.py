@@ -79,12 +79,15 @@ def combinations_table(report: CheckReport, system: str) -> str:
         lateral = entry.lateral.load_factor if entry.lateral is not None else None
         p_cr = axial * entry.compression if axial is not None and math.isfinite(axial) else None
         m_cr = lateral * entry.moment if lateral is not None and math.isfinite(lateral) else None
+        at_least = "≥ " if entry.lateral_bound else ""  # a proven lower bound: this arrangement cannot govern
         rows.append(_row([f"<td>{_e(entry.combination)}</td>", _cell(_fmt(entry.compression, "force", system), entry.compression),
                           _cell(_factor(axial), axial), _cell(_fmt(p_cr, "force", system), p_cr),
-                          _cell(_fmt(entry.moment, "moment", system), entry.moment), _cell(_factor(lateral), lateral),
-                          _cell(_fmt(m_cr, "moment", system), m_cr)]))
+                          _cell(_fmt(entry.moment, "moment", system), entry.moment), _cell(at_least + _factor(lateral), lateral),
+                          _cell(at_least + _fmt(m_cr, "moment", system), m_cr)]))
     note = ("<p class=\"note\">— : not solved (no compression, no major-axis bending, or a section that does not buckle "
-            f"sideways{': ' + _e(report.stability.lateral_reason) if report.stability.lateral_reason else ''}).</p>")
+            f"sideways{': ' + _e(report.stability.lateral_reason) if report.stability.lateral_reason else ''}). "
+            "≥ : a pattern arrangement not solved on its own: a proven lower bound of its load factor (from the spans' loads "
+            "together), which shows it cannot govern.</p>")
     return _table(["combination", "peak compression", "load factor (axial)", "P_cr", "peak |M|", "load factor (bending)", "M_cr"],
                   rows, range(1, 7)) + note
 
