@@ -127,8 +127,11 @@ class MemberSolution:
         kept = [(j, solution.field()) for j, solution in enumerate(self.column_solutions()) if solution is not None]
         if not kept:
             return np.zeros((weights.shape[0], xs.size, 6))
-        field = combine_fields([f for _, f in kept], weights[:, [j for j, _ in kept]])
-        return field_displacements(field, xs, right)
+        columns = weights[:, [j for j, _ in kept]]
+        if weights.shape[0] > len(kept):  # many load sets (pattern arrangements): each case once, then their weighted sums
+            each = field_displacements(combine_fields([f for _, f in kept], np.eye(len(kept))), xs, right)
+            return np.tensordot(columns, each, axes=1) + 0.0
+        return field_displacements(combine_fields([f for _, f in kept], columns), xs, right)
 
     def case_actions(self, x: ArrayLike, side: str | ArrayLike = "right") -> np.ndarray:
         """(n_cases + 1, n, 6) actions of each case, the last the unit self weight (zeros if none)."""
