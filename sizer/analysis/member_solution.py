@@ -115,7 +115,11 @@ class MemberSolution:
         in one pass over the stations."""
         xs, right = self._stations(x, side)
         sources = [None if solution is None else solution.sources() for solution in self.column_solutions()]
-        return section_actions(sources, np.atleast_2d(weights), xs, right, position_tolerance(self.member))
+        weights = np.atleast_2d(weights)
+        if weights.shape[0] > len(sources):  # many load sets (pattern arrangements): each case once, then their weighted sums
+            each = section_actions(sources, np.eye(len(sources)), xs, right, position_tolerance(self.member))
+            return np.tensordot(weights, each, axes=1) + 0.0
+        return section_actions(sources, weights, xs, right, position_tolerance(self.member))
 
     def weighted_displacements(self, weights: np.ndarray, x: ArrayLike, side: str | ArrayLike = "right") -> np.ndarray:
         """(C, n, 6) displacements of the load sets weights (C, n_cases + 1) @ [cases..., unit self
