@@ -149,10 +149,28 @@ def _plain_unit(text: str) -> bool:
     return previous not in ("op", "open") and depth == 0
 
 
+_PRESSURES = {"Pa": 1.0, "kPa": 1e3, "MPa": 1e6, "GPa": 1e9, "N/mm^2": 1e6}
+COMMON_FACTORS: dict[str, float] = {  # "unit|kind" -> SI per unit, for the common SI units (no pint registry needed; tests hold them to pint)
+    **{f"{unit}|length": factor for unit, factor in {"m": 1.0, "mm": 1e-3, "cm": 1e-2}.items()},
+    **{f"{unit}|force": factor for unit, factor in {"N": 1.0, "kN": 1e3, "MN": 1e6}.items()},
+    **{f"{unit}|moment": factor for unit, factor in {"N*m": 1.0, "kN*m": 1e3}.items()},
+    **{f"{unit}|force_per_length": factor for unit, factor in {"N/m": 1.0, "kN/m": 1e3, "N/mm": 1e3}.items()},
+    **{f"{unit}|moment_per_length": factor for unit, factor in {"N*m/m": 1.0, "kN*m/m": 1e3}.items()},
+    **{f"{unit}|{kind}": factor for kind in ("stress", "pressure", "modulus") for unit, factor in _PRESSURES.items()},
+    "kg/m^3|density": 1.0,
+    **{f"{unit}|translational_stiffness": factor for unit, factor in {"N/m": 1.0, "kN/m": 1e3, "N/mm": 1e3, "kN/mm": 1e6}.items()},
+    **{f"{unit}|rotational_stiffness": factor for unit, factor in {"N*m/rad": 1.0, "kN*m/rad": 1e3}.items()},
+    "kg/m|mass_per_length": 1.0,
+}
+
+
 def unit_factor(unit: str, kind: str) -> float | None:
     """SI units per one `unit` for `kind`, or None when `unit` is not a plain unit of that kind.
-    Learned from pint once and remembered on disk."""
+    The common SI units from COMMON_FACTORS; others learned from pint once and remembered on disk."""
     global _UNIT_FACTORS
+    common = COMMON_FACTORS.get(f"{unit}|{kind}")
+    if common is not None:
+        return common
     if not _plain_unit(unit):
         return None
     if _UNIT_FACTORS is None:

@@ -61,3 +61,17 @@ def test_display_in_si_and_us():
     assert units.fmt(12345.0, "force") == "12.35 kN"
     assert units.fmt(12e3, "moment", "us") == "8.851 kip·ft"  # 12 kN*m / (4448.2216 N x 0.3048 m)
     assert units.fmt(0.99999999, "length") == "1.000 m"  # rounding carries into the next digit
+
+
+@pytest.mark.parametrize("entry", sorted(units.COMMON_FACTORS))
+def test_the_common_units_agree_with_pint(entry: str) -> None:
+    """The built-in factors of the common SI units (used without building pint's registry) are
+    pint's own (pint, a general-purpose units library, as the reference)."""
+    unit, kind = entry.split("|")
+    assert units.COMMON_FACTORS[entry] == pytest.approx(units._factor_from_pint(unit, kind), rel=1e-12)
+
+
+def test_common_units_need_no_registry(monkeypatch: pytest.MonkeyPatch) -> None:
+    """Reading "2.5 kPa" or "12 kN" builds no pint registry (the first run stays fast)."""
+    monkeypatch.setattr(units, "registry", lambda: pytest.fail("the pint registry was built"))
+    assert units.unit_factor("kPa", "pressure") == 1e3 and units.unit_factor("kN", "force") == 1e3
