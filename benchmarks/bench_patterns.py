@@ -4,13 +4,14 @@
 
 An invented member: a five-span roof purlin (5 x 4 m) with dead load, imposed load as an area load
 on its tributary width and snow, the imposed and snow loads patterned; one combination uses both
-patterned cases, so it is checked in (2^5 - 1)^2 = 961 arrangements. The same member unpatterned
-is the baseline (one combination). Prints, each the median of N runs in a subprocess, warm caches,
-the shipped catalogue:
-  (a)  `sizer check` (section IPE 200), unpatterned and patterned, and their ratio
-  (b)  `sizer size --top 1`, unpatterned and patterned, and their ratio
+patterned cases, so it is checked in 2^5 x 2^5 = 1024 arrangements (each case on any set of spans,
+none included). The same member unpatterned is the baseline (one combination). Prints, each the
+median of N runs in a subprocess, warm caches, the shipped catalogue:
+  (a)  `sizer check` (section IPE 200), unpatterned and patterned: times, their ratio, peak memory
+  (b)  `sizer size --top 1`, unpatterned and patterned: times, their ratio, peak memory
   (c)  `sizer forces --envelope --json`, patterned (no section: forces only)
   (d)  in-process: the solve (n spans cost n solves, not 2^n) and the envelope over all arrangements
+  (e)  the same purlin over 10 spans, two patterned cases: what `sizer check` answers, time, memory
   profile  the top lines of cProfile over the patterned `sizer check` (in-process): where the time goes
 """
 
@@ -19,6 +20,7 @@ from __future__ import annotations
 import argparse
 import cProfile
 import io
+import os
 import pstats
 import statistics
 import subprocess
@@ -35,7 +37,13 @@ VENV_BIN = Path(sys.executable).parent
 SIZER = str(VENV_BIN / "sizer")
 SPANS, BAY = 5, 4.0
 
-SUPPORTS = "\n".join(f'[[supports]]\nat = "{i * BAY:g} m"\ntype = "{"pin" if i == 0 else "roller"}"' for i in range(SPANS + 1))
+
+
+def supports(spans: int) -> str:
+    return "\n".join(f'[[supports]]\nat = "{i * BAY:g} m"\ntype = "{"pin" if i == 0 else "roller"}"' for i in range(spans + 1))
+
+
+SUPPORTS = supports(SPANS)
 MEMBER = f"""title = "Pattern-loading benchmark: five-span roof purlin (invented)"
 
 [member]
@@ -70,16 +78,29 @@ deflection_limit = 200
 """
 
 
-def wall_time(args: list[str], runs: int) -> float:
-    """Median wall time (s) of running `args`, exit codes 0 and 1 both fine."""
-    times = []
-    for _ in range(runs):
+def measured(args: list[str]) -> tuple[float, float, int, str]:
+    """(wall time s, peak resident memory MB, exit code, first line of stderr) of one run of `args`."""
+    with tempfile.TemporaryFile() as errors:
         start = time.perf_counter()
-        done = subprocess.run(args, capture_output=True, text=True)
-        times.append(time.perf_counter() - start)
-        if done.returncode not in (0, 1):
-            raise SystemExit(f"{' '.join(args)} failed:\n{done.stderr}")
-    return statistics.median(times)
+        process = subprocess.Popen(args, stdout=subprocess.DEVNULL, stderr=errors)
+        _, status, usage = os.wait4(process.pid, 0)
+        elapsed = time.perf_counter() - start
+        process.returncode = os.waitstatus_to_exitcode(status)
+        errors.seek(0)
+        first = (errors.read().decode(errors="replace").strip().splitlines() or [""])[0]
+    return elapsed, usage.ru_maxrss / 1024, process.returncode, first
+
+
+def wall_time(args: list[str], runs: int) -> tuple[float, float]:
+    """Median wall time (s) and the largest peak memory (MB) of running `args`, exit codes 0 and 1 both fine."""
+    times, peaks = [], []
+    for _ in range(runs):
+        elapsed, peak, code, first = measured(args)
+        times.append(elapsed)
+        peaks.append(peak)
+        if code not in (0, 1):
+            raise SystemExit(f"{' '.join(args)} failed ({code}): {first}")
+    return statistics.median(times), max(peaks)
 
 
 def in_process(patterned: Path) -> None:
@@ -120,14 +141,20 @@ def main() -> None:
         patterned.write_text(MEMBER, encoding="utf-8")
         plain.write_text(MEMBER.replace("pattern = true\n", ""), encoding="utf-8")
         subprocess.run([SIZER, "check", str(plain)], capture_output=True)  # warm the section and unit caches
-        print(f"five spans, two patterned cases in one combination: {(2 ** SPANS - 1) ** 2} arrangements; median of {options.runs} runs")
+        print(f"five spans, two patterned cases in one combination: {4 ** SPANS} arrangements; median of {options.runs} runs")
         for label, command in (("(a) sizer check", ["check"]), ("(b) sizer size --top 1", ["size", "--top", "1"])):
-            base = wall_time([SIZER, *command, str(plain)], options.runs)
-            slow = wall_time([SIZER, *command, str(patterned)], options.runs)
-            print(f"{label}: unpatterned {base:.2f} s, patterned {slow:.2f} s, ratio {slow / base:.1f}")
-        envelope = wall_time([SIZER, "forces", str(patterned), "--envelope", "--json"], options.runs)
+            base, base_peak = wall_time([SIZER, *command, str(plain)], options.runs)
+            slow, slow_peak = wall_time([SIZER, *command, str(patterned)], options.runs)
+            print(f"{label}: unpatterned {base:.2f} s, patterned {slow:.2f} s, ratio {slow / base:.1f}; "
+                  f"peak memory {base_peak:.0f} MB and {slow_peak:.0f} MB, ratio {slow_peak / base_peak:.1f}")
+        envelope, _ = wall_time([SIZER, "forces", str(patterned), "--envelope", "--json"], options.runs)
         print(f"(c) sizer forces --envelope --json, patterned: {envelope:.2f} s")
         in_process(patterned)
+        ten = Path(folder) / "ten.toml"
+        ten.write_text(MEMBER.replace(SUPPORTS, supports(10)).replace(f'length = "{SPANS * BAY:g} m"', f'length = "{10 * BAY:g} m"'), encoding="utf-8")
+        elapsed, peak, code, first = measured([SIZER, "check", str(ten)])
+        print(f"(e) ten spans, two patterned cases ({4 ** 10} arrangements): sizer check exit {code} in {elapsed:.2f} s, "
+              f"peak memory {peak:.0f} MB" + (f": {first}" if code == 2 else ""))
         if not options.no_profile:
             profile(patterned)
 

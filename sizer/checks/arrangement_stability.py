@@ -11,7 +11,8 @@ with that order, so for the arrangements that agree on the switches already fixe
 one solve bounds them all. The lateral-torsional utilization rises with the moment and falls with
 the load factor, so each set of arrangements has a proven upper bound of their utilization; the set
 with the highest bound is split on a free switch (best first) until a set of one arrangement is
-solved exactly, and the search stops when no open set can beat the best exact utilization. Every
+solved exactly (a set of a few, each of them), and the search stops when no open set can beat the
+best exact utilization. Every
 arrangement not solved keeps its set's lower bound of the load factor (conservative for every check
 that uses it; marked so in the outputs).
 """
@@ -28,6 +29,7 @@ from sizer.stability import Buckling
 from sizer.stability.problem import SectionStability
 
 BOUND_SLACK = 1e-9  # relative: a bound lowered by this much covers the round-off between the two ways of solving
+LEAF_ROWS = 4  # a set of this many arrangements or fewer is solved one by one (where bounds are loose the search costs at most ~1.5 solves an arrangement)
 
 
 def lateral_over_arrangements(solver: SectionStability, loads: np.ndarray, demand: np.ndarray,
@@ -97,11 +99,12 @@ class _Search:
                 for row in rows.tolist():
                     self.exact[row] = (Buckling(math.inf, None), True)
                 continue
-            if rows.size == 1:
-                row = int(rows[0])
-                found = self.solve(row)
-                self.exact[row] = (found, True)
-                best = max(best, float(self.utilization(rows, found.load_factor)[0]) if math.isfinite(found.load_factor) else 0.0)
+            if rows.size <= LEAF_ROWS:  # a few arrangements: solving each costs no more than splitting further
+                for row in rows.tolist():
+                    found = self.solve(row)
+                    self.exact[row] = (found, True)
+                    if math.isfinite(found.load_factor):
+                        best = max(best, float(self.utilization(np.array([row]), found.load_factor)[0]))
                 continue
             j = next(k for k in range(self.bits.shape[1]) if k not in fixed and len(set(self.bits[rows, k].tolist())) > 1)
             for on in (True, False):
