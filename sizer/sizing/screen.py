@@ -215,8 +215,9 @@ def _limited_deflections(entry: DeflectionLimit, base: MemberSolution, n: int) -
         return []
     factors = load_and_weight_factors(base)
     rows = combos + [len(base.combination_names) + c for c in combos]  # these combinations' loads, then their self-weight per kg/m
-    moved = base.weighted_displacements(factors[rows], np.concatenate([span_points(span, n) for span, _ in pairs]))
-    zero, unit = (np.split(part[..., 1:3], len(pairs), axis=1) for part in np.split(moved, 2))  # uy, uz per span
+    each = base.case_displacements(np.concatenate([span_points(span, n) for span, _ in pairs]))[..., 1:3]  # (cases + 1, points, 2): uy, uz
+    moved = np.tensordot(factors[rows], each, axes=1)  # superposition: one evaluation per case, however many arrangements
+    zero, unit = (np.split(part, len(pairs), axis=1) for part in np.split(moved, 2))  # uy, uz per span
     return [tuple(measured(part, span, entry.relative_to_supports).reshape(-1, 2) * (limit / span.length) for part in (loads, per_mass))
             for (span, limit), loads, per_mass in zip(pairs, zero, unit)]
 
