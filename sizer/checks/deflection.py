@@ -161,26 +161,32 @@ def span_peak(solution: MemberSolution, span: Span, weights: np.ndarray, relativ
 
 
 def _polynomial_peaks(coef: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-    """(largest value, t) on [-1, 1] of each Chebyshev series coef[:, k]: the best of a fine grid,
-    then Newton steps on the derivative kept only where they improve the value."""
+    """(largest value, t) on [-1, 1] of each Chebyshev series coef[:, k]: every local maximum of a
+    fine grid (the ends included) polished by Newton steps on the derivative, each step kept only
+    where it improves the value, then the best of them."""
     from numpy.polynomial import chebyshev
 
     grid = np.linspace(-1.0, 1.0, PEAK_GRID)
     values = chebyshev.chebval(grid, coef)  # (K, grid)
-    pick = values.argmax(axis=1)
-    best, where = values[np.arange(len(pick)), pick], grid[pick]
+    padded = np.pad(values, ((0, 0), (1, 1)), constant_values=-np.inf)
+    series, at = np.nonzero((values >= padded[:, :-2]) & (values >= padded[:, 2:]))  # each grid maximum
+    best, where = values[series, at], grid[at]
     first, second = chebyshev.chebder(coef), chebyshev.chebder(coef, 2)
     step = 2.0 / (PEAK_GRID - 1)
     low, high = np.maximum(where - step, -1.0), np.minimum(where + step, 1.0)
     t = where.copy()
     for _ in range(NEWTON_STEPS):
-        slope, curvature = chebyshev.chebval(t, first, tensor=False), chebyshev.chebval(t, second, tensor=False)
-        moved = np.where(curvature < 0, t - slope / np.where(curvature < 0, curvature, -1.0), t)
-        t = np.clip(moved, low, high)
-        value = chebyshev.chebval(t, coef, tensor=False)
+        slope = chebyshev.chebval(t, first[:, series], tensor=False)
+        curvature = chebyshev.chebval(t, second[:, series], tensor=False)
+        t = np.clip(np.where(curvature < 0, t - slope / np.where(curvature < 0, curvature, -1.0), t), low, high)
+        value = chebyshev.chebval(t, coef[:, series], tensor=False)
         better = value > best
         best, where = np.where(better, value, best), np.where(better, t, where)
-    return best, where
+    peak, place = np.full(coef.shape[1], -np.inf), np.zeros(coef.shape[1])
+    order = np.lexsort((best, series))  # by series, its best candidate last
+    last = np.r_[series[order][1:] != series[order][:-1], True]
+    peak[series[order][last]], place[series[order][last]] = best[order][last], where[order][last]
+    return peak, place
 
 
 def entry_results(design: Design, entry: DeflectionLimit, label: str) -> list[CheckResult]:
