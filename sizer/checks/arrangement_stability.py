@@ -56,7 +56,9 @@ def lateral_over_arrangements(solver: SectionStability, loads: np.ndarray, deman
 
 
 class _Search:
-    """The best-first branch and bound of lateral_over_arrangements."""
+    """The best-first branch and bound of lateral_over_arrangements: split on the free switch that adds
+    most to the bound along its buckled shape (the loaded span that drives the mode), which closes the
+    bound in few splits where the mode is local to a span or two."""
 
     def __init__(self, solver: SectionStability, loads: np.ndarray, bits: np.ndarray, demand: np.ndarray,
                  utilization: Callable[[np.ndarray, float], np.ndarray], forms: list[np.ndarray]) -> None:
@@ -65,10 +67,11 @@ class _Search:
         self.positive = [_positive_part(c) for c in self.parts]
         self.exact: dict[int, tuple[Buckling, bool]] = {}
 
-    def bound(self, fixed: dict[int, bool]) -> float:
-        """A lower bound (or math.inf) of the load factor of every arrangement agreeing with `fixed`."""
+    def bound(self, fixed: dict[int, bool]) -> tuple[float, np.ndarray | None]:
+        """A lower bound (or math.inf) of the load factor of every arrangement agreeing with `fixed`,
+        and the shape (in standard form) that gives it."""
         if self.base.size == 0:
-            return math.inf
+            return math.inf, None
         total = self.base.copy()
         for j, (part, positive) in enumerate(zip(self.parts, self.positive)):
             if j in fixed:
@@ -76,23 +79,29 @@ class _Search:
                     total += part
             else:
                 total += positive
-        top = float(np.linalg.eigvalsh(total)[-1])
-        return 1.0 / top * (1 - BOUND_SLACK) if top > 0 else math.inf
+        values, vectors = np.linalg.eigh(total)
+        top = float(values[-1])
+        return (1.0 / top * (1 - BOUND_SLACK), vectors[:, -1]) if top > 0 else (math.inf, None)
 
-    def node(self, fixed: dict[int, bool]) -> tuple[float, dict[int, bool], np.ndarray, float]:
-        """(upper bound of the utilization, fixed switches, rows, load-factor bound) of one set."""
+    def node(self, fixed: dict[int, bool]) -> tuple[float, dict[int, bool], np.ndarray, float, np.ndarray | None]:
+        """(upper bound of the utilization, fixed switches, rows, load-factor bound, its shape) of one set."""
         rows = np.flatnonzero(self.demand & np.all([self.bits[:, j] == on for j, on in fixed.items()] or [np.ones(len(self.bits), bool)], axis=0))
-        factor = self.bound(fixed) if rows.size else math.inf
+        factor, shape = self.bound(fixed) if rows.size else (math.inf, None)
         upper = float(self.utilization(rows, factor).max(initial=-math.inf)) if math.isfinite(factor) else 0.0
-        return upper, fixed, rows, factor
+        return upper, fixed, rows, factor, shape
+
+    def branch(self, fixed: dict[int, bool], rows: np.ndarray, shape: np.ndarray) -> int:
+        """The free switch to split on: of those the set's arrangements differ in, the one whose
+        positive part adds most to the bound along its shape (it tightens the bound most)."""
+        free = [k for k in range(self.bits.shape[1]) if k not in fixed and self.bits[rows, k].any() and not self.bits[rows, k].all()]
+        return max(free, key=lambda k: float(shape @ self.positive[k] @ shape))
 
     def run(self) -> dict[int, tuple[Buckling, bool]]:
         best, counter = -math.inf, 0
         heap: list = []
-        upper, fixed, rows, factor = self.node({})
-        heapq.heappush(heap, (-upper, counter, fixed, rows, factor))
+        heapq.heappush(heap, (-self.node({})[0], counter, *self.node({})[1:]))
         while heap and -heap[0][0] >= best:
-            _, _, fixed, rows, factor = heapq.heappop(heap)
+            _, _, fixed, rows, factor, shape = heapq.heappop(heap)
             if not rows.size:
                 continue
             if math.isinf(factor):  # none of them can buckle sideways: exact
@@ -106,12 +115,12 @@ class _Search:
                     if math.isfinite(found.load_factor):
                         best = max(best, float(self.utilization(np.array([row]), found.load_factor)[0]))
                 continue
-            j = next(k for k in range(self.bits.shape[1]) if k not in fixed and len(set(self.bits[rows, k].tolist())) > 1)
+            j = self.branch(fixed, rows, shape)
             for on in (True, False):
                 counter += 1
-                upper, child, child_rows, child_factor = self.node({**fixed, j: on})
-                heapq.heappush(heap, (-upper, counter, child, child_rows, child_factor))
-        for _, _, _, rows, factor in heap:
+                upper, *rest = self.node({**fixed, j: on})
+                heapq.heappush(heap, (-upper, counter, *rest))
+        for _, _, _, rows, factor, _ in heap:
             for row in rows.tolist():
                 self.exact[row] = (Buckling(factor, None), math.isinf(factor))
         return self.exact

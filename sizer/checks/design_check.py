@@ -161,7 +161,7 @@ def stability_note(design: Design, report: StabilityReport, given: list[Buckling
     if bounded:
         text += (f" Pattern arrangements: lateral-torsional buckling by branch and bound over the loaded spans; {bounded} of "
                  f"{len(report.combinations)} arrangements were not solved on their own: a proven lower bound of their load "
-                 "factor (all spans' loads together) shows that none of them can govern.")
+                 "factor (one eigen-solve for each set of arrangements that agree on the spans fixed so far) shows that none of them can govern.")
     if given:
         text += " Euler loads on the given buckling lengths (" + ", ".join(f"{a.axis} {a.length:g} m" for a in given) + ") are kept beside them; the lower governs."
     return text
