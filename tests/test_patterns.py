@@ -571,3 +571,29 @@ def test_lateral_buckling_over_arrangements_equals_solving_each(bays: list[float
             assert a.lateral.load_factor <= b.lateral.load_factor * (1 + 1e-9)
             bounded += a.lateral_bound
     assert bounded > 0 or len(bays) == 2  # the search left some arrangements unsolved
+
+
+def test_stations_fall_back_to_each_arrangement_where_actions_are_not_cubics(monkeypatch: pytest.MonkeyPatch) -> None:
+    """The envelope's stations assume cubic actions between concentrated items (first-order
+    analysis); where a fifth point says otherwise (simulated with a negative tolerance), every
+    arrangement's own zero-shear and load sign-change points are used, and the envelope still
+    equals the enumeration. On a first-order member the fast way is taken (no arrangement's own
+    zero-shear points are looked for)."""
+    import importlib
+
+    from sizer.analysis import action_envelope
+
+    stations = importlib.import_module("sizer.analysis.stations")  # the module (sizer.analysis also has a function of that name)
+    member = api.member_from_text(continuous_beam([3.0, 4.5, 2.5], 7000.0), "three.toml")
+    solution = solve_member(member, None, None)
+    names = list(solution.member.combinations)
+    high, low = enumerated_extremes(solution, names)
+    with monkeypatch.context() as patch:
+        patch.setattr(stations, "zero_shear_positions", lambda *args, **kwargs: pytest.fail("the fast way was not taken"))
+        fast = stations.pattern_extreme_positions(solution, names)
+    monkeypatch.setattr(stations, "CUBIC_TOLERANCE", -1.0)
+    slow = stations.pattern_extreme_positions(solution, names)
+    assert slow.size and fast.size
+    envelope = action_envelope(solution, names)
+    assert envelope["Mz"].largest.value == pytest.approx(high[5], rel=1e-9)
+    assert envelope["Mz"].smallest.value == pytest.approx(low[5], rel=1e-9)

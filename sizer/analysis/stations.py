@@ -207,6 +207,7 @@ def switch_weights(solution: MemberSolution, combinations: Sequence[str]) -> tup
 
 SAMPLE_T = np.array([0.0, 1.0 / 3.0, 2.0 / 3.0, 1.0])
 CUBIC = np.linalg.inv(np.vander(SAMPLE_T, 4, increasing=True))  # values at SAMPLE_T -> coefficients of 1, t, t^2, t^3
+CUBIC_TOLERANCE = 1e-9  # relative: a cubic through four points that misses a fifth by more is not one
 
 
 def pattern_extreme_positions(solution: MemberSolution, combinations: Sequence[str]) -> np.ndarray:
@@ -215,13 +216,19 @@ def pattern_extreme_positions(solution: MemberSolution, combinations: Sequence[s
     Within a segment each switch's contribution to an action is a cubic in x; between the points
     where any contribution changes sign (kept too) the worst arrangement for each action and sense
     is one arrangement, and the envelope's extremes there are that arrangement's stationary points.
-    Cost: (switches + 1) load sets at four points a segment, not one per arrangement."""
+    Cost: (switches + 1) load sets at five points a segment, not one per arrangement. Where the
+    actions are not cubics (the fifth point, mid-segment, disagrees: another analysis than the
+    first-order one), each arrangement's own zero-shear and load sign-change points instead."""
     base, switches = switch_weights(solution, combinations)
     lo, hi = _segments(solution.member)
-    x = (lo[:, None] + SAMPLE_T[None, :] * (hi - lo)[:, None]).ravel()
-    side = np.tile(np.array(["right", "right", "right", "left"]), lo.size)
-    values = solution.weighted_actions(np.vstack([base, switches]), x, side).reshape(1 + len(switches), lo.size, 4, 6)
-    coef = np.einsum("kt,rsta->rsak", CUBIC, values)  # (rows, segments, actions, 4)
+    t = np.append(SAMPLE_T, 0.5)
+    x = (lo[:, None] + t[None, :] * (hi - lo)[:, None]).ravel()
+    side = np.tile(np.array(["right", "right", "right", "left", "right"]), lo.size)
+    values = solution.weighted_actions(np.vstack([base, switches]), x, side).reshape(1 + len(switches), lo.size, 5, 6)
+    coef = np.einsum("kt,rsta->rsak", CUBIC, values[:, :, :4])  # (rows, segments, actions, 4)
+    middle = coef[..., 0] + 0.5 * coef[..., 1] + 0.25 * coef[..., 2] + 0.125 * coef[..., 3]
+    if np.abs(middle - values[:, :, 4]).max(initial=0.0) > CUBIC_TOLERANCE * (np.abs(values).max(initial=0.0) + 1e-300):
+        return distinct(np.concatenate([zero_shear_positions(solution, combinations), load_sign_change_positions(solution, combinations)]))
     found = [lo[segment] + t * (hi[segment] - lo[segment]) for segment in range(lo.size) for action in range(6)
              for t in _envelope_stationary_points(coef[0, segment, action], coef[1:, segment, action])]
     return distinct(np.array(found, dtype=float))
