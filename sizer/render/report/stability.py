@@ -86,8 +86,8 @@ def combinations_table(report: CheckReport, system: str) -> str:
                           _cell(at_least + _fmt(m_cr, "moment", system), m_cr)]))
     note = ("<p class=\"note\">— : not solved (no compression, no major-axis bending, or a section that does not buckle "
             f"sideways{': ' + _e(report.stability.lateral_reason) if report.stability.lateral_reason else ''}). "
-            "≥ : a pattern arrangement not solved on its own: a proven lower bound of its load factor (from the spans' loads "
-            "together), which shows it cannot govern.</p>")
+            "≥ : a pattern arrangement not solved on its own: a proven lower bound of its load factor (one eigen-solve bounds "
+            "every arrangement that loads the spans fixed so far), which shows it cannot govern.</p>")
     return _table(["combination", "peak compression", "load factor (axial)", "P_cr", "peak |M|", "load factor (bending)", "M_cr"],
                   rows, range(1, 7)) + note
 
