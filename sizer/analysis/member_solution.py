@@ -155,9 +155,13 @@ class MemberSolution:
 
     def reactions(self, combination: str) -> np.ndarray:
         """(n_supports, 6) Fx, Fy, Fz, Mx, My, Mz of each support on the member."""
+        return self.combination_reactions([combination])[0]
+
+    def combination_reactions(self, combinations: Sequence[str]) -> np.ndarray:
+        """(len(combinations), n_supports, 6) reactions of the named combinations, in one product."""
         stack = [case.reactions for case in self.cases.values()]
         stack.append(self.self_weight.reactions if self.self_weight is not None else np.zeros((len(self.member.supports), 6)))
-        return np.tensordot(self._row(combination), np.stack(stack), axes=1) + 0.0
+        return np.tensordot(self.combination_weights(combinations), np.stack(stack), axes=1) + 0.0
 
     def displacements(self, combination: str, x: ArrayLike, side: str | ArrayLike = "right") -> np.ndarray:
         """(n, 6) ux, uy, uz, rx, ry, rz of one combination; ValueError without stiffness."""

@@ -142,7 +142,7 @@ def concentrated_forces(design: Design) -> list[Concentrated]:
     names = solution.combination_names
     turn = (lambda f: np.stack([f[:, 0], f[:, 2], -f[:, 1]], axis=1)) if member.orientation == "minor" else (lambda f: f)
     found = []
-    reactions = np.stack([solution.reactions(name)[:, :3] for name in names], axis=1) if member.supports else np.zeros((0, len(names), 3))
+    reactions = solution.combination_reactions(names)[..., :3].transpose(1, 0, 2) if member.supports else np.zeros((0, len(names), 3))
     for index, support in enumerate(member.supports):
         found.append(Concentrated(f"support S{index + 1} ({support.label})", support.at, turn(reactions[index]), support.bearing, support.stiffened))
     tol = 1e-9 * member.length

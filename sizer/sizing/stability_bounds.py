@@ -80,35 +80,37 @@ class StabilityBounds:
         return factor
 
     def _buckling(self, rows: np.ndarray, factors: dict[tuple[str, int], np.ndarray]) -> np.ndarray:
+        """Every combination at once (combinations x rows), the worst of each row."""
         table, material, settings = self.table, self.material, self.member.checks
         area = table.area[rows]
         given = given_euler_loads(self.member, table.I11[rows], table.I22[rows], material.elastic_modulus)
-        worst = np.zeros(len(rows))
-        for c, compression in enumerate(self.demand["axial"][:, rows]):
-            factor = factors.get(("axial", c), np.full(len(rows), np.inf))
-            with np.errstate(divide="ignore", invalid="ignore"):
-                load = np.minimum(np.where(compression > ZERO_ACTION, factor * compression, np.inf), given)
-                allowable = johnson(load / area, material.yield_strength) * area / settings.buckling_safety_factor
-                value = np.where(compression > ZERO_ACTION, compression / allowable, 0.0)
-            worst = np.maximum(worst, np.nan_to_num(value, nan=0.0))
-        return worst
+        compression = self.demand["axial"][:, rows]
+        factor = np.full(compression.shape, np.inf)
+        for (kind, c), values in factors.items():
+            if kind == "axial":
+                factor[c] = values
+        with np.errstate(divide="ignore", invalid="ignore"):
+            load = np.minimum(np.where(compression > ZERO_ACTION, factor * compression, np.inf), given)
+            allowable = johnson(load / area, material.yield_strength) * area / settings.buckling_safety_factor
+            value = np.where(compression > ZERO_ACTION, compression / allowable, 0.0)
+        return np.nan_to_num(value, nan=0.0).max(axis=0, initial=0.0)
 
     def _lateral(self, rows: np.ndarray, factors: dict[tuple[str, int], np.ndarray]) -> np.ndarray:
+        """The combinations with a bound at once (combinations x rows), the worst of each row."""
         table, material = self.table, self.material
-        worst = np.zeros(len(rows))
         bending = material.allowable.bending
-        if bending is None:
-            return worst
+        bounded = sorted(c for kind, c in factors if kind == "lateral")
+        if bending is None or not bounded:
+            return np.zeros(len(rows))
         modulus = np.minimum(table.Sz_top, table.Sz_bottom)[rows]
-        for c, moment in enumerate(self.demand["lateral"][:, rows]):
-            factor = factors.get(("lateral", c), np.full(len(rows), np.inf))
-            with np.errstate(invalid="ignore", over="ignore"):
-                allowable = reduced_allowable(bending, np.where(moment > ZERO_ACTION, factor * moment, np.inf) / modulus, material.yield_strength,
-                                              self.member.checks.buckling_safety_factor, PLATEAU_LATERAL)
-                bound = (moment > ZERO_ACTION) & self.lateral_applies[rows] & np.isfinite(factor)  # else the bending check says as much
-                value = np.where(bound, moment * table.sigma_peak_Mz[rows] / allowable, 0.0)
-            worst = np.maximum(worst, np.nan_to_num(value, nan=0.0))
-        return worst
+        moment = self.demand["lateral"][bounded][:, rows]
+        factor = np.stack([factors[("lateral", c)] for c in bounded])
+        with np.errstate(invalid="ignore", over="ignore"):
+            allowable = reduced_allowable(bending, np.where(moment > ZERO_ACTION, factor * moment, np.inf) / modulus, material.yield_strength,
+                                          self.member.checks.buckling_safety_factor, PLATEAU_LATERAL)
+            bound = (moment > ZERO_ACTION) & self.lateral_applies[rows] & np.isfinite(factor)  # else the bending check says as much
+            value = np.where(bound, moment * table.sigma_peak_Mz[rows] / allowable, 0.0)
+        return np.nan_to_num(value, nan=0.0).max(axis=0, initial=0.0)
 
 
 def same_load_sets(model: MemberStability, keys: set[tuple[str, int]]) -> dict[tuple[str, int], tuple[tuple[str, int], float]]:
