@@ -16,6 +16,7 @@ SMALL_DEFLECTION_FRACTION of its length, where the results no longer hold (outpu
 from __future__ import annotations
 
 from typing import Iterable
+from weakref import WeakKeyDictionary
 
 import numpy as np
 
@@ -116,16 +117,24 @@ def span_deflections(design: Design, span_list: list[Span], combinations: Iterab
 def solution_span_deflections(solution: MemberSolution, span_list: list[Span], combinations: Iterable[str],
                               n: int = 201, relative: bool = True) -> list[tuple[float, float, str]]:
     """span_deflections of a solved member (with displacements): the exact largest of each span
-    (see span_peak); `n` is kept for callers and not used."""
-    names = list(combinations)
-    found = [(-1.0, 0.0, 0)] * len(span_list)
+    (see span_peak), each span's found once per solution, combinations and reference (the check
+    and the small-deflection caution ask for the same); `n` is kept for callers and not used."""
+    names = tuple(combinations)
+    known = _PEAKS.setdefault(solution, {})
+    wanted = [span for span in span_list if (span, names, relative) not in known]
+    found = [(-1.0, 0.0, 0)] * len(wanted)
     for start in range(0, len(names), DEFLECTION_CHUNK):
         rows = solution.combination_weights(names[start:start + DEFLECTION_CHUNK])
-        for index, span in enumerate(span_list):
+        for index, span in enumerate(wanted):
             value, at, row = span_peak(solution, span, rows, relative)
             if value > found[index][0]:
                 found[index] = (value, at, start + row)
-    return [(value, at, names[row]) for value, at, row in found]
+    for span, (value, at, row) in zip(wanted, found):
+        known[(span, names, relative)] = (value, at, names[row])
+    return [known[(span, names, relative)] for span in span_list]
+
+
+_PEAKS: "WeakKeyDictionary[MemberSolution, dict]" = WeakKeyDictionary()  # solution -> (span, combinations, relative) -> peak
 
 
 def span_peak(solution: MemberSolution, span: Span, weights: np.ndarray, relative: bool) -> tuple[float, float, int]:
