@@ -30,6 +30,7 @@ from sizer.model import DeflectionLimit, Material, Member
 from sizer.sizing.candidates import Candidate, CandidateTable
 
 SCREEN_BLOCK = 65_536  # station values per block of sections (single precision: fits the CPU caches)
+DEFLECTION_ROWS = 256  # combinations per block of the deflection screen
 STRESS_CHECKS = ("bending", "interaction", "shear", "equivalent")
 SINGLE = np.float32
 N, MZ = 0, 5
@@ -193,12 +194,23 @@ def deflection_screen(table: CandidateTable, member: Member, material: Material,
     deflection over its allowable expanded as one matrix product, then its deflection is computed
     directly: the value at a point the check uses (a true lower bound of the check, and its exact
     value save for round-off in choosing the point)."""
-    rows = [part for entry in limit_entries(member.checks) for part in _limited_deflections(entry, base, n)]
-    if not rows:
-        return None
-    a, b = (np.concatenate([row[k] for row in rows]) for k in (0, 1))  # (points, 2): loads alone and per kg/m, over allowable, at unit rigidities
     stiffness = oriented_stiffness(table, material, member.orientation)
-    u, v, m = 1.0 / stiffness.EIz**2, 1.0 / stiffness.EIy**2, table.mass
+    worst = None
+    for entry in limit_entries(member.checks):
+        combos = [base.combination_names.index(name) for name in arrangements_of(base.member, entry.combinations)]
+        for start in range(0, len(combos), DEFLECTION_ROWS):  # a block of combinations (pattern arrangements) at a time: bounded memory
+            rows = _limited_deflections(entry, base, n, combos[start:start + DEFLECTION_ROWS])
+            if rows:
+                found = _worst_deflections(rows, stiffness, table.mass)
+                worst = found if worst is None else np.maximum(worst, found)
+    return worst
+
+
+def _worst_deflections(rows: list[tuple[np.ndarray, np.ndarray]], stiffness: Any, mass: np.ndarray) -> np.ndarray:
+    """(S,) each candidate's largest deflection over its allowable at the points of `rows` (pairs of
+    (points, 2) deflections of the loads alone and per kg/m, over allowable, at unit rigidities)."""
+    a, b = (np.concatenate([row[k] for row in rows]) for k in (0, 1))
+    u, v, m = 1.0 / stiffness.EIz**2, 1.0 / stiffness.EIy**2, mass
     terms = np.stack([a[:, 0] ** 2, a[:, 0] * b[:, 0], b[:, 0] ** 2, a[:, 1] ** 2, a[:, 1] * b[:, 1], b[:, 1] ** 2])
     weights = np.column_stack([u, 2 * u * m, u * m * m, v, 2 * v * m, v * m * m])
     step = max(1, SCREEN_BLOCK // 2 // len(a))  # double precision: half the values of a stress block
@@ -206,11 +218,11 @@ def deflection_screen(table: CandidateTable, member: Member, material: Material,
     return np.hypot((a[at, 0] + m * b[at, 0]) / stiffness.EIz, (a[at, 1] + m * b[at, 1]) / stiffness.EIy)
 
 
-def _limited_deflections(entry: DeflectionLimit, base: MemberSolution, n: int) -> list[tuple[np.ndarray, np.ndarray]]:
-    """For one deflection limit: per limited span, the (points, 2) deflections (uy, uz) of the loads
-    alone and per kg/m of self-weight at unit rigidities, each over the span's allowable length."""
+def _limited_deflections(entry: DeflectionLimit, base: MemberSolution, n: int, combos: list[int]) -> list[tuple[np.ndarray, np.ndarray]]:
+    """For one deflection limit and the combinations `combos` (indices): per limited span, the
+    (points, 2) deflections (uy, uz) of the loads alone and per kg/m of self-weight at unit
+    rigidities, each over the span's allowable length."""
     pairs = limited_spans(base.member, entry)
-    combos = [base.combination_names.index(name) for name in arrangements_of(base.member, entry.combinations)]
     if not pairs or not combos:
         return []
     factors = load_and_weight_factors(base)
