@@ -18,6 +18,7 @@ from sizer.checks.results import ZERO_ACTION
 from sizer.design import Design
 from sizer.errors import InputError
 from sizer.stability import Buckling, MemberStability, StabilitySection, minor_axis_is_weaker, stability_section
+from sizer.stability.section import has_weaker_axis
 
 N, MZ = 0, 5
 FIELD_WORDS = {0: "movement along the section's depth", 1: "sideways movement", 2: "twisting about the member axis"}
@@ -58,9 +59,9 @@ def lateral_not_applicable(design: Design, section: StabilitySection, moments: n
             return "no bending about the section's major axis: it is bent about its weaker axis only"
         return "no bending about the section's major axis"
     if not minor_axis_is_weaker(section):
-        if np.isclose(section.Iz, section.Iy, rtol=1e-3):
-            return "the section has no weaker axis (Iz = Iy): it does not buckle sideways"
-        return "the section is bent about its weaker axis: it does not buckle sideways"
+        if not has_weaker_axis(section):
+            return "the section has no weaker axis (I11 = I22, principal second moments): it does not buckle sideways"
+        return "the section is bent about its weaker principal axis: it does not buckle sideways"
     return ""
 
 

@@ -15,12 +15,15 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 from functools import lru_cache
+from typing import Any
 
 import numpy as np
 
 ZERO_GEOMETRY = 1e-13  # |B| entries below this fraction of the largest count as zero
 ZERO_STIFFNESS = 1e-10  # eigenvalues of the scaled K below this are free movements
 NO_BUCKLING = 1e-12  # mu below this fraction of the largest |B| eigenvalue scale: no buckling
+BRACKET = 1.25  # the sparse solve's bracket of the lowest load factor is closed to this ratio before iterating
+NO_LOAD_FACTOR = 1e15  # the sparse solve looks for load factors up to this (above: no buckling)
 INVERSE_SHIFT = 1e-9  # inverse iteration's shift above the largest eigenvalue, as a fraction of the largest |eigenvalue|
 
 
@@ -103,6 +106,109 @@ class Reduced:
                     kaa = kaa - kap @ coupling
             self._factors[key] = (np.linalg.inv(np.linalg.cholesky(kaa)), coupling)
         return self._factors[key]
+
+    def _full(self, reduced: np.ndarray) -> np.ndarray:
+        return _full(self.basis, self.scale, reduced)
+
+
+def reduced(K: Any, basis: Any) -> Any:
+    """The solver of K d = lam B d on the admissible freedoms: Reduced for dense matrices,
+    SparseReduced for sparse ones (sizer.stability.matrices)."""
+    return SparseReduced(K, basis) if hasattr(K, "tocsr") else Reduced(K, basis)
+
+
+class SparseReduced:
+    """Reduced for sparse matrices (thousands of freedoms): K on the admissible freedoms, diagonally
+    scaled, factorized once (sparse LU); each B solved by Lanczos iteration (scipy's eigsh, ARPACK)
+    for the largest mu of B d = mu K d, with K's factors as the inverse. Where K is singular on the
+    admissible freedoms (a free movement: rare with the many restraints that make a mesh this
+    large) the dense Reduced decides instead."""
+
+    def __init__(self, K: Any, basis: Any) -> None:
+        from scipy.sparse import diags
+        from scipy.sparse.linalg import splu
+
+        self.basis = basis.tocsr()
+        k = (self.basis.T @ K @ self.basis).tocsc()
+        diagonal = k.diagonal().copy()
+        diagonal[diagonal <= 0] = 1.0
+        self.scale = 1.0 / np.sqrt(diagonal)
+        self._scaling = diags(self.scale)
+        self.k = (self._scaling @ k @ self._scaling).tocsc()
+        self.dense: Reduced | None = None
+        try:
+            self.factors = splu(self.k)
+            pivots = np.abs(self.factors.U.diagonal())
+            singular = pivots.min(initial=np.inf) <= ZERO_STIFFNESS * max(1.0, pivots.max(initial=0.0))
+        except RuntimeError:  # exactly singular
+            singular = True
+        if singular:
+            self.dense = Reduced(self.k.toarray(), np.eye(self.k.shape[0]))
+
+    def project(self, B: Any) -> Any:
+        """B on the admissible freedoms, scaled as K is."""
+        return (self._scaling @ (self.basis.T @ B @ self.basis) @ self._scaling).tocsr()
+
+    def modes(self, B: Any, count: int) -> list[Buckling]:
+        return self.projected_modes(self.project(B), count)
+
+    def projected_modes(self, b: Any, count: int) -> list[Buckling]:
+        """modes() of a B already projected: the lowest positive load factor bracketed by the inertia
+        of K - sigma B (its negative pivots count the load factors in (0, sigma): Sylvester's law of
+        inertia, K positive definite), then found by shift-invert Lanczos iteration about the
+        bracket's lower end (scipy's eigsh in buckling mode), where it is the largest transformed
+        eigenvalue, well apart from the others. `count` > 1: the others above it follow."""
+        from scipy.sparse.linalg import LinearOperator, eigsh
+
+        size = float(abs(b).max()) if b.nnz else 0.0
+        if size == 0.0:
+            return [Buckling(math.inf, None)]
+        if self.dense is not None:
+            found = self.dense.projected_modes(b.toarray(), count)
+            return [item if item.mode is None else Buckling(item.load_factor, self._full(item.mode), item.free_movement) for item in found]
+        bracket = self._bracket(b)
+        if bracket is None:
+            return [Buckling(math.inf, None)]
+        sigma, factors = bracket
+        n = self.k.shape[0]
+        inverse = LinearOperator((n, n), matvec=factors.solve, dtype=float)
+        values, vectors = eigsh(self.k, k=count, M=b, sigma=sigma, mode="buckling", OPinv=inverse, which="LA", tol=1e-12,
+                                v0=_start_vector(n))
+        order = np.argsort(values)
+        return [Buckling(float(values[i]), self._full(vectors[:, i])) for i in order if values[i] > 0]
+
+    def _bracket(self, b: Any) -> tuple[float, Any] | None:
+        """(sigma, LU factors of K - sigma B) with no load factor in (0, sigma] and the lowest within
+        (sigma, BRACKET sigma]; None when there is none below NO_LOAD_FACTOR (no buckling)."""
+        sigma, factors, below = 1.0, *self._inertia(b, 1.0)
+        if below:
+            while below:
+                high, sigma = sigma, sigma / 2
+                factors, below = self._inertia(b, sigma)
+        else:
+            high = 2.0
+            while not self._inertia(b, high)[1]:
+                sigma, high = high, 2 * high
+                if high > NO_LOAD_FACTOR:
+                    return None
+            factors = self._inertia(b, sigma)[0]
+        while high > BRACKET * sigma:  # bisect: the closer sigma, the faster the iteration
+            middle = math.sqrt(sigma * high)
+            middle_factors, below = self._inertia(b, middle)
+            if below:
+                high = middle
+            else:
+                sigma, factors = middle, middle_factors
+        return sigma, factors
+
+    def _inertia(self, b: Any, sigma: float) -> tuple[Any, int]:
+        """LU factors of K - sigma B (symmetric ordering, no row exchanges: the pivots are those of
+        an LDL^T factorization) and the count of its negative pivots."""
+        from scipy.sparse.linalg import splu
+
+        factors = splu((self.k - sigma * b).tocsc(), permc_spec="MMD_AT_PLUS_A", diag_pivot_thresh=0.0,
+                       options={"SymmetricMode": True})
+        return factors, int(np.sum(factors.U.diagonal() < 0))
 
     def _full(self, reduced: np.ndarray) -> np.ndarray:
         return _full(self.basis, self.scale, reduced)
