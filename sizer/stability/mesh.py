@@ -22,7 +22,8 @@ from sizer.model import LineLoad, Member, PointLoad
 
 ELEMENTS_PER_LENGTH = 8  # elements over the member length, at least
 ELEMENTS_PER_BAY = 6  # elements between neighbouring supports or restraints, at least (a buckled half-wave fits in a bay)
-# With these the buckling loads are within 1e-4 of a mesh 8 times finer (tests/test_stability.py).
+ELEMENTS_AT_MOST = 400  # ... but elements no shorter than length / this (dense restraints: one element per short bay)
+# Every load factor is then refined until converged (sizer.stability.problem.SectionStability).
 FIELDS: tuple[str, ...] = ("v", "w", "phi")
 
 
@@ -93,7 +94,7 @@ def build_mesh(member: Member, per_length: int = ELEMENTS_PER_LENGTH, extra: lis
     nodes = [items[:1]]
     for a, b in zip(items[:-1], items[1:]):
         bay = np.searchsorted(bays, (a + b) / 2)
-        largest = min(member.length / per_length, (bays[bay] - bays[bay - 1]) / ELEMENTS_PER_BAY)
+        largest = max(min(member.length / per_length, (bays[bay] - bays[bay - 1]) / ELEMENTS_PER_BAY), member.length / ELEMENTS_AT_MOST)
         count = max(1, math.ceil((b - a) / largest - 1e-9))
         nodes.append(np.linspace(a, b, count + 1)[1:])
     return mesh_on_nodes(member, np.concatenate(nodes), tol)

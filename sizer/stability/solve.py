@@ -144,6 +144,7 @@ class SparseReduced:
             singular = True
         if singular:
             self.dense = Reduced(self.k.toarray(), np.eye(self.k.shape[0]))
+        self.offset = 0 if singular else _negative_pivots(self.k)[1]  # K's own (round-off on very fine meshes), not counted
 
     def project(self, B: Any) -> Any:
         """B on the admissible freedoms, scaled as K is."""
@@ -185,6 +186,8 @@ class SparseReduced:
             while below:
                 high, sigma = sigma, sigma / 2
                 factors, below = self._inertia(b, sigma)
+                if below and sigma < NO_LOAD_FACTOR**-1:  # buckles under next to no load
+                    return sigma, factors
         else:
             high = 2.0
             while not self._inertia(b, high)[1]:
@@ -202,16 +205,22 @@ class SparseReduced:
         return sigma, factors
 
     def _inertia(self, b: Any, sigma: float) -> tuple[Any, int]:
-        """LU factors of K - sigma B (symmetric ordering, no row exchanges: the pivots are those of
-        an LDL^T factorization) and the count of its negative pivots."""
-        from scipy.sparse.linalg import splu
-
-        factors = splu((self.k - sigma * b).tocsc(), permc_spec="MMD_AT_PLUS_A", diag_pivot_thresh=0.0,
-                       options={"SymmetricMode": True})
-        return factors, int(np.sum(factors.U.diagonal() < 0))
+        """LU factors of K - sigma B and the count of its negative pivots beyond K's own (`offset`)."""
+        factors, negative = _negative_pivots(self.k - sigma * b)
+        return factors, negative - self.offset
 
     def _full(self, reduced: np.ndarray) -> np.ndarray:
         return _full(self.basis, self.scale, reduced)
+
+
+def _negative_pivots(matrix: Any) -> tuple[Any, int]:
+    """Sparse LU factors of a symmetric matrix with a symmetric ordering and no row exchanges (the
+    pivots are those of an LDL^T factorization: their signs give its inertia), and the count of
+    negative pivots."""
+    from scipy.sparse.linalg import splu
+
+    factors = splu(matrix.tocsc(), permc_spec="MMD_AT_PLUS_A", diag_pivot_thresh=0.0, options={"SymmetricMode": True})
+    return factors, int(np.sum(factors.U.diagonal() < 0))
 
 
 def _largest_eigenpairs(c: np.ndarray, count: int) -> tuple[np.ndarray, np.ndarray]:
