@@ -50,6 +50,9 @@ class StabilityReport:
     section: StabilitySection
     lateral_reason: str
     combinations: list[CombinationStability] = field(default_factory=list)
+    elements: int = 0  # the most elements a converged load factor needed
+    converged: bool = True  # False: some load factor was taken less its last change (see SectionStability)
+    warping_elements: float = 0.0  # m: the elements next to the warping holds, where the mesh was graded towards them (else 0)
 
 
 def lateral_not_applicable(design: Design, section: StabilitySection, moments: np.ndarray) -> str:
@@ -87,6 +90,9 @@ def stability_report(design: Design, actions: np.ndarray, xs: np.ndarray, model:
         report.combinations.append(CombinationStability(
             name, float(compression[at_n]), float(xs[at_n]), float(moments[at_m]), float(xs[at_m]),
             float(np.sign(actions[c, at_m, MZ]) or 1.0), axial, lateral))
+    report.elements, report.converged = solver.elements, solver.converged
+    if solver.model is not model:
+        report.warping_elements = solver.warping_elements()
     return report
 
 

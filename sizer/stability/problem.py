@@ -214,6 +214,13 @@ class SectionStability:
         self.elements = len(model.mesh.nodes) - 1  # the most elements an accepted load factor needed
         self.converged = True  # False when some load factor was not converged within HALVINGS
 
+    def warping_elements(self) -> float:
+        """The shortest element (m) next to a support that holds warping, on this level's mesh."""
+        mesh = self.model.mesh
+        nodes = [mesh.node_at(support.at) for support in self.model.member.supports if warping_held(support)]
+        lengths = mesh.lengths
+        return min((float(lengths[max(node - 1, 0):node + 1].min()) for node in nodes), default=0.0)
+
     def finer(self) -> "SectionStability":
         """This section on the mesh with every element cut in two (made once)."""
         if self._finer is None:
