@@ -9,7 +9,7 @@ from typing import Any
 
 import numpy as np
 
-SPARSE_FROM = 480  # freedoms: above this the matrices are sparse and the eigen-solve iterative
+SPARSE_FROM = 720  # freedoms: above this the matrices are sparse and the eigen-solve iterative (scipy's import, some 0.3 s, only then)
 
 
 def is_sparse(size: int) -> bool:

@@ -244,6 +244,8 @@ class SectionStability:
             if level.model.mesh.size * 2 > SIZE_LIMIT:
                 break
             finer = level.finer()
+            if hasattr(finer.reduced, "hint"):  # the sparse solve starts its search there
+                finer.reduced.hint = found.load_factor
             fine = solve(finer)
             if fine.free_movement or _agree(found.load_factor, fine.load_factor):
                 self.elements = max(self.elements, len(finer.model.mesh.nodes) - 1)
@@ -251,7 +253,7 @@ class SectionStability:
             level, found, previous = finer, fine, found.load_factor
         self.converged = False
         self.elements = max(self.elements, len(level.model.mesh.nodes) - 1)
-        bound = max(found.load_factor - (previous - found.load_factor), 0.0) if math.isfinite(previous) else found.load_factor
+        bound = max(found.load_factor - abs(previous - found.load_factor), 0.0) if math.isfinite(previous) else found.load_factor
         return Buckling(bound, level.on_base(found.mode))
 
     def on_base(self, mode: np.ndarray | None) -> np.ndarray | None:

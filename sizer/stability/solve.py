@@ -144,6 +144,7 @@ class SparseReduced:
             singular = True
         if singular:
             self.dense = Reduced(self.k.toarray(), np.eye(self.k.shape[0]))
+        self.hint = 1.0  # where the bracket search starts: a load factor expected near the lowest (a coarser mesh's)
         self.offset = 0 if singular else _negative_pivots(self.k)[1]  # K's own (round-off on very fine meshes), not counted
 
     def project(self, B: Any) -> Any:
@@ -181,7 +182,8 @@ class SparseReduced:
     def _bracket(self, b: Any) -> tuple[float, Any] | None:
         """(sigma, LU factors of K - sigma B) with no load factor in (0, sigma] and the lowest within
         (sigma, BRACKET sigma]; None when there is none below NO_LOAD_FACTOR (no buckling)."""
-        sigma, factors, below = 1.0, *self._inertia(b, 1.0)
+        sigma = self.hint if math.isfinite(self.hint) and self.hint > 0 else 1.0
+        factors, below = self._inertia(b, sigma)
         if below:
             while below:
                 high, sigma = sigma, sigma / 2
@@ -189,7 +191,7 @@ class SparseReduced:
                 if below and sigma < NO_LOAD_FACTOR**-1:  # buckles under next to no load
                     return sigma, factors
         else:
-            high = 2.0
+            high = 2 * sigma
             while not self._inertia(b, high)[1]:
                 sigma, high = high, 2 * high
                 if high > NO_LOAD_FACTOR:
