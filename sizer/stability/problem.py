@@ -290,17 +290,17 @@ class SectionStability:
         found = self._solved[kind].find(shape)
         if found is None:
             b = sum(share * self._column(kind, column, positive) for column, positive, share in shape)
-            found = self.reduced.projected_modes(b, 1)[0]
+            found = self.reduced.modes(b, 1)[0]
             self._solved[kind].add(shape, found)
         return found
 
     def _column(self, kind: str, column: int, positive: bool) -> np.ndarray:
-        """B of one load-case column at weight +1 or -1 for this section, projected (made once)."""
+        """B of one load-case column at weight +1 or -1 for this section (made once; a load shape's B,
+        their sum, is projected onto the admissible freedoms once)."""
         key = (kind, column, positive)
         if key not in self._columns:
             terms = self.model.column_terms(kind, column, positive)
-            full = as_matrix(-weighted_sum(terms, term_coefficients(kind, self.section)), self.model.mesh.size)
-            self._columns[key] = self.reduced.project(full)
+            self._columns[key] = as_matrix(-weighted_sum(terms, term_coefficients(kind, self.section)), self.model.mesh.size)
         return self._columns[key]
 
 

@@ -38,6 +38,34 @@ class Buckling:
     free_movement: bool = False
 
 
+class Congruence:
+    """P^T A P for a basis P (n, k) whose columns are mostly unit vectors (a free freedom each) and a
+    few short ones (the freedoms a support or restraint ties together): the unit columns pick rows
+    and columns of A, the others act through their few rows, so the cost is about n k, not n^2 k."""
+
+    def __init__(self, basis: np.ndarray) -> None:
+        nonzero = basis != 0
+        unit = (nonzero.sum(axis=0) == 1) & np.isclose(np.abs(basis).max(axis=0, initial=0.0), 1.0, rtol=0.0, atol=1e-15)
+        self.unit_columns = np.flatnonzero(unit)
+        self.unit_rows = np.argmax(nonzero[:, unit], axis=0)
+        self.unit_signs = basis[self.unit_rows, self.unit_columns]
+        self.other_columns = np.flatnonzero(~unit)
+        self.touched = np.flatnonzero(nonzero[:, ~unit].any(axis=1))
+        self.block = basis[np.ix_(self.touched, self.other_columns)]
+        self.shape = basis.shape
+
+    def of(self, A: np.ndarray) -> np.ndarray:
+        """P^T A P (k, k)."""
+        n, k = self.shape
+        right = np.empty((n, k))
+        right[:, self.unit_columns] = A[:, self.unit_rows] * self.unit_signs
+        right[:, self.other_columns] = A[:, self.touched] @ self.block
+        out = np.empty((k, k))
+        out[self.unit_columns, :] = right[self.unit_rows, :] * self.unit_signs[:, None]
+        out[self.other_columns, :] = self.block.T @ right[self.touched, :]
+        return out
+
+
 class Reduced:
     """K on the admissible freedoms, diagonally scaled, with what does not depend on B made once: its
     free movements, and for each set of freedoms that B touches the exact condensation of the others
@@ -45,7 +73,8 @@ class Reduced:
 
     def __init__(self, K: np.ndarray, basis: np.ndarray) -> None:
         self.basis = basis
-        k = basis.T @ K @ basis
+        self._congruence = Congruence(basis)
+        k = self._congruence.of(K)
         diagonal = np.diag(k).copy()
         diagonal[diagonal <= 0] = 1.0
         self.scale = 1.0 / np.sqrt(diagonal)
@@ -55,7 +84,7 @@ class Reduced:
 
     def project(self, B: np.ndarray) -> np.ndarray:
         """B on the admissible freedoms, scaled as K is (the solves are linear in it)."""
-        return (self.basis.T @ B @ self.basis) * np.outer(self.scale, self.scale)
+        return self._congruence.of(B) * np.outer(self.scale, self.scale)
 
     def modes(self, B: np.ndarray, count: int) -> list[Buckling]:
         """The `count` lowest positive load factors of K d = lam B d and their shapes."""
