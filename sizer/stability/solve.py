@@ -55,14 +55,15 @@ class Congruence:
         self.shape = basis.shape
 
     def of(self, A: np.ndarray) -> np.ndarray:
-        """P^T A P (k, k)."""
-        n, k = self.shape
-        right = np.empty((n, k))
-        right[:, self.unit_columns] = A[:, self.unit_rows] * self.unit_signs
-        right[:, self.other_columns] = A[:, self.touched] @ self.block
-        out = np.empty((k, k))
-        out[self.unit_columns, :] = right[self.unit_rows, :] * self.unit_signs[:, None]
-        out[self.other_columns, :] = self.block.T @ right[self.touched, :]
+        """P^T A P (k, k), block by block (unit columns u, other columns o)."""
+        u, o, rows, touched, block = self.unit_columns, self.other_columns, self.unit_rows, self.touched, self.block
+        signs = self.unit_signs
+        out = np.empty((self.shape[1],) * 2)
+        out[np.ix_(u, u)] = A[np.ix_(rows, rows)] * np.outer(signs, signs)
+        if len(o):
+            out[np.ix_(u, o)] = (A[np.ix_(rows, touched)] @ block) * signs[:, None]
+            out[np.ix_(o, u)] = (block.T @ A[np.ix_(touched, rows)]) * signs[None, :]
+            out[np.ix_(o, o)] = block.T @ A[np.ix_(touched, touched)] @ block
         return out
 
 
