@@ -1,6 +1,8 @@
-"""The stability solver's matrices: dense numpy arrays for the usual meshes, scipy.sparse (CSR) ones
-for meshes of more than SPARSE_FROM freedoms (many restraints: a node at each, so thousands of
-freedoms whose dense matrices would take gigabytes). scipy is imported only then.
+"""The stability solver's matrices: dense numpy arrays for small meshes, scipy.sparse (CSR) ones for
+meshes of more than SPARSE_FROM freedoms: the refined meshes of the convergence check (a banded
+shift-invert solve is much faster than a dense one there) and members with many restraints (a node
+at each: thousands of freedoms whose dense matrices would take gigabytes). scipy is imported only
+then.
 """
 
 from __future__ import annotations
@@ -9,7 +11,7 @@ from typing import Any
 
 import numpy as np
 
-SPARSE_FROM = 720  # freedoms: above this the matrices are sparse and the eigen-solve iterative (scipy's import, some 0.3 s, only then)
+SPARSE_FROM = 300  # freedoms: above this the matrices are sparse and the eigen-solve iterative (scipy's import, some 0.2 s, then)
 
 
 def is_sparse(size: int) -> bool:
