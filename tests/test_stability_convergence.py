@@ -16,7 +16,7 @@ beside each value):
 - equal-leg angle: principal second moments about 3.9 : 1 (for thin equal legs b, t:
   Iu = b^3 t / 3, Iv = b^3 t / 12 about the centroid's principal axes, ratio 4 less the corner's
   share; handbook tables list about 3.8-3.9; from memory).
-The I-beam is the handbook IPE 300 (REFERENCES.md, from memory).
+The I-beam is the handbook IPE 300 (docs/references.md, from memory).
 """
 
 from __future__ import annotations
@@ -35,8 +35,8 @@ from sizer.sections.spec import SectionSpec
 from sizer.stability import MemberStability, StabilitySection, minor_axis_is_weaker, stability_section
 from sizer.stability.section import has_weaker_axis, principal_inertias
 
-E, G = 200e9, 77e9  # Pa, structural steel (REFERENCES.md, common practice)
-IPE300 = dict(area=53.8e-4, Iz=8356e-8, Iy=604e-8, J=20.1e-8, Iw=125.9e3 * 1e-12, h=0.300)  # handbook (REFERENCES.md)
+E, G = 200e9, 77e9  # Pa, structural steel (docs/references.md, common practice)
+IPE300 = dict(area=53.8e-4, Iz=8356e-8, Iy=604e-8, J=20.1e-8, Iw=125.9e3 * 1e-12, h=0.300)  # handbook (docs/references.md)
 MOMENT = 10e3  # N*m
 
 
