@@ -543,6 +543,9 @@ def purlin(bays: list[float], imposed: float, snow: float, uplift: float) -> str
             '[combinations]\n"dead + imposed + snow" = { dead = 1.2, imposed = 1.5, snow = 0.75 }\n')
 
 
+CONVERGED_TWICE = 2e-4  # two load factors each converged to 1e-4 (sizer.stability.problem.CONVERGED)
+
+
 @settings(max_examples=4, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
 @given(bays=st.lists(st.floats(2.5, 6.0), min_size=2, max_size=4), imposed=st.floats(500.0, 4000.0), snow=st.floats(500.0, 4000.0),
        uplift=st.floats(0.0, 20_000.0))
@@ -550,7 +553,8 @@ def test_lateral_buckling_over_arrangements_equals_solving_each(bays: list[float
                                                                monkeypatch: pytest.MonkeyPatch) -> None:
     """The branch and bound gives the same lateral-torsional and interaction results (value and
     governing arrangement) as an eigen-solve for every arrangement, and every arrangement it left
-    unsolved has a load factor bound at or below its exact one (a proven lower bound)."""
+    unsolved has a load factor bound at or below its exact one (a proven lower bound). Both ways
+    converge each load factor to 1e-4 (from different meshes), so they agree to that."""
     import sizer.checks.stability as stability
 
     member = api.member_from_text(purlin(bays, imposed, snow, uplift), "purlin.toml")
@@ -561,14 +565,14 @@ def test_lateral_buckling_over_arrangements_equals_solving_each(bays: list[float
     for a, b in zip(searched.checks, every.checks):
         assert a.check == b.check and a.made == b.made
         if a.made:
-            assert a.utilization == pytest.approx(b.utilization, rel=1e-9), a.check
+            assert a.utilization == pytest.approx(b.utilization, rel=CONVERGED_TWICE), a.check
             if a.check in ("lateral-torsional", "interaction"):
-                assert a.combination == b.combination or a.utilization == pytest.approx(b.utilization, rel=1e-12)
+                assert a.combination == b.combination or a.utilization == pytest.approx(b.utilization, rel=CONVERGED_TWICE)
     bounded = 0
     for a, b in zip(searched.report.stability.combinations, every.report.stability.combinations):
         assert (a.lateral is None) == (b.lateral is None)
         if a.lateral is not None:
-            assert a.lateral.load_factor <= b.lateral.load_factor * (1 + 1e-9)
+            assert a.lateral.load_factor <= b.lateral.load_factor * (1 + CONVERGED_TWICE)
             bounded += a.lateral_bound
     assert bounded > 0 or len(bays) == 2  # the search left some arrangements unsolved
 

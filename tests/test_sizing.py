@@ -135,6 +135,7 @@ MIXED_SHAPES: Entries = {
     # an invented family of welded plate girders (no fillets) with slender webs: h / tw = 95 and 47
     "PG 200x2": ("i_beam", {"depth": "200 mm", "width": "50 mm", "flange_thickness": "5 mm", "web_thickness": "2 mm"}, "plate-girder"),
     "PG 250x5": ("i_beam", {"depth": "250 mm", "width": "100 mm", "flange_thickness": "8 mm", "web_thickness": "5 mm"}, "plate-girder"),
+    "L 80x60x7": ("angle", {"depth": "80 mm", "width": "60 mm", "thickness": "7 mm", "root_radius": "7 mm"}, "angle"),
 }
 
 STOCKS: dict[str, Entries] = {
@@ -742,9 +743,16 @@ wy = "-8 kN/m"
 [combinations]
 "dead + imposed" = { dead = 1.0, imposed = 1.0 }
 """
+UNBRACED_ANGLE_LINTEL = UNBRACED_BEAM.replace('length = "4.5 m"', 'length = "1.8 m"').replace('at = "4.5 m"', 'at = "1.8 m"').replace(
+    'at = "1.5 m"', 'at = "0.9 m"')  # angles bent about a leg's axis: lateral-torsional in principal axes
+
+BUILT_IN_BEAM = UNBRACED_BEAM.replace('type = "pin"', 'type = "fixed"').replace('type = "roller"', 'type = "fixed"')  # warping held at both ends
+
 
 AGREEMENT_MEMBERS = {
     "unbraced beam": UNBRACED_BEAM,
+    "unbraced angle lintel": UNBRACED_ANGLE_LINTEL,
+    "built-in beam, warping held": BUILT_IN_BEAM,
     "braced at thirds": BRACED_AT_THIRDS,
     "beam-column": BEAM_COLUMN.format(orientation="major"),
     "beam-column, minor": BEAM_COLUMN.format(orientation="minor"),

@@ -33,10 +33,14 @@ LEAF_ROWS = 4  # a set of this many arrangements or fewer is solved one by one (
 
 
 def lateral_over_arrangements(solver: SectionStability, loads: np.ndarray, demand: np.ndarray,
-                              utilization: Callable[[np.ndarray, float], np.ndarray]) -> dict[int, tuple[Buckling, bool]] | None:
+                              utilization: Callable[[np.ndarray, float], np.ndarray],
+                              allowance: float = 1.0) -> dict[int, tuple[Buckling, bool]] | None:
     """For the arrangements of one combination, weights `loads` (A, columns) with self-weight: row ->
     (Buckling, exact?) for the rows with `demand` True; `utilization(rows, load_factor)` gives those
-    rows' lateral-torsional utilizations at that load factor. None when the bound does not apply (K with free movements)."""
+    rows' lateral-torsional utilizations at that load factor. The bounds are made on the solver's
+    base mesh and multiplied by `allowance` (sizer.checks.stability.refinement_allowance) to hold for
+    converged load factors; the arrangements solved are solved converged. None when the bound does
+    not apply (K with free movements, or a sparse base mesh)."""
     varying = np.flatnonzero(np.ptp(loads, axis=0) > 0)
     bits = loads[:, varying] != 0.0  # (A, J) which parts each arrangement loads
     off = np.flatnonzero(~bits.any(axis=1))
@@ -48,10 +52,12 @@ def lateral_over_arrangements(solver: SectionStability, loads: np.ndarray, deman
         weights = np.zeros(loads.shape[1])
         weights[column] = loads[np.flatnonzero(bits[:, k])[0], column]
         switches.append(weights)
+    if not hasattr(solver.reduced, "standard_forms"):  # a sparse level: each arrangement is solved on its own
+        return None
     forms = solver.reduced.standard_forms([solver.load_matrix("lateral", w) for w in [base] + switches])
     if forms is None:
         return None
-    search = _Search(solver, loads, bits, demand, utilization, forms)
+    search = _Search(solver, loads, bits, demand, utilization, forms, allowance)
     return search.run()
 
 
@@ -61,8 +67,9 @@ class _Search:
     bound in few splits where the mode is local to a span or two."""
 
     def __init__(self, solver: SectionStability, loads: np.ndarray, bits: np.ndarray, demand: np.ndarray,
-                 utilization: Callable[[np.ndarray, float], np.ndarray], forms: list[np.ndarray]) -> None:
+                 utilization: Callable[[np.ndarray, float], np.ndarray], forms: list[np.ndarray], allowance: float) -> None:
         self.solver, self.loads, self.bits, self.demand, self.utilization = solver, loads, bits, demand, utilization
+        self.allowance = allowance
         self.base, self.parts = forms[0], forms[1:]
         self.positive = [_positive_part(c) for c in self.parts]
         self.exact: dict[int, tuple[Buckling, bool]] = {}
@@ -81,7 +88,7 @@ class _Search:
                 total += positive
         values, vectors = np.linalg.eigh(total)
         top = float(values[-1])
-        return (1.0 / top * (1 - BOUND_SLACK), vectors[:, -1]) if top > 0 else (math.inf, None)
+        return (self.allowance / top * (1 - BOUND_SLACK), vectors[:, -1]) if top > 0 else (math.inf, None)
 
     def node(self, fixed: dict[int, bool]) -> tuple[float, dict[int, bool], np.ndarray, float, np.ndarray | None]:
         """(upper bound of the utilization, fixed switches, rows, load-factor bound, its shape) of one set."""
@@ -126,8 +133,8 @@ class _Search:
         return self.exact
 
     def solve(self, row: int) -> Buckling:
-        """The exact lowest load factor of one arrangement's load set."""
-        return self.solver.reduced.projected_modes(self.solver.load_matrix("lateral", self.loads[row]), 1)[0]
+        """The lowest load factor of one arrangement's load set, converged from this level's mesh."""
+        return self.solver.lateral(self.loads[row])
 
 
 def _positive_part(c: np.ndarray) -> np.ndarray:

@@ -3,6 +3,7 @@
 
 from __future__ import annotations
 
+import math
 from typing import Any
 
 import numpy as np
@@ -156,12 +157,25 @@ def stability_note(design: Design, report: StabilityReport, given: list[Buckling
     weight = ", self-weight included" if design.member.self_weight_case else ""
     text = (f"Buckling: eigen-solves on the member as it is ({len(model.mesh.nodes) - 1} thin-walled beam elements: "
             f"sideways and in-plane bending, twist and warping), for each combination {' and '.join(solves)}; "
-            f"the load factor scales the whole combination{weight}.")
+            f"the load factor scales the whole combination{weight}. "
+            f"Each load factor refined by halving every element until it changed by less than 1e-4 (up to {report.elements} elements)")
+    if not report.converged:
+        text += "; where 5 halvings did not reach that, the last value less its last change (on the safe side)"
+    if report.warping_elements:
+        text += (f"; warping held where the supports hold it, the mesh graded to {report.warping_elements * 1e3:.0f} mm elements "
+                 "next to them (the section's warping length sqrt(E Iw / G J) is shorter than the default elements)")
+    text += "."
     bounded = sum(entry.lateral_bound for entry in report.combinations)
     if bounded:
-        text += (f" Pattern arrangements: lateral-torsional buckling by branch and bound over the loaded spans; {bounded} of "
-                 f"{len(report.combinations)} arrangements were not solved on their own: a proven lower bound of their load "
-                 "factor (one eigen-solve for each set of arrangements that agree on the spans fixed so far) shows that none of them can govern.")
+        text += (f" Pattern arrangements: lateral-torsional buckling by branch and bound over the loaded spans, on the mesh the "
+                 f"converged solves needed; {bounded} of {len(report.combinations)} arrangements were not solved on their own: a "
+                 "proven lower bound of their load factor (one eigen-solve for each set of arrangements that agree on the spans "
+                 "fixed so far) shows that none of them can govern.")
+    section = report.section
+    if abs(float(section.Iyz)) > 1e-6 * math.sqrt(float(section.Iz) * float(section.Iy)):
+        text += (" The section's principal axes are not its y and z axes (an angle, say): the weaker-axis test compares the "
+                 "principal second moments I11, I22; the solves take the bending coupling E Iyz, the shear centre and the Wagner "
+                 "(monosymmetry) term in the section's axes, which is the principal-axis formulation written in those axes.")
     if given:
         text += " Euler loads on the given buckling lengths (" + ", ".join(f"{a.axis} {a.length:g} m" for a in given) + ") are kept beside them; the lower governs."
     return text

@@ -20,6 +20,7 @@ from sizer.checks.results import ZERO_ACTION
 from sizer.design import Design
 from sizer.errors import InputError
 from sizer.stability import Buckling, MemberStability, StabilitySection, minor_axis_is_weaker, stability_section
+from sizer.stability.section import has_weaker_axis
 
 N, MZ = 0, 5
 FIELD_WORDS = {0: "movement along the section's depth", 1: "sideways movement", 2: "twisting about the member axis"}
@@ -53,6 +54,9 @@ class StabilityReport:
     lateral_reason: str
     combinations: list[CombinationStability] = field(default_factory=list)
     solver: Any = None  # the section's solves (SectionStability), for solving bounded entries exactly
+    elements: int = 0  # the most elements a converged load factor needed
+    converged: bool = True  # False: some load factor was taken less its last change (see SectionStability)
+    warping_elements: float = 0.0  # m: the elements next to the warping holds, where the mesh was graded towards them (else 0)
 
     def bounded(self, names: Iterable[str]) -> list[int]:
         """Indices of the named combinations whose lateral load factor is a bound, not solved."""
@@ -74,9 +78,9 @@ def lateral_not_applicable(design: Design, section: StabilitySection, moments: n
             return "no bending about the section's major axis: it is bent about its weaker axis only"
         return "no bending about the section's major axis"
     if not minor_axis_is_weaker(section):
-        if np.isclose(section.Iz, section.Iy, rtol=1e-3):
-            return "the section has no weaker axis (Iz = Iy): it does not buckle sideways"
-        return "the section is bent about its weaker axis: it does not buckle sideways"
+        if not has_weaker_axis(section):
+            return "the section has no weaker axis (I11 = I22, principal second moments): it does not buckle sideways"
+        return "the section is bent about its weaker principal axis: it does not buckle sideways"
     return ""
 
 
@@ -108,6 +112,9 @@ def stability_report(design: Design, actions: np.ndarray, xs: np.ndarray, model:
         report.combinations.append(CombinationStability(
             name, float(compression[at_n]), float(xs[at_n]), float(moments[at_m]), float(xs[at_m]),
             float(np.sign(actions[c, at_m, MZ]) or 1.0), axial, lateral, bound))
+    report.elements, report.converged = solver.elements, solver.converged
+    if solver.model is not model:
+        report.warping_elements = solver.warping_elements()
     return report
 
 
@@ -145,9 +152,24 @@ def pattern_laterals(design: Design, actions: np.ndarray, xs: np.ndarray, solver
                 return np.zeros(len(c))
             return peak[c] * design.props.sigma_peak[2] / lateral_allowables(design, fb, peak[c], sign[c], factor)[2]
 
-        solved = lateral_over_arrangements(solver, loads[rows] + mass * per_mass[rows], peak[rows] > ZERO_ACTION, utilization)
+        weights = loads[rows] + mass * per_mass[rows]
+        solved = lateral_over_arrangements(solver, weights, peak[rows] > ZERO_ACTION, utilization, refinement_allowance(solver, weights))
         found.update({int(rows[row]): value for row, value in (solved or {}).items()})
     return found
+
+
+def refinement_allowance(solver: Any, weights: np.ndarray) -> float:
+    """The factor (at most 1) that the branch and bound's lower bounds, made on the base mesh, are
+    multiplied by so that they stay below converged load factors: the base mesh's load factors lie
+    above the converged ones (the finer meshes hold its shapes), by a relative change that depends on
+    the mode's shape more than on which spans are loaded; twice the change found for the heaviest
+    of these arrangements is allowed, and 1e-4 more for the convergence tolerance."""
+    heaviest = weights[int(np.argmax(np.abs(weights).sum(axis=1)))]
+    coarse = solver.reduced.modes(solver.load_matrix_full("lateral", heaviest), 1)[0].load_factor
+    fine = solver.lateral(heaviest).load_factor
+    if not (math.isfinite(coarse) and math.isfinite(fine)) or coarse <= 0.0:
+        return 1.0 - 1e-4
+    return max(0.0, 1.0 - 2.0 * max(0.0, 1.0 - fine / coarse) - 1e-4)
 
 
 def _checked(buckling: Buckling, model: MemberStability, design: Design, combination: str) -> Buckling:

@@ -21,6 +21,7 @@ from typing import Any
 import numpy as np
 
 from sizer.model import Member
+from sizer.stability.matrices import assemble
 from sizer.stability.mesh import Mesh
 
 V, W, PHI = 0, 1, 2
@@ -63,22 +64,15 @@ def support_rows(member: Member, mesh: Mesh, orientation: str) -> list[Row]:
     return rows
 
 
-def warping_rows(member: Member, mesh: Mesh, section: Any | None) -> list[Row]:
-    """Constraint rows of the supports that hold warping (phi' = 0). A hold is left out where the
-    section's warping length sqrt(EIw / GJ) is shorter than the elements next to the support: there
-    warping restraint acts only in a boundary layer the elements cannot follow, and holding phi'
-    there would stiffen them falsely (leaving it free is on the safe side). `section` None: every
-    hold acts (the strictest constraints, for shapes allowed for any section)."""
+def warping_rows(member: Member, mesh: Mesh) -> list[Row]:
+    """Constraint rows of the supports that hold warping (phi' = 0). Where the section's warping
+    length sqrt(EIw / GJ) is shorter than the elements next to the support, the twist has a boundary
+    layer there: the mesh is graded towards the support (sizer.stability.mesh.graded) and refined
+    until the load factor converges, so the hold is kept."""
     rows: list[Row] = []
-    warping_length = np.inf if section is None else float(np.sqrt(max(float(section.EIw), 0.0) / float(section.GJ)))
-    lengths = mesh.lengths
     for support in member.supports:
-        if not warping_held(support):
-            continue
-        node = mesh.node_at(support.at)
-        next_to = lengths[max(node - 1, 0):node + 1].max()
-        if warping_length >= next_to:
-            rows += _slope_rows(mesh, node, PHI)
+        if warping_held(support):
+            rows += _slope_rows(mesh, mesh.node_at(support.at), PHI)
     return rows
 
 
@@ -126,24 +120,49 @@ def spring_diagonal(member: Member, mesh: Mesh, orientation: str) -> np.ndarray:
 
 
 def admissible_basis(size: int, rows: list[Row]) -> np.ndarray:
-    """(size, k) orthonormal basis of the freedoms that satisfy every row (its null space), built
-    only over the freedoms the rows touch."""
+    """(size, k) orthonormal basis (dense or sparse: sizer.stability.matrices) of the freedoms that
+    satisfy every row (its null space), built
+    group by group: rows that share no freedom are independent, so each group of rows linked by
+    shared freedoms (a node's holds: a handful of freedoms) gets the null space of its own small
+    matrix, and every column of the basis touches one group only (the matrices stay banded)."""
     touched = sorted({dof for row in rows for dof in row})
     untouched = np.ones(size, bool)
     untouched[touched] = False
     free = np.flatnonzero(untouched)  # (np.setdiff1d would import numpy.ma, 12 ms of every command)
-    basis = np.zeros((size, 0))
-    if touched:
-        matrix = np.zeros((len(rows), len(touched)))
-        column = {dof: k for k, dof in enumerate(touched)}
-        for r, row in enumerate(rows):
+    entries = [(free, np.arange(len(free)), np.ones(len(free)))]
+    count = len(free)
+    for group_rows, group_dofs in _linked_groups(rows):
+        matrix = np.zeros((len(group_rows), len(group_dofs)))
+        column = {dof: k for k, dof in enumerate(group_dofs)}
+        for r, row in enumerate(group_rows):
             for dof, coefficient in row.items():
                 matrix[r, column[dof]] += coefficient
         _, singular, vh = np.linalg.svd(matrix)
         rank = int(np.sum(singular > 1e-12 * max(1.0, singular.max(initial=0.0))))
-        null = vh[rank:].T
-        basis = np.zeros((size, null.shape[1]))
-        basis[touched] = null
-    identity = np.zeros((size, len(free)))
-    identity[free, np.arange(len(free))] = 1.0
-    return np.hstack([identity, basis])
+        null = vh[rank:].T  # (group freedoms, its null space)
+        dofs, columns = np.meshgrid(group_dofs, count + np.arange(null.shape[1]), indexing="ij")
+        entries.append((dofs, columns, null))
+        count += null.shape[1]
+    return assemble((size, count), *(np.concatenate([np.ravel(part[k]) for part in entries]) for k in range(3)))
+
+
+def _linked_groups(rows: list[Row]) -> list[tuple[list[Row], list[int]]]:
+    """The rows in groups linked by shared freedoms, each with its sorted freedoms."""
+    parent: dict[int, int] = {}
+
+    def root(dof: int) -> int:
+        while parent.setdefault(dof, dof) != dof:
+            parent[dof] = parent[parent[dof]]
+            dof = parent[dof]
+        return dof
+
+    for row in rows:
+        first, *others = row
+        for dof in others:
+            parent[root(dof)] = root(first)
+    groups: dict[int, tuple[list[Row], set[int]]] = {}
+    for row in rows:
+        found = groups.setdefault(root(next(iter(row))), ([], set()))
+        found[0].append(row)
+        found[1].update(row)
+    return [(group_rows, sorted(dofs)) for group_rows, dofs in groups.values()]

@@ -14,6 +14,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from sizer.stability.matrices import assemble
 from sizer.stability.mesh import Mesh
 
 GAUSS_POINTS = 4
@@ -58,15 +59,15 @@ def quadrature(mesh: Mesh) -> Quadrature:
 
 
 def integral(quad: Quadrature, f: np.ndarray, first: tuple[int, str], second: tuple[int, str], symmetric: bool = True) -> np.ndarray:
-    """(size, size) matrix of integral f a_i b_j dx (plus its transpose when `symmetric` and the two
+    """(size, size) matrix (dense or sparse: sizer.stability.matrices) of integral f a_i b_j dx (plus its transpose when `symmetric` and the two
     parts differ: the form's symmetric matrix). `first`, `second`: (field, "value" | "slope" |
     "curvature"). `f`: (E, G) values at the Gauss points."""
     (fa, oa), (fb, ob) = first, second
     a, b = quad.shapes[ORDER[oa]], quad.shapes[ORDER[ob]]
     blocks = np.einsum("eg,egi,egj->eij", f * quad.weight, a, b)
     da, db = quad.mesh.element_freedoms(fa), quad.mesh.element_freedoms(fb)
-    out = np.zeros((quad.mesh.size, quad.mesh.size))
-    np.add.at(out, (da[:, :, None], db[:, None, :]), blocks)
+    rows, columns = np.broadcast_arrays(da[:, :, None], db[:, None, :])
+    out = assemble((quad.mesh.size, quad.mesh.size), rows, columns, blocks)
     if symmetric and first != second:
         out = out + out.T
     return out

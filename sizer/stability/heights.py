@@ -18,6 +18,7 @@ import numpy as np
 
 from sizer.model import LineLoad, Member, PointLoad
 from sizer.stability.elements import Quadrature, integral
+from sizer.stability.matrices import as_matrix, assemble
 
 PHI = 2
 HEIGHT_KEYS: tuple[str, ...] = ("top", "bottom", "centroid", "fixed")
@@ -49,7 +50,7 @@ def height_terms(quad: Quadrature, member: Member, orientation: str, weights: np
 
 
 class _Sums:
-    """Matrices by height key, made on first use; point terms go straight onto the diagonal."""
+    """Matrices by height key, made on first use (dense or sparse: sizer.stability.matrices)."""
 
     def __init__(self, size: int) -> None:
         self.size = size
@@ -57,7 +58,7 @@ class _Sums:
 
     def __getitem__(self, key: str) -> np.ndarray:
         if key not in self.sums:
-            self.sums[key] = np.zeros((self.size, self.size))
+            self.sums[key] = as_matrix(0.0, self.size)
         return self.sums[key]
 
     def __setitem__(self, key: str, value: np.ndarray) -> None:
@@ -80,8 +81,8 @@ def _add_point(out: "_Sums", quad: Quadrature, force: float, at: float, height: 
         return
     key = ("top" if force < 0 else "bottom") if height is None else (height if isinstance(height, str) else "fixed")
     scale = height if isinstance(height, float) else 1.0
-    dof = quad.mesh.value[quad.mesh.node_at(at), PHI]
-    out[key][dof, dof] += force * scale
+    dof = np.array([quad.mesh.value[quad.mesh.node_at(at), PHI]])
+    out[key] += assemble((out.size, out.size), dof, dof, np.array([force * scale]))
 
 
 def _add_line(out: "_Sums", quad: Quadrature, factor: float, load: LineLoad, axis: int) -> None:

@@ -22,7 +22,8 @@ from sizer.model import LineLoad, Member, PointLoad
 
 ELEMENTS_PER_LENGTH = 8  # elements over the member length, at least
 ELEMENTS_PER_BAY = 6  # elements between neighbouring supports or restraints, at least (a buckled half-wave fits in a bay)
-# With these the buckling loads are within 1e-4 of a mesh 8 times finer (tests/test_stability.py).
+ELEMENTS_AT_MOST = 400  # ... but elements no shorter than length / this (dense restraints: one element per short bay)
+# Every load factor is then refined until converged (sizer.stability.problem.SectionStability).
 FIELDS: tuple[str, ...] = ("v", "w", "phi")
 
 
@@ -93,10 +94,14 @@ def build_mesh(member: Member, per_length: int = ELEMENTS_PER_LENGTH, extra: lis
     nodes = [items[:1]]
     for a, b in zip(items[:-1], items[1:]):
         bay = np.searchsorted(bays, (a + b) / 2)
-        largest = min(member.length / per_length, (bays[bay] - bays[bay - 1]) / ELEMENTS_PER_BAY)
+        largest = max(min(member.length / per_length, (bays[bay] - bays[bay - 1]) / ELEMENTS_PER_BAY), member.length / ELEMENTS_AT_MOST)
         count = max(1, math.ceil((b - a) / largest - 1e-9))
         nodes.append(np.linspace(a, b, count + 1)[1:])
-    nodes = np.concatenate(nodes)
+    return mesh_on_nodes(member, np.concatenate(nodes), tol)
+
+
+def mesh_on_nodes(member: Member, nodes: np.ndarray, tol: float) -> Mesh:
+    """The mesh of `member` on the sorted node positions `nodes` (m), which include every item's."""
     hinges = {int(np.argmin(np.abs(nodes - h.at))) for h in member.hinges}
     m = len(nodes)
     value, left, right = np.zeros((m, 3), int), np.zeros((m, 3), int), np.zeros((m, 3), int)
@@ -111,3 +116,31 @@ def build_mesh(member: Member, per_length: int = ELEMENTS_PER_LENGTH, extra: lis
         else:
             right[i] = left[i]
     return Mesh(nodes, value, left, right, count, tol)
+
+
+def halved(member: Member, mesh: Mesh) -> Mesh:
+    """`mesh` with every element cut in two (its nodes kept: the finer mesh's shapes include the
+    coarser's, so its buckling load factors are no higher)."""
+    middles = (mesh.nodes[:-1] + mesh.nodes[1:]) / 2
+    return mesh_on_nodes(member, np.sort(np.concatenate([mesh.nodes, middles])), mesh.tol)
+
+
+GRADING = (0.25, 0.5, 1.0, 2.0, 4.0)  # node distances from a warping hold, in warping lengths
+
+
+def graded(member: Member, mesh: Mesh, holds: list[float], warping_length: float) -> Mesh:
+    """`mesh` with nodes added at GRADING x `warping_length` (m) from each warping hold at `holds`
+    (m), inside the elements next to it that are longer than one warping length: the twist's boundary layer
+    there (it decays over about one warping length sqrt(EIw / GJ)) is then followed by the elements.
+    The nodes of `mesh` are kept (its shapes are included). `mesh` itself when nothing is added."""
+    added = []
+    for at in holds:
+        node = mesh.node_at(at)
+        for side, neighbour in ((-1, node - 1), (1, node + 1)):
+            if 0 <= neighbour < len(mesh.nodes):
+                span = abs(mesh.nodes[neighbour] - mesh.nodes[node])
+                if span > warping_length:
+                    added += [mesh.nodes[node] + side * d for d in np.array(GRADING) * warping_length if mesh.tol < d < span - mesh.tol]
+    if not added:
+        return mesh
+    return mesh_on_nodes(member, merge_positions(np.concatenate([mesh.nodes, added]), mesh.tol), mesh.tol)

@@ -13,19 +13,20 @@ from __future__ import annotations
 
 import math
 from functools import cached_property
-from typing import Any, Iterable
+from typing import Any, Callable, Iterable
 
 import numpy as np
 
 from sizer.analysis import MemberSolution
 from sizer.analysis.section_axes import to_section_axes
 from sizer.model import Member
-from sizer.stability.boundary import admissible_basis, restraint_rows, spring_diagonal, support_rows, warping_rows
+from sizer.stability.boundary import admissible_basis, restraint_rows, spring_diagonal, support_rows, warping_held, warping_rows
 from sizer.stability.elements import quadrature
 from sizer.stability.heights import HEIGHT_KEYS, height_coefficients, height_terms
-from sizer.stability.mesh import ELEMENTS_PER_LENGTH, FIELDS, build_mesh
+from sizer.stability.mesh import ELEMENTS_PER_LENGTH, FIELDS, Mesh, build_mesh, graded, halved
 from sizer.stability.section import StabilitySection
-from sizer.stability.solve import Buckling, Reduced
+from sizer.stability.matrices import as_matrix, diagonal, largest_entry
+from sizer.stability.solve import Buckling, reduced
 from sizer.stability.terms import axial_coefficients, axial_terms, elastic_coefficients, elastic_terms, moment_coefficients, moment_terms, weighted_sum
 
 N, MY, MZ = 0, 4, 5
@@ -34,11 +35,11 @@ N, MY, MZ = 0, 4, 5
 class MemberStability:
     """Everything about one member's stability that does not depend on the section."""
 
-    def __init__(self, member: Member, solution: MemberSolution, per_length: int = ELEMENTS_PER_LENGTH) -> None:
+    def __init__(self, member: Member, solution: MemberSolution, per_length: int = ELEMENTS_PER_LENGTH, mesh: Mesh | None = None) -> None:
         self.member = member
         self.solution = solution
         self.orientation = member.orientation
-        self.mesh = build_mesh(member, per_length)
+        self.mesh = mesh if mesh is not None else build_mesh(member, per_length)
         self.quad = quadrature(self.mesh)
         self.elastic = elastic_terms(self.quad)
         self.springs = spring_diagonal(member, self.mesh, self.orientation)
@@ -47,6 +48,29 @@ class MemberStability:
         self._terms: dict[tuple[str, int], tuple[dict[str, np.ndarray], dict[str, np.ndarray]]] = {}
         self._columns: dict[tuple[str, int, bool], dict[str, np.ndarray]] = {}
         self._live: dict[str, frozenset[int]] = {}
+        self._meshes: dict[bytes, MemberStability] = {}
+
+    def on_mesh(self, mesh: Mesh) -> "MemberStability":
+        """This member on another mesh (made once per set of nodes)."""
+        key = mesh.nodes.tobytes()
+        if key == self.mesh.nodes.tobytes():
+            return self
+        if key not in self._meshes:
+            self._meshes[key] = MemberStability(self.member, self.solution, mesh=mesh)
+        return self._meshes[key]
+
+    def refined(self) -> "MemberStability":
+        """This member on its mesh with every element cut in two."""
+        return self.on_mesh(halved(self.member, self.mesh))
+
+    def graded_for(self, section: StabilitySection) -> "MemberStability":
+        """This member on its mesh graded towards the supports that hold warping, for the section's
+        warping length sqrt(EIw / GJ) (see sizer.stability.mesh.graded); itself when nothing is added."""
+        holds = [support.at for support in self.member.supports if warping_held(support)]
+        if not holds or not float(section.GJ) > 0.0:
+            return self
+        length = math.sqrt(max(float(section.EIw), 0.0) / float(section.GJ))
+        return self.on_mesh(graded(self.member, self.mesh, holds, length))
 
     def actions(self, weights: np.ndarray) -> np.ndarray:
         """(E, G, 6) internal actions in the section's axes at the Gauss points of the load set
@@ -56,11 +80,11 @@ class MemberStability:
 
     def stiffness(self, section: StabilitySection) -> np.ndarray:
         """K (size, size): the elastic matrices weighted by the section's rigidities, plus springs."""
-        return weighted_sum(self.elastic, elastic_coefficients(section)) + np.diag(self.springs)
+        return weighted_sum(self.elastic, elastic_coefficients(section)) + diagonal(self.springs)
 
     def basis(self, section: StabilitySection) -> np.ndarray:
         """The admissible freedoms: supports and restraints (heights and warping holds depend on the section)."""
-        rows = self.supports + warping_rows(self.member, self.mesh, section) + restraint_rows(self.member, self.mesh, section)
+        rows = self.supports + warping_rows(self.member, self.mesh) + restraint_rows(self.member, self.mesh, section)
         return admissible_basis(self.mesh.size, rows)
 
     def load_set_terms(self, kind: str, weights: np.ndarray) -> dict[str, np.ndarray]:
@@ -106,7 +130,7 @@ class MemberStability:
         none in the lateral solve): the others are left out of the load sets that solves share."""
         if kind not in self._live:
             self._live[kind] = frozenset(column for column in range(len(self.cases) + 1)
-                                         if any(np.any(matrix) for matrix in self.column_terms(kind, column, True).values()))
+                                         if any(largest_entry(matrix) > 0.0 for matrix in self.column_terms(kind, column, True).values()))
         return self._live[kind]
 
     def column_terms(self, kind: str, column: int, positive: bool) -> dict[str, np.ndarray]:
@@ -137,8 +161,11 @@ class MemberStability:
         return self.for_section(section).lateral(weights)
 
     def for_section(self, section: StabilitySection) -> "SectionStability":
-        """The solves of one section, its stiffness and admissible freedoms made once."""
-        return SectionStability(self, section, self.stiffness(section), self.basis(section))
+        """The solves of one section, its stiffness and admissible freedoms made once: on this mesh
+        graded towards the warping holds for the section, refined until converged (SectionStability);
+        the buckled shapes are given on this mesh."""
+        model = self.graded_for(section)
+        return SectionStability(model, section, model.stiffness(section), model.basis(section), self.mesh)
 
     def energy_shares(self, section: StabilitySection, mode: np.ndarray) -> dict[str, float]:
         """Share of a buckled shape's strain energy in each field: "v" (bending in the depth plane),
@@ -163,60 +190,137 @@ class MemberStability:
         return {name: np.einsum("ni,ni->n", shapes, mode[self.mesh.element_freedoms(k)[e]]) for k, name in enumerate(FIELDS)}
 
 
-class SectionStability:
-    """One section on the member: K and the admissible freedoms made once, for any load set."""
+CONVERGED = 1e-4  # a load factor is taken when halving every element changes it by less than this, relative
+HALVINGS = 5  # at most this many halvings of the elements (and SIZE_LIMIT freedoms)
+SIZE_LIMIT = 200_000
 
-    def __init__(self, model: MemberStability, section: StabilitySection, stiffness: np.ndarray, basis: np.ndarray) -> None:
+
+class SectionStability:
+    """One section on the member: K and the admissible freedoms made once, for any load set. Every
+    load factor is converged: the solve is made again with every element cut in two until the load
+    factor changes by less than CONVERGED (relative; the finer mesh's shapes include the coarser's,
+    so the load factors fall as the mesh is refined, towards the member's). Should HALVINGS halvings
+    not reach that, the last value less its last change is taken (on the safe side while each
+    halving at least halves the error; the elements converge as h^4) and `converged` says so."""
+
+    def __init__(self, model: MemberStability, section: StabilitySection, stiffness: np.ndarray, basis: np.ndarray,
+                 base: Mesh | None = None) -> None:
         self.model, self.section = model, section
-        self.reduced = Reduced(stiffness, basis)
+        self.reduced = reduced(stiffness, basis)
+        self.base = model.mesh if base is None else base  # the mesh the buckled shapes are given on
         self._columns: dict[tuple[str, int, bool], np.ndarray] = {}
         self._solved = {"axial": SameLoadSets(), "lateral": SameLoadSets()}
+        self._finer: SectionStability | None = None
+        self.elements = len(model.mesh.nodes) - 1  # the most elements an accepted load factor needed
+        self.converged = True  # False when some load factor was not converged within HALVINGS
+
+    def warping_elements(self) -> float:
+        """The shortest element (m) next to a support that holds warping, on this level's mesh."""
+        mesh = self.model.mesh
+        nodes = [mesh.node_at(support.at) for support in self.model.member.supports if warping_held(support)]
+        lengths = mesh.lengths
+        return min((float(lengths[max(node - 1, 0):node + 1].min()) for node in nodes), default=0.0)
+
+    def finer(self) -> "SectionStability":
+        """This section on the mesh with every element cut in two (made once)."""
+        if self._finer is None:
+            fine = self.model.refined()
+            self._finer = SectionStability(fine, self.section, fine.stiffness(self.section), fine.basis(self.section), self.base)
+        return self._finer
 
     def axial(self, weights: np.ndarray) -> Buckling:
-        return self.reduced.modes(self.model.geometry("axial", self.section, weights), 1)[0]
+        return self._converged(lambda level: level.reduced.modes(level.model.geometry("axial", level.section, weights), 1)[0])
 
     def lateral(self, weights: np.ndarray) -> Buckling:
-        return self.reduced.modes(self.model.geometry("lateral", self.section, weights), 1)[0]
+        return self._converged(lambda level: level.reduced.modes(level.model.geometry("lateral", level.section, weights), 1)[0])
+
+    def _converged(self, solve: Callable[["SectionStability"], Buckling]) -> Buckling:
+        """The converged load factor of `solve` on this mesh and its halvings (see the class
+        docstring), with the buckled shape on the base mesh."""
+        level, found, previous = self, solve(self), math.inf
+        if found.free_movement:
+            return Buckling(found.load_factor, level.on_base(found.mode), True)
+        for _ in range(HALVINGS):
+            if level.model.mesh.size * 2 > SIZE_LIMIT:
+                break
+            finer = level.finer()
+            if hasattr(finer.reduced, "hint"):  # the sparse solve starts its search there
+                finer.reduced.hint = found.load_factor
+            fine = solve(finer)
+            if fine.free_movement or _agree(found.load_factor, fine.load_factor):
+                self.elements = max(self.elements, len(finer.model.mesh.nodes) - 1)
+                return Buckling(fine.load_factor, finer.on_base(fine.mode), fine.free_movement)
+            level, found, previous = finer, fine, found.load_factor
+        self.converged = False
+        self.elements = max(self.elements, len(level.model.mesh.nodes) - 1)
+        bound = max(found.load_factor - abs(previous - found.load_factor), 0.0) if math.isfinite(previous) else found.load_factor
+        return Buckling(bound, level.on_base(found.mode))
+
+    def on_base(self, mode: np.ndarray | None) -> np.ndarray | None:
+        """A buckled shape on this level's mesh as values and slopes at the base mesh's nodes (which
+        this mesh has), largest |value| 1."""
+        if mode is None or self.model.mesh is self.base:
+            return mode
+        mesh, base = self.model.mesh, self.base
+        nodes = np.array([mesh.node_at(x) for x in base.nodes])
+        out = np.zeros(base.size)
+        for table in ("value", "slope_left", "slope_right"):
+            out[getattr(base, table)] = mode[getattr(mesh, table)[nodes]]
+        peak = np.abs(out).max(initial=0.0)
+        return out / peak if peak > 0 else out
 
     def combination(self, kind: str, combination: int, mass: float) -> Buckling:
         """The lowest load factor of a combination (self-weight of `mass` kg/m) for `kind` "axial" or
-        "lateral". Combinations whose load sets for this kind are the same up to a positive factor
-        share one solve (the load factor scales inversely with the loads, the buckled shape is the
-        same): a case that gives no geometric term of the kind (a sideways wind in the lateral
-        solve, say) counts as absent, and a combination that only scales another (0.6 x dead) is
-        solved once."""
+        "lateral", converged. Combinations whose load sets for this kind are the same up to a
+        positive factor share one solve (the load factor scales inversely with the loads, the
+        buckled shape is the same): a case that gives no geometric term of the kind (a sideways wind
+        in the lateral solve, say) counts as absent, and a combination that only scales another
+        (0.6 x dead) is solved once."""
         loads, per_mass = self.model.rows
         live = self.model.live_columns(kind)
         shape, scale = load_shape((column, weight) for column, weight in enumerate(loads[combination] + mass * per_mass[combination])
                                   if column in live)
         if not shape:
             return Buckling(math.inf, None)
+        found = self._converged(lambda level: level._shape_solve(kind, shape))
+        return Buckling(found.load_factor / scale, found.mode, found.free_movement)
+
+    def _shape_solve(self, kind: str, shape: "LoadShape") -> Buckling:
+        """The lowest load factor of a load shape on this level's mesh (made once per shape)."""
         found = self._solved[kind].find(shape)
         if found is None:
             b = sum(share * self._column(kind, column, positive) for column, positive, share in shape)
-            found = self.reduced.projected_modes(b, 1)[0]
+            found = self.reduced.modes(b, 1)[0]
             self._solved[kind].add(shape, found)
-        return Buckling(found.load_factor / scale, found.mode, found.free_movement)
+        return found
 
     def load_matrix(self, kind: str, weights: np.ndarray) -> np.ndarray:
         """B of a load set (weights as a row of MemberSolution.weights, self-weight included) for this
         section, projected as Reduced.project: the sum of its live columns' matrices."""
+        return self.reduced.project(self.load_matrix_full(kind, weights))
+
+    def load_matrix_full(self, kind: str, weights: np.ndarray) -> Any:
+        """B of a load set on this level's mesh before projection (what Reduced.modes takes)."""
         live = self.model.live_columns(kind)
-        size = self.reduced.k.shape[0]
-        total = np.zeros((size, size))
-        for column, weight in enumerate(np.asarray(weights, dtype=float)):
-            if weight != 0.0 and column in live:
-                total += abs(weight) * self._column(kind, column, weight > 0)
-        return total
+        parts = [abs(weight) * self._column(kind, column, weight > 0)
+                 for column, weight in enumerate(np.asarray(weights, dtype=float)) if weight != 0.0 and column in live]
+        return sum(parts[1:], parts[0]) if parts else np.zeros((self.model.mesh.size,) * 2)
 
     def _column(self, kind: str, column: int, positive: bool) -> np.ndarray:
-        """B of one load-case column at weight +1 or -1 for this section, projected (made once)."""
+        """B of one load-case column at weight +1 or -1 for this section (made once; a load shape's B,
+        their sum, is projected onto the admissible freedoms once)."""
         key = (kind, column, positive)
         if key not in self._columns:
             terms = self.model.column_terms(kind, column, positive)
-            full = -weighted_sum(terms, term_coefficients(kind, self.section)) + np.zeros((self.model.mesh.size,) * 2)
-            self._columns[key] = self.reduced.project(full)
+            self._columns[key] = as_matrix(-weighted_sum(terms, term_coefficients(kind, self.section)), self.model.mesh.size)
         return self._columns[key]
+
+
+def _agree(coarse: float, fine: float) -> bool:
+    """True when two load factors of successive meshes agree to CONVERGED (both infinite: no buckling)."""
+    if math.isinf(coarse) and math.isinf(fine):
+        return True
+    return abs(coarse - fine) <= CONVERGED * abs(fine)
 
 
 LoadShape = tuple[tuple[int, bool, float], ...]  # (column, positive, |weight| / largest |weight|) of a load set

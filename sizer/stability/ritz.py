@@ -34,7 +34,7 @@ def strict_rows(model: MemberStability) -> list[dict[int, float]]:
     faced = tuple(replace(r, twist=True, height="centre") if r.lateral and isinstance(r.height, str) and r.height != "centre" else r
                   for r in member.restraints)
     strict = replace(member, restraints=faced)
-    return model.supports + warping_rows(member, model.mesh, None) + restraint_rows(strict, model.mesh, None)
+    return model.supports + warping_rows(member, model.mesh) + restraint_rows(strict, model.mesh, None)
 
 
 @dataclass(frozen=True)
@@ -52,12 +52,15 @@ class Projection:
 def project(model: MemberStability, shapes: np.ndarray, terms_loads: dict[str, np.ndarray], terms_mass: dict[str, np.ndarray]) -> Projection:
     """The Projection of a member's matrices over the span of `shapes` (n, k'), orthonormalized."""
     trial = _independent(shapes)
-    zero = np.zeros((model.mesh.size, model.mesh.size))
     names = set(terms_loads) | set(terms_mass)
+
+    def projected(terms: dict[str, np.ndarray], name: str) -> np.ndarray:
+        return trial.T @ terms[name] @ trial if name in terms else np.zeros((trial.shape[1],) * 2)
+
     return Projection({name: trial.T @ matrix @ trial for name, matrix in model.elastic.items()},
                       (trial.T * model.springs) @ trial,
-                      {name: trial.T @ terms_loads.get(name, zero) @ trial for name in names},
-                      {name: trial.T @ terms_mass.get(name, zero) @ trial for name in names})
+                      {name: projected(terms_loads, name) for name in names},
+                      {name: projected(terms_mass, name) for name in names})
 
 
 def assemble(projection: Projection, sections: StabilitySection, masses: np.ndarray,

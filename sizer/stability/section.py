@@ -83,7 +83,28 @@ def section_of(values: Any, elastic_modulus: float, shear_modulus: float) -> Sta
                             y_top=v["y_top"], y_bottom=v["y_bottom"])
 
 
+def principal_inertias(section: Any) -> tuple[Any, Any]:
+    """(I11, I22) (m^4): the section's largest and smallest second moments, about its principal
+    axes (which differ from y and z where Iyz is not zero: angles, Z sections)."""
+    Iz, Iy, Iyz = (np.asarray(getattr(section, name), float) for name in ("Iz", "Iy", "Iyz"))
+    mean, half = (Iz + Iy) / 2, np.hypot((Iz - Iy) / 2, Iyz)
+    return mean + half, mean - half
+
+
+def has_weaker_axis(section: Any, tolerance: float = 1e-3) -> Any:
+    """True where the principal second moments differ by more than `tolerance` (relative): False
+    for round and square shapes, which bend alike about every axis."""
+    i11, i22 = principal_inertias(section)
+    return i11 > i22 * (1 + tolerance)
+
+
 def minor_axis_is_weaker(section: Any, tolerance: float = 1e-3) -> Any:
-    """True where bending about the section's z axis is about its stronger axis by more than
-    `tolerance` (relative): only such a member can buckle sideways."""
-    return np.asarray(section.Iz) > np.asarray(section.Iy) * (1 + tolerance)
+    """True where bending about the section's z axis can buckle the member sideways: the section has
+    a weaker principal axis (has_weaker_axis) and the z axis is not it, so that bending about z bends
+    it about its stronger principal axis in part (cos^2 of the angle between z and the 11 axis,
+    (Iz - I22) / (I11 - I22), above `tolerance`): every I, channel or tee bent about its major axis,
+    and an angle (principal axes at some angle to its legs: an equal-leg angle has I11 / I22 of
+    about 3.9, its legs' axes half way between) bent about either leg's axis."""
+    i11, i22 = principal_inertias(section)
+    share = (np.asarray(section.Iz, float) - i22) / np.where(i11 > i22, i11 - i22, 1.0)
+    return has_weaker_axis(section, tolerance) & (share > tolerance)

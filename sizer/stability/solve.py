@@ -15,12 +15,15 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 from functools import lru_cache
+from typing import Any
 
 import numpy as np
 
 ZERO_GEOMETRY = 1e-13  # |B| entries below this fraction of the largest count as zero
 ZERO_STIFFNESS = 1e-10  # eigenvalues of the scaled K below this are free movements
 NO_BUCKLING = 1e-12  # mu below this fraction of the largest |B| eigenvalue scale: no buckling
+BRACKET = 1.25  # the sparse solve's bracket of the lowest load factor is closed to this ratio before iterating
+NO_LOAD_FACTOR = 1e15  # the sparse solve looks for load factors up to this (above: no buckling)
 INVERSE_SHIFT = 1e-9  # inverse iteration's shift above the largest eigenvalue, as a fraction of the largest |eigenvalue|
 
 
@@ -35,6 +38,35 @@ class Buckling:
     free_movement: bool = False
 
 
+class Congruence:
+    """P^T A P for a basis P (n, k) whose columns are mostly unit vectors (a free freedom each) and a
+    few short ones (the freedoms a support or restraint ties together): the unit columns pick rows
+    and columns of A, the others act through their few rows, so the cost is about n k, not n^2 k."""
+
+    def __init__(self, basis: np.ndarray) -> None:
+        nonzero = basis != 0
+        unit = (nonzero.sum(axis=0) == 1) & np.isclose(np.abs(basis).max(axis=0, initial=0.0), 1.0, rtol=0.0, atol=1e-15)
+        self.unit_columns = np.flatnonzero(unit)
+        self.unit_rows = np.argmax(nonzero[:, unit], axis=0)
+        self.unit_signs = basis[self.unit_rows, self.unit_columns]
+        self.other_columns = np.flatnonzero(~unit)
+        self.touched = np.flatnonzero(nonzero[:, ~unit].any(axis=1))
+        self.block = basis[np.ix_(self.touched, self.other_columns)]
+        self.shape = basis.shape
+
+    def of(self, A: np.ndarray) -> np.ndarray:
+        """P^T A P (k, k), block by block (unit columns u, other columns o)."""
+        u, o, rows, touched, block = self.unit_columns, self.other_columns, self.unit_rows, self.touched, self.block
+        signs = self.unit_signs
+        out = np.empty((self.shape[1],) * 2)
+        out[np.ix_(u, u)] = A[np.ix_(rows, rows)] * np.outer(signs, signs)
+        if len(o):
+            out[np.ix_(u, o)] = (A[np.ix_(rows, touched)] @ block) * signs[:, None]
+            out[np.ix_(o, u)] = (block.T @ A[np.ix_(touched, rows)]) * signs[None, :]
+            out[np.ix_(o, o)] = block.T @ A[np.ix_(touched, touched)] @ block
+        return out
+
+
 class Reduced:
     """K on the admissible freedoms, diagonally scaled, with what does not depend on B made once: its
     free movements, and for each set of freedoms that B touches the exact condensation of the others
@@ -42,7 +74,8 @@ class Reduced:
 
     def __init__(self, K: np.ndarray, basis: np.ndarray) -> None:
         self.basis = basis
-        k = basis.T @ K @ basis
+        self._congruence = Congruence(basis)
+        k = self._congruence.of(K)
         diagonal = np.diag(k).copy()
         diagonal[diagonal <= 0] = 1.0
         self.scale = 1.0 / np.sqrt(diagonal)
@@ -52,7 +85,7 @@ class Reduced:
 
     def project(self, B: np.ndarray) -> np.ndarray:
         """B on the admissible freedoms, scaled as K is (the solves are linear in it)."""
-        return (self.basis.T @ B @ self.basis) * np.outer(self.scale, self.scale)
+        return self._congruence.of(B) * np.outer(self.scale, self.scale)
 
     def modes(self, B: np.ndarray, count: int) -> list[Buckling]:
         """The `count` lowest positive load factors of K d = lam B d and their shapes."""
@@ -125,6 +158,120 @@ class Reduced:
 
     def _full(self, reduced: np.ndarray) -> np.ndarray:
         return _full(self.basis, self.scale, reduced)
+
+
+def reduced(K: Any, basis: Any) -> Any:
+    """The solver of K d = lam B d on the admissible freedoms: Reduced for dense matrices,
+    SparseReduced for sparse ones (sizer.stability.matrices)."""
+    return SparseReduced(K, basis) if hasattr(K, "tocsr") else Reduced(K, basis)
+
+
+class SparseReduced:
+    """Reduced for sparse matrices (thousands of freedoms): K on the admissible freedoms, diagonally
+    scaled, factorized once (sparse LU); each B solved by Lanczos iteration (scipy's eigsh, ARPACK)
+    for the largest mu of B d = mu K d, with K's factors as the inverse. Where K is singular on the
+    admissible freedoms (a free movement: rare with the many restraints that make a mesh this
+    large) the dense Reduced decides instead."""
+
+    def __init__(self, K: Any, basis: Any) -> None:
+        from scipy.sparse import diags
+        from scipy.sparse.linalg import splu
+
+        self.basis = basis.tocsr()
+        k = (self.basis.T @ K @ self.basis).tocsc()
+        diagonal = k.diagonal().copy()
+        diagonal[diagonal <= 0] = 1.0
+        self.scale = 1.0 / np.sqrt(diagonal)
+        self._scaling = diags(self.scale)
+        self.k = (self._scaling @ k @ self._scaling).tocsc()
+        self.dense: Reduced | None = None
+        try:
+            self.factors = splu(self.k)
+            pivots = np.abs(self.factors.U.diagonal())
+            singular = pivots.min(initial=np.inf) <= ZERO_STIFFNESS * max(1.0, pivots.max(initial=0.0))
+        except RuntimeError:  # exactly singular
+            singular = True
+        if singular:
+            self.dense = Reduced(self.k.toarray(), np.eye(self.k.shape[0]))
+        self.hint = 1.0  # where the bracket search starts: a load factor expected near the lowest (a coarser mesh's)
+        self.offset = 0 if singular else _negative_pivots(self.k)[1]  # K's own (round-off on very fine meshes), not counted
+
+    def project(self, B: Any) -> Any:
+        """B on the admissible freedoms, scaled as K is."""
+        return (self._scaling @ (self.basis.T @ B @ self.basis) @ self._scaling).tocsr()
+
+    def modes(self, B: Any, count: int) -> list[Buckling]:
+        return self.projected_modes(self.project(B), count)
+
+    def projected_modes(self, b: Any, count: int) -> list[Buckling]:
+        """modes() of a B already projected: the lowest positive load factor bracketed by the inertia
+        of K - sigma B (its negative pivots count the load factors in (0, sigma): Sylvester's law of
+        inertia, K positive definite), then found by shift-invert Lanczos iteration about the
+        bracket's lower end (scipy's eigsh in buckling mode), where it is the largest transformed
+        eigenvalue, well apart from the others. `count` > 1: the others above it follow."""
+        from scipy.sparse.linalg import LinearOperator, eigsh
+
+        size = float(abs(b).max()) if b.nnz else 0.0
+        if size == 0.0:
+            return [Buckling(math.inf, None)]
+        if self.dense is not None:
+            found = self.dense.projected_modes(b.toarray(), count)
+            return [item if item.mode is None else Buckling(item.load_factor, self._full(item.mode), item.free_movement) for item in found]
+        bracket = self._bracket(b)
+        if bracket is None:
+            return [Buckling(math.inf, None)]
+        sigma, factors = bracket
+        n = self.k.shape[0]
+        inverse = LinearOperator((n, n), matvec=factors.solve, dtype=float)
+        values, vectors = eigsh(self.k, k=count, M=b, sigma=sigma, mode="buckling", OPinv=inverse, which="LA", tol=1e-12,
+                                v0=_start_vector(n))
+        order = np.argsort(values)
+        return [Buckling(float(values[i]), self._full(vectors[:, i])) for i in order if values[i] > 0]
+
+    def _bracket(self, b: Any) -> tuple[float, Any] | None:
+        """(sigma, LU factors of K - sigma B) with no load factor in (0, sigma] and the lowest within
+        (sigma, BRACKET sigma]; None when there is none below NO_LOAD_FACTOR (no buckling)."""
+        sigma = self.hint if math.isfinite(self.hint) and self.hint > 0 else 1.0
+        factors, below = self._inertia(b, sigma)
+        if below:
+            while below:
+                high, sigma = sigma, sigma / 2
+                factors, below = self._inertia(b, sigma)
+                if below and sigma < NO_LOAD_FACTOR**-1:  # buckles under next to no load
+                    return sigma, factors
+        else:
+            high = 2 * sigma
+            while not self._inertia(b, high)[1]:
+                sigma, high = high, 2 * high
+                if high > NO_LOAD_FACTOR:
+                    return None
+            factors = self._inertia(b, sigma)[0]
+        while high > BRACKET * sigma:  # bisect: the closer sigma, the faster the iteration
+            middle = math.sqrt(sigma * high)
+            middle_factors, below = self._inertia(b, middle)
+            if below:
+                high = middle
+            else:
+                sigma, factors = middle, middle_factors
+        return sigma, factors
+
+    def _inertia(self, b: Any, sigma: float) -> tuple[Any, int]:
+        """LU factors of K - sigma B and the count of its negative pivots beyond K's own (`offset`)."""
+        factors, negative = _negative_pivots(self.k - sigma * b)
+        return factors, negative - self.offset
+
+    def _full(self, reduced: np.ndarray) -> np.ndarray:
+        return _full(self.basis, self.scale, reduced)
+
+
+def _negative_pivots(matrix: Any) -> tuple[Any, int]:
+    """Sparse LU factors of a symmetric matrix with a symmetric ordering and no row exchanges (the
+    pivots are those of an LDL^T factorization: their signs give its inertia), and the count of
+    negative pivots."""
+    from scipy.sparse.linalg import splu
+
+    factors = splu(matrix.tocsc(), permc_spec="MMD_AT_PLUS_A", diag_pivot_thresh=0.0, options={"SymmetricMode": True})
+    return factors, int(np.sum(factors.U.diagonal() < 0))
 
 
 def _largest_eigenpairs(c: np.ndarray, count: int) -> tuple[np.ndarray, np.ndarray]:
