@@ -260,3 +260,18 @@ def test_a_couple_at_a_cantilever_tip_is_the_published_case(tmp_path: Path) -> N
             '[[loads]]\ntype = "moment"\nat = "2 m"\nmz = "-10 kN*m"\n')
     _, document = check(tmp_path, text)
     assert any("Couple at the free end (2 m)" in note and "quasi-tangential" in note for note in document["assumptions"])
+
+
+def test_a_channel_loaded_at_its_centroid_twists_more_under_its_moment(tmp_path: Path) -> None:
+    """C 200x80x7, 4 m, 5 kN/m at the centroid (tests/test_torsion.py has its first-order closed form):
+    the load's torque twists the channel, and the major-axis moment couples that twist with sideways
+    bending, so the peak stress rises; an elastic member's second-order response is amplified by at
+    most about 1 / (1 - 1/lambda), lambda its lateral-torsional load factor (Trahair, Flexural-Torsional
+    Buckling of Structures, from memory)."""
+    from test_torsion import _check
+
+    first, second = _check(tmp_path), _check(tmp_path, checks="")
+    stress = {name: by_name(doc, "bending")["demand"] for name, doc in (("first", first), ("second", second))}
+    factor = by_name(second, "lateral-torsional")["load_factor"]
+    assert first["second_order"] is None and second["second_order"] is not None
+    assert stress["first"] * 1.05 < stress["second"] < stress["first"] / (1 - 1 / factor)

@@ -31,6 +31,7 @@ class SecondOrderActions:
     stations: np.ndarray  # (S,) m
     first: np.ndarray  # (C, S, 6) first-order actions
     actions: np.ndarray  # (C, S, 6) second-order actions (first order where beyond buckling)
+    warping: np.ndarray  # (C, S, 2) increments of the bimoment B (N*m^2) and the warping torque Tw (N*m)
     names: tuple[str, ...]
     responses: list  # sizer.stability.second_order.LoadSetResponse per combination
     elements: int  # elements per member length of the converged mesh
@@ -83,14 +84,20 @@ def second_order_actions(design: Design, xs: np.ndarray, sides: np.ndarray, firs
 
     section = stability_section(design.props, design.material.elastic_modulus, design.material.shear_modulus)
     bow = settings.bow(design.member.length)
+    from sizer.checks.torsion import member_axes_offset, warping_rigidity
+
     mass = (design.mass_per_length or 0.0) if design.member.self_weight_case else 0.0
-    solver = SecondOrder(design.member, design.solution, section, bow, mass)
+    solver = SecondOrder(design.member, design.solution, section, bow, mass, member_axes_offset(design))
     right = np.asarray(sides) == "right"
     responses = solver.responses(xs, right, first)
     actions = first.copy()
+    warping = np.zeros(first.shape[:2] + (2,))
     for c, response in enumerate(responses):
         actions[c, :, :6] += response.actions(xs, right)
-    return SecondOrderActions(np.asarray(xs, float), first, actions, design.solution.combination_names, responses, solver.elements, bow)
+        if warping_rigidity(design):  # else uniform torsion, as the first-order twist solve takes it
+            warping[c] += response.warping(xs, right)
+    return SecondOrderActions(np.asarray(xs, float), first, actions, warping, design.solution.combination_names, responses,
+                              solver.elements, bow)
 
 
 def second_order_check(found: SecondOrderActions | None) -> CheckResult:
@@ -158,7 +165,8 @@ def second_order_notes(design: Design, found: SecondOrderActions | None) -> list
             f"member length, {bow}; the increment over first order is added to the exact first-order actions; tension lowers "
             "the moments. Bending, interaction, shear, equivalent, local and deflection checks use these actions; the buckling "
             "and lateral-torsional checks use the first-order actions (their load factors scale the combination as it is). "
-            "Twist: the whole torque (Saint-Venant and warping) is taken as Saint-Venant torque in the stress field."]
+            "Twist: the increments of the torque, the warping torque and the bimoment join the first-order ones in the "
+            "stress field; loads across the section add their torques to the solve."]
 
 
 def _bow_text(design: Design) -> str:

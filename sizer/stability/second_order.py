@@ -18,8 +18,9 @@ transverse loads f: a pattern of transverse loads under one axial force distribu
 superposed (the geometric matrix, not the loads, carries the nonlinearity).
 
 Actions from the fields (section axes, the member file's signs): Mz = EIz v'' + EIyz w'',
-My = -(EIyz v'' + EIy w''), Vy = -dMz/dx, Vz = dMy/dx, T = GJ phi' - EIw phi''' (the whole torque,
-Saint-Venant and warping, taken as Saint-Venant torque in the stress field). The mesh is refined
+My = -(EIyz v'' + EIy w''), Vy = -dMz/dx, Vz = dMy/dx, T = GJ phi' - EIw phi''' (the whole torque),
+the warping torque Tw = -EIw phi''' and the bimoment B = EIw phi'' (as sizer.analysis.torsion).
+Loads across the section (off the shear centre) add their torques (sizer.analysis.torsion). The mesh is refined
 (elements per member length doubled) until the increments of the moments at the check stations
 change by less than CONVERGED of the largest second-order moment, up to FINEST elements.
 
@@ -72,6 +73,14 @@ class LoadSetResponse:
         increment = field_derivatives(self.model, self.u2 - self.u1, xs, right)  # the actions are linear in the fields
         return to_member_axes(section_actions(increment, self.section), self.model.orientation)
 
+    def warping(self, xs: np.ndarray, right: np.ndarray) -> np.ndarray:
+        """(S, 2) increments of the bimoment B = E Iw phi'' (N*m^2) and the warping torque
+        Tw = -E Iw phi''' (N*m) at stations xs (m); zero when beyond buckling."""
+        if self.beyond or self.model is None:
+            return np.zeros((len(xs), 2))
+        phi = field_derivatives(self.model, self.u2 - self.u1, xs, right)[PHI]
+        return np.column_stack([self.section.EIw * phi[2], -self.section.EIw * phi[3]])
+
     def displacements(self, xs: np.ndarray, right: np.ndarray | None = None) -> np.ndarray:
         """(S, 6) increments of the displacements ux..rz (m, rad) in member axes; zero when beyond buckling."""
         if self.beyond or self.model is None:
@@ -96,6 +105,24 @@ def load_vectors(model: MemberStability, member: Member, orientation: str) -> np
             _add_point_load(out[k], model, load, orientation)
         elif isinstance(load, LineLoad) and load.end > load.start:
             _add_line_load(out[k], model, quad, load, orientation)
+    return out
+
+
+def torque_vectors(model: MemberStability, member: Member, centroid: tuple[float, float]) -> np.ndarray:
+    """(n_cases + 1, size) the nodal torques on phi of each load-case column and of the unit
+    self-weight from the transverse loads acting off the shear centre (their `across`; the self-weight
+    at the centroid): `centroid` (dy, dz) of the centroid from the shear centre, m, member axes."""
+    from sizer.analysis.loads import self_weight_load
+    from sizer.analysis.torsion import across_torque_loads
+
+    out = np.zeros((len(model.cases) + 1, model.mesh.size))
+    sets = [[load for load in member.loads if load.case == name] for name in model.cases] + [[self_weight_load(member)]]
+    for k, loads in enumerate(sets):
+        for load in across_torque_loads(loads, centroid):
+            if isinstance(load, PointLoad):
+                _add_point_load(out[k], model, load, member.orientation)
+            elif load.end > load.start:
+                _add_line_load(out[k], model, model.quad, load, member.orientation)
     return out
 
 
@@ -309,13 +336,15 @@ def shared_model(member: Member, solution: MemberSolution, per_length: int) -> t
 class SecondOrder:
     """The second-order increments of every combination of one section on one member (see the
     module docstring). `bow` (m): the initial bow's amplitude (0: none); `mass` (kg/m): the section's
-    self-weight where the member has one (0: none)."""
+    self-weight where the member has one (0: none); `centroid`: where the centroid is from the shear
+    centre (loads across the section, and the self-weight at the centroid, add their torques)."""
 
     def __init__(self, member: Member, solution: MemberSolution, section: StabilitySection, bow: float = 0.0,
-                 mass: float = 0.0) -> None:
+                 mass: float = 0.0, centroid: tuple[float, float] = (0.0, 0.0)) -> None:
         self.member = solution.member  # patterns expanded
         self.solution = solution
         self.mass = mass  # kg/m of self-weight (0: none)
+        self.centroid = centroid  # (dy, dz) m of the centroid from the shear centre, member axes
         self.section = section
         self.bow = bow
         self.orientation = member.orientation
@@ -325,6 +354,7 @@ class SecondOrder:
     def _level(self, per_length: int) -> tuple[MemberStability, SectionSolver, np.ndarray]:
         if per_length not in self.levels:
             model, loads = shared_model(self.member, self.solution, per_length)
+            loads = loads + torque_vectors(model, self.member, self.centroid)
             self.levels[per_length] = (model, SectionSolver(model, self.section), loads)
         return self.levels[per_length]
 
