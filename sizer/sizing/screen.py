@@ -73,7 +73,7 @@ def screen(table: CandidateTable, member: Member, material: Material, base: Memb
         _, estimate, worst, _, _ = stress_screen(table, loads, per_mass, material, fa_allowed, combinations)
     deflection = deflection_screen(table, member, material, base, ~lowered)
     if deflection is not None:
-        exact["deflection"] = deflection
+        exact["deflection"] = np.where(twisted_by_second_order(member, table), 0.0, deflection)
     return Screen(exact, estimate, worst, compression, moment, loads, per_mass, table, fa_allowed)
 
 
@@ -89,6 +89,15 @@ def lowered_by_second_order(member: Member, loads: np.ndarray, per_mass: np.ndar
     return tension > 0.0
 
 
+def twisted_by_second_order(member: Member, table: CandidateTable) -> np.ndarray:
+    """(S,) the sections the member's loads may twist (see checks.torsion.may_twist) when second
+    order is on: their second-order twist couples with the moments and may lower a stress or a
+    deflection somewhere, so the screen's first-order values bound nothing for them."""
+    if not member.checks.second_order:
+        return np.zeros(len(table.specs), bool)
+    return np.array([may_twist(member, spec.shape) for spec in table.specs], bool)
+
+
 def _axial_only(actions: np.ndarray, lowered: np.ndarray) -> np.ndarray:
     """(C x K, 6) actions with every action but N set to zero in the `lowered` combinations."""
     out = actions.reshape(len(lowered), -1, 6).copy()
@@ -101,10 +110,12 @@ def local_lower_bound(found: Screen, index: int, member: Member, material: Mater
     (where the compression in its walls peaks; the wall stresses are linear in the actions), at the
     wall and row where its upper bound is largest: a lower bound of the check's, which looks at every
     wall, station and moment peak between them. None when it cannot be made here (no allowable for the
-    walls: the check says why)."""
+    walls: the check says why; a section that second order may twist, see twisted_by_second_order)."""
     from sizer.checks.local import local_utilizations, poisson_ratio, section_walls, table_of_walls, wall_allowable
     from sizer.errors import InputError
 
+    if member.checks.second_order and may_twist(member, found.table.specs[index].shape):
+        return None  # its second-order twist may lower the wall stresses: see twisted_by_second_order
     try:
         nu, allowable = poisson_ratio(material, member.source), wall_allowable(material, member.source)
     except InputError:
