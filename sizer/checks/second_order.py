@@ -13,6 +13,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from functools import cached_property
 from typing import Any, Sequence
 
 import numpy as np
@@ -37,7 +38,7 @@ class SecondOrderActions:
     elements: int  # elements per member length of the converged mesh
     bow: float  # m, initial bow (0: none)
 
-    @property
+    @cached_property
     def amplification(self) -> list[float | None]:
         """Each combination's second-order peak moment / first-order peak moment (None: no
         first-order moment, or beyond buckling)."""
@@ -79,13 +80,12 @@ def second_order_actions(design: Design, xs: np.ndarray, sides: np.ndarray, firs
     settings = design.member.checks
     if not settings.second_order:
         return None
+    from sizer.checks.torsion import member_axes_offset, warping_rigidity
     from sizer.stability import stability_section
     from sizer.stability.second_order import SecondOrder
 
     section = stability_section(design.props, design.material.elastic_modulus, design.material.shear_modulus)
     bow = settings.bow(design.member.length)
-    from sizer.checks.torsion import member_axes_offset, warping_rigidity
-
     mass = (design.mass_per_length or 0.0) if design.member.self_weight_case else 0.0
     solver = SecondOrder(design.member, design.solution, section, bow, mass, member_axes_offset(design))
     right = np.asarray(sides) == "right"
@@ -114,9 +114,8 @@ def second_order_check(found: SecondOrderActions | None) -> CheckResult:
         return CheckResult("second-order", None, quantity="ratio", detail=f"every combination below its elastic buckling load; "
                            f"largest amplification {largest:.3f}, combination {name}", extra={"amplification": largest})
     name, factor = min(beyond, key=lambda item: item[1] if item[1] is not None and math.isfinite(item[1]) else math.inf)
-    utilization = max(1.0 / factor if factor and factor > 0 and math.isfinite(factor) else math.inf, math.nextafter(1.0, 2.0))
-    if not math.isfinite(utilization):
-        utilization = 1e6
+    found_factor = factor is not None and 0.0 < factor < math.inf
+    utilization = max(1.0 / factor, math.nextafter(1.0, 2.0)) if found_factor else math.nextafter(1.0, 2.0)
     detail = (f"combination {name} is at or beyond its elastic buckling load (load factor {factor:.3g} on its axial force and "
               "moments together): no second-order equilibrium") if factor is not None else f"combination {name} is at or beyond its elastic buckling load"
     return CheckResult("second-order", utilization, utilization, 1.0, None, name, quantity="ratio", detail=detail,
