@@ -120,9 +120,11 @@ class ForcesOutcome:
 
 
 def forces(member: MemberLike, section: str | None = None, catalogue: Sequence[str | Path] = (),
-           combination: str | None = None, units: str = "si") -> ForcesOutcome:
+           combination: str | None = None, units: str = "si", second_order: bool = False) -> ForcesOutcome:
     """Solve the member: reactions, actions anywhere, deflections (with a section) for every
-    combination, or only `combination`."""
+    combination, or only `combination`. A first-order (linear, superposable) analysis unless
+    `second_order`: then each combination's actions and displacements include the second-order
+    increments of `check` (a section is needed; the reactions stay first order)."""
     from sizer.design import prepare
     from sizer.render.common import member_notes, small_deflection_cautions
 
@@ -130,7 +132,33 @@ def forces(member: MemberLike, section: str | None = None, catalogue: Sequence[s
     names = chosen_combinations(member, combination)
     design = prepare(member, [Path(path) for path in catalogue], section)
     notes = member_notes(member) + design.notes + small_deflection_cautions(design.solution)
+    if second_order:
+        design, more = _second_order_forces(design)
+        notes += more
     return ForcesOutcome(member, names, notes, design, units=units)
+
+
+def _second_order_forces(design: Any) -> tuple[Any, list[str]]:
+    """The design with second-order actions and displacements for `sizer forces --second-order`, and its notes."""
+    from dataclasses import replace
+
+    from sizer.checks.second_order import displayed_design, second_order_actions, second_order_notes
+    from sizer.checks.stations import check_stations, member_actions
+    from sizer.errors import InputError
+
+    if design.spec is None:
+        raise InputError("", "--second-order", "a second-order analysis needs the member's stiffness, and no section is given",
+                         'add section = "NAME" under [member] or leave out --second-order')
+    member = design.member
+    solved = replace(design, member=replace(member, checks=replace(member.checks, second_order=True)))
+    xs, sides = check_stations(solved)
+    found = second_order_actions(solved, xs, sides, member_actions(solved, xs, sides))
+    notes = second_order_notes(solved, found) + ["Second order: the reactions shown are first order."]
+    beyond = [name for name, _ in found.beyond]
+    if beyond:
+        notes.append("At or beyond the elastic buckling load (no second-order equilibrium; first-order actions shown): "
+                     + ", ".join(beyond) + ".")
+    return displayed_design(design, found), notes
 
 
 def chosen_combinations(member: Member, combination: str | None) -> tuple[str, ...]:
@@ -185,7 +213,11 @@ class CheckOutcome:
 
 
 def check_outcome(design: Any, report: Any, notes: list[str], units: str = "si") -> CheckOutcome:
-    """A CheckOutcome of a checked design (sizer.design.Design and sizer.checks.CheckReport)."""
+    """A CheckOutcome of a checked design (sizer.design.Design and sizer.checks.CheckReport); its
+    design shows the actions the checks used (second order where they were)."""
+    from sizer.checks.second_order import displayed_design
+
+    design = displayed_design(design, report.second_order)
     governing = report.governing
     reserve = report.reserve.factor if report.reserve is not None else None
     return CheckOutcome(report.section, report.passes, report.utilization, governing.check if governing else None,

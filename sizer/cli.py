@@ -59,6 +59,8 @@ def forces(
     plot: Optional[Path] = typer.Option(None, "--plot", help="Draw the diagrams to a PNG or SVG file."),
     envelope: bool = typer.Option(False, "--envelope", help="The largest and smallest of each action, reaction and deflection "
                                   "over every combination and pattern arrangement, with the combination that gives each."),
+    second_order: bool = typer.Option(False, "--second-order", help="Actions and displacements of a second-order elastic solve "
+                                      "(as `check` uses; needs a section); default first order (linear, superposable)."),
     units_system: str = UNITS_OPTION,
 ) -> None:
     """Reactions, internal actions and displacements at cuts, extremes and deflections for every
@@ -67,7 +69,8 @@ def forces(
     def work() -> int:
         from sizer.commands import run_forces
 
-        return run_forces(file, parse_cuts(at), combination, catalogue or [], json_output, plot, unit_system(units_system), envelope)
+        return run_forces(file, parse_cuts(at), combination, catalogue or [], json_output, plot, unit_system(units_system), envelope,
+                          second_order)
 
     run_guarded(work)
 

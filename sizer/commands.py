@@ -28,9 +28,9 @@ def _check_plot(plot: Path | None, inputs: Sequence[Path]) -> None:
 
 
 def run_forces(file: Path, cuts: list[float], combination: str | None, catalogue: Sequence[Path],
-               json_output: bool, plot: Path | None, system: str, envelope: bool = False) -> int:
+               json_output: bool, plot: Path | None, system: str, envelope: bool = False, second_order: bool = False) -> int:
     """`sizer forces`: exit 0 (nothing to fail). `envelope`: the largest and smallest over the
-    combinations (terminal, JSON and plot)."""
+    combinations (terminal, JSON and plot); `second_order`: second-order actions and displacements."""
     import numpy as np
 
     from sizer import api
@@ -42,7 +42,7 @@ def run_forces(file: Path, cuts: list[float], combination: str | None, catalogue
     for x in cuts:
         if x < 0 or x > member.length * (1 + 1e-12):
             raise InputError("", "--at", f"the cut at {x:g} m is off the member (length {member.length:g} m)", "give a position from 0 to the member length")
-    outcome = api.forces(member, None, catalogue, combination, system)
+    outcome = api.forces(member, None, catalogue, combination, system, second_order)
     if plot is not None:
         from sizer.render.plots import plot_envelope, plot_member
 

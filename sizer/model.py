@@ -185,6 +185,15 @@ class CheckSettings:
     buckling_safety_factor: float = 2.0
     buckling_safety_factor_given: bool = False
     web_stiffener_spacing: float | None = None  # panel length for web shear buckling; None: the span between supports
+    second_order: bool = True  # actions from a second-order elastic solve (sizer.stability.second_order)
+    imperfection_ratio: float | None = None  # initial bow = ratio x member length ("L/1000": 0.001); None: see below
+    imperfection_length: float | None = None  # initial bow given as a length (m); both None: no bow
+
+    def bow(self, length: float) -> float:
+        """The initial bow (m) of a member `length` m long: 0 without an imperfection."""
+        if self.imperfection_ratio is not None:
+            return self.imperfection_ratio * length
+        return self.imperfection_length or 0.0
 
 
 @dataclass(frozen=True)

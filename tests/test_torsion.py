@@ -191,14 +191,15 @@ type = "line"
 case = "dead"
 wy = "-5 kN/m"
 {across}
-"""
+{checks}"""
+FIRST_ORDER = "[checks]\nsecond_order = false\n"  # the closed forms below are first-order warping torsion
 
 
-def _check(tmp_path: Path, across: str = "", extra: str = "") -> dict:
+def _check(tmp_path: Path, across: str = "", extra: str = "", checks: str = FIRST_ORDER) -> dict:
     from sizer import api
 
     path = tmp_path / "channel.toml"
-    path.write_text(CHANNEL.format(across=across, extra=extra), encoding="utf-8")
+    path.write_text(CHANNEL.format(across=across, extra=extra, checks=checks), encoding="utf-8")
     return api.check(str(path)).to_json()
 
 

@@ -15,7 +15,7 @@ SMALL_DEFLECTION_FRACTION of its length, where the results no longer hold (outpu
 
 from __future__ import annotations
 
-from typing import Iterable
+from typing import Any, Iterable
 from weakref import WeakKeyDictionary
 
 import numpy as np
@@ -107,19 +107,24 @@ def deflection_notes(member: Member) -> list[str]:
 
 
 def span_deflections(design: Design, span_list: list[Span], combinations: Iterable[str], n: int = 201,
-                     relative: bool = True) -> list[tuple[float, float, str]]:
+                     relative: bool = True, second_order: Any = None) -> list[tuple[float, float, str]]:
     """For each span: the largest transverse deflection (m) relative to its supports (chord between
     them; for an overhang, relative to its support's displacement; `relative` False: from the
-    original position), with x and combination. One displacement evaluation for all spans."""
-    return solution_span_deflections(design.solution, span_list, combinations, n, relative)
+    original position), with x and combination. One displacement evaluation for all spans.
+    `second_order`: a checks.second_order.SecondOrderActions whose displacement increments are added."""
+    return solution_span_deflections(design.solution, span_list, combinations, n, relative, second_order)
 
 
 def solution_span_deflections(solution: MemberSolution, span_list: list[Span], combinations: Iterable[str],
-                              n: int = 201, relative: bool = True) -> list[tuple[float, float, str]]:
+                              n: int = 201, relative: bool = True, second_order: Any = None) -> list[tuple[float, float, str]]:
     """span_deflections of a solved member (with displacements): the exact largest of each span
     (see span_peak), each span's found once per solution, combinations and reference (the check
-    and the small-deflection caution ask for the same); `n` is kept for callers and not used."""
+    and the small-deflection caution ask for the same); `n` is kept for callers and not used.
+    With `second_order` (a checks.second_order.SecondOrderActions), see second_order_deflections."""
     names = tuple(combinations)
+    if second_order is not None:
+        first = solution_span_deflections(solution, span_list, names, n, relative)
+        return second_order_deflections(solution, span_list, names, n, relative, second_order, first)
     known = _PEAKS.setdefault(solution, {})
     wanted = [span for span in span_list if (span, names, relative) not in known]
     found = [(-1.0, 0.0, 0)] * len(wanted)
@@ -132,6 +137,31 @@ def solution_span_deflections(solution: MemberSolution, span_list: list[Span], c
     for span, (value, at, row) in zip(wanted, found):
         known[(span, names, relative)] = (value, at, names[row])
     return [known[(span, names, relative)] for span in span_list]
+
+
+def second_order_deflections(solution: MemberSolution, span_list: list[Span], names: tuple[str, ...], n: int, relative: bool,
+                             second_order: Any, first: list[tuple[float, float, str]]) -> list[tuple[float, float, str]]:
+    """For each span, the largest deflection (m) with the second-order increments, x and combination:
+    on n points evenly over the span and at the first-order peak (`first`, from
+    solution_span_deflections): the increments are piecewise cubic on the second-order mesh, not
+    the polynomial that span_peak finds exactly."""
+    found = []
+    for span, (_, peak_at, _) in zip(span_list, first):
+        xs = np.unique(np.append(np.linspace(span.start, span.end, n), peak_at))
+        reference = np.array([span.base] if span.overhang else [span.start, span.end])
+        points = np.concatenate([xs, reference])
+        moved = solution.weighted_displacements(solution.combination_weights(names), points)[..., 1:3]
+        moved = moved + second_order.displacement_increments(names, points)[..., 1:3]
+        body = moved[:, :xs.size]
+        if relative and span.overhang:
+            body = body - moved[:, -1:]
+        elif relative:
+            along = ((xs - span.start) / span.length)[None, :, None]
+            body = body - ((1 - along) * moved[:, -2:-1] + along * moved[:, -1:])
+        size = np.hypot(body[..., 0], body[..., 1])
+        c, k = np.unravel_index(int(np.argmax(size)), size.shape)
+        found.append((float(size[c, k]), float(xs[k]), names[c]))
+    return found
 
 
 _PEAKS: "WeakKeyDictionary[MemberSolution, dict]" = WeakKeyDictionary()  # solution -> (span, combinations, relative) -> peak
@@ -198,13 +228,13 @@ def _polynomial_peaks(coef: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     return peak, place
 
 
-def entry_results(design: Design, entry: DeflectionLimit, label: str) -> list[CheckResult]:
+def entry_results(design: Design, entry: DeflectionLimit, label: str, second_order: Any = None) -> list[CheckResult]:
     """One result per span that `entry` limits (its combinations and their arrangements)."""
     pairs = limited_spans(design.member, entry)
     combinations = arrangements_of(design.solution.member, entry.combinations)
     if not pairs or not combinations:
         return []
-    found = span_deflections(design, [span for span, _ in pairs], combinations, relative=entry.relative_to_supports)
+    found = span_deflections(design, [span for span, _ in pairs], combinations, relative=entry.relative_to_supports, second_order=second_order)
     results = []
     for (span, limit), (value, at, name) in zip(pairs, found):
         allowable = span.length / limit
@@ -215,16 +245,17 @@ def entry_results(design: Design, entry: DeflectionLimit, label: str) -> list[Ch
     return results
 
 
-def deflection_check(design: Design) -> CheckResult:
+def deflection_check(design: Design, second_order: Any = None) -> CheckResult:
     """Peak deflection of each span with a limit against span / limit (overhangs: overhang /
-    overhang limit), for every limit given; the worst, naming its limit."""
+    overhang limit), for every limit given; the worst, naming its limit. `second_order`: see
+    span_deflections."""
     entries = limit_entries(design.member.checks)
     if not entries:
         return CheckResult("deflection", None, quantity="deflection", detail="no deflection limit in [checks]")
     results = []
     for index, entry in enumerate(entries, start=1):
         label = f" (limit {index} of {len(entries)}: {entry_text(entry)})" if len(entries) > 1 else ""
-        results += entry_results(design, entry, label)
+        results += entry_results(design, entry, label, second_order)
     if not results:
         return CheckResult("deflection", None, quantity="deflection", detail="the limits given are for overhangs only, and the member has none")
     return max(results, key=lambda r: r.utilization)

@@ -18,6 +18,7 @@ from sizer.checks.local import ASSUMPTIONS as LOCAL_ASSUMPTIONS
 from sizer.checks.local import local_check
 from sizer.checks.reduction import PLATEAU_WORDS, TRANSITION_WORDS
 from sizer.checks.results import CheckReport, CheckResult
+from sizer.checks.second_order import second_order_actions, second_order_check, second_order_notes, with_amplification
 from sizer.checks.stability import StabilityReport, stability_mass, stability_report
 from sizer.checks.stations import check_stations, member_actions
 from sizer.checks.web import web_check, web_notes
@@ -25,6 +26,7 @@ from sizer.checks.torsion import check_across, torsion_actions, torsion_note, to
 from sizer.checks.strength import (axial_check, bending_check, compression_allowables, equivalent_check, interaction_check, needs_allowable,
                                    shear_check)
 from sizer.design import Design
+from sizer.model import Member, PointLoad
 from sizer.stability import MemberStability
 from sizer.stability.boundary import warping_held
 
@@ -42,10 +44,11 @@ def check_design(design: Design, unit_field: Any, n_even: int = 200, stability: 
     torsion = torsion_actions(design, xs, sides)
     first = member_actions(design, xs, sides)
     first[..., 3] = torsion.torque  # with the torques of loads across the section, split between supports by the warping solve
-    actions = to_section_axes(first, design.member.orientation)
-    warping = torsion.warping()
+    second = second_order_actions(design, xs, sides, first)
+    actions = to_section_axes(first if second is None else second.actions, design.member.orientation)
+    warping = torsion.warping() if second is None else torsion.warping() + second.warping
     stress = FieldPeaks(actions, unit_field, design.props.area, warping)
-    report = stability_report(design, actions, xs, stability)
+    report = stability_report(design, to_section_axes(first, design.member.orientation), xs, stability)
     given = given_length_axes(design.member, design.props, design.material)
     columns = column_buckling(design, report, given)
     fb = _bending_allowable(design, report)
@@ -59,19 +62,23 @@ def check_design(design: Design, unit_field: Any, n_even: int = 200, stability: 
         interaction,
         shear_check(stress, xs, names, design),
         equivalent_check(stress, xs, names, design),
-        deflection_check(design),
+        deflection_check(design, second),
         buckling_check(columns, design),
         lateral,
         local_check(design, with_warping_compression(actions, warping, unit_field, design.props.area), xs, names),
         web_check(design),
     ]
+    if second is not None:
+        checks = with_amplification(checks, second, design)
+    checks.append(second_order_check(second))
     nodes = np.asarray(unit_field.sigma).shape[1]
     notes = check_notes(design, report, given, len(xs), len(names), nodes, {c.check for c in checks if c.made})
+    notes += second_order_notes(design, second)
     notes.insert(1, torsion_note(design))
     braces = brace_demands(design, actions, xs)
     notes += brace_notes(braces)
     return CheckReport(design.spec.name, checks, notes, len(xs), nodes, stability=report, restraints=braces,
-                       torsion=torsion_summary(design, torsion, xs))
+                       torsion=torsion_summary(design, torsion, xs), second_order=second)
 
 
 def with_warping_compression(actions: np.ndarray, warping: np.ndarray, unit_field: Any, area: float) -> np.ndarray:
@@ -198,11 +205,26 @@ def restraint_notes(design: Design) -> list[str]:
         notes.append("Restraints: " + "; ".join(parts) + ".")
     else:
         notes.append("Restraints: none given: the member is held against buckling at its supports only.")
+    notes += free_end_couple_notes(member)
     heights = sorted({_height_text(load.height) for load in member.loads if hasattr(load, "height") and load.height is not None})
     text = "Load heights: transverse loads act on the face they push on (top for a downward load) unless given"
     weight = "; self-weight at the centroid" if member.self_weight_case else ""
     notes.append(text + (f" ({', '.join(heights)} given)" if heights else "") + weight + ".")
     return notes
+
+
+def free_end_couple_notes(member: Member) -> list[str]:
+    """How a bending couple at a free end (a cantilever's tip) acts in the lateral-torsional solve."""
+    ends = [x for x in (0.0, member.length) if not any(abs(s.at - x) <= 1e-9 * member.length for s in member.supports)]
+    found = sorted({x for load in member.loads if isinstance(load, PointLoad) and any(load.moment[1:])
+                    for x in ends if abs(load.at - x) <= 1e-9 * member.length})
+    if not found:
+        return []
+    where = " and ".join(f"{x:g} m" for x in found)
+    return [f"Couple at the free end ({where}): taken as in the published case of a cantilever under an end couple "
+            "(Timoshenko & Gere, ch. 6), turning with the end section (quasi-tangential): the cantilever buckles as half "
+            "of a simply supported beam of twice its length under uniform moment; a couple applied through a fixed-axis "
+            "lever is not covered."]
 
 
 def _height_text(height: str | float) -> str:

@@ -8,7 +8,8 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Any
 
-CHECK_NAMES = ("axial", "bending", "interaction", "shear", "equivalent", "deflection", "buckling", "lateral-torsional", "local", "web")
+CHECK_NAMES = ("axial", "bending", "interaction", "shear", "equivalent", "deflection", "buckling", "lateral-torsional", "local", "web",
+               "second-order")
 CHUNK_VALUES = 4_000_000  # station x node values evaluated at once (memory bound, ~32 MB per array)
 ZERO_ACTION = 1e-9  # N or N*m: below this an action is treated as absent (round-off)
 
@@ -50,6 +51,7 @@ class CheckReport:
     restraints: list = field(default_factory=list)  # sizer.checks.bracing.BraceDemand: what each restraint must carry
     torsion: Any = None  # sizer.checks.torsion.TorsionSummary: peaks of T, Tw, B; None when nothing twists the member
     reserve: Any = None  # sizer.checks.reserve.Reserve, where found (check, size, schedules)
+    second_order: Any = None  # sizer.checks.second_order.SecondOrderActions (None: first order only)
 
     @property
     def made(self) -> list[CheckResult]:

@@ -4,6 +4,8 @@ entries), buckling lengths, the buckling safety factor and the spacing of web st
 
 from __future__ import annotations
 
+import math
+import re
 from typing import Any
 
 from sizer.inputfile.reader import Reader, array_of_tables
@@ -15,7 +17,10 @@ SINGLE_DEFLECTION_KEYS = ("deflection_limit", "deflection_limit_overhang", "defl
 CHECK_KEYS = {
     *SINGLE_DEFLECTION_KEYS, "deflection",
     "buckling_length_major", "buckling_length_minor", "buckling_safety_factor", "web_stiffener_spacing",
+    "second_order", "imperfection",
 }
+BOW_RATIO = re.compile(r"^\s*L\s*/\s*([0-9]+(?:\.[0-9]*)?(?:[eE][+-]?[0-9]+)?)\s*$")
+SMALLEST_BOW_DIVISOR = 10.0  # "L/n" with n below this is no imperfection but a bent member
 
 
 DEFLECTION_KEYS = {"limit", "overhang_limit", "combinations", "relative_to_supports"}
@@ -40,7 +45,15 @@ def read_checks(reader: Reader, value: Any, length: float, combinations: dict[st
             raise reader.error(f"checks.{name}", f"{what} must be greater than zero", 'give e.g. "3 m"')
     factor_given = "buckling_safety_factor" in table
     factor = reader.number(table["buckling_safety_factor"], "checks.buckling_safety_factor") if factor_given else 2.0
+    second_order = table.get("second_order", True)
+    if not isinstance(second_order, bool):
+        raise reader.error("checks.second_order", f"expected true or false, got {str(second_order)[:40]!r}",
+                           "write second_order = true (moments from a second-order solve, the default) or false (first order)")
+    ratio, bow = _read_imperfection(reader, table, length)
     return CheckSettings(
+        second_order=second_order,
+        imperfection_ratio=ratio,
+        imperfection_length=bow,
         deflection_limit=limit,
         deflection_limit_overhang=overhang,
         deflection_combinations=chosen,
@@ -51,6 +64,29 @@ def read_checks(reader: Reader, value: Any, length: float, combinations: dict[st
         buckling_safety_factor_given=factor_given,
         web_stiffener_spacing=lengths["web_stiffener_spacing"],
     )
+
+
+def _read_imperfection(reader: Reader, table: dict, length: float) -> tuple[float | None, float | None]:
+    """`imperfection`: "L/n" (a bow of the member's length / n, n at least SMALLEST_BOW_DIVISOR) or a
+    length ("5 mm", at most length / SMALLEST_BOW_DIVISOR); (ratio, None), (None, length) or (None, None)."""
+    if "imperfection" not in table:
+        return None, None
+    value = table["imperfection"]
+    fix = 'write e.g. imperfection = "L/1000" (a bow of the member length / 1000) or "5 mm"'
+    if not isinstance(value, str):
+        raise reader.error("checks.imperfection", f"expected a string such as \"L/1000\", got {str(value)[:40]!r}", fix)
+    found = BOW_RATIO.match(value)
+    if found:
+        divisor = float(found.group(1))
+        if not math.isfinite(divisor) or divisor < SMALLEST_BOW_DIVISOR:
+            raise reader.error("checks.imperfection", f"{value!r} is a bow larger than L/{SMALLEST_BOW_DIVISOR:g}", fix)
+        return 1.0 / divisor, None
+    if "/" in value or value.strip().upper().startswith("L"):
+        raise reader.error("checks.imperfection", f"cannot read {value!r}", fix)
+    bow = reader.quantity(table, "imperfection", "length", "checks")
+    if not bow > 0 or bow > length / SMALLEST_BOW_DIVISOR:
+        raise reader.error("checks.imperfection", f"{value!r} is not a bow between 0 and the member length / {SMALLEST_BOW_DIVISOR:g}", fix)
+    return None, bow
 
 
 def _combination_names(reader: Reader, table: dict, name: str, prefix: str, combinations: dict[str, dict[str, float]]) -> tuple[str, ...] | None:

@@ -21,7 +21,29 @@ WHAT = {
 
 
 def basis_text(result: CheckResult, design: Design, report: CheckReport, system: str) -> str:
-    """The basis of `result` (no combination: the caller adds it)."""
+    """The basis of `result` (no combination: the caller adds it); for the governing check, what
+    second order did to it."""
+    text = _basis(result, design, report, system)
+    extra = second_order_text(result, system) if result is report.governing else ""
+    return f"{text}; {extra}" if extra else text
+
+
+def second_order_text(result: CheckResult, system: str) -> str:
+    """"second order: M = 24.1 kN·m here (first order 22.5 kN·m), amplification 1.07" for a check made
+    on second-order actions ("" for the others)."""
+    if not result.made:
+        return ""
+    if "first_order_moment" in result.extra:
+        amplification = result.extra.get("amplification")
+        factor = f"; the combination's amplification {amplification:.3f}" if amplification is not None else ""
+        return (f"second order: M = {units.fmt(result.extra['moment'], 'moment', system)} here "
+                f"(first order {units.fmt(result.extra['first_order_moment'], 'moment', system)}){factor}")
+    if "first_order" in result.extra and result.quantity == "deflection":
+        return f"second order (first order {units.fmt(result.extra['first_order'], 'deflection', system)})"
+    return ""
+
+
+def _basis(result: CheckResult, design: Design, report: CheckReport, system: str) -> str:
     if not result.made:
         return in_display_units(result.detail, system)
     if result.check == "axial":

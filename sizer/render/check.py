@@ -42,6 +42,7 @@ def check_json(design: Design, report: CheckReport, notes: list[str]) -> dict[st
         "reactions": reactions_json(design),
         "restraints": [demand.to_json() for demand in report.restraints],
         "torsion": torsion_json(report.torsion),
+        "second_order": second_order_json(report),
         "mass_per_length": design.mass_per_length,
         "units": "SI base units (m, N, N*m, Pa, kg/m)",
         "assumptions": notes,
@@ -70,6 +71,21 @@ def torsion_json(summary: Any) -> dict[str, Any] | None:
         return None
     return {"torsion_parameter": summary.parameter, "centroid_from_shear_centre": list(summary.centroid_offset),
             "peaks": {peak.name: {"value": peak.value, "at": peak.at, "combination": peak.combination} for peak in summary.peaks}}
+
+
+def second_order_json(report: CheckReport) -> dict[str, Any] | None:
+    """Each combination's amplification (second-order peak moment / first-order peak moment, N*m),
+    or None when the member file turns second order off."""
+    found = report.second_order
+    if found is None:
+        return None
+    from sizer.checks.second_order import peak_moment
+
+    rows = []
+    for c, (name, amplification, response) in enumerate(zip(found.names, found.amplification, found.responses)):
+        rows.append({"combination": name, "amplification": amplification, "first_order_moment": peak_moment(found.first[c]),
+                     "moment": peak_moment(found.actions[c]), "beyond_buckling": response.beyond, "load_factor": response.load_factor})
+    return {"elements_per_length": found.elements, "bow": found.bow, "combinations": rows}
 
 
 def reactions_json(design: Design) -> dict[str, list[dict[str, float]]]:
@@ -163,6 +179,38 @@ def torsion_ledger(report: CheckReport, system: str) -> Ledger | None:
     return ledger
 
 
+AMPLIFICATIONS_LISTED = 12  # combinations listed in the second-order table; beyond, the most amplified
+
+
+def second_order_ledger(report: CheckReport, system: str) -> Ledger | None:
+    """Each combination's peak moments of first and second order and the amplification; a
+    combination at or beyond its buckling load says so. None when second order is off."""
+    from rich.markup import escape
+
+    document = second_order_json(report)
+    if document is None:
+        return None
+    rows = document["combinations"]
+    caption = ""
+    if len(rows) > AMPLIFICATIONS_LISTED:
+        caption = f"the {AMPLIFICATIONS_LISTED} most amplified of {len(rows)} combinations"
+        rows = sorted(rows, key=lambda row: (not row["beyond_buckling"], -(row["amplification"] or 0.0)))[:AMPLIFICATIONS_LISTED]
+    ledger = Ledger("Second order · amplification = peak moment, second / first order",
+                    [Column("combination"), Column("first order", right=True), Column("second order", right=True),
+                     Column("amplification", right=True)], caption=caption)
+    for row in rows:
+        if row["beyond_buckling"]:
+            factor = row["load_factor"]
+            note = f"load factor {factor:.3g}" if factor is not None else ""
+            ledger.add_row(escape(row["combination"]), units.fmt(row["first_order_moment"], "moment", system), "—",
+                           f"[reverse]{FAILS}[/]", note=("at or beyond its elastic buckling load" + (f": {note}" if note else "")))
+            continue
+        amplification = row["amplification"]
+        ledger.add_row(escape(row["combination"]), units.fmt(row["first_order_moment"], "moment", system),
+                       units.fmt(row["moment"], "moment", system), f"{amplification:.3f}" if amplification is not None else "—")
+    return ledger
+
+
 def reactions_ledger(design: Design, system: str) -> Ledger:
     """The reactions of every combination: a group line per combination, a row per support; the
     unit of each column in its header. Beyond REACTIONS_LISTED combinations (pattern arrangements),
@@ -233,7 +281,8 @@ def check_renderables(design: Design, report: CheckReport, notes: list[str], sys
 
     title = escape(design.member.title or design.member.source)
     return [Heading(f"sizer check · {title}"), *design_summary(design, system), "", verdict_block(report, system), "",
-            checks_ledger(report, design, system), "", *_optional(torsion_ledger(report, system)), reactions_ledger(design, system), "",
+            checks_ledger(report, design, system), "", *_optional(second_order_ledger(report, system)),
+            *_optional(torsion_ledger(report, system)), reactions_ledger(design, system), "",
             notes_panel(notes, system=system), cautions_panel()]
 
 

@@ -25,7 +25,8 @@ SCHEDULE_CSV_COLUMNS = (("mark", "mark"), ("file", "file"), ("do", "do"), ("sect
                         ("cost", "cost"), ("currency", "currency"))
 ORDER_CSV_COLUMNS = ("order_section", "pieces", "total_length_m", "mass_kg", "cost", "currency", "bars_to_order", "metres_bought_m", "offcut_m")
 CHECK_SHORT = {"axial": "axial", "bending": "bend", "interaction": "inter", "shear": "shear", "equivalent": "equiv",
-               "deflection": "defl", "buckling": "buck", "lateral-torsional": "LTB", "local": "local", "web": "web"}
+               "deflection": "defl", "buckling": "buck", "lateral-torsional": "LTB", "local": "local", "web": "web",
+               "second-order": "2nd"}
 
 
 # ----------------------------------------------------------------------------------------------

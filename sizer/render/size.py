@@ -6,7 +6,7 @@ from __future__ import annotations
 from typing import Any
 
 from sizer import units
-from sizer.render.check import FAILS, PASSES, VerdictBlock, check_entry, checks_ledger, utilization_cell
+from sizer.render.check import FAILS, PASSES, VerdictBlock, check_entry, checks_ledger, second_order_json, second_order_ledger, utilization_cell
 from sizer.render.common import CAUTIONS, cautions_panel, notes_panel
 from sizer.render.cost import bars_text, costing_json, money, reserve_sentence
 from sizer.render.forces import plural
@@ -69,6 +69,7 @@ def size_json(result: SizingResult, notes: list[str]) -> dict[str, Any]:
         "cost": chosen.costing.cost if chosen else None,
         "reserve_factor": _reserve_factor(chosen),
         "reserve_combination": chosen.report.reserve.combination if chosen and chosen.report.reserve else None,
+        "second_order": second_order_json(chosen.report) if chosen else None,
         "candidates": [candidate_entry(c) for c in listed_candidates(result)],
     }
     if chosen is None and result.strongest is not None:
@@ -165,6 +166,8 @@ def size_renderables(result: SizingResult, notes: list[str], top: int, system: s
     chosen = result.chosen
     if chosen is not None:
         out += [checks_ledger(chosen.report, chosen.design or design_for(member, result.material, chosen), system), ""]
+        amplified = second_order_ledger(chosen.report, system)
+        out += [amplified, ""] if amplified is not None else []
     return out + [candidates_ledger(result, top, system), "", notes_panel(notes, system=system), cautions_panel()]
 
 

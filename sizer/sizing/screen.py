@@ -66,11 +66,43 @@ def screen(table: CandidateTable, member: Member, material: Material, base: Memb
                        for part in np.split(base.weighted_actions(load_and_weight_factors(base), xs, sides), 2))
     fa_allowed = given_length_compression(table, member, material)
     combinations = len(base.combination_names)
+    lowered = lowered_by_second_order(member, loads, per_mass, combinations)
     exact, estimate, worst, compression, moment = stress_screen(table, loads, per_mass, material, fa_allowed, combinations)
-    deflection = deflection_screen(table, member, material, base)
+    if lowered.any():  # their first-order stresses bound nothing: only their axial force is kept for the estimates and proofs
+        loads, per_mass = (_axial_only(part, lowered) for part in (loads, per_mass))
+        _, estimate, worst, _, _ = stress_screen(table, loads, per_mass, material, fa_allowed, combinations)
+    deflection = deflection_screen(table, member, material, base, ~lowered)
     if deflection is not None:
-        exact["deflection"] = deflection
+        exact["deflection"] = np.where(twisted_by_second_order(member, table), 0.0, deflection)
     return Screen(exact, estimate, worst, compression, moment, loads, per_mass, table, fa_allowed)
+
+
+def lowered_by_second_order(member: Member, loads: np.ndarray, per_mass: np.ndarray, combinations: int) -> np.ndarray:
+    """(C,) the combinations whose second-order actions may be smaller than their first-order ones, so
+    that the first-order stresses and deflections are no lower bounds of the check's: with second
+    order on, those with axial tension anywhere (from the loads or the self-weight). Under
+    compression (or no axial force) the geometric stiffness only softens the member, and the
+    screen's first-order values stay lower bounds (tests/test_sizing.py holds the check to that)."""
+    if not member.checks.second_order:
+        return np.zeros(combinations, bool)
+    tension = np.maximum(loads[:, N], per_mass[:, N]).reshape(combinations, -1).max(axis=1)
+    return tension > 0.0
+
+
+def twisted_by_second_order(member: Member, table: CandidateTable) -> np.ndarray:
+    """(S,) the sections the member's loads may twist (see checks.torsion.may_twist) when second
+    order is on: their second-order twist couples with the moments and may lower a stress or a
+    deflection somewhere, so the screen's first-order values bound nothing for them."""
+    if not member.checks.second_order:
+        return np.zeros(len(table.specs), bool)
+    return np.array([may_twist(member, spec.shape) for spec in table.specs], bool)
+
+
+def _axial_only(actions: np.ndarray, lowered: np.ndarray) -> np.ndarray:
+    """(C x K, 6) actions with every action but N set to zero in the `lowered` combinations."""
+    out = actions.reshape(len(lowered), -1, 6).copy()
+    out[lowered, :, 1:] = 0.0
+    return out.reshape(-1, 6)
 
 
 def local_lower_bound(found: Screen, index: int, member: Member, material: Material) -> float | None:
@@ -78,10 +110,12 @@ def local_lower_bound(found: Screen, index: int, member: Member, material: Mater
     (where the compression in its walls peaks; the wall stresses are linear in the actions), at the
     wall and row where its upper bound is largest: a lower bound of the check's, which looks at every
     wall, station and moment peak between them. None when it cannot be made here (no allowable for the
-    walls: the check says why)."""
+    walls: the check says why; a section that second order may twist, see twisted_by_second_order)."""
     from sizer.checks.local import local_utilizations, poisson_ratio, section_walls, table_of_walls, wall_allowable
     from sizer.errors import InputError
 
+    if member.checks.second_order and may_twist(member, found.table.specs[index].shape):
+        return None  # its second-order twist may lower the wall stresses: see twisted_by_second_order
     try:
         nu, allowable = poisson_ratio(material, member.source), wall_allowable(material, member.source)
     except InputError:
@@ -186,7 +220,8 @@ def _stress_estimates(fa: np.ndarray, fb: np.ndarray, fv: np.ndarray, allow: Any
         yield "equivalent", (normal, lambda value: np.sqrt(value) / allow.equivalent)
 
 
-def deflection_screen(table: CandidateTable, member: Member, material: Material, base: MemberSolution, n: int = 201) -> np.ndarray | None:
+def deflection_screen(table: CandidateTable, member: Member, material: Material, base: MemberSolution,
+                      bounded: np.ndarray | None = None, n: int = 201) -> np.ndarray | None:
     """Deflection utilization of every candidate from the unit-rigidity solution (no springs), for
     every deflection limit given (each with its combinations and their pattern arrangements), at the
     same points and from the same reference (chord between supports, the overhang's support, or the
@@ -198,6 +233,7 @@ def deflection_screen(table: CandidateTable, member: Member, material: Material,
     worst = None
     for entry in limit_entries(member.checks):
         combos = [base.combination_names.index(name) for name in arrangements_of(base.member, entry.combinations)]
+        combos = [c for c in combos if bounded is None or bounded[c]]
         for start in range(0, len(combos), DEFLECTION_ROWS):  # a block of combinations (pattern arrangements) at a time: bounded memory
             rows = _limited_deflections(entry, base, n, combos[start:start + DEFLECTION_ROWS])
             if rows:

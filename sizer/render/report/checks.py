@@ -86,7 +86,27 @@ def checks_section(document: dict[str, Any], system: str, bases: list[str] | Non
             "node, combined linearly for the actions at every station and combination); each demand is the peak over the section "
             "and the member. Utilization = demand / allowable; the interaction check is the sum fa/Fa + fb/Fb itself. "
             "Deflections are relative to the span's supports.</p>")
-    return f'<section id="checks"><h2>5. Stresses and checks</h2>{text}{table}</section>'
+    return f'<section id="checks"><h2>5. Stresses and checks</h2>{text}{table}{second_order_table(document, system)}</section>'
+
+
+def second_order_table(document: dict[str, Any], system: str) -> str:
+    """Each combination's peak moments of first and second order and its amplification ("" when
+    second order is off)."""
+    found = document.get("second_order")
+    if not found:
+        return ""
+    rows = []
+    for row in found["combinations"]:
+        second = "at or beyond its elastic buckling load" if row["beyond_buckling"] else _fmt(row["moment"], "moment", system)
+        amplification = row["amplification"]
+        rows.append(_row([f"<td>{_e(row['combination'])}</td>", _cell(_fmt(row["first_order_moment"], "moment", system), row["first_order_moment"]),
+                          f"<td>{_e(second)}</td>", f"<td>{amplification:.3f}</td>" if amplification is not None else "<td>—</td>"]))
+    table = _table(["combination", "peak moment, first order", "peak moment, second order", "amplification"], rows, (1, 2, 3))
+    bow = f"an initial bow of {_fmt(found['bow'], 'dimension', system)} in each combination's lowest buckling mode" if found["bow"] else "no initial bow"
+    text = (f"<p>Second order: the bending, interaction, shear, equivalent, local and deflection checks use each combination's "
+            f"actions from a second-order elastic solve ({found['elements_per_length']} thin-walled beam elements per member length, "
+            f"{_e(bow)}); amplification = second-order peak moment / first-order peak moment.</p>")
+    return text + table
 
 
 def final_verdict(document: dict[str, Any], system: str) -> str:

@@ -104,6 +104,22 @@ def _overall_equilibrium(design: Design, combination: str, system: str) -> str:
 
 
 def cut_section(design: Design, report: CheckReport, combination: str, x: float, system: str) -> str:
+    """The method of sections at the governing cut, on first-order actions (statics of the undeformed
+    member); where the checks used second-order actions, those follow."""
+    solution = getattr(design.solution, "first_order", None)
+    if solution is None:
+        return _cut_section(design, report, combination, x, system, "")
+    from dataclasses import replace
+
+    side = cut_side(design, report, combination, x)
+    second = design.solution.actions(combination, [x], side)[0]
+    values = ", ".join(f"{n} = {_fmt(v, k, system)}" for n, v, k in zip(ACTION_NAMES, second, ACTION_KINDS))
+    note = (f"<p class=\"note\">These are first-order actions (statics of the undeformed member). The checks use the "
+            f"second-order actions of this combination, from the member's solve with its geometric stiffness: {values}.</p>")
+    return _cut_section(replace(design, solution=solution), report, combination, x, system, note)
+
+
+def _cut_section(design: Design, report: CheckReport, combination: str, x: float, system: str, second_order_note: str) -> str:
     side = cut_side(design, report, combination, x)
     balance = segment_balance(design, combination, x, side, system)
     other = "right" if side == "left" else "left"
@@ -121,6 +137,8 @@ def cut_section(design: Design, report: CheckReport, combination: str, x: float,
         values = ", ".join(f"{n} = {_fmt(v, k, system)}" for n, v, k in zip(ACTION_NAMES, other_actions, ACTION_KINDS))
         parts.append(f"<p class=\"note\">A concentrated item sits at x; on the other face (x{'+' if side == 'left' else '-'}) "
                      f"the actions are {values}.</p>")
+    if second_order_note:
+        parts.append(second_order_note)
     parts.append("</section>")
     return "\n".join(parts)
 
