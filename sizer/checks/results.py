@@ -14,6 +14,9 @@ CHUNK_VALUES = 4_000_000  # station x node values evaluated at once (memory boun
 ZERO_ACTION = 1e-9  # N or N*m: below this an action is treated as absent (round-off)
 
 
+TIED = 1e-9  # relative: utilizations this close are the same for naming the governing check
+
+
 @dataclass(frozen=True)
 class CheckResult:
     """One check. utilization None: not made (reason says why). demand/allowable in Pa for stresses,
@@ -59,8 +62,14 @@ class CheckReport:
 
     @property
     def governing(self) -> CheckResult | None:
+        """The check with the largest utilization; checks within TIED of it count as equal and the
+        first in the report's order governs (a wall whose allowable has no reduction ties with
+        bending, say: round-off must not decide which is named)."""
         made = self.made
-        return max(made, key=lambda c: c.utilization) if made else None
+        if not made:
+            return None
+        top = max(c.utilization for c in made)
+        return next(c for c in made if c.utilization >= top * (1 - TIED))
 
     @property
     def utilization(self) -> float:

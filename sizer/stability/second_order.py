@@ -174,10 +174,16 @@ def geometric_matrix(model: MemberStability, section: StabilitySection, combinat
     for kind in ("axial", "lateral"):
         coefficients = axial_coefficients(section) if kind == "axial" else term_coefficients(kind, section)
         loads, per_mass = model.combination_terms(kind, combination)
-        out = out + weighted_sum(loads, coefficients)
+        out = out + dense(weighted_sum(loads, coefficients))
         if mass:
-            out = out + mass * weighted_sum(per_mass, coefficients)
+            out = out + mass * dense(weighted_sum(per_mass, coefficients))
     return out
+
+
+def dense(matrix: "np.ndarray | object") -> np.ndarray:
+    """A stability matrix as a dense array (long meshes assemble sparse ones: sizer.stability.matrices);
+    the second-order solves here are dense, on meshes of a few hundred freedoms."""
+    return matrix.toarray() if hasattr(matrix, "toarray") else matrix
 
 
 class SectionSolver:
@@ -186,8 +192,8 @@ class SectionSolver:
 
     def __init__(self, model: MemberStability, section: StabilitySection) -> None:
         self.model, self.section = model, section
-        self.K = model.stiffness(section)
-        self.reduced = Reduced(self.K, model.basis(section))
+        self.K = dense(model.stiffness(section))
+        self.reduced = Reduced(self.K, dense(model.basis(section)))
         free = self.reduced.free
         self.keep = None if free is None else _complement(free)
 
