@@ -97,6 +97,9 @@ def prepare(member: Member, catalogue_paths: Sequence[Path] = (), section: str |
     spec = catalogue.get(name, member.source if section is None else "", key)
     material = resolve_material(member, catalogue)
     props = section_properties(spec, material.density)
+    misfit = height_outside(member, props)
+    if misfit is not None:
+        raise misfit
     stiffness = oriented_stiffness(props, material, member.orientation)
     mass = props.area * material.density
     solution = solve_member(member, stiffness, mass if member.self_weight_case else None)
@@ -108,6 +111,29 @@ def prepare(member: Member, catalogue_paths: Sequence[Path] = (), section: str |
         notes.append("Self-weight is not included (self_weight = false).")
     notes.append("Deflections by Euler-Bernoulli beam theory (no shear deformation), small displacements.")
     return Design(member, solution, material, spec, props, stiffness, mass, notes)
+
+
+def given_heights(member: Member) -> list[tuple[str, float]]:
+    """(key, height in m above the shear centre) of every load and restraint height given as a number."""
+    found = [(f"loads[{index}].height", load.height) for index, load in enumerate(member.loads, start=1)]
+    found += [(f"restraints[{index}].height", restraint.height) for index, restraint in enumerate(member.restraints, start=1)]
+    return [(key, float(height)) for key, height in found if isinstance(height, (int, float)) and not isinstance(height, bool)]
+
+
+def height_outside(member: Member, props: Any) -> InputError | None:
+    """The error for the first load or restraint height (a number, m above the shear centre along the
+    section's depth) that lies outside the section, between its bottom and top faces; None when
+    every one lies within. A height outside would turn a load into one hung below the section or
+    stood above it, which changes the lateral-torsional buckling load (below: on the unsafe side)."""
+    y0 = float(props.shear_centre[0])
+    top, bottom = float(props.y_top) - y0, -float(props.y_bottom) - y0
+    slack = 1e-9 * float(props.depth)
+    for key, height in given_heights(member):
+        if not bottom - slack <= height <= top + slack:
+            return InputError(member.source, key, f"a height of {height * 1e3:.6g} mm from the shear centre is outside the section "
+                              f"{props.name} (its faces are at {bottom * 1e3:+.1f} mm and {top * 1e3:+.1f} mm)",
+                              'give a height within the section, or "top", "centre" or "bottom" (see docs/limits.md)')
+    return None
 
 
 def _gravity_text(member: Member) -> str:

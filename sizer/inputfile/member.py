@@ -30,6 +30,9 @@ SUPPORT_KEYS = {"at", "type", "restrain", "springs", "warping", "bearing", "stif
 RESTRAINT_KEYS = {"at", "from", "to", "hold", "height"}
 
 
+SHORTEST_ZONE = 0.1  # m: see shortest_zone
+
+
 def read_member_file(path: str | Path) -> Member:
     """Read a member file into a Member. Raises InputError (one line: file, key, line, fix)."""
     path = Path(path)
@@ -195,6 +198,11 @@ def _read_restraints(reader: Reader, value: Any, length: float) -> list[Restrain
             end = reader.position(table, "to", prefix, length, default=length)
             if end <= start:
                 raise reader.error(f"{prefix}.to", "'to' must be beyond 'from'", "give from < to along the member, or use at for a point")
+            shortest = shortest_zone(length)
+            if end - start < shortest * (1 - 1e-9):
+                raise reader.error(f"{prefix}.to", f"a continuous restraint {units.fmt(end - start, 'length')} long is shorter than "
+                                   f"{units.fmt(shortest, 'length')}, too short to hold the member's slope",
+                                   "use at = for a point restraint, or give a zone at least that long (see docs/limits.md)")
         else:
             raise reader.error(prefix, "the restraint has no position", 'give at = "3 m", or from = "0 m" and to = "6 m" for a deck')
         holds = table.get("hold")
@@ -208,6 +216,13 @@ def _read_restraints(reader: Reader, value: Any, length: float) -> list[Restrain
         height = read_height(reader, table, prefix, "centre")
         restraints.append(Restraint(start, end, "lateral" in holds, "twist" in holds, height))
     return restraints
+
+
+def shortest_zone(length: float) -> float:
+    """The shortest continuous restraint (m) on a member `length` (m) long: 100 mm, or length / 20 on a
+    member shorter than 2 m. A zone holds the member's slope as well as its movement; a shorter
+    attachment (a cleat, a bolt) holds a point and is given with at."""
+    return min(SHORTEST_ZONE, length / 20)
 
 
 def _read_self_weight(reader: Reader, member_table: dict) -> str | None:

@@ -15,6 +15,8 @@ from sizer.errors import InputError
 from sizer.model import ACROSS_NAMES, DEFAULT_ACROSS, HEIGHT_FACES
 
 LARGEST_NUMBER = 1e6  # plain numbers (factors, limits, ratios) are at most this in size (docs/limits.md)
+DEFLECTION_LIMITS = (1.0, 10_000.0)  # span / limit: from span / 1 to span / 10000 (docs/limits.md)
+SAFETY_FACTORS = (1.0, 100.0)  # buckling_safety_factor: at least 1 (a factor below 1 raises the allowable)
 
 
 class KeyLines:
@@ -89,6 +91,14 @@ class Reader:
         if positive and value <= 0:
             raise self.error(key, f"{value!r} must be greater than zero", "give a positive number")
         return float(value)
+
+    def number_in(self, value: Any, key: str, low: float, high: float, meaning: str) -> float:
+        """A plain number from `low` to `high` (docs/limits.md); `meaning` says what it is, for the fix."""
+        number = self.number(value, key)
+        if not low <= number <= high:
+            raise self.error(key, f"{number:g} is outside the range sizer accepts ({low:g} to {high:g}: {meaning})",
+                             f"give a number from {low:g} to {high:g} (see docs/limits.md)")
+        return number
 
     def table(self, value: Any, key: str) -> dict:
         if not isinstance(value, dict):

@@ -163,6 +163,7 @@ def candidate_sections(catalogue: Any, member: Member, material: Material, famil
         keep &= width <= max_width * (1 + 1e-9)
     if not keep.any():
         raise InputError("", "--max-depth", "no catalogue section fits the depth and width limits", "relax --max-depth / --max-width")
+    keep &= _holding_the_heights(specs, member, material, keep)
     mass = column["area"] * material.density
     ranking = ranking or Ranking()
     kept = np.flatnonzero(keep).tolist()
@@ -174,6 +175,26 @@ def candidate_sections(catalogue: Any, member: Member, material: Material, famil
                   for k, i in enumerate(order)]
     return candidates, CandidateTable({name: values[order] for name, values in column.items()}, mass[order], tuple(specs[i] for i in order),
                                       np.full(len(order), not lazy))
+
+
+def _holding_the_heights(specs: Sequence[Any], member: Member, material: Material, keep: np.ndarray) -> np.ndarray:
+    """Which sections hold every load and restraint height given as a number (design.height_outside:
+    `sizer check` refuses the others, so they are no candidates); InputError when none does. Only
+    with such heights are the kept sections' full properties needed here (the shear centre)."""
+    from sizer.design import given_heights, height_outside
+    from sizer.sections import section_properties
+
+    holds = np.ones(len(specs), bool)
+    if not given_heights(member):
+        return holds
+    misfit = None
+    for i in np.flatnonzero(keep):
+        misfit = height_outside(member, section_properties(specs[i], material.density))
+        holds[i] = misfit is None
+    if not (holds & keep).any():
+        misfit.problem += "; no candidate section holds it"
+        raise misfit
+    return holds
 
 
 def design_for(member: Member, material: Material, candidate: Candidate, base: MemberSolution | None = None) -> Design:

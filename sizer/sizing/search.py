@@ -12,6 +12,7 @@ import numpy as np
 
 from sizer.analysis import MemberSolution, solve_member
 from sizer.checks import CheckReport, check_design
+from sizer.design import given_heights
 from sizer.model import Material, Member, Stiffness
 from sizer.sections.properties import AnalysisWorkers
 from sizer.sizing.candidates import Candidate, CandidateTable, candidate_sections, design_for
@@ -220,6 +221,8 @@ def _size(member: Member, catalogue: Any, material: Material, families: Sequence
     notes = [f"{count} after filters{weight}, in material {material.name} (the member's)."]
     notes += ranking.notes(any(not c.costing.available for c in candidates), any(c.costing.cost is None for c in candidates),
                            any(c.costing.terms.stock_lengths for c in candidates), any(c.costing.cost is not None for c in candidates))
+    if given_heights(member):
+        notes.append("Sections that do not hold every load and restraint height given (between their bottom and top faces) are left out.")
     search = Search(member, material, candidates, table, workers)
     if member.has_springs:
         search.compute(candidates)

@@ -22,6 +22,7 @@ RESTRAINT_WORDS = ("continuous", "supports")
 LOAD_STEP = 1.005  # mode "load": loads to 0.5 %
 LOAD_GRID = 2400  # load factors from 1.005^-2400 (6e-6) to 1.005^2400 (1.6e5) times the given load
 MAX_CONTINUOUS_SPANS = 5
+MAX_COLUMNS = 1000  # loads (mode "span") or lengths (mode "load") of one table, at most (docs/limits.md)
 FIRST_SPAN = 3.0  # m: the first trial in mode "span"
 DEFAULT_RESOLUTION = "10 mm"
 DEFAULT_MAX_SPAN = "30 m"
@@ -149,7 +150,9 @@ class _FileReader:
     def string_list(self, table: dict, key: str, example: str) -> list[Any]:
         value = table.get(key)
         if not isinstance(value, list) or not value:
-            raise self.error(key, f"expected a list, got {value!r}" if value is not None else f"'{key}' is missing", f"write e.g. {key} = {example}")
+            raise self.error(key, f"expected a list, got {str(value)[:40]!r}" if value is not None else f"'{key}' is missing", f"write e.g. {key} = {example}")
+        if len(value) > MAX_COLUMNS:
+            raise self.error(key, f"{len(value)} entries, more than a table holds ({MAX_COLUMNS})", "split it into several span tables")
         return value
 
 
