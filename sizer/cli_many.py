@@ -28,6 +28,16 @@ def register(app: typer.Typer) -> None:
     app.command(name="span-table")(span_table)
 
 
+def jobs_option(text: str | None) -> int | None:
+    """--jobs as a whole number of 1 or more (more than the cores run on the cores); InputError otherwise."""
+    if text is None:
+        return None
+    digits = text.strip()
+    if not digits.isascii() or not digits.isdigit() or int(digits[:12]) < 1:
+        raise InputError("", "--jobs", f"{text[:40]!r} is not a number of processes", "give --jobs 1 or more (default: every core)")
+    return int(digits[:12]) if len(digits) <= 12 else 10**12
+
+
 def _check_output(path: Optional[Path], suffixes: tuple[str, ...], option: str) -> None:
     if path is not None and path.suffix.lower() not in suffixes:
         raise InputError("", option, f"cannot write {str(path)!r}: the file name must end in {' or '.join(suffixes)}",
@@ -37,7 +47,7 @@ def _check_output(path: Optional[Path], suffixes: tuple[str, ...], option: str) 
 def schedule(
     file: Path = typer.Argument(..., help="Schedule file (TOML, or CSV with a header row).", show_default=False),
     catalogue: Optional[List[Path]] = CATALOGUE_OPTION,
-    jobs: Optional[int] = JOBS_OPTION,
+    jobs: Optional[str] = JOBS_OPTION,
     cluster: Optional[str] = CLUSTER_OPTION,
     keep_going: bool = typer.Option(False, "--keep-going", help="Run the good rows when some are bad; list the bad ones at the end (exit 2)."),
     json_output: bool = JSON_OPTION,
@@ -49,7 +59,8 @@ def schedule(
     Exit 0 all pass, 1 a member fails, 2 bad input."""
 
     def work() -> int:
-        return run_schedule_command(file, catalogue or [], jobs, cluster, keep_going, json_output, csv_out, out, unit_system(units_system))
+        return run_schedule_command(file, catalogue or [], jobs_option(jobs), cluster, keep_going, json_output, csv_out, out,
+                                    unit_system(units_system))
 
     run_guarded(work)
 
@@ -58,7 +69,7 @@ def span_table(
     file: Path = typer.Argument(..., help="Span-table file (TOML).", show_default=False),
     catalogue: Optional[List[Path]] = CATALOGUE_OPTION,
     family: Optional[List[str]] = typer.Option(None, "--family", help="Only sections of this family; may repeat."),
-    jobs: Optional[int] = JOBS_OPTION,
+    jobs: Optional[str] = JOBS_OPTION,
     cluster: Optional[str] = CLUSTER_OPTION,
     json_output: bool = JSON_OPTION,
     csv_out: Optional[Path] = CSV_OPTION,
@@ -69,7 +80,7 @@ def span_table(
     found on the full check. Exit 0 done, 2 bad input."""
 
     def work() -> int:
-        return run_span_table_command(file, catalogue or [], family or [], jobs, cluster, json_output, csv_out, plot,
+        return run_span_table_command(file, catalogue or [], family or [], jobs_option(jobs), cluster, json_output, csv_out, plot,
                                       unit_system(units_system))
 
     run_guarded(work)
