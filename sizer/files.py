@@ -20,6 +20,29 @@ def cache_root() -> Path:
     return Path(_cache_root(os.environ.get("SIZER_CACHE_DIR", "")))
 
 
+def cache_error(error: OSError) -> InputError:
+    """The one line for a cache folder sizer cannot write, naming SIZER_CACHE_DIR and the fix."""
+    where = error.filename or str(cache_root())
+    return InputError("", "SIZER_CACHE_DIR", f"cannot write sizer's cache folder {str(cache_root())!r} "
+                      f"({error.strerror or error} at {str(where)!r})",
+                      "set the environment variable SIZER_CACHE_DIR to a folder you can write, e.g. SIZER_CACHE_DIR=/tmp/sizer-cache")
+
+
+def require_writable_cache() -> Path:
+    """The cache folder, made if missing, once a file can be written there; else cache_error. For the
+    commands that keep results and catalogue copies there (schedules, span tables)."""
+    import tempfile
+
+    root = cache_root()
+    try:
+        root.mkdir(parents=True, exist_ok=True)
+        with tempfile.TemporaryFile(dir=root):
+            pass
+    except OSError as error:
+        raise cache_error(error) from None
+    return root
+
+
 @lru_cache(maxsize=8)
 def _cache_root(override: str) -> str:
     if override:
@@ -52,6 +75,38 @@ def check_output(path: str | Path, option: str, inputs: Iterable[str | Path] = (
     if path.exists() and not _writable(path, os.W_OK):
         raise InputError("", option, f"{shown!r} is read-only", "give another file name, or make the file writable first")
     return path
+
+
+def check_record_folder(folder: Path, option: str) -> Path:
+    """`folder` if sizer may put records there: a folder it can write, or none yet (made when the
+    records are written, beside a file check_output allowed); else InputError naming `option`."""
+    if folder.exists() and not folder.is_dir():
+        raise InputError("", option, f"{str(folder)!r} is in the way: the records go into a folder of that name",
+                         "move that file away, or give another file name")
+    if folder.is_dir() and not _writable(folder, os.W_OK | os.X_OK):
+        raise InputError("", option, f"cannot write into the folder {str(folder)!r} (read-only)", "give a file in a folder you can write")
+    return folder
+
+
+def write_all(outputs: Iterable[tuple[Path, bytes | str]]) -> None:
+    """Write every (path, data) atomically, in order; if one fails, the files and folders this call
+    made are removed again (files it replaced cannot be restored) and the error raised: no run
+    leaves part of its outputs behind."""
+    made: list[Path] = []
+    try:
+        for path, data in outputs:
+            path = Path(path)
+            missing = [folder for folder in (path.parent, *path.parent.parents) if not folder.exists()]
+            new = not path.exists()
+            write_atomic(path, data)
+            made.extend(([path] if new else []) + missing[::-1])
+    except BaseException:
+        for path in reversed(made):
+            try:
+                path.rmdir() if path.is_dir() else path.unlink()
+            except OSError:
+                pass
+        raise
 
 
 def _same_file(a: Path, b: Path) -> bool:

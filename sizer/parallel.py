@@ -31,7 +31,7 @@ from pathlib import Path
 from typing import Any, Callable, Iterable, Iterator, Sequence
 
 from sizer.errors import InputError
-from sizer.files import cache_root, write_atomic
+from sizer.files import cache_error, cache_root, write_atomic
 
 Work = Callable[[Any], dict]
 RUNS_FOLDER = "runs"
@@ -146,10 +146,13 @@ def catalogue_folders(catalogue: ShippedCatalogue) -> list[Path]:
 def _copied_folders(digest: str, catalogue: ShippedCatalogue) -> tuple[Path, ...]:
     base = cache_root() / COPIES_FOLDER / digest
     folders = sorted({item.folder for item in catalogue.files})
-    for item in catalogue.files:
-        path = base / str(item.folder) / item.name
-        if not path.is_file() or path.read_text(encoding="utf-8") != item.text:
-            write_atomic(path, item.text)
+    try:
+        for item in catalogue.files:
+            path = base / str(item.folder) / item.name
+            if not path.is_file() or path.read_text(encoding="utf-8", errors="replace") != item.text:
+                write_atomic(path, item.text)
+    except OSError as error:
+        raise cache_error(error) from None
     return tuple(base / str(folder) for folder in folders)
 
 
@@ -198,7 +201,10 @@ def keep(key: str, result: dict) -> None:
 
     if "error" not in result:
         body = json.dumps({"key": key, "result": result}, ensure_ascii=False).encode("utf-8")
-        write_atomic(_kept_path(key), keyed_digest(body).encode("ascii") + b"\n" + body, durable=False)
+        try:
+            write_atomic(_kept_path(key), keyed_digest(body).encode("ascii") + b"\n" + body, durable=False)
+        except OSError as error:
+            raise cache_error(error) from None
 
 
 # ----------------------------------------------------------------------------------------------

@@ -416,10 +416,3 @@ def span_plot_bytes(document: dict, image_format: str, system: str) -> bytes:
     figure.savefig(buffer, format=image_format, bbox_inches="tight")
     return buffer.getvalue()
 
-
-def write_span_plot(document: dict, path: Path, system: str) -> None:
-    """The span-table plot to a PNG or SVG file (written whole), in `system`'s units."""
-    from sizer.files import write_atomic
-    from sizer.render.plots import check_plot_path
-
-    write_atomic(path, span_plot_bytes(document, check_plot_path(path), system))
