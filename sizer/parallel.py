@@ -616,12 +616,13 @@ class _progress:
 
     def begin(self) -> None:
         if self.shown and self.bar is None:
-            from rich.console import Console
             from rich.progress import BarColumn, MofNCompleteColumn, Progress, TextColumn, TimeElapsedColumn, TimeRemainingColumn
 
+            from sizer.printable import safe_console
+
             self.bar = Progress(TextColumn(self.description), BarColumn(), MofNCompleteColumn(), TimeElapsedColumn(),
-                                TextColumn("left"), TimeRemainingColumn(), TextColumn("{task.fields[label]}"),
-                                console=Console(stderr=True), transient=True)
+                                TextColumn("left"), TimeRemainingColumn(), TextColumn("{task.fields[label]}", markup=False),
+                                console=safe_console(stderr=True), transient=True)
             self.bar.start()
             self.task = self.bar.add_task(self.description, total=self.total, completed=self.done, label="")
 

@@ -22,6 +22,7 @@ from typing import Any, Iterator, Sequence
 
 from sizer.errors import InputError
 from sizer.files import read_text
+from sizer.printable import find_control
 from sizer.model import LineLoad, Member, PointLoad
 from sizer.parallel import Job, JobFailed, RunSummary, ShippedCatalogue, Workers, code_fingerprint, content_hash, error_result, result_error, ship_catalogue
 
@@ -181,6 +182,8 @@ def _row(path: Path, where: str, line: int | None, entry: dict) -> ScheduleRow:
             return None
         if not isinstance(value, str) or not value.strip():
             raise error(key, f"expected text, got {value!r}" if value is not None else f"'{key}' is missing", TEXT_EXAMPLES[key])
+        if (control := find_control(value)) is not None:
+            raise error(key, f"holds the control character {control}", "remove it: marks and names are plain text")
         return value.strip()
 
     do = text("do")
