@@ -125,12 +125,32 @@ def _writable(path: Path, mode: int) -> bool:
         return False
 
 
+MAX_INPUT_BYTES = 16 * 2**20  # the largest input file sizer reads (member, schedule, span table, catalogue)
+
+
 def read_text(path: str | Path, what: str = "the file", fix: str = "check the path") -> str:
-    """The UTF-8 text of a file the user named; InputError naming it where it cannot be read."""
+    """The UTF-8 text of a file the user named (a leading byte-order mark kept for the caller);
+    InputError naming it where it cannot be read, is not a plain file (a device, a pipe: /dev/zero
+    would never end) or is larger than MAX_INPUT_BYTES."""
     try:
-        return Path(path).read_text(encoding="utf-8")
-    except (OSError, UnicodeDecodeError) as exc:
-        raise InputError(str(path), "", f"cannot read {what} ({exc})", fix) from None
+        return read_bytes(path, what).decode("utf-8")
+    except UnicodeDecodeError as exc:
+        raise InputError(str(path), "", f"{what} is not UTF-8 text (byte {exc.start + 1})", "save it as UTF-8 text") from None
+    except OSError as exc:
+        raise InputError(str(path), "", f"cannot read {what} ({exc.strerror or exc})", fix) from None
+
+
+def read_bytes(path: str | Path, what: str = "the file") -> bytes:
+    """The bytes of a plain file of at most MAX_INPUT_BYTES; InputError for anything else (OSError
+    where it cannot be opened)."""
+    with open(path, "rb") as stream:
+        if not stat.S_ISREG(os.fstat(stream.fileno()).st_mode):
+            raise InputError(str(path), "", f"{what} is not a plain file (a folder, device or pipe)", "give the path of a text file")
+        data = stream.read(MAX_INPUT_BYTES + 1)
+    if len(data) > MAX_INPUT_BYTES:
+        raise InputError(str(path), "", f"{what} is larger than sizer reads ({MAX_INPUT_BYTES // 2**20} MiB)",
+                         "split it into smaller files (see docs/limits.md)")
+    return data
 
 
 def write_atomic(path: str | Path, data: bytes | str, durable: bool = True) -> None:

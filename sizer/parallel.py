@@ -31,7 +31,7 @@ from pathlib import Path
 from typing import Any, Callable, Iterable, Iterator, Sequence
 
 from sizer.errors import InputError
-from sizer.files import cache_error, cache_root, write_atomic
+from sizer.files import cache_error, cache_root, read_text, write_atomic
 
 Work = Callable[[Any], dict]
 RUNS_FOLDER = "runs"
@@ -132,7 +132,7 @@ def ship_catalogue(files: Sequence[Path]) -> ShippedCatalogue:
     shipped = []
     for path in files:
         folder = folders.setdefault(Path(path).resolve().parent, len(folders))
-        shipped.append(CatalogueText(Path(path).name, folder, Path(path).read_text(encoding="utf-8")))
+        shipped.append(CatalogueText(Path(path).name, folder, read_text(path, "the catalogue file")))
     return ShippedCatalogue(tuple(shipped))
 
 

@@ -8,7 +8,7 @@ from pathlib import Path
 from typing import Any
 
 from sizer import units
-from sizer.errors import InputError
+from sizer.files import read_text
 from sizer.inputfile.checks_table import read_checks
 from sizer.inputfile.loads import read_loads
 from sizer.inputfile.materials import parse_material
@@ -36,13 +36,7 @@ SHORTEST_ZONE = 0.1  # m: see shortest_zone
 def read_member_file(path: str | Path) -> Member:
     """Read a member file into a Member. Raises InputError (one line: file, key, line, fix)."""
     path = Path(path)
-    try:
-        text = path.read_text(encoding="utf-8-sig")
-    except OSError as exc:
-        raise InputError(str(path), "", f"cannot read the file ({exc.strerror})", "check the path") from None
-    except UnicodeDecodeError as exc:
-        raise InputError(str(path), "", f"the file is not UTF-8 text (byte {exc.start + 1})", "save it as UTF-8 text") from None
-    return parse_member_text(text, path)
+    return parse_member_text(read_text(path, "the file"), path)
 
 
 def parse_member_text(text: str, path: Path) -> Member:

@@ -30,8 +30,6 @@ def console(stderr: bool = False) -> Any:
     import os
     import sys
 
-    from rich.console import Console
-
     stream = sys.stderr if stderr else sys.stdout
     piped = not (hasattr(stream, "isatty") and stream.isatty())
     width = PIPED_WIDTH if piped and not os.environ.get("COLUMNS", "").isdigit() else None

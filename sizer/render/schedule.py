@@ -11,7 +11,6 @@ import csv
 import io
 import math
 import re
-from pathlib import Path
 from typing import Any, Sequence
 
 from sizer import units
