@@ -34,6 +34,11 @@ def run_guarded(work: Callable[[], int]) -> None:
         _one_line(f"{where}{error.strerror or error} (fix: check the path and its permissions)")
     except RecursionError:
         _one_line("the input is nested too deeply to read (fix: see docs/limits.md)")
+    except Exception as error:
+        if type(error).__name__ != "BrokenProcessPool":
+            raise
+        _one_line("a worker process stopped before its job was done (out of memory?) "
+                  "(fix: run with --jobs 1 to see which input it was, or make the input smaller)")
     raise typer.Exit(code)
 
 
