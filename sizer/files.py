@@ -99,7 +99,7 @@ def write_all(outputs: Iterable[tuple[Path, bytes | str]]) -> None:
             missing = [folder for folder in (path.parent, *path.parent.parents) if not folder.exists()]
             new = not path.exists()
             write_atomic(path, data)
-            made.extend(([path] if new else []) + missing[::-1])
+            made.extend(missing[::-1] + ([path] if new else []))  # removed in reverse: the file, then its new folders
     except BaseException:
         for path in reversed(made):
             try:

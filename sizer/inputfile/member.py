@@ -194,8 +194,8 @@ def _read_restraints(reader: Reader, value: Any, length: float) -> list[Restrain
                 raise reader.error(f"{prefix}.to", "'to' must be beyond 'from'", "give from < to along the member, or use at for a point")
             shortest = shortest_zone(length)
             if end - start < shortest * (1 - 1e-9):
-                raise reader.error(f"{prefix}.to", f"a continuous restraint {units.fmt(end - start, 'length')} long is shorter than "
-                                   f"{units.fmt(shortest, 'length')}, too short to hold the member's slope",
+                raise reader.error(f"{prefix}.to", f"a continuous restraint {(end - start) * 1e3:.4g} mm long is shorter than "
+                                   f"{shortest * 1e3:.4g} mm, too short to hold the member's slope",
                                    "use at = for a point restraint, or give a zone at least that long (see docs/limits.md)")
         else:
             raise reader.error(prefix, "the restraint has no position", 'give at = "3 m", or from = "0 m" and to = "6 m" for a deck')
