@@ -173,7 +173,7 @@ def _read_warping(reader: Reader, table: dict, prefix: str) -> str | None:
     """A support's `warping` ("free" or "held"), None when not given."""
     value = table.get("warping")
     if value is not None and value not in WARPING_CHOICES:
-        raise reader.error(f"{prefix}.warping", f"{value!r} is not a warping condition", 'use warping = "free" or "held"')
+        raise reader.error(f"{prefix}.warping", f"{str(value)[:40]!r} is not a warping condition", 'use warping = "free" or "held"')
     return value
 
 
