@@ -199,7 +199,7 @@ def run_app(args: list[str] | None = None) -> int:
     naming the fix, exit code 2, like any other bad input."""
     click = _click_module()
     try:
-        code = app(args=args, standalone_mode=False)
+        code = app(args=args, prog_name="sizer", standalone_mode=False)
     except click.exceptions.ClickException as error:
         if type(error).__name__ == "NoArgsIsHelpError":  # the help is shown already
             return error.exit_code
@@ -208,7 +208,7 @@ def run_app(args: list[str] | None = None) -> int:
         where = f"{error.ctx.command_path} --help" if getattr(error, "ctx", None) is not None else "sizer --help"
         typer.echo(f"sizer: command line: {printable(error.format_message())} (fix: see {where})", err=True)
         return error.exit_code
-    except click.exceptions.Abort:
+    except typer.Abort:
         typer.echo("sizer: stopped", err=True)
         return 1
     return code if isinstance(code, int) else 0

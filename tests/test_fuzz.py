@@ -54,7 +54,6 @@ TYPED = {
 }
 UNITS_OF = {
     "fx": ["kN", "N"], "fy": ["kN", "N"], "fz": ["kN", "N"], "mx": ["kN*m"], "my": ["kN*m"], "mz": ["kN*m", "N*m"],
-    "fx": ["kN", "N"], "fy": ["kN", "N"], "fz": ["kN", "N"], "mx": ["kN*m"], "my": ["kN*m"], "mz": ["kN*m", "N*m"],
     "wx": ["kN/m"], "wy": ["kN/m", "N/m"], "wz": ["kN/m"], "wy_end": ["kN/m"], "uy": ["kN/mm", "N/m"], "uz": ["N/m"], "rz": ["kN*m/rad"],
 }
 TYPED.update({key: (SIZES, units) for key, units in UNITS_OF.items()})

@@ -13,7 +13,6 @@ import csv
 import hashlib
 import io
 import json
-import os
 import socket
 import stat
 import threading
@@ -491,3 +490,25 @@ def test_an_unwritable_cache_names_the_variable_and_the_fix(scheduled: Path, tmp
     monkeypatch.setenv("SIZER_CACHE_DIR", str(tmp_path / "not_a_folder" / "cache"))
     bad_input(run("schedule", scheduled, "--jobs", "1"), "SIZER_CACHE_DIR", "fix: set the environment variable SIZER_CACHE_DIR")
     assert cache_root() == tmp_path / "not_a_folder" / "cache"
+
+
+# ----------------------------------------------------------------------------------------------
+# messages
+
+@pytest.mark.parametrize("args, words", [(["report", "m.toml"], ("Missing option '-o'", "sizer report --help")),
+                                         (["check", "--bogus"], ("No such option: --bogus",)),
+                                         (["size", "m.toml", "--top", "x"], ("'--top'",))])
+def test_command_line_mistakes_are_one_line_from_the_sizer_command(args: list[str], words: tuple[str, ...],
+                                                                  capsys: pytest.CaptureFixture) -> None:
+    from sizer.cli import run_app
+
+    assert run_app(args) == 2
+    lines = capsys.readouterr().err.strip().splitlines()
+    assert len(lines) == 1 and lines[0].startswith("sizer: command line: ") and all(word in lines[0] for word in words), lines
+
+
+def test_a_span_step_longer_than_the_spans_names_the_resolution(tmp_path: Path) -> None:
+    # once named "span_table.length", a key that does not exist
+    table = tmp_path / "t.toml"
+    table.write_text('[span_table]\nmaterial = "steel"\nloads = ["-1 kN/m"]\nresolution = "1 km"\n', encoding="utf-8")
+    bad_input(run("span-table", table), "span_table.resolution", "max_span")

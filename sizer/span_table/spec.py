@@ -254,11 +254,18 @@ def _dead_load(values: _FileReader, table: dict) -> float | None:
 
 
 def _resolution(values: _FileReader, table: dict, mode: str) -> float:
+    from sizer import units
+
     if mode == "load":
         if "resolution" in table:
             raise values.error("resolution", "mode \"load\" finds loads to 0.5 %; resolution is the span step of mode \"span\"", "remove resolution")
         return values.length(DEFAULT_RESOLUTION, "resolution")
-    return values.length(table.get("resolution", DEFAULT_RESOLUTION), "resolution")
+    resolution = values.length(table.get("resolution", DEFAULT_RESOLUTION), "resolution")
+    longest = values.length(table.get("max_span", DEFAULT_MAX_SPAN), "max_span")
+    if resolution > longest / 2:
+        raise values.error("resolution", f"the span step {table.get('resolution')!s:.40} leaves fewer than two spans up to max_span "
+                           f"({units.fmt(longest, 'length')})", 'give a finer step, e.g. resolution = "10 mm", or a longer max_span')
+    return resolution
 
 
 # ----------------------------------------------------------------------------------------------
