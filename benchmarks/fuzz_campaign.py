@@ -32,6 +32,8 @@ from pathlib import Path
 from typing import Any, Callable
 
 sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
+for _name in ("OPENBLAS_NUM_THREADS", "MKL_NUM_THREADS", "OMP_NUM_THREADS"):  # as the sizer command does (sizer.cli.main)
+    os.environ.setdefault(_name, "1")
 
 import tomlkit  # noqa: E402
 from hypothesis import HealthCheck, Phase, given, seed, settings  # noqa: E402

@@ -512,3 +512,11 @@ def test_a_span_step_longer_than_the_spans_names_the_resolution(tmp_path: Path) 
     table = tmp_path / "t.toml"
     table.write_text('[span_table]\nmaterial = "steel"\nloads = ["-1 kN/m"]\nresolution = "1 km"\n', encoding="utf-8")
     bad_input(run("span-table", table), "span_table.resolution", "max_span")
+
+
+@pytest.mark.parametrize("line, key", [('restraint = "0.001 mm"', "span_table.restraint"), ('resolution = "1 µm"', "span_table.resolution")])
+def test_a_span_table_with_restraints_every_micrometre_is_refused(tmp_path: Path, line: str, key: str) -> None:
+    # point restraints every 0.001 mm ran past a minute (millions of restraints per trial)
+    table = tmp_path / "t.toml"
+    table.write_text(f'[span_table]\nmaterial = "steel"\nloads = ["-1 kN/m"]\n{line}\n', encoding="utf-8")
+    bad_input(run("span-table", table), key)
