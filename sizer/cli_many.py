@@ -14,7 +14,7 @@ from sizer.cli_common import run_guarded, unit_system
 from sizer.errors import InputError
 
 CATALOGUE_OPTION = typer.Option(None, "--catalogue", help="Catalogue file or folder; may repeat.")
-JOBS_OPTION = typer.Option(None, "--jobs", help="Local processes to use (default: every core).", show_default=False)
+JOBS_OPTION = typer.Option(None, "--jobs", help="Local processes to use (default and at most: every core).", show_default=False)
 CLUSTER_OPTION = typer.Option(None, "--cluster", help="Run on the Dask scheduler at this address, e.g. tcp://10.0.0.5:8786 "
                               "(pip install 'sizer\\[cluster]'; the workers need sizer installed).")
 JSON_OPTION = typer.Option(False, "--json", help="JSON in SI base units on stdout.")
@@ -106,9 +106,8 @@ def run_schedule_command(file: Path, catalogue: list[Path], jobs: int | None, cl
     """Read, run, then write every output; exit 2 with bad rows (--keep-going), else 1 when a member fails."""
     from sizer.render.common import console, dumps
     from sizer.render.schedule import schedule_csv, schedule_renderables
-    from sizer.schedule import read_schedule, run_schedule, schedule_json
-
     from sizer.files import check_record_folder, require_writable_cache, write_all
+    from sizer.schedule import read_schedule, run_schedule, schedule_json
 
     inputs = [file, *catalogue]
     _check_outputs([(csv_out, (".csv",), "--csv"), (out, (".html", ".htm"), "-o")], inputs)
@@ -136,6 +135,7 @@ def run_schedule_command(file: Path, catalogue: list[Path], jobs: int | None, cl
 
 
 def _check_outputs(outputs: list[tuple[Path | None, tuple[str, ...], str]], inputs: list[Path]) -> None:
+    """_check_output on each (path, suffixes, option)."""
     for path, suffixes, option in outputs:
         _check_output(path, suffixes, option, inputs)
 
@@ -155,9 +155,8 @@ def run_span_table_command(file: Path, catalogue: list[Path], families: list[str
     """Read, run every cell, then write every output; exit 0 (a span table has nothing to fail)."""
     from sizer.render.common import console, dumps
     from sizer.render.schedule import span_plot_bytes, span_table_csv, span_table_document, span_table_renderables
-    from sizer.span_table import read_span_table, run_span_table
-
     from sizer.files import require_writable_cache, write_all
+    from sizer.span_table import read_span_table, run_span_table
 
     inputs = [file, *catalogue]
     _check_output(csv_out, (".csv",), "--csv", inputs)
@@ -167,8 +166,6 @@ def run_span_table_command(file: Path, catalogue: list[Path], families: list[str
 
         check_plot_path(plot)
         check_output(plot, "--plot", inputs)
-    if csv_out is not None and plot is not None and csv_out.resolve() == plot.resolve():
-        raise InputError("", "--plot", "--csv and --plot name the same file", "give each its own file")
     require_writable_cache()
     spec = read_span_table(file)
     result = run_span_table(spec, catalogue, families, jobs, cluster)

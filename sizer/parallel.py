@@ -11,7 +11,8 @@
   text), so the workers need none of the user's files.
 - Results come back in the input's order and are the same whatever ran them: a job is a pure
   function of its payload.
-- Resume: each finished result is kept at once in the cache folder (`runs/`), keyed by a hash of
+- Resume: each finished result is kept at once in the cache folder (`runs/`, under a keyed digest:
+  sizer.digests), keyed by a hash of
   the job's content and sizer's code; a later run with the same key takes it instead of redoing it.
 - A rich progress bar on stderr shows the count done and an estimate of the time left.
 
