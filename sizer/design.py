@@ -122,16 +122,23 @@ def given_heights(member: Member) -> list[tuple[str, float]]:
 
 def height_outside(member: Member, props: Any) -> InputError | None:
     """The error for the first load or restraint height (a number, m above the shear centre along the
-    section's depth) that lies outside the section, between its bottom and top faces; None when
-    every one lies within. A height outside would turn a load into one hung below the section or
-    stood above it, which changes the lateral-torsional buckling load (below: on the unsafe side)."""
-    y0 = float(props.shear_centre[0])
-    top, bottom = float(props.y_top) - y0, -float(props.y_bottom) - y0
-    slack = 1e-9 * float(props.depth)
+    section's depth) that lies outside the section `props` (SectionProperties), between its bottom
+    and top faces; None when every one lies within. A height outside would turn a load into one hung
+    below the section or stood above it, which changes the lateral-torsional buckling load (below:
+    on the unsafe side)."""
+    return heights_outside_faces(member, props.name, float(props.shear_centre[0]), float(props.y_top), float(props.y_bottom),
+                                 float(props.depth))
+
+
+def heights_outside_faces(member: Member, name: str, y0: float, y_top: float, y_bottom: float, depth: float) -> InputError | None:
+    """height_outside from the section's scalars (m): the shear centre's offset y0 from the centroid,
+    the distances y_top and y_bottom from the centroid to the top and bottom fibres, the depth."""
+    top, bottom = y_top - y0, -y_bottom - y0
+    slack = 1e-9 * depth
     for key, height in given_heights(member):
         if not bottom - slack <= height <= top + slack:
             return InputError(member.source, key, f"a height of {height * 1e3:.6g} mm from the shear centre is outside the section "
-                              f"{props.name} (its faces are at {bottom * 1e3:+.1f} mm and {top * 1e3:+.1f} mm)",
+                              f"{name} (its faces are at {bottom * 1e3:+.1f} mm and {top * 1e3:+.1f} mm)",
                               'give a height within the section, or "top", "centre" or "bottom" (see docs/limits.md)')
     return None
 

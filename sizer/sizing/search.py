@@ -215,7 +215,8 @@ def size_member(member: Member, catalogue: Any, material: Material, families: Se
 
 def _size(member: Member, catalogue: Any, material: Material, families: Sequence[str], max_depth: float | None,
           max_width: float | None, top: int, workers: AnalysisWorkers, ranking: Ranking) -> SizingResult:
-    candidates, table = candidate_sections(catalogue, member, material, families, max_depth, max_width, lazy=True, ranking=ranking)
+    candidates, table = candidate_sections(catalogue, member, material, families, max_depth, max_width, workers.progress, lazy=True,
+                                           ranking=ranking)
     count = f"{len(candidates)} candidate section" + ("" if len(candidates) == 1 else "s")
     weight = ", each with its own self-weight" if member.self_weight_case else " (self-weight not included: self_weight = false)"
     notes = [f"{count} after filters{weight}, in material {material.name} (the member's)."]
