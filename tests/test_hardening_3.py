@@ -520,3 +520,15 @@ def test_a_span_table_with_restraints_every_micrometre_is_refused(tmp_path: Path
     table = tmp_path / "t.toml"
     table.write_text(f'[span_table]\nmaterial = "steel"\nloads = ["-1 kN/m"]\n{line}\n', encoding="utf-8")
     bad_input(run("span-table", table), key)
+
+
+def test_stock_lists_read_as_other_inputs(tmp_path: Path) -> None:
+    # /dev/zero never returned; a name with a newline went into the catalogue, to be refused on every later read
+    bad_input(run("sections", "import", "/dev/zero", "--shape", "rectangle"), "not a plain file")
+    stock = tmp_path / "stock.csv"
+    stock.write_text('name,depth,width\n"A\nB",30 mm,8 mm\n', encoding="utf-8")
+    result = run("sections", "import", stock, "--shape", "rectangle")
+    assert result.exit_code == 2 and "control character \\x0a" in result.stderr and result.stdout == ""
+    stock.write_bytes(b"\xef\xbb\xbfname,depth,width\nF1,30 mm,8 mm\n")  # with a byte-order mark
+    result = run("sections", "import", stock, "--shape", "rectangle")
+    assert result.exit_code == 0 and 'name = "F1"' in result.stdout
