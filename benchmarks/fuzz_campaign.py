@@ -194,6 +194,10 @@ def sound_member_texts(draw: Any) -> str:
                       "fy": draw(st.sampled_from(["-1 kN", "-0.1 kN", "2 kN"])), "height": draw(height)})
     if draw(st.booleans()):
         loads[0]["height"] = draw(height)
+    if draw(st.integers(0, 3)) == 0:  # the third round's keys: where across, bearing lengths, stiffeners
+        loads[-1]["across"] = draw(st.sampled_from(["shear-centre", "centroid", "+4 mm", "-4 mm", "+40 mm", "-5 m", "1e-300 mm"]))
+        supports[-1]["bearing"] = draw(st.sampled_from(["0 mm", "50 mm", "150 mm", "4 m", "-1 mm"]))
+        supports[0]["stiffened"] = draw(st.sampled_from([True, False, "yes"]))
     restraints = []
     for _ in range(draw(st.integers(0, 3))):
         start = draw(st.integers(0, 38)) / 10  # m, on a 100 mm grid
