@@ -139,8 +139,20 @@ def heights_outside_faces(member: Member, name: str, y0: float, y_top: float, y_
         if not bottom - slack <= height <= top + slack:
             return InputError(member.source, key, f"a height of {height * 1e3:.6g} mm from the shear centre is outside the section "
                               f"{name} (its faces are at {bottom * 1e3:+.1f} mm and {top * 1e3:+.1f} mm)",
-                              'give a height within the section, or "top", "centre" or "bottom" (see docs/limits.md)')
+                              'give a height within the section, or "top", "centre" or "bottom" (see docs/limits.md)',
+                              _line_of(member.source, key))
     return None
+
+
+def _line_of(source: str, key: str) -> int | None:
+    """The line of `key` in the member file `source` (read again: only for a message), None if unknown."""
+    from sizer.files import read_text
+    from sizer.inputfile import KeyLines
+
+    try:
+        return KeyLines(read_text(source)).find(key) if source else None
+    except InputError:
+        return None
 
 
 def _gravity_text(member: Member) -> str:
