@@ -360,6 +360,7 @@ def test_schedule_speaks_as_every_other_screen_in_the_units_asked(project):
     from sizer.render.schedule import _mass
 
     out = project / "out" / "floor.html"
+    out.parent.mkdir()  # outputs go into existing folders only (docs/limits.md)
     result = invoke("schedule", project / "schedule.toml", "--catalogue", project / "catalogue.toml", "--jobs", "1",
                     "--units", "us", "-o", out)
     words = set(re.findall(r"\b(ok|FAILS|ALL PASS|FAILING|passes|fails)\b", result.stdout))
