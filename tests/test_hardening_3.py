@@ -449,7 +449,7 @@ def test_memory_error_is_one_line_and_exit_2(capsys: pytest.CaptureFixture) -> N
         run_guarded(greedy)
     assert stopped.value.exit_code == 2
     lines = capsys.readouterr().err.strip().splitlines()
-    assert len(lines) == 1 and lines[0].startswith("sizer: out of memory")
+    assert len(lines) == 1 and lines[0].startswith("sizer: the request needs more memory")
 
 
 def test_a_span_table_starts_its_first_cell_before_making_every_key(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
