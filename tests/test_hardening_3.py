@@ -202,14 +202,14 @@ def test_a_secret_others_can_read_is_replaced(tmp_path: Path) -> None:
 def test_a_unit_factor_changed_with_a_plain_digest_is_not_believed(folder: Path, tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
     monkeypatch.setenv("SIZER_CACHE_DIR", str(tmp_path / "cache"))
     monkeypatch.setattr(units, "_UNIT_FACTORS", None)
-    assert units.parse("12 kN", "force") == pytest.approx(12e3)
+    assert units.parse("12 daN", "force") == pytest.approx(120.0)  # a unit pint is asked for (1 daN = 10 N)
     memory = tmp_path / "cache" / units.UNIT_CACHE_NAME
     data = json.loads(memory.read_text(encoding="utf-8"))
-    data["factors"]["kN|force"] = 1500.0  # x1.5, with a digest remade as the old plain sha256 was
+    data["factors"]["daN|force"] = 15.0  # x1.5, with a digest remade as the old plain sha256 was
     data["digest"] = hashlib.sha256(json.dumps(data["factors"], sort_keys=True).encode()).hexdigest()
     memory.write_text(json.dumps(data), encoding="utf-8")
     monkeypatch.setattr(units, "_UNIT_FACTORS", None)
-    assert units.parse("12 kN", "force") == pytest.approx(12e3)  # 1 kN = 1000 N (SI)
+    assert units.parse("12 daN", "force") == pytest.approx(120.0)  # 1 daN = 10 N (SI prefix deca)
 
 
 def test_a_kept_result_changed_with_its_digest_remade_is_redone(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
