@@ -5,7 +5,7 @@ from __future__ import annotations
 
 import gc
 from pathlib import Path
-from typing import List, Optional
+from typing import Any, List, Optional
 
 import typer
 
@@ -190,9 +190,40 @@ def main() -> None:
     single_threaded_blas()
     fewer_collections()
     try:
-        app()
+        code = run_app()
     finally:
         gc.freeze()  # the command is done: its objects end with the process, without a last full collection
+    raise SystemExit(code)
+
+
+def run_app(args: list[str] | None = None) -> int:
+    """Run the command line (`args`, else sys.argv) and return the exit code. A mistake on the command
+    line itself (a missing option, an unknown one, a value of the wrong type) is one line on stderr
+    naming the fix, exit code 2, like any other bad input."""
+    click = _click_module()
+    try:
+        code = app(args=args, prog_name="sizer", standalone_mode=False)
+    except click.exceptions.ClickException as error:
+        if type(error).__name__ == "NoArgsIsHelpError":  # the help is shown already
+            return error.exit_code
+        from sizer.printable import printable
+
+        where = f"{error.ctx.command_path} --help" if getattr(error, "ctx", None) is not None else "sizer --help"
+        typer.echo(f"sizer: command line: {printable(error.format_message())} (fix: see {where})", err=True)
+        return error.exit_code
+    except typer.Abort:
+        typer.echo("sizer: stopped", err=True)
+        return 1
+    return code if isinstance(code, int) else 0
+
+
+def _click_module() -> Any:
+    """The click that typer runs on: its own copy (typer >= 0.26) or the click package."""
+    try:
+        from typer import _click as module
+    except ImportError:  # pragma: no cover - older typer
+        import click as module
+    return module
 
 
 def fewer_collections() -> None:

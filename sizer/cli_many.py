@@ -14,7 +14,7 @@ from sizer.cli_common import run_guarded, unit_system
 from sizer.errors import InputError
 
 CATALOGUE_OPTION = typer.Option(None, "--catalogue", help="Catalogue file or folder; may repeat.")
-JOBS_OPTION = typer.Option(None, "--jobs", help="Local processes to use (default: every core).", show_default=False)
+JOBS_OPTION = typer.Option(None, "--jobs", help="Local processes to use (default and at most: every core).", show_default=False)
 CLUSTER_OPTION = typer.Option(None, "--cluster", help="Run on the Dask scheduler at this address, e.g. tcp://10.0.0.5:8786 "
                               "(pip install 'sizer\\[cluster]'; the workers need sizer installed).")
 JSON_OPTION = typer.Option(False, "--json", help="JSON in SI base units on stdout.")
@@ -28,16 +28,38 @@ def register(app: typer.Typer) -> None:
     app.command(name="span-table")(span_table)
 
 
-def _check_output(path: Optional[Path], suffixes: tuple[str, ...], option: str) -> None:
-    if path is not None and path.suffix.lower() not in suffixes:
+def jobs_option(text: str | None) -> int | None:
+    """--jobs as a whole number of 1 or more (more than the cores run on the cores); InputError otherwise."""
+    if text is None:
+        return None
+    digits = text.strip()
+    if not digits.isascii() or not digits.isdigit() or int(digits[:12]) < 1:
+        raise InputError("", "--jobs", f"{text[:40]!r} is not a number of processes", "give --jobs 1 or more (default: every core)")
+    return int(digits[:12]) if len(digits) <= 12 else 10**12
+
+
+def _check_output(path: Optional[Path], suffixes: tuple[str, ...], option: str, inputs: list[Path]) -> None:
+    """Before any work: `path` ends in one of `suffixes` and sizer may write it (files.check_output:
+    not an input, an existing folder it can write, not read-only)."""
+    from sizer.files import check_output
+
+    if path is None:
+        return
+    if path.suffix.lower() not in suffixes:
         raise InputError("", option, f"cannot write {str(path)!r}: the file name must end in {' or '.join(suffixes)}",
                          f"give a name such as out{suffixes[0]}")
+    check_output(path, option, inputs)
+
+
+def _records_folder(out: Path) -> Path:
+    """Where a schedule's HTML record puts each member's calculation record: OUT_records/ beside it."""
+    return out.with_name(out.stem + "_records")
 
 
 def schedule(
     file: Path = typer.Argument(..., help="Schedule file (TOML, or CSV with a header row).", show_default=False),
     catalogue: Optional[List[Path]] = CATALOGUE_OPTION,
-    jobs: Optional[int] = JOBS_OPTION,
+    jobs: Optional[str] = JOBS_OPTION,
     cluster: Optional[str] = CLUSTER_OPTION,
     keep_going: bool = typer.Option(False, "--keep-going", help="Run the good rows when some are bad; list the bad ones at the end (exit 2)."),
     json_output: bool = JSON_OPTION,
@@ -49,7 +71,8 @@ def schedule(
     Exit 0 all pass, 1 a member fails, 2 bad input."""
 
     def work() -> int:
-        return run_schedule_command(file, catalogue or [], jobs, cluster, keep_going, json_output, csv_out, out, unit_system(units_system))
+        return run_schedule_command(file, catalogue or [], jobs_option(jobs), cluster, keep_going, json_output, csv_out, out,
+                                    unit_system(units_system))
 
     run_guarded(work)
 
@@ -58,7 +81,7 @@ def span_table(
     file: Path = typer.Argument(..., help="Span-table file (TOML).", show_default=False),
     catalogue: Optional[List[Path]] = CATALOGUE_OPTION,
     family: Optional[List[str]] = typer.Option(None, "--family", help="Only sections of this family; may repeat."),
-    jobs: Optional[int] = JOBS_OPTION,
+    jobs: Optional[str] = JOBS_OPTION,
     cluster: Optional[str] = CLUSTER_OPTION,
     json_output: bool = JSON_OPTION,
     csv_out: Optional[Path] = CSV_OPTION,
@@ -69,7 +92,7 @@ def span_table(
     found on the full check. Exit 0 done, 2 bad input."""
 
     def work() -> int:
-        return run_span_table_command(file, catalogue or [], family or [], jobs, cluster, json_output, csv_out, plot,
+        return run_span_table_command(file, catalogue or [], family or [], jobs_option(jobs), cluster, json_output, csv_out, plot,
                                       unit_system(units_system))
 
     run_guarded(work)
@@ -83,17 +106,23 @@ def run_schedule_command(file: Path, catalogue: list[Path], jobs: int | None, cl
     """Read, run, then write every output; exit 2 with bad rows (--keep-going), else 1 when a member fails."""
     from sizer.render.common import console, dumps
     from sizer.render.schedule import schedule_csv, schedule_renderables
+    from sizer.files import check_record_folder, require_writable_cache, write_all
     from sizer.schedule import read_schedule, run_schedule, schedule_json
 
-    _check_output(csv_out, (".csv",), "--csv")
-    _check_output(out, (".html", ".htm"), "-o")
+    inputs = [file, *catalogue]
+    _check_outputs([(csv_out, (".csv",), "--csv"), (out, (".html", ".htm"), "-o")], inputs)
+    if out is not None:
+        check_record_folder(_records_folder(out), "-o")
+    require_writable_cache()
     plan = read_schedule(file)
+    members = [plan.path.parent / row.file for row in plan.rows]
+    _check_outputs([(csv_out, (".csv",), "--csv"), (out, (".html", ".htm"), "-o")], inputs + members)
     result = run_schedule(plan, catalogue, jobs, cluster, keep_going, record=out is not None)
     document = schedule_json(result)
-    if csv_out is not None:
-        _write(csv_out, schedule_csv(document))
+    outputs = [(csv_out, schedule_csv(document))] if csv_out is not None else []
     if out is not None:
-        _write_schedule_record(out, document, result.records, system)
+        outputs += _schedule_record(out, document, result.records, system)
+    write_all(outputs)
     if json_output:
         sys.stdout.write(dumps(document) + "\n")
     else:
@@ -105,42 +134,46 @@ def run_schedule_command(file: Path, catalogue: list[Path], jobs: int | None, cl
     return 0 if document["totals"]["passes"] else 1
 
 
-def _write(path: Path, text: str) -> None:
-    from sizer.files import write_atomic
+def _check_outputs(outputs: list[tuple[Path | None, tuple[str, ...], str]], inputs: list[Path]) -> None:
+    """_check_output on each (path, suffixes, option)."""
+    for path, suffixes, option in outputs:
+        _check_output(path, suffixes, option, inputs)
 
-    write_atomic(path, text)
 
-
-def _write_schedule_record(out: Path, document: dict, records: dict[str, str], system: str) -> None:
-    """OUT.html and, beside it in OUT_records/, each member's calculation record."""
+def _schedule_record(out: Path, document: dict, records: dict[str, str], system: str) -> list[tuple[Path, str]]:
+    """(path, text) of each member's calculation record in OUT_records/, then of OUT.html itself."""
     from sizer.render.schedule import record_names, schedule_html
 
-    folder = out.with_name(out.stem + "_records")
+    folder = _records_folder(out)
     names = record_names([row["mark"] for row in document["members"] if row["mark"] in records])
-    for mark, name in names.items():
-        _write(folder / name, records[mark])
-    _write(out, schedule_html(document, {mark: f"{folder.name}/{name}" for mark, name in names.items()}, system))
+    written = [(folder / name, records[mark]) for mark, name in names.items()]
+    return written + [(out, schedule_html(document, {mark: f"{folder.name}/{name}" for mark, name in names.items()}, system))]
 
 
 def run_span_table_command(file: Path, catalogue: list[Path], families: list[str], jobs: int | None, cluster: str | None,
                            json_output: bool, csv_out: Path | None, plot: Path | None, system: str) -> int:
     """Read, run every cell, then write every output; exit 0 (a span table has nothing to fail)."""
     from sizer.render.common import console, dumps
-    from sizer.render.schedule import span_table_csv, span_table_document, span_table_renderables, write_span_plot
+    from sizer.render.schedule import span_plot_bytes, span_table_csv, span_table_document, span_table_renderables
+    from sizer.files import require_writable_cache, write_all
     from sizer.span_table import read_span_table, run_span_table
 
-    _check_output(csv_out, (".csv",), "--csv")
+    inputs = [file, *catalogue]
+    _check_output(csv_out, (".csv",), "--csv", inputs)
     if plot is not None:
+        from sizer.files import check_output
         from sizer.render.plots import check_plot_path
 
         check_plot_path(plot)
+        check_output(plot, "--plot", inputs)
+    require_writable_cache()
     spec = read_span_table(file)
     result = run_span_table(spec, catalogue, families, jobs, cluster)
     document = span_table_document(spec.title, spec.mode, result.sections, result.notes, spec.resolution)
-    if csv_out is not None:
-        _write(csv_out, span_table_csv(document))
+    outputs = [(csv_out, span_table_csv(document))] if csv_out is not None else []
     if plot is not None:
-        write_span_plot(document, plot, system)
+        outputs.append((plot, span_plot_bytes(document, check_plot_path(plot), system)))
+    write_all(outputs)
     if json_output:
         sys.stdout.write(dumps(document) + "\n")
     else:

@@ -97,6 +97,9 @@ def prepare(member: Member, catalogue_paths: Sequence[Path] = (), section: str |
     spec = catalogue.get(name, member.source if section is None else "", key)
     material = resolve_material(member, catalogue)
     props = section_properties(spec, material.density)
+    misfit = height_outside(member, props)
+    if misfit is not None:
+        raise misfit
     stiffness = oriented_stiffness(props, material, member.orientation)
     mass = props.area * material.density
     solution = solve_member(member, stiffness, mass if member.self_weight_case else None)
@@ -108,6 +111,48 @@ def prepare(member: Member, catalogue_paths: Sequence[Path] = (), section: str |
         notes.append("Self-weight is not included (self_weight = false).")
     notes.append("Deflections by Euler-Bernoulli beam theory (no shear deformation), small displacements.")
     return Design(member, solution, material, spec, props, stiffness, mass, notes)
+
+
+def given_heights(member: Member) -> list[tuple[str, float]]:
+    """(key, height in m above the shear centre) of every load and restraint height given as a number."""
+    found = [(f"loads[{index}].height", load.height) for index, load in enumerate(member.loads, start=1)]
+    found += [(f"restraints[{index}].height", restraint.height) for index, restraint in enumerate(member.restraints, start=1)]
+    return [(key, float(height)) for key, height in found if isinstance(height, (int, float)) and not isinstance(height, bool)]
+
+
+def height_outside(member: Member, props: Any) -> InputError | None:
+    """The error for the first load or restraint height (a number, m above the shear centre along the
+    section's depth) that lies outside the section `props` (SectionProperties), between its bottom
+    and top faces; None when every one lies within. A height outside would turn a load into one hung
+    below the section or stood above it, which changes the lateral-torsional buckling load (below:
+    on the unsafe side)."""
+    return heights_outside_faces(member, props.name, float(props.shear_centre[0]), float(props.y_top), float(props.y_bottom),
+                                 float(props.depth))
+
+
+def heights_outside_faces(member: Member, name: str, y0: float, y_top: float, y_bottom: float, depth: float) -> InputError | None:
+    """height_outside from the section's scalars (m): the shear centre's offset y0 from the centroid,
+    the distances y_top and y_bottom from the centroid to the top and bottom fibres, the depth."""
+    top, bottom = y_top - y0, -y_bottom - y0
+    slack = 1e-9 * depth
+    for key, height in given_heights(member):
+        if not bottom - slack <= height <= top + slack:
+            return InputError(member.source, key, f"a height of {height * 1e3:.6g} mm from the shear centre is outside the section "
+                              f"{name} (its faces are at {bottom * 1e3:+.1f} mm and {top * 1e3:+.1f} mm)",
+                              'give a height within the section, or "top", "centre" or "bottom" (see docs/limits.md)',
+                              _line_of(member.source, key))
+    return None
+
+
+def _line_of(source: str, key: str) -> int | None:
+    """The line of `key` in the member file `source` (read again: only for a message), None if unknown."""
+    from sizer.files import read_text
+    from sizer.inputfile import KeyLines
+
+    try:
+        return KeyLines(read_text(source)).find(key) if source else None
+    except InputError:
+        return None
 
 
 def _gravity_text(member: Member) -> str:

@@ -20,6 +20,29 @@ def cache_root() -> Path:
     return Path(_cache_root(os.environ.get("SIZER_CACHE_DIR", "")))
 
 
+def cache_error(error: OSError) -> InputError:
+    """The one line for a cache folder sizer cannot write, naming SIZER_CACHE_DIR and the fix."""
+    where = error.filename or str(cache_root())
+    return InputError("", "SIZER_CACHE_DIR", f"cannot write sizer's cache folder {str(cache_root())!r} "
+                      f"({error.strerror or error} at {str(where)!r})",
+                      "set the environment variable SIZER_CACHE_DIR to a folder you can write, e.g. SIZER_CACHE_DIR=/tmp/sizer-cache")
+
+
+def require_writable_cache() -> Path:
+    """The cache folder, made if missing, once a file can be written there; else cache_error. For the
+    commands that keep results and catalogue copies there (schedules, span tables)."""
+    import tempfile
+
+    root = cache_root()
+    try:
+        root.mkdir(parents=True, exist_ok=True)
+        with tempfile.TemporaryFile(dir=root):
+            pass
+    except OSError as error:
+        raise cache_error(error) from None
+    return root
+
+
 @lru_cache(maxsize=8)
 def _cache_root(override: str) -> str:
     if override:
@@ -54,6 +77,38 @@ def check_output(path: str | Path, option: str, inputs: Iterable[str | Path] = (
     return path
 
 
+def check_record_folder(folder: Path, option: str) -> Path:
+    """`folder` if sizer may put records there: a folder it can write, or none yet (made when the
+    records are written, beside a file check_output allowed); else InputError naming `option`."""
+    if folder.exists() and not folder.is_dir():
+        raise InputError("", option, f"{str(folder)!r} is in the way: the records go into a folder of that name",
+                         "move that file away, or give another file name")
+    if folder.is_dir() and not _writable(folder, os.W_OK | os.X_OK):
+        raise InputError("", option, f"cannot write into the folder {str(folder)!r} (read-only)", "give a file in a folder you can write")
+    return folder
+
+
+def write_all(outputs: Iterable[tuple[Path, bytes | str]]) -> None:
+    """Write every (path, data) atomically, in order; if one fails, the files and folders this call
+    made are removed again (files it replaced cannot be restored) and the error raised: no run
+    leaves part of its outputs behind."""
+    made: list[Path] = []
+    try:
+        for path, data in outputs:
+            path = Path(path)
+            missing = [folder for folder in (path.parent, *path.parent.parents) if not folder.exists()]
+            new = not path.exists()
+            write_atomic(path, data)
+            made.extend(missing[::-1] + ([path] if new else []))  # removed in reverse: the file, then its new folders
+    except BaseException:
+        for path in reversed(made):
+            try:
+                path.rmdir() if path.is_dir() else path.unlink()
+            except OSError:
+                pass
+        raise
+
+
 def _same_file(a: Path, b: Path) -> bool:
     try:
         return a.exists() and b.exists() and os.path.samefile(a, b)
@@ -70,12 +125,32 @@ def _writable(path: Path, mode: int) -> bool:
         return False
 
 
+MAX_INPUT_BYTES = 16 * 2**20  # the largest input file sizer reads (member, schedule, span table, catalogue)
+
+
 def read_text(path: str | Path, what: str = "the file", fix: str = "check the path") -> str:
-    """The UTF-8 text of a file the user named; InputError naming it where it cannot be read."""
+    """The UTF-8 text of a file the user named (a leading byte-order mark kept for the caller);
+    InputError naming it where it cannot be read, is not a plain file (a device, a pipe: /dev/zero
+    would never end) or is larger than MAX_INPUT_BYTES."""
     try:
-        return Path(path).read_text(encoding="utf-8")
-    except (OSError, UnicodeDecodeError) as exc:
-        raise InputError(str(path), "", f"cannot read {what} ({exc})", fix) from None
+        return read_bytes(path, what).decode("utf-8")
+    except UnicodeDecodeError as exc:
+        raise InputError(str(path), "", f"{what} is not UTF-8 text (byte {exc.start + 1})", "save it as UTF-8 text") from None
+    except OSError as exc:
+        raise InputError(str(path), "", f"cannot read {what} ({exc.strerror or exc})", fix) from None
+
+
+def read_bytes(path: str | Path, what: str = "the file") -> bytes:
+    """The bytes of a plain file of at most MAX_INPUT_BYTES; InputError for anything else (OSError
+    where it cannot be opened)."""
+    with open(path, "rb") as stream:
+        if not stat.S_ISREG(os.fstat(stream.fileno()).st_mode):
+            raise InputError(str(path), "", f"{what} is not a plain file (a folder, device or pipe)", "give the path of a text file")
+        data = stream.read(MAX_INPUT_BYTES + 1)
+    if len(data) > MAX_INPUT_BYTES:
+        raise InputError(str(path), "", f"{what} is larger than sizer reads ({MAX_INPUT_BYTES // 2**20} MiB)",
+                         "split it into smaller files (see docs/limits.md)")
+    return data
 
 
 def write_atomic(path: str | Path, data: bytes | str, durable: bool = True) -> None:

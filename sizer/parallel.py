@@ -11,7 +11,8 @@
   text), so the workers need none of the user's files.
 - Results come back in the input's order and are the same whatever ran them: a job is a pure
   function of its payload.
-- Resume: each finished result is kept at once in the cache folder (`runs/`), keyed by a hash of
+- Resume: each finished result is kept at once in the cache folder (`runs/`, under a keyed digest:
+  sizer.digests), keyed by a hash of
   the job's content and sizer's code; a later run with the same key takes it instead of redoing it.
 - A rich progress bar on stderr shows the count done and an estimate of the time left.
 
@@ -31,7 +32,7 @@ from pathlib import Path
 from typing import Any, Callable, Iterable, Iterator, Sequence
 
 from sizer.errors import InputError
-from sizer.files import cache_root, write_atomic
+from sizer.files import cache_error, cache_root, read_text, write_atomic
 
 Work = Callable[[Any], dict]
 RUNS_FOLDER = "runs"
@@ -132,7 +133,7 @@ def ship_catalogue(files: Sequence[Path]) -> ShippedCatalogue:
     shipped = []
     for path in files:
         folder = folders.setdefault(Path(path).resolve().parent, len(folders))
-        shipped.append(CatalogueText(Path(path).name, folder, Path(path).read_text(encoding="utf-8")))
+        shipped.append(CatalogueText(Path(path).name, folder, read_text(path, "the catalogue file")))
     return ShippedCatalogue(tuple(shipped))
 
 
@@ -146,10 +147,13 @@ def catalogue_folders(catalogue: ShippedCatalogue) -> list[Path]:
 def _copied_folders(digest: str, catalogue: ShippedCatalogue) -> tuple[Path, ...]:
     base = cache_root() / COPIES_FOLDER / digest
     folders = sorted({item.folder for item in catalogue.files})
-    for item in catalogue.files:
-        path = base / str(item.folder) / item.name
-        if not path.is_file() or path.read_text(encoding="utf-8") != item.text:
-            write_atomic(path, item.text)
+    try:
+        for item in catalogue.files:
+            path = base / str(item.folder) / item.name
+            if not path.is_file() or path.read_text(encoding="utf-8", errors="replace") != item.text:
+                write_atomic(path, item.text)
+    except OSError as error:
+        raise cache_error(error) from None
     return tuple(base / str(folder) for folder in folders)
 
 
@@ -175,19 +179,33 @@ def _kept_path(key: str) -> Path:
 
 
 def read_kept(key: str) -> dict | None:
-    """A result kept by an earlier run under `key`, or None (missing or damaged: redo it)."""
+    """A result kept by an earlier run under `key`, or None (missing, damaged, or not matching its
+    keyed digest (sizer.digests): redo it). The first line is the digest of the rest."""
+    from sizer.digests import digest_matches
+
     try:
-        kept = json.loads(_kept_path(key).read_text(encoding="utf-8"))
+        with open(_kept_path(key), "rb") as stream:
+            digest, _, body = stream.read().partition(b"\n")
+        if not digest_matches(body, digest.decode("ascii")):
+            return None
+        kept = json.loads(body.decode("utf-8"))
     except (OSError, ValueError):
         return None
     return kept.get("result") if isinstance(kept, dict) and kept.get("key") == key and isinstance(kept.get("result"), dict) else None
 
 
 def keep(key: str, result: dict) -> None:
-    """Keep a finished result (never one that is bad input: that is redone, and fails again, next time).
-    No fsync: a kept result is checked against its key when read and redone when damaged."""
+    """Keep a finished result (never one that is bad input: that is redone, and fails again, next
+    time) under its keyed digest. No fsync: a kept result is checked against its digest and key when
+    read and redone when damaged."""
+    from sizer.digests import keyed_digest
+
     if "error" not in result:
-        write_atomic(_kept_path(key), json.dumps({"key": key, "result": result}, ensure_ascii=False), durable=False)
+        body = json.dumps({"key": key, "result": result}, ensure_ascii=False).encode("utf-8")
+        try:
+            write_atomic(_kept_path(key), keyed_digest(body).encode("ascii") + b"\n" + body, durable=False)
+        except OSError as error:
+            raise cache_error(error) from None
 
 
 # ----------------------------------------------------------------------------------------------
@@ -202,7 +220,7 @@ def default_jobs() -> int:
 
 
 def check_workers(jobs: int | None, cluster: str | None) -> None:
-    """--jobs and --cluster: at least one job, not both."""
+    """--jobs and --cluster: at least one job, not both (more jobs than cores run on the cores: see Workers)."""
     if jobs is not None and jobs < 1:
         raise InputError("", "--jobs", f"{jobs} is not a number of processes", "give --jobs 1 or more (default: every core)")
     if jobs is not None and cluster:
@@ -254,7 +272,7 @@ class Workers:
     def __init__(self, jobs: int | None = None, cluster: str | None = None) -> None:
         check_workers(jobs, cluster)
         self.cluster = cluster
-        self.count = 1 if cluster else (jobs or default_jobs())
+        self.count = 1 if cluster else min(jobs or default_jobs(), default_jobs())  # never more processes than cores
         self.pool: Any = None
         self.client: Any = None
 
@@ -497,17 +515,91 @@ class _Cluster(_Futures):
             self.client.cancel([future for future, _ in self.started])
 
 
+CLUSTER_TIMEOUT = 5.0  # s: the longest a cluster address is tried before it is refused
+DASK_PORT = 8786
+
+
 def _cluster_client(address: str) -> Any:
-    """A Dask client connected to `address`; InputError when dask is missing or the scheduler does not answer."""
+    """A Dask client connected to `address` (tcp:// or host:port); InputError when dask is missing, the
+    address is of another kind, or no Dask scheduler answers there within CLUSTER_TIMEOUT."""
+    import time
+
     try:
         from distributed import Client
     except ImportError:
         raise InputError("", "--cluster", "Dask distributed is not installed", "pip install 'sizer[cluster]'") from None
+    started = time.monotonic()
+    host, port = cluster_host_port(address)
+    probe_scheduler(address, host, port)
+    left = max(1.0, CLUSTER_TIMEOUT - (time.monotonic() - started))
     try:
-        return Client(address, timeout="15s", set_as_default=False)
-    except (OSError, TimeoutError, ValueError) as exc:
-        raise InputError("", "--cluster", f"no Dask scheduler answers at {address!r} ({exc})",
+        return Client(f"tcp://{host}:{port}" if ":" not in host else f"tcp://[{host}]:{port}", timeout=f"{left:.1f}s", set_as_default=False)
+    except Exception as exc:  # any failure to connect is the address's: one line
+        raise InputError("", "--cluster", f"no Dask scheduler answers at {address!r} ({type(exc).__name__}: {str(exc)[:120]})",
                          "give the scheduler's address, e.g. tcp://10.0.0.5:8786, and check that it is running") from None
+
+
+def cluster_host_port(address: str) -> tuple[str, int]:
+    """(host, port) of a --cluster address: tcp://HOST:PORT, HOST:PORT or HOST (port 8786); IPv6 hosts
+    in brackets. InputError for any other scheme (ucx://, tls://, ...) or a malformed address."""
+    fix = "give the scheduler's address as tcp://HOST:PORT, e.g. tcp://10.0.0.5:8786"
+    text = address.strip()
+    scheme, separator, rest = text.partition("://")
+    if not separator:
+        scheme, rest = "tcp", text
+    if scheme.lower() != "tcp":
+        raise InputError("", "--cluster", f"the {scheme[:20]!r} protocol is not supported (only tcp://)", fix)
+    if rest.startswith("["):
+        host, _, tail = rest[1:].partition("]")
+        port_text = tail.removeprefix(":") if tail.startswith(":") else ("" if not tail else None)
+    else:
+        host, _, port_text = rest.partition(":")
+    if not host or port_text is None or "/" in rest or any(ch.isspace() for ch in rest):
+        raise InputError("", "--cluster", f"{address[:80]!r} is not a scheduler address", fix)
+    if not port_text:
+        return host, DASK_PORT
+    if not port_text.isdigit() or not 0 < int(port_text) < 65536:
+        raise InputError("", "--cluster", f"{port_text[:20]!r} is not a port number", fix)
+    return host, int(port_text)
+
+
+def probe_scheduler(address: str, host: str, port: int) -> None:
+    """InputError unless a Dask scheduler answers at host:port within CLUSTER_TIMEOUT: it is reached,
+    and it sends its greeting first (a short framed message naming its compression and pickle
+    protocol), which no web or other server does. Checked before Dask is given the address, which
+    would otherwise wait for its own timeout or read another server's reply as a frame length."""
+    import socket
+    import time
+
+    fix = "give the scheduler's address, e.g. tcp://10.0.0.5:8786, and check that it is running"
+    deadline = time.monotonic() + CLUSTER_TIMEOUT
+    try:
+        connection = socket.create_connection((host, port), timeout=CLUSTER_TIMEOUT)
+    except (OSError, UnicodeError, ValueError) as exc:
+        raise InputError("", "--cluster", f"cannot reach {address[:80]!r} ({getattr(exc, 'strerror', None) or exc or 'timed out'})", fix) from None
+    greeting = b""
+    with connection:
+        try:
+            while len(greeting) < 64 and time.monotonic() < deadline:
+                connection.settimeout(max(0.05, deadline - time.monotonic()))
+                chunk = connection.recv(64 - len(greeting))
+                if not chunk:
+                    break
+                greeting += chunk
+        except OSError:  # timed out or reset: judged on what came
+            pass
+    if not _looks_like_dask(greeting):
+        raise InputError("", "--cluster", f"the server at {address[:80]!r} is not a Dask scheduler (no Dask greeting within "
+                         f"{CLUSTER_TIMEOUT:g} s)", fix)
+
+
+def _looks_like_dask(greeting: bytes) -> bool:
+    """True when `greeting` starts as a Dask comm handshake: a little-endian 8-byte total length under
+    1 MiB, then a small frame count, and its msgpack names the compression or pickle protocol."""
+    if len(greeting) < 16:
+        return False
+    length, frames = int.from_bytes(greeting[:8], "little"), int.from_bytes(greeting[8:16], "little")
+    return 0 < length < 2**20 and 0 < frames < 64 and (b"compression" in greeting or b"pickle" in greeting)
 
 
 class _progress:
@@ -525,12 +617,13 @@ class _progress:
 
     def begin(self) -> None:
         if self.shown and self.bar is None:
-            from rich.console import Console
             from rich.progress import BarColumn, MofNCompleteColumn, Progress, TextColumn, TimeElapsedColumn, TimeRemainingColumn
 
+            from sizer.printable import safe_console
+
             self.bar = Progress(TextColumn(self.description), BarColumn(), MofNCompleteColumn(), TimeElapsedColumn(),
-                                TextColumn("left"), TimeRemainingColumn(), TextColumn("{task.fields[label]}"),
-                                console=Console(stderr=True), transient=True)
+                                TextColumn("left"), TimeRemainingColumn(), TextColumn("{task.fields[label]}", markup=False),
+                                console=safe_console(stderr=True), transient=True)
             self.bar.start()
             self.task = self.bar.add_task(self.description, total=self.total, completed=self.done, label="")
 

@@ -22,10 +22,13 @@ from typing import Any, Iterator, Sequence
 
 from sizer.errors import InputError
 from sizer.files import read_text
+from sizer.printable import find_control
 from sizer.model import LineLoad, Member, PointLoad
 from sizer.parallel import Job, JobFailed, RunSummary, ShippedCatalogue, Workers, code_fingerprint, content_hash, error_result, result_error, ship_catalogue
 
 TOP_KEYS = ("title", "members")
+MAX_QUANTITY = 1_000_000  # members of one row, at most (docs/limits.md)
+MAX_ROWS = 100_000  # rows of one schedule, at most
 ROW_KEYS = ("mark", "file", "do", "quantity", "length", "section", "material")
 DO_CHOICES = ("size", "check")
 TEXT_EXAMPLES = {"mark": 'give e.g. mark = "B1"', "file": 'give the member file, e.g. file = "beams/b1.toml"', "do": 'write do = "size" or "check"',
@@ -100,6 +103,9 @@ def read_schedule(path: str | Path) -> Schedule:
         title, rows = _toml_rows(path, text)
     if not rows:
         raise InputError(str(path), "members", "the schedule lists no members", 'add [[members]] with mark = "B1" and file = "b1.toml"')
+    if len(rows) > MAX_ROWS:
+        raise InputError(str(path), "members", f"the schedule lists {len(rows)} members, more than sizer runs at once ({MAX_ROWS})",
+                         "split it into several schedules")
     _check_unique_marks(path, rows)
     return Schedule(path, title, tuple(rows))
 
@@ -125,7 +131,15 @@ def _toml_rows(path: Path, text: str) -> tuple[str, list[ScheduleRow]]:
 
 
 def _csv_rows(path: Path, text: str) -> list[ScheduleRow]:
-    table = csv.reader(io.StringIO(text))
+    """The rows of a CSV schedule (a leading byte-order mark, as spreadsheets write, is skipped)."""
+    try:
+        return _csv_table_rows(path, csv.reader(io.StringIO(text.removeprefix("\ufeff"))))
+    except csv.Error as exc:
+        raise InputError(str(path), "", f"not a readable CSV table ({exc})",
+                         f"give one row per member, each cell under {csv.field_size_limit()} characters") from None
+
+
+def _csv_table_rows(path: Path, table: Any) -> list[ScheduleRow]:
     header = next(table, None)
     if header is None:
         raise InputError(str(path), "", "the CSV is empty", "write a header row: " + ",".join(ROW_KEYS))
@@ -168,6 +182,8 @@ def _row(path: Path, where: str, line: int | None, entry: dict) -> ScheduleRow:
             return None
         if not isinstance(value, str) or not value.strip():
             raise error(key, f"expected text, got {value!r}" if value is not None else f"'{key}' is missing", TEXT_EXAMPLES[key])
+        if (control := find_control(value)) is not None:
+            raise error(key, f"holds the control character {control}", "remove it: marks and names are plain text")
         return value.strip()
 
     do = text("do")
@@ -176,8 +192,8 @@ def _row(path: Path, where: str, line: int | None, entry: dict) -> ScheduleRow:
     if do == "size" and entry.get("section") is not None:
         raise error("section", "the row is to be sized, so a section given here would not be used", 'remove section, or write do = "check"')
     quantity = entry.get("quantity", 1)
-    if isinstance(quantity, bool) or not isinstance(quantity, int) or quantity < 1:
-        raise error("quantity", f"expected a whole number of 1 or more, got {quantity!r}", "write e.g. quantity = 4")
+    if isinstance(quantity, bool) or not isinstance(quantity, int) or not 1 <= quantity <= MAX_QUANTITY:
+        raise error("quantity", f"expected a whole number from 1 to {MAX_QUANTITY}, got {str(quantity)[:40]!r}", "write e.g. quantity = 4")
     length = entry.get("length")
     if length is not None:
         length = units.parse(length, "length", str(path), f"{where}.length", line)

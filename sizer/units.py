@@ -218,12 +218,11 @@ def _unit_cache_path() -> Any:
     return cache_root() / UNIT_CACHE_NAME
 
 
-def _factors_digest(factors: dict[str, float | None]) -> str:
-    """sha256 of the factors' JSON text (sorted keys): the digest the file must carry."""
-    import hashlib
+def _factors_text(factors: dict[str, float | None]) -> bytes:
+    """The factors' JSON text (sorted keys): what the file's keyed digest (sizer.digests) covers."""
     import json
 
-    return hashlib.sha256(json.dumps(factors, sort_keys=True).encode()).hexdigest()
+    return json.dumps(factors, sort_keys=True).encode()
 
 
 def _read_unit_cache() -> dict[str, float | None]:
@@ -236,7 +235,9 @@ def _read_unit_cache() -> dict[str, float | None]:
         factors, digest = data["factors"], data["digest"]
     except (OSError, ValueError, TypeError, KeyError):
         return {}
-    if not isinstance(factors, dict) or digest != _factors_digest(factors):
+    from sizer.digests import digest_matches
+
+    if not isinstance(factors, dict) or not digest_matches(_factors_text(factors), digest):
         return {}
     if not all(isinstance(k, str) and (v is None or (type(v) is float and math.isfinite(v) and v > 0)) for k, v in factors.items()):
         return {}
@@ -246,10 +247,11 @@ def _read_unit_cache() -> dict[str, float | None]:
 def _write_unit_cache(factors: dict[str, float | None]) -> None:
     import json
 
+    from sizer.digests import keyed_digest
     from sizer.files import write_atomic
 
     try:
-        write_atomic(_unit_cache_path(), json.dumps({"digest": _factors_digest(factors), "factors": factors}, sort_keys=True))
+        write_atomic(_unit_cache_path(), json.dumps({"digest": keyed_digest(_factors_text(factors)), "factors": factors}, sort_keys=True))
     except OSError:
         pass  # a read-only cache folder only costs speed
 

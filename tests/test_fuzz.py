@@ -54,14 +54,16 @@ TYPED = {
 }
 UNITS_OF = {
     "fx": ["kN", "N"], "fy": ["kN", "N"], "fz": ["kN", "N"], "mx": ["kN*m"], "my": ["kN*m"], "mz": ["kN*m", "N*m"],
-    "fx": ["kN", "N"], "fy": ["kN", "N"], "fz": ["kN", "N"], "mx": ["kN*m"], "my": ["kN*m"], "mz": ["kN*m", "N*m"],
     "wx": ["kN/m"], "wy": ["kN/m", "N/m"], "wz": ["kN/m"], "wy_end": ["kN/m"], "uy": ["kN/mm", "N/m"], "uz": ["N/m"], "rz": ["kN*m/rad"],
 }
 TYPED.update({key: (SIZES, units) for key, units in UNITS_OF.items()})
 MEMBER_KEYS = st.sampled_from(["length", "length", "self_weight", "gravity", "orientation", "colour"])
 SUPPORT_KEYS = st.sampled_from(["at", "at", "type", "restrain", "springs", "warping"])
-LOAD_KEYS = {"point": ["at", "fx", "fy", "fz", "height", "case"], "line": ["from", "to", "wx", "wy", "wz", "wy_end", "mx", "case"],
-             "moment": ["at", "mx", "my", "mz", "case"]}
+LOAD_KEYS = {"point": ["at", "fx", "fy", "fz", "height", "case", "pattern"],
+             "line": ["from", "to", "wx", "wy", "wz", "wy_end", "mx", "case", "height", "pattern"],
+             "moment": ["at", "mx", "my", "mz", "case", "pattern"]}
+RESTRAINT_KEYS = st.sampled_from(["at", "from", "to", "hold", "hold", "height", "height"])
+HOLDS = st.lists(st.sampled_from(["lateral", "twist", "lateral", "warping", ""]), max_size=3)
 CHECK_KEYS = st.sampled_from(["deflection_limit", "deflection_limit_overhang", "buckling_length_major", "buckling_safety_factor"])
 
 
@@ -78,6 +80,12 @@ def value_for(draw, key: str) -> Any:
     """A value for `key`: mostly a number with a unit of the key's kind, sometimes anything."""
     if key == "springs":
         return {freedom: draw(value_for(freedom)) for freedom in draw(st.lists(st.sampled_from(["uy", "uz", "rz"]), min_size=1, unique=True))}
+    if key == "hold":
+        return draw(st.one_of(HOLDS, VALUES))
+    if key == "pattern":
+        return draw(st.one_of(st.booleans(), st.booleans(), VALUES))
+    if key == "height" and not draw(st.integers(0, 3)):
+        return draw(st.sampled_from(["top", "centre", "bottom", "middle", "+15 mm", "-15.000001 mm", "-5 m", "1e-300 mm"]))
     if key == "restrain":
         return draw(st.lists(st.sampled_from(["ux", "uy", "uz", "rx", "ry", "rz", "up"]), max_size=4, unique=True))
     if key in ("deflection_limit", "deflection_limit_overhang", "buckling_safety_factor") and draw(st.booleans()):
@@ -93,7 +101,8 @@ def member_texts(draw) -> str:
     """A valid member file with a few random changes, written as TOML and sometimes damaged as text."""
     data = base_member()
     for _ in range(draw(st.integers(1, 3))):
-        where = draw(st.sampled_from(["member", "supports", "supports", "loads", "loads", "loads", "checks", "combinations", "hinges"]))
+        where = draw(st.sampled_from(["member", "supports", "supports", "loads", "loads", "loads", "checks", "combinations", "hinges",
+                                      "restraints", "restraints", "supports_more"]))
         if where == "member":
             key = draw(MEMBER_KEYS)
             data["member"][key] = draw(value_for(key))
@@ -115,6 +124,14 @@ def member_texts(draw) -> str:
         elif where == "combinations":
             factor = draw(st.one_of(st.floats(-1e7, 1e7), st.floats(allow_nan=True, allow_infinity=True), st.integers(-10**400, 10**400)))
             data["combinations"] = {draw(NAMES): {draw(st.sampled_from(["load", "dead", "wind"])): factor, "dead": 1.0}}
+        elif where == "restraints":
+            restraint = draw(st.sampled_from([{"at": "2 m", "hold": ["lateral", "twist"]}, {"from": "0 m", "to": "4 m", "hold": ["lateral"]}]))
+            for key in draw(st.lists(RESTRAINT_KEYS, min_size=1, max_size=3)):
+                restraint[key] = draw(value_for(key))
+            data.setdefault("restraints", []).append(restraint)
+        elif where == "supports_more":  # more spans, for pattern loading
+            count = draw(st.integers(1, 14))
+            data["supports"] += [{"at": f"{4 * k / (count + 1)!r} m", "type": "roller"} for k in range(1, count + 1)]
         else:
             data.setdefault("hinges", []).append({"at": draw(value_for("at"))})
     if draw(st.integers(0, 3)):
@@ -145,7 +162,11 @@ def catalogue_texts(draw) -> str:
         odd_name = not draw(st.integers(0, 12))
         entry: dict[str, Any] = {"name": draw(st.sampled_from([f"S{index} é", "F 30x8", ""])) if odd_name else f"S{index}", "shape": shape}
         if shape == "polygon":
-            entry["points"] = draw(st.lists(st.lists(DIMENSIONS, min_size=2, max_size=2), min_size=2, max_size=5))
+            entry["points"] = draw(st.one_of(st.lists(st.lists(DIMENSIONS, min_size=2, max_size=2), min_size=2, max_size=5),
+                                             st.just([["0 mm", "0 mm"], ["100 mm", "0 mm"], ["100 mm", "100 mm"], ["0 mm", "100 mm"]])))
+            if draw(st.booleans()):  # holes anywhere: inside, touching, crossing or outside the outline
+                corner = st.sampled_from(["0 mm", "0.05 mm", "10 mm", "50 mm", "99.99 mm", "100 mm", "120 mm"])
+                entry["holes"] = draw(st.lists(st.lists(st.lists(corner, min_size=2, max_size=2), min_size=3, max_size=4), max_size=2))
         elif shape in SHAPES:
             for key in SHAPES[shape].all:
                 if draw(st.integers(0, 15)):
@@ -153,7 +174,13 @@ def catalogue_texts(draw) -> str:
         if not draw(st.integers(0, 10)):
             entry[draw(st.sampled_from(["colour", "family", "material"]))] = draw(VALUES)
         entries.append(entry)
-    return tomlkit.dumps({"sections": entries})
+    document: dict[str, Any] = {"sections": entries}
+    if draw(st.booleans()):  # a material of its own, sometimes damaged; or none at all
+        material = tomlkit.parse(STEEL_TOML)["materials"]["steel"]
+        if draw(st.booleans()):
+            material[draw(st.sampled_from(["density", "elastic_modulus", "poisson_ratio"]))] = draw(VALUES)
+        document["materials"] = {"fuzz-steel": material}
+    return tomlkit.dumps(document)
 
 
 def run_briefly(args: list[str]) -> Any:
@@ -216,6 +243,62 @@ def test_catalogue_files(catalogue_folder: Path, text: str) -> None:
             assert_well_behaved(run_briefly(["check", str(member), "--catalogue", str(folder)]))
         finally:
             member.unlink()
+
+
+MARKS = st.one_of(st.sampled_from(["B1", "B2", "B1", "", " ", "é", "B\x1b[2K", "a,b", "=1+1"]), st.text(max_size=6))
+ROW_KEYS = ["mark", "file", "do", "quantity", "length", "section", "material"]
+
+
+@st.composite
+def schedule_texts(draw) -> tuple[str, str]:
+    """(name, text) of a schedule as TOML or CSV: rows with random marks, files, what to do,
+    quantities and overrides, sometimes with a byte-order mark or cut short."""
+    rows = []
+    for _ in range(draw(st.integers(0, 3))):
+        row: dict[str, Any] = {"mark": draw(MARKS), "file": draw(st.sampled_from(["member.toml", "member.toml", "none.toml", "", "."]))}
+        for key in draw(st.lists(st.sampled_from(ROW_KEYS[2:]), max_size=3, unique=True)):
+            row[key] = draw({"do": st.sampled_from(["size", "check", "design", ""]),
+                             "quantity": st.one_of(st.integers(-5, 10**7), st.sampled_from([10**30, 0])),
+                             "length": st.sampled_from(["3 m", "0 m", "-1 m", "1e300 m", "3", "nan m"]),
+                             "section": st.sampled_from(["F 30x8", "none", ""]),
+                             "material": st.sampled_from(["steel", "catalogue-steel", "unobtainium"])}[key] | VALUES)
+        rows.append(row)
+    if draw(st.booleans()):
+        text = tomlkit.dumps({"members": rows})
+        name = "schedule.toml"
+    else:
+        header = draw(st.sampled_from([ROW_KEYS, ["mark", "file"], ["mark", "file", "quantity", "colour"]]))
+        lines = [",".join(header)] + [",".join(str(row.get(key, "")).replace("\n", " ") for key in header) for row in rows]
+        text = "\n".join(lines) + "\n"
+        name = "schedule.csv"
+    damage = draw(st.sampled_from(["none"] * 6 + ["cut", "bom"]))
+    if damage == "cut":
+        text = text[: draw(st.integers(0, len(text)))]
+    elif damage == "bom":
+        text = "\ufeff" + text
+    return name, text
+
+
+@FUZZ
+@given(schedule=schedule_texts(), options=st.sampled_from([[], ["--json"], ["--keep-going"], ["--csv", "out.csv"]]))
+def test_schedules(catalogue_folder: Path, schedule: tuple[str, str], options: list[str]) -> None:
+    name, text = schedule
+    with tempfile.TemporaryDirectory() as work:
+        folder = Path(work)
+        (folder / "member.toml").write_text(tomlkit.dumps({**base_member(), "member": {"length": "4 m", "material": "catalogue-steel",
+                                                                                      "self_weight": False}}), encoding="utf-8")
+        (folder / name).write_text(text, encoding="utf-8")
+        before = sorted(folder.iterdir())
+        result = run_briefly(["schedule", str(folder / name), "--jobs", "1", "--catalogue", str(catalogue_folder),
+                              *[str(folder / option) if option.endswith(".csv") else option for option in options]])
+        if "--keep-going" in options and result.exit_code == 2 and result.stdout:  # the good rows' table, the bad rows listed in it
+            assert result.exception is None or isinstance(result.exception, SystemExit), repr(result.exception)
+            assert "Traceback" not in result.stdout + result.stderr and NOT_FINITE.search(result.stdout) is None
+        else:
+            assert_well_behaved(result)
+        if result.exit_code == 2 and not result.stdout:
+            assert sorted(folder.iterdir()) == before  # bad input: nothing written
+        assert "\x1b" not in result.stdout + result.stderr
 
 
 @FUZZ

@@ -123,7 +123,7 @@ def test_local_processes_and_a_dask_cluster_give_the_same_rows(project):
     forget_kept_rows()
     processes = rows_of(project, jobs=2)
     forget_kept_rows()
-    with distributed.LocalCluster(n_workers=1, processes=False, threads_per_worker=1, dashboard_address=None) as cluster:
+    with distributed.LocalCluster(n_workers=1, processes=False, threads_per_worker=1, dashboard_address=None, protocol="tcp://") as cluster:
         on_cluster = rows_of(project, cluster=cluster.scheduler_address)
     assert here == processes == on_cluster
     assert [row["mark"] for row in here] == ["B1", "B2", "B3", "B4"]  # the input's order
@@ -152,6 +152,7 @@ def test_csv_schedule_gives_the_same_rows(project):
 
 def test_outputs_csv_and_html_record_linking_each_member(project):
     out = project / "out" / "floor.html"
+    out.parent.mkdir()  # outputs go into existing folders only (docs/limits.md)
     result = invoke("schedule", project / "schedule.toml", "--catalogue", project / "catalogue.toml", "--jobs", "1",
                     "--csv", project / "out" / "floor.csv", "-o", out)
     assert result.exit_code == 1
@@ -359,6 +360,7 @@ def test_schedule_speaks_as_every_other_screen_in_the_units_asked(project):
     from sizer.render.schedule import _mass
 
     out = project / "out" / "floor.html"
+    out.parent.mkdir()  # outputs go into existing folders only (docs/limits.md)
     result = invoke("schedule", project / "schedule.toml", "--catalogue", project / "catalogue.toml", "--jobs", "1",
                     "--units", "us", "-o", out)
     words = set(re.findall(r"\b(ok|FAILS|ALL PASS|FAILING|passes|fails)\b", result.stdout))

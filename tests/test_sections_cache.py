@@ -18,6 +18,7 @@ from pathlib import Path
 import numpy as np
 import pytest
 
+from sizer.digests import keyed_digest
 from sizer.sections import build_catalogue, section_properties, unit_stress_field
 from sizer.sections import cache
 from sizer.errors import InputError
@@ -83,7 +84,7 @@ def test_entry_is_written_whole_and_read_back(cache_dir: Path) -> None:
 
 def _rewrite(path: Path, entry: dict) -> None:
     """Write an entry whose content is wrong but whose digest matches it: the deeper checks must catch it."""
-    entry["digest"] = cache._entry_digest(entry)
+    entry["digest"] = keyed_digest(cache._entry_text(entry))
     path.write_text(json.dumps(entry), encoding="utf-8")
 
 

@@ -8,7 +8,6 @@ about y, axial stress per unit force 1 / A.
 
 from __future__ import annotations
 
-import hashlib
 import io
 import os
 import subprocess
@@ -19,6 +18,7 @@ from pathlib import Path
 import numpy as np
 import pytest
 
+from sizer.digests import keyed_digest
 from sizer.sections import cache, peak_unit_stresses, section_properties, section_properties_many, section_table
 from sizer.sections.catalogue import SectionSpec
 from sizer.sections.properties import SCALAR_NAMES, clear_memory
@@ -110,7 +110,7 @@ def _save(path: Path, table: np.ndarray, allow_pickle: bool = False) -> None:
     """Write `table` as a table file with a matching digest line: only the content is wrong."""
     buffer = io.BytesIO()
     np.save(buffer, table, allow_pickle=allow_pickle)
-    path.write_bytes(hashlib.sha256(buffer.getvalue()).hexdigest().encode() + b"\n" + buffer.getvalue())
+    path.write_bytes(keyed_digest(buffer.getvalue()).encode() + b"\n" + buffer.getvalue())
 
 
 def _truncate(path: Path) -> None:

@@ -8,7 +8,7 @@ import math
 import re
 from typing import Any
 
-from sizer.inputfile.reader import Reader, array_of_tables
+from sizer.inputfile.reader import DEFLECTION_LIMITS, SAFETY_FACTORS, Reader, array_of_tables
 from sizer.model import CheckSettings, DeflectionLimit
 
 SINGLE_DEFLECTION_KEYS = ("deflection_limit", "deflection_limit_overhang", "deflection_combinations")
@@ -29,8 +29,8 @@ DEFLECTION_KEYS = {"limit", "overhang_limit", "combinations", "relative_to_suppo
 def read_checks(reader: Reader, value: Any, length: float, combinations: dict[str, dict[str, float]]) -> CheckSettings:
     table = reader.table(value, "checks")
     reader.known_keys(table, CHECK_KEYS, "checks")
-    limit = reader.number(table["deflection_limit"], "checks.deflection_limit") if "deflection_limit" in table else None
-    overhang = reader.number(table["deflection_limit_overhang"], "checks.deflection_limit_overhang") if "deflection_limit_overhang" in table else None
+    limit = _deflection_limit(reader, table["deflection_limit"], "checks.deflection_limit") if "deflection_limit" in table else None
+    overhang = _deflection_limit(reader, table["deflection_limit_overhang"], "checks.deflection_limit_overhang") if "deflection_limit_overhang" in table else None
     chosen = _combination_names(reader, table, "deflection_combinations", "checks", combinations)
     entries = _read_deflection_limits(reader, table.get("deflection", []), combinations)
     single = [name for name in SINGLE_DEFLECTION_KEYS if name in table]
@@ -44,7 +44,9 @@ def read_checks(reader: Reader, value: Any, length: float, combinations: dict[st
             what = "a buckling length" if name.startswith("buckling") else "the spacing of web stiffeners"
             raise reader.error(f"checks.{name}", f"{what} must be greater than zero", 'give e.g. "3 m"')
     factor_given = "buckling_safety_factor" in table
-    factor = reader.number(table["buckling_safety_factor"], "checks.buckling_safety_factor") if factor_given else 2.0
+    factor = (reader.number_in(table["buckling_safety_factor"], "checks.buckling_safety_factor", *SAFETY_FACTORS,
+                               "the elastic critical value is divided by it; below 1 would raise the allowable")
+              if factor_given else 2.0)
     second_order = table.get("second_order", True)
     if not isinstance(second_order, bool):
         raise reader.error("checks.second_order", f"expected true or false, got {str(second_order)[:40]!r}",
@@ -89,6 +91,11 @@ def _read_imperfection(reader: Reader, table: dict, length: float) -> tuple[floa
     return None, bow
 
 
+def _deflection_limit(reader: Reader, value: Any, key: str) -> float:
+    """A deflection limit n (the deflection allowed is span / n), within DEFLECTION_LIMITS."""
+    return reader.number_in(value, key, *DEFLECTION_LIMITS, "the deflection allowed is span / limit")
+
+
 def _combination_names(reader: Reader, table: dict, name: str, prefix: str, combinations: dict[str, dict[str, float]]) -> tuple[str, ...] | None:
     """A list of combination names (table[name]) that must all be given combinations; None when absent."""
     chosen = table.get(name)
@@ -112,8 +119,8 @@ def _read_deflection_limits(reader: Reader, value: Any, combinations: dict[str, 
         reader.known_keys(table, DEFLECTION_KEYS, prefix)
         if "limit" not in table and "overhang_limit" not in table:
             raise reader.error(prefix, "the deflection limit has no limit", "give limit = 360 (span / 360) and/or overhang_limit = 180")
-        limit = reader.number(table["limit"], f"{prefix}.limit") if "limit" in table else None
-        overhang = reader.number(table["overhang_limit"], f"{prefix}.overhang_limit") if "overhang_limit" in table else None
+        limit = _deflection_limit(reader, table["limit"], f"{prefix}.limit") if "limit" in table else None
+        overhang = _deflection_limit(reader, table["overhang_limit"], f"{prefix}.overhang_limit") if "overhang_limit" in table else None
         relative = table.get("relative_to_supports", True)
         if not isinstance(relative, bool):
             raise reader.error(f"{prefix}.relative_to_supports", f"expected true or false, got {relative!r}",

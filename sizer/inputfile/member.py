@@ -8,7 +8,7 @@ from pathlib import Path
 from typing import Any
 
 from sizer import units
-from sizer.errors import InputError
+from sizer.files import read_text
 from sizer.inputfile.checks_table import read_checks
 from sizer.inputfile.loads import read_loads
 from sizer.inputfile.materials import parse_material
@@ -30,16 +30,13 @@ SUPPORT_KEYS = {"at", "type", "restrain", "springs", "warping", "bearing", "stif
 RESTRAINT_KEYS = {"at", "from", "to", "hold", "height"}
 
 
+SHORTEST_ZONE = 0.1  # m: see shortest_zone
+
+
 def read_member_file(path: str | Path) -> Member:
     """Read a member file into a Member. Raises InputError (one line: file, key, line, fix)."""
     path = Path(path)
-    try:
-        text = path.read_text(encoding="utf-8-sig")
-    except OSError as exc:
-        raise InputError(str(path), "", f"cannot read the file ({exc.strerror})", "check the path") from None
-    except UnicodeDecodeError as exc:
-        raise InputError(str(path), "", f"the file is not UTF-8 text (byte {exc.start + 1})", "save it as UTF-8 text") from None
-    return parse_member_text(text, path)
+    return parse_member_text(read_text(path, "the file"), path)
 
 
 def parse_member_text(text: str, path: Path) -> Member:
@@ -176,7 +173,7 @@ def _read_warping(reader: Reader, table: dict, prefix: str) -> str | None:
     """A support's `warping` ("free" or "held"), None when not given."""
     value = table.get("warping")
     if value is not None and value not in WARPING_CHOICES:
-        raise reader.error(f"{prefix}.warping", f"{value!r} is not a warping condition", 'use warping = "free" or "held"')
+        raise reader.error(f"{prefix}.warping", f"{str(value)[:40]!r} is not a warping condition", 'use warping = "free" or "held"')
     return value
 
 
@@ -195,6 +192,11 @@ def _read_restraints(reader: Reader, value: Any, length: float) -> list[Restrain
             end = reader.position(table, "to", prefix, length, default=length)
             if end <= start:
                 raise reader.error(f"{prefix}.to", "'to' must be beyond 'from'", "give from < to along the member, or use at for a point")
+            shortest = shortest_zone(length)
+            if end - start < shortest * (1 - 1e-9):
+                raise reader.error(f"{prefix}.to", f"a continuous restraint {(end - start) * 1e3:.4g} mm long is shorter than "
+                                   f"{shortest * 1e3:.4g} mm, too short to hold the member's slope",
+                                   "use at = for a point restraint, or give a zone at least that long (see docs/limits.md)")
         else:
             raise reader.error(prefix, "the restraint has no position", 'give at = "3 m", or from = "0 m" and to = "6 m" for a deck')
         holds = table.get("hold")
@@ -208,6 +210,13 @@ def _read_restraints(reader: Reader, value: Any, length: float) -> list[Restrain
         height = read_height(reader, table, prefix, "centre")
         restraints.append(Restraint(start, end, "lateral" in holds, "twist" in holds, height))
     return restraints
+
+
+def shortest_zone(length: float) -> float:
+    """The shortest continuous restraint (m) on a member `length` (m) long: 100 mm, or length / 20 on a
+    member shorter than 2 m. A zone holds the member's slope as well as its movement; a shorter
+    attachment (a cleat, a bolt) holds a point and is given with at."""
+    return min(SHORTEST_ZONE, length / 20)
 
 
 def _read_self_weight(reader: Reader, member_table: dict) -> str | None:

@@ -13,8 +13,11 @@ from typing import Any
 from sizer import units
 from sizer.errors import InputError
 from sizer.model import ACROSS_NAMES, DEFAULT_ACROSS, HEIGHT_FACES
+from sizer.printable import printable
 
 LARGEST_NUMBER = 1e6  # plain numbers (factors, limits, ratios) are at most this in size (docs/limits.md)
+DEFLECTION_LIMITS = (1.0, 10_000.0)  # span / limit: from span / 1 to span / 10000 (docs/limits.md)
+SAFETY_FACTORS = (1.0, 100.0)  # buckling_safety_factor: at least 1 (a factor below 1 raises the allowable)
 
 
 class KeyLines:
@@ -90,6 +93,14 @@ class Reader:
             raise self.error(key, f"{value!r} must be greater than zero", "give a positive number")
         return float(value)
 
+    def number_in(self, value: Any, key: str, low: float, high: float, meaning: str) -> float:
+        """A plain number from `low` to `high` (docs/limits.md); `meaning` says what it is, for the fix."""
+        number = self.number(value, key)
+        if not low <= number <= high:
+            raise self.error(key, f"{number:g} is outside the range sizer accepts ({low:g} to {high:g}: {meaning})",
+                             f"give a number from {low:g} to {high:g} (see docs/limits.md)")
+        return number
+
     def table(self, value: Any, key: str) -> dict:
         if not isinstance(value, dict):
             raise self.error(key, "expected a table", f"write it as [{key}] or {{ ... }}")
@@ -115,13 +126,33 @@ class Reader:
 
 
 def parse_toml(text: str, path: Path) -> dict:
-    """tomllib with the error turned into InputError; a leading byte-order mark is skipped."""
+    """tomllib with the error turned into InputError; a leading byte-order mark is skipped. A key or
+    text value holding a control character (an escape sequence, a newline inside a name) is refused."""
     try:
-        return tomllib.loads(text.removeprefix("\ufeff"))
+        data = tomllib.loads(text.removeprefix("\ufeff"))
     except tomllib.TOMLDecodeError as exc:
         match = re.search(r"line (\d+)", str(exc))
         line = int(match.group(1)) if match else None
         raise InputError(str(path), "", f"not valid TOML: {exc}", "correct the TOML syntax", line) from None
+    refuse_control_characters(data, path, text)
+    return data
+
+
+def refuse_control_characters(data: Any, path: Path, text: str, key: str = "") -> None:
+    """InputError naming the first key whose name or text value holds a control character (names and
+    marks are shown as text only: sizer.printable)."""
+    from sizer.printable import find_control
+
+    items = data.items() if isinstance(data, dict) else enumerate(data) if isinstance(data, list) else ()
+    for name, value in items:
+        inner = f"{key}[{name + 1}]" if isinstance(name, int) else (f"{key}.{name}" if key else str(name))
+        found = find_control(name) if isinstance(name, str) else None
+        found = found or (find_control(value) if isinstance(value, str) else None)
+        if found:
+            raise InputError(str(path), printable(inner), f"holds the control character {found}",
+                             "remove it: names, marks and titles are plain text", KeyLines(text).find(inner))
+        if isinstance(value, (dict, list)):
+            refuse_control_characters(value, path, text, inner)
 
 
 def read_height(reader: Reader, table: dict, prefix: str, default: str | None) -> str | float | None:

@@ -6,6 +6,7 @@ import math
 from typing import Any
 
 from sizer.model import Member
+from sizer.printable import safe_console
 
 CAUTIONS: tuple[str, ...] = (
     "These results rest on the allowable stresses entered by the user and on linear elastic, "
@@ -29,21 +30,18 @@ def console(stderr: bool = False) -> Any:
     import os
     import sys
 
-    from rich.console import Console
-
     stream = sys.stderr if stderr else sys.stdout
     piped = not (hasattr(stream, "isatty") and stream.isatty())
     width = PIPED_WIDTH if piped and not os.environ.get("COLUMNS", "").isdigit() else None
-    return Console(stderr=stderr, highlight=False, soft_wrap=False, width=width)
+    return safe_console(stderr=stderr, highlight=False, soft_wrap=False, width=width)
 
 
 def progress_bar(description: str, transient: bool = False) -> Any:
     """A rich progress bar on stderr (kept off stdout so JSON and TOML stay clean)."""
-    from rich.console import Console
     from rich.progress import BarColumn, MofNCompleteColumn, Progress, TextColumn, TimeElapsedColumn
 
     return Progress(TextColumn(description), BarColumn(), MofNCompleteColumn(), TimeElapsedColumn(),
-                    TextColumn("{task.fields[section]}"), console=Console(stderr=True), transient=transient)
+                    TextColumn("{task.fields[section]}", markup=False), console=safe_console(stderr=True), transient=transient)
 
 
 def cautions_panel() -> Any:

@@ -11,10 +11,10 @@ import csv
 import io
 import math
 import re
-from pathlib import Path
 from typing import Any, Sequence
 
 from sizer import units
+from sizer.printable import printable
 from sizer.render.common import CAUTIONS, cautions_panel, notes_panel
 from sizer.render.si_text import in_display_units
 
@@ -42,7 +42,7 @@ def schedule_csv(document: dict) -> str:
     """One line per member (SI base units; the column names carry the units), then the cautions as
     comment lines."""
     out = io.StringIO()
-    writer = csv.writer(out, lineterminator="\n")
+    writer = _TextOnlyWriter(out)
     writer.writerow([header for _, header in SCHEDULE_CSV_COLUMNS])
     for row in document["members"]:
         writer.writerow(["" if row[key] is None else _csv_value(row[key]) for key, _ in SCHEDULE_CSV_COLUMNS])
@@ -73,6 +73,17 @@ def bars_to_order_text(entry: dict, system: str = "si") -> str:
              for bar in entry.get("bars", [])]
     missing = [f"{units.fmt(length, 'length', system)} pieces: longer than every stock length" for length in entry.get("not_available", [])]
     return " + ".join(parts) + ("; " if parts and missing else "") + "; ".join(missing)
+
+
+class _TextOnlyWriter:
+    """A CSV writer whose text cells have their control characters written as visible escapes
+    (sizer.printable): a mark or name cannot send escape sequences to whoever prints the file."""
+
+    def __init__(self, out: io.StringIO) -> None:
+        self.writer = csv.writer(out, lineterminator="\n")
+
+    def writerow(self, cells: list[Any]) -> None:
+        self.writer.writerow([printable(cell) if isinstance(cell, str) else cell for cell in cells])
 
 
 def _csv_value(value: Any) -> Any:
@@ -328,7 +339,7 @@ def span_table_renderables(document: dict, width: int, system: str) -> list[Any]
 def span_table_csv(document: dict) -> str:
     """One line per cell (SI base units in the column names), then the cautions as comment lines."""
     out = io.StringIO()
-    writer = csv.writer(out, lineterminator="\n")
+    writer = _TextOnlyWriter(out)
     mode = document["mode"]
     if mode == "span":
         writer.writerow(["section", "mass_per_length_kg_per_m", "load_kind", "load_N_per_m_or_N", "longest_span_m", "governing", "beyond_limit"])
@@ -417,10 +428,3 @@ def span_plot_bytes(document: dict, image_format: str, system: str) -> bytes:
     figure.savefig(buffer, format=image_format, bbox_inches="tight")
     return buffer.getvalue()
 
-
-def write_span_plot(document: dict, path: Path, system: str) -> None:
-    """The span-table plot to a PNG or SVG file (written whole), in `system`'s units."""
-    from sizer.files import write_atomic
-    from sizer.render.plots import check_plot_path
-
-    write_atomic(path, span_plot_bytes(document, check_plot_path(path), system))

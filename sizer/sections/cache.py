@@ -11,8 +11,9 @@ Entry key: a hash of the geometry (shape and dimensions), the mesh settings, the
 version and SCHEMA_VERSION. Table key: a hash of its sections' geometry keys, in row order, its
 column names, and the same mesh settings, version and schema. Files are written atomically (an
 entry's arrays first, then the JSON that names the arrays' checksum), so an entry or a table is
-whole or absent. Every file carries a sha256 digest of its whole content: an entry's JSON of its
-key, schema, scalars and the arrays' digest; a table's array bytes. Reading trusts nothing: an
+whole or absent. Every file carries a keyed digest (HMAC-SHA256 with the cache's secret,
+sizer.digests) of its whole content: an entry's JSON of its key, schema, scalars and the arrays'
+sha256; a table's array bytes. A file changed by anyone without the secret fails its digest. Reading trusts nothing: an
 entry that fails to load, does not match its digest, has missing or non-finite values, the wrong
 shapes or the wrong arrays is reported as absent, and so is a table that fails to load, does not
 match its digest, has the wrong shape or type or a non-finite value; the caller recomputes and
@@ -33,6 +34,7 @@ from typing import Sequence
 
 import numpy as np
 
+from sizer.digests import digest_matches, keyed_digest
 from sizer.files import cache_root, write_atomic
 from sizer.sections.geometry import mesh_settings
 from sizer.sections.spec import SectionSpec
@@ -122,10 +124,9 @@ def _paths(key: str) -> tuple[str, str]:
     return os.path.join(folder, f"{key}.json"), os.path.join(folder, f"{key}.f64")
 
 
-def _entry_digest(entry: dict) -> str:
-    """sha256 of an entry's JSON text (sorted keys) without its own digest."""
-    text = json.dumps({name: value for name, value in entry.items() if name != "digest"}, sort_keys=True)
-    return hashlib.sha256(text.encode()).hexdigest()
+def _entry_text(entry: dict) -> bytes:
+    """An entry's JSON text (sorted keys) without its own digest: what the digest covers."""
+    return json.dumps({name: value for name, value in entry.items() if name != "digest"}, sort_keys=True).encode()
 
 
 def read_entry(key: str, names: tuple[str, ...]) -> dict | None:
@@ -137,7 +138,7 @@ def read_entry(key: str, names: tuple[str, ...]) -> dict | None:
             data = json.loads(stream.read())
         if data["key"] != key or data["schema"] != SCHEMA_VERSION or not isinstance(data["arrays_sha256"], str):
             return None
-        if data["digest"] != _entry_digest(data):
+        if not digest_matches(_entry_text(data), data["digest"]):
             return None
         scalars = data["scalars"]
         values = [scalars[name] for name in names]
@@ -181,7 +182,7 @@ def write_entry(key: str, scalars: dict[str, float], arrays: dict[str, np.ndarra
     json_path, arrays_path = _paths(key)
     payload = np.concatenate([np.asarray(arrays[name], dtype=RAW).ravel() for name in ARRAY_NAMES]).tobytes()
     entry = {"key": key, "schema": SCHEMA_VERSION, "arrays_sha256": hashlib.sha256(payload).hexdigest(), "scalars": scalars}
-    entry["digest"] = _entry_digest(entry)
+    entry["digest"] = keyed_digest(_entry_text(entry))
     try:
         write_atomic(arrays_path, payload)
         write_atomic(json_path, json.dumps(entry))
@@ -195,12 +196,12 @@ def _table_path(key: str) -> str:
 
 
 def read_table(key: str, shape: tuple[int, int]) -> np.ndarray | None:
-    """The table stored under `key` if its array bytes match the digest line before them and load
+    """The table stored under `key` if its array bytes match the keyed digest line before them and load
     as a float64 array of `shape` with every value finite; else None."""
     try:
         with open(_table_path(key), "rb") as stream:
             header, payload = stream.read().split(b"\n", 1)
-        if header.decode() != hashlib.sha256(payload).hexdigest():
+        if not digest_matches(payload, header.decode()):
             return None
         table = np.load(io.BytesIO(payload), allow_pickle=False)
         if table.dtype != np.float64 or table.shape != shape or not np.isfinite(table).all():
@@ -217,7 +218,7 @@ def write_table(key: str, table: np.ndarray) -> bool:
     np.save(buffer, np.asarray(table, dtype=np.float64), allow_pickle=False)
     payload = buffer.getvalue()
     try:
-        write_atomic(_table_path(key), hashlib.sha256(payload).hexdigest().encode() + b"\n" + payload)
+        write_atomic(_table_path(key), keyed_digest(payload).encode() + b"\n" + payload)
     except OSError:
         return False
     return True

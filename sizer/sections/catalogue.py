@@ -364,6 +364,9 @@ def _dimension(table: dict, key: str, reader: Any, prefix: str, label: str) -> f
     return value
 
 
+HOLE_GAP = 1e-3  # the least clearance of a polygon's hole from the outline and other holes, per section size
+
+
 def _polygon(table: dict, reader: Any, prefix: str, label: str) -> tuple[tuple[Point, ...], tuple[tuple[Point, ...], ...]]:
     """The outline and holes of a polygon (m), checked to be simple closed rings that do not cross."""
     outline = _ring(table["points"], reader, f"{prefix}.points", label)
@@ -389,6 +392,23 @@ def _ring(value: Any, reader: Any, key: str, label: str) -> tuple[Point, ...]:
     return tuple(ring)
 
 
+def _check_hole_gaps(polygon: Any, reader: Any, prefix: str, label: str) -> None:
+    """InputError unless every hole keeps HOLE_GAP x the section's size (mm, as `polygon` is drawn)
+    clear of the outline and of every other hole: a hole touching the outline or another hole, even
+    at a single point, leaves a wall of no thickness that the mesher cannot triangulate."""
+    x0, y0, x1, y1 = polygon.bounds
+    gap = HOLE_GAP * max(x1 - x0, y1 - y0)
+    holes = list(polygon.interiors)
+    for index, hole in enumerate(holes):
+        others = [("the outline", polygon.exterior)] + [(f"holes[{other}]", holes[other]) for other in range(index)]
+        for name, ring in others:
+            distance = hole.distance(ring)
+            if distance < gap:
+                raise reader.error(f"{prefix}.holes[{index}]", f"{label}: the hole comes within {distance:.3g} mm of {name} "
+                                   f"(at least {gap:.3g} mm, 1/{1 / HOLE_GAP:g} of the section's size, is needed)",
+                                   "keep every hole strictly inside the outline and apart from the other holes (see docs/limits.md)")
+
+
 def _check_polygon(outline: tuple[Point, ...], holes: tuple[tuple[Point, ...], ...], reader: Any, prefix: str, label: str) -> None:
     """InputError when the outline crosses itself, a hole is not inside, or the area is zero."""
     from shapely.geometry import LinearRing, Polygon
@@ -407,6 +427,7 @@ def _check_polygon(outline: tuple[Point, ...], holes: tuple[tuple[Point, ...], .
                            "keep every hole strictly inside the outline and apart from the other holes")
     if not polygon.area > 0 or not math.isfinite(polygon.area):
         raise reader.error(f"{prefix}.points", f"{label}: the outline encloses no area", "give the outline's corner points")
+    _check_hole_gaps(polygon, reader, prefix, label)
     ratio = polygon.length**2 / (4 * polygon.area)  # area / wall^2 with the mesh rule's wall 2 A / perimeter
     if ratio > MAX_AREA_PER_WALL_SQUARED:
         raise reader.error(f"{prefix}.points", f"{label}: the outline is too thin for its size (area / wall² = {ratio:.3g}, "

@@ -5,8 +5,8 @@ One file per catalogue file (as named: its resolved path and the path as given) 
 $SIZER_CACHE_DIR/catalogues, else the user's cache folder: a line of two digests, then a pickle of
 a ParsedFile. The first digest (of what was parsed) is a sha256 of the code fingerprint, the path as
 given (it is in every SectionSpec's source and in messages) and the file's text (so every line
-number too); the second is the sha256 of the pickle itself, so that no value in it can change
-unseen. The code
+number too); the second is the keyed digest (HMAC-SHA256 with the cache's secret, sizer.digests)
+of both, so that no value in it can change unseen, even by someone who rewrites the digests. The code
 fingerprint covers the Python version and the size and modification time of the source of each
 module whose code shapes the parse result: the test Python itself applies before it reuses a
 module's compiled code. A file whose text, path or code changed is parsed again and its slot
@@ -29,6 +29,7 @@ import sys
 from functools import lru_cache
 from pathlib import Path
 
+from sizer.digests import digest_matches, keyed_digest
 from sizer.files import cache_root, write_atomic
 from sizer.model import Allowables, Material
 from sizer.sections.purchase import Purchase
@@ -98,8 +99,8 @@ def slot_path(path: Path) -> Path:
 
 
 def slot_bytes(digest: str, payload: bytes) -> bytes:
-    """A slot's content: the digest of the text, the digest of the pickle `payload`, then the pickle."""
-    return f"{digest} {hashlib.sha256(payload).hexdigest()}\n".encode() + payload
+    """A slot's content: the digest of the text, the keyed digest of it and the pickle `payload`, then the pickle."""
+    return f"{digest} {keyed_digest(digest.encode() + payload)}\n".encode() + payload
 
 
 def read_parsed(path: Path, digest: str | None) -> ParsedFile | None:
@@ -110,7 +111,8 @@ def read_parsed(path: Path, digest: str | None) -> ParsedFile | None:
     try:
         with open(slot_path(path), "rb") as stream:
             header, payload = stream.read().split(b"\n", 1)
-        if header.decode() != f"{digest} {hashlib.sha256(payload).hexdigest()}":
+        found, _, signature = header.decode().partition(" ")
+        if found != digest or not digest_matches(digest.encode() + payload, signature):
             return None
         parsed = _unpickle(payload)
         return parsed if _well_typed(parsed) else None

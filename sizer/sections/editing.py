@@ -9,6 +9,7 @@ replaces the old one, and the write is atomic.
 from __future__ import annotations
 
 import csv
+import io
 import re
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -46,11 +47,16 @@ def _last_key(key: str) -> str:
 
 
 def check_entry(table: dict[str, Any], file: str, line: int | None) -> SectionSpec:
-    """A new entry's SectionSpec; InputError keyed by the entry's own key (e.g. "depth")."""
+    """A new entry's SectionSpec; InputError keyed by the entry's own key (e.g. "depth"). A name or
+    value holding a control character is refused (as when the catalogue is read)."""
+    from sizer.inputfile.reader import refuse_control_characters
+
     try:
+        refuse_control_characters(table, Path(file), "", "new")
         return parse_section(table, _FixedPlace(file, line), "new")
     except InputError as error:
         error.key = _last_key(error.key)
+        error.line = error.line if error.line is not None else line
         raise
 
 
@@ -194,10 +200,10 @@ def import_stock_list(csv_path: Path, shape: str, into: Path | None) -> ImportRe
     if shape not in SHAPES or shape == "polygon":
         raise InputError("", "--shape", f"cannot import shape {shape!r}", "use one of: " + ", ".join(s for s in SHAPES if s != "polygon"))
     file = str(csv_path)
+    text = read_text(csv_path, "the CSV file", "check the path; save the sheet as CSV (UTF-8)")
     try:
-        with open(csv_path, newline="", encoding="utf-8-sig") as stream:
-            rows = list(csv.reader(stream))
-    except (OSError, UnicodeDecodeError, csv.Error) as exc:
+        rows = list(csv.reader(io.StringIO(text.removeprefix("\ufeff"), newline="")))
+    except csv.Error as exc:
         raise InputError(file, "", f"cannot read the CSV file ({exc})", "check the path; save the sheet as CSV (UTF-8)") from None
     if not rows:
         raise InputError(file, "", "the file is empty", "give a header row and one row per section", 1)

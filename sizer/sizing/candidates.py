@@ -163,6 +163,7 @@ def candidate_sections(catalogue: Any, member: Member, material: Material, famil
         keep &= width <= max_width * (1 + 1e-9)
     if not keep.any():
         raise InputError("", "--max-depth", "no catalogue section fits the depth and width limits", "relax --max-depth / --max-width")
+    keep &= _holding_the_heights(specs, member, keep, progress)
     mass = column["area"] * material.density
     ranking = ranking or Ranking()
     kept = np.flatnonzero(keep).tolist()
@@ -174,6 +175,31 @@ def candidate_sections(catalogue: Any, member: Member, material: Material, famil
                   for k, i in enumerate(order)]
     return candidates, CandidateTable({name: values[order] for name, values in column.items()}, mass[order], tuple(specs[i] for i in order),
                                       np.full(len(order), not lazy))
+
+
+def _holding_the_heights(specs: Sequence[Any], member: Member, keep: np.ndarray,
+                         progress: Callable[[int, int, str], None] | None) -> np.ndarray:
+    """Which sections hold every load and restraint height given as a number (design.height_outside:
+    `sizer check` refuses the others, so they are no candidates); InputError when none does. Only
+    with such heights are the kept sections' shear centres needed here: their every tier is tabled
+    (computed in parallel where not cached, reporting to `progress`)."""
+    from sizer.design import given_heights, heights_outside_faces
+    from sizer.sections.properties import SCALAR_NAMES, section_table
+
+    holds = np.ones(len(specs), bool)
+    if not given_heights(member):
+        return holds
+    rows = np.flatnonzero(keep)
+    table = section_table([specs[i] for i in rows], progress=progress)
+    column = {name: table[:, SCALAR_NAMES.index(name)] for name in ("ys", "y_top", "y_bottom", "depth")}
+    misfit = None
+    for k, i in enumerate(rows):
+        misfit = heights_outside_faces(member, specs[i].name, *(float(column[name][k]) for name in ("ys", "y_top", "y_bottom", "depth")))
+        holds[i] = misfit is None
+    if not (holds & keep).any():
+        misfit.problem += "; no candidate section holds it"
+        raise misfit
+    return holds
 
 
 def design_for(member: Member, material: Material, candidate: Candidate, base: MemberSolution | None = None) -> Design:

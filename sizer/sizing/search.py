@@ -12,6 +12,7 @@ import numpy as np
 
 from sizer.analysis import MemberSolution, solve_member
 from sizer.checks import CheckReport, check_design
+from sizer.design import given_heights
 from sizer.model import Material, Member, Stiffness
 from sizer.sections.properties import AnalysisWorkers
 from sizer.sizing.candidates import Candidate, CandidateTable, candidate_sections, design_for
@@ -214,12 +215,15 @@ def size_member(member: Member, catalogue: Any, material: Material, families: Se
 
 def _size(member: Member, catalogue: Any, material: Material, families: Sequence[str], max_depth: float | None,
           max_width: float | None, top: int, workers: AnalysisWorkers, ranking: Ranking) -> SizingResult:
-    candidates, table = candidate_sections(catalogue, member, material, families, max_depth, max_width, lazy=True, ranking=ranking)
+    candidates, table = candidate_sections(catalogue, member, material, families, max_depth, max_width, workers.progress, lazy=True,
+                                           ranking=ranking)
     count = f"{len(candidates)} candidate section" + ("" if len(candidates) == 1 else "s")
     weight = ", each with its own self-weight" if member.self_weight_case else " (self-weight not included: self_weight = false)"
     notes = [f"{count} after filters{weight}, in material {material.name} (the member's)."]
     notes += ranking.notes(any(not c.costing.available for c in candidates), any(c.costing.cost is None for c in candidates),
                            any(c.costing.terms.stock_lengths for c in candidates), any(c.costing.cost is not None for c in candidates))
+    if given_heights(member):
+        notes.append("Sections that do not hold every load and restraint height given (between their bottom and top faces) are left out.")
     search = Search(member, material, candidates, table, workers)
     if member.has_springs:
         search.compute(candidates)

@@ -192,6 +192,8 @@ def span_table_error(spec: SpanTableSpec, error: InputError) -> InputError:
     key = error.key
     if key.startswith(("checks", "combinations")):
         key = "span_table." + key
+    elif key == "member.length":  # the trial's span: from the lengths, or a step of the resolution
+        key = "span_table.lengths" if spec.mode == "load" else "span_table.resolution"
     elif key.startswith("member."):
         key = "span_table." + key.removeprefix("member.")
     elif not key.startswith("materials"):

@@ -213,10 +213,15 @@ def table_sections(spec: SpanTableSpec, catalogue: Sequence[Path], families: Seq
     return sorted(masses, key=lambda item: (item[1], item[0])), loaded
 
 
-def cell_key(task: CellTask) -> str:
-    """The content hash of a cell's work: the table's settings (not its file's path or comments), the
-    section, the column, the catalogue's text and sizer's code."""
-    settings = {name: getattr(task.spec, name) for name in SpanTableSpec.__dataclass_fields__ if name not in ("path", "text")}
+def settings_digest(spec: SpanTableSpec) -> str:
+    """The content hash of the table's settings (not its file's path or comments), made once per table."""
+    return content_hash({name: getattr(spec, name) for name in SpanTableSpec.__dataclass_fields__ if name not in ("path", "text")})
+
+
+def cell_key(task: CellTask, settings: str) -> str:
+    """The content hash of a cell's work: the table's settings (their digest `settings`), the
+    section, the column, the catalogue's text and sizer's code (each cell's key costs the same
+    however many columns the table has)."""
     return content_hash("span-table-cell", settings, task.section, task.column, task.catalogue.digest, code_fingerprint())
 
 
@@ -226,10 +231,11 @@ def run_span_table(spec: SpanTableSpec, catalogue: Sequence[Path] = (), families
     with Workers(jobs, cluster) as workers:
         sections, loaded = table_sections(spec, catalogue, families)
         shipped = ship_catalogue(loaded.files)
-        tasks = [CellTask(spec, name, column, shipped) for name, _ in sections for column in range(spec.columns)]
-        work = [Job(cell_key(task), task, task.section) for task in tasks]
+        settings = settings_digest(spec)
+        tasks = (CellTask(spec, name, column, shipped) for name, _ in sections for column in range(spec.columns))
+        work = (Job(cell_key(task, settings), task, task.section) for task in tasks)  # the first cell starts at once
         try:
-            results, summary = workers.run(work_cell, work, "Cells", show_progress=show_progress)
+            results, summary = workers.run(work_cell, work, "Cells", show_progress=show_progress, total=len(sections) * spec.columns)
         except JobFailed as failed:
             raise failed.error from None
     for result in results:

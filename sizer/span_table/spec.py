@@ -22,6 +22,9 @@ RESTRAINT_WORDS = ("continuous", "supports")
 LOAD_STEP = 1.005  # mode "load": loads to 0.5 %
 LOAD_GRID = 2400  # load factors from 1.005^-2400 (6e-6) to 1.005^2400 (1.6e5) times the given load
 MAX_CONTINUOUS_SPANS = 5
+CLOSEST_RESTRAINTS = 0.1  # m: the closest spacing of point restraints (closer is a deck: "continuous")
+FINEST_RESOLUTION = 0.001  # m: the finest span step
+MAX_COLUMNS = 1000  # loads (mode "span") or lengths (mode "load") of one table, at most (docs/limits.md)
 FIRST_SPAN = 3.0  # m: the first trial in mode "span"
 DEFAULT_RESOLUTION = "10 mm"
 DEFAULT_MAX_SPAN = "30 m"
@@ -149,7 +152,9 @@ class _FileReader:
     def string_list(self, table: dict, key: str, example: str) -> list[Any]:
         value = table.get(key)
         if not isinstance(value, list) or not value:
-            raise self.error(key, f"expected a list, got {value!r}" if value is not None else f"'{key}' is missing", f"write e.g. {key} = {example}")
+            raise self.error(key, f"expected a list, got {str(value)[:40]!r}" if value is not None else f"'{key}' is missing", f"write e.g. {key} = {example}")
+        if len(value) > MAX_COLUMNS:
+            raise self.error(key, f"{len(value)} entries, more than a table holds ({MAX_COLUMNS})", "split it into several span tables")
         return value
 
 
@@ -219,7 +224,11 @@ def _restraint(values: _FileReader, table: dict) -> str | float:
         return value
     if not isinstance(value, str):
         raise values.error("restraint", f"expected \"continuous\", \"supports\" or a spacing, got {value!r}", 'write e.g. restraint = "1.5 m"')
-    return values.length(value, "restraint")
+    spacing = values.length(value, "restraint")
+    if spacing < CLOSEST_RESTRAINTS * (1 - 1e-9):
+        raise values.error("restraint", f"restraints every {value[:40]} are closer than {CLOSEST_RESTRAINTS * 1e3:g} mm",
+                           'write restraint = "continuous" for a deck or bracing that close, or give a spacing of 100 mm or more')
+    return spacing
 
 
 def _column_loads(values: _FileReader, table: dict, mode: str) -> tuple[AppliedLoad, ...]:
@@ -251,11 +260,21 @@ def _dead_load(values: _FileReader, table: dict) -> float | None:
 
 
 def _resolution(values: _FileReader, table: dict, mode: str) -> float:
+    from sizer import units
+
     if mode == "load":
         if "resolution" in table:
             raise values.error("resolution", "mode \"load\" finds loads to 0.5 %; resolution is the span step of mode \"span\"", "remove resolution")
         return values.length(DEFAULT_RESOLUTION, "resolution")
-    return values.length(table.get("resolution", DEFAULT_RESOLUTION), "resolution")
+    resolution = values.length(table.get("resolution", DEFAULT_RESOLUTION), "resolution")
+    if resolution < FINEST_RESOLUTION * (1 - 1e-9):
+        raise values.error("resolution", f"a span step of {str(table.get('resolution'))[:40]} is finer than {FINEST_RESOLUTION * 1e3:g} mm",
+                           'give e.g. resolution = "10 mm"')
+    longest = values.length(table.get("max_span", DEFAULT_MAX_SPAN), "max_span")
+    if resolution > longest / 2:
+        raise values.error("resolution", f"the span step {table.get('resolution')!s:.40} leaves fewer than two spans up to max_span "
+                           f"({units.fmt(longest, 'length')})", 'give a finer step, e.g. resolution = "10 mm", or a longer max_span')
+    return resolution
 
 
 # ----------------------------------------------------------------------------------------------

@@ -10,6 +10,7 @@ import html
 from typing import Any, Iterable, Sequence
 
 from sizer import units
+from sizer.printable import printable_lines
 from sizer.render.plots.style import figure_bytes
 
 STYLE = """
@@ -60,7 +61,8 @@ footer { margin-top: 30px; font-size: 12px; color: var(--muted); border-top: 1px
 
 
 def _e(text: Any) -> str:
-    return html.escape(str(text), quote=True)
+    """Text as HTML text only: markup characters escaped, control characters shown as escapes."""
+    return html.escape(printable_lines(str(text)), quote=True)
 
 
 def _fmt(value: float | None, kind: str, system: str, digits: int = 4) -> str:
