@@ -1,0 +1,78 @@
+"""Pattern arrangements by per-span superposition (sizer.analysis.superposition) against brute-force
+enumeration of every arrangement, the empty one included: the worst arrangement of a quantity
+linear in the loads is the fixed part plus the contributions of one sign (superposition, common
+practice; every choice of loaded spans is an arrangement, docs/design.md), so the per-station
+extremes of the six actions and the peak bending normal stress over mesh nodes must equal the
+largest and smallest over every arrangement, each arrangement evaluated on its own, and the
+arrangement named must reach that value.
+"""
+
+from __future__ import annotations
+
+from types import SimpleNamespace
+
+import numpy as np
+import pytest
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
+
+from sizer.analysis import solve_member
+from sizer.analysis.superposition import linear_extremes, switched_combinations, worst_switches
+from sizer.checks.field import superposed_bending
+from sizer.model import Member
+from test_patterns import two_case_members
+
+
+def stations_of(member: Member) -> tuple[np.ndarray, np.ndarray]:
+    """41 even stations (right side) and end B (left side)."""
+    xs = np.linspace(0.0, member.length, 42)
+    return xs, np.array(["right"] * 41 + ["left"])
+
+
+@settings(max_examples=12, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(member=two_case_members())
+def test_per_span_extremes_of_the_actions_equal_enumeration(member: Member) -> None:
+    """Largest and smallest N, Vy, Vz, T, My, Mz at every station: fixed part plus the switches of
+    one sign against the max and min over every arrangement; the named arrangement reaches them."""
+    solution = solve_member(member, None, None)
+    xs, sides = stations_of(member)
+    each = solution.case_actions(xs, sides)
+    [combination] = switched_combinations(solution)
+    names = list(solution.member.combinations)
+    assert len(combination.names) == len(names) == 2 ** len(combination.switches)  # the empty arrangement included
+    enumerated = solution.weighted_actions(solution.combination_weights(names), xs, sides)  # (A, n, 6)
+    fixed = np.tensordot(combination.fixed, each, axes=1)
+    parts = np.tensordot(combination.switches, each, axes=1)
+    high, low = linear_extremes(fixed, parts)
+    scale = 1e-9 * (np.abs(enumerated).max() + 1.0)
+    np.testing.assert_allclose(high, enumerated.max(axis=0), rtol=0, atol=scale)
+    np.testing.assert_allclose(low, enumerated.min(axis=0), rtol=0, atol=scale)
+    row = {name: k for k, name in enumerate(names)}
+    for n, j in [(int(n), int(j)) for n, j in zip(*np.unravel_index(np.argsort(-np.abs(high).ravel())[:5], high.shape))]:
+        for largest, target in ((True, high), (False, low)):
+            name = combination.arrangement(worst_switches(parts, (n, j), largest))
+            assert enumerated[row[name], n, j] == pytest.approx(target[n, j], abs=scale)
+
+
+@settings(max_examples=12, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(member=two_case_members(), seed=st.integers(0, 2**16), orientation=st.sampled_from(["major", "minor"]))
+def test_per_span_bending_peak_equals_enumeration(member: Member, seed: int, orientation: str) -> None:
+    """Peak |sigma| over random mesh nodes (unit normal stresses of My and Mz), stations and every
+    arrangement: superposed against every arrangement evaluated; the named arrangement reaches it."""
+    from sizer.analysis.section_axes import to_section_axes
+
+    solution = solve_member(member, None, None)
+    xs, sides = stations_of(member)
+    field = SimpleNamespace(sigma=np.random.default_rng(seed).normal(size=(3, 9)))
+    each = to_section_axes(solution.case_actions(xs, sides), orientation)
+    found = superposed_bending(each, switched_combinations(solution), field)
+    names = list(solution.member.combinations)
+    enumerated = to_section_axes(solution.weighted_actions(solution.combination_weights(names), xs, sides), orientation)
+    stress = np.abs(enumerated[..., 4:6] @ field.sigma[1:3])  # (A, n, p)
+    peak = stress.max()
+    if peak == 0.0:
+        assert found is None
+        return
+    assert found.value == pytest.approx(peak, rel=1e-9)
+    reached = stress[names.index(found.combination), found.station].max()
+    assert reached == pytest.approx(peak, rel=1e-9)
