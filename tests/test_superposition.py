@@ -76,3 +76,22 @@ def test_per_span_bending_peak_equals_enumeration(member: Member, seed: int, ori
     assert found.value == pytest.approx(peak, rel=1e-9)
     reached = stress[names.index(found.combination), found.station].max()
     assert reached == pytest.approx(peak, rel=1e-9)
+
+
+@pytest.mark.parametrize("uplift", [0.0, 6000.0])
+def test_the_bending_check_by_superposition_equals_every_arrangements_row(uplift: float, monkeypatch: pytest.MonkeyPatch) -> None:
+    """`sizer check` on a three-bay purlin with two patterned cases (64 arrangements): the bending
+    check found by per-span superposition equals the one taking every arrangement's row (value and
+    position and arrangement)."""
+    import sizer.checks.design_check as design_check
+    from sizer import api
+    from test_patterns import purlin
+
+    member = api.member_from_text(purlin([4.0, 3.0, 5.0], 900.0, 1400.0, uplift), "purlin.toml")
+    superposed = next(c for c in api.check(member).checks if c.check == "bending")
+    with monkeypatch.context() as patch:
+        patch.setattr(design_check, "_superposed_bending", lambda *args: None)
+        rows = next(c for c in api.check(member).checks if c.check == "bending")
+    assert superposed.made and superposed.demand == pytest.approx(rows.demand, rel=1e-9)
+    assert superposed.at == pytest.approx(rows.at, abs=1e-9)
+    assert superposed.combination == rows.combination  # no tie on these loads: one worst arrangement

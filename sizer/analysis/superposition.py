@@ -74,3 +74,18 @@ def worst_switches(parts: np.ndarray, index: tuple[int, ...], largest: bool) -> 
     largest (or smallest): those whose contribution there is of that sign."""
     there = parts[(slice(None),) + tuple(index)]
     return there > 0.0 if largest else there < 0.0
+
+
+def superposable(solution: MemberSolution) -> bool:
+    """True where the solution's combinations are pattern arrangements and each is a weighted sum of
+    its case solutions (a MemberSolution: first order). A solution of another kind (second order:
+    the axial force, and so the stiffness, change with the arrangement) is not: the per-arrangement
+    path is used there."""
+    return solution.member.patterning is not None and type(solution) is MemberSolution
+
+
+def every_arrangement(switched: list[SwitchedCombination]) -> bool:
+    """True when the solution holds every arrangement of each of its given combinations (a solution
+    of some arrangements only, as for one combination's reserve factor, is not to be superposed:
+    its worst arrangement could be one it does not hold)."""
+    return all(len(combination.names) == 2 ** len(combination.switches) for combination in switched)

@@ -11,7 +11,7 @@ from sizer.analysis.section_axes import to_section_axes
 from sizer.checks.bracing import brace_demands, brace_notes
 from sizer.checks.buckling import BucklingAxis, buckling_check, column_buckling, given_length_axes
 from sizer.checks.deflection import deflection_check, deflection_limits
-from sizer.checks.field import FieldPeaks
+from sizer.checks.field import ArrangedPeak, FieldPeaks, superposed_bending
 from sizer.checks.lateral import lateral_buckling, lateral_check
 from sizer.checks.local import ASSUMPTIONS as LOCAL_ASSUMPTIONS
 from sizer.checks.local import local_check
@@ -26,6 +26,11 @@ from sizer.checks.strength import (axial_check, bending_check, compression_allow
 from sizer.design import Design
 from sizer.stability import MemberStability
 from sizer.stability.boundary import warping_held
+
+
+SUPERPOSED_BENDING_NOTE = ("Bending stress over the pattern arrangements by per-span superposition: at every station and mesh node each "
+                           "patterned case's stress on each span is found once; the worst arrangement is the fixed part plus the "
+                           "contributions of one sign (exact; the arrangement with the case on no span included).")
 
 
 def check_design(design: Design, unit_field: Any, n_even: int = 200, stability: MemberStability | None = None,
@@ -54,7 +59,7 @@ def check_design(design: Design, unit_field: Any, n_even: int = 200, stability: 
         interaction, lateral = _lateral_checks(design, report, stress, xs, columns, fb)
     checks = [
         axial_check(stress, xs, names, design),
-        bending_check(stress, xs, names, design),
+        bending_check(stress, xs, names, design, arranged := _superposed_bending(design, xs, sides, unit_field, warping)),
         interaction,
         shear_check(stress, xs, names, design),
         equivalent_check(stress, xs, names, design),
@@ -67,10 +72,29 @@ def check_design(design: Design, unit_field: Any, n_even: int = 200, stability: 
     nodes = np.asarray(unit_field.sigma).shape[1]
     notes = check_notes(design, report, given, len(xs), len(names), nodes, {c.check for c in checks if c.made})
     notes.insert(1, torsion_note(design))
+    if arranged is not None:
+        notes.append(SUPERPOSED_BENDING_NOTE)
     braces = brace_demands(design, actions, xs)
     notes += brace_notes(braces)
     return CheckReport(design.spec.name, checks, notes, len(xs), nodes, stability=report, restraints=braces,
                        torsion=torsion_summary(design, torsion, xs))
+
+
+def _superposed_bending(design: Design, xs: np.ndarray, sides: np.ndarray, unit_field: Any, warping: np.ndarray) -> ArrangedPeak | None:
+    """The peak bending stress over every pattern arrangement by per-span superposition (exact,
+    one row per span and case instead of one per arrangement); None where the arrangements are not
+    weighted sums of the case solutions (analysis.superposition.superposable), where a bimoment adds
+    warping normal stress (not split by span here), or where nothing bends: the check then takes
+    every arrangement's row (as where the solution holds only some arrangements)."""
+    from sizer.analysis.superposition import every_arrangement, superposable, switched_combinations
+
+    if not superposable(design.solution) or np.any(warping[..., 0]):
+        return None
+    switched = switched_combinations(design.solution)
+    if not every_arrangement(switched):
+        return None
+    each = to_section_axes(design.solution.case_actions(xs, sides), design.member.orientation)
+    return superposed_bending(each, switched, unit_field)
 
 
 def with_warping_compression(actions: np.ndarray, warping: np.ndarray, unit_field: Any, area: float) -> np.ndarray:

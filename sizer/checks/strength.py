@@ -9,7 +9,7 @@ from typing import Any
 
 import numpy as np
 
-from sizer.checks.field import FieldPeaks
+from sizer.checks.field import ArrangedPeak, FieldPeaks
 from sizer.checks.reduction import PLATEAU_SHEAR
 from sizer.checks.results import ZERO_ACTION, CheckResult
 from sizer.checks.web import shear_panels, shear_slenderness
@@ -55,12 +55,17 @@ def axial_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], desi
     return max(results, key=lambda r: r.utilization)
 
 
-def bending_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], design: Design) -> CheckResult:
-    """Peak bending stress from My and Mz together (full field) against the bending allowable."""
+def bending_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], design: Design, arranged: ArrangedPeak | None = None) -> CheckResult:
+    """Peak bending stress from My and Mz together (full field) against the bending allowable;
+    `arranged`: that peak over every pattern arrangement found by per-span superposition (None:
+    from every row of `stress`)."""
     if stress.bending_upper.max() <= 0.0:
         return CheckResult("bending", None, detail="no bending moment")
     allowable = needs_allowable(design.member, design.material, "bending", "bending")
-    value, at, combination = _place(stress.largest(stress.bending_upper, lambda rows, exact: exact[:, 0]), xs, names)
+    if arranged is not None:
+        value, at, combination = arranged.value, float(xs[arranged.station]), arranged.combination
+    else:
+        value, at, combination = _place(stress.largest(stress.bending_upper, lambda rows, exact: exact[:, 0]), xs, names)
     return CheckResult("bending", value / allowable, value, allowable, at, combination, detail="My and Mz together")
 
 
