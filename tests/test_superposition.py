@@ -18,7 +18,7 @@ from hypothesis import strategies as st
 
 from sizer.analysis import solve_member
 from sizer.analysis.superposition import linear_extremes, switched_combinations, worst_switches
-from sizer.checks.field import superposed_bending
+from sizer.checks.field import superposed_axial, superposed_bending
 from sizer.model import Member
 from test_patterns import two_case_members
 
@@ -78,20 +78,50 @@ def test_per_span_bending_peak_equals_enumeration(member: Member, seed: int, ori
     assert reached == pytest.approx(peak, rel=1e-9)
 
 
+@settings(max_examples=12, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(member=two_case_members())
+def test_per_span_axial_peaks_equal_enumeration(member: Member) -> None:
+    """Largest tension and compression N / A over stations and every arrangement: superposed against
+    every arrangement evaluated; the named arrangement reaches each at the station given."""
+    solution = solve_member(member, None, None)
+    xs, sides = stations_of(member)
+    area = 2.0e-3
+    found = superposed_axial(solution.case_actions(xs, sides), switched_combinations(solution), area)
+    names = list(solution.member.combinations)
+    stress = solution.weighted_actions(solution.combination_weights(names), xs, sides)[..., 0] / area  # (A, n)
+    scale = 1e-9 * (np.abs(stress).max() + 1.0)
+    for which, values in (("tension", stress), ("compression", -stress)):
+        peak = found[which]
+        if values.max() <= scale:
+            assert peak is None or peak.value <= scale
+            continue
+        assert peak.value == pytest.approx(values.max(), abs=scale)
+        assert values[names.index(peak.combination), peak.station] == pytest.approx(peak.value, abs=scale)
+
+
 @pytest.mark.parametrize("uplift", [0.0, 6000.0])
-def test_the_bending_check_by_superposition_equals_every_arrangements_row(uplift: float, monkeypatch: pytest.MonkeyPatch) -> None:
-    """`sizer check` on a three-bay purlin with two patterned cases (64 arrangements): the bending
-    check found by per-span superposition equals the one taking every arrangement's row (value and
-    position and arrangement)."""
+def test_the_axial_and_bending_checks_by_superposition_equal_every_arrangements_row(uplift: float, monkeypatch: pytest.MonkeyPatch) -> None:
+    """`sizer check` on a three-bay purlin with two patterned cases (64 arrangements), a patterned
+    axial pull and push among them: the axial and bending checks found by per-span superposition
+    equal the ones taking every arrangement's row (value and position; bending's arrangement too,
+    axial's arrangement reaches the value: there spans that add nothing make ties)."""
     import sizer.checks.design_check as design_check
     from sizer import api
     from test_patterns import purlin
 
-    member = api.member_from_text(purlin([4.0, 3.0, 5.0], 900.0, 1400.0, uplift), "purlin.toml")
-    superposed = next(c for c in api.check(member).checks if c.check == "bending")
+    text = purlin([4.0, 3.0, 5.0], 900.0, 1400.0, uplift) + (
+        '[[loads]]\ntype = "point"\ncase = "snow"\nat = "12 m"\nfx = "30 kN"\npattern = true\n'
+        '[[loads]]\ntype = "point"\ncase = "imposed"\nat = "5.5 m"\nfx = "-45 kN"\npattern = true\n')
+    member = api.member_from_text(text, "purlin.toml")
+    outcome = api.check(member, reserve=False)
+    superposed = {c.check: c for c in outcome.checks}
     with monkeypatch.context() as patch:
-        patch.setattr(design_check, "_superposed_bending", lambda *args: None)
-        rows = next(c for c in api.check(member).checks if c.check == "bending")
-    assert superposed.made and superposed.demand == pytest.approx(rows.demand, rel=1e-9)
-    assert superposed.at == pytest.approx(rows.at, abs=1e-9)
-    assert superposed.combination == rows.combination  # no tie on these loads: one worst arrangement
+        patch.setattr(design_check, "_superposed", lambda *args: None)
+        rows = {c.check: c for c in api.check(member, reserve=False).checks}
+    for check in ("axial", "bending"):
+        assert superposed[check].made and superposed[check].demand == pytest.approx(rows[check].demand, rel=1e-9), check
+        assert superposed[check].at == pytest.approx(rows[check].at, abs=1e-9), check
+    assert superposed["bending"].combination == rows["bending"].combination  # no tie in bending on these loads
+    axial = superposed["axial"]  # ties (a span's part adds exactly nothing at that station): the arrangement named reaches it
+    n = [outcome.design.solution.actions(axial.combination, [axial.at], side)[0, 0] for side in ("left", "right")]
+    assert max(abs(value) for value in n) / outcome.design.props.area == pytest.approx(axial.demand, rel=1e-9)

@@ -146,3 +146,22 @@ def superposed_bending(sections: np.ndarray, switched: list, unit_field: Any) ->
     if best is None or best[0] <= 0.0:
         return None
     return ArrangedPeak(*best)
+
+
+def superposed_axial(sections: np.ndarray, switched: list, area: float) -> dict[str, ArrangedPeak | None]:
+    """Exact largest axial tension N / A and compression -N / A (Pa, each positive) over every
+    station and pattern arrangement by per-span superposition (as superposed_bending), keyed
+    "tension" and "compression"; None for a sense no arrangement reaches."""
+    from sizer.analysis.superposition import linear_extremes, worst_switches
+
+    found: dict[str, ArrangedPeak | None] = {"tension": None, "compression": None}
+    for combination in switched:
+        fixed = np.tensordot(combination.fixed, sections[..., 0], axes=1) / area  # (n,)
+        parts = np.tensordot(combination.switches, sections[..., 0], axes=1) / area  # (K, n)
+        high, low = linear_extremes(fixed, parts)
+        for which, values, largest in (("tension", high, True), ("compression", -low, False)):
+            n = int(np.argmax(values))
+            best = found[which]
+            if values[n] > 0.0 and (best is None or values[n] > best.value):
+                found[which] = ArrangedPeak(float(values[n]), n, combination.arrangement(worst_switches(parts, (n,), largest)))
+    return found

@@ -39,16 +39,22 @@ def needs_allowable(member: Member, material: Any, which: str, check: str) -> fl
     return value
 
 
-def axial_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], design: Design) -> CheckResult:
-    """N / A against the tension or compression allowable, whichever governs."""
+def axial_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], design: Design,
+                arranged: dict[str, ArrangedPeak | None] | None = None) -> CheckResult:
+    """N / A against the tension or compression allowable, whichever governs; `arranged`: the
+    largest tension and compression over every pattern arrangement by per-span superposition
+    (None: from every row of `stress`)."""
     member, material = design.member, design.material
     results = []
     for sense, which in ((1.0, "tension"), (-1.0, "compression")):
-        demand = np.maximum(sense * stress.axial, 0.0)
-        if demand.max() * design.props.area <= ZERO_ACTION:
+        if arranged is not None:
+            peak = arranged[which]
+            value, at, combination = (0.0, 0.0, "") if peak is None else (peak.value, float(xs[peak.station]), peak.combination)
+        else:
+            value, at, combination = _locate(np.maximum(sense * stress.axial, 0.0), xs, names)
+        if value * design.props.area <= ZERO_ACTION:
             continue
         allowable = needs_allowable(member, material, which, "axial")
-        value, at, combination = _locate(demand, xs, names)
         results.append(CheckResult("axial", value / allowable, value, allowable, at, combination, detail=which))
     if not results:
         return CheckResult("axial", None, detail="no axial force")
