@@ -12,7 +12,7 @@ from sizer.analysis.section_axes import to_section_axes
 from sizer.checks.bracing import brace_demands, brace_notes
 from sizer.checks.buckling import BucklingAxis, buckling_check, column_buckling, given_length_axes
 from sizer.checks.deflection import deflection_check, deflection_limits
-from sizer.checks.field import FieldPeaks
+from sizer.checks.field import ArrangedPeak, FieldPeaks, superposed_axial, superposed_bending
 from sizer.checks.lateral import lateral_buckling, lateral_check
 from sizer.checks.local import ASSUMPTIONS as LOCAL_ASSUMPTIONS
 from sizer.checks.local import local_check
@@ -29,6 +29,11 @@ from sizer.design import Design
 from sizer.model import Member, PointLoad
 from sizer.stability import MemberStability
 from sizer.stability.boundary import warping_held
+
+
+SUPERPOSED_NOTE = ("Axial force and bending stress over the pattern arrangements by per-span superposition: at every station (and mesh "
+                   "node) each patterned case's part on each span is found once; the worst arrangement is the fixed part plus the "
+                   "contributions of one sign (exact; the arrangement with the case on no span included).")
 
 
 def check_design(design: Design, unit_field: Any, n_even: int = 200, stability: MemberStability | None = None,
@@ -48,6 +53,7 @@ def check_design(design: Design, unit_field: Any, n_even: int = 200, stability: 
     actions = to_section_axes(first if second is None else second.actions, design.member.orientation)
     warping = torsion.warping() if second is None else torsion.warping() + second.warping
     stress = FieldPeaks(actions, unit_field, design.props.area, warping)
+    arranged = None if second is not None else _superposed(design, xs, sides, unit_field, warping)  # second order: not a weighted sum
     report = stability_report(design, to_section_axes(first, design.member.orientation), xs, stability)
     given = given_length_axes(design.member, design.props, design.material)
     columns = column_buckling(design, report, given)
@@ -57,8 +63,8 @@ def check_design(design: Design, unit_field: Any, n_even: int = 200, stability: 
         report.solve_exactly(stale, design, stability_mass(design))
         interaction, lateral = _lateral_checks(design, report, stress, xs, columns, fb)
     checks = [
-        axial_check(stress, xs, names, design),
-        bending_check(stress, xs, names, design),
+        axial_check(stress, xs, names, design, arranged),
+        bending_check(stress, xs, names, design, arranged and arranged["bending"]),
         interaction,
         shear_check(stress, xs, names, design),
         equivalent_check(stress, xs, names, design),
@@ -75,10 +81,33 @@ def check_design(design: Design, unit_field: Any, n_even: int = 200, stability: 
     notes = check_notes(design, report, given, len(xs), len(names), nodes, {c.check for c in checks if c.made})
     notes += second_order_notes(design, second)
     notes.insert(1, torsion_note(design))
+    if arranged is not None:
+        notes.append(SUPERPOSED_NOTE)
     braces = brace_demands(design, actions, xs)
     notes += brace_notes(braces)
     return CheckReport(design.spec.name, checks, notes, len(xs), nodes, stability=report, restraints=braces,
                        torsion=torsion_summary(design, torsion, xs), second_order=second)
+
+
+def _superposed(design: Design, xs: np.ndarray, sides: np.ndarray, unit_field: Any, warping: np.ndarray) -> dict[str, ArrangedPeak | None] | None:
+    """The peak bending stress ("bending") and axial tension and compression ("tension",
+    "compression") over every pattern arrangement by per-span superposition (exact, one row per span
+    and case instead of one per arrangement); None where the arrangements are not weighted sums of
+    the case solutions (analysis.superposition.superposable) or the solution holds only some
+    arrangements: the checks then take every arrangement's row. Not called where second-order
+    actions replace the first-order ones (they are not weighted sums of the cases' actions). "bending" is None also where a
+    bimoment adds warping normal stress (not split by span here) or nothing bends."""
+    from sizer.analysis.superposition import every_arrangement, superposable, switched_combinations
+
+    if not superposable(design.solution):
+        return None
+    switched = switched_combinations(design.solution)
+    if not every_arrangement(switched):
+        return None
+    each = to_section_axes(design.solution.case_actions(xs, sides), design.member.orientation)
+    found = superposed_axial(each, switched, design.props.area)
+    found["bending"] = None if np.any(warping[..., 0]) else superposed_bending(each, switched, unit_field)
+    return found
 
 
 def with_warping_compression(actions: np.ndarray, warping: np.ndarray, unit_field: Any, area: float) -> np.ndarray:

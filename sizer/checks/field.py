@@ -108,3 +108,60 @@ class FieldPeaks:
                     best, best_row = candidate, row
             start, batch = start + batch, 2 * batch
         return float(best), tuple(int(i) for i in np.unravel_index(best_row, self.shape))
+
+
+@dataclass(frozen=True)
+class ArrangedPeak:
+    """The largest value over every pattern arrangement, where and in which arrangement."""
+
+    value: float
+    station: int  # index into the check stations
+    combination: str  # the arrangement's name
+
+
+def superposed_bending(sections: np.ndarray, switched: list, unit_field: Any) -> ArrangedPeak | None:
+    """Exact largest bending normal stress |sigma from My and Mz| (Pa) over every mesh node, station
+    and pattern arrangement, by per-span superposition (analysis.superposition): at each node and
+    station the worst arrangement of each sign is the fixed part plus the switches of that sign.
+    `sections` (n_columns, n, 6) each case's actions in section axes at the stations, `switched`
+    the SwitchedCombinations; None where there is no bending. Blocks of stations bound memory."""
+    from sizer.analysis.superposition import linear_extremes, worst_switches
+
+    sigma = np.asarray(unit_field.sigma)[1:3]  # (2, p): My, Mz
+    stations = sections.shape[1]
+    best: tuple[float, int, str] | None = None
+    for combination in switched:
+        fixed = np.tensordot(combination.fixed, sections[..., 4:6], axes=1)  # (n, 2)
+        parts = np.tensordot(combination.switches, sections[..., 4:6], axes=1)  # (K, n, 2)
+        rows = max(1, CHUNK_VALUES // max(sigma.shape[1] * (len(parts) + 1), 1))
+        for start in range(0, stations, rows):
+            block = slice(start, start + rows)
+            high, low = linear_extremes(fixed[block] @ sigma, parts[:, block] @ sigma)  # (b, p)
+            size = np.maximum(high, -low)
+            n, p = np.unravel_index(int(np.argmax(size)), size.shape)
+            if best is not None and size[n, p] <= best[0]:
+                continue
+            on = worst_switches(parts[:, start + n:start + n + 1] @ sigma[:, p:p + 1], (0, 0), high[n, p] >= -low[n, p])
+            best = (float(size[n, p]), start + int(n), combination.arrangement(on))
+    if best is None or best[0] <= 0.0:
+        return None
+    return ArrangedPeak(*best)
+
+
+def superposed_axial(sections: np.ndarray, switched: list, area: float) -> dict[str, ArrangedPeak | None]:
+    """Exact largest axial tension N / A and compression -N / A (Pa, each positive) over every
+    station and pattern arrangement by per-span superposition (as superposed_bending), keyed
+    "tension" and "compression"; None for a sense no arrangement reaches."""
+    from sizer.analysis.superposition import linear_extremes, worst_switches
+
+    found: dict[str, ArrangedPeak | None] = {"tension": None, "compression": None}
+    for combination in switched:
+        fixed = np.tensordot(combination.fixed, sections[..., 0], axes=1) / area  # (n,)
+        parts = np.tensordot(combination.switches, sections[..., 0], axes=1) / area  # (K, n)
+        high, low = linear_extremes(fixed, parts)
+        for which, values, largest in (("tension", high, True), ("compression", -low, False)):
+            n = int(np.argmax(values))
+            best = found[which]
+            if values[n] > 0.0 and (best is None or values[n] > best.value):
+                found[which] = ArrangedPeak(float(values[n]), n, combination.arrangement(worst_switches(parts, (n,), largest)))
+    return found
