@@ -15,6 +15,7 @@ from typing import Any
 import numpy as np
 
 from sizer.checks.mode_label import mode_label
+from sizer.stability.section import has_weaker_axis
 from sizer.checks.reduction import johnson
 from sizer.checks.results import CheckResult
 from sizer.checks.stability import StabilityReport
@@ -120,7 +121,7 @@ def column_buckling(design: Design, report: StabilityReport, given: list[Bucklin
         load, mode = entry.axial.load_factor * entry.compression, "none"
         if entry.axial.mode is not None:
             shares = report.model.energy_shares(report.section, entry.axial.mode)
-            mode = mode_label(shares, bool(np.isclose(report.section.Iz, report.section.Iy, rtol=1e-3)))
+            mode = mode_label(shares, not bool(has_weaker_axis(report.section)))
         for axis in given:
             euler = math.pi**2 * material.elastic_modulus * axis.radius**2 * area / axis.length**2
             if euler < load:

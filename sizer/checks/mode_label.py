@@ -14,8 +14,10 @@ ONE_PLANE = 0.9  # bending share in one plane at or above which that axis is nam
 def mode_label(shares: dict[str, float], equal_axes: bool = False) -> str:
     """"torsional", "flexural-torsional", "flexural major" (bending in the depth plane), "flexural
     minor" (sideways), or for a flexural shape bent in both planes: "flexural (Iz = Iy: any axis)"
-    when the section is equally stiff about both axes (`equal_axes`), else "flexural (inclined
-    axis)". `shares`: "v", "w", "phi" energy shares summing to 1."""
+    when the section is equally stiff about every axis (`equal_axes`: equal principal second
+    moments), else "flexural minor principal (inclined axis)": a section whose principal axes are
+    not y and z (an angle) bends in both planes when it buckles about its weaker principal axis.
+    `shares`: "v", "w", "phi" energy shares summing to 1."""
     twist = shares["phi"]
     if twist >= TWIST_ONLY:
         return "torsional"
@@ -26,4 +28,4 @@ def mode_label(shares: dict[str, float], equal_axes: bool = False) -> str:
         return "flexural major"
     if shares["w"] / bending >= ONE_PLANE:
         return "flexural minor"
-    return "flexural (Iz = Iy: any axis)" if equal_axes else "flexural (inclined axis)"
+    return "flexural (Iz = Iy: any axis)" if equal_axes else "flexural minor principal (inclined axis)"
