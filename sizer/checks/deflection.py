@@ -152,12 +152,7 @@ def second_order_deflections(solution: MemberSolution, span_list: list[Span], na
         points = np.concatenate([xs, reference])
         moved = solution.weighted_displacements(solution.combination_weights(names), points)[..., 1:3]
         moved = moved + second_order.displacement_increments(names, points)[..., 1:3]
-        body = moved[:, :xs.size]
-        if relative and span.overhang:
-            body = body - moved[:, -1:]
-        elif relative:
-            along = ((xs - span.start) / span.length)[None, :, None]
-            body = body - ((1 - along) * moved[:, -2:-1] + along * moved[:, -1:])
+        body = span_body(moved, xs, span, relative)
         size = np.hypot(body[..., 0], body[..., 1])
         c, k = np.unravel_index(int(np.argmax(size)), size.shape)
         found.append((float(size[c, k]), float(xs[k]), names[c]))
@@ -165,6 +160,19 @@ def second_order_deflections(solution: MemberSolution, span_list: list[Span], na
 
 
 _PEAKS: "WeakKeyDictionary[MemberSolution, dict]" = WeakKeyDictionary()  # solution -> (span, combinations, relative) -> peak
+
+
+def span_body(moved: np.ndarray, xs: np.ndarray, span: Span, relative: bool) -> np.ndarray:
+    """(C, len(xs), 2) displacements uy, uz (m) at `xs` from `moved` (C, len(xs) + references, 2):
+    relative to the supports where `relative` (an overhang to its base, a span to the chord between
+    its ends, the references last in `moved`), else as they are."""
+    body = moved[:, :xs.size]
+    if relative and span.overhang:
+        return body - moved[:, -1:]
+    if relative:
+        along = ((xs - span.start) / span.length)[None, :, None]
+        return body - ((1 - along) * moved[:, -2:-1] + along * moved[:, -1:])
+    return body
 
 
 def span_peak(solution: MemberSolution, span: Span, weights: np.ndarray, relative: bool) -> tuple[float, float, int]:
@@ -184,12 +192,7 @@ def span_peak(solution: MemberSolution, span: Span, weights: np.ndarray, relativ
     xs = (lo[:, None] + (t[None, :] + 1) / 2 * (hi - lo)[:, None]).ravel()
     reference = [span.base] if span.overhang else [span.start, span.end]
     moved = solution.weighted_displacements(weights, np.concatenate([xs, reference]))[..., 1:3]  # (C, points + refs, 2)
-    body = moved[:, :xs.size]
-    if relative and span.overhang:
-        body = body - moved[:, -1:]
-    elif relative:
-        along = ((xs - span.start) / span.length)[None, :, None]
-        body = body - ((1 - along) * moved[:, -2:-1] + along * moved[:, -1:])
+    body = span_body(moved, xs, span, relative)
     squared = (body**2).sum(axis=2).reshape(len(weights), lo.size, PIECE_POINTS)  # (C, pieces, points)
     coef = chebyshev.chebfit(t, squared.reshape(-1, PIECE_POINTS).T, PIECE_POINTS - 1)  # (points, C x pieces)
     value, where = _polynomial_peaks(coef)

@@ -158,33 +158,27 @@ def refuse_control_characters(data: Any, path: Path, text: str, key: str = "") -
 def read_height(reader: Reader, table: dict, prefix: str, default: str | None) -> str | float | None:
     """`height`: "top", "centre", "bottom", or a length from the shear centre along the depth (m,
     positive towards the top); `default` when absent."""
-    if "height" not in table:
-        return default
-    value = table["height"]
-    if isinstance(value, str) and value.strip() in HEIGHT_FACES:
-        return value.strip()
-    fix = 'use "top", "centre", "bottom" or a distance from the shear centre such as "+80 mm" or "-40 mm"'
-    if not isinstance(value, str):
-        raise reader.error(f"{prefix}.height", f"{value!r} is not a height", fix)
-    try:
-        return reader.quantity(table, "height", "length", prefix)
-    except InputError as error:
-        error.fix = fix
-        raise
+    return _name_or_length(reader, table, prefix, "height", HEIGHT_FACES, default, "a height",
+                           'use "top", "centre", "bottom" or a distance from the shear centre such as "+80 mm" or "-40 mm"')
 
 
 def read_across(reader: Reader, table: dict, prefix: str) -> str | float:
     """`across`: "shear-centre", "centroid" (default) or a distance along z from the shear centre (m)."""
-    if "across" not in table:
-        return DEFAULT_ACROSS
-    value = table["across"]
-    if isinstance(value, str) and value.strip() in ACROSS_NAMES:
+    return _name_or_length(reader, table, prefix, "across", ACROSS_NAMES, DEFAULT_ACROSS, "a place across the section",
+                           'use "shear-centre", "centroid" or a distance along z from the shear centre such as "+40 mm"')
+
+
+def _name_or_length(reader: Reader, table: dict, prefix: str, key: str, names: Any, default: Any, what: str, fix: str) -> Any:
+    """A key that is one of `names` or a length (m); `default` when absent; errors name the key and `fix`."""
+    if key not in table:
+        return default
+    value = table[key]
+    if isinstance(value, str) and value.strip() in names:
         return value.strip()
-    fix = 'use "shear-centre", "centroid" or a distance along z from the shear centre such as "+40 mm"'
     if not isinstance(value, str):
-        raise reader.error(f"{prefix}.across", f"{value!r} is not a place across the section", fix)
+        raise reader.error(f"{prefix}.{key}", f"{value!r} is not {what}", fix)
     try:
-        return reader.quantity(table, "across", "length", prefix)
+        return reader.quantity(table, key, "length", prefix)
     except InputError as error:
         error.fix = fix
         raise
