@@ -301,7 +301,7 @@ def work_row(task: RowTask) -> dict:
     try:
         paths = catalogue_folders(task.catalogue)
         if task.do == "size":
-            outcome = api.size(task.member, paths)
+            outcome = api.size(task.member, paths, top=0)  # the row shows the choice only: no runners-up checked in full
             checked = outcome.chosen
             found = {"section": outcome.section, "passes": outcome.passes, "utilization": outcome.utilization,
                      "governing": outcome.governing, "mass_per_length": outcome.mass_per_length, "reserve_factor": outcome.reserve_factor}
