@@ -16,3 +16,13 @@ def to_section_axes(actions: np.ndarray, orientation: str) -> np.ndarray:
     turned[..., 1], turned[..., 2] = actions[..., 2], -actions[..., 1]
     turned[..., 4], turned[..., 5] = actions[..., 5], -actions[..., 4]
     return turned
+
+
+def to_member_axes(actions: np.ndarray, orientation: str) -> np.ndarray:
+    """The inverse of to_section_axes: actions in the section's axes back in the member's."""
+    if orientation != "minor":
+        return actions
+    out = actions.copy()
+    out[..., 2], out[..., 1] = actions[..., 1], -actions[..., 2]
+    out[..., 5], out[..., 4] = actions[..., 4], -actions[..., 5]
+    return out

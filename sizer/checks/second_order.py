@@ -189,19 +189,18 @@ class SecondOrderSolution(MemberSolution):
         return [next((c for c in range(len(table)) if np.array_equal(row, table[c])), None) for row in np.atleast_2d(weights)]
 
     def weighted_actions(self, weights: np.ndarray, x: Any, side: Any = "right") -> np.ndarray:
-        out = self.first_order.weighted_actions(weights, x, side)
-        xs, right = self._stations(x, side)
-        for k, c in enumerate(self._combinations_of(weights)):
-            if c is not None:
-                out[k, :, :6] += self.found.responses[c].actions(xs, right)
-        return out
+        return self._with_increments(self.first_order.weighted_actions(weights, x, side), weights, x, side, "actions")
 
     def weighted_displacements(self, weights: np.ndarray, x: Any, side: Any = "right") -> np.ndarray:
-        out = self.first_order.weighted_displacements(weights, x, side)
+        return self._with_increments(self.first_order.weighted_displacements(weights, x, side), weights, x, side, "displacements")
+
+    def _with_increments(self, out: np.ndarray, weights: np.ndarray, x: Any, side: Any, kind: str) -> np.ndarray:
+        """First-order `out` (rows of `weights`) plus each combination row's second-order increment
+        of `kind` ("actions" or "displacements"); rows that are no combination stay first order."""
         xs, right = self._stations(x, side)
         for k, c in enumerate(self._combinations_of(weights)):
             if c is not None:
-                out[k, :, :6] += self.found.responses[c].displacements(xs, right)
+                out[k, :, :6] += getattr(self.found.responses[c], kind)(xs, right)
         return out
 
 

@@ -36,7 +36,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from sizer.analysis import MemberSolution
-from sizer.analysis.section_axes import to_section_axes
+from sizer.analysis.section_axes import to_member_axes, to_section_axes
 from sizer.model import LineLoad, Member, PointLoad
 from sizer.stability.elements import hermite
 from sizer.stability.problem import MemberStability, term_coefficients
@@ -275,16 +275,6 @@ def member_displacements(d: np.ndarray, orientation: str) -> np.ndarray:
     else:  # v = uz, w = -uy
         out[:, 2], out[:, 1], out[:, 4], out[:, 5] = v[0], -w[0], -v[1], -w[1]
     out[:, 3] = phi[0]
-    return out
-
-
-def to_member_axes(actions: np.ndarray, orientation: str) -> np.ndarray:
-    """The inverse of sizer.analysis.section_axes.to_section_axes."""
-    if orientation != "minor":
-        return actions
-    out = actions.copy()
-    out[..., 2], out[..., 1] = actions[..., 1], -actions[..., 2]
-    out[..., 5], out[..., 4] = actions[..., 4], -actions[..., 5]
     return out
 
 
