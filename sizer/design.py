@@ -30,6 +30,20 @@ class Design:
     mass_per_length: float | None = None
     notes: list[str] = field(default_factory=list)
 
+    @property
+    def known_material(self) -> Material:
+        """The material of a design with a section (the checks and reports run only on those)."""
+        if self.material is None:
+            raise ValueError("this design has no section and material")
+        return self.material
+
+    @property
+    def known_stiffness(self) -> Stiffness:
+        """The rigidities of a design with a section (the checks and reports run only on those)."""
+        if self.stiffness is None:
+            raise ValueError("this design has no section and rigidities")
+        return self.stiffness
+
 
 def catalogue_for(member: Member, catalogue_paths: Sequence[Path]) -> Any:
     """The catalogue from --catalogue paths, else the member folder's section_library/, else the shipped one."""

@@ -111,7 +111,7 @@ class ColumnBuckling:
 def column_buckling(design: Design, report: StabilityReport, given: list[BucklingAxis]) -> list[ColumnBuckling | None]:
     """Per combination (None where it has no compression): the lower of the eigen-solve's load and
     Euler's on each given length."""
-    area, material = design.props.area, design.material
+    area, material = design.props.area, design.known_material
     factor = design.member.checks.buckling_safety_factor
     found: list[ColumnBuckling | None] = []
     for entry in report.combinations:

@@ -137,7 +137,7 @@ def _bending_allowable(design: Design, report: StabilityReport) -> float | None:
     the given one or None."""
     if any(entry.lateral is not None for entry in report.combinations):
         return needs_allowable(design.member, design.material, "bending", "lateral-torsional")
-    return design.material.allowable.bending
+    return design.known_material.allowable.bending
 
 
 def check_notes(design: Design, report: StabilityReport, given: list[BucklingAxis], n_stations: int, n_combinations: int,
@@ -161,7 +161,7 @@ def check_notes(design: Design, report: StabilityReport, given: list[BucklingAxi
         notes.append(LOCAL_ASSUMPTIONS)
     notes.append(plateau_note())
     notes += web_notes(design)
-    if design.material.yield_strength is None:
+    if design.known_material.yield_strength is None:
         notes.append("No yield strength given: elastic buckling only (no Johnson parabola); unsafe for stocky members.")
     span_limit, overhang_limit = deflection_limits(settings)
     if overhang_limit is not None:

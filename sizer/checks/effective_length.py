@@ -37,7 +37,7 @@ def axis_lengths(design: Design, report: StabilityReport, combination: str) -> l
     entry = report.combinations[index]
     section = report.section
     mass = (design.mass_per_length or 0.0) if design.member.self_weight_case else 0.0
-    E = design.material.elastic_modulus
+    E = design.known_material.elastic_modulus
     found = []
     for axis, inertia in (("major", design.props.I11), ("minor", design.props.I22)):
         stiff = section.EIy * STIFF if axis == "major" else section.EIz * STIFF

@@ -67,7 +67,7 @@ def lateral_allowables(design: Design, bending_allowable: float, moment: np.ndar
     """(critical moment N*m, sigma_cr Pa, Fb_LT Pa) of combinations with peak |Mz| `moment` (N*m),
     the sign of Mz there and one load factor: Fb_LT never rises as the load factor falls (the
     reduction factor never rises with slenderness, sizer.checks.reduction)."""
-    props, material, settings = design.props, design.material, design.member.checks
+    props, material, settings = design.props, design.known_material, design.member.checks
     critical = load_factor * moment
     sigma_cr = critical / np.where(sign > 0, props.Sz_top, props.Sz_bottom)
     return critical, sigma_cr, reduced_allowable(bending_allowable, sigma_cr, material.yield_strength, settings.buckling_safety_factor,
@@ -89,7 +89,7 @@ def lateral_check(entries: list[LateralBuckling | None], report: StabilityReport
               f"σcr = {worst.critical_stress / 1e6:.4g} MPa, Fb_LT = {worst.allowable / 1e6:.4g} MPa (safety factor {factor:g})")
     extra = {"critical_moment": worst.critical_moment, "load_factor": worst.load_factor, "mode": "lateral-torsional",
              "plateau_slenderness": PLATEAU_LATERAL}
-    fy = design.material.yield_strength
+    fy = design.known_material.yield_strength
     if fy:
         extra["slenderness"] = float(slenderness(worst.critical_stress, fy))
         detail += f", λ_LT = {extra['slenderness']:.3g} (no reduction up to {PLATEAU_LATERAL:g})"

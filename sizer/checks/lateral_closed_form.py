@@ -137,7 +137,7 @@ def moment_factor(moments: tuple[float, float, float, float]) -> float:
 
 def uniform_moment_critical(design: Design, length: float) -> float:
     """M_cr0 (N*m) of Timoshenko & Gere for uniform moment on a fork-ended length (m)."""
-    E, G, props = design.material.elastic_modulus, design.material.shear_modulus, design.props
+    E, G, props = design.known_material.elastic_modulus, design.known_material.shear_modulus, design.props
     return (math.pi / length) * math.sqrt(E * props.Iy * G * props.J) * math.sqrt(1 + math.pi**2 * E * props.Iw / (G * props.J * length**2))
 
 

@@ -478,7 +478,7 @@ def local_check(design: Design, actions: np.ndarray, xs: np.ndarray, names: Sequ
     table = table_of_walls([section_walls(design.spec, props.centroid)])
     rows = np.asarray(actions, dtype=float).reshape(1, -1, 6)
     area = np.array([props.area])
-    material, file = design.material, design.member.source
+    material, file = design.known_material, design.member.source
     E, nu = material.elastic_modulus, poisson_ratio(material, file)
     given = [value for value in (material.allowable.compression, material.allowable.bending) if value is not None]
     F = max(given) if given else np.inf  # none given: bad input below, once a wall is found in compression

@@ -84,7 +84,7 @@ def second_order_actions(design: Design, xs: np.ndarray, sides: np.ndarray, firs
     from sizer.stability import stability_section
     from sizer.stability.second_order import SecondOrder
 
-    section = stability_section(design.props, design.material.elastic_modulus, design.material.shear_modulus)
+    section = stability_section(design.props, design.known_material.elastic_modulus, design.known_material.shear_modulus)
     bow = settings.bow(design.member.length)
     mass = (design.mass_per_length or 0.0) if design.member.self_weight_case else 0.0
     solver = SecondOrder(design.member, design.solution, section, bow, mass, member_axes_offset(design))

@@ -89,7 +89,7 @@ def stability_report(design: Design, actions: np.ndarray, xs: np.ndarray, model:
     section's axes at the check stations `xs` (m). `model`: a MemberStability of this member to
     reuse (its section-independent parts), else one is built."""
     model = model or MemberStability(design.member, design.solution)
-    section = stability_section(design.props, design.material.elastic_modulus, design.material.shear_modulus)
+    section = stability_section(design.props, design.known_material.elastic_modulus, design.known_material.shear_modulus)
     reason = lateral_not_applicable(design, section, actions[..., MZ])
     report = StabilityReport(model, section, reason)
     mass = stability_mass(design)
@@ -131,7 +131,7 @@ def pattern_laterals(design: Design, actions: np.ndarray, xs: np.ndarray, solver
     from sizer.checks.arrangement_stability import lateral_over_arrangements
     from sizer.checks.lateral import lateral_allowables
 
-    fb = design.material.allowable.bending
+    fb = design.known_material.allowable.bending
     names = design.solution.combination_names
     groups: dict[str, list[int]] = {}
     for c, name in enumerate(names):

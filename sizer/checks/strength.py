@@ -93,7 +93,7 @@ def interaction_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...]
     if not has_axial or stress.bending_upper.max() <= 0.0:
         return CheckResult("interaction", None, detail="needs axial force and bending together")
     needs_allowable(design.member, design.material, "bending", "interaction")
-    tension = design.material.allowable.tension
+    tension = design.known_material.allowable.tension
     if tension is None and (stress.axial > 0).any():
         tension = needs_allowable(design.member, design.material, "tension", "interaction")
     stations = stress.shape[1]
@@ -133,7 +133,7 @@ def shear_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], desi
     if fv < allowable:
         axis = int(np.argmin(np.where(carries[row], panels.allowable[:, s], np.inf)))
         critical = float(panels.critical[axis, s])
-        lam = shear_slenderness(critical, design.material.yield_strength)
+        lam = shear_slenderness(critical, design.known_material.yield_strength)
         extra = {"critical_shear_stress": critical, "k_tau": float(panels.k_tau[axis, s]), "panel_length": float(panels.length[s]),
                  "element": "web" if axis == 0 else "walls across the depth", "plateau_slenderness": PLATEAU_SHEAR}
         if lam is not None:
@@ -147,7 +147,7 @@ def shear_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], desi
 
 def equivalent_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], design: Design) -> CheckResult:
     """Peak von Mises stress against the `equivalent` allowable, where given (optional check)."""
-    allowable = design.material.allowable.equivalent
+    allowable = design.known_material.allowable.equivalent
     if allowable is None:
         return CheckResult("equivalent", None, detail="no 'equivalent' allowable given for the material")
     value, at, combination = _place(stress.largest(stress.equivalent_upper, lambda rows, exact: exact[:, 2]), xs, names)

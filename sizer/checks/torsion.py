@@ -68,8 +68,8 @@ def warping_rigidity(design: Design) -> float:
     principle, and is left out as is common practice; open I and channel shapes have a of 2 to 7
     times their size)."""
     props = design.props
-    eiw = design.material.elastic_modulus * props.Iw
-    if eiw <= 0.0 or np.sqrt(eiw / design.stiffness.GJ) < WARPING_SIZE_RATIO * max(props.depth, props.width):
+    eiw = design.known_material.elastic_modulus * props.Iw
+    if eiw <= 0.0 or np.sqrt(eiw / design.known_stiffness.GJ) < WARPING_SIZE_RATIO * max(props.depth, props.width):
         return 0.0
     return eiw
 
@@ -121,14 +121,14 @@ def torsion_summary(design: Design, torsion: TorsionActions, xs: np.ndarray) -> 
     for name, values in quantities.items():
         c, s = np.unravel_index(int(np.argmax(np.abs(values))), values.shape)
         peaks.append(TorsionPeak(name, float(values[c, s]), float(xs[s]), names[c]))
-    return TorsionSummary(float(np.sqrt(eiw / design.stiffness.GJ)), member_axes_offset(design), tuple(peaks))
+    return TorsionSummary(float(np.sqrt(eiw / design.known_stiffness.GJ)), member_axes_offset(design), tuple(peaks))
 
 
 def torsion_actions(design: Design, xs: np.ndarray, sides: np.ndarray) -> TorsionActions:
     """T, Tw and B of every combination at stations xs (m) on `sides`, from the non-uniform torsion
     solve on the design's section with every load's torque about the shear centre."""
     solution, member = design.solution, design.solution.member
-    stiffness = design.stiffness
+    stiffness = design.known_stiffness
     columns = member_torque_columns(member, list(solution.cases), solution.self_weight is not None, member_axes_offset(design))
     if not columns.any:
         nothing = np.zeros((len(solution.combination_names), len(xs)))
@@ -162,11 +162,11 @@ def torsion_note(design: Design) -> str:
             "not changed by these torques (no geometric stiffness from a first-order torque in the linear buckling solve). ")
     eiw = warping_rigidity(design)
     if eiw:
-        a = np.sqrt(eiw / design.stiffness.GJ)
+        a = np.sqrt(eiw / design.known_stiffness.GJ)
         return text + (f"Non-uniform torsion (G J and E Iw, torsion parameter a = {a:.3g} m): warping held at fixed supports or as "
                        "given, free at pins and rollers; bimoment B and warping torque Tw give the warping normal stress B omega / Iw and "
                        "the warping shear stress in the full field; local wall checks add the peak warping stress as uniform compression.")
-    a = np.sqrt(design.material.elastic_modulus * props.Iw / design.stiffness.GJ)
+    a = np.sqrt(design.known_material.elastic_modulus * props.Iw / design.known_stiffness.GJ)
     return text + (f"Uniform torsion (G J only): the section's torsion parameter a = sqrt(E Iw / G J) = {a:.3g} m is below its size, so "
                    "warping settles within about a section size of where it is held and is left out (common practice for closed, solid, "
                    "angle and tee shapes).")

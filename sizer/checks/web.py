@@ -163,7 +163,7 @@ def concentrated_forces(design: Design) -> list[Concentrated]:
 def web_yield_strength(design: Design) -> tuple[float, str]:
     """Fy for the web formulas (Pa) and how it was found; bad input when neither a yield strength nor
     an allowable stress is given."""
-    material = design.material
+    material = design.known_material
     if material.yield_strength:
         return material.yield_strength, "yield strength"
     allow = material.allowable
@@ -223,7 +223,7 @@ def _web_result(design: Design, item: Concentrated, web: Web, force: np.ndarray,
     end = min(item.at, design.member.length - item.at)
     yield_end, crippling_end = end <= web.depth, end < web.depth / 2
     yielding = web_yielding(web, fy, item.bearing, yield_end) / OMEGA_YIELDING
-    crippling = web_crippling(web, design.material.elastic_modulus, fy, item.bearing, crippling_end) / OMEGA_CRIPPLING
+    crippling = web_crippling(web, design.known_material.elastic_modulus, fy, item.bearing, crippling_end) / OMEGA_CRIPPLING
     allowable = min(yielding, crippling)
     c = int(np.argmax(force))
     governs = "web local yielding" if yielding <= crippling else "web crippling"
@@ -251,7 +251,7 @@ def _pair_result(design: Design, load: Concentrated, support: Concentrated, web:
     """Web compression buckling under a load directly over a support (the smaller of the two opposed
     forces, in the combination where it is largest)."""
     end = min(load.at, design.member.length - load.at)
-    allowable = web_compression_buckling(web, design.material.elastic_modulus, fy, end < web.depth / 2) / OMEGA_COMPRESSION
+    allowable = web_compression_buckling(web, design.known_material.elastic_modulus, fy, end < web.depth / 2) / OMEGA_COMPRESSION
     c = int(np.argmax(force))
     detail = (f"{load.what} over {support.what}: web compression buckling (AISC 360-16 J10.5) under the smaller of the two "
               f"opposed forces, h = d - 2k = {(web.depth - 2 * web.k) * 1e3:.4g} mm, Rn/Ω = {allowable / 1e3:.4g} kN"
@@ -327,7 +327,7 @@ def shear_panels(design: Design, xs: np.ndarray, allowable: float) -> ShearPanel
     webs = section_webs(design.spec.shape, design.spec.dims)
     if not webs:
         return None
-    material = design.material
+    material = design.known_material
     a = panel_lengths(design.member, xs)
     nu = poisson_ratio(material, design.member.source)
     fy = material.yield_strength

@@ -261,7 +261,7 @@ def design_summary(design: Design, system: str) -> list[Any]:
     """Member, section, material and spans, one hanging paragraph each."""
     from rich.markup import escape
 
-    member, props, material = design.member, design.props, design.material
+    member, props, material = design.member, design.props, design.known_material
     span_text = ", ".join(f"{'overhang' if s.overhang else 'span'} {units.fmt(s.length, 'length', system)}" for s in spans(member)) or "none"
     allow = material.allowable
     allowables = ", ".join(f"{name} {units.fmt(getattr(allow, name), 'stress', system)}"

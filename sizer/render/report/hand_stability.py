@@ -40,7 +40,7 @@ def column_items(design: Design, report: CheckReport, system: str) -> list[str]:
     buckling = next((c for c in report.checks if c.check == "buckling" and c.made), None)
     if buckling is None or report.stability is None:
         return []
-    material, props, s = design.material, design.props, system
+    material, props, s = design.known_material, design.props, system
     E, Fy = material.elastic_modulus, material.yield_strength
     given = {"major": design.member.checks.buckling_length_major, "minor": design.member.checks.buckling_length_minor}
     lines = []

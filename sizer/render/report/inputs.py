@@ -48,7 +48,7 @@ def _member_table(design: Design, system: str) -> str:
     span_text = ", ".join(f"{'overhang' if s.overhang else 'span'} {_fmt(s.start, 'length', system)} to {_fmt(s.end, 'length', system)}"
                           for s in spans(member)) or "none"
     rows = [("Length", _fmt(member.length, "length", system)), ("Section", f"{_e(design.spec.name)} ({_e(design.spec.shape)})"),
-            ("Orientation", _e(member.orientation)), ("Material", _e(design.material.name)), ("Self-weight", weight),
+            ("Orientation", _e(member.orientation)), ("Material", _e(design.known_material.name)), ("Self-weight", weight),
             ("Spans", span_text),
             ("Internal hinges", ", ".join(_fmt(h.at, "length", system) for h in member.hinges) or "none")]
     body = "".join(_row([f"<th>{name}</th>", f"<td>{value}</td>"]) for name, value in rows)
@@ -196,7 +196,7 @@ def _combinations_table(design: Design) -> str:
 
 
 def _material_table(design: Design, system: str) -> str:
-    material = design.material
+    material = design.known_material
     allowable = material.allowable
     rows = [("Elastic modulus E", _fmt(material.elastic_modulus, "modulus", system)),
             ("Shear modulus G", _fmt(material.shear_modulus, "modulus", system)),

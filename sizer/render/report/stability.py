@@ -111,10 +111,10 @@ def reduction_lines(design: Design, report: CheckReport, system: str) -> list[st
 
 def _web_shear_line(design: Design, result: CheckResult, system: str) -> str:
     """Web shear buckling: k_tau, tau_cr and the reduced shear allowable with its terms."""
-    fy, sf = design.material.yield_strength, design.member.checks.buckling_safety_factor
+    fy, sf = design.known_material.yield_strength, design.member.checks.buckling_safety_factor
     critical, k_tau = float(result.extra["critical_shear_stress"]), float(result.extra["k_tau"])
     shear_yield = fy / math.sqrt(3.0) if fy else None
-    formula = _reduced(design.material.allowable.shear, critical, shear_yield, sf, system, "Fv_red",
+    formula = _reduced(design.known_material.allowable.shear, critical, shear_yield, sf, system, "Fv_red",
                        float(result.extra.get("plateau_slenderness", 0.0)))
     return (f"Web shear buckling, combination {result.combination}: panel a = {_fmt(result.extra['panel_length'], 'length', system)}, "
             f"k_τ = 5.34 + 4 (h/a)² or 4 + 5.34 (h/a)² = {k_tau:.4g}; τ_cr = k_τ π² E / (12 (1 - ν²)) (t / h)² = "
@@ -138,7 +138,7 @@ def _web_line(design: Design, result: CheckResult, system: str) -> str:
 
 
 def _buckling_line(design: Design, result: CheckResult, system: str) -> str:
-    area, sf, fy = design.props.area, design.member.checks.buckling_safety_factor, design.material.yield_strength
+    area, sf, fy = design.props.area, design.member.checks.buckling_safety_factor, design.known_material.yield_strength
     critical = float(result.extra.get("critical_load") or math.inf)
     sigma_e = critical / area
     sigma = float(johnson(sigma_e, fy))
@@ -172,7 +172,7 @@ def _lateral_line(design: Design, report: CheckReport, result: CheckResult, syst
         return (f"Lateral-torsional buckling, combination {result.combination}: no sideways buckling mode (the restraints hold the "
                 f"member along its length), so Fb_LT = Fb = {_fmt(result.allowable, 'stress', system)}.")
     sigma = lateral_sigma(design, report, result)
-    fb, fy, sf = design.material.allowable.bending, design.material.yield_strength, design.member.checks.buckling_safety_factor
+    fb, fy, sf = design.known_material.allowable.bending, design.known_material.yield_strength, design.member.checks.buckling_safety_factor
     sigma_j = (f"; σ_J = {'σ_cr' if sigma <= fy / 2 else 'Fy (1 - Fy / (4 σ_cr))'} = {_fmt(float(johnson(sigma, fy)), 'stress', system)}"
                if fy else "")
     return (f"Lateral-torsional buckling, combination {result.combination}: load factor {factor:.4g}, "
@@ -182,10 +182,10 @@ def _lateral_line(design: Design, report: CheckReport, result: CheckResult, syst
 
 
 def _local_line(design: Design, result: CheckResult, system: str) -> str:
-    allowable = design.material.allowable
+    allowable = design.known_material.allowable
     given = [value for value in (allowable.compression, allowable.bending) if value is not None]
     critical = float(result.extra.get("critical_stress") or math.inf)
-    sf, fy = design.member.checks.buckling_safety_factor, design.material.yield_strength
+    sf, fy = design.member.checks.buckling_safety_factor, design.known_material.yield_strength
     formula = _reduced(max(given), critical, fy, sf, system, "F_red", float(result.extra.get("plateau_slenderness", 0.0))) if given and math.isfinite(critical) else "F_red"
     return (f"Local buckling of the {result.extra.get('element', 'wall')}, combination {result.combination}: plate buckling "
             f"σ_cr = k π² E / (12 (1 - ν²)) (t / b)² = {_fmt(critical, 'stress', system)}; {formula} = "
