@@ -56,7 +56,7 @@ def measured(moved: np.ndarray, span: Span, relative: bool) -> np.ndarray:
 def span_points(span: Span, n: int = 201) -> np.ndarray:
     """n points evenly over the span, then its reference point: the overhang's base support, or the
     span's start (see relative_to_supports)."""
-    return np.append(np.linspace(span.start, span.end, n), span.base if span.overhang else span.start)
+    return np.append(np.linspace(span.start, span.end, n), span.base if span.overhang and span.base is not None else span.start)
 
 
 def deflection_limits(settings: CheckSettings) -> tuple[float | None, float | None]:
@@ -261,7 +261,7 @@ def deflection_check(design: Design, second_order: Any = None) -> CheckResult:
         results += entry_results(design, entry, label, second_order)
     if not results:
         return CheckResult("deflection", None, quantity="deflection", detail="the limits given are for overhangs only, and the member has none")
-    return max(results, key=lambda r: r.utilization)
+    return max(results, key=lambda r: r.made_utilization)
 
 
 def large_deflection(solution: MemberSolution) -> tuple[Span, float, float, str] | None:

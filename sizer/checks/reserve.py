@@ -59,7 +59,7 @@ class Reserve:
 def governing_combination(report: CheckReport) -> str | None:
     """The combination of the governing check (else of the most utilized check that names one)."""
     named = [c for c in report.made if c.combination is not None]
-    return max(named, key=lambda c: c.utilization).combination if named else None
+    return max(named, key=lambda c: c.made_utilization).combination if named else None
 
 
 def scaled_design(design: Design, combination: str, factor: float) -> Design:

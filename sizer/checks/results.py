@@ -40,6 +40,13 @@ class CheckResult:
     def passes(self) -> bool:
         return self.utilization is None or self.utilization <= 1.0
 
+    @property
+    def made_utilization(self) -> float:
+        """The utilization of a made check (ValueError for one not made)."""
+        if self.utilization is None:
+            raise ValueError(f"the {self.check} check was not made")
+        return self.utilization
+
 
 @dataclass
 class CheckReport:
@@ -68,13 +75,13 @@ class CheckReport:
         made = self.made
         if not made:
             return None
-        top = max(c.utilization for c in made)
-        return next(c for c in made if c.utilization >= top * (1 - TIED))
+        top = max(c.made_utilization for c in made)
+        return next(c for c in made if c.made_utilization >= top * (1 - TIED))
 
     @property
     def utilization(self) -> float:
         governing = self.governing
-        return governing.utilization if governing else 0.0
+        return governing.made_utilization if governing else 0.0
 
     @property
     def passes(self) -> bool:

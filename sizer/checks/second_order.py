@@ -114,8 +114,7 @@ def second_order_check(found: SecondOrderActions | None) -> CheckResult:
         return CheckResult("second-order", None, quantity="ratio", detail=f"every combination below its elastic buckling load; "
                            f"largest amplification {largest:.3f}, combination {name}", extra={"amplification": largest})
     name, factor = min(beyond, key=lambda item: item[1] if item[1] is not None and math.isfinite(item[1]) else math.inf)
-    found_factor = factor is not None and 0.0 < factor < math.inf
-    utilization = max(1.0 / factor, math.nextafter(1.0, 2.0)) if found_factor else math.nextafter(1.0, 2.0)
+    utilization = max(1.0 / factor, math.nextafter(1.0, 2.0)) if factor is not None and 0.0 < factor < math.inf else math.nextafter(1.0, 2.0)
     detail = (f"combination {name} is at or beyond its elastic buckling load (load factor {factor:.3g} on its axial force and "
               "moments together): no second-order equilibrium") if factor is not None else f"combination {name} is at or beyond its elastic buckling load"
     return CheckResult("second-order", utilization, utilization, 1.0, None, name, quantity="ratio", detail=detail,
@@ -135,7 +134,7 @@ def with_amplification(checks: list[CheckResult], found: SecondOrderActions, des
     from sizer.checks.deflection import deflection_check
 
     made = [result for result in checks if result.made]
-    governing = max(made, key=lambda r: r.utilization) if made else None
+    governing = max(made, key=lambda r: r.made_utilization) if made else None
     first_deflection = deflection_check(design) if governing is not None and governing.check == "deflection" else None
     out = []
     for result in checks:

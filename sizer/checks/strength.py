@@ -58,7 +58,7 @@ def axial_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], desi
         results.append(CheckResult("axial", value / allowable, value, allowable, at, combination, detail=which))
     if not results:
         return CheckResult("axial", None, detail="no axial force")
-    return max(results, key=lambda r: r.utilization)
+    return max(results, key=lambda r: r.made_utilization)
 
 
 def bending_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], design: Design, arranged: ArrangedPeak | None = None) -> CheckResult:
@@ -104,7 +104,7 @@ def interaction_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...]
     value, at, combination = _place(found, xs, names)
     c, s = found[1]
     fb = float(stress.exact(np.array([c * stations + s]))[0, 0])
-    fa_used = compression[c, s] if stress.axial[c, s] < 0 else tension
+    fa_used = compression[c, s] if stress.axial[c, s] < 0 else (tension if tension is not None else math.inf)
     detail = (f"fa = {stress.axial[c, s] / 1e6:.3g} MPa, fb = {fb / 1e6:.3g} MPa, Fa = {fa_used / 1e6:.4g} MPa, "
               f"Fb = {fb_allowed[c] / 1e6:.4g} MPa")
     return CheckResult("interaction", value, value, 1.0, at, combination, quantity="ratio", detail=detail)

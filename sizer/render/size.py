@@ -61,15 +61,15 @@ def size_json(result: SizingResult, notes: list[str]) -> dict[str, Any]:
         "mass_per_length": chosen.mass_per_length if chosen else None,
         "utilization": chosen.utilization if chosen else None,
         "governing": chosen.governing if chosen else None,
-        "checks": [check_entry(c) for c in chosen.report.checks] if chosen else [],
-        "restraints": [demand.to_json() for demand in chosen.report.restraints] if chosen else [],
+        "checks": [check_entry(c) for c in chosen.full_report.checks] if chosen else [],
+        "restraints": [demand.to_json() for demand in chosen.full_report.restraints] if chosen else [],
         "ranked_by": result.ranking.by,
         "include_unstocked": result.ranking.include_unstocked,
         "currency": result.ranking.currency,
         "cost": chosen.costing.cost if chosen else None,
         "reserve_factor": _reserve_factor(chosen),
-        "reserve_combination": chosen.report.reserve.combination if chosen and chosen.report.reserve else None,
-        "second_order": second_order_json(chosen.report) if chosen else None,
+        "reserve_combination": chosen.full_report.reserve.combination if chosen and chosen.full_report.reserve else None,
+        "second_order": second_order_json(chosen.full_report) if chosen else None,
         "candidates": [candidate_entry(c) for c in listed_candidates(result)],
     }
     if chosen is None and result.strongest is not None:
@@ -79,7 +79,7 @@ def size_json(result: SizingResult, notes: list[str]) -> dict[str, Any]:
 
 
 def _reserve_factor(chosen: Candidate | None) -> float | None:
-    return chosen.report.reserve.factor if chosen is not None and chosen.report.reserve is not None else None
+    return chosen.full_report.reserve.factor if chosen is not None and chosen.full_report.reserve is not None else None
 
 
 RANKED = {"mass": ("mass per length", "the lightest"), "cost": ("cost", "the cheapest"), "depth": ("depth", "the shallowest")}
@@ -134,7 +134,8 @@ def sizing_verdict(result: SizingResult, system: str) -> VerdictBlock:
 
     chosen = result.chosen
     if chosen is not None:
-        governing = chosen.report.governing
+        governing = chosen.full_report.governing
+        assert governing is not None  # a section is chosen on its made checks
         by = ranked_by(result)
         cost = f", cost {money(chosen.costing.cost, result.ranking.currency)} ({escape(bars_text(chosen.costing.order, system))})" \
             if chosen.costing is not None and chosen.costing.cost is not None else ""
@@ -142,9 +143,11 @@ def sizing_verdict(result: SizingResult, system: str) -> VerdictBlock:
             f"[bold]{escape(chosen.name)}[/] [bold]{PASSES}[/]: {RANKED[by][1]} passing section, "
             f"{units.fmt(chosen.mass_per_length, 'mass_per_length', system)}{cost}, utilization {chosen.utilization:.3f}, governed by "
             f"[bold]{governing.check}[/] at x = {units.fmt(governing.at, 'length', system)} in combination "
-            f"{escape(governing.combination or '')}." + reserve_sentence(chosen.report.reserve), True)
+            f"{escape(governing.combination or '')}." + reserve_sentence(chosen.full_report.reserve), True)
     strongest = result.strongest
-    governing = strongest.report.governing
+    assert strongest is not None  # nothing passes: the least utilized section is kept
+    governing = strongest.full_report.governing
+    assert governing is not None
     over = (strongest.utilization - 1.0) * 100
     return VerdictBlock(
         f"No section passes: even [bold]{escape(strongest.name)}[/] [bold reverse]{FAILS}[/] {governing.check} with utilization "
@@ -165,8 +168,8 @@ def size_renderables(result: SizingResult, notes: list[str], top: int, system: s
                       "", sizing_verdict(result, system), ""]
     chosen = result.chosen
     if chosen is not None:
-        out += [checks_ledger(chosen.report, chosen.design or design_for(member, result.material, chosen), system), ""]
-        amplified = second_order_ledger(chosen.report, system)
+        out += [checks_ledger(chosen.full_report, chosen.design or design_for(member, result.material, chosen), system), ""]
+        amplified = second_order_ledger(chosen.full_report, system)
         out += [amplified, ""] if amplified is not None else []
     return out + [candidates_ledger(result, top, system), "", notes_panel(notes, system=system), cautions_panel()]
 

@@ -89,10 +89,10 @@ class Candidate:
     mass_per_length: float
     density: float
     index: int  # row in the CandidateTable and the Screen
+    costing: Costing  # its cost for the member and whether it is available (sizer.sizing.cost)
     bounds: dict[str, float] = field(default_factory=dict)  # check -> proven lower bound of its utilization
     report: CheckReport | None = None  # full check, where made
     design: Design | None = None  # the solved design of that full check
-    costing: Costing | None = None  # its cost for the member and whether it is available (sizer.sizing.cost)
     rank: tuple = ()  # its sort key (sizer.sizing.cost.Ranking.key)
 
     @cached_property
@@ -100,6 +100,13 @@ class Candidate:
         from sizer.sections import section_properties
 
         return section_properties(self.spec, self.density)
+
+    @property
+    def full_report(self) -> CheckReport:
+        """The report of the full check (only for a candidate that had one: the choice, the strongest)."""
+        if self.report is None:
+            raise ValueError(f"{self.name} was not checked in full")
+        return self.report
 
     @property
     def decided_by(self) -> str:
@@ -189,7 +196,7 @@ def _holding_the_heights(specs: Sequence[Any], member: Member, keep: np.ndarray,
     holds = np.ones(len(specs), bool)
     if not given_heights(member):
         return holds
-    rows = np.flatnonzero(keep)
+    rows: list[int] = np.flatnonzero(keep).tolist()
     table = section_table([specs[i] for i in rows], progress=progress)
     column = {name: table[:, SCALAR_NAMES.index(name)] for name in ("ys", "y_top", "y_bottom", "depth")}
     misfit = None
@@ -197,6 +204,7 @@ def _holding_the_heights(specs: Sequence[Any], member: Member, keep: np.ndarray,
         misfit = heights_outside_faces(member, specs[i].name, *(float(column[name][k]) for name in ("ys", "y_top", "y_bottom", "depth")))
         holds[i] = misfit is None
     if not (holds & keep).any():
+        assert misfit is not None  # a section was kept and tested
         misfit.problem += "; no candidate section holds it"
         raise misfit
     return holds

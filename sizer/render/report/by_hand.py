@@ -48,7 +48,8 @@ def hand_station(design: Design, report: CheckReport, checks: tuple[str, ...] = 
     when there is none)."""
     made = [c for c in report.checks if c.made and c.check in checks and c.at is not None and c.combination]
     if made:
-        chosen = max(made, key=lambda c: c.utilization)
+        chosen = max(made, key=lambda c: c.made_utilization)
+        assert chosen.combination is not None and chosen.at is not None  # chosen from those that name both
         combination, x, check = chosen.combination, float(chosen.at), chosen.check
     else:
         (combination, x), check = governing_cut(design, report), "largest bending moment"
