@@ -138,6 +138,7 @@ def brace_notes(demands: list[BraceDemand]) -> list[str]:
     for d in demands:
         basis = f"M_r = {d.moment / 1e3:.4g} kN·m, P_r = {d.compression / 1e3:.4g} kN, h_o = {d.lever * 1e3:.4g} mm"
         if d.kind == "lateral point":
+            assert d.stiffness is not None  # assessed for a point lateral brace
             lines.append(f"{d.restraint}, sideways: force {d.force / 1e3:.3g} kN, stiffness {d.stiffness / 1e6:.3g} kN/mm "
                          f"({basis}, L_br = {d.braced_length:.4g} m, C_d = {d.cd:g}; combination {d.combination}).")
         elif d.kind == "lateral continuous":

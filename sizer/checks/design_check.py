@@ -13,7 +13,7 @@ from sizer.checks.bracing import brace_demands, brace_notes
 from sizer.checks.buckling import BucklingAxis, buckling_check, column_buckling, given_length_axes
 from sizer.checks.deflection import deflection_check, deflection_limits
 from sizer.checks.field import ArrangedPeak, FieldPeaks, superposed_axial, superposed_bending
-from sizer.checks.lateral import lateral_buckling, lateral_check
+from sizer.checks.lateral import LateralBuckling, lateral_buckling, lateral_check
 from sizer.checks.local import ASSUMPTIONS as LOCAL_ASSUMPTIONS
 from sizer.checks.local import local_check
 from sizer.checks.reduction import PLATEAU_WORDS, TRANSITION_WORDS
@@ -64,7 +64,7 @@ def check_design(design: Design, unit_field: Any, n_even: int = 200, stability: 
         interaction, lateral = _lateral_checks(design, report, stress, xs, columns, fb)
     checks = [
         axial_check(stress, xs, names, design, arranged),
-        bending_check(stress, xs, names, design, arranged and arranged["bending"]),
+        bending_check(stress, xs, names, design, arranged["bending"] if arranged else None),
         interaction,
         shear_check(stress, xs, names, design),
         equivalent_check(stress, xs, names, design),
@@ -126,7 +126,7 @@ def _lateral_checks(design: Design, report: StabilityReport, stress: FieldPeaks,
     """The interaction and lateral-torsional checks, which use each combination's Fb reduced for
     lateral-torsional buckling."""
     names = design.solution.combination_names
-    laterals = lateral_buckling(design, report, fb) if fb is not None else [None] * len(names)
+    laterals: list[LateralBuckling | None] = lateral_buckling(design, report, fb) if fb is not None else [None] * len(names)
     fb_allowed = np.array([fb if entry is None else entry.allowable for entry in laterals]) if fb is not None else np.full(len(names), np.inf)
     return (interaction_check(stress, xs, names, design, compression_allowables(design, columns), fb_allowed),
             lateral_check(laterals, report, design))

@@ -107,7 +107,8 @@ class FieldPeaks:
                 if candidate > best or (candidate == best and row < best_row):
                     best, best_row = candidate, row
             start, batch = start + batch, 2 * batch
-        return float(best), tuple(int(i) for i in np.unravel_index(best_row, self.shape))
+        c, s = np.unravel_index(best_row, self.shape)
+        return float(best), (int(c), int(s))
 
 
 @dataclass(frozen=True)

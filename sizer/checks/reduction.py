@@ -102,4 +102,4 @@ def governing_term(allowable: float, critical: float, yield_strength: float | No
     terms = {"not reduced": allowable, "sigma_cr / SF": critical / safety_factor}
     if yield_strength and float(slenderness(critical, yield_strength)) > plateau:
         terms["Johnson with plateau"] = allowable * float(reduction_factor(critical, yield_strength, plateau))
-    return min(terms, key=terms.get)
+    return min(terms, key=terms.__getitem__)

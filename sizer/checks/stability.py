@@ -58,7 +58,7 @@ class StabilityReport:
     converged: bool = True  # False: some load factor was taken less its last change (see SectionStability)
     warping_elements: float = 0.0  # m: the elements next to the warping holds, where the mesh was graded towards them (else 0)
 
-    def bounded(self, names: Iterable[str]) -> list[int]:
+    def bounded(self, names: Iterable[str | None]) -> list[int]:
         """Indices of the named combinations whose lateral load factor is a bound, not solved."""
         wanted = set(names)
         return [c for c, entry in enumerate(self.combinations) if entry.combination in wanted and entry.lateral_bound]
@@ -177,8 +177,9 @@ def _checked(buckling: Buckling, model: MemberStability, design: Design, combina
     (docs/design.md section 3: every movement a load engages must be held)."""
     if not buckling.free_movement:
         return buckling
-    fields = model.mesh.field_of()
-    sizes = [float(np.abs(buckling.mode[fields == k]).max(initial=0.0)) for k in range(3)]
+    fields, mode = model.mesh.field_of(), buckling.mode
+    assert mode is not None  # a free movement is found in the mode
+    sizes = [float(np.abs(mode[fields == k]).max(initial=0.0)) for k in range(3)]
     moving = int(np.argmax(sizes))
     raise InputError(design.member.source, "supports", f"mechanism: nothing holds the member against {FIELD_WORDS[moving]}, "
                      f"and the loads of combination '{combination}' would drive it", FIELD_FIXES[moving])

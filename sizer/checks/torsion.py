@@ -13,7 +13,7 @@ from sizer.analysis.layout import position_tolerance
 from sizer.analysis.torsion import TwistFree, member_torque_columns, solve_torsion
 from sizer.design import Design
 from sizer.errors import InputError
-from sizer.model import Member
+from sizer.model import Member, PointLoad
 
 WARPING_SIZE_RATIO = 1.0  # a below this x the section's size: uniform torsion (see warping_rigidity)
 SYMMETRIC_SHAPES = frozenset({"rectangle", "round", "rectangular_tube", "round_tube", "i_beam"})  # shear centre at the centroid
@@ -151,7 +151,7 @@ def torsion_note(design: Design) -> str:
     props = design.props
     dy, dz = member_axes_offset(design)
     places = sorted({load.across if isinstance(load.across, str) else f"{load.across * 1e3:+g} mm" for load in design.member.given_loads
-                     if not (hasattr(load, "moment") and not any(load.force))})
+                     if not (isinstance(load, PointLoad) and not any(load.force))})
     if dy or dz:
         offset = f"centroid {1e3 * dz:+.3g} mm along z" + (f", {1e3 * dy:+.3g} mm along y" if dy else "") + " from the shear centre"
     else:

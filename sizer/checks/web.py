@@ -198,7 +198,7 @@ def web_check(design: Design) -> CheckResult:
             if fy is None:
                 fy, fy_text = web_yield_strength(design)
             found = _web_result(design, item, web, force, fy)
-            if best is None or found.utilization > best.utilization:
+            if best is None or found.made_utilization > best.made_utilization:
                 best = found
     for load, support in opposed_pairs(checked, design.member.length):
         for web in webs:
@@ -209,7 +209,7 @@ def web_check(design: Design) -> CheckResult:
             if fy is None:
                 fy, fy_text = web_yield_strength(design)
             found = _pair_result(design, load, support, web, force, fy)
-            if best is None or found.utilization > best.utilization:
+            if best is None or found.made_utilization > best.made_utilization:
                 best = found
     if best is None:
         return CheckResult("web", None, detail="no concentrated force along a web")
