@@ -58,8 +58,10 @@ class CaseSolution:
         xs = as_stations(x, self.length, self._tol)
         return field_displacements(self._field, xs, right_side(side, xs.size))[0]
 
-    def field(self) -> Field | None:
-        """The displacement field of this case (None without stiffness), for combining."""
+    def field(self) -> Field:
+        """The displacement field of this case, for combining (ValueError without stiffness)."""
+        if self._field is None:
+            raise ValueError("displacements need the member's stiffness (a section); this case was solved with unit rigidities")
         return self._field
 
     def on_rigidities(self, stiffness: Stiffness) -> "CaseSolution":

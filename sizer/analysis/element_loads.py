@@ -36,17 +36,17 @@ class Terms:
         """For each shift: (n, ..., 4) sums over the terms in elements[j] of
         coef <s_j - at>^(power + shift) / (power + shift)!. Shift 0: load resultant on [0, s];
         1: its moment about s (for bars: its integral); 2, 3: further integrals from the element start."""
-        shifts = np.asarray(shifts)
-        out = np.zeros((len(shifts), len(s)) + self.coef.shape[1:])
+        steps = np.asarray(shifts)
+        out = np.zeros((len(steps), len(s)) + self.coef.shape[1:])
         count = len(self.element)
-        order = self.power[None, None, :] + shifts[:, None, None]  # (shifts, 1, terms)
-        step = max(1, BLOCK_ENTRIES // max(count * len(shifts), 1))
+        order = self.power[None, None, :] + steps[:, None, None]  # (shifts, 1, terms)
+        step = max(1, BLOCK_ENTRIES // max(count * len(steps), 1))
         for lo in range(0, len(s) if count else 0, step):  # every term at once, a block of stations at a time
             rows = slice(lo, lo + step)
             gap = np.where(elements[rows, None] == self.element[None, :], np.maximum(s[rows, None] - self.at[None, :], 0.0), 0.0)
             powers = np.where((gap > 0) & (order >= 0), gap ** np.maximum(order, 0) / _FACTORIAL[np.maximum(order, 0)], 0.0)
             block = contract(powers.reshape(-1, count), self.coef)
-            out[:, rows] = block.reshape((len(shifts), -1) + self.coef.shape[1:])
+            out[:, rows] = block.reshape((len(steps), -1) + self.coef.shape[1:])
         return list(out)
 
     def weighted(self, factors: np.ndarray) -> "Terms":
@@ -91,7 +91,7 @@ def case_terms(layout: Layout, loads: Sequence[Load]) -> tuple[np.ndarray, Terms
             continue
         q0, q1 = np.array(load.q_start, dtype=float), np.array(load.q_end, dtype=float)
         slope = ((q1 - q0) / (load.end - load.start))[[0, 3, 1, 2]]
-        for e in np.flatnonzero((x[1:] > load.start) & (x[:-1] < load.end)):
+        for e in np.flatnonzero((x[1:] > load.start) & (x[:-1] < load.end)).tolist():
             lo, hi = max(load.start, x[e]), min(load.end, x[e + 1])
             q_lo = (q0 + (q1 - q0) * (lo - load.start) / (load.end - load.start))[[0, 3, 1, 2]]
             q_hi = q_lo + slope * (hi - lo)
@@ -137,8 +137,9 @@ def load_vector(problem: Problem, nodal: np.ndarray, fixed: np.ndarray) -> np.nd
     forces = fixed[:, PROBLEM_ORDER.index(problem.name)]
     vector[problem.translation] += nodal[:, force_col]
     if problem.bending:
-        np.add.at(vector, problem.rot_left, MOMENT_SIGN[problem.name] * nodal[:, moment_col])
-        dofs = element_freedoms(problem.translation, problem.rot_left, problem.rot_right)
+        rot_left, rot_right = problem.rotations
+        np.add.at(vector, rot_left, MOMENT_SIGN[problem.name] * nodal[:, moment_col])
+        dofs = element_freedoms(problem.translation, rot_left, rot_right)
         np.add.at(vector, dofs, -forces)
     else:
         np.add.at(vector, problem.translation[:-1], -forces[:, 0])

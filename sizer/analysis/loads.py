@@ -62,4 +62,5 @@ def self_weight_load(member: Member, intensity: float = 1.0) -> LineLoad:
     axis, sign = member.gravity
     q = [0.0, 0.0, 0.0, 0.0]
     q[axis] = float(sign) * intensity
-    return LineLoad(member.self_weight_case or "", 0.0, member.length, tuple(q), tuple(q))
+    wx, wy, wz, mx = q
+    return LineLoad(member.self_weight_case or "", 0.0, member.length, (wx, wy, wz, mx), (wx, wy, wz, mx))

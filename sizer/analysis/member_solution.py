@@ -5,6 +5,7 @@ is the unit-rigidity one rescaled (displacements scale as 1 / rigidity).
 
 from __future__ import annotations
 
+from types import EllipsisType
 from typing import Sequence
 
 import numpy as np
@@ -73,13 +74,13 @@ class MemberSolution:
         factor on the self-weight case (0 without one); made once (many pattern arrangements)."""
         if self._factor_table is None:
             names, sw_case = list(self.cases), self.member.self_weight_case
-            cases = np.array([[factors.get(name, 0.0) for name in names] for factors in map(self.member.combinations.get, self.combination_names)],
+            cases = np.array([[self.member.combinations[c].get(name, 0.0) for name in names] for c in self.combination_names],
                              dtype=float).reshape(len(self.combination_names), len(names))
             weight = np.array([self.member.combinations[name].get(sw_case, 0.0) if sw_case is not None else 0.0 for name in self.combination_names])
             self._factor_table = (cases, weight)
         return self._factor_table
 
-    def weights(self, mass_per_length: float | None = ...) -> np.ndarray:  # type: ignore[assignment]
+    def weights(self, mass_per_length: float | None | EllipsisType = ...) -> np.ndarray:
         """(n_combinations, n_cases + 1) factors on [each case in self.cases order..., unit self
         weight]; the last column is factor(self_weight_case) * mass_per_length * GRAVITY (N/m per
         unit case), 0 when mass is None. Default mass: self.mass_per_length."""

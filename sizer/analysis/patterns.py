@@ -31,7 +31,7 @@ from typing import Sequence
 
 from sizer.analysis.layout import position_tolerance
 from sizer.errors import InputError
-from sizer.model import LineLoad, Load, Member, Patterning, PointLoad, Pressure
+from sizer.model import CheckSettings, LineLoad, Load, Member, Patterning, PointLoad, Pressure
 
 MAX_ARRANGEMENTS = 4096  # per combination (docs/member-file.md)
 PART_MARK = " @ span "  # "<case> @ span <k>": the part of a patterned case on span k
@@ -100,7 +100,7 @@ def parts_by_span(load: Load, span_list: Sequence[Span], tol: float) -> list[tup
     """(span number from 1, the load's part on that span) for each span the load reaches."""
     if isinstance(load, PointLoad):
         return [(span_of(load.at, span_list, tol) + 1, load)]
-    found = []
+    found: list[tuple[int, Load]] = []
     for number, span in enumerate(span_list, start=1):
         start, end = max(load.start, span.start), min(load.end, span.end)
         if end - start > tol:
@@ -192,7 +192,7 @@ def _refuse_taken_case_names(member: Member, loads: list[Load]) -> None:
                              f"rename that case (names with '{PART_MARK.strip()}' are kept for pattern loading)")
 
 
-def _named_deflection_combinations(member: Member) -> object:
+def _named_deflection_combinations(member: Member) -> CheckSettings:
     """The member's check settings with the single keys' deflection combinations written out as the
     given combinations (each applies to all its arrangements) when the file left them to default."""
     settings = member.checks
@@ -216,7 +216,7 @@ def pattern_notes(member: Member) -> list[str]:
     if patterning is None:
         return []
     numbered = "; ".join(f"{k}: {a:g}–{b:g} m" for k, (a, b) in enumerate(patterning.spans, start=1))
-    counts = {}
+    counts: dict[str, int] = {}
     for name in member.combinations:
         origin = member.origin(name)
         counts[origin] = counts.get(origin, 0) + 1

@@ -47,6 +47,13 @@ class Problem:
     def bending(self) -> bool:
         return self.rot_left is not None
 
+    @property
+    def rotations(self) -> tuple[np.ndarray, np.ndarray]:
+        """(rot_left, rot_right) of a bending problem (ValueError for one without rotations)."""
+        if self.rot_left is None or self.rot_right is None:
+            raise ValueError(f"the {self.name} problem has no rotations")
+        return self.rot_left, self.rot_right
+
 
 # which freedoms of a support belong to which problem, and in which problem component
 _PROBLEM_FREEDOMS = {"axial": ("ux", None), "torsion": ("rx", None), "xy": ("uy", "rz"), "xz": ("uz", "ry")}
@@ -129,9 +136,9 @@ def _rigid_modes(layout: Layout, holds_translation: np.ndarray, holds_rotation: 
 
     for k, (_, hi) in enumerate(parts[:-1]):
         rows.append(translation_row(k, hi) - translation_row(k + 1, hi))
-    for node in np.flatnonzero(holds_translation):
+    for node in np.flatnonzero(holds_translation).tolist():
         rows.append(translation_row(part_at(node), float(layout.nodes[node])))
-    for node in np.flatnonzero(holds_rotation):
+    for node in np.flatnonzero(holds_rotation).tolist():
         row = np.zeros(n)
         row[2 * part_at(node) + 1] = 1.0
         rows.append(row)
@@ -158,6 +165,7 @@ def _modes_on_freedoms(layout: Layout, params: np.ndarray, problem_freedoms: tup
         left = _part_of(layout, node, "left") if bending else 0
         modes[translation[node]] = params[2 * left] + params[2 * left + 1] * (x - centres[left]) / layout.length
         if bending:
+            assert rot_left is not None and rot_right is not None  # a bending problem has rotations
             right = _part_of(layout, node, "right")
             modes[rot_left[node]] = params[2 * left + 1] / layout.length
             modes[rot_right[node]] = params[2 * right + 1] / layout.length

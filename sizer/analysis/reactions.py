@@ -23,7 +23,7 @@ def _element_start_actions(problem: Problem, layout: Layout, u: np.ndarray, fixe
     forces = fixed[:, elements, PROBLEM_ORDER.index(problem.name)]  # (C, len(elements), 4)
     out = np.zeros((u.shape[1], len(elements), 2))
     if problem.bending:
-        dofs = element_freedoms(problem.translation, problem.rot_left, problem.rot_right)[elements]
+        dofs = element_freedoms(problem.translation, *problem.rotations)[elements]
         ke = beam_element_matrices(le, problem.rigidity)
         end_forces = np.einsum("eij,ejc->cei", ke[:, :2, :], u[dofs]) + forces[:, :, :2]
         out[..., 0] = -end_forces[..., 0]
@@ -40,7 +40,7 @@ def _active_supports(problem: Problem, layout: Layout) -> tuple[np.ndarray, np.n
     nodes = layout.support_nodes
     holds = problem.held | (problem.springs > 0)
     translation = holds[problem.translation[nodes]]
-    rotation = holds[problem.rot_left[nodes]] if problem.bending else np.zeros(len(nodes), bool)
+    rotation = holds[problem.rotations[0][nodes]] if problem.bending else np.zeros(len(nodes), bool)
     active = np.flatnonzero(translation | rotation)
     active = active[np.argsort(layout.nodes[nodes[active]], kind="stable")]
     return active, translation[active], rotation[active]

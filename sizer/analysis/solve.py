@@ -97,8 +97,8 @@ def case_field(problems: dict[str, Problem], layout: Layout, displacement: dict[
 
     xy, xz = problems["xy"], problems["xz"]
     return Field(layout.nodes, at("axial", problems["axial"].translation), at("torsion", problems["torsion"].translation),
-                  at("xy", xy.translation), at("xy", xy.rot_left), at("xy", xy.rot_right),
-                  at("xz", xz.translation), at("xz", xz.rot_left), at("xz", xz.rot_right),
+                  at("xy", xy.translation), at("xy", xy.rotations[0]), at("xy", xy.rotations[1]),
+                  at("xz", xz.translation), at("xz", xz.rotations[0]), at("xz", xz.rotations[1]),
                   terms.weighted(np.ones(1)), fixed[:, None], stiffness, layout.tol)
 
 

@@ -116,10 +116,10 @@ def load_sign_change_positions(solution: MemberSolution, combinations: Sequence[
     changes sign inside a stretch between line-load ends: there N, Vy, Vz or T has a local extreme
     (dN/dx = -wx, and so on)."""
     pieces = []
-    for column, case in enumerate(solution.column_solutions()):
+    for index, case in enumerate(solution.column_solutions()):
         if case is not None:
             start, end, q_start, q_end = case.line_items()
-            pieces.append((start, end, q_start, q_end, np.full(start.size, column)))
+            pieces.append((start, end, q_start, q_end, np.full(start.size, index)))
     if not combinations or not pieces:
         return np.empty(0)
     start, end, q_start, q_end, column = (np.concatenate(parts) for parts in zip(*pieces))

@@ -190,9 +190,9 @@ def check_support_stability(member: Member, layout: Layout, stiffness: Stiffness
             continue
         acting = [index for index, load in enumerate(member.loads, start=1) if _acts(load, freedom)]
         if acting:
-            soft = "".join(f"; {text}" for text in _soft_springs(member, (freedom,), stiffness))
+            springs = "".join(f"; {text}" for text in _soft_springs(member, (freedom,), stiffness))
             raise InputError(member.source, "supports", f"mechanism: no support holds {freedom} ({_WORDS[freedom]}) and "
-                             f"loads[{acting[0]}] acts {'along' if freedom == 'ux' else 'about'} x{soft}", _BAR_FIX[freedom])
+                             f"loads[{acting[0]}] acts {'along' if freedom == 'ux' else 'about'} x{springs}", _BAR_FIX[freedom])
 
 
 def free_movement_notes(member: Member) -> list[str]:
