@@ -129,7 +129,7 @@ def admissible_basis(size: int, rows: list[Row]) -> np.ndarray:
     untouched = np.ones(size, bool)
     untouched[touched] = False
     free = np.flatnonzero(untouched)  # (np.setdiff1d would import numpy.ma, 12 ms of every command)
-    entries = [(free, np.arange(len(free)), np.ones(len(free)))]
+    entries: list[tuple[np.ndarray, np.ndarray, np.ndarray]] = [(free, np.arange(len(free)), np.ones(len(free)))]
     count = len(free)
     for group_rows, group_dofs in _linked_groups(rows):
         matrix = np.zeros((len(group_rows), len(group_dofs)))

@@ -12,13 +12,17 @@ that weights them: "top" (y_top - y0), "bottom" (-y_bottom - y0), "centroid" (-y
 
 from __future__ import annotations
 
-from typing import Sequence
+from typing import TYPE_CHECKING, Sequence
 
 import numpy as np
 
 from sizer.model import LineLoad, Member, PointLoad
 from sizer.stability.elements import Quadrature, integral
 from sizer.stability.matrices import as_matrix, assemble
+
+if TYPE_CHECKING:
+    from sizer.stability.section import StabilitySection
+    from sizer.stability.terms import Coefficient
 
 PHI = 2
 HEIGHT_KEYS: tuple[str, ...] = ("top", "bottom", "centroid", "fixed")
@@ -100,7 +104,7 @@ def _add_line(out: "_Sums", quad: Quadrature, factor: float, load: LineLoad, axi
     _add(out, integral(quad, np.maximum(q, 0.0), (PHI, "value"), (PHI, "value")), None, "bottom")
 
 
-def height_coefficients(section: object) -> dict[str, object]:
+def height_coefficients(section: StabilitySection) -> dict[str, Coefficient]:
     """The section scalars that weight the height matrices (m)."""
     return {"top": section.face_height("top"), "bottom": section.face_height("bottom"),
             "centroid": section.face_height("centroid"), "fixed": 1.0}

@@ -27,7 +27,7 @@ from sizer.stability.mesh import ELEMENTS_PER_LENGTH, FIELDS, Mesh, build_mesh, 
 from sizer.stability.section import StabilitySection
 from sizer.stability.matrices import as_matrix, diagonal, largest_entry
 from sizer.stability.solve import Buckling, reduced
-from sizer.stability.terms import axial_coefficients, axial_terms, elastic_coefficients, elastic_terms, moment_coefficients, moment_terms, weighted_sum
+from sizer.stability.terms import Coefficient, axial_coefficients, axial_terms, elastic_coefficients, elastic_terms, moment_coefficients, moment_terms, weighted_sum
 
 N, MY, MZ = 0, 4, 5
 
@@ -148,7 +148,7 @@ class MemberStability:
                 self._columns[key] = terms
         return self._columns[key]
 
-    def geometry(self, kind: str, section: StabilitySection, weights: np.ndarray) -> np.ndarray:
+    def geometry(self, kind: str, section: StabilitySection, weights: np.ndarray) -> np.ndarray | float:
         """B = -G of a load set for a section."""
         return -weighted_sum(self.load_set_terms(kind, weights), term_coefficients(kind, section))
 
@@ -357,7 +357,7 @@ def _columns_and_signs(shape: LoadShape) -> tuple[tuple[int, bool], ...]:
     return tuple((column, positive) for column, positive, _ in shape)
 
 
-def term_coefficients(kind: str, section: StabilitySection) -> dict[str, object]:
+def term_coefficients(kind: str, section: StabilitySection) -> dict[str, Coefficient]:
     """The section scalars (floats or arrays) that weight each term matrix of a kind of solve."""
     if kind == "axial":
         return axial_coefficients(section)

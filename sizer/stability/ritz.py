@@ -23,7 +23,7 @@ import numpy as np
 from sizer.stability.boundary import restraint_rows, warping_rows
 from sizer.stability.problem import MemberStability
 from sizer.stability.section import StabilitySection
-from sizer.stability.terms import elastic_coefficients
+from sizer.stability.terms import Coefficient, elastic_coefficients
 
 def strict_rows(model: MemberStability) -> list[dict[int, float]]:
     """Constraint rows allowed for every section: the supports, every warping hold, and for a
@@ -64,7 +64,7 @@ def project(model: MemberStability, shapes: np.ndarray, terms_loads: dict[str, n
 
 
 def assemble(projection: Projection, sections: StabilitySection, masses: np.ndarray,
-             coefficients: dict[str, object]) -> tuple[np.ndarray, np.ndarray]:
+             coefficients: dict[str, Coefficient]) -> tuple[np.ndarray, np.ndarray]:
     """(S, k, k) stiffness D^T K D and geometry D^T B D of each section (arrays of S values), with
     B = -sum coefficient x (G_loads + mass x G_per_mass)."""
     count = len(np.atleast_1d(masses))

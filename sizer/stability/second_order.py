@@ -32,13 +32,15 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from typing import Any, Sequence, TypeVar
 
 import numpy as np
 
 from sizer.analysis import MemberSolution
 from sizer.analysis.section_axes import to_member_axes, to_section_axes
 from sizer.model import LineLoad, Member, PointLoad
-from sizer.stability.elements import hermite
+from sizer.stability.elements import Quadrature, hermite
+from sizer.stability.mesh import Mesh
 from sizer.stability.problem import MemberStability, term_coefficients
 from sizer.stability.section import StabilitySection
 from sizer.stability.solve import Reduced
@@ -65,12 +67,19 @@ class LoadSetResponse:
     beyond: bool
     load_factor: float | None = None
 
+    @property
+    def increment(self) -> np.ndarray:
+        """u2 - u1: the second-order increment of the fields (ValueError where not solved)."""
+        if self.u1 is None or self.u2 is None:
+            raise ValueError("no second-order solution for this load set")
+        return self.u2 - self.u1
+
     def actions(self, xs: np.ndarray, right: np.ndarray) -> np.ndarray:
         """(S, 6) increments of the actions (second minus first order) in member axes at stations xs
         (m), each on its side; zero when beyond buckling."""
         if self.beyond or self.model is None:
             return np.zeros((len(xs), 6))
-        increment = field_derivatives(self.model, self.u2 - self.u1, xs, right)  # the actions are linear in the fields
+        increment = field_derivatives(self.model, self.increment, xs, right)  # the actions are linear in the fields
         return to_member_axes(section_actions(increment, self.section), self.model.orientation)
 
     def warping(self, xs: np.ndarray, right: np.ndarray) -> np.ndarray:
@@ -78,7 +87,7 @@ class LoadSetResponse:
         Tw = -E Iw phi''' (N*m) at stations xs (m); zero when beyond buckling."""
         if self.beyond or self.model is None:
             return np.zeros((len(xs), 2))
-        phi = field_derivatives(self.model, self.u2 - self.u1, xs, right)[PHI]
+        phi = field_derivatives(self.model, self.increment, xs, right)[PHI]
         return np.column_stack([self.section.EIw * phi[2], -self.section.EIw * phi[3]])
 
     def displacements(self, xs: np.ndarray, right: np.ndarray | None = None) -> np.ndarray:
@@ -86,7 +95,7 @@ class LoadSetResponse:
         if self.beyond or self.model is None:
             return np.zeros((len(xs), 6))
         right = np.ones(len(xs), bool) if right is None else right
-        return member_displacements(field_derivatives(self.model, self.u2 - self.u1, xs, right), self.model.orientation)
+        return member_displacements(field_derivatives(self.model, self.increment, xs, right), self.model.orientation)
 
 
 def load_vectors(model: MemberStability, member: Member, orientation: str) -> np.ndarray:
@@ -126,7 +135,10 @@ def torque_vectors(model: MemberStability, member: Member, centroid: tuple[float
     return out
 
 
-def _section_forces(force: tuple[float, ...], orientation: str) -> tuple[float, float]:
+Force = TypeVar("Force", float, np.ndarray)  # one force component, or its values at many points
+
+
+def _section_forces(force: Sequence[Force], orientation: str) -> tuple[Force, Force]:
     """(along v, along w) of a member-axes force (fx, fy, fz): v = uy, w = uz ("major"); v = uz, w = -uy ("minor")."""
     return (force[1], force[2]) if orientation != "minor" else (force[2], -force[1])
 
@@ -147,13 +159,13 @@ def _add_point_load(out: np.ndarray, model: MemberStability, load: PointLoad, or
     out[mesh.slope_left[node, W]] += on_w
 
 
-def _add_line_load(out: np.ndarray, model: MemberStability, quad: object, load: LineLoad, orientation: str) -> None:
+def _add_line_load(out: np.ndarray, model: MemberStability, quad: Quadrature, load: LineLoad, orientation: str) -> None:
     mesh = model.mesh
     middle = (mesh.nodes[:-1] + mesh.nodes[1:]) / 2
     inside = ((middle > load.start) & (middle < load.end))[:, None]
     t = (quad.x - load.start) / (load.end - load.start)
     q = [(np.asarray(load.q_start[k]) + (load.q_end[k] - load.q_start[k]) * t) * inside for k in range(4)]
-    qv, qw = _section_forces((None, q[1], q[2]), orientation)
+    qv, qw = _section_forces(q[:3], orientation)
     shapes = quad.shapes[0]  # (E, G, 4) values
     for field, intensity in ((V, qv), (W, qw), (PHI, q[3])):
         if not np.any(intensity):
@@ -180,7 +192,7 @@ def geometric_matrix(model: MemberStability, section: StabilitySection, combinat
     return out
 
 
-def dense(matrix: "np.ndarray | object") -> np.ndarray:
+def dense(matrix: Any) -> np.ndarray:  # an ndarray or a scipy sparse matrix (scipy is untyped)
     """A stability matrix as a dense array (long meshes assemble sparse ones: sizer.stability.matrices);
     the second-order solves here are dense, on meshes of a few hundred freedoms."""
     return matrix.toarray() if hasattr(matrix, "toarray") else matrix
@@ -281,18 +293,19 @@ def member_displacements(d: np.ndarray, orientation: str) -> np.ndarray:
 SAME_MODE = 1e-3  # load factors this close (relative) to the lowest count as one repeated mode (a round bar's, a square tube's)
 
 
-def bow_shape(reduced: Reduced, K: np.ndarray, mesh: object, section: StabilitySection, G: np.ndarray, f: np.ndarray,
+def bow_shape(reduced: Reduced, K: np.ndarray, mesh: Mesh, section: StabilitySection, G: np.ndarray, f: np.ndarray,
               bow: float) -> tuple[np.ndarray | None, float]:
     """(u0, lowest load factor): the lowest buckling mode of the load set (K on `reduced`) scaled so
     that its largest movement (v or w, or the twist times the polar radius about the shear centre)
     is `bow` (m) (either side: SecondOrder takes the unfavourable one). Where the lowest mode repeats (equal load factors, as for a round bar), the shape in its
     modes that the loads work on most (the projection of K^-1 f on them, K-orthonormal: the same
     whatever basis of them the eigen-solve returns). u0 None where the load set cannot buckle the member."""
-    found = [mode for mode in reduced.modes(-G, 3) if mode.mode is not None and math.isfinite(mode.load_factor) and mode.load_factor > 0.0]
+    found = [(mode.load_factor, mode.mode) for mode in reduced.modes(-G, 3)
+             if mode.mode is not None and math.isfinite(mode.load_factor) and mode.load_factor > 0.0]
     if not found:
         return None, math.inf
-    lowest = found[0].load_factor
-    repeated = [mode.mode for mode in found if mode.load_factor <= lowest * (1 + SAME_MODE)]
+    lowest = found[0][0]
+    repeated = [shape for factor, shape in found if factor <= lowest * (1 + SAME_MODE)]
     shape = repeated[0]
     if len(repeated) > 1:
         modes = np.column_stack(repeated)
@@ -368,6 +381,7 @@ class SecondOrder:
             return LoadSetResponse(model, self.section, None, None, True, factor)
         u1, u2, b = found
         if b is not None:
+            assert u0 is not None  # b is found only with a bow
             u2 = _unfavourable(model, self.section, u2, b, u0)
         return LoadSetResponse(model, self.section, u1, u2, False, factor)
 

@@ -18,9 +18,16 @@ which is exact for moment that varies along the member.
 
 from __future__ import annotations
 
+from typing import TYPE_CHECKING
+
 import numpy as np
 
 from sizer.stability.elements import Quadrature, integral
+
+if TYPE_CHECKING:
+    from sizer.stability.section import StabilitySection
+
+Coefficient = float | np.ndarray  # a section scalar: one section's, or many sections' at once
 
 V, W, PHI = 0, 1, 2
 ELASTIC_TERMS: tuple[str, ...] = ("EIz", "EIy", "EIyz", "GJ", "EIw")
@@ -62,19 +69,19 @@ def moment_terms(quad: Quadrature, Mz: np.ndarray, My: np.ndarray) -> dict[str, 
     }
 
 
-def elastic_coefficients(section: object) -> dict[str, object]:
+def elastic_coefficients(section: StabilitySection) -> dict[str, Coefficient]:
     return {name: getattr(section, name) for name in ELASTIC_TERMS}
 
 
-def axial_coefficients(section: object) -> dict[str, object]:
+def axial_coefficients(section: StabilitySection) -> dict[str, Coefficient]:
     return {"flexure": 1.0, "z0": section.z0, "y0": -section.y0, "r0": section.polar_radius_squared}
 
 
-def moment_coefficients(section: object) -> dict[str, object]:
+def moment_coefficients(section: StabilitySection) -> dict[str, Coefficient]:
     return {"Mz": 1.0, "My": 1.0, "wagner_Mz": section.wagner_major, "wagner_My": section.wagner_minor}
 
 
-def weighted_sum(terms: dict[str, np.ndarray], coefficients: dict[str, object]) -> np.ndarray | float:
+def weighted_sum(terms: dict[str, np.ndarray], coefficients: dict[str, Coefficient]) -> np.ndarray | float:
     """sum of coefficient x matrix over the terms present in both (0.0 when there are none)."""
     out: np.ndarray | float = 0.0
     for name, matrix in terms.items():
