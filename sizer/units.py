@@ -11,9 +11,14 @@ import math
 import re
 from dataclasses import dataclass
 from functools import lru_cache
-from typing import Any
+from typing import TYPE_CHECKING, Any, TypeVar
 
 from sizer.errors import InputError
+
+if TYPE_CHECKING:
+    import numpy as np
+
+Value = TypeVar("Value", float, "np.ndarray")  # one value, or many at once
 
 GRAVITY = 9.80665  # m/s^2, standard gravity (ISO 80000-3, common practice)
 
@@ -57,7 +62,7 @@ def registry() -> Any:
     """The one pint UnitRegistry of the program (built on first use)."""
     import pint
 
-    ureg = pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
+    ureg: pint.UnitRegistry = pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
     ureg.define("kip = 1000 * lbf")
     ureg.define("ksi = kip / inch ** 2")
     return ureg
@@ -328,7 +333,7 @@ def unit_label(kind: str, system: str = "si") -> str:
     return DISPLAY[system][kind].label
 
 
-def to_display(value_si: float, kind: str, system: str = "si") -> float:
+def to_display(value_si: Value, kind: str, system: str = "si") -> Value:
     """`value_si` converted to the display unit of `kind` in `system`."""
     return value_si / DISPLAY[system][kind].factor
 

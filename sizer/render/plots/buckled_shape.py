@@ -40,7 +40,7 @@ def buckling_pick(report: CheckReport | None) -> BucklingPick | None:
     """The made stability check with the largest utilization that has a buckled shape, or None."""
     if report is None or report.stability is None:
         return None
-    made = sorted((c for c in report.checks if c.made and c.check in STABILITY_CHECKS), key=lambda c: -c.utilization)
+    made = sorted((c for c in report.checks if c.made and c.check in STABILITY_CHECKS), key=lambda c: -c.made_utilization)
     for result in made:
         for entry in report.stability.combinations:
             found = getattr(entry, STABILITY_CHECKS[result.check])

@@ -60,7 +60,7 @@ def build_combinations_figure(design: Design, system: str = "si") -> Any:
         handles, labels = axes[panels[0]].get_legend_handles_labels()
         figure.legend(handles, labels, loc="upper left", bbox_to_anchor=(LEFT / FIG_WIDTH, 1 - 0.08 / height), ncol=columns, fontsize=7.5,
                       frameon=False, title="Every combination (loads factored)", title_fontsize=9, alignment="left")
-    figure.sizer_panels = panels
+    setattr(figure, "sizer_panels", panels)  # our own attribute on matplotlib's Figure
     return figure
 
 

@@ -80,7 +80,7 @@ def build_envelope_figure(design: Design, combinations: list[str], system: str =
         length_axis(axes, member.length, system)
         figure.text(LEFT / FIG_WIDTH, 1 - 0.16 / height, title, fontsize=12, fontweight="bold", va="top")
         figure.text(LEFT / FIG_WIDTH, 1 - 0.42 / height, "\n".join(subtitle), fontsize=8, va="top", linespacing=1.5)
-    figure.sizer_panels = panels
+    setattr(figure, "sizer_panels", panels)  # our own attribute on matplotlib's Figure
     return figure
 
 

@@ -11,7 +11,7 @@ from pathlib import Path
 from typing import Any
 
 from sizer import units
-from sizer.checks import CheckReport
+from sizer.checks import CheckReport, CheckResult
 from sizer.design import Design
 from sizer.files import write_atomic
 from sizer.model import Member
@@ -92,21 +92,22 @@ def build_figure(design: Design, combination: str, report: CheckReport | None = 
         length_axis(axes, member.length, system)
         _title_block(figure, member, subtitle, height)
         _footer(figure, planar, bool(member.restraints))
-    figure.sizer_panels = (["upright"] if upright else []) + list(axes)
+    setattr(figure, "sizer_panels", (["upright"] if upright else []) + list(axes))  # our own attribute on matplotlib's Figure
     return figure
 
 
 def length_axis(axes: dict[str, Any], length: float, system: str) -> None:
     """Ticks along x at round values of the display length unit (the data stay in metres), labelled
     under the bottom panel."""
+    import numpy as np
     from matplotlib.ticker import FixedLocator, FuncFormatter, MaxNLocator
 
     shown_length = units.to_display(length, "length", system)
-    shown = MaxNLocator(nbins=10, steps=[1, 2, 2.5, 5, 10]).tick_values(0.0, shown_length)
+    shown = np.asarray(MaxNLocator(nbins=10, steps=[1, 2, 2.5, 5, 10]).tick_values(0.0, shown_length))
     shown = shown[(shown >= 0) & (shown <= shown_length * (1 + 1e-9))]
     factor = units.DISPLAY[system]["length"].factor
     for ax in axes.values():
-        ax.xaxis.set_major_locator(FixedLocator(shown * factor))
+        ax.xaxis.set_major_locator(FixedLocator((shown * factor).tolist()))
         ax.xaxis.set_major_formatter(FuncFormatter(lambda value, _: f"{value / factor:g}"))
     bottom = list(axes.values())[-1]
     bottom.tick_params(labelbottom=True)
@@ -132,7 +133,7 @@ def panel_axes(figure: Any, panels: list[tuple[str, float]], height: float, titl
     return axes
 
 
-def _governing_for(report: CheckReport | None) -> Any:
+def _governing_for(report: CheckReport | None) -> CheckResult | None:
     if report is None or report.governing is None or report.governing.at is None:
         return None
     return report.governing
@@ -153,6 +154,7 @@ def _subtitle_lines(design: Design, combination: str, report: CheckReport | None
              f"length {units.fmt(member.length, 'length', system)}, drawn to scale along x"]
     governing = _governing_for(report)
     if governing is not None:
+        assert report is not None  # the governing check is the report's
         where = units.fmt(governing.at, "length", system)
         text = (f"Governing check: {governing.check}, utilization {governing.utilization:.3f} at x = {where}"
                 f" in combination '{governing.combination}' ({status_word(report.passes)})")

@@ -61,8 +61,8 @@ def clip_line(load: DrawnLine, x: float) -> DrawnLine | None:
         return None
     end = min(load.end, x)
     t = (end - load.start) / (load.end - load.start)
-    q_end = tuple(a + (b - a) * t for a, b in zip(load.q_start, load.q_end))
-    return DrawnLine(load.start, end, load.q_start, q_end, load.self_weight)
+    wx, wy, wz, mx = (a + (b - a) * t for a, b in zip(load.q_start, load.q_end))
+    return DrawnLine(load.start, end, load.q_start, (wx, wy, wz, mx), load.self_weight)
 
 
 def free_body_items(design: Design, combination: str, x: float, side: str) -> tuple[list[DrawnPoint], list[DrawnLine], list[tuple[Support, np.ndarray]]]:

@@ -10,9 +10,12 @@ from __future__ import annotations
 
 import io
 from pathlib import Path
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from sizer.errors import InputError
+
+if TYPE_CHECKING:
+    from matplotlib.typing import RcKeyType
 
 PLOT_FORMATS: dict[str, str] = {".png": "png", ".svg": "svg"}
 DPI = 150  # dots per inch of PNG output
@@ -50,7 +53,7 @@ SELF_WEIGHT_FILL = "#eeeeee"
 GUIDE = "#9a9a9a"
 
 
-def style() -> dict[str, Any]:
+def style() -> dict[RcKeyType, Any]:
     """matplotlib settings for every sizer figure."""
     return {
         "font.size": 8.0,
