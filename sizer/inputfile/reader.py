@@ -8,7 +8,7 @@ import math
 import re
 import tomllib
 from pathlib import Path
-from typing import Any
+from typing import Any, overload
 
 from sizer import units
 from sizer.errors import InputError
@@ -155,6 +155,10 @@ def refuse_control_characters(data: Any, path: Path, text: str, key: str = "") -
             refuse_control_characters(value, path, text, inner)
 
 
+@overload
+def read_height(reader: Reader, table: dict, prefix: str, default: str) -> str | float: ...
+@overload
+def read_height(reader: Reader, table: dict, prefix: str, default: None) -> str | float | None: ...
 def read_height(reader: Reader, table: dict, prefix: str, default: str | None) -> str | float | None:
     """`height`: "top", "centre", "bottom", or a length from the shear centre along the depth (m,
     positive towards the top); `default` when absent."""

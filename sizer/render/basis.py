@@ -89,6 +89,7 @@ def buckling_basis(result: CheckResult, design: Design, system: str) -> str:
     mode = in_display_units(str(result.extra.get("mode", "")), system)
     factor = critical / result.demand if result.demand else math.inf
     area, sf = design.props.area, design.member.checks.buckling_safety_factor
+    assert result.allowable is not None  # a made buckling check has its allowable load
     stress = result.allowable * sf / area
     formula = "Euler" if math.isclose(stress, critical / area, rel_tol=1e-9) else "Johnson parabola"
     return (f"{mode}: load factor {factor:.3g}, P_cr = {units.fmt(critical, 'force', system)}; "

@@ -88,8 +88,8 @@ def second_order_json(report: CheckReport) -> dict[str, Any] | None:
     return {"elements_per_length": found.elements, "bow": found.bow, "combinations": rows}
 
 
-def reactions_json(design: Design) -> dict[str, list[dict[str, float]]]:
-    out = {}
+def reactions_json(design: Design) -> dict[str, list[dict[str, float | str]]]:
+    out: dict[str, list[dict[str, float | str]]] = {}
     for name in design.solution.combination_names:
         reactions = reactions_without_round_off(design.solution.reactions(name), design.member.length)
         out[name] = [{"at": s.at, "type": s.label, **{k: float(v) for k, v in zip(REACTION_NAMES, reactions[i])}}
@@ -152,7 +152,7 @@ def checks_ledger(report: CheckReport, design: Design, system: str) -> Ledger:
         where = combination_text(result)
         note = "; ".join(part for part in (("governs" if is_governing else ""), basis, escape(where)) if part)
         ledger.add_row(result.check, _value_text(result, result.demand, system), _value_text(result, result.allowable, system),
-                       utilization_cell(result.utilization), units.fmt(result.at, "length", system) if result.at is not None else "—",
+                       utilization_cell(result.made_utilization), units.fmt(result.at, "length", system) if result.at is not None else "—",
                        status, note=note, style="bold" if is_governing else "")
     return ledger
 

@@ -95,12 +95,11 @@ def area_load_notes(member: Member) -> list[str]:
     """Each area load as the line load it makes: pressure x tributary width (SI numbers)."""
     from sizer.model import LineLoad
 
-    found = [load for load in member.given_loads if isinstance(load, LineLoad) and load.area is not None]
+    found = [(load, load.area) for load in member.given_loads if isinstance(load, LineLoad) and load.area is not None]
     if not found:
         return []
     parts = []
-    for load in found:
-        area = load.area
+    for load, area in found:
         for name, p0, p1, q0, q1 in zip(("p" + c for c in "xyz"), area.p_start, area.p_end, load.q_start, load.q_end):
             if p0 or p1:
                 pressure = f"{p0 / 1e3:.6g} kPa" if p0 == p1 else f"{p0 / 1e3:.6g}–{p1 / 1e3:.6g} kPa"
@@ -150,17 +149,15 @@ def reactions_without_round_off(reactions: Any, length: float) -> Any:
 
 def to_jsonable(value: Any) -> Any:
     """Convert numpy scalars/arrays and tuples to plain JSON types; NaN/inf become null, -0.0 becomes 0.0."""
-    try:
-        import numpy as np
-    except ImportError:  # pragma: no cover - numpy is a dependency
-        np = None
+    import numpy as np
+
     if isinstance(value, dict):
         return {str(key): to_jsonable(item) for key, item in value.items()}
     if isinstance(value, (list, tuple)):
         return [to_jsonable(item) for item in value]
-    if np is not None and isinstance(value, np.ndarray):
+    if isinstance(value, np.ndarray):
         return to_jsonable(value.tolist())
-    if np is not None and isinstance(value, np.generic):
+    if isinstance(value, np.generic):
         value = value.item()
     if isinstance(value, float):
         return value + 0.0 if math.isfinite(value) else None  # + 0.0: never "-0.0"

@@ -252,6 +252,7 @@ def cuts_table(cuts: list[Cut], planar: bool, system: str, length: float = np.in
     columns += [Column(_header(name, ACTION_KINDS[name], system), right=True) for name in names]
     ledger = Ledger("Internal actions at cuts (+x face of the left segment)", columns)
     for cut in cuts:
+        sides: tuple[tuple[str, np.ndarray], ...]
         if cut.jump and cut.at < length * (1 - 1e-12) and cut.at > 0:
             sides = (("x-", cut.left), ("x+", cut.right))
         else:

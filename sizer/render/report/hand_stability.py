@@ -44,6 +44,7 @@ def column_items(design: Design, report: CheckReport, system: str) -> list[str]:
     E, Fy = material.elastic_modulus, material.yield_strength
     given = {"major": design.member.checks.buckling_length_major, "minor": design.member.checks.buckling_length_minor}
     lines = []
+    assert buckling.combination is not None  # a made buckling check names its combination
     for axis in axis_lengths(design, report.stability, buckling.combination):
         name = "Iz (major)" if axis.axis == "major" else "Iy (minor)"
         radius = math.sqrt(axis.inertia / props.area)
@@ -54,10 +55,10 @@ def column_items(design: Design, report: CheckReport, system: str) -> list[str]:
         head = (f"{axis.axis} axis: the member's own flexural eigen-solve about it gives P_cr = {units.fmt(axis.critical_load, 'force', s)}, "
                 f"so KL = π √(E I / P_cr) = π √({units.fmt(E, 'modulus', s)} x {units.fmt(axis.inertia, 'inertia', s)} [{name}] / "
                 f"{units.fmt(axis.critical_load, 'force', s)}) = {units.fmt(axis.length, 'length', s)}, K = KL / L = {k:.2f}{textbook_words(k)}")
-        length = axis.length
-        if given[axis.axis] is not None:
-            length = min(length, given[axis.axis])
-            head += f"; the given buckling length {units.fmt(given[axis.axis], 'length', s)} is used where shorter"
+        length, given_length = axis.length, given[axis.axis]
+        if given_length is not None:
+            length = min(length, given_length)
+            head += f"; the given buckling length {units.fmt(given_length, 'length', s)} is used where shorter"
         slender = length / radius
         euler = math.pi**2 * E * props.area / slender**2
         text = (f"{head}. KL/r = {units.fmt(length, 'dimension', s)} / {units.fmt(radius, 'dimension', s)} = {slender:.1f}; "
@@ -87,6 +88,7 @@ def lateral_items(design: Design, report: CheckReport, system: str) -> list[str]
         return []
     s, props = system, design.props
     eigen = float(result.extra["load_factor"])
+    assert result.combination is not None  # a made lateral-torsional check names its combination
     found = closed_forms(design, result.combination)
     lines = []
     for item in found:

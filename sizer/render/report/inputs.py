@@ -135,6 +135,7 @@ def _components(load: PointLoad | LineLoad, system: str) -> str:
 def _area_values(load: LineLoad, system: str) -> str:
     """"py = -2.5 kPa x 1.2 m = -3 kN/m" for each pressure of an area load (→ where it varies)."""
     area, texts = load.area, []
+    assert area is not None  # shown for area loads only
     for i, name in enumerate(("px", "py", "pz")):
         p0, p1, q0, q1 = area.p_start[i], area.p_end[i], load.q_start[i], load.q_end[i]
         if p0 or p1:
@@ -159,6 +160,7 @@ def _loads_table(design: Design, system: str) -> str:
     member = design.member
     if member.self_weight_case:
         axis, sign = member.gravity
+        assert design.mass_per_length is not None  # the report is of a design with a section
         rows.append(_row(["<td>SW</td>", f"<td>{_e(member.self_weight_case)}</td>", "<td>line</td>",
                           f"<td>{_fmt(0.0, 'length', system)} to {_fmt(member.length, 'length', system)}</td>",
                           f"<td>self-weight {_fmt(design.mass_per_length * units.GRAVITY, 'force_per_length', system)} "

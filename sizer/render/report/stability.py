@@ -64,7 +64,7 @@ def holds_list(design: Design, system: str) -> str:
         items.append(f"restraint {where}: holds {holds}{height}")
     if not design.member.restraints:
         items.append("no restraints given: held against buckling at the supports only")
-    heights = sorted({height_text(load.height, system) for load in design.member.loads if getattr(load, "height", None) is not None})
+    heights = sorted({height_text(load.height, system) for load in design.member.loads if load.height is not None})
     items.append("load heights: each transverse load on the face it pushes on (top for a downward load)"
                  + (f", except where given ({', '.join(heights)})" if heights else "")
                  + ("; self-weight at the centroid" if design.member.self_weight_case else ""))
@@ -150,11 +150,12 @@ def _buckling_line(design: Design, result: CheckResult, system: str) -> str:
             f"against the peak compression {_fmt(result.demand, 'force', system)}.")
 
 
-def _reduced(allowable: float, sigma_cr: float, fy: float | None, sf: float, system: str, name: str, plateau: float) -> str:
+def _reduced(allowable: float | None, sigma_cr: float, fy: float | None, sf: float, system: str, name: str, plateau: float) -> str:
     """F_red = min(F, F rho, sigma_cr / SF) written out with its terms; rho = 1 within the plateau
     lambda <= lambda_0, then the Johnson curve (sizer.checks.reduction)."""
     terms = [_fmt(allowable, "stress", system)]
     if fy:
+        assert allowable is not None  # reduced only where it is given
         lam = float(slenderness(sigma_cr, fy))
         rho = float(reduction_factor(sigma_cr, fy, plateau))
         where = ("within the plateau, no reduction" if lam <= plateau else
