@@ -12,7 +12,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import Any, Callable, Iterator, Sequence
+from typing import Any, Callable, Iterator, Sequence, overload
 
 from sizer.model import Member
 from sizer.render.common import CAUTIONS
@@ -44,6 +44,10 @@ def as_member(member: MemberLike) -> Member:
     return expand_patterns(member if isinstance(member, Member) else read_member(member))
 
 
+@overload
+def _length_limit(value: float | str, key: str) -> float: ...
+@overload
+def _length_limit(value: float | str | None, key: str) -> float | None: ...
 def _length_limit(value: float | str | None, key: str) -> float | None:
     """A length limit in m: a float as is, a string with its unit parsed, None for no limit."""
     if value is None or isinstance(value, (int, float)):
@@ -153,6 +157,7 @@ def _second_order_forces(design: Any) -> tuple[Any, list[str]]:
     solved = replace(design, member=replace(member, checks=replace(member.checks, second_order=True)))
     xs, sides = check_stations(solved)
     found = second_order_actions(solved, xs, sides, member_actions(solved, xs, sides))
+    assert found is not None  # second order is turned on above
     notes = second_order_notes(solved, found) + ["Second order: the reactions shown are first order."]
     beyond = [name for name, _ in found.beyond]
     if beyond:
@@ -337,12 +342,13 @@ def size(member: MemberLike, catalogue: Sequence[str | Path] = (), families: Seq
     chosen = result.chosen
     if chosen is not None and reserve:
         add_reserve(chosen.design, chosen.report)
-        notes += chosen.report.notes
+        notes += chosen.full_report.notes
     summaries = [CandidateSummary(**{key: entry[key] for key in ("section", "mass_per_length", "utilization", "passes", "governing", "basis", "cost")})
                  for entry in map(candidate_entry, shown_candidates(result, top))]
     chosen_check = None
     if chosen is not None:
         chosen_design = chosen.design  # solved for its full check
+        assert chosen_design is not None
         notes += small_deflection_cautions(chosen_design.solution)
         chosen_check = check_outcome(chosen_design, chosen.report, notes, units)
     return SizeOutcome(chosen.name if chosen else None, chosen is not None, chosen.mass_per_length if chosen else None,

@@ -383,7 +383,8 @@ class _Here:
     keeps = False
 
     def __init__(self, work: Work) -> None:
-        self.work, self.done = work, []
+        self.work = work
+        self.done: list[tuple[int, dict]] = []
         self.submitted = 0
 
     def start(self, index: int, job: Job) -> None:
@@ -418,7 +419,7 @@ class _Futures:
         return len(self.started)
 
     def ready(self) -> list[tuple[int, dict]]:
-        done = []
+        done: list[tuple[int, dict]] = []
         while self.front < len(self.started) and self.started[self.front][0].done():
             future, indices = self.started[self.front]
             done.extend(zip(indices, self.results(future)))

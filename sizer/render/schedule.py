@@ -11,12 +11,15 @@ import csv
 import io
 import math
 import re
-from typing import Any, Sequence
+from typing import TYPE_CHECKING, Any, Sequence
 
 from sizer import units
 from sizer.printable import printable
 from sizer.render.common import CAUTIONS, cautions_panel, notes_panel
 from sizer.render.si_text import in_display_units
+
+if TYPE_CHECKING:
+    from rich.console import JustifyMethod
 
 UNITS_NOTE = "SI base units (m, N, N*m, Pa, kg/m, kg)"
 SCHEDULE_CSV_COLUMNS = (("mark", "mark"), ("file", "file"), ("do", "do"), ("section", "section"), ("passes", "passes"),
@@ -82,7 +85,7 @@ class _TextOnlyWriter:
     def __init__(self, out: io.StringIO) -> None:
         self.writer = csv.writer(out, lineterminator="\n")
 
-    def writerow(self, cells: list[Any]) -> None:
+    def writerow(self, cells: Sequence[Any]) -> None:
         self.writer.writerow([printable(cell) if isinstance(cell, str) else cell for cell in cells])
 
 
@@ -170,8 +173,8 @@ def _totals_table(totals: dict, system: str) -> Any:
 
     table = Table(title="Totals by section (for ordering)", title_justify="left", header_style="bold", box=box.SIMPLE_HEAD, pad_edge=False)
     ordering = orders_to_show(totals)
-    for name, justify in (("section", "left"), ("pieces", "right"), ("total length", "right"), ("mass", "right")) + (
-            (("cost", "right"), ("bars to order", "left")) if ordering else ()):
+    columns: tuple[tuple[str, JustifyMethod], ...] = (("section", "left"), ("pieces", "right"), ("total length", "right"), ("mass", "right"))
+    for name, justify in columns + ((("cost", "right"), ("bars to order", "left")) if ordering else ()):
         table.add_column(name, justify=justify, no_wrap=name != "bars to order")
     currency = totals.get("currency")
     for entry in totals["by_section"]:
@@ -299,7 +302,11 @@ def _cell_text(row: dict, mode: str, resolution: float | None, system: str) -> s
     value = row["longest_span"] if mode == "span" else row["largest_load"]
     if value is None:
         return "none"
-    text = _span_text(value, resolution, system) if mode == "span" else _load_text(value, row["kind"], system)
+    if mode == "span":
+        assert resolution is not None  # a span table has its resolution
+        text = _span_text(value, resolution, system)
+    else:
+        text = _load_text(value, row["kind"], system)
     if row["beyond_limit"]:
         return "≥ " + text
     return f"{text} {CHECK_SHORT.get(row['governing'], row['governing'] or '')}"
@@ -374,7 +381,7 @@ MARKS = "osD^vP"
 
 def family_of(name: str) -> str:
     """A section's family for the plot: its name up to the first digit ("IPE 200" -> "IPE", "HE 100 A" -> "HE")."""
-    head = re.match(r"[^\d]*", name).group(0).strip()
+    head = re.split(r"\d", name, maxsplit=1)[0].strip()
     return head or name
 
 

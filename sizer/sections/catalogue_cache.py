@@ -28,6 +28,7 @@ import pickle
 import sys
 from functools import lru_cache
 from pathlib import Path
+from typing import TypeGuard
 
 from sizer.digests import digest_matches, keyed_digest
 from sizer.files import cache_root, write_atomic
@@ -134,7 +135,7 @@ def write_parsed(path: Path, digest: str | None, parsed: ParsedFile) -> None:
         pass
 
 
-def _well_typed(parsed: object) -> bool:
+def _well_typed(parsed: object) -> TypeGuard[ParsedFile]:
     """True when `parsed` is a ParsedFile whose parts have the types it declares."""
     return (type(parsed) is ParsedFile and type(parsed.foreign) is bool
             and type(parsed.sections) is list and all(type(spec) is SectionSpec for spec in parsed.sections)

@@ -209,7 +209,8 @@ def import_stock_list(csv_path: Path, shape: str, into: Path | None) -> ImportRe
         raise InputError(file, "", "the file is empty", "give a header row and one row per section", 1)
     columns = _columns(rows[0], shape, file)
     existing = folder_catalogue(into)[0] if into is not None else {}
-    result, seen = ImportResult(), {}
+    result = ImportResult()
+    seen: dict[str, int] = {}
     for line, row in enumerate(rows[1:], start=2):
         if not any(cell.strip() for cell in row):
             continue

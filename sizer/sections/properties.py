@@ -216,7 +216,9 @@ def warping_row(spec: SectionSpec) -> list[float]:
     computed now, in this process, and stored with the stress fields)."""
     if not has_warping(spec):
         _compute_and_store(spec)
-    return _plain(_WARPING, spec.geometry_key())
+    row = _plain(_WARPING, spec.geometry_key())
+    assert row is not None  # in memory now
+    return row
 
 
 def has_warping(spec: SectionSpec) -> bool:
@@ -247,7 +249,7 @@ def unit_stress_field(spec: SectionSpec) -> UnitStressField:
     key = cache.entry_key(spec)
     entry = cache.read_entry(key, WARPING_NAMES)
     arrays = cache.read_arrays(key, entry) if entry is not None else None
-    if arrays is None:
+    if entry is None or arrays is None:
         _compute_and_store(spec)
         return _FIELDS[geometry]
     _remember(_WARPING, geometry, entry["scalars"], WARPING_NAMES)

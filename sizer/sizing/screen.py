@@ -19,7 +19,7 @@ import numpy as np
 
 from sizer.analysis import MemberSolution, stations
 from sizer.analysis.section_axes import to_section_axes
-from sizer.analysis.patterns import arrangements_of
+from sizer.analysis.patterns import Span, arrangements_of
 from sizer.checks import StationStresses, full_field_stresses, span_points
 from sizer.checks.deflection import limit_entries, limited_spans, measured
 from sizer.checks.buckling import given_euler_loads
@@ -266,8 +266,10 @@ def _limited_deflections(entry: DeflectionLimit, base: MemberSolution, n: int, c
     each = base.case_displacements(np.concatenate([span_points(span, n) for span, _ in pairs]))[..., 1:3]  # (cases + 1, points, 2): uy, uz
     moved = np.tensordot(factors[rows], each, axes=1)  # superposition: one evaluation per case, however many arrangements
     zero, unit = (np.split(part, len(pairs), axis=1) for part in np.split(moved, 2))  # uy, uz per span
-    return [tuple(measured(part, span, entry.relative_to_supports).reshape(-1, 2) * (limit / span.length) for part in (loads, per_mass))
-            for (span, limit), loads, per_mass in zip(pairs, zero, unit)]
+    def scaled(part: np.ndarray, span: Span, limit: float) -> np.ndarray:
+        return measured(part, span, entry.relative_to_supports).reshape(-1, 2) * (limit / span.length)
+
+    return [(scaled(loads, span, limit), scaled(per_mass, span, limit)) for (span, limit), loads, per_mass in zip(pairs, zero, unit)]
 
 
 def prove_lower_bounds(candidate: Candidate, found: Screen, material: Material, member: Member) -> None:

@@ -117,17 +117,19 @@ class Search:
         """Whether a proven lower bound rules the candidate out, tried in turn while none does: the
         exact parts of the screen, the stability bounds, the stress field at the screen's worst
         stations, local buckling at the screen's stations."""
+        found = self.found
+        assert found is not None  # called only where the screen is made (no springs)
         if candidate.certainly_fails:
             return True
         if self.stability is not None and self.bounded.get(candidate.index, -1) < self.stability.epoch:
             self.stability_bounds(self.ahead(candidate))
             if candidate.certainly_fails:
                 return True
-        prove_lower_bounds(candidate, self.found, self.material, self.member)
+        prove_lower_bounds(candidate, found, self.material, self.member)
         if candidate.certainly_fails:
             return True
         if "local" not in candidate.bounds:
-            local = local_lower_bound(self.found, candidate.index, self.member, self.material)
+            local = local_lower_bound(found, candidate.index, self.member, self.material)
             if local is not None:
                 candidate.raise_bound("local", local)
         return candidate.certainly_fails
@@ -166,7 +168,7 @@ class Search:
         """Walk up by mass: skip sections a lower bound rules out, check the rest until one passes."""
         return next((candidate for candidate in self.candidates if self.passes_in_full(candidate)), None)
 
-    def least_utilized(self) -> Candidate:
+    def least_utilized(self) -> Candidate | None:
         """When nothing passes: the candidate with the smallest full-check utilization. Sections are
         checked in order of their lower bound until no lower bound can beat the best found."""
         best: Candidate | None = None
