@@ -174,7 +174,7 @@ def flow_help(typer_app: typer.Typer) -> None:
 
     for info in typer_app.registered_commands:
         if info.help is None and info.callback is not None and info.callback.__doc__:
-            info.help = " ".join(inspect.getdoc(info.callback).split())
+            info.help = " ".join((inspect.getdoc(info.callback) or "").split())
     for group in typer_app.registered_groups:
         if group.typer_instance is not None:
             flow_help(group.typer_instance)
@@ -220,10 +220,13 @@ def run_app(args: list[str] | None = None) -> int:
 def _click_module() -> Any:
     """The click that typer runs on: its own copy (typer >= 0.26) or the click package."""
     try:
-        from typer import _click as module
+        from typer import _click
+
+        return _click
     except ImportError:  # pragma: no cover - older typer
-        import click as module
-    return module
+        import click
+
+        return click
 
 
 def fewer_collections() -> None:

@@ -170,7 +170,7 @@ def run_span_table_command(file: Path, catalogue: list[Path], families: list[str
     spec = read_span_table(file)
     result = run_span_table(spec, catalogue, families, jobs, cluster)
     document = span_table_document(spec.title, spec.mode, result.sections, result.notes, spec.resolution)
-    outputs = [(csv_out, span_table_csv(document))] if csv_out is not None else []
+    outputs: list[tuple[Path, bytes | str]] = [(csv_out, span_table_csv(document))] if csv_out is not None else []
     if plot is not None:
         outputs.append((plot, span_plot_bytes(document, check_plot_path(plot), system)))
     write_all(outputs)

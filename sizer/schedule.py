@@ -18,7 +18,7 @@ import csv
 import io
 from dataclasses import dataclass, field, replace
 from pathlib import Path
-from typing import Any, Iterator, Sequence
+from typing import Any, Iterator, Literal, Sequence, overload
 
 from sizer.errors import InputError
 from sizer.files import read_text
@@ -176,6 +176,10 @@ def _row(path: Path, where: str, line: int | None, entry: dict) -> ScheduleRow:
     def error(key: str, problem: str, fix: str) -> InputError:
         return InputError(str(path), f"{where}.{key}", problem, fix, line)
 
+    @overload
+    def text(key: str, required: Literal[True]) -> str: ...
+    @overload
+    def text(key: str, required: bool = False) -> str | None: ...
     def text(key: str, required: bool = False) -> str | None:
         value = entry.get(key)
         if value is None and not required:
@@ -303,15 +307,15 @@ def work_row(task: RowTask) -> dict:
         if task.do == "size":
             outcome = api.size(task.member, paths, top=0)  # the row shows the choice only: no runners-up checked in full
             checked = outcome.chosen
-            found = {"section": outcome.section, "passes": outcome.passes, "utilization": outcome.utilization,
+            found: dict[str, Any] = {"section": outcome.section, "passes": outcome.passes, "utilization": outcome.utilization,
                      "governing": outcome.governing, "mass_per_length": outcome.mass_per_length, "reserve_factor": outcome.reserve_factor}
             notes = outcome.notes
         else:
-            checked = outcome = api.check(task.member, task.section, paths)
-            found = {"section": outcome.section, "passes": outcome.passes, "utilization": outcome.utilization,
-                     "governing": outcome.governing, "mass_per_length": outcome.design.mass_per_length,
-                     "reserve_factor": outcome.reserve_factor}
-            notes = outcome.notes
+            checked = api.check(task.member, task.section, paths)
+            found = {"section": checked.section, "passes": checked.passes, "utilization": checked.utilization,
+                     "governing": checked.governing, "mass_per_length": checked.design.mass_per_length,
+                     "reserve_factor": checked.reserve_factor}
+            notes = checked.notes
         found["purchase"] = _purchase(task.member, paths, found["section"])
         record = _record_html(checked) if task.record and checked is not None else None
     except InputError as error:

@@ -41,6 +41,11 @@ class Boundary:
     def trial(self, index: int | None) -> Trial | None:
         return self.trials.get(index) if index is not None else None
 
+    def governing_of(self, index: int | None) -> str | None:
+        """The governing check of the trial at `index` (None without one)."""
+        trial = self.trial(index)
+        return trial.governing if trial is not None else None
+
 
 Guess = Callable[[list[tuple[int, Trial]]], float | None]
 
@@ -165,9 +170,8 @@ def longest_span(spec: SpanTableSpec, section: str, load: AppliedLoad, catalogue
     highest = math.floor(spec.max_span / spec.resolution + 1e-9)
     found = largest_passing(lambda k: run_trial(spec, section, k * spec.resolution, load, catalogue),
                             round(min(FIRST_SPAN, spec.max_span) / spec.resolution), 1, highest, span_guess(spec.resolution))
-    limit = found.trial(found.failing) or found.trial(found.passing)
     return {"load": load.value, "kind": load.kind, "longest_span": found.passing * spec.resolution if found.passing is not None else None,
-            "governing": limit.governing if found.failing is not None else None,
+            "governing": found.governing_of(found.failing),
             "beyond_limit": found.failing is None, "checks_made": len(found.trials)}
 
 
@@ -180,9 +184,9 @@ def largest_load(spec: SpanTableSpec, section: str, span: float, catalogue: Sequ
     found = largest_passing(lambda k: run_trial(spec, section, span, spec.load.scaled(LOAD_STEP ** k), catalogue),
                             0, -LOAD_GRID, LOAD_GRID, load_guess(base))
     if found.passing is None:
-        return {**row, "governing": found.trial(found.failing).governing, "checks_made": 1 + len(found.trials)}
+        return {**row, "governing": found.governing_of(found.failing), "checks_made": 1 + len(found.trials)}
     return {**row, "largest_load": spec.load.value * LOAD_STEP ** found.passing,
-            "governing": found.trial(found.failing).governing if found.failing is not None else None,
+            "governing": found.governing_of(found.failing),
             "beyond_limit": found.failing is None, "checks_made": 1 + len(found.trials)}
 
 
