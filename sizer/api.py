@@ -12,10 +12,15 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import Any, Callable, Iterator, Sequence, overload
+from typing import TYPE_CHECKING, Any, Callable, Sequence, overload
 
 from sizer.model import Member
 from sizer.render.common import CAUTIONS
+
+if TYPE_CHECKING:
+    from rich.console import Console, ConsoleOptions, RenderResult
+    from sizer.checks import CheckReport
+    from sizer.design import Design
 
 MemberLike = Member | str | Path
 Progress = Callable[[int, int, str], None]
@@ -67,7 +72,7 @@ class ForcesOutcome:
     member: Member
     combinations: tuple[str, ...]
     notes: list[str]
-    design: Any = field(repr=False)
+    design: Design = field(repr=False)
     cautions: tuple[str, ...] = CAUTIONS
     units: str = "si"
 
@@ -111,7 +116,7 @@ class ForcesOutcome:
 
         return action_envelope(self.design.solution, list(self.combinations))
 
-    def __rich_console__(self, console: Any, options: Any) -> Iterator[Any]:
+    def __rich_console__(self, console: Console, options: ConsoleOptions) -> RenderResult:
         from sizer.render.forces import forces_renderables
 
         yield from forces_renderables(self.design.solution, list(self.combinations), None, self.notes, self.units,
@@ -142,7 +147,7 @@ def forces(member: MemberLike, section: str | None = None, catalogue: Sequence[s
     return ForcesOutcome(member, names, notes, design, units=units)
 
 
-def _second_order_forces(design: Any) -> tuple[Any, list[str]]:
+def _second_order_forces(design: Design) -> tuple[Design, list[str]]:
     """The design with second-order actions and displacements for `sizer forces --second-order`, and its notes."""
     from dataclasses import replace
 
@@ -194,8 +199,8 @@ class CheckOutcome:
     governing: str | None
     checks: list[Any]  # sizer.checks.CheckResult
     notes: list[str]
-    design: Any = field(repr=False)
-    report: Any = field(repr=False)
+    design: Design = field(repr=False)
+    report: CheckReport = field(repr=False)
     cautions: tuple[str, ...] = CAUTIONS
     units: str = "si"
     reserve_factor: float | None = None  # the largest factor on the governing combination's loads that still passes
@@ -206,7 +211,7 @@ class CheckOutcome:
 
         return check_json(self.design, self.report, self.notes)
 
-    def __rich_console__(self, console: Any, options: Any) -> Iterator[Any]:
+    def __rich_console__(self, console: Console, options: ConsoleOptions) -> RenderResult:
         from sizer.render.check import check_renderables
 
         yield from check_renderables(self.design, self.report, self.notes, self.units)
@@ -217,7 +222,7 @@ class CheckOutcome:
         return check_summary_html(self.design, self.report, self.notes, self.units)
 
 
-def check_outcome(design: Any, report: Any, notes: list[str], units: str = "si") -> CheckOutcome:
+def check_outcome(design: Design, report: CheckReport, notes: list[str], units: str = "si") -> CheckOutcome:
     """A CheckOutcome of a checked design (sizer.design.Design and sizer.checks.CheckReport); its
     design shows the actions the checks used (second order where they were)."""
     from sizer.checks.second_order import displayed_design
@@ -247,7 +252,7 @@ def check(member: MemberLike, section: str | None = None, catalogue: Sequence[st
     return check_outcome(design, report, notes, units)
 
 
-def add_reserve(design: Any, report: Any) -> None:
+def add_reserve(design: Design, report: CheckReport) -> None:
     """Find the reserve factor of a checked design (sizer.checks.reserve) and keep it, and its note,
     in the report."""
     from sizer.checks.reserve import reserve_factor
@@ -302,7 +307,7 @@ class SizeOutcome:
 
         return size_json(self.result, self.notes)
 
-    def __rich_console__(self, console: Any, options: Any) -> Iterator[Any]:
+    def __rich_console__(self, console: Console, options: ConsoleOptions) -> RenderResult:
         from sizer.render.size import size_renderables
 
         yield from size_renderables(self.result, self.notes, self.top, self.units)
@@ -341,7 +346,8 @@ def size(member: MemberLike, catalogue: Sequence[str | Path] = (), families: Seq
     notes = member_notes(member) + result.notes
     chosen = result.chosen
     if chosen is not None and reserve:
-        add_reserve(chosen.design, chosen.report)
+        assert chosen.design is not None  # the choice is checked in full
+        add_reserve(chosen.design, chosen.full_report)
         notes += chosen.full_report.notes
     summaries = [CandidateSummary(**{key: entry[key] for key in ("section", "mass_per_length", "utilization", "passes", "governing", "basis", "cost")})
                  for entry in map(candidate_entry, shown_candidates(result, top))]
@@ -350,7 +356,7 @@ def size(member: MemberLike, catalogue: Sequence[str | Path] = (), families: Seq
         chosen_design = chosen.design  # solved for its full check
         assert chosen_design is not None
         notes += small_deflection_cautions(chosen_design.solution)
-        chosen_check = check_outcome(chosen_design, chosen.report, notes, units)
+        chosen_check = check_outcome(chosen_design, chosen.full_report, notes, units)
     return SizeOutcome(chosen.name if chosen else None, chosen is not None, chosen.mass_per_length if chosen else None,
                        chosen.utilization if chosen else None, chosen.governing if chosen else None, summaries, chosen_check,
                        notes, result, top, units=units, cost=chosen.costing.cost if chosen else None, currency=ranking.currency,

@@ -70,8 +70,8 @@ def run_check(file: Path, section: str | None, catalogue: Sequence[Path], json_o
         from sizer.render.plots import plot_member
 
         governing = outcome.report.governing
-        plot_member(outcome.design, plot, governing.combination if governing else outcome.design.solution.combination_names[0], outcome.report,
-                    system)
+        combination = governing.combination if governing and governing.combination else outcome.design.solution.combination_names[0]
+        plot_member(outcome.design, plot, combination, outcome.report, system)
     if json_output:
         _print_document(outcome.to_json())
     else:

@@ -10,11 +10,15 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import Any, Sequence
+from typing import TYPE_CHECKING, Any, Sequence
 
 from sizer.analysis import MemberSolution, solve_member
 from sizer.errors import InputError
 from sizer.model import Material, Member, Stiffness
+
+if TYPE_CHECKING:
+    from sizer.sections.catalogue import Catalogue
+    from sizer.sections.properties import SectionProperties
 
 
 @dataclass
@@ -45,7 +49,7 @@ class Design:
         return self.stiffness
 
 
-def catalogue_for(member: Member, catalogue_paths: Sequence[Path]) -> Any:
+def catalogue_for(member: Member, catalogue_paths: Sequence[Path]) -> Catalogue:
     """The catalogue from --catalogue paths, else the member folder's section_library/, else the shipped one."""
     from sizer.sections import default_catalogue_paths, load_catalogue
 
@@ -61,7 +65,7 @@ def shipped_materials() -> dict[str, Material]:
     return load_catalogue([shipped_library()]).materials
 
 
-def resolve_material(member: Member, catalogue: Any | None) -> Material:
+def resolve_material(member: Member, catalogue: Catalogue | None) -> Material:
     """The member's material: from the member file first, then from the catalogue files, then from
     the materials shipped with sizer (so a catalogue of the user's own keeps them; the user's
     definitions win)."""
@@ -80,7 +84,8 @@ def resolve_material(member: Member, catalogue: Any | None) -> Material:
 
 
 def oriented_stiffness(props: Any, material: Material, orientation: str) -> Stiffness:
-    """Member rigidities from section properties: EA, GJ, EIz (x-y bending), EIy (x-z bending)."""
+    """Member rigidities from section properties: EA, GJ, EIz (x-y bending), EIy (x-z bending).
+    `props`: one section's SectionProperties, or a table of many (floats or arrays alike)."""
     E, G = material.elastic_modulus, material.shear_modulus
     major, minor = props.Iz, props.Iy
     if orientation == "minor":
@@ -134,7 +139,7 @@ def given_heights(member: Member) -> list[tuple[str, float]]:
     return [(key, float(height)) for key, height in found if isinstance(height, (int, float)) and not isinstance(height, bool)]
 
 
-def height_outside(member: Member, props: Any) -> InputError | None:
+def height_outside(member: Member, props: SectionProperties) -> InputError | None:
     """The error for the first load or restraint height (a number, m above the shear centre along the
     section's depth) that lies outside the section `props` (SectionProperties), between its bottom
     and top faces; None when every one lies within. A height outside would turn a load into one hung

@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
@@ -20,7 +20,10 @@ from sizer.checks.reduction import johnson
 from sizer.checks.results import CheckResult
 from sizer.checks.stability import StabilityReport
 from sizer.design import Design
-from sizer.model import Member
+from sizer.model import Material, Member
+
+if TYPE_CHECKING:
+    from sizer.sections.properties import SectionProperties
 
 
 @dataclass(frozen=True)
@@ -63,13 +66,13 @@ def critical_stress(slenderness: float, modulus: float, yield_strength: float | 
     return stress, "Euler" if slenderness >= _transition_slenderness(modulus, yield_strength) else "Johnson"
 
 
-def _axis(axis: str, inertia: float, length: float, props: Any, material: Any) -> BucklingAxis:
+def _axis(axis: str, inertia: float, length: float, props: SectionProperties, material: Material) -> BucklingAxis:
     radius = math.sqrt(inertia / props.area)
     stress, formula = critical_stress(length / radius, material.elastic_modulus, material.yield_strength)
     return BucklingAxis(axis, length, radius, length / radius, stress, formula)
 
 
-def given_length_axes(member: Member, props: Any, material: Any) -> list[BucklingAxis]:
+def given_length_axes(member: Member, props: SectionProperties, material: Material) -> list[BucklingAxis]:
     """Flexural buckling on the lengths the user gave (buckling_length_major about I11,
     buckling_length_minor about I22); empty when none is given."""
     settings = member.checks

@@ -15,7 +15,7 @@ SMALL_DEFLECTION_FRACTION of its length, where the results no longer hold (outpu
 
 from __future__ import annotations
 
-from typing import Any, Iterable
+from typing import TYPE_CHECKING, Iterable
 from weakref import WeakKeyDictionary
 
 import numpy as np
@@ -25,6 +25,9 @@ from sizer.analysis.patterns import Span, arrangements_of, spans
 from sizer.checks.results import CheckResult
 from sizer.design import Design
 from sizer.model import CheckSettings, DeflectionLimit, Member
+
+if TYPE_CHECKING:
+    from sizer.checks.second_order import SecondOrderActions
 
 SMALL_DEFLECTION_FRACTION = 1 / 50  # deflection / span beyond which small-deflection theory is not trusted
 PIECE_POINTS = 13  # per piece between concentrated items: the squared deflection there has degree <= 10
@@ -107,7 +110,7 @@ def deflection_notes(member: Member) -> list[str]:
 
 
 def span_deflections(design: Design, span_list: list[Span], combinations: Iterable[str], n: int = 201,
-                     relative: bool = True, second_order: Any = None) -> list[tuple[float, float, str]]:
+                     relative: bool = True, second_order: SecondOrderActions | None = None) -> list[tuple[float, float, str]]:
     """For each span: the largest transverse deflection (m) relative to its supports (chord between
     them; for an overhang, relative to its support's displacement; `relative` False: from the
     original position), with x and combination. One displacement evaluation for all spans.
@@ -116,7 +119,7 @@ def span_deflections(design: Design, span_list: list[Span], combinations: Iterab
 
 
 def solution_span_deflections(solution: MemberSolution, span_list: list[Span], combinations: Iterable[str],
-                              n: int = 201, relative: bool = True, second_order: Any = None) -> list[tuple[float, float, str]]:
+                              n: int = 201, relative: bool = True, second_order: SecondOrderActions | None = None) -> list[tuple[float, float, str]]:
     """span_deflections of a solved member (with displacements): the exact largest of each span
     (see span_peak), each span's found once per solution, combinations and reference (the check
     and the small-deflection caution ask for the same); `n` is kept for callers and not used.
@@ -140,7 +143,7 @@ def solution_span_deflections(solution: MemberSolution, span_list: list[Span], c
 
 
 def second_order_deflections(solution: MemberSolution, span_list: list[Span], names: tuple[str, ...], n: int, relative: bool,
-                             second_order: Any, first: list[tuple[float, float, str]]) -> list[tuple[float, float, str]]:
+                             second_order: SecondOrderActions, first: list[tuple[float, float, str]]) -> list[tuple[float, float, str]]:
     """For each span, the largest deflection (m) with the second-order increments, x and combination:
     on n points evenly over the span and at the first-order peak (`first`, from
     solution_span_deflections): the increments are piecewise cubic on the second-order mesh, not
@@ -231,7 +234,7 @@ def _polynomial_peaks(coef: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     return peak, place
 
 
-def entry_results(design: Design, entry: DeflectionLimit, label: str, second_order: Any = None) -> list[CheckResult]:
+def entry_results(design: Design, entry: DeflectionLimit, label: str, second_order: SecondOrderActions | None = None) -> list[CheckResult]:
     """One result per span that `entry` limits (its combinations and their arrangements)."""
     pairs = limited_spans(design.member, entry)
     combinations = arrangements_of(design.solution.member, entry.combinations)
@@ -248,7 +251,7 @@ def entry_results(design: Design, entry: DeflectionLimit, label: str, second_ord
     return results
 
 
-def deflection_check(design: Design, second_order: Any = None) -> CheckResult:
+def deflection_check(design: Design, second_order: SecondOrderActions | None = None) -> CheckResult:
     """Peak deflection of each span with a limit against span / limit (overhangs: overhang /
     overhang limit), for every limit given; the worst, naming its limit. `second_order`: see
     span_deflections."""

@@ -55,7 +55,7 @@ def check_design(design: Design, unit_field: Any, n_even: int = 200, stability: 
     stress = FieldPeaks(actions, unit_field, design.props.area, warping)
     arranged = None if second is not None else _superposed(design, xs, sides, unit_field, warping)  # second order: not a weighted sum
     report = stability_report(design, to_section_axes(first, design.member.orientation), xs, stability)
-    given = given_length_axes(design.member, design.props, design.material)
+    given = given_length_axes(design.member, design.props, design.known_material)
     columns = column_buckling(design, report, given)
     fb = _bending_allowable(design, report)
     interaction, lateral = _lateral_checks(design, report, stress, xs, columns, fb)
@@ -136,7 +136,7 @@ def _bending_allowable(design: Design, report: StabilityReport) -> float | None:
     """Fb where some combination bends the member about its major axis (then it is needed), else
     the given one or None."""
     if any(entry.lateral is not None for entry in report.combinations):
-        return needs_allowable(design.member, design.material, "bending", "lateral-torsional")
+        return needs_allowable(design.member, design.known_material, "bending", "lateral-torsional")
     return design.known_material.allowable.bending
 
 

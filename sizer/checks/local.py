@@ -36,7 +36,7 @@ from __future__ import annotations
 import math
 from collections.abc import Sequence
 from dataclasses import dataclass
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
@@ -45,6 +45,9 @@ from sizer.checks.results import ZERO_ACTION, CheckResult
 from sizer.design import Design
 from sizer.errors import InputError
 from sizer.model import Material
+
+if TYPE_CHECKING:
+    from sizer.sections.spec import SectionSpec
 
 INTERNAL, OUTSTAND = "internal", "outstand"
 PSI_LOWEST_INTERNAL = -3.0  # below: k grows, so the clamp is on the safe side
@@ -89,7 +92,7 @@ def no_walls_reason(shape: str) -> str | None:
     return reasons.get(shape)
 
 
-def section_walls(spec: Any, centroid: Point) -> list[Wall]:
+def section_walls(spec: SectionSpec, centroid: Point) -> list[Wall]:
     """The flat walls of a catalogue section (sections.SectionSpec, dims in m); `centroid` = (y, z) of
     the centroid from the bounding-box centre (SectionProperties.centroid). Empty for the shapes of
     no_walls_reason."""

@@ -6,7 +6,14 @@ with its governing check and verdict.
 from __future__ import annotations
 
 from dataclasses import dataclass, field
-from typing import Any
+from typing import TYPE_CHECKING
+
+if TYPE_CHECKING:
+    from sizer.checks.bracing import BraceDemand
+    from sizer.checks.reserve import Reserve
+    from sizer.checks.second_order import SecondOrderActions
+    from sizer.checks.stability import StabilityReport
+    from sizer.checks.torsion import TorsionSummary
 
 CHECK_NAMES = ("axial", "bending", "interaction", "shear", "equivalent", "deflection", "buckling", "lateral-torsional", "local", "web",
                "second-order")
@@ -57,11 +64,11 @@ class CheckReport:
     notes: list[str] = field(default_factory=list)
     stations_checked: int = 0
     nodes: int = 0
-    stability: Any = None  # sizer.checks.stability.StabilityReport: load factors and buckled shapes
-    restraints: list = field(default_factory=list)  # sizer.checks.bracing.BraceDemand: what each restraint must carry
-    torsion: Any = None  # sizer.checks.torsion.TorsionSummary: peaks of T, Tw, B; None when nothing twists the member
-    reserve: Any = None  # sizer.checks.reserve.Reserve, where found (check, size, schedules)
-    second_order: Any = None  # sizer.checks.second_order.SecondOrderActions (None: first order only)
+    stability: StabilityReport | None = None  # load factors and buckled shapes
+    restraints: list[BraceDemand] = field(default_factory=list)  # what each restraint must carry
+    torsion: TorsionSummary | None = None  # peaks of T, Tw, B; None when nothing twists the member
+    reserve: Reserve | None = None  # where found (check, size, schedules)
+    second_order: SecondOrderActions | None = None  # None: first order only
 
     @property
     def made(self) -> list[CheckResult]:

@@ -5,7 +5,6 @@
 from __future__ import annotations
 
 import math
-from typing import Any
 
 import numpy as np
 
@@ -15,7 +14,7 @@ from sizer.checks.results import ZERO_ACTION, CheckResult
 from sizer.checks.web import shear_panels, shear_slenderness
 from sizer.design import Design
 from sizer.errors import InputError
-from sizer.model import Member
+from sizer.model import Material, Member
 
 
 def _place(found: tuple[float, tuple[int, int]], xs: np.ndarray, names: tuple[str, ...]) -> tuple[float, float, str]:
@@ -30,7 +29,7 @@ def _locate(values: np.ndarray, xs: np.ndarray, names: tuple[str, ...]) -> tuple
     return float(values[c, s]), float(xs[s]), names[c]
 
 
-def needs_allowable(member: Member, material: Any, which: str, check: str) -> float:
+def needs_allowable(member: Member, material: Material, which: str, check: str) -> float:
     value = getattr(material.allowable, which)
     if value is None:
         raise InputError(material.source or member.source, f"materials.{material.name}.allowable.{which}",
@@ -44,7 +43,7 @@ def axial_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], desi
     """N / A against the tension or compression allowable, whichever governs; `arranged`: the
     largest tension and compression over every pattern arrangement by per-span superposition
     (None: from every row of `stress`)."""
-    member, material = design.member, design.material
+    member, material = design.member, design.known_material
     results = []
     for sense, which in ((1.0, "tension"), (-1.0, "compression")):
         if arranged is not None:
@@ -67,7 +66,7 @@ def bending_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], de
     from every row of `stress`)."""
     if stress.bending_upper.max() <= 0.0:
         return CheckResult("bending", None, detail="no bending moment")
-    allowable = needs_allowable(design.member, design.material, "bending", "bending")
+    allowable = needs_allowable(design.member, design.known_material, "bending", "bending")
     if arranged is not None:
         value, at, combination = arranged.value, float(xs[arranged.station]), arranged.combination
     else:
@@ -81,7 +80,7 @@ def compression_allowables(design: Design, columns: list) -> np.ndarray:
     factor = design.member.checks.buckling_safety_factor
     if all(column is None for column in columns):
         return np.full(len(columns), math.inf)
-    allowable = needs_allowable(design.member, design.material, "compression", "interaction")
+    allowable = needs_allowable(design.member, design.known_material, "compression", "interaction")
     return np.array([math.inf if column is None else min(allowable, column.stress / factor) for column in columns])
 
 
@@ -92,10 +91,10 @@ def interaction_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...]
     has_axial = np.abs(stress.axial).max() * design.props.area > ZERO_ACTION
     if not has_axial or stress.bending_upper.max() <= 0.0:
         return CheckResult("interaction", None, detail="needs axial force and bending together")
-    needs_allowable(design.member, design.material, "bending", "interaction")
+    needs_allowable(design.member, design.known_material, "bending", "interaction")
     tension = design.known_material.allowable.tension
     if tension is None and (stress.axial > 0).any():
-        tension = needs_allowable(design.member, design.material, "tension", "interaction")
+        tension = needs_allowable(design.member, design.known_material, "tension", "interaction")
     stations = stress.shape[1]
     compression = np.repeat(fa_allowed, stations).reshape(stress.shape)
     bending = np.repeat(fb_allowed, stations)
@@ -116,7 +115,7 @@ def shear_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], desi
     panels along y and z that carry shear in the row)."""
     if stress.shear_upper.max() <= 0.0:
         return CheckResult("shear", None, detail="no shear force or torque")
-    allowable = needs_allowable(design.member, design.material, "shear", "shear")
+    allowable = needs_allowable(design.member, design.known_material, "shear", "shear")
     panels = shear_panels(design, xs, allowable)
     if panels is None:
         value, at, combination = _place(stress.largest(stress.shear_upper, lambda rows, exact: exact[:, 1]), xs, names)

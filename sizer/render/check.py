@@ -8,7 +8,7 @@ line. The words are one pair everywhere: "passes" and "fails"."""
 
 from __future__ import annotations
 
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 import math
 
@@ -20,6 +20,9 @@ from sizer.render.axis_names import inertia_pair
 from sizer.render.common import CAUTIONS, cautions_panel, notes_panel, reactions_without_round_off
 from sizer.render.forces import REACTION_NAMES, plural, reactions_ledger_values
 from sizer.render.text import Column, Heading, Ledger, Paragraph
+
+if TYPE_CHECKING:
+    from rich.console import Console, ConsoleOptions, RenderResult
 
 QUANTITY_KINDS = {"stress": "stress", "deflection": "deflection", "force": "force"}
 GAUGE_WIDTH = 6  # cells from 0 to a utilization of 1.0
@@ -233,7 +236,7 @@ class VerdictBlock:
     def __init__(self, text: str, passes: bool) -> None:
         self.text, self.passes = text, passes
 
-    def __rich_console__(self, console: Any, options: Any) -> Any:
+    def __rich_console__(self, console: Console, options: ConsoleOptions) -> RenderResult:
         from rich.text import Text
 
         from sizer.render.text import wrap
@@ -290,7 +293,7 @@ def _optional(block: Any) -> list[Any]:
     return [] if block is None else [block, ""]
 
 
-def print_check(console: Any, design: Design, report: CheckReport, notes: list[str], system: str) -> None:
+def print_check(console: Console, design: Design, report: CheckReport, notes: list[str], system: str) -> None:
     """The terminal summary of `sizer check`."""
     for renderable in check_renderables(design, report, notes, system):
         console.print(renderable)

@@ -3,9 +3,12 @@ schedules (sizer.sizing.cost, sizer.checks.reserve)."""
 
 from __future__ import annotations
 
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from sizer import units
+
+if TYPE_CHECKING:
+    from sizer.checks.reserve import Reserve
 
 
 def money(value: float | None, currency: str | None) -> str:
@@ -43,7 +46,7 @@ def costing_json(costing: Any) -> dict[str, Any]:
             "available": costing.available, "unavailable": costing.unavailable or None, "bars": bars_json(costing.order)}
 
 
-def reserve_sentence(reserve: Any) -> str:
+def reserve_sentence(reserve: Reserve | None) -> str:
     """The reserve factor for a verdict line ("" when not found)."""
     if reserve is None or reserve.combination is None:
         return ""

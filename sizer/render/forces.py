@@ -5,7 +5,7 @@
 from __future__ import annotations
 
 from dataclasses import dataclass
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
@@ -22,6 +22,9 @@ from sizer.analysis import (
 from sizer.model import ACTIONS, LineLoad, Member, PointLoad
 from sizer.render.common import CAUTIONS, cautions_panel, notes_panel, reactions_without_round_off, without_round_off
 from sizer.render.text import Column, Heading, Ledger, Paragraph
+
+if TYPE_CHECKING:
+    from rich.console import Console
 
 ACTION_KINDS = {"N": "force", "Vy": "force", "Vz": "force", "T": "moment", "My": "moment", "Mz": "moment", "V": "force", "M": "moment"}
 REACTION_NAMES = ("Fx", "Fy", "Fz", "Mx", "My", "Mz")
@@ -467,7 +470,7 @@ def forces_renderables(solution: MemberSolution, combinations: list[str], xs: np
     return out + ["", notes_panel(notes, system=system), cautions_panel()]
 
 
-def print_forces(console: Any, solution: MemberSolution, combinations: list[str], xs: np.ndarray | None,
+def print_forces(console: Console, solution: MemberSolution, combinations: list[str], xs: np.ndarray | None,
                  notes: list[str], system: str, section_line: str, envelope: bool = False) -> None:
     """The terminal summary of `sizer forces` (with `envelope`: the envelope over the combinations)."""
     for renderable in forces_renderables(solution, combinations, xs, notes, system, section_line, envelope):

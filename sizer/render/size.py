@@ -3,7 +3,7 @@
 
 from __future__ import annotations
 
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from sizer import units
 from sizer.render.check import FAILS, PASSES, VerdictBlock, check_entry, checks_ledger, second_order_json, second_order_ledger, utilization_cell
@@ -12,6 +12,9 @@ from sizer.render.cost import bars_text, costing_json, money, reserve_sentence
 from sizer.render.forces import plural
 from sizer.render.text import Column, Heading, Ledger, Paragraph
 from sizer.sizing import Candidate, SizingResult
+
+if TYPE_CHECKING:
+    from rich.console import Console
 
 
 def shown_candidates(result: SizingResult, top: int) -> list[Candidate]:
@@ -174,7 +177,7 @@ def size_renderables(result: SizingResult, notes: list[str], top: int, system: s
     return out + [candidates_ledger(result, top, system), "", notes_panel(notes, system=system), cautions_panel()]
 
 
-def print_size(console: Any, result: SizingResult, notes: list[str], top: int, system: str) -> None:
+def print_size(console: Console, result: SizingResult, notes: list[str], top: int, system: str) -> None:
     """The terminal summary of `sizer size`."""
     for renderable in size_renderables(result, notes, top, system):
         console.print(renderable)

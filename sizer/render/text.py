@@ -10,9 +10,12 @@ from __future__ import annotations
 
 import re
 from dataclasses import dataclass, field
-from typing import Any, Iterator
+from typing import TYPE_CHECKING, Any, Iterator
 
 from sizer import units
+
+if TYPE_CHECKING:
+    from rich.console import Console, ConsoleOptions, RenderResult
 
 INDENT = 2  # cells before a row's second line
 GAP = 2  # cells between ledger columns
@@ -114,7 +117,7 @@ class Paragraph:
     def __init__(self, text: Any, style: str = "", hang: int = 0, indent: int = 0) -> None:
         self.text, self.style, self.hang, self.indent = text, style, hang, indent
 
-    def __rich_console__(self, console: Any, options: Any) -> Iterator[Any]:
+    def __rich_console__(self, console: Console, options: ConsoleOptions) -> RenderResult:
         from rich.segment import Segment
 
         for line in wrap(self.text, max(1, options.max_width - self.indent), self.hang):
@@ -139,7 +142,7 @@ class Heading:
     def __init__(self, text: str, rule: str = "━") -> None:
         self.text, self.rule = text, rule
 
-    def __rich_console__(self, console: Any, options: Any) -> Iterator[Any]:
+    def __rich_console__(self, console: Console, options: ConsoleOptions) -> RenderResult:
         from rich.text import Text
 
         yield Paragraph(f"[bold]{self.text}[/]")
@@ -215,7 +218,7 @@ class Ledger:
                 shown.remove(i)
         return shown, widths
 
-    def __rich_console__(self, console: Any, options: Any) -> Iterator[Any]:
+    def __rich_console__(self, console: Console, options: ConsoleOptions) -> RenderResult:
         from rich.text import Text
 
         width = options.max_width

@@ -13,7 +13,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 from functools import cached_property
-from typing import Any, Callable, Sequence
+from typing import TYPE_CHECKING, Any, Callable, Sequence
 
 import numpy as np
 
@@ -25,6 +25,10 @@ from sizer.model import Material, Member
 from sizer.sizing.cost import Costing, Ranking, costing, ranking_depth
 from sizer.stability import StabilitySection
 from sizer.stability.section import SCALARS, section_of
+
+if TYPE_CHECKING:
+    from sizer.sections.catalogue import Catalogue
+    from sizer.sections.spec import SectionSpec
 
 
 @dataclass(frozen=True, eq=False)
@@ -85,7 +89,7 @@ class Candidate:
     """One catalogue section in the sizing run."""
 
     name: str
-    spec: Any
+    spec: SectionSpec
     mass_per_length: float
     density: float
     index: int  # row in the CandidateTable and the Screen
@@ -140,7 +144,7 @@ class Candidate:
         self.bounds[check] = max(self.bounds.get(check, 0.0), float(value))
 
 
-def candidate_sections(catalogue: Any, member: Member, material: Material, families: Sequence[str],
+def candidate_sections(catalogue: Catalogue, member: Member, material: Material, families: Sequence[str],
                        max_depth: float | None, max_width: float | None,
                        progress: Callable[[int, int, str], None] | None = None, lazy: bool = False,
                        ranking: Ranking | None = None) -> tuple[list[Candidate], CandidateTable]:

@@ -6,7 +6,7 @@ runners-up; or, when nothing passes, the least utilized section.
 from __future__ import annotations
 
 from dataclasses import dataclass, field
-from typing import Any, Callable, Sequence
+from typing import TYPE_CHECKING, Callable, Sequence
 
 import numpy as np
 
@@ -20,6 +20,9 @@ from sizer.sizing.cost import Ranking
 from sizer.sizing.screen import Screen, local_lower_bound, prove_lower_bounds, rescreen, screen
 from sizer.sizing.stability_bounds import StabilityBounds
 from sizer.stability import MemberStability
+
+if TYPE_CHECKING:
+    from sizer.sections.catalogue import Catalogue
 
 BATCH = 64  # candidates given stability bounds at once (one small batched eigen-solve per combination)
 REVEAL_MOST = 16  # candidates whose warping tiers are revealed together, at most (see Search.passes_in_full)
@@ -205,7 +208,7 @@ class Search:
         return found[:top]
 
 
-def size_member(member: Member, catalogue: Any, material: Material, families: Sequence[str] = (),
+def size_member(member: Member, catalogue: Catalogue, material: Material, families: Sequence[str] = (),
                 max_depth: float | None = None, max_width: float | None = None, top: int = 3,
                 progress: Callable[[int, int, str], None] | None = None, ranking: Ranking | None = None) -> SizingResult:
     """The first candidate in the order of `ranking` (default: the lightest) that passes every check
@@ -215,7 +218,7 @@ def size_member(member: Member, catalogue: Any, material: Material, families: Se
         return _size(member, catalogue, material, families, max_depth, max_width, top, workers, ranking or Ranking())
 
 
-def _size(member: Member, catalogue: Any, material: Material, families: Sequence[str], max_depth: float | None,
+def _size(member: Member, catalogue: Catalogue, material: Material, families: Sequence[str], max_depth: float | None,
           max_width: float | None, top: int, workers: AnalysisWorkers, ranking: Ranking) -> SizingResult:
     candidates, table = candidate_sections(catalogue, member, material, families, max_depth, max_width, workers.progress, lazy=True,
                                            ranking=ranking)

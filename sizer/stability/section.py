@@ -12,9 +12,12 @@ distances from the centroid to the top and bottom fibres.
 from __future__ import annotations
 
 from dataclasses import dataclass
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
+
+if TYPE_CHECKING:
+    from sizer.sections.properties import SectionProperties
 
 
 @dataclass(frozen=True)
@@ -63,7 +66,7 @@ class StabilitySection:
                 "centroid": -self.y0}[face]
 
 
-def stability_section(props: Any, elastic_modulus: float, shear_modulus: float) -> StabilitySection:
+def stability_section(props: SectionProperties, elastic_modulus: float, shear_modulus: float) -> StabilitySection:
     """The StabilitySection of one catalogue section (sizer.sections.SectionProperties, whose axes are
     the section's own whatever its orientation on the member) in a material (E, G in Pa)."""
     y0, z0 = props.shear_centre
@@ -83,9 +86,10 @@ def section_of(values: Any, elastic_modulus: float, shear_modulus: float) -> Sta
                             y_top=v["y_top"], y_bottom=v["y_bottom"])
 
 
-def principal_inertias(section: Any) -> tuple[Any, Any]:
+def principal_inertias(section: Any) -> tuple[np.ndarray, np.ndarray]:
     """(I11, I22) (m^4): the section's largest and smallest second moments, about its principal
-    axes (which differ from y and z where Iyz is not zero: angles, Z sections)."""
+    axes (which differ from y and z where Iyz is not zero: angles, Z sections). `section`: anything
+    with Iz, Iy and Iyz, one section's or many sections' at once (a StabilitySection, a table)."""
     Iz, Iy, Iyz = (np.asarray(getattr(section, name), float) for name in ("Iz", "Iy", "Iyz"))
     mean, half = (Iz + Iy) / 2, np.hypot((Iz - Iy) / 2, Iyz)
     return mean + half, mean - half

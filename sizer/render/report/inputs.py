@@ -259,7 +259,7 @@ def _settings_table(design: Design, system: str) -> str:
     rows = [_row(["<th>Deflection limits</th>", f"<td>{_e(deflection)}</td>"]),
             _row(["<th>Buckling safety factor</th>",
                   f"<td>{settings.buckling_safety_factor:g} ({'given' if settings.buckling_safety_factor_given else 'default'})</td>"])]
-    axes = given_length_axes(design.member, design.props, design.material)
+    axes = given_length_axes(design.member, design.props, design.known_material)
     if not axes:
         return (f"<h3>1.7 Check settings</h3><table><tbody>{''.join(rows)}</tbody></table>"
                 "<p>Buckling lengths: none given; the eigen-solve on the member as it is decides (section 6 gives the effective "

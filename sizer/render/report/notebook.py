@@ -4,7 +4,7 @@ calculation record's own pieces (style, verdict, check rows, cautions) so the tw
 
 from __future__ import annotations
 
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from sizer import units
 from sizer.render.basis import basis_text
@@ -13,6 +13,10 @@ from sizer.render.common import CAUTIONS
 from sizer.render.report.checks import checks_section, verdict_box
 from sizer.render.report.markup import STYLE, _e, _row, _table
 from sizer.render.si_text import in_display_units
+
+if TYPE_CHECKING:
+    from sizer.checks import CheckReport
+    from sizer.design import Design
 
 
 def _page(body: str) -> str:
@@ -30,7 +34,7 @@ def _notes(notes: list[str], system: str = "si") -> str:
     return f"<details><summary>Assumptions ({len(notes)})</summary><ul class=\"notes\">{items}</ul></details>"
 
 
-def check_summary_html(design: Any, report: Any, notes: list[str], system: str = "si") -> str:
+def check_summary_html(design: Design, report: CheckReport, notes: list[str], system: str = "si") -> str:
     """The verdict, every check and the assumptions of one section's check."""
     document = check_json(design, report, notes)
     bases = [basis_text(result, design, report, system) for result in report.checks]
@@ -56,7 +60,7 @@ def size_summary_html(result: Any, notes: list[str], top: int, system: str = "si
     return _page(head + table + _notes(notes, system))
 
 
-def forces_summary_html(design: Any, combinations: list[str], notes: list[str], system: str = "si") -> str:
+def forces_summary_html(design: Design, combinations: list[str], notes: list[str], system: str = "si") -> str:
     """Each combination's reactions and the extremes of its internal actions."""
     from sizer.analysis import extremes
     from sizer.render.forces import ACTION_KINDS, REACTION_KINDS, REACTION_NAMES

@@ -28,6 +28,7 @@ def _factor(value: float | None) -> str:
 def solve_words(design: Design, report: CheckReport) -> str:
     """How the critical values were found, in words: only the solves that were made."""
     stability = report.stability
+    assert stability is not None  # written only for a report with its stability solves
     elements = len(stability.model.mesh.nodes) - 1
     axial = any(entry.axial is not None for entry in stability.combinations)
     lateral = any(entry.lateral is not None for entry in stability.combinations)
@@ -74,7 +75,9 @@ def holds_list(design: Design, system: str) -> str:
 def combinations_table(report: CheckReport, system: str) -> str:
     """Peak compression and moment, load factors and critical values of every combination."""
     rows = []
-    for entry in report.stability.combinations:
+    stability = report.stability
+    assert stability is not None  # written only for a report with its stability solves
+    for entry in stability.combinations:
         axial = entry.axial.load_factor if entry.axial is not None else None
         lateral = entry.lateral.load_factor if entry.lateral is not None else None
         p_cr = axial * entry.compression if axial is not None and math.isfinite(axial) else None
@@ -85,7 +88,7 @@ def combinations_table(report: CheckReport, system: str) -> str:
                           _cell(_fmt(entry.moment, "moment", system), entry.moment), _cell(at_least + _factor(lateral), lateral),
                           _cell(at_least + _fmt(m_cr, "moment", system), m_cr)]))
     note = ("<p class=\"note\">— : not solved (no compression, no major-axis bending, or a section that does not buckle "
-            f"sideways{': ' + _e(report.stability.lateral_reason) if report.stability.lateral_reason else ''}). "
+            f"sideways{': ' + _e(stability.lateral_reason) if stability.lateral_reason else ''}). "
             "≥ : a pattern arrangement not solved on its own: a proven lower bound of its load factor (one eigen-solve bounds "
             "every arrangement that loads the spans fixed so far), which shows it cannot govern.</p>")
     return _table(["combination", "peak compression", "load factor (axial)", "P_cr", "peak |M|", "load factor (bending)", "M_cr"],
