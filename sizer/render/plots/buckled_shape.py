@@ -11,7 +11,7 @@ largest utilization that has a buckled shape.
 from __future__ import annotations
 
 from dataclasses import dataclass
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
@@ -20,6 +20,9 @@ from sizer.checks import CheckReport
 from sizer.design import Design
 from sizer.model import Restraint
 from sizer.render.plots.style import GOVERNING_INK, GUIDE, INK, LOAD_INK
+
+if TYPE_CHECKING:
+    from matplotlib.axes import Axes
 
 STABILITY_CHECKS = {"lateral-torsional": "lateral", "buckling": "axial"}
 
@@ -122,7 +125,7 @@ def _draw_holds(ax_w: Any, ax_phi: Any, design: Design, system: str) -> None:
             _draw_restraint(ax_phi, restraint, "twist")
 
 
-def _draw_restraint(ax: Any, restraint: Restraint, label: str) -> None:
+def _draw_restraint(ax: Axes, restraint: Restraint, label: str) -> None:
     if restraint.continuous:
         ax.axvspan(restraint.start, restraint.end, ymin=0.0, ymax=0.09, facecolor="none", edgecolor=LOAD_INK, hatch="////", lw=0.6,
                    zorder=2)

@@ -8,7 +8,7 @@ and hinges, and the governing station as a dash-dot line through every panel.
 from __future__ import annotations
 
 from dataclasses import dataclass
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
@@ -26,6 +26,9 @@ from sizer.render.plots.style import (
     INK,
     draw_text,
 )
+
+if TYPE_CHECKING:
+    from matplotlib.axes import Axes
 
 TITLES = {
     "N": ("Axial force N", "force", "+ tension"),
@@ -68,7 +71,7 @@ def diagram_samples(design: Design, combination: str, n_even: int = 400) -> Samp
     return Samples(xs, sides, actions, tiny)
 
 
-def draw_action_diagram(ax: Any, name: str, samples: Samples, design: Design, combination: str, system: str) -> None:
+def draw_action_diagram(ax: Axes, name: str, samples: Samples, design: Design, combination: str, system: str) -> None:
     """One diagram: the curve, hatched fill by sign, zero line, and the extremes labelled."""
     title, kind, sense = TITLES[name]
     values = np.where(np.abs(samples.actions[name]) < samples.tiny, 0.0, samples.actions[name])
@@ -91,20 +94,20 @@ def draw_action_diagram(ax: Any, name: str, samples: Samples, design: Design, co
             _label_extreme(ax, at, value, kind, system, sign, design.member.length)
 
 
-def _signed_fill(ax: Any, x: np.ndarray, y: np.ndarray) -> None:
+def _signed_fill(ax: Axes, x: np.ndarray, y: np.ndarray) -> None:
     ax.fill_between(x, 0.0, y, where=y >= 0, interpolate=True, facecolor=FILL_POSITIVE, edgecolor="#6e6e6e",
                     hatch="////", lw=0.0, zorder=2)
     ax.fill_between(x, 0.0, y, where=y <= 0, interpolate=True, facecolor=FILL_NEGATIVE, edgecolor="#6e6e6e",
                     hatch="\\\\\\\\", lw=0.0, zorder=2)
 
 
-def _set_limits(ax: Any, shown: np.ndarray) -> None:
+def _set_limits(ax: Axes, shown: np.ndarray) -> None:
     low, high = min(0.0, float(shown.min())), max(0.0, float(shown.max()))
     span = high - low
     ax.set_ylim(low - 0.32 * span, high + 0.32 * span)
 
 
-def _label_extreme(ax: Any, at: float, value: float, kind: str, system: str, sign: float, length: float) -> None:
+def _label_extreme(ax: Axes, at: float, value: float, kind: str, system: str, sign: float, length: float) -> None:
     """A dot at an extreme, with its value and position."""
     shown = units.to_display(value, kind, system)
     ax.plot([at], [shown], marker="o", markersize=3.6, color=INK, zorder=6)
@@ -115,7 +118,7 @@ def _label_extreme(ax: Any, at: float, value: float, kind: str, system: str, sig
                 bbox={"boxstyle": "square,pad=0.12", "facecolor": "white", "edgecolor": "none", "alpha": 0.85})
 
 
-def draw_deflection(ax: Any, design: Design, combination: str, xs: np.ndarray, sides: np.ndarray, system: str, planar: bool) -> None:
+def draw_deflection(ax: Axes, design: Design, combination: str, xs: np.ndarray, sides: np.ndarray, system: str, planar: bool) -> None:
     """The deflected shape: uy (and uz when loaded out of plane) in display units, with the largest
     marked and its direction (down or up where gravity is along that axis)."""
     moved = design.solution.displacements(combination, xs, sides)
@@ -142,7 +145,7 @@ def draw_deflection(ax: Any, design: Design, combination: str, xs: np.ndarray, s
     ax.set_ylabel(unit)
 
 
-def _label_extreme_deflection(ax: Any, label: str, at: float, value: float, system: str, member: Member) -> None:
+def _label_extreme_deflection(ax: Axes, label: str, at: float, value: float, system: str, member: Member) -> None:
     """A mark at the largest displacement, with its value, direction and position."""
     length = member.length
     shown = units.to_display(value, "deflection", system)

@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import textwrap
 from pathlib import Path
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
@@ -36,6 +36,9 @@ from sizer.render.plots.style import (
     figure_bytes,
     style,
 )
+
+if TYPE_CHECKING:
+    from matplotlib.axes import Axes
 
 LABEL_CHARS = 70  # a mark's label is wrapped to this many characters
 
@@ -84,7 +87,7 @@ def build_envelope_figure(design: Design, combinations: list[str], system: str =
     return figure
 
 
-def _draw_band(ax: Any, name: str, xs: np.ndarray, high: np.ndarray, low: np.ndarray, found: Any, length: float, system: str) -> None:
+def _draw_band(ax: Axes, name: str, xs: np.ndarray, high: np.ndarray, low: np.ndarray, found: Any, length: float, system: str) -> None:
     """One action's envelope: the band, its two bounds, the zero line and the extremes marked."""
     title, kind, sense = TITLES[name]
     tiny = 1e-9 * (1.0 + float(max(np.abs(high).max(initial=0.0), np.abs(low).max(initial=0.0))))
@@ -108,7 +111,7 @@ def _draw_band(ax: Any, name: str, xs: np.ndarray, high: np.ndarray, low: np.nda
             _mark(ax, bound.at, bound.value, kind, system, sign, length, bound.combination)
 
 
-def _mark(ax: Any, at: float, value: float, kind: str, system: str, sign: float, length: float, combination: str) -> None:
+def _mark(ax: Axes, at: float, value: float, kind: str, system: str, sign: float, length: float, combination: str) -> None:
     """A dot at an extreme, with its value, position and combination."""
     shown = units.to_display(value, kind, system)
     ax.plot([at], [shown], marker="o", markersize=3.6, color=INK, zorder=6)
@@ -119,7 +122,7 @@ def _mark(ax: Any, at: float, value: float, kind: str, system: str, sign: float,
                 bbox={"boxstyle": "square,pad=0.12", "facecolor": "white", "edgecolor": "none", "alpha": 0.85})
 
 
-def _draw_deflection_bounds(ax: Any, design: Design, combinations: list[str], planar: bool, system: str) -> None:
+def _draw_deflection_bounds(ax: Axes, design: Design, combinations: list[str], planar: bool, system: str) -> None:
     """The largest and smallest uy (and uz, thin, out of plane) at each point over the combinations."""
     xs = np.linspace(0.0, design.member.length, 401)
     high, low = displacement_bounds(design.solution, combinations, xs)

@@ -8,7 +8,7 @@ from __future__ import annotations
 
 import textwrap
 from pathlib import Path
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from sizer import units
 from sizer.checks import CheckReport, CheckResult
@@ -39,6 +39,9 @@ from sizer.render.plots.style import (
     style,
 )
 from sizer.render.plots.view_layout import layout_member_view
+
+if TYPE_CHECKING:
+    from matplotlib.figure import Figure
 
 
 def plot_member(design: Design, path: str | Path, combination: str, report: CheckReport | None = None,
@@ -114,7 +117,7 @@ def length_axis(axes: dict[str, Any], length: float, system: str) -> None:
     bottom.set_xlabel(f"x from end A [{units.unit_label('length', system)}]")
 
 
-def panel_axes(figure: Any, panels: list[tuple[str, float]], height: float, title_height: float) -> dict[str, Any]:
+def panel_axes(figure: Figure, panels: list[tuple[str, float]], height: float, title_height: float) -> dict[str, Any]:
     """One axes per panel, stacked top to bottom at fixed inch positions."""
     axes: dict[str, Any] = {}
     top = height - title_height
@@ -139,7 +142,7 @@ def _governing_for(report: CheckReport | None) -> CheckResult | None:
     return report.governing
 
 
-def _title_block(figure: Any, member: Member, lines: list[str], height: float) -> None:
+def _title_block(figure: Figure, member: Member, lines: list[str], height: float) -> None:
     """Title, then the combination and section, and the governing check when a report is given."""
     name = member.title or (Path(member.source).name if member.source else "member")
     figure.text(LEFT / FIG_WIDTH, 1 - 0.16 / height, name, fontsize=12, fontweight="bold", va="top")
@@ -164,7 +167,7 @@ def _subtitle_lines(design: Design, combination: str, report: CheckReport | None
     return [part for line in lines for part in textwrap.wrap(line, SUBTITLE_CHARS)]
 
 
-def _footer(figure: Any, planar: bool, restraints: bool) -> None:
+def _footer(figure: Figure, planar: bool, restraints: bool) -> None:
     text = "Diagrams: positive up, hatched //// where positive and \\\\\\\\ where negative; values of this combination."
     if restraints:
         text += "\nRestraints against buckling: filled squares on the member at a point, a cross-hatched strip under it where continuous."

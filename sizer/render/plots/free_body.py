@@ -6,7 +6,7 @@ member views' scale (a very short segment is widened, and said to be); across in
 
 from __future__ import annotations
 
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
@@ -48,6 +48,9 @@ from sizer.render.plots.view_layout import (
     stack_top,
     transverse_force,
 )
+
+if TYPE_CHECKING:
+    from matplotlib.axes import Axes
 
 FREE_BODY_LEFT_PAD = 1.3  # inches left of end A for the reactions there and their labels
 FREE_BODY_RIGHT = 1.8  # inches right of the cut for the internal actions and their labels
@@ -131,7 +134,7 @@ def _free_body_view(plane: str, m_per_inch: float, lines: list[DrawnLine], point
     return MemberView(spec, m_per_inch, bands, above + 0.1, FREE_BODY_BELOW, system)
 
 
-def _draw_free_body_view(ax: Any, view: MemberView, design: Design, points: list[DrawnPoint],
+def _draw_free_body_view(ax: Axes, view: MemberView, design: Design, points: list[DrawnPoint],
                          supports: list[tuple[Support, np.ndarray]], actions: np.ndarray, drawn_x: float, planar: bool,
                          system: str) -> None:
     draw_beam(ax, 0.0, drawn_x)
@@ -155,7 +158,7 @@ def _signed(value: float, kind: str, system: str, tiny: float = 1e-9) -> str:
     return units.fmt(0.0 if abs(value) < tiny else value, kind, system)
 
 
-def draw_reaction(ax: Any, view: MemberView, at: float, reaction: np.ndarray, member_length: float, system: str) -> None:
+def draw_reaction(ax: Axes, view: MemberView, at: float, reaction: np.ndarray, member_length: float, system: str) -> None:
     """A support's reaction components in this view (green, open arrow heads), each labelled."""
     plane = view.plane
     tiny = 1e-9 * (1.0 + float(np.abs(reaction).max()))
@@ -179,7 +182,7 @@ def draw_reaction(ax: Any, view: MemberView, at: float, reaction: np.ndarray, me
                            REACTION_INK, length=0.36, label_side="right")
 
 
-def draw_cut_actions(ax: Any, view: MemberView, x: float, actions: np.ndarray, planar: bool, system: str) -> None:
+def draw_cut_actions(ax: Axes, view: MemberView, x: float, actions: np.ndarray, planar: bool, system: str) -> None:
     """N, Vy (Vz), Mz (My) and, out of plane, T on the cut face (+x normal), each drawn positive with its value."""
     plane = view.plane
     tiny = 1e-9 * (1.0 + float(np.abs(actions).max()))

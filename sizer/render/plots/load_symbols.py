@@ -8,7 +8,7 @@ the member, metres along it; values in display units.
 from __future__ import annotations
 
 import math
-from typing import Any
+from typing import TYPE_CHECKING
 
 import numpy as np
 
@@ -33,8 +33,11 @@ from sizer.render.plots.view_layout import (
     transverse_force,
 )
 
+if TYPE_CHECKING:
+    from matplotlib.axes import Axes
 
-def draw_band(ax: Any, view: MemberView, band: Band) -> None:
+
+def draw_band(ax: Axes, view: MemberView, band: Band) -> None:
     """A line load: filled, hatched outline above the axis, scaled to its intensity, with arrows."""
     from matplotlib.patches import Polygon
 
@@ -59,7 +62,7 @@ def _band_corners(band: Band) -> np.ndarray:
     return np.array([load.start, load.end])
 
 
-def _band_arrows(ax: Any, view: MemberView, band: Band) -> None:
+def _band_arrows(ax: Axes, view: MemberView, band: Band) -> None:
     load = band.load
     count = max(2, int((load.end - load.start) / view.dx(0.28)) + 1)
     for x in np.linspace(load.start, load.end, count):
@@ -75,7 +78,7 @@ def _band_arrows(ax: Any, view: MemberView, band: Band) -> None:
             draw_arrow(ax, (x, low if up else high), (x, high if up else low), lw=0.7)
 
 
-def _axial_marks(ax: Any, view: MemberView, x: float, y: float, sign: float, double: bool) -> None:
+def _axial_marks(ax: Axes, view: MemberView, x: float, y: float, sign: float, double: bool) -> None:
     """Small arrows along x inside a band (double-headed for a torque per length)."""
     half = view.dx(0.08)
     draw_arrow(ax, (x - sign * half, y), (x + sign * half, y), lw=0.7)
@@ -83,7 +86,7 @@ def _axial_marks(ax: Any, view: MemberView, x: float, y: float, sign: float, dou
         draw_arrow(ax, (x - sign * half, y), (x + sign * (half - view.dx(0.05)), y), lw=0.7)
 
 
-def _band_label(ax: Any, view: MemberView, band: Band) -> None:
+def _band_label(ax: Axes, view: MemberView, band: Band) -> None:
     load = band.load
     q0, q1 = load.q_start[band.component], load.q_end[band.component]
     kind = "moment_per_length" if band.component == 3 else "force_per_length"
@@ -98,7 +101,7 @@ def _band_label(ax: Any, view: MemberView, band: Band) -> None:
     draw_text(ax, x_mid, band.base + band.peak * band.scale + 0.02, text, fontsize=7)
 
 
-def draw_point_loads(ax: Any, view: MemberView, points: list[DrawnPoint], member_length: float) -> None:
+def draw_point_loads(ax: Axes, view: MemberView, points: list[DrawnPoint], member_length: float) -> None:
     """Point forces as arrows (length scaled to the largest), moments as curved or double arrows."""
     plane = view.plane
     transverse = [abs(transverse_force(p, plane)) for p in points]
@@ -118,7 +121,7 @@ def draw_point_loads(ax: Any, view: MemberView, points: list[DrawnPoint], member
                                LOAD_INK, label_side="below")
 
 
-def draw_transverse_force(ax: Any, view: MemberView, x: float, force: float, clear: float, length: float, color: str) -> None:
+def draw_transverse_force(ax: Axes, view: MemberView, x: float, force: float, clear: float, length: float, color: str) -> None:
     """A point force across the member, drawn above the axis: pushing onto it, or pulling away."""
     page_up = force * view.plane.page_sign > 0
     near, far = BEAM_HALF + 0.02, clear + length
@@ -127,7 +130,7 @@ def draw_transverse_force(ax: Any, view: MemberView, x: float, force: float, cle
     draw_text(ax, x, far + 0.03, units.fmt(abs(force), "force", view.system, 3), color=color)
 
 
-def draw_axial_force(ax: Any, view: MemberView, x: float, force: float, member_length: float, color: str,
+def draw_axial_force(ax: Axes, view: MemberView, x: float, force: float, member_length: float, color: str,
                      length: float = 0.42, y: float | None = None, label: str | None = None) -> None:
     """A point force along the member, on the outer side of the nearer end; at the axis at an end,
     just under it inside the member (or at height y, inches, when given)."""
@@ -142,7 +145,7 @@ def draw_axial_force(ax: Any, view: MemberView, x: float, force: float, member_l
               ha="left" if outside > 0 else "right", va="center")
 
 
-def draw_turning_moment(ax: Any, view: MemberView, x: float, moment: float, label: str, color: str,
+def draw_turning_moment(ax: Axes, view: MemberView, x: float, moment: float, label: str, color: str,
                         radius: float = ARC_RADIUS, half: bool = False) -> None:
     """A moment about the axis pointing at the viewer: a curved arrow, counter-clockwise when positive.
     half: only the right half-circle (for a cut face), labelled at its upper right."""
@@ -164,7 +167,7 @@ def draw_turning_moment(ax: Any, view: MemberView, x: float, moment: float, labe
         draw_text(ax, x + view.dx(radius * 0.8), -radius * 0.8, label, color=color, ha="left", va="top")
 
 
-def draw_moment_vector(ax: Any, view: MemberView, x: float, moment: float, y: float, label: str, color: str,
+def draw_moment_vector(ax: Axes, view: MemberView, x: float, moment: float, y: float, label: str, color: str,
                        length: float = 0.4, label_side: str = "above") -> None:
     """A moment whose axis is the member axis: a double-headed arrow along +x or -x (right-hand rule),
     centred at x; the label "above", "below" or to the "right"."""

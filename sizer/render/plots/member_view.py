@@ -5,7 +5,7 @@ the axis triad. Heights in inches of paper from the member axis.
 
 from __future__ import annotations
 
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from sizer import units
 from sizer.model import Member
@@ -23,8 +23,11 @@ from sizer.render.plots.style import (
 from sizer.render.plots.support_symbols import draw_support
 from sizer.render.plots.view_layout import MemberView
 
+if TYPE_CHECKING:
+    from matplotlib.axes import Axes
 
-def draw_member_view(ax: Any, view: MemberView, member: Member, points: list[DrawnPoint]) -> None:
+
+def draw_member_view(ax: Axes, view: MemberView, member: Member, points: list[DrawnPoint]) -> None:
     """The member to scale with its supports, hinges and factored loads."""
     ax.set_ylim(-view.below, view.above)
     draw_beam(ax, 0.0, member.length)
@@ -50,13 +53,13 @@ def _chain_positions(member: Member) -> list[float]:
     return sorted(xs)
 
 
-def draw_beam(ax: Any, start: float, end: float) -> None:
+def draw_beam(ax: Axes, start: float, end: float) -> None:
     from matplotlib.patches import Rectangle
 
     ax.add_patch(Rectangle((start, -BEAM_HALF), end - start, 2 * BEAM_HALF, facecolor="#bdbdbd", edgecolor=INK, lw=1.0, zorder=3))
 
 
-def draw_restraint(ax: Any, restraint: Any) -> None:
+def draw_restraint(ax: Axes, restraint: Any) -> None:
     """A restraint against buckling: a filled square on the member at a point, a hatched strip just
     under the member where it is continuous (what it holds is in the record's inputs)."""
     from matplotlib.patches import Rectangle
@@ -68,12 +71,12 @@ def draw_restraint(ax: Any, restraint: Any) -> None:
     ax.plot([restraint.start], [0.0], marker="s", markersize=5, markerfacecolor=REACTION_INK, markeredgecolor="white", zorder=7, ls="none")
 
 
-def draw_hinge(ax: Any, x: float) -> None:
+def draw_hinge(ax: Axes, x: float) -> None:
     """An internal hinge: an open circle on the member axis."""
     ax.plot([x], [0.0], marker="o", markersize=7, markerfacecolor="white", markeredgecolor=INK, markeredgewidth=1.2, zorder=6)
 
 
-def draw_dimension_chain(ax: Any, view: MemberView, positions: list[float], y: float) -> None:
+def draw_dimension_chain(ax: Axes, view: MemberView, positions: list[float], y: float) -> None:
     """A chain of dimensions between the given positions (m), with the distances written under."""
     ax.plot([positions[0], positions[-1]], [y, y], color=INK, lw=0.6)
     for x in positions:
@@ -84,7 +87,7 @@ def draw_dimension_chain(ax: Any, view: MemberView, positions: list[float], y: f
             draw_text(ax, (a + b) / 2, y - 0.03, units.fmt(b - a, "length", view.system, 4), color=INK, va="top", fontsize=7)
 
 
-def draw_triad(ax: Any, view: MemberView, x: float, y: float) -> None:
+def draw_triad(ax: Axes, view: MemberView, x: float, y: float) -> None:
     """Axis arrows in the view's upper left corner: x to the right, y up or z down."""
     origin = (x + view.dx(0.12), y - 0.35 if view.plane.page_sign > 0 else y - 0.12)
     draw_arrow(ax, origin, (origin[0] + view.dx(0.3), origin[1]), color=INK, lw=0.8)

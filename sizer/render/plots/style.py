@@ -15,6 +15,8 @@ from typing import TYPE_CHECKING, Any
 from sizer.errors import InputError
 
 if TYPE_CHECKING:
+    from matplotlib.axes import Axes
+    from matplotlib.figure import Figure
     from matplotlib.typing import RcKeyType
 
 PLOT_FORMATS: dict[str, str] = {".png": "png", ".svg": "svg"}
@@ -76,7 +78,7 @@ def check_plot_path(path: str | Path) -> str:
     return PLOT_FORMATS[suffix]
 
 
-def figure_bytes(figure: Any, image_format: str) -> bytes:
+def figure_bytes(figure: Figure, image_format: str) -> bytes:
     """The figure rendered to PNG or SVG bytes (fixed size: FIG_WIDTH wide at DPI)."""
     import matplotlib
 
@@ -90,7 +92,7 @@ def figure_bytes(figure: Any, image_format: str) -> bytes:
 EDGE_MARGIN = 0.12  # inches kept clear between any text and the sheet's edges
 
 
-def keep_texts_inside(figure: Any) -> None:
+def keep_texts_inside(figure: Figure) -> None:
     """Keep every text (titles, labels, legends' texts) inside the sheet, and a text clipped to its
     panel inside the panel: one that runs past the right or left edge moves back in by the overhang
     (plus EDGE_MARGIN at the sheet's edges); a panel title, or a text that would then cross the
@@ -100,7 +102,8 @@ def keep_texts_inside(figure: Any) -> None:
 
     renderer = FigureCanvasAgg(figure).get_renderer()
     margin = EDGE_MARGIN * figure.dpi
-    titles = {id(title) for ax in figure.axes for title in (ax.title, ax._left_title, ax._right_title)}
+    titles = {id(title) for ax in figure.axes
+              for title in (ax.title, ax._left_title, ax._right_title)}  # type: ignore[attr-defined]  # private texts, not in matplotlib's stubs
     for text in figure.findobj(Text):
         if not text.get_visible() or not text.get_text():
             continue
@@ -139,14 +142,14 @@ def axes_width() -> float:
     return FIG_WIDTH - LEFT - RIGHT
 
 
-def draw_arrow(ax: Any, tail: tuple[float, float], tip: tuple[float, float], color: str = LOAD_INK,
+def draw_arrow(ax: Axes, tail: tuple[float, float], tip: tuple[float, float], color: str = LOAD_INK,
                lw: float = 1.3, zorder: int = 5) -> None:
     """A straight arrow from tail to tip (data coordinates)."""
     ax.annotate("", xy=tip, xytext=tail, zorder=zorder,
                 arrowprops={"arrowstyle": "-|>", "color": color, "lw": lw, "shrinkA": 0, "shrinkB": 0, "mutation_scale": 9})
 
 
-def draw_text(ax: Any, x: float, y: float, text: str, color: str = LOAD_INK, **kw: Any) -> None:
+def draw_text(ax: Axes, x: float, y: float, text: str, color: str = LOAD_INK, **kw: Any) -> None:
     """Small text at (x, y) in data coordinates, centred above the point unless told otherwise."""
     kw.setdefault("ha", "center")
     kw.setdefault("va", "bottom")

@@ -7,7 +7,7 @@ and spring stiffnesses in display units. Sizes in inches of paper across the mem
 from __future__ import annotations
 
 import math
-from typing import Any
+from typing import TYPE_CHECKING
 
 import numpy as np
 
@@ -16,8 +16,11 @@ from sizer.model import Support
 from sizer.render.plots.style import BEAM_HALF, INK, draw_text
 from sizer.render.plots.view_layout import MemberView
 
+if TYPE_CHECKING:
+    from matplotlib.axes import Axes
 
-def draw_support(ax: Any, view: MemberView, support: Support, length: float) -> None:
+
+def draw_support(ax: Axes, view: MemberView, support: Support, length: float) -> None:
     """The support's symbol in this view, composed from the freedoms it holds in the view's plane."""
     held, springs = set(support.restrain), support.springs
     plane = view.plane
@@ -49,14 +52,14 @@ def support_caption(support: Support, system: str = "si") -> str:
     return text
 
 
-def _ground(ax: Any, view: MemberView, x: float, y: float, half_width: float) -> None:
+def _ground(ax: Axes, view: MemberView, x: float, y: float, half_width: float) -> None:
     """A ground line at height y (inches) with short hatch strokes under it."""
     ax.plot([x - view.dx(half_width), x + view.dx(half_width)], [y, y], color=INK, lw=1.1, zorder=4)
     for k in np.linspace(-half_width, half_width - 0.06, 6):
         ax.plot([x + view.dx(k + 0.06), x + view.dx(k)], [y, y - 0.06], color=INK, lw=0.7, zorder=4)
 
 
-def draw_pin(ax: Any, view: MemberView, x: float, roller: bool) -> float:
+def draw_pin(ax: Axes, view: MemberView, x: float, roller: bool) -> float:
     """A triangle under the axis; a roller stands on two small wheels. Returns its depth (inches)."""
     from matplotlib.patches import Polygon
 
@@ -75,7 +78,7 @@ def draw_pin(ax: Any, view: MemberView, x: float, roller: bool) -> float:
     return -base + 0.06
 
 
-def draw_clamp(ax: Any, view: MemberView, x: float, end: str, guided: bool) -> float:
+def draw_clamp(ax: Axes, view: MemberView, x: float, end: str, guided: bool) -> float:
     """A wall (at an end) or a hatched block (inside) that holds the rotation. Returns its depth."""
     from matplotlib.patches import Rectangle
 
@@ -97,7 +100,7 @@ def draw_clamp(ax: Any, view: MemberView, x: float, end: str, guided: bool) -> f
     return 0.24
 
 
-def draw_translation_spring(ax: Any, view: MemberView, x: float) -> float:
+def draw_translation_spring(ax: Axes, view: MemberView, x: float) -> float:
     """A zigzag spring from the member down to the ground. Returns its depth."""
     top, length, half = -BEAM_HALF, 0.36, 0.06
     ys = np.linspace(top, top - length, 10)
@@ -107,7 +110,7 @@ def draw_translation_spring(ax: Any, view: MemberView, x: float) -> float:
     return length + 0.1
 
 
-def draw_rotation_spring(ax: Any, view: MemberView, x: float, side: float) -> None:
+def draw_rotation_spring(ax: Axes, view: MemberView, x: float, side: float) -> None:
     """A coil (spiral) beside the support (side -1: to its left, +1: to its right), joined to the
     member at x: an elastic rotational restraint."""
     centre = x + side * view.dx(0.24)

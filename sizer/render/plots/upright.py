@@ -8,7 +8,7 @@ Panel coordinates are inches of paper.
 
 from __future__ import annotations
 
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
@@ -17,6 +17,9 @@ from sizer.model import Member
 from sizer.render.plots.combination_loads import DrawnLine, DrawnPoint
 from sizer.render.plots.style import BEAM_HALF, GUIDE, INK, LOAD_INK, draw_arrow, draw_text
 from sizer.render.plots.support_symbols import support_caption
+
+if TYPE_CHECKING:
+    from matplotlib.axes import Axes
 
 UPRIGHT_HEIGHT = 3.0  # inches of the panel
 MARGIN = 0.6  # inches kept above and below the member (room for the loads at its ends)
@@ -36,11 +39,14 @@ def height_of(member: Member, x: float) -> float:
     return MARGIN + x * scale if member.gravity[1] < 0 else UPRIGHT_HEIGHT - MARGIN - x * scale
 
 
-def draw_upright(ax: Any, member: Member, points: list[DrawnPoint], lines: list[DrawnLine], system: str) -> None:
+def draw_upright(ax: Axes, member: Member, points: list[DrawnPoint], lines: list[DrawnLine], system: str) -> None:
     """The member vertical, with its supports, restraints and factored loads (see the module docstring)."""
+    from matplotlib.figure import Figure
     from matplotlib.patches import Rectangle
 
-    width = ax.get_position().width * ax.figure.get_figwidth()
+    figure = ax.figure
+    assert isinstance(figure, Figure)  # drawn on a whole figure, not a subfigure
+    width = ax.get_position().width * figure.get_figwidth()
     ax.set_xlim(0.0, width)
     ax.set_ylim(0.0, UPRIGHT_HEIGHT)
     ax.set_axis_off()
@@ -61,7 +67,7 @@ def draw_upright(ax: Any, member: Member, points: list[DrawnPoint], lines: list[
     ax.set_title("The member as it stands (vertical, to scale): supports, restraints and factored loads", loc="left", pad=2)
 
 
-def _dimension(ax: Any, member: Member, system: str) -> None:
+def _dimension(ax: Axes, member: Member, system: str) -> None:
     x = POST_X + 1.9
     low, high = sorted((height_of(member, 0.0), height_of(member, member.length)))
     ax.plot([x, x], [low, high], color=INK, lw=0.6)
@@ -74,7 +80,7 @@ def _dimension(ax: Any, member: Member, system: str) -> None:
                   fontsize=7)
 
 
-def _support(ax: Any, member: Member, support: Any, system: str) -> None:
+def _support(ax: Axes, member: Member, support: Any, system: str) -> None:
     """A base (a hatched ground line across the member) where it holds the member along x, side
     holds (short hatched walls on both sides) where it holds it only sideways; its caption beside."""
     y = height_of(member, support.at)
@@ -93,7 +99,7 @@ def _support(ax: Any, member: Member, support: Any, system: str) -> None:
               va="bottom" if outward > 0 else "top", fontsize=7)
 
 
-def _restraint(ax: Any, member: Member, restraint: Any) -> None:
+def _restraint(ax: Axes, member: Member, restraint: Any) -> None:
     """A restraint: a filled square on the member at a point, a hatched strip along it when continuous."""
     from matplotlib.patches import Rectangle
 
@@ -108,7 +114,7 @@ def _restraint(ax: Any, member: Member, restraint: Any) -> None:
     draw_text(ax, POST_X - 0.12, low - 0.04, f"restraint: {holds}", ha="right", va="top", fontsize=6.5)
 
 
-def _point_load(ax: Any, member: Member, point: DrawnPoint, system: str) -> None:
+def _point_load(ax: Axes, member: Member, point: DrawnPoint, system: str) -> None:
     """A factored point load: along the member as a vertical arrow to the point, along y as a
     horizontal one (_point_notes writes the rest)."""
     y = height_of(member, point.at)
@@ -125,7 +131,7 @@ def _point_load(ax: Any, member: Member, point: DrawnPoint, system: str) -> None
                   ha="right" if fy > 0 else "left", va="center", fontsize=7)
 
 
-def _point_notes(ax: Any, member: Member, points: list[DrawnPoint], system: str) -> None:
+def _point_notes(ax: Axes, member: Member, points: list[DrawnPoint], system: str) -> None:
     """The forces along z and the moments of the point loads at one position, written once, one per
     line, to the left of the member."""
     lines = []
@@ -139,7 +145,7 @@ def _point_notes(ax: Any, member: Member, points: list[DrawnPoint], system: str)
         draw_text(ax, POST_X - 0.3, height_of(member, points[0].at), "\n".join(lines), ha="right", va="center", fontsize=7, linespacing=1.3)
 
 
-def _line_load(ax: Any, member: Member, line: DrawnLine, system: str) -> None:
+def _line_load(ax: Axes, member: Member, line: DrawnLine, system: str) -> None:
     """A factored line load: small arrows along its length (horizontal for wy, along the member for
     wx), its value written once; wz and torque per length written only."""
     low, high = sorted((height_of(member, line.start), height_of(member, line.end)))
@@ -162,7 +168,7 @@ def _line_load(ax: Any, member: Member, line: DrawnLine, system: str) -> None:
                   va="center", fontsize=6.5)
 
 
-def _triad(ax: Any, member: Member) -> None:
+def _triad(ax: Axes, member: Member) -> None:
     """The axes: x along the member (up the page when gravity is along -x), y to the right."""
     origin = (0.25, 0.35)
     up = 1.0 if member.gravity[1] < 0 else -1.0

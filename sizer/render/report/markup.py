@@ -7,11 +7,14 @@ from __future__ import annotations
 
 import base64
 import html
-from typing import Any, Iterable, Sequence
+from typing import TYPE_CHECKING, Any, Iterable, Sequence
 
 from sizer import units
 from sizer.printable import printable_lines
 from sizer.render.plots.style import figure_bytes
+
+if TYPE_CHECKING:
+    from matplotlib.figure import Figure
 
 STYLE = """
 :root { --ink:#1b1b1b; --muted:#5a5a5a; --rule:#c9c9c9; --pass:#1f5e2e; --fail:#8a1c1c; --warn:#6b4a00; --band:#f4f4f1; }
@@ -108,7 +111,7 @@ def _row(cells: Iterable[str], css: str = "", attrs: str = "") -> str:
     return f"<tr{klass}{attrs}>{''.join(cells)}</tr>"
 
 
-def _figure(figure: Any, caption: str, width: int | None = None) -> str:
+def _figure(figure: Figure, caption: str, width: int | None = None) -> str:
     """A matplotlib figure inline as a base64 SVG image, with its caption."""
     data = base64.b64encode(figure_bytes(figure, "svg")).decode("ascii")
     style = f' style="width:{width}px"' if width else ""

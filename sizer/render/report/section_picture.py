@@ -8,13 +8,16 @@ matplotlib and the section geometry are imported inside the functions (lazily).
 
 from __future__ import annotations
 
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
 from sizer import units
 from sizer.design import Design
 from sizer.render.plots.style import style
+
+if TYPE_CHECKING:
+    from matplotlib.axes import Axes
 
 
 def section_outline(design: Design) -> list[tuple[np.ndarray, list[np.ndarray]]]:
@@ -81,7 +84,7 @@ def _ring_codes(count: int) -> np.ndarray:
     return codes
 
 
-def _section_axes(ax: Any, rings: list[tuple[np.ndarray, list[np.ndarray]]], system: str = "si") -> None:
+def _section_axes(ax: Axes, rings: list[tuple[np.ndarray, list[np.ndarray]]], system: str = "si") -> None:
     """Member y (up) and z (left) through the centroid, with the size in display units."""
     every = np.concatenate([exterior for exterior, _ in rings]) * 1e3
     (minx, miny), (maxx, maxy) = every.min(axis=0), every.max(axis=0)
