@@ -8,12 +8,16 @@ from __future__ import annotations
 
 import sys
 from pathlib import Path
-from typing import Any, List, Optional
+from typing import TYPE_CHECKING, Any, List, Optional
 
 import typer
 
 from sizer.cli_common import run_guarded, unit_system
 from sizer.errors import InputError
+
+if TYPE_CHECKING:
+    from rich.console import Console
+    from sizer.sections.catalogue import Catalogue
 
 app = typer.Typer(
     help="Keep the section catalogue: list, show, add, build (precompute), import a CSV stock list.",
@@ -27,20 +31,20 @@ UNITS_OPTION = typer.Option("si", "--units", help="Display units: si (mm, kg/m, 
 JSON_OPTION = typer.Option(False, "--json", help="JSON in SI base units on stdout.")
 
 
-def _catalogue(paths: list[Path] | None) -> Any:
+def _catalogue(paths: list[Path] | None) -> Catalogue:
     from sizer.sections import default_catalogue_paths, load_catalogue
 
     return load_catalogue(paths or default_catalogue_paths(None))
 
 
-def _console() -> Any:
+def _console() -> Console:
     """The terminal's console (render.common.console: 80 columns when piped, unless COLUMNS says)."""
     from sizer.render.common import console
 
     return console()
 
 
-def _with_mass(catalogue: Any, specs: list[Any]) -> list[tuple[Any, Any, Any, str]]:
+def _with_mass(catalogue: Catalogue, specs: list[Any]) -> list[tuple[Any, Any, Any, str]]:
     """(spec, properties with the mass of its material, material name or None, note) per spec."""
     from sizer.sections import section_properties
 

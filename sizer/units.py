@@ -16,6 +16,7 @@ from typing import TYPE_CHECKING, Any, TypeVar
 from sizer.errors import InputError
 
 if TYPE_CHECKING:
+    from pathlib import Path
     import numpy as np
 
 Value = TypeVar("Value", float, "np.ndarray")  # one value, or many at once
@@ -217,7 +218,7 @@ def _unit_problem(shown: str, unit: str, kind: str) -> str:
     return f"{shown} is not {words}"
 
 
-def _unit_cache_path() -> Any:
+def _unit_cache_path() -> Path:
     from sizer.files import cache_root
 
     return cache_root() / UNIT_CACHE_NAME

@@ -3,10 +3,15 @@
 from __future__ import annotations
 
 import math
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from sizer.model import Member
 from sizer.printable import safe_console
+
+if TYPE_CHECKING:
+    from rich.console import Console
+    from rich.panel import Panel
+    from rich.progress import Progress
 
 CAUTIONS: tuple[str, ...] = (
     "These results rest on the allowable stresses entered by the user and on linear elastic, "
@@ -24,7 +29,7 @@ CAUTIONS: tuple[str, ...] = (
 PIPED_WIDTH = 80  # columns of output written to a file or pipe, unless COLUMNS says otherwise
 
 
-def console(stderr: bool = False) -> Any:
+def console(stderr: bool = False) -> Console:
     """A rich Console: the terminal's width as rich finds it (colour when the terminal supports it);
     PIPED_WIDTH columns when writing to a file or pipe, unless the COLUMNS variable gives a width."""
     import os
@@ -36,7 +41,7 @@ def console(stderr: bool = False) -> Any:
     return safe_console(stderr=stderr, highlight=False, soft_wrap=False, width=width)
 
 
-def progress_bar(description: str, transient: bool = False) -> Any:
+def progress_bar(description: str, transient: bool = False) -> Progress:
     """A rich progress bar on stderr (kept off stdout so JSON and TOML stay clean)."""
     from rich.progress import BarColumn, MofNCompleteColumn, Progress, TextColumn, TimeElapsedColumn
 
@@ -44,7 +49,7 @@ def progress_bar(description: str, transient: bool = False) -> Any:
                     TextColumn("{task.fields[section]}", markup=False), console=safe_console(stderr=True), transient=transient)
 
 
-def cautions_panel() -> Any:
+def cautions_panel() -> Panel:
     """The cautions in a visible panel (each a paragraph that wraps at the panel's width)."""
     from rich.console import Group
     from rich.panel import Panel
@@ -54,7 +59,7 @@ def cautions_panel() -> Any:
     return Panel(Group(*bullets(list(CAUTIONS), "!")), title="[bold]Cautions[/]", title_align="left", border_style="yellow", expand=True)
 
 
-def notes_panel(notes: list[str], title: str = "Assumptions made", system: str = "si") -> Any:
+def notes_panel(notes: list[str], title: str = "Assumptions made", system: str = "si") -> Panel:
     """The assumptions the tool made, one per paragraph, so that none is hidden; SI numbers in the
     notes are shown in the display units of `system` (render.si_text)."""
     from rich.console import Group

@@ -19,6 +19,8 @@ from sizer.render.common import CAUTIONS, cautions_panel, notes_panel
 from sizer.render.si_text import in_display_units
 
 if TYPE_CHECKING:
+    from sizer.render.text import Ledger
+    from rich.table import Table
     from rich.console import JustifyMethod
 
 UNITS_NOTE = "SI base units (m, N, N*m, Pa, kg/m, kg)"
@@ -126,7 +128,7 @@ def shown_notes(rows: list[dict], run_notes: list[str]) -> list[str]:
     return list(dict.fromkeys(notes + run_notes))
 
 
-def _members_table(rows: list[dict], system: str) -> Any:
+def _members_table(rows: list[dict], system: str) -> Ledger:
     """The members as a ledger: a column that does not fit at the terminal's width moves to the row's
     second line with its header (a number is never cut short)."""
     from rich.markup import escape
@@ -167,7 +169,7 @@ def _utilization_text(value: float | None) -> str:
     return f"[{style}]{value:.3f}[/]" if style else f"{value:.3f}"
 
 
-def _totals_table(totals: dict, system: str) -> Any:
+def _totals_table(totals: dict, system: str) -> Table:
     from rich import box
     from rich.table import Table
 

@@ -6,13 +6,17 @@ from __future__ import annotations
 import io
 import math
 from pathlib import Path
-from typing import Any, Callable, TypeVar
+from typing import TYPE_CHECKING, Any, Callable, TypeVar
 
 from sizer import units
 from sizer.files import write_atomic
 from sizer.render.common import CAUTIONS
 from sizer.render.axis_names import axis_words, named
 from sizer.sections import SectionProperties, SectionSpec
+
+if TYPE_CHECKING:
+    from sizer.render.text import Ledger
+    from sizer.sections.catalogue import Catalogue
 
 T = TypeVar("T")
 HANDBOOK = {"major": " (EN y-y, AISC x-x)", "minor": " (EN z-z, AISC y-y)", "equal": ""}  # docs/output.md maps the axes
@@ -36,7 +40,7 @@ def dimensions_text(spec: SectionSpec, system: str = "si") -> str:
     return " · ".join(parts) + f" {label}"
 
 
-def list_table(items: list[tuple[SectionSpec, SectionProperties, str]], system: str = "si", catalogue: Any = None) -> Any:
+def list_table(items: list[tuple[SectionSpec, SectionProperties, str]], system: str = "si", catalogue: Catalogue | None = None) -> Ledger:
     """The catalogue as a ledger: name, family, mass per length, A, Iz, Iy (units in the headers),
     with the shape and its dimensions on the line under each name (and its price and stock lengths
     where the `catalogue` gives any); the caption says which material gave each mass."""
@@ -66,7 +70,7 @@ def list_table(items: list[tuple[SectionSpec, SectionProperties, str]], system: 
     return table
 
 
-def _purchase_note(spec: SectionSpec, catalogue: Any, system: str) -> str:
+def _purchase_note(spec: SectionSpec, catalogue: Catalogue | None, system: str) -> str:
     """"; 1.45 EUR/kg; stocked, bars of 6.000 m, 12.00 m" where the catalogue gives purchase terms, else ""."""
     from rich.markup import escape
 
@@ -117,7 +121,7 @@ def property_rows(props: SectionProperties, system: str = "si") -> list[tuple[st
     return rows
 
 
-def show_renderables(spec: SectionSpec, props: SectionProperties, mass_note: str, system: str = "si", catalogue: Any = None) -> list[Any]:
+def show_renderables(spec: SectionSpec, props: SectionProperties, mass_note: str, system: str = "si", catalogue: Catalogue | None = None) -> list[Any]:
     """The `sections show` screen: dimensions, then every property with its unit and meaning."""
     from rich.markup import escape
 
@@ -141,7 +145,7 @@ def show_renderables(spec: SectionSpec, props: SectionProperties, mass_note: str
     return head + ["", body]
 
 
-def section_json(spec: SectionSpec, props: SectionProperties, mass_material: str | None, mass_note: str, catalogue: Any = None) -> dict[str, Any]:
+def section_json(spec: SectionSpec, props: SectionProperties, mass_material: str | None, mass_note: str, catalogue: Catalogue | None = None) -> dict[str, Any]:
     """`sections show --json`: SI base units."""
     from sizer.render.cost import purchase_json
 
@@ -173,7 +177,7 @@ def section_json(spec: SectionSpec, props: SectionProperties, mass_material: str
     return data
 
 
-def list_json(items: list[tuple[SectionSpec, SectionProperties, str | None]], catalogue: Any = None) -> dict[str, Any]:
+def list_json(items: list[tuple[SectionSpec, SectionProperties, str | None]], catalogue: Catalogue | None = None) -> dict[str, Any]:
     """`sections list --json`: {"sections": one small record per section, "cautions"}, SI base units;
     with the `catalogue`, each section's purchase terms too."""
     from sizer.render.cost import purchase_json

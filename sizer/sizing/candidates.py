@@ -27,6 +27,7 @@ from sizer.stability import StabilitySection
 from sizer.stability.section import SCALARS, section_of
 
 if TYPE_CHECKING:
+    from sizer.sections.properties import SectionProperties
     from sizer.sections.catalogue import Catalogue
     from sizer.sections.spec import SectionSpec
 
@@ -100,7 +101,7 @@ class Candidate:
     rank: tuple = ()  # its sort key (sizer.sizing.cost.Ranking.key)
 
     @cached_property
-    def props(self) -> Any:
+    def props(self) -> SectionProperties:
         from sizer.sections import section_properties
 
         return section_properties(self.spec, self.density)

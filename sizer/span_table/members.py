@@ -8,10 +8,13 @@ from __future__ import annotations
 import json
 import math
 from itertools import combinations as subsets
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from sizer.errors import InputError
 from sizer.span_table.spec import DEAD, IMPOSED, AppliedLoad, SpanTableSpec
+
+if TYPE_CHECKING:
+    from sizer.model import Member
 
 
 def member_document(spec: SpanTableSpec, section: str, span: float, imposed: AppliedLoad) -> dict:
@@ -174,7 +177,7 @@ def _toml_value(value: Any) -> str:
     raise TypeError(f"no TOML form for {type(value).__name__}")
 
 
-def trial_member(spec: SpanTableSpec, section: str, span: float, imposed: AppliedLoad) -> Any:
+def trial_member(spec: SpanTableSpec, section: str, span: float, imposed: AppliedLoad) -> Member:
     """The trial's Member, read from its member-file text by the normal reader; an error in a value
     that came from the span-table file names that file, its key and line."""
     from sizer import api

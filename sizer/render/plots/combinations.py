@@ -6,7 +6,7 @@ every combination, not only the governing one.
 
 from __future__ import annotations
 
-from typing import Any, Sequence
+from typing import TYPE_CHECKING, Any, Sequence
 
 import numpy as np
 
@@ -15,6 +15,9 @@ from sizer.design import Design
 from sizer.render.forces import is_planar
 from sizer.render.plots.diagrams import TITLES, diagram_samples
 from sizer.render.plots.style import DIAGRAM_HEIGHT, FIG_WIDTH, GAP, LEFT, style
+
+if TYPE_CHECKING:
+    from matplotlib.figure import Figure
 
 LINE_STYLES = ("-", "--", "-.", ":")
 INKS = ("#111111", "#1d3557", "#8a1c1c", "#2d5016", "#6b4a00")
@@ -35,7 +38,7 @@ def legend_columns(names: Sequence[str]) -> int:
     return max(1, min(3, LEGEND_CHARS // (longest + 10)))
 
 
-def build_combinations_figure(design: Design, system: str = "si") -> Any:
+def build_combinations_figure(design: Design, system: str = "si") -> Figure:
     """The figure; its attribute `sizer_panels` lists the panels top to bottom."""
     import matplotlib
     from matplotlib.figure import Figure

@@ -38,6 +38,7 @@ from sizer.render.plots.style import (
 )
 
 if TYPE_CHECKING:
+    from matplotlib.figure import Figure
     from matplotlib.axes import Axes
 
 LABEL_CHARS = 70  # a mark's label is wrapped to this many characters
@@ -49,7 +50,7 @@ def plot_envelope(design: Design, path: str | Path, combinations: list[str], sys
     write_atomic(path, figure_bytes(build_envelope_figure(design, combinations, system), image_format))
 
 
-def build_envelope_figure(design: Design, combinations: list[str], system: str = "si") -> Any:
+def build_envelope_figure(design: Design, combinations: list[str], system: str = "si") -> Figure:
     """The matplotlib Figure; its attribute `sizer_panels` lists the panels top to bottom."""
     import matplotlib
     from matplotlib.figure import Figure

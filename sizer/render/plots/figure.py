@@ -52,7 +52,7 @@ def plot_member(design: Design, path: str | Path, combination: str, report: Chec
 
 
 def build_figure(design: Design, combination: str, report: CheckReport | None = None, system: str = "si",
-                 buckled: bool = True) -> Any:
+                 buckled: bool = True) -> Figure:
     """The matplotlib Figure of the member and its diagrams for `combination`, and with a report the
     buckled shape of its governing stability check (unless `buckled` is False). Its attribute `sizer_panels` lists the panels top
     to bottom: [upright], elevation, [plan], N, V, M, [Vz, My, T], [deflection], [sideways, twist]; "upright" is the member drawn

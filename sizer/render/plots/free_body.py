@@ -6,7 +6,7 @@ member views' scale (a very short segment is widened, and said to be); across in
 
 from __future__ import annotations
 
-from typing import TYPE_CHECKING, Any
+from typing import TYPE_CHECKING
 
 import numpy as np
 
@@ -50,6 +50,7 @@ from sizer.render.plots.view_layout import (
 )
 
 if TYPE_CHECKING:
+    from matplotlib.figure import Figure
     from matplotlib.axes import Axes
 
 FREE_BODY_LEFT_PAD = 1.3  # inches left of end A for the reactions there and their labels
@@ -83,7 +84,7 @@ def free_body_items(design: Design, combination: str, x: float, side: str) -> tu
     return [p for p in points if on_segment(p.at)], kept_lines, supports
 
 
-def build_free_body_figure(design: Design, combination: str, x: float, side: str, system: str = "si") -> Any:
+def build_free_body_figure(design: Design, combination: str, x: float, side: str, system: str = "si") -> Figure:
     """The left segment [0, x] cut from the member: its factored loads, the support reactions on it
     and the internal actions on the cut face drawn in their positive sense with their values."""
     import matplotlib

@@ -17,6 +17,7 @@ from sizer.design import Design
 from sizer.render.plots.style import style
 
 if TYPE_CHECKING:
+    from matplotlib.figure import Figure
     from matplotlib.axes import Axes
 
 
@@ -45,7 +46,7 @@ def _turned(points: np.ndarray, orientation: str) -> np.ndarray:
     return np.column_stack([-points[:, 1], points[:, 0]])
 
 
-def section_picture(design: Design, system: str = "si") -> Any:
+def section_picture(design: Design, system: str = "si") -> Figure:
     """A drawing of the section outline with its centroid, shear centre, member axes and mesh nodes."""
     import matplotlib
     from matplotlib.figure import Figure

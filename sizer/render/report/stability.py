@@ -8,7 +8,7 @@ governing stability check. Values in display units.
 from __future__ import annotations
 
 import math
-from typing import Any
+from typing import TYPE_CHECKING
 
 from sizer import units
 from sizer.checks import CheckReport, CheckResult
@@ -17,6 +17,9 @@ from sizer.design import Design
 from sizer.render.basis import lateral_sigma, safety_text
 from sizer.render.plots.buckled_shape import buckling_pick, height_text, holds_at_supports
 from sizer.render.report.markup import _cell, _e, _fmt, _row, _table
+
+if TYPE_CHECKING:
+    from matplotlib.figure import Figure
 
 
 def _factor(value: float | None) -> str:
@@ -197,7 +200,7 @@ def _local_line(design: Design, result: CheckResult, system: str) -> str:
             f"peak compression in that wall {_fmt(result.demand, 'stress', system)}.")
 
 
-def buckled_figure(design: Design, report: CheckReport, system: str) -> Any:
+def buckled_figure(design: Design, report: CheckReport, system: str) -> Figure | None:
     """The buckled shape of the governing stability check as its own small figure, or None."""
     import matplotlib
     from matplotlib.figure import Figure
