@@ -18,6 +18,7 @@ from sizer.model import Member
 from sizer.render.common import CAUTIONS
 
 if TYPE_CHECKING:
+    from sizer.sizing import SizingResult
     from rich.console import Console, ConsoleOptions, RenderResult
     from sizer.checks import CheckReport
     from sizer.design import Design
@@ -293,7 +294,7 @@ class SizeOutcome:
     candidates: list[CandidateSummary]
     chosen: CheckOutcome | None
     notes: list[str]
-    result: Any = field(repr=False)  # sizer.sizing.SizingResult
+    result: SizingResult = field(repr=False)
     top: int = 3
     cautions: tuple[str, ...] = CAUTIONS
     units: str = "si"

@@ -16,6 +16,7 @@ from sizer.cli_common import run_guarded, unit_system
 from sizer.errors import InputError
 
 if TYPE_CHECKING:
+    from sizer.sections.spec import SectionSpec
     from rich.console import Console
     from sizer.sections.catalogue import Catalogue
 
@@ -190,7 +191,7 @@ def add_section(
     run_guarded(work)
 
 
-def added_dimensions(spec: Any, system: str) -> str:
+def added_dimensions(spec: SectionSpec, system: str) -> str:
     """The section's given dimensions in display units: "depth 60.00 mm, width 8.000 mm"."""
     from sizer import units
 

@@ -4,7 +4,7 @@
 from __future__ import annotations
 
 import math
-from typing import Any
+from typing import TYPE_CHECKING
 
 import numpy as np
 
@@ -30,13 +30,16 @@ from sizer.model import Member, PointLoad
 from sizer.stability import MemberStability
 from sizer.stability.boundary import warping_held
 
+if TYPE_CHECKING:
+    from sizer.sections.fields import UnitStressField
+
 
 SUPERPOSED_NOTE = ("Axial force and bending stress over the pattern arrangements by per-span superposition: at every station (and mesh "
                    "node) each patterned case's part on each span is found once; the worst arrangement is the fixed part plus the "
                    "contributions of one sign (exact; the arrangement with the case on no span included).")
 
 
-def check_design(design: Design, unit_field: Any, n_even: int = 200, stability: MemberStability | None = None,
+def check_design(design: Design, unit_field: UnitStressField, n_even: int = 200, stability: MemberStability | None = None,
                  validate_across: bool = True) -> CheckReport:
     """Every check of docs/design.md section 7 for the design's section, on the full stress field. `stability`:
     the member's MemberStability to reuse (sizing checks many sections of one member). With
@@ -89,7 +92,7 @@ def check_design(design: Design, unit_field: Any, n_even: int = 200, stability: 
                        torsion=torsion_summary(design, torsion, xs), second_order=second)
 
 
-def _superposed(design: Design, xs: np.ndarray, sides: np.ndarray, unit_field: Any, warping: np.ndarray) -> dict[str, ArrangedPeak | None] | None:
+def _superposed(design: Design, xs: np.ndarray, sides: np.ndarray, unit_field: UnitStressField, warping: np.ndarray) -> dict[str, ArrangedPeak | None] | None:
     """The peak bending stress ("bending") and axial tension and compression ("tension",
     "compression") over every pattern arrangement by per-span superposition (exact, one row per span
     and case instead of one per arrangement); None where the arrangements are not weighted sums of
@@ -110,7 +113,7 @@ def _superposed(design: Design, xs: np.ndarray, sides: np.ndarray, unit_field: A
     return found
 
 
-def with_warping_compression(actions: np.ndarray, warping: np.ndarray, unit_field: Any, area: float) -> np.ndarray:
+def with_warping_compression(actions: np.ndarray, warping: np.ndarray, unit_field: UnitStressField, area: float) -> np.ndarray:
     """Actions for the local wall check with the peak warping normal stress |B| max|omega| / Iw added
     as uniform compression to every wall (as an axial force of that stress x area): conservative."""
     extra = np.abs(warping[..., 0]) * unit_field.warping_peaks[0]

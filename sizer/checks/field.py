@@ -6,11 +6,14 @@ mesh node; FieldPeaks finds the largest over all rows without evaluating every r
 from __future__ import annotations
 
 from dataclasses import dataclass
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
 from sizer.checks.results import CHUNK_VALUES
+
+if TYPE_CHECKING:
+    from sizer.sections.fields import UnitStressField
 
 
 @dataclass(frozen=True)
@@ -33,7 +36,7 @@ def extended_rows(actions: np.ndarray, warping: np.ndarray | None) -> np.ndarray
     return rows
 
 
-def full_field_stresses(actions: np.ndarray, unit_field: Any, area: float, warping: np.ndarray | None = None) -> StationStresses:
+def full_field_stresses(actions: np.ndarray, unit_field: UnitStressField, area: float, warping: np.ndarray | None = None) -> StationStresses:
     """Peak stresses over the mesh nodes at each (combination, station); actions in section axes,
     warping (C, n, 2) the bimoment B (N*m^2) and warping torque Tw (N*m) (None: none). Bending is the
     normal stress from My, Mz and B (warping normal stress B omega / Iw); shear from Vy, Vz, the
@@ -67,7 +70,7 @@ class FieldPeaks:
 
     FIRST_BATCH = 8  # rows evaluated first; each later batch is twice the one before
 
-    def __init__(self, actions: np.ndarray, unit_field: Any, area: float, warping: np.ndarray | None = None) -> None:
+    def __init__(self, actions: np.ndarray, unit_field: UnitStressField, area: float, warping: np.ndarray | None = None) -> None:
         self.shape = actions.shape[:2]
         self.flat = actions.reshape(-1, 6)
         self.warping = None if warping is None else warping.reshape(-1, 2)
@@ -120,7 +123,7 @@ class ArrangedPeak:
     combination: str  # the arrangement's name
 
 
-def superposed_bending(sections: np.ndarray, switched: list, unit_field: Any) -> ArrangedPeak | None:
+def superposed_bending(sections: np.ndarray, switched: list, unit_field: UnitStressField) -> ArrangedPeak | None:
     """Exact largest bending normal stress |sigma from My and Mz| (Pa) over every mesh node, station
     and pattern arrangement, by per-span superposition (analysis.superposition): at each node and
     station the worst arrangement of each sign is the fixed part plus the switches of that sign.

@@ -15,11 +15,14 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, replace
-from typing import Any
+from typing import TYPE_CHECKING
 
 from sizer.analysis import solve_member
 from sizer.checks.results import CheckReport
 from sizer.design import Design
+
+if TYPE_CHECKING:
+    from sizer.sections.fields import UnitStressField
 
 TOLERANCE = 0.005  # the failing factor is at most this much (relative) above the factor given
 LARGEST = 1e6  # a reserve above this is reported as unbounded
@@ -73,7 +76,7 @@ def scaled_design(design: Design, combination: str, factor: float) -> Design:
     return Design(alone, solution, design.material, design.spec, design.props, design.stiffness, design.mass_per_length)
 
 
-def reserve_factor(design: Design, report: CheckReport, unit_field: Any, tolerance: float = TOLERANCE) -> Reserve:
+def reserve_factor(design: Design, report: CheckReport, unit_field: UnitStressField, tolerance: float = TOLERANCE) -> Reserve:
     """The reserve factor of the checked design (its CheckReport at the loads as given)."""
     from sizer.checks.design_check import check_design
 

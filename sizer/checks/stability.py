@@ -12,7 +12,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field, replace
-from typing import Any, Iterable
+from typing import TYPE_CHECKING, Iterable
 
 import numpy as np
 
@@ -21,6 +21,9 @@ from sizer.design import Design
 from sizer.errors import InputError
 from sizer.stability import Buckling, MemberStability, StabilitySection, minor_axis_is_weaker, stability_section
 from sizer.stability.section import has_weaker_axis
+
+if TYPE_CHECKING:
+    from sizer.stability.problem import SectionStability
 
 N, MZ = 0, 5
 FIELD_WORDS = {0: "movement along the section's depth", 1: "sideways movement", 2: "twisting about the member axis"}
@@ -53,7 +56,7 @@ class StabilityReport:
     section: StabilitySection
     lateral_reason: str
     combinations: list[CombinationStability] = field(default_factory=list)
-    solver: Any = None  # the section's solves (SectionStability), for solving bounded entries exactly
+    solver: SectionStability | None = None  # the section's solves, for solving bounded entries exactly
     elements: int = 0  # the most elements a converged load factor needed
     converged: bool = True  # False: some load factor was taken less its last change (see SectionStability)
     warping_elements: float = 0.0  # m: the elements next to the warping holds, where the mesh was graded towards them (else 0)
@@ -65,9 +68,11 @@ class StabilityReport:
 
     def solve_exactly(self, combinations: Iterable[int], design: Design, mass: float) -> None:
         """Replace the bounded lateral load factors of these combinations with their exact ones."""
+        solver = self.solver
+        assert solver is not None  # a bound is found only with the section's solves
         for c in combinations:
             entry = self.combinations[c]
-            found = _checked(self.solver.combination("lateral", c, mass), self.model, design, entry.combination)
+            found = _checked(solver.combination("lateral", c, mass), self.model, design, entry.combination)
             self.combinations[c] = replace(entry, lateral=found, lateral_bound=False)
 
 
@@ -123,7 +128,7 @@ def stability_mass(design: Design) -> float:
     return (design.mass_per_length or 0.0) if design.member.self_weight_case else 0.0
 
 
-def pattern_laterals(design: Design, actions: np.ndarray, xs: np.ndarray, solver: Any, mass: float) -> dict[int, tuple[Buckling, bool]]:
+def pattern_laterals(design: Design, actions: np.ndarray, xs: np.ndarray, solver: SectionStability, mass: float) -> dict[int, tuple[Buckling, bool]]:
     """combination -> (lateral Buckling, exact?) for the pattern arrangements of each combination,
     by branch and bound (sizer.checks.arrangement_stability): exact where it could give the largest
     lateral-torsional utilization, a proven lower bound of the load factor elsewhere. Empty without
@@ -158,7 +163,7 @@ def pattern_laterals(design: Design, actions: np.ndarray, xs: np.ndarray, solver
     return found
 
 
-def refinement_allowance(solver: Any, weights: np.ndarray) -> float:
+def refinement_allowance(solver: SectionStability, weights: np.ndarray) -> float:
     """The factor (at most 1) that the branch and bound's lower bounds, made on the base mesh, are
     multiplied by so that they stay below converged load factors: the base mesh's load factors lie
     above the converged ones (the finer meshes hold its shapes), by a relative change that depends on

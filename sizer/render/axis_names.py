@@ -5,12 +5,15 @@ axis. docs/output.md maps these to the handbooks' axis names.
 
 from __future__ import annotations
 
-from typing import Any
+from typing import TYPE_CHECKING, Any
+
+if TYPE_CHECKING:
+    from sizer.sections.properties import SectionProperties
 
 SAME = 1e-3  # second moments this close (relative): no major or minor axis
 
 
-def axis_words(props: Any) -> tuple[str, str]:
+def axis_words(props: SectionProperties) -> tuple[str, str]:
     """("major", "minor") for (Iz, Iy), or the reverse where Iy is larger; ("equal", "equal") for a
     section equally stiff about both."""
     if abs(props.Iz - props.Iy) <= SAME * max(props.Iz, props.Iy):
@@ -18,7 +21,7 @@ def axis_words(props: Any) -> tuple[str, str]:
     return ("major", "minor") if props.Iz > props.Iy else ("minor", "major")
 
 
-def named(symbol: str, props: Any) -> str:
+def named(symbol: str, props: SectionProperties) -> str:
     """"Iz (major)", "Iy (minor)", "Mz (major)" ...: a symbol whose last letter is its axis, with the
     word; the bare symbol for a section equally stiff about both axes."""
     z_word, y_word = axis_words(props)
@@ -26,7 +29,7 @@ def named(symbol: str, props: Any) -> str:
     return f"{symbol} ({word})" if word != "equal" else symbol
 
 
-def inertia_pair(props: Any, value: Any) -> str:
+def inertia_pair(props: SectionProperties, value: Any) -> str:
     """"Iz (major) = 833.2 cm⁴, Iy (minor) = 443.6 cm⁴", or "Iz = Iy = 131.2 cm⁴ (no major axis)";
     `value(x)` writes a second moment with its unit."""
     if axis_words(props)[0] == "equal":

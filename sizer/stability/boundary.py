@@ -16,7 +16,7 @@ that fibre, w + h phi = 0; a twist hold, phi = 0. A continuous restraint also ho
 
 from __future__ import annotations
 
-from typing import Any
+from typing import TYPE_CHECKING
 
 import numpy as np
 
@@ -24,23 +24,31 @@ from sizer.model import Member
 from sizer.stability.matrices import assemble
 from sizer.stability.mesh import Mesh
 
+if TYPE_CHECKING:
+    from sizer.model import Support
+    from sizer.stability.section import StabilitySection
+
 V, W, PHI = 0, 1, 2
 _FREEDOMS = {"major": {V: ("uy", "rz"), W: ("uz", "ry")}, "minor": {V: ("uz", "ry"), W: ("uy", "rz")}}
 Row = dict[int, float]
 
 
-def warping_held(support: Any) -> bool:
+def warping_held(support: Support) -> bool:
     """True when the support holds warping: as given, else when it holds rx, ry and rz (built in)."""
     if support.warping is not None:
         return support.warping == "held"
     return {"rx", "ry", "rz"} <= set(support.restrain)
 
 
-def height_value(height: str | float, section: Any) -> float:
-    """A restraint's or load's height above the shear centre (m): a face or a number."""
+def height_value(height: str | float, section: StabilitySection | None) -> float:
+    """A restraint's or load's height above the shear centre (m): a face or a number (`section`
+    may be None where no height is a face other than the centre)."""
     if height == "centre":
         return 0.0
-    return float(section.face_height(height)) if isinstance(height, str) else float(height)
+    if isinstance(height, str):
+        assert section is not None  # a face's height needs the section
+        return float(section.face_height(height))
+    return float(height)
 
 
 def _hinge_nodes(member: Member, mesh: Mesh) -> set[int]:
@@ -81,7 +89,7 @@ def _slope_rows(mesh: Mesh, node: int, field: int) -> list[Row]:
     return [{left: 1.0}] + ([{right: 1.0}] if right != left else [])
 
 
-def restraint_rows(member: Member, mesh: Mesh, section: Any) -> list[Row]:
+def restraint_rows(member: Member, mesh: Mesh, section: StabilitySection | None) -> list[Row]:
     """Constraint rows of the restraints (heights from `section`)."""
     rows: list[Row] = []
     for restraint in member.restraints:

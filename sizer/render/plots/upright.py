@@ -19,6 +19,7 @@ from sizer.render.plots.style import BEAM_HALF, GUIDE, INK, LOAD_INK, draw_arrow
 from sizer.render.plots.support_symbols import support_caption
 
 if TYPE_CHECKING:
+    from sizer.model import Support
     from matplotlib.axes import Axes
 
 UPRIGHT_HEIGHT = 3.0  # inches of the panel
@@ -80,7 +81,7 @@ def _dimension(ax: Axes, member: Member, system: str) -> None:
                   fontsize=7)
 
 
-def _support(ax: Axes, member: Member, support: Any, system: str) -> None:
+def _support(ax: Axes, member: Member, support: Support, system: str) -> None:
     """A base (a hatched ground line across the member) where it holds the member along x, side
     holds (short hatched walls on both sides) where it holds it only sideways; its caption beside."""
     y = height_of(member, support.at)

@@ -13,7 +13,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from typing import Any
+from typing import TYPE_CHECKING
 
 import numpy as np
 
@@ -24,6 +24,9 @@ from sizer.design import Design
 from sizer.render.report.hand_stability import hand_stability_html
 from sizer.render.report.markup import _e, _fmt
 from sizer.render.report.segment import cut_side, governing_cut
+
+if TYPE_CHECKING:
+    from sizer.sections.fields import UnitStressField
 
 STRESS_CHECKS = ("axial", "bending", "interaction", "shear", "equivalent", "lateral-torsional", "local")
 CLOSE = 0.02  # formula and field within 2 %: "they agree"
@@ -120,7 +123,7 @@ def _stress(value: float, system: str) -> str:
     return _fmt(value, "stress", system)
 
 
-def by_hand_lines(design: Design, station: Station, unit_field: Any, system: str) -> list[tuple[str, str, str]]:
+def by_hand_lines(design: Design, station: Station, unit_field: UnitStressField, system: str) -> list[tuple[str, str, str]]:
     """(what, the formula with numbers, the full field and how it compares) for each stress."""
     props = design.props
     N, Vy, Vz, T, My, Mz = (float(v) for v in station.actions)

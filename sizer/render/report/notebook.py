@@ -4,7 +4,7 @@ calculation record's own pieces (style, verdict, check rows, cautions) so the tw
 
 from __future__ import annotations
 
-from typing import TYPE_CHECKING, Any
+from typing import TYPE_CHECKING
 
 from sizer import units
 from sizer.render.basis import basis_text
@@ -15,6 +15,7 @@ from sizer.render.report.markup import STYLE, _e, _row, _table
 from sizer.render.si_text import in_display_units
 
 if TYPE_CHECKING:
+    from sizer.sizing import SizingResult
     from sizer.checks import CheckReport
     from sizer.design import Design
 
@@ -41,7 +42,7 @@ def check_summary_html(design: Design, report: CheckReport, notes: list[str], sy
     return _page(verdict_box(document, system) + checks_section(document, system, bases) + _notes(notes, system))
 
 
-def size_summary_html(result: Any, notes: list[str], top: int, system: str = "si") -> str:
+def size_summary_html(result: SizingResult, notes: list[str], top: int, system: str = "si") -> str:
     """The lightest passing section and the candidates around it."""
     from sizer.render.size import shown_candidates
 
