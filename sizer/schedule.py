@@ -18,13 +18,16 @@ import csv
 import io
 from dataclasses import dataclass, field, replace
 from pathlib import Path
-from typing import Any, Iterator, Literal, Sequence, overload
+from typing import TYPE_CHECKING, Any, Iterator, Literal, Sequence, overload
 
 from sizer.errors import InputError
 from sizer.files import read_text
 from sizer.printable import find_control
 from sizer.model import LineLoad, Member, PointLoad
 from sizer.parallel import Job, JobFailed, RunSummary, ShippedCatalogue, Workers, code_fingerprint, content_hash, error_result, result_error, ship_catalogue
+
+if TYPE_CHECKING:
+    from sizer.api import CheckOutcome
 
 TOP_KEYS = ("title", "members")
 MAX_QUANTITY = 1_000_000  # members of one row, at most (docs/limits.md)
@@ -336,7 +339,7 @@ def _purchase(member: Member, paths: Sequence[Path], section: str | None) -> dic
     return purchase_json(catalogue.purchase(catalogue.get(section)), catalogue.currency)
 
 
-def _record_html(checked: Any) -> str:
+def _record_html(checked: CheckOutcome) -> str:
     from sizer.render.report import report_html
 
     return report_html(checked.design, checked.report, checked.notes, checked.units)

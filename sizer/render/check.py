@@ -22,6 +22,7 @@ from sizer.render.forces import REACTION_NAMES, plural, reactions_ledger_values
 from sizer.render.text import Column, Heading, Ledger, Paragraph
 
 if TYPE_CHECKING:
+    from sizer.checks.torsion import TorsionSummary
     from rich.console import Console, ConsoleOptions, RenderResult
 
 QUANTITY_KINDS = {"stress": "stress", "deflection": "deflection", "force": "force"}
@@ -68,7 +69,7 @@ def check_entry(result: CheckResult) -> dict[str, Any]:
     }
 
 
-def torsion_json(summary: Any) -> dict[str, Any] | None:
+def torsion_json(summary: TorsionSummary | None) -> dict[str, Any] | None:
     """The torsion peaks (SI: N*m, N*m^2, m), or None when nothing twists the member."""
     if summary is None:
         return None

@@ -9,6 +9,7 @@ from sizer.model import Member
 from sizer.printable import safe_console
 
 if TYPE_CHECKING:
+    from sizer.analysis import MemberSolution
     from rich.console import Console
     from rich.panel import Panel
     from rich.progress import Progress
@@ -113,7 +114,7 @@ def area_load_notes(member: Member) -> list[str]:
     return ["Area loads as line loads, pressure x tributary width: " + "; ".join(parts) + "."]
 
 
-def small_deflection_cautions(solution: Any) -> list[str]:
+def small_deflection_cautions(solution: MemberSolution) -> list[str]:
     """A caution when a span deflects more than SMALL_DEFLECTION_FRACTION of its length
     (`solution`: analysis.MemberSolution; none without displacements)."""
     from sizer.checks.deflection import SMALL_DEFLECTION_FRACTION, large_deflection

@@ -8,6 +8,8 @@ from typing import TYPE_CHECKING, Any
 from sizer import units
 
 if TYPE_CHECKING:
+    from sizer.sections.purchase import Purchase
+    from sizer.sizing.cost import BarOrder, Costing
     from sizer.checks.reserve import Reserve
 
 
@@ -18,7 +20,7 @@ def money(value: float | None, currency: str | None) -> str:
     return f"{value:,.2f} {currency or '(no currency)'}"
 
 
-def bars_text(order: Any, system: str = "si") -> str:
+def bars_text(order: BarOrder | None, system: str = "si") -> str:
     """The bars of a sizer.sizing.cost.BarOrder in words: "bars 1 x 12.00 m + 1 x 6.000 m, offcut 0.600 m"."""
     if order is None:
         return "not available in one bar"
@@ -28,7 +30,7 @@ def bars_text(order: Any, system: str = "si") -> str:
     return f"bars {bars}, offcut {units.fmt(order.offcut, 'length', system)}"
 
 
-def bars_json(order: Any) -> dict[str, Any] | None:
+def bars_json(order: BarOrder | None) -> dict[str, Any] | None:
     """A BarOrder in SI (m): pieces, piece length, bars by stock length, metres bought, offcut."""
     if order is None:
         return None
@@ -37,7 +39,7 @@ def bars_json(order: Any) -> dict[str, Any] | None:
             "metres": order.metres, "offcut": order.offcut}
 
 
-def costing_json(costing: Any) -> dict[str, Any]:
+def costing_json(costing: Costing | None) -> dict[str, Any]:
     """A candidate's cost entries (sizer.sizing.cost.Costing) for the JSON documents."""
     if costing is None:
         return {}
@@ -62,19 +64,19 @@ def reserve_sentence(reserve: Reserve | None) -> str:
             f"{combination}, {reserve.scaled_words}, times {reserve.factor:.3f}.")
 
 
-def price_text(terms: Any, currency: str | None) -> str:
+def price_text(terms: Purchase, currency: str | None) -> str:
     """A section's price per kg ("1.45 EUR/kg"; "—" when not given)."""
     return f"{terms.cost_per_kg:g} {currency or '(no currency)'}/kg" if terms.cost_per_kg is not None else "—"
 
 
-def stock_text(terms: Any, system: str = "si") -> str:
+def stock_text(terms: Purchase, system: str = "si") -> str:
     """Whether a section is stocked, and in which bar lengths."""
     lengths = ("bars of " + ", ".join(units.fmt(length, "length", system) for length in terms.stock_lengths)
                if terms.stock_lengths else "cut to length")
     return f"stocked, {lengths}" if terms.is_stocked else f"not stocked ({lengths})"
 
 
-def purchase_json(terms: Any, currency: str | None) -> dict[str, Any]:
+def purchase_json(terms: Purchase, currency: str | None) -> dict[str, Any]:
     """A section's purchase terms (its own, else its family's) in SI (m)."""
     return {"cost_per_kg": terms.cost_per_kg, "currency": currency, "stocked": terms.is_stocked,
             "stock_lengths": list(terms.stock_lengths) if terms.stock_lengths else None}

@@ -11,7 +11,7 @@ largest utilization that has a buckled shape.
 from __future__ import annotations
 
 from dataclasses import dataclass
-from typing import TYPE_CHECKING, Any
+from typing import TYPE_CHECKING
 
 import numpy as np
 
@@ -22,6 +22,7 @@ from sizer.model import Restraint
 from sizer.render.plots.style import GOVERNING_INK, GUIDE, INK, LOAD_INK
 
 if TYPE_CHECKING:
+    from sizer.stability import MemberStability
     from matplotlib.axes import Axes
 
 STABILITY_CHECKS = {"lateral-torsional": "lateral", "buckling": "axial"}
@@ -36,7 +37,7 @@ class BucklingPick:
     combination: str
     load_factor: float
     mode: np.ndarray
-    model: Any  # sizer.stability.MemberStability
+    model: MemberStability
 
 
 def buckling_pick(report: CheckReport | None) -> BucklingPick | None:
@@ -88,7 +89,7 @@ def holds_at_supports(design: Design) -> list[tuple[float, bool, bool]]:
     return [(s.at, sideways in s.restrain or sideways in s.springs, "rx" in s.restrain or "rx" in s.springs) for s in design.member.supports]
 
 
-def draw_buckled_shape(ax_w: Any, ax_phi: Any, design: Design, pick: BucklingPick, system: str) -> None:
+def draw_buckled_shape(ax_w: Axes, ax_phi: Axes, design: Design, pick: BucklingPick, system: str) -> None:
     """The two panels: sideways w and twist phi, scaled to a largest value of 1, with the holds."""
     length = design.member.length
     xs, w, phi = shape_samples(pick, length)
@@ -111,7 +112,7 @@ def draw_buckled_shape(ax_w: Any, ax_phi: Any, design: Design, pick: BucklingPic
                     va="bottom", fontsize=7, color="#444444")
 
 
-def _draw_holds(ax_w: Any, ax_phi: Any, design: Design, system: str) -> None:
+def _draw_holds(ax_w: Axes, ax_phi: Axes, design: Design, system: str) -> None:
     """Supports (triangles: holds there) and restraints (squares at a point, hatched strips when
     continuous) on the panel of what they hold."""
     for x, sideways, twist in holds_at_supports(design):

@@ -28,6 +28,7 @@ from sizer.render.plots.style import (
 )
 
 if TYPE_CHECKING:
+    from sizer.checks import CheckResult
     from matplotlib.axes import Axes
 
 TITLES = {
@@ -169,16 +170,18 @@ def _mark_guides(axes: dict[str, Any], member: Member) -> None:
             ax.axvline(x, color=GUIDE, lw=0.5, ls=":", zorder=1)
 
 
-def mark_governing(axes: dict[str, Any], governing: Any) -> None:
+def mark_governing(axes: dict[str, Axes], governing: CheckResult) -> None:
     """A dash-dot line at the governing station through every panel, tagged in the member view."""
+    at = governing.at
+    assert at is not None  # marked only for a check with its place
     for ax in axes.values():
         low, high = ax.get_ylim()
-        ax.plot([governing.at, governing.at], [low, high], color=GOVERNING_INK, lw=1.0, ls="-.", zorder=7)
+        ax.plot([at, at], [low, high], color=GOVERNING_INK, lw=1.0, ls="-.", zorder=7)
         ax.set_ylim(low, high)
     view = axes["elevation"]
     low, high = view.get_xlim()
-    right_half = governing.at > (low + high) / 2
+    right_half = at > (low + high) / 2
     offset = 0.012 * (high - low) * (-1 if right_half else 1)
-    draw_text(view, governing.at + offset, view.get_ylim()[0] + 0.04,
+    draw_text(view, at + offset, view.get_ylim()[0] + 0.04,
               f"governing station: {governing.check}, utilization {governing.utilization:.3f}", color=GOVERNING_INK,
               va="bottom", ha="right" if right_half else "left", fontsize=7.5, fontweight="bold")

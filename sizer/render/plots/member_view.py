@@ -5,7 +5,7 @@ the axis triad. Heights in inches of paper from the member axis.
 
 from __future__ import annotations
 
-from typing import TYPE_CHECKING, Any
+from typing import TYPE_CHECKING
 
 from sizer import units
 from sizer.model import Member
@@ -24,6 +24,7 @@ from sizer.render.plots.support_symbols import draw_support
 from sizer.render.plots.view_layout import MemberView
 
 if TYPE_CHECKING:
+    from sizer.model import Restraint
     from matplotlib.axes import Axes
 
 
@@ -59,7 +60,7 @@ def draw_beam(ax: Axes, start: float, end: float) -> None:
     ax.add_patch(Rectangle((start, -BEAM_HALF), end - start, 2 * BEAM_HALF, facecolor="#bdbdbd", edgecolor=INK, lw=1.0, zorder=3))
 
 
-def draw_restraint(ax: Axes, restraint: Any) -> None:
+def draw_restraint(ax: Axes, restraint: Restraint) -> None:
     """A restraint against buckling: a filled square on the member at a point, a hatched strip just
     under the member where it is continuous (what it holds is in the record's inputs)."""
     from matplotlib.patches import Rectangle

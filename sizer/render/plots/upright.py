@@ -8,7 +8,7 @@ Panel coordinates are inches of paper.
 
 from __future__ import annotations
 
-from typing import TYPE_CHECKING, Any
+from typing import TYPE_CHECKING
 
 import numpy as np
 
@@ -19,6 +19,7 @@ from sizer.render.plots.style import BEAM_HALF, GUIDE, INK, LOAD_INK, draw_arrow
 from sizer.render.plots.support_symbols import support_caption
 
 if TYPE_CHECKING:
+    from sizer.model import Restraint
     from sizer.model import Support
     from matplotlib.axes import Axes
 
@@ -100,7 +101,7 @@ def _support(ax: Axes, member: Member, support: Support, system: str) -> None:
               va="bottom" if outward > 0 else "top", fontsize=7)
 
 
-def _restraint(ax: Axes, member: Member, restraint: Any) -> None:
+def _restraint(ax: Axes, member: Member, restraint: Restraint) -> None:
     """A restraint: a filled square on the member at a point, a hatched strip along it when continuous."""
     from matplotlib.patches import Rectangle
 
