@@ -5,9 +5,12 @@ from __future__ import annotations
 
 import sys
 from pathlib import Path
-from typing import Sequence
+from typing import TYPE_CHECKING, Sequence
 
 from sizer.errors import InputError
+
+if TYPE_CHECKING:
+    from sizer.api import SizeOutcome
 
 
 def _print_document(document: dict) -> None:
@@ -110,12 +113,12 @@ def run_size(file: Path, catalogue: Sequence[Path], families: list[str], max_dep
     return 0 if outcome.passes else 1
 
 
-def _write_chosen_record(outcome: object, out: Path, system: str) -> None:
+def _write_chosen_record(outcome: SizeOutcome, out: Path, system: str) -> None:
     """The calculation record of the section `size` chose (sizer.api.SizeOutcome), or a line saying
     that nothing passed, so there is no record."""
     from sizer.render.report import write_report
 
-    chosen = outcome.chosen  # type: ignore[attr-defined]
+    chosen = outcome.chosen
     if chosen is None:
         sys.stderr.write(f"sizer: no section passes, so no calculation record was written to {out}.\n")
         return

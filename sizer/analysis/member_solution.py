@@ -150,7 +150,7 @@ class MemberSolution:
         """(n, 6) N, Vy, Vz, T, My, Mz of one combination."""
         return self.weighted_actions(self._row(combination)[None, :], x, side)[0]
 
-    def all_actions(self, x: ArrayLike, side: str | ArrayLike = "right", mass_per_length: float | None = ...) -> np.ndarray:  # type: ignore[assignment]
+    def all_actions(self, x: ArrayLike, side: str | ArrayLike = "right", mass_per_length: float | None | EllipsisType = ...) -> np.ndarray:
         """(n_combinations, n, 6) = weights @ case_actions."""
         return self.weighted_actions(self.weights(mass_per_length), x, side)
 
@@ -168,7 +168,7 @@ class MemberSolution:
         """(n, 6) ux, uy, uz, rx, ry, rz of one combination; ValueError without stiffness."""
         return self.weighted_displacements(self._row(combination)[None, :], x, side)[0]
 
-    def all_displacements(self, x: ArrayLike, side: str | ArrayLike = "right", mass_per_length: float | None = ...) -> np.ndarray:  # type: ignore[assignment]
+    def all_displacements(self, x: ArrayLike, side: str | ArrayLike = "right", mass_per_length: float | None | EllipsisType = ...) -> np.ndarray:
         """(n_combinations, n, 6) displacements of every combination."""
         return self.weighted_displacements(self.weights(mass_per_length), x, side)
 

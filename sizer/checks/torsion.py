@@ -33,8 +33,7 @@ def may_twist(member: Member, shape: str) -> bool:
     off the shear centre by a distance, or a load at the centroid of a shape whose shear centre is
     elsewhere."""
     for load in member.loads:
-        moment = getattr(load, "moment", None)
-        torque = moment[0] if moment is not None else max(abs(load.q_start[3]), abs(load.q_end[3]))  # type: ignore[union-attr]
+        torque = load.moment[0] if isinstance(load, PointLoad) else max(abs(load.q_start[3]), abs(load.q_end[3]))
         if torque or isinstance(load.across, float) and load.across != 0.0:
             return True
         if load.across == "centroid" and shape not in SYMMETRIC_SHAPES:

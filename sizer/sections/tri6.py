@@ -14,6 +14,7 @@ tests/test_tiers.py holds every result to sectionproperties' own on the same mes
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import Any
 
 import numpy as np
 
@@ -151,16 +152,17 @@ def _normalised_warping(omega: np.ndarray, xy: np.ndarray, inertia: Inertia, int
     return omega - c0 - cx * xy[:, 0] - cy * xy[:, 1]
 
 
-def _warping_shear(bordered: object, four: Quadrature, six: Quadrature, elements: np.ndarray, count: int, omega: np.ndarray) -> np.ndarray:
+def _warping_shear(bordered: Any, four: Quadrature, six: Quadrature, elements: np.ndarray, count: int, omega: np.ndarray) -> np.ndarray:
     """(n, 2) shear stresses (tau_zx, tau_zy) per unit warping torque Tw (N/mm^2 per N mm): tau = grad chi
     with laplacian(chi) = omega / Iw and no stress across the outline (equilibrium with the warping
-    normal stress B omega / Iw, dB/dx = -Tw). Zero when the warping constant is zero."""
+    normal stress B omega / Iw, dB/dx = -Tw). Zero when the warping constant is zero. `bordered`:
+    scipy's SuperLU factor of the bordered stiffness (scipy is untyped)."""
     at_points = np.einsum("gk,ek->eg", four.n, omega[elements])
     warping_constant = float(np.sum(four.weight * at_points**2))
     if warping_constant <= 0.0:
         return np.zeros((count, 2))
     load = -_assembled(elements, count, np.einsum("eg,gk,eg->ek", four.weight, four.n, at_points)) / warping_constant
-    chi = bordered.solve(np.append(load, 0.0))[:count]  # type: ignore[attr-defined]
+    chi = bordered.solve(np.append(load, 0.0))[:count]
     return _at_nodes(elements, count, np.einsum("egdk,ek->egd", six.b, chi[elements]))
 
 
