@@ -71,7 +71,7 @@ def write_report(design: Design, report: CheckReport, notes: list[str], out_path
 def pdf_bytes(text: str) -> bytes | None:
     """The HTML rendered to PDF by weasyprint, or None when weasyprint is not installed."""
     try:
-        import weasyprint  # type: ignore[import-not-found]
+        import weasyprint
     except ImportError:
         return None
     return weasyprint.HTML(string=text).write_pdf()
