@@ -58,7 +58,8 @@ class StabilityReport:
     combinations: list[CombinationStability] = field(default_factory=list)
     solver: SectionStability | None = None  # the section's solves, for solving bounded entries exactly
     elements: int = 0  # the most elements a converged load factor needed
-    converged: bool = True  # False: some load factor was taken less its last change (see SectionStability)
+    converged: bool = True  # False: some load factor was not converged within 5 halvings, taken less its last change (see SectionStability)
+    lowered: bool = False  # True: some load factor was taken less the error left, extrapolated (see SectionStability)
     warping_elements: float = 0.0  # m: the elements next to the warping holds, where the mesh was graded towards them (else 0)
 
     def bounded(self, names: Iterable[str | None]) -> list[int]:
@@ -117,7 +118,7 @@ def stability_report(design: Design, actions: np.ndarray, xs: np.ndarray, model:
         report.combinations.append(CombinationStability(
             name, float(compression[at_n]), float(xs[at_n]), float(moments[at_m]), float(xs[at_m]),
             float(np.sign(actions[c, at_m, MZ]) or 1.0), axial, lateral, bound))
-    report.elements, report.converged = solver.elements, solver.converged
+    report.elements, report.converged, report.lowered = solver.elements, solver.converged, solver.lowered
     if solver.model is not model:
         report.warping_elements = solver.warping_elements()
     return report

@@ -190,18 +190,27 @@ class MemberStability:
         return {name: np.einsum("ni,ni->n", shapes, mode[self.mesh.element_freedoms(k)[e]]) for k, name in enumerate(FIELDS)}
 
 
-CONVERGED = 1e-4  # a load factor is taken when halving every element changes it by less than this, relative
+CONVERGED = 1e-4  # a load factor is taken within this (relative) of the converged value
+RATE = 4.0  # each halving of the elements is taken to cut a load factor's error by at least this (see SectionStability)
 HALVINGS = 5  # at most this many halvings of the elements (and SIZE_LIMIT freedoms)
 SIZE_LIMIT = 200_000
 
 
 class SectionStability:
     """One section on the member: K and the admissible freedoms made once, for any load set. Every
-    load factor is converged: the solve is made again with every element cut in two until the load
-    factor changes by less than CONVERGED (relative; the finer mesh's shapes include the coarser's,
-    so the load factors fall as the mesh is refined, towards the member's). Should HALVINGS halvings
-    not reach that, the last value less its last change is taken (on the safe side while each
-    halving at least halves the error; the elements converge as h^4) and `converged` says so."""
+    load factor is converged: the solve is made again with every element cut in two (the finer
+    mesh's shapes include the coarser's, so the load factors fall as the mesh is refined, towards
+    the member's) until the error left is at most CONVERGED (relative). Each halving is taken to cut
+    the error by at least RATE (the cubic elements converge as h^4, 16 per halving once the mesh
+    follows the mode; the lowest ratio of successive changes measured on the demos is 4.0), or by
+    the ratio of the last two changes where that is lower (not below 2): the error left is then at
+    most the last change / (ratio - 1). Taken:
+    - the last value where its change is at most CONVERGED (at most CONVERGED above the converged
+      value, even for a ratio of 2);
+    - else, where the error left is at most CONVERGED, the last value less it (the extrapolated value,
+      at or below the converged one: the safe side; within CONVERGED of it) and `lowered` says so.
+    Should HALVINGS halvings not reach that, the last value less its last change is taken (on the
+    safe side while each halving at least halves the error) and `converged` says so."""
 
     def __init__(self, model: MemberStability, section: StabilitySection, stiffness: np.ndarray, basis: np.ndarray,
                  base: Mesh | None = None) -> None:
@@ -213,6 +222,7 @@ class SectionStability:
         self._finer: SectionStability | None = None
         self.elements = len(model.mesh.nodes) - 1  # the most elements an accepted load factor needed
         self.converged = True  # False when some load factor was not converged within HALVINGS
+        self.lowered = False  # True when some load factor was taken less its last change (within SETTLED)
 
     def warping_elements(self) -> float:
         """The shortest element (m) next to a support that holds warping, on this level's mesh."""
@@ -250,6 +260,11 @@ class SectionStability:
             if fine.free_movement or _agree(found.load_factor, fine.load_factor):
                 self.elements = max(self.elements, len(finer.model.mesh.nodes) - 1)
                 return Buckling(fine.load_factor, finer.on_base(fine.mode), fine.free_movement)
+            extrapolated = _extrapolated(previous, found.load_factor, fine.load_factor)
+            if extrapolated is not None:
+                self.elements = max(self.elements, len(finer.model.mesh.nodes) - 1)
+                self.lowered = True
+                return Buckling(extrapolated, finer.on_base(fine.mode))
             level, found, previous = finer, fine, found.load_factor
         self.converged = False
         self.elements = max(self.elements, len(level.model.mesh.nodes) - 1)
@@ -321,6 +336,21 @@ def _agree(coarse: float, fine: float) -> bool:
     if math.isinf(coarse) and math.isinf(fine):
         return True
     return abs(coarse - fine) <= CONVERGED * abs(fine)
+
+
+def _extrapolated(before: float, coarse: float, fine: float) -> float | None:
+    """The finer mesh's load factor less the error left after it, last change / (ratio - 1), when that
+    is at most CONVERGED (relative), else None. The ratio: RATE, or that of the last two changes
+    (`before`, `coarse`, `fine`: three successive meshes' load factors; `before` infinite when there
+    were two) where lower, not below 2."""
+    change = abs(coarse - fine)
+    if not (math.isfinite(coarse) and math.isfinite(fine)) or fine <= 0.0:
+        return None
+    ratio = RATE
+    if math.isfinite(before) and change > 0.0:
+        ratio = max(min(RATE, abs(before - coarse) / change), 2.0)
+    left = change / (ratio - 1.0)
+    return fine - left if left <= CONVERGED * fine else None
 
 
 LoadShape = tuple[tuple[int, bool, float], ...]  # (column, positive, |weight| / largest |weight|) of a load set
