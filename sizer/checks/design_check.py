@@ -40,11 +40,12 @@ SUPERPOSED_NOTE = ("Axial force and bending stress over the pattern arrangements
 
 
 def check_design(design: Design, unit_field: UnitStressField, n_even: int = 200, stability: MemberStability | None = None,
-                 validate_across: bool = True) -> CheckReport:
+                 validate_across: bool = True, scaled: tuple[StabilityReport, float] | None = None) -> CheckReport:
     """Every check of docs/design.md section 7 for the design's section, on the full stress field. `stability`:
     the member's MemberStability to reuse (sizing checks many sections of one member). With
     `validate_across` a load placed across the section beyond it is bad input (sizing checks every
-    candidate with the load where given, as on a bracket)."""
+    candidate with the load where given, as on a bracket). `scaled`: the stability report of this
+    section on the member as given and the factor on its loads (see stability_report)."""
     xs, sides = check_stations(design, n_even)
     names = design.solution.combination_names
     if validate_across:
@@ -57,7 +58,7 @@ def check_design(design: Design, unit_field: UnitStressField, n_even: int = 200,
     warping = torsion.warping() if second is None else torsion.warping() + second.warping
     stress = FieldPeaks(actions, unit_field, design.props.area, warping)
     arranged = None if second is not None else _superposed(design, xs, sides, unit_field, warping)  # second order: not a weighted sum
-    report = stability_report(design, to_section_axes(first, design.member.orientation), xs, stability)
+    report = stability_report(design, to_section_axes(first, design.member.orientation), xs, stability, scaled)
     given = given_length_axes(design.member, design.props, design.known_material)
     columns = column_buckling(design, report, given)
     fb = _bending_allowable(design, report)

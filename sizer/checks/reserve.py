@@ -88,7 +88,8 @@ def reserve_factor(design: Design, report: CheckReport, unit_field: UnitStressFi
     def utilization(factor: float) -> tuple[bool, float]:
         nonlocal count
         count += 1
-        checked = check_design(scaled_design(design, combination, factor), unit_field)
+        known = (report.stability, factor) if report.stability is not None else None
+        checked = check_design(scaled_design(design, combination, factor), unit_field, scaled=known)
         return checked.passes, checked.utilization
 
     passing, failing = (1.0, math.inf) if report.passes else (0.0, 1.0)

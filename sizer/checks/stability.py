@@ -90,10 +90,19 @@ def lateral_not_applicable(design: Design, section: StabilitySection, moments: n
     return ""
 
 
-def stability_report(design: Design, actions: np.ndarray, xs: np.ndarray, model: MemberStability | None = None) -> StabilityReport:
+def stability_report(design: Design, actions: np.ndarray, xs: np.ndarray, model: MemberStability | None = None,
+                     scaled: tuple[StabilityReport, float] | None = None) -> StabilityReport:
     """The stability of the design's section under every combination; `actions` (C, S, 6) in the
     section's axes at the check stations `xs` (m). `model`: a MemberStability of this member to
-    reuse (its section-independent parts), else one is built."""
+    reuse (its section-independent parts), else one is built. `scaled`: (the report of this section
+    on the member as given, factor) where each combination of the design is the one of that name
+    there with every load (self-weight included) times factor (the reserve factor's checks): its
+    load factors are those divided by factor (the same load shape: K d = lam B d with B times
+    factor), solved again only where that report lacks them."""
+    if scaled is not None:
+        found = _scaled_report(design, actions, xs, *scaled)
+        if found is not None:
+            return found
     model = model or MemberStability(design.member, design.solution)
     section = stability_section(design.props, design.known_material.elastic_modulus, design.known_material.shear_modulus)
     reason = lateral_not_applicable(design, section, actions[..., MZ])
@@ -122,6 +131,39 @@ def stability_report(design: Design, actions: np.ndarray, xs: np.ndarray, model:
     if solver.model is not model:
         report.warping_elements = solver.warping_elements()
     return report
+
+
+def _scaled_report(design: Design, actions: np.ndarray, xs: np.ndarray, known: StabilityReport, factor: float) -> StabilityReport | None:
+    """stability_report from `known` with its load factors divided by `factor` (see stability_report);
+    None where a combination of the design is not in `known` with its buckling solved, or where the
+    demands call for a solve that `known` did not make (a demand at the threshold of ZERO_ACTION)."""
+    entries = {entry.combination: entry for entry in known.combinations}
+    report = StabilityReport(known.model, known.section, known.lateral_reason, solver=known.solver, elements=known.elements,
+                             converged=known.converged, lowered=known.lowered, warping_elements=known.warping_elements)
+    if not factor > 0.0 or lateral_not_applicable(design, known.section, actions[..., MZ]) != known.lateral_reason:
+        return None
+    for c, name in enumerate(design.solution.combination_names):
+        entry = entries.get(name)
+        if entry is None or entry.lateral_bound:
+            return None
+        compression = np.maximum(-actions[c, :, N], 0.0)
+        moments = np.abs(actions[c, :, MZ])
+        at_n, at_m = int(np.argmax(compression)), int(np.argmax(moments))
+        needs_axial = compression[at_n] > ZERO_ACTION
+        needs_lateral = not known.lateral_reason and moments[at_m] > ZERO_ACTION
+        if needs_axial != (entry.axial is not None) or needs_lateral != (entry.lateral is not None):
+            return None
+        report.combinations.append(CombinationStability(
+            name, float(compression[at_n]), float(xs[at_n]), float(moments[at_m]), float(xs[at_m]),
+            float(np.sign(actions[c, at_m, MZ]) or 1.0), _divided(entry.axial, factor), _divided(entry.lateral, factor)))
+    return report
+
+
+def _divided(buckling: Buckling | None, factor: float) -> Buckling | None:
+    """The buckling of the load set times `factor`: the load factor divided by it, the shape the same."""
+    if buckling is None:
+        return None
+    return Buckling(buckling.load_factor / factor, buckling.mode, buckling.free_movement)
 
 
 def stability_mass(design: Design) -> float:
