@@ -274,9 +274,9 @@ class CandidateSummary:
     section: str
     mass_per_length: float
     utilization: float
-    passes: bool
+    passes: bool | None  # None: a runner-up not checked in full (basis "not checked in full")
     governing: str
-    basis: str  # "full stress field" or "screen"
+    basis: str  # "full stress field", "screen" or "not checked in full"
     cost: float | None = None  # of the member in this section (the catalogue's currency); None: no price or not available
 
 
@@ -321,12 +321,16 @@ class SizeOutcome:
 
 def size(member: MemberLike, catalogue: Sequence[str | Path] = (), families: Sequence[str] = (),
          max_depth: float | str | None = None, max_width: float | str | None = None, top: int = 3, units: str = "si",
-         progress: Progress | None = None, by: str = "mass", include_unstocked: bool = False, reserve: bool = True) -> SizeOutcome:
+         progress: Progress | None = None, by: str = "mass", include_unstocked: bool = False, reserve: bool = True,
+         check_runners_up: bool = False) -> SizeOutcome:
     """The lightest catalogue section that passes every check (or the cheapest, or the shallowest:
     `by` "mass", "cost" or "depth"), the ones ranked before it that fail (why) and the next ones
     that pass (`top` each side); sections not stocked or not available in one bar rank after the
     others unless `include_unstocked`. `progress(done, total, name)` hears of section properties
-    computed first. With `reserve`, the chosen section's reserve factor too (a few more full checks)."""
+    computed first. With `reserve`, the chosen section's reserve factor too (a few more full checks).
+    The runners-up after the choice are checked in full with `check_runners_up`; else they are the
+    next sections no proven lower bound rules out, not checked in full (`passes` None, basis "not
+    checked in full")."""
     from sizer.design import catalogue_for, resolve_material
     from sizer.errors import InputError
     from sizer.render.common import member_notes, small_deflection_cautions
@@ -343,7 +347,7 @@ def size(member: MemberLike, catalogue: Sequence[str | Path] = (), families: Seq
     catalogue_data = catalogue_for(member, [Path(path) for path in catalogue])
     material = resolve_material(member, catalogue_data)
     ranking = Ranking(by, include_unstocked, catalogue_data.currency)
-    result = size_member(member, catalogue_data, material, families, depth, width, top, progress, ranking)
+    result = size_member(member, catalogue_data, material, families, depth, width, top, progress, ranking, check_runners_up)
     notes = member_notes(member) + result.notes
     chosen = result.chosen
     if chosen is not None and reserve:

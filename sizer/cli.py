@@ -103,6 +103,8 @@ def size(
     max_depth: Optional[str] = typer.Option(None, "--max-depth", help='Largest depth as installed, e.g. "300 mm".'),
     max_width: Optional[str] = typer.Option(None, "--max-width", help='Largest width as installed, e.g. "150 mm".'),
     top: int = typer.Option(3, "--top", help="How many runners-up to show on each side of the choice."),
+    check_runners_up: bool = typer.Option(False, "--check-runners-up", help="Check the runners-up after the choice in full "
+                                          "(default: shown from proven lower bounds, not checked)."),
     by: str = typer.Option("mass", "--by", help="Rank by mass (per length), cost (of the bars the member takes) or depth."),
     include_unstocked: bool = typer.Option(False, "--include-unstocked", help="Rank sections not stocked, or longer than every "
                                            "stock length, with the others (default: after them)."),
@@ -117,7 +119,7 @@ def size(
         from sizer.commands import run_size
 
         return run_size(file, catalogue or [], family or [], max_depth, max_width, top, json_output, unit_system(units_system),
-                        report_out, by, include_unstocked)
+                        report_out, by, include_unstocked, check_runners_up)
 
     run_guarded(work)
 

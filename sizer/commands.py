@@ -84,7 +84,7 @@ def run_check(file: Path, section: str | None, catalogue: Sequence[Path], json_o
 
 def run_size(file: Path, catalogue: Sequence[Path], families: list[str], max_depth: str | None, max_width: str | None,
              top: int, json_output: bool, system: str, report_out: Path | None = None, by: str = "mass",
-             include_unstocked: bool = False) -> int:
+             include_unstocked: bool = False, check_runners_up: bool = False) -> int:
     """`sizer size`: exit 0 when a section passes, 1 when none does. `report_out`: also write the
     calculation record of the chosen section there (a line on stderr says where, or why not)."""
     from sizer import api
@@ -103,7 +103,7 @@ def run_size(file: Path, catalogue: Sequence[Path], families: list[str], max_dep
     member = api.read_member(file)
     outcome = with_build_progress("Section properties (first use of these shapes)",
                                   lambda progress: api.size(member, catalogue, families, max_depth, max_width, top, system, progress,
-                                                                     by, include_unstocked))
+                                                                     by, include_unstocked, check_runners_up=check_runners_up))
     if json_output:
         _print_document(outcome.to_json())
     else:

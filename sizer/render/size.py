@@ -24,16 +24,22 @@ def shown_candidates(result: SizingResult, top: int) -> list[Candidate]:
         return [c for c in result.candidates if c.report is not None]
     position = result.candidates.index(result.chosen)
     lighter = result.candidates[max(0, position - top):position]
-    heavier = [c for c in result.candidates[position + 1:] if c.report is not None and c.report.passes and c not in result.unavailable][:top]
+    heavier = [c for c in result.candidates[position + 1:] if _runner_up(c) and c not in result.unavailable][:top]
     return lighter + [result.chosen] + heavier + result.unavailable
 
 
+def _runner_up(candidate: Candidate) -> bool:
+    """A heavier section shown after the choice: it passes its full check, or it is shown unchecked."""
+    return (candidate.report is not None and candidate.report.passes) or candidate.unchecked
+
+
 def candidate_entry(candidate: Candidate) -> dict[str, Any]:
+    """A candidate in the JSON document; "passes" is null for a runner-up not checked in full."""
     return {
         "section": candidate.name,
         "mass_per_length": candidate.mass_per_length,
         "utilization": candidate.utilization,
-        "passes": candidate.passes,
+        "passes": None if candidate.unchecked else candidate.passes,
         "governing": candidate.governing,
         "basis": candidate.decided_by,
         "utilization_is_lower_bound": candidate.report is None,
@@ -50,7 +56,7 @@ def listed_candidates(result: SizingResult) -> list[Candidate]:
     if chosen is None:
         return list(result.candidates)
     position = result.candidates.index(chosen)
-    after = [c for c in result.candidates[position + 1:] if (c.report is not None and c.report.passes) or c in result.unavailable]
+    after = [c for c in result.candidates[position + 1:] if _runner_up(c) or c in result.unavailable]
     return result.candidates[:position + 1] + after
 
 
@@ -110,12 +116,14 @@ def candidates_ledger(result: SizingResult, top: int, system: str) -> Ledger:
     ledger = Ledger(f"Candidates by {RANKED[by][0]}", columns + [
         Column("utilization"), Column("governing", fold=True), Column("status", fold=True), Column("decided by", fold=True)],
         caption="decided by: \"full field\" = the full stress-field check, as `sizer check` makes it; \"screen\" = "
-                "ruled out by a proven lower bound of that check (the true utilization is at least the one shown).")
+                "ruled out by a proven lower bound of that check (the true utilization is at least the one shown)." + (
+                    " \"bounds only\" = a runner-up that no proven lower bound rules out, not checked in full: it may pass or fail "
+                    "(--check-runners-up checks it)." if any(c.unchecked for c in shown_candidates(result, top)) else ""))
     for candidate in shown_candidates(result, top):
         is_chosen = candidate is result.chosen
         bound = candidate.report is None
         cell = utilization_cell(candidate.utilization)
-        status = PASSES if candidate.passes else f"[reverse]{FAILS}[/]"
+        status = "not checked" if candidate.unchecked else PASSES if candidate.passes else f"[reverse]{FAILS}[/]"
         cost_cell = [money(candidate.costing.cost, ranking.currency) if candidate.costing.available or candidate.costing.cost is not None
                      else "n/a"] if costs else []
         notes = [f"chosen: {RANKED[by][1]} that passes"] if is_chosen else []
@@ -127,8 +135,15 @@ def candidates_ledger(result: SizingResult, top: int, system: str) -> Ledger:
         depth_cell = [units.fmt(candidate.rank[1], "dimension", system)] if by == "depth" else []  # the rank's depth as installed
         ledger.add_row(escape(candidate.name), *depth_cell, units.fmt(candidate.mass_per_length, "mass_per_length", system), *cost_cell,
                        (">=" if bound else "  ") + cell, escape(candidate.governing or ""), status,
-                       "screen" if bound else "full field", note="; ".join(notes), style="bold" if is_chosen else "")
+                       _decided_by(candidate), note="; ".join(notes), style="bold" if is_chosen else "")
     return ledger
+
+
+def _decided_by(candidate: Candidate) -> str:
+    """The candidates ledger's "decided by" cell."""
+    if candidate.report is not None:
+        return "full field"
+    return "bounds only" if candidate.unchecked else "screen"
 
 
 def sizing_verdict(result: SizingResult, system: str) -> VerdictBlock:

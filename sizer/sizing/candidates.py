@@ -99,6 +99,7 @@ class Candidate:
     report: CheckReport | None = None  # full check, where made
     design: Design | None = None  # the solved design of that full check
     rank: tuple = ()  # its sort key (sizer.sizing.cost.Ranking.key)
+    unchecked: bool = False  # a runner-up shown from its proven lower bounds alone: not checked in full, it may pass or fail
 
     @cached_property
     def props(self) -> SectionProperties:
@@ -115,7 +116,9 @@ class Candidate:
 
     @property
     def decided_by(self) -> str:
-        return "full stress field" if self.report is not None else "screen"
+        if self.report is not None:
+            return "full stress field"
+        return "not checked in full" if self.unchecked else "screen"
 
     @property
     def passes(self) -> bool:

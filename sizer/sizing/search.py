@@ -196,6 +196,22 @@ class Search:
                 break
             heavier += self.passes_in_full(candidate, learn=False)
 
+    def runners_up_from_bounds(self, chosen: Candidate | None, top: int) -> None:
+        """Mark the `top` heavier sections that no proven lower bound rules out (from what the walk
+        knows: their geometric tier, the stability bounds of the shapes found) as runners-up shown
+        without a full check (`unchecked`): whether they pass is not known, and is not claimed."""
+        if chosen is None:
+            return
+        shown = 0
+        for candidate in self.candidates[self.candidates.index(chosen) + 1:]:
+            if shown >= top:
+                break
+            if candidate.report is not None:
+                shown += candidate.report.passes
+            elif self.found is None or not self.ruled_out(candidate):
+                candidate.unchecked = True
+                shown += 1
+
     def unavailable_ahead(self, chosen: Candidate | None, top: int) -> list[Candidate]:
         """Up to `top` sections not available (not stocked, or longer than every stock length) that rank
         after the choice only for that reason, each judged as the others are (a proven lower bound or the
@@ -210,16 +226,18 @@ class Search:
 
 def size_member(member: Member, catalogue: Catalogue, material: Material, families: Sequence[str] = (),
                 max_depth: float | None = None, max_width: float | None = None, top: int = 3,
-                progress: Callable[[int, int, str], None] | None = None, ranking: Ranking | None = None) -> SizingResult:
+                progress: Callable[[int, int, str], None] | None = None, ranking: Ranking | None = None,
+                check_runners_up: bool = False) -> SizingResult:
     """The first candidate in the order of `ranking` (default: the lightest) that passes every check
-    on the full stress field, with runners-up (`progress` hears of the warping tiers computed: only
-    for the sections whose verdict needs them)."""
+    on the full stress field, with runners-up: the next heavier sections that pass their full checks
+    with `check_runners_up`, else those no proven lower bound rules out, not checked in full
+    (`progress` hears of the warping tiers computed: only for the sections whose verdict needs them)."""
     with AnalysisWorkers(progress=progress) as workers:
-        return _size(member, catalogue, material, families, max_depth, max_width, top, workers, ranking or Ranking())
+        return _size(member, catalogue, material, families, max_depth, max_width, top, workers, ranking or Ranking(), check_runners_up)
 
 
 def _size(member: Member, catalogue: Catalogue, material: Material, families: Sequence[str], max_depth: float | None,
-          max_width: float | None, top: int, workers: AnalysisWorkers, ranking: Ranking) -> SizingResult:
+          max_width: float | None, top: int, workers: AnalysisWorkers, ranking: Ranking, check_runners_up: bool = False) -> SizingResult:
     candidates, table = candidate_sections(catalogue, member, material, families, max_depth, max_width, workers.progress, lazy=True,
                                            ranking=ranking)
     count = f"{len(candidates)} candidate section" + ("" if len(candidates) == 1 else "s")
@@ -243,7 +261,14 @@ def _size(member: Member, catalogue: Catalogue, material: Material, families: Se
                      "(stability: Rayleigh-Ritz bounds of its buckling load factors from the buckled shapes found "
                      "so far); every verdict of a section shown in full rests on the full stress-field check.")
     chosen = search.first_passing()
-    search.confirm_runners_up(chosen, top)
+    if check_runners_up:
+        search.confirm_runners_up(chosen, top)
+    else:
+        search.runners_up_from_bounds(chosen, top)
+        if any(c.unchecked for c in candidates):
+            notes.append("Runners-up after the choice are shown from proven lower bounds of their utilization alone, not checked in "
+                         "full: none of these bounds rules them out, but each may still fail (`sizer check` one, or "
+                         "`sizer size --check-runners-up`, to know).")
     unavailable = search.unavailable_ahead(chosen, top)
     if chosen is not None and not chosen.costing.available:
         notes.append(f"No available section passes: the choice {chosen.name} is {chosen.costing.unavailable}.")

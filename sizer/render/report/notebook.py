@@ -55,7 +55,7 @@ def size_summary_html(result: SizingResult, notes: list[str], top: int, system: 
         head = '<section class="verdict fail"><span class="word">NONE</span> no catalogue section passes every check.</section>'
     rows = [_row([f"<td>{_e(c.name)}</td>", f'<td class="num">{units.fmt(c.mass_per_length, "mass_per_length", system)}</td>',
                   f'<td class="num">{c.utilization:.3f}</td>', f"<td>{_e(c.governing)}</td>",
-                  f"<td>{status_word(c.passes)}</td>", f"<td>{_e(c.decided_by)}</td>"],
+                  f"<td>{'not checked' if c.unchecked else status_word(c.passes)}</td>", f"<td>{_e(c.decided_by)}</td>"],
                  css="governing" if c is chosen else "") for c in shown_candidates(result, top)]
     table = _table(["section", "mass", "utilization", "governing", "verdict", "basis"], rows, (1, 2))
     return _page(head + table + _notes(notes, system))
