@@ -24,6 +24,8 @@ ZERO_STIFFNESS = 1e-10  # eigenvalues of the scaled K below this are free moveme
 NO_BUCKLING = 1e-12  # mu below this fraction of the largest |B| eigenvalue scale: no buckling
 BRACKET = 1.25  # the sparse solve's bracket of the lowest load factor is closed to this ratio before iterating
 NO_LOAD_FACTOR = 1e15  # the sparse solve looks for load factors up to this (above: no buckling)
+HINT_ABOVE = 1e-9  # the sparse solve's first bracket: from the hint times (1 - HINT_BELOW) to the hint times (1 + HINT_ABOVE)
+HINT_BELOW = 1e-2
 INVERSE_SHIFT = 1e-9  # inverse iteration's shift above the largest eigenvalue, as a fraction of the largest |eigenvalue|
 
 
@@ -230,7 +232,13 @@ class SparseReduced:
 
     def _bracket(self, b: Any) -> tuple[float, Any] | None:
         """(sigma, LU factors of K - sigma B) with no load factor in (0, sigma] and the lowest within
-        (sigma, BRACKET sigma]; None when there is none below NO_LOAD_FACTOR (no buckling)."""
+        (sigma, BRACKET sigma]; None when there is none below NO_LOAD_FACTOR (no buckling). Tried
+        first: the narrow bracket HINT_BELOW under the hint (a coarser mesh's load factor, which the
+        finer one's lies just under), two factorizations; the search below where that fails."""
+        if math.isfinite(self.hint) and self.hint > 0 and self._inertia(b, self.hint * (1 + HINT_ABOVE))[1]:
+            factors, below = self._inertia(b, self.hint * (1 - HINT_BELOW))
+            if not below:
+                return self.hint * (1 - HINT_BELOW), factors
         sigma = self.hint if math.isfinite(self.hint) and self.hint > 0 else 1.0
         factors, below = self._inertia(b, sigma)
         if below:
