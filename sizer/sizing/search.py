@@ -131,11 +131,29 @@ class Search:
         prove_lower_bounds(candidate, found, self.material, self.member)
         if candidate.certainly_fails:
             return True
+        if "web" not in candidate.bounds:
+            candidate.raise_bound("web", self.web_utilization(candidate))
+            if candidate.certainly_fails:
+                return True
         if "local" not in candidate.bounds:
             local = local_lower_bound(found, candidate.index, self.member, self.material)
             if local is not None:
                 candidate.raise_bound("local", local)
         return candidate.certainly_fails
+
+    def web_utilization(self, candidate: Candidate) -> float:
+        """The full check's own web check under concentrated forces (sizer.checks.web): it needs the
+        section's dimensions and the reactions alone, which do not depend on its rigidities (the
+        unit-rigidity solution with its self-weight), so it is exact here (0 where not made)."""
+        from sizer.checks.web import no_web_reason, web_check
+        from sizer.design import Design
+
+        if no_web_reason(candidate.spec.shape):
+            return 0.0
+        mass = candidate.mass_per_length if self.member.self_weight_case else None
+        solution = self.base.for_section(Stiffness.unit(), mass)
+        design = Design(self.member, solution, self.material, candidate.spec, mass_per_length=candidate.mass_per_length)
+        return web_check(design).utilization or 0.0
 
     def passes_in_full(self, candidate: Candidate, learn: bool = True) -> bool:
         """False at once when a proven lower bound rules the candidate out, first from the geometric
