@@ -222,7 +222,7 @@ class SectionStability:
         self._finer: SectionStability | None = None
         self.elements = len(model.mesh.nodes) - 1  # the most elements an accepted load factor needed
         self.converged = True  # False when some load factor was not converged within HALVINGS
-        self.lowered = False  # True when some load factor was taken less its last change (within SETTLED)
+        self.lowered = False  # True when some load factor was taken extrapolated (less the error left: see above)
 
     def warping_elements(self) -> float:
         """The shortest element (m) next to a support that holds warping, on this level's mesh."""
