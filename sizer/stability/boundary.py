@@ -132,26 +132,48 @@ def admissible_basis(size: int, rows: list[Row]) -> np.ndarray:
     satisfy every row (its null space), built
     group by group: rows that share no freedom are independent, so each group of rows linked by
     shared freedoms (a node's holds: a handful of freedoms) gets the null space of its own small
-    matrix, and every column of the basis touches one group only (the matrices stay banded)."""
+    matrix, and every column of the basis touches one group only (the matrices stay banded). The
+    groups' matrices of one shape are decomposed together (one batched SVD)."""
     touched = sorted({dof for row in rows for dof in row})
     untouched = np.ones(size, bool)
     untouched[touched] = False
     free = np.flatnonzero(untouched)  # (np.setdiff1d would import numpy.ma, 12 ms of every command)
-    entries: list[tuple[np.ndarray, np.ndarray, np.ndarray]] = [(free, np.arange(len(free)), np.ones(len(free)))]
+    groups = _linked_groups(rows)
+    nulls = _null_spaces([_group_matrix(group_rows, group_dofs) for group_rows, group_dofs in groups])
+    dofs, columns, values = [free], [np.arange(len(free))], [np.ones(len(free))]
     count = len(free)
-    for group_rows, group_dofs in _linked_groups(rows):
-        matrix = np.zeros((len(group_rows), len(group_dofs)))
-        column = {dof: k for k, dof in enumerate(group_dofs)}
-        for r, row in enumerate(group_rows):
-            for dof, coefficient in row.items():
-                matrix[r, column[dof]] += coefficient
-        _, singular, vh = np.linalg.svd(matrix)
-        rank = int(np.sum(singular > 1e-12 * max(1.0, singular.max(initial=0.0))))
-        null = vh[rank:].T  # (group freedoms, its null space)
-        dofs, columns = np.meshgrid(group_dofs, count + np.arange(null.shape[1]), indexing="ij")
-        entries.append((dofs, columns, null))
-        count += null.shape[1]
-    return assemble((size, count), *(np.concatenate([np.ravel(part[k]) for part in entries]) for k in range(3)))
+    for (_, group_dofs), null in zip(groups, nulls):
+        k = null.shape[1]
+        dofs.append(np.repeat(np.asarray(group_dofs), k))
+        columns.append(np.tile(count + np.arange(k), len(group_dofs)))
+        values.append(null.ravel())
+        count += k
+    return assemble((size, count), np.concatenate(dofs), np.concatenate(columns), np.concatenate(values))
+
+
+def _group_matrix(group_rows: list[Row], group_dofs: list[int]) -> np.ndarray:
+    """The rows of one group as a matrix over its sorted freedoms."""
+    matrix = np.zeros((len(group_rows), len(group_dofs)))
+    column = {dof: k for k, dof in enumerate(group_dofs)}
+    for r, row in enumerate(group_rows):
+        for dof, coefficient in row.items():
+            matrix[r, column[dof]] += coefficient
+    return matrix
+
+
+def _null_spaces(matrices: list[np.ndarray]) -> list[np.ndarray]:
+    """The orthonormal null space (columns) of each matrix, from the SVDs of the matrices of each
+    shape taken together (singular values below 1e-12 of the largest, or of 1, count as zero)."""
+    out: list[np.ndarray] = [np.zeros((0, 0))] * len(matrices)
+    shapes: dict[tuple[int, ...], list[int]] = {}
+    for k, matrix in enumerate(matrices):
+        shapes.setdefault(matrix.shape, []).append(k)
+    for members in shapes.values():
+        _, singular, vh = np.linalg.svd(np.stack([matrices[k] for k in members]))
+        ranks = np.sum(singular > 1e-12 * np.maximum(1.0, singular.max(axis=1, initial=0.0))[:, None], axis=1)
+        for k, rank, v in zip(members, ranks, vh):
+            out[k] = v[int(rank):].T
+    return out
 
 
 def _linked_groups(rows: list[Row]) -> list[tuple[list[Row], list[int]]]:
