@@ -140,15 +140,17 @@ def admissible_basis(size: int, rows: list[Row]) -> np.ndarray:
     free = np.flatnonzero(untouched)  # (np.setdiff1d would import numpy.ma, 12 ms of every command)
     groups = _linked_groups(rows)
     nulls = _null_spaces([_group_matrix(group_rows, group_dofs) for group_rows, group_dofs in groups])
-    dofs, columns, values = [free], [np.arange(len(free))], [np.ones(len(free))]
+    dofs: list[int] = []
+    columns: list[int] = []
     count = len(free)
-    for (_, group_dofs), null in zip(groups, nulls):
+    for (_, group_dofs), null in zip(groups, nulls):  # each null space's entries row by row, as null.ravel()
         k = null.shape[1]
-        dofs.append(np.repeat(np.asarray(group_dofs), k))
-        columns.append(np.tile(count + np.arange(k), len(group_dofs)))
-        values.append(null.ravel())
+        dofs += [dof for dof in group_dofs for _ in range(k)]
+        columns += [count + j for _ in group_dofs for j in range(k)]
         count += k
-    return assemble((size, count), np.concatenate(dofs), np.concatenate(columns), np.concatenate(values))
+    values = np.concatenate([np.ones(len(free))] + [null.ravel() for null in nulls])
+    return assemble((size, count), np.concatenate([free, np.array(dofs, int)]),
+                    np.concatenate([np.arange(len(free)), np.array(columns, int)]), values)
 
 
 def _group_matrix(group_rows: list[Row], group_dofs: list[int]) -> np.ndarray:
