@@ -148,7 +148,7 @@ class Search:
         from sizer.checks.web import no_web_reason, web_check
         from sizer.design import Design
 
-        if no_web_reason(candidate.spec.shape):
+        if no_web_reason(candidate.spec.shape) or self.base is None:
             return 0.0
         mass = candidate.mass_per_length if self.member.self_weight_case else None
         solution = self.base.for_section(Stiffness.unit(), mass)
