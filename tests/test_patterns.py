@@ -409,9 +409,10 @@ def test_size_agrees_with_check_over_every_arrangement(tmp_path: Path, bars: Pat
         if mine["made"]:
             assert mine["utilization"] == pytest.approx(theirs["utilization"], rel=SAME)
     for entry in sized["candidates"]:
-        if entry["basis"] != "full stress field":
+        if entry["basis"] != "full stress field":  # ruled out (screen), or a runner-up not checked in full: a proven bound either way
             reference = next(c for c in checked[entry["section"]]["checks"] if c["check"] == entry["governing"])
-            assert checked[entry["section"]]["passes"] is False and entry["utilization"] <= reference["utilization"] * (1 + SAME)
+            assert entry["utilization"] <= (reference["utilization"] or 0.0) * (1 + SAME)
+            assert checked[entry["section"]]["passes"] is False if entry["basis"] == "screen" else entry["passes"] is None
     assert not checked["B 30x60"]["passes"]  # failed by an arrangement (test above)
 
 

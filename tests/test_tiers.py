@@ -365,7 +365,7 @@ def test_a_section_ruled_out_by_bending_alone_never_gets_its_warping_tier(fresh_
     passing = [name for name, (b, d) in sorted(BARS.items(), key=lambda item: item[1][0] * item[1][1])
                if b * d**2 / 6 * 1e-9 * 165e6 >= moment]
     assert document["section"] == passing[0]
-    by_screen = [entry for entry in document["candidates"] if entry["basis"] != "full stress field"]
+    by_screen = [entry for entry in document["candidates"] if entry["basis"] == "screen"]
     assert len(by_screen) >= 2 and all(entry["governing"] == "bending" and entry["utilization"] > 1.0 for entry in by_screen)
     specs = load_catalogue([catalogue]).sections
     for entry in document["candidates"]:
@@ -374,7 +374,9 @@ def test_a_section_ruled_out_by_bending_alone_never_gets_its_warping_tier(fresh_
         if not on_disk:  # a proven lower bound: the closed form's M / S / Fb at the screen's station nearest midspan
             b, d = BARS[entry["section"]]
             closed_form = moment / (b * d**2 / 6 * 1e-9) / 165e6
-            assert closed_form * (1 - 1e-4) <= entry["utilization"] <= closed_form * (1 + 1e-9)
+            assert entry["utilization"] <= closed_form * (1 + 1e-9)
+            if entry["basis"] == "screen":  # ruled out by it (a runner-up not checked in full may show a weaker bound)
+                assert closed_form * (1 - 1e-4) <= entry["utilization"]
 
 
 UNBRACED = """
