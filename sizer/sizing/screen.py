@@ -272,8 +272,9 @@ def _limited_deflections(entry: DeflectionLimit, base: MemberSolution, n: int, c
     return [(scaled(loads, span, limit), scaled(per_mass, span, limit)) for (span, limit), loads, per_mass in zip(pairs, zero, unit)]
 
 
-def prove_lower_bounds(candidate: Candidate, found: Screen, material: Material, member: Member) -> None:
-    """The stress field at the screen's worst station of each stress check estimated to fail: true
+def prove_lower_bounds(candidate: Candidate, found: Screen, material: Material, member: Member, above: float = 1.0) -> None:
+    """The stress field at the screen's worst station of each stress check estimated to fail (above
+    `above`: 0 for every stress check with an estimate, as for a runner-up shown from its bounds): true
     lower bounds of the full check (it uses these stations too; the interaction with upper bounds
     of its allowables: Fa on the given buckling lengths only, Fb unreduced). The full field once the
     candidate's warping tier is known; before, the normal stresses at the outline's corners, which
@@ -283,7 +284,7 @@ def prove_lower_bounds(candidate: Candidate, found: Screen, material: Material, 
     from sizer.sections import unit_stress_field
     from sizer.sections.geometric import normal_stress_field
 
-    wanted = [name for name, values in found.estimate.items() if values[candidate.index] > 1.0 and name not in candidate.bounds]
+    wanted = [name for name, values in found.estimate.items() if values[candidate.index] > above and name not in candidate.bounds]
     if not wanted or may_twist(member, candidate.spec.shape):
         return  # torsion of this section (warping, torques across it) is not in the screen's stations: no proof from them
     rows = sorted({int(found.worst[name][candidate.index]) for name in wanted})

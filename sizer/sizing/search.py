@@ -227,6 +227,8 @@ class Search:
             if candidate.report is not None:
                 shown += candidate.report.passes
             elif self.found is None or not self.ruled_out(candidate):
+                if self.found is not None:  # its stress checks' bounds too, not only those estimated to fail
+                    prove_lower_bounds(candidate, self.found, self.material, self.member, above=0.0)
                 candidate.unchecked = True
                 shown += 1
 
