@@ -249,7 +249,7 @@ def check(member: MemberLike, section: str | None = None, catalogue: Sequence[st
     member = as_member(member)
     design = prepare(member, [Path(path) for path in catalogue], section, need_section=True)
     report = check_design(design, unit_stress_field(design.spec))
-    design = report.design
+    design = report.design or design
     if reserve:
         add_reserve(design, report)
     notes = member_notes(member) + design.notes + report.notes + small_deflection_cautions(design.solution)

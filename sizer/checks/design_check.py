@@ -31,7 +31,9 @@ from sizer.stability import MemberStability
 from sizer.stability.boundary import warping_held
 
 if TYPE_CHECKING:
+    from sizer.checks.arrangement_stability import LateralSearch
     from sizer.sections.fields import UnitStressField
+    from sizer.stability.problem import SectionStability
 
 
 PATTERN_SECOND_ORDER_NOTE = (
@@ -96,7 +98,7 @@ def check_design(design: Design, unit_field: UnitStressField, n_even: int = 200,
 
 
 def _governing_arrangements(design: Design, unit_field: UnitStressField, n_even: int,
-                            stability: MemberStability | None) -> tuple[Design, MemberStability | None, dict[str, Any], Any]:
+                            stability: MemberStability | None) -> tuple[Design, MemberStability | None, dict[str, LateralSearch], SectionStability | None]:
     """The design with the pattern arrangements that govern its stress and lateral-torsional checks
     among its combinations (sizer.checks.arrangements, sizer.checks.stability.lateral_searches), the
     stability model for it, the lateral searches and the section's solves they used; the design as
@@ -116,8 +118,8 @@ def _governing_arrangements(design: Design, unit_field: UnitStressField, n_even:
         added.setdefault(origin, set()).update(found)
     model = stability or MemberStability(design.member, design.solution)
     section = stability_section(design.props, design.known_material.elastic_modulus, design.known_material.shear_modulus)
-    searches: dict[str, Any] = {}
-    solver = None
+    searches: dict[str, LateralSearch] = {}
+    solver: SectionStability | None = None
     if not lateral_not_applicable(design, section, first[..., 5]):
         solver = model.for_section(section)
         searches = lateral_searches(design, xs, sides, solver)

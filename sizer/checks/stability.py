@@ -23,6 +23,7 @@ from sizer.stability import Buckling, MemberStability, StabilitySection, minor_a
 from sizer.stability.section import has_weaker_axis
 
 if TYPE_CHECKING:
+    from sizer.checks.arrangement_stability import LateralSearch
     from sizer.stability.problem import SectionStability
 
 N, MZ = 0, 5
@@ -90,7 +91,7 @@ def lateral_not_applicable(design: Design, section: StabilitySection, moments: n
 
 
 def stability_report(design: Design, actions: np.ndarray, xs: np.ndarray, model: MemberStability | None = None,
-                     searches: dict[str, Any] | None = None, solver: Any = None) -> StabilityReport:
+                     searches: dict[str, LateralSearch] | None = None, solver: SectionStability | None = None) -> StabilityReport:
     """The stability of the design's section under every combination; `actions` (C, S, 6) in the
     section's axes at the check stations `xs` (m). `model`: a MemberStability of this member to
     reuse (its section-independent parts), else one is built; `searches`: given combination ->
@@ -131,7 +132,7 @@ def stability_mass(design: Design) -> float:
     return (design.mass_per_length or 0.0) if design.member.self_weight_case else 0.0
 
 
-def lateral_searches(design: Design, xs: np.ndarray, sides: np.ndarray, solver: Any) -> dict[str, Any]:
+def lateral_searches(design: Design, xs: np.ndarray, sides: np.ndarray, solver: SectionStability) -> dict[str, LateralSearch]:
     """Given combination -> LateralSearch (sizer.checks.arrangement_stability): lateral-torsional
     buckling over every pattern arrangement of each combination with switches, by branch and bound;
     empty without them or a bending allowable, or where the member cannot buckle sideways."""
@@ -154,7 +155,7 @@ def lateral_searches(design: Design, xs: np.ndarray, sides: np.ndarray, solver: 
         allowed = lateral_allowables(design, fb, np.array([peak]), np.array([sign]), factor)[2]
         return float(peak * design.props.sigma_peak[2] / allowed[0])
 
-    found = {}
+    found: dict[str, LateralSearch] = {}
     for combination in switched:
         heaviest = combination.fixed + np.maximum(combination.switches, 0.0).sum(axis=0)
         moments = (combination.fixed @ each, combination.switches @ each)
@@ -165,7 +166,7 @@ def lateral_searches(design: Design, xs: np.ndarray, sides: np.ndarray, solver: 
     return found
 
 
-def searched_laterals(design: Design, searches: dict[str, Any]) -> dict[int, tuple[Buckling, bool]]:
+def searched_laterals(design: Design, searches: dict[str, LateralSearch]) -> dict[int, tuple[Buckling, bool]]:
     """combination -> (lateral Buckling, exact?) of the pattern arrangements the searches cover."""
     patterning = design.member.patterning
     found: dict[int, tuple[Buckling, bool]] = {}
