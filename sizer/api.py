@@ -139,8 +139,10 @@ def forces(member: MemberLike, section: str | None = None, catalogue: Sequence[s
     from sizer.render.common import member_notes, small_deflection_cautions
 
     member = as_member(member)
-    names = chosen_combinations(member, combination)
+    chosen_combinations(member, combination)  # bad input before solving
     design = prepare(member, [Path(path) for path in catalogue], section)
+    member = design.member  # with the pattern arrangements that govern among its combinations
+    names = chosen_combinations(member, combination)
     notes = member_notes(member) + design.notes + small_deflection_cautions(design.solution)
     if second_order:
         design, more = _second_order_forces(design)
@@ -247,6 +249,7 @@ def check(member: MemberLike, section: str | None = None, catalogue: Sequence[st
     member = as_member(member)
     design = prepare(member, [Path(path) for path in catalogue], section, need_section=True)
     report = check_design(design, unit_stress_field(design.spec))
+    design = report.design or design
     if reserve:
         add_reserve(design, report)
     notes = member_notes(member) + design.notes + report.notes + small_deflection_cautions(design.solution)

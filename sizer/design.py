@@ -108,7 +108,7 @@ def prepare(member: Member, catalogue_paths: Sequence[Path] = (), section: str |
         solution = solve_member(member, None, None)
         notes = ["No section given: self-weight and deflections are left out; forces use unit rigidities, "
                  "which is exact for these supports (no springs)."]
-        return Design(member, solution, notes=notes)
+        return Design(solution.member, solution, notes=notes)
     from sizer.sections import section_properties
 
     catalogue = catalogue_for(member, catalogue_paths)
@@ -129,7 +129,7 @@ def prepare(member: Member, catalogue_paths: Sequence[Path] = (), section: str |
     else:
         notes.append("Self-weight is not included (self_weight = false).")
     notes.append("Deflections by Euler-Bernoulli beam theory (no shear deformation), small displacements.")
-    return Design(member, solution, material, spec, props, stiffness, mass, notes)
+    return Design(solution.member, solution, material, spec, props, stiffness, mass, notes)
 
 
 def given_heights(member: Member) -> list[tuple[str, float]]:

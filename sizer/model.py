@@ -129,12 +129,16 @@ Load = PointLoad | LineLoad
 class Patterning:
     """How pattern loading expanded a member (analysis.patterns): the loads and combinations as given,
     the spans (start, end in m, numbered from 1 at end A) the patterned loads were split over, and for
-    every combination of the expanded member the given combination it comes from."""
+    every combination of the expanded member the given combination it comes from; for each given
+    combination its switches (a patterned case's part on one span and its factor), and for each
+    arrangement of the expanded member the switches it loads (indices into its origin's switches)."""
 
     loads: tuple[Load, ...]
     combinations: dict[str, dict[str, float]]
     spans: tuple[tuple[float, float], ...]
     origins: dict[str, str]
+    switches: dict[str, tuple[tuple[str, float], ...]] = field(default_factory=dict)
+    loaded: dict[str, frozenset[int]] = field(default_factory=dict)
 
 
 @dataclass(frozen=True)

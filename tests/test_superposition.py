@@ -9,16 +9,15 @@ arrangement named must reach that value.
 
 from __future__ import annotations
 
-from types import SimpleNamespace
 
 import numpy as np
 import pytest
-from hypothesis import HealthCheck, given, settings
+from hypothesis import HealthCheck, Phase, given, settings
 from hypothesis import strategies as st
 
 from sizer.analysis import solve_member
-from sizer.analysis.superposition import linear_extremes, switched_combinations, worst_switches
-from sizer.checks.field import superposed_axial, superposed_bending
+from sizer.analysis.patterns import every_arrangement
+from sizer.analysis.superposition import convex_maximum, linear_extremes, switched_combinations
 from sizer.model import Member
 from test_patterns import two_case_members
 
@@ -34,12 +33,12 @@ def stations_of(member: Member) -> tuple[np.ndarray, np.ndarray]:
 def test_per_span_extremes_of_the_actions_equal_enumeration(member: Member) -> None:
     """Largest and smallest N, Vy, Vz, T, My, Mz at every station: fixed part plus the switches of
     one sign against the max and min over every arrangement; the named arrangement reaches them."""
-    solution = solve_member(member, None, None)
+    solution = solve_member(every_arrangement(member), None, None)
     xs, sides = stations_of(member)
     each = solution.case_actions(xs, sides)
     [combination] = switched_combinations(solution)
     names = list(solution.member.combinations)
-    assert len(combination.names) == len(names) == 2 ** len(combination.switches)  # the empty arrangement included
+    assert len(names) == 2 ** len(combination.switches)  # the empty arrangement included
     enumerated = solution.weighted_actions(solution.combination_weights(names), xs, sides)  # (A, n, 6)
     fixed = np.tensordot(combination.fixed, each, axes=1)
     parts = np.tensordot(combination.switches, each, axes=1)
@@ -47,81 +46,100 @@ def test_per_span_extremes_of_the_actions_equal_enumeration(member: Member) -> N
     scale = 1e-9 * (np.abs(enumerated).max() + 1.0)
     np.testing.assert_allclose(high, enumerated.max(axis=0), rtol=0, atol=scale)
     np.testing.assert_allclose(low, enumerated.min(axis=0), rtol=0, atol=scale)
-    row = {name: k for k, name in enumerate(names)}
     for n, j in [(int(n), int(j)) for n, j in zip(*np.unravel_index(np.argsort(-np.abs(high).ravel())[:5], high.shape))]:
-        for largest, target in ((True, high), (False, low)):
-            name = combination.arrangement(worst_switches(parts, (n, j), largest))
-            assert enumerated[row[name], n, j] == pytest.approx(target[n, j], abs=scale)
+        for sense, target in ((1.0, high), (-1.0, low)):
+            on = sense * parts[:, n, j] > 0.0  # the switches of that sign: the arrangement named
+            reached = np.tensordot(combination.weights(on), each, axes=1)[n, j]
+            assert reached == pytest.approx(target[n, j], abs=scale)
 
 
-@settings(max_examples=12, deadline=None, suppress_health_check=[HealthCheck.too_slow])
-@given(member=two_case_members(), seed=st.integers(0, 2**16), orientation=st.sampled_from(["major", "minor"]))
-def test_per_span_bending_peak_equals_enumeration(member: Member, seed: int, orientation: str) -> None:
-    """Peak |sigma| over random mesh nodes (unit normal stresses of My and Mz), stations and every
-    arrangement: superposed against every arrangement evaluated; the named arrangement reaches it."""
-    from sizer.analysis.section_axes import to_section_axes
+@settings(max_examples=40, deadline=None)
+@given(count=st.integers(0, 9), dimension=st.integers(1, 3), rank=st.integers(1, 3), seed=st.integers(0, 2**16),
+       weights=st.sampled_from([(1.0, 1.0, 1.0), (1.0, 3.0, 3.0)]))
+def test_largest_convex_measure_over_arrangements_equals_enumeration(count: int, dimension: int, rank: int, seed: int,
+                                                                     weights: tuple[float, float, float]) -> None:
+    """The largest of a norm sqrt(sum w_i v_i^2) (the shear stress vector, von Mises with w = 1, 3, 3)
+    of a fixed vector plus any subset of `count` vectors, found at the corners of their zonotope,
+    against every subset evaluated (2^count), with vectors of lower rank (parallel, coplanar) too:
+    a convex function's largest value over a polytope is at a corner (common practice)."""
+    rng = np.random.default_rng(seed)
+    basis = rng.normal(size=(min(rank, dimension), dimension))
+    parts = rng.normal(size=(count, basis.shape[0])) @ basis
+    if count > 2:
+        parts[1] = -0.5 * parts[0]  # parallel and opposed
+    fixed = rng.normal(size=dimension) * rng.choice([0.0, 1.0])
+    scale = np.sqrt(np.asarray(weights[:dimension]))
 
-    solution = solve_member(member, None, None)
-    xs, sides = stations_of(member)
-    field = SimpleNamespace(sigma=np.random.default_rng(seed).normal(size=(3, 9)))
-    each = to_section_axes(solution.case_actions(xs, sides), orientation)
-    found = superposed_bending(each, switched_combinations(solution), field)
-    names = list(solution.member.combinations)
-    enumerated = to_section_axes(solution.weighted_actions(solution.combination_weights(names), xs, sides), orientation)
-    stress = np.abs(enumerated[..., 4:6] @ field.sigma[1:3])  # (A, n, p)
-    peak = stress.max()
-    if peak == 0.0:
-        assert found is None
-        return
-    assert found.value == pytest.approx(peak, rel=1e-9)
-    reached = stress[names.index(found.combination), found.station].max()
-    assert reached == pytest.approx(peak, rel=1e-9)
+    def measure(vectors: np.ndarray) -> np.ndarray:
+        return np.sqrt(((vectors * scale) ** 2).sum(axis=-1))
 
-
-@settings(max_examples=12, deadline=None, suppress_health_check=[HealthCheck.too_slow])
-@given(member=two_case_members())
-def test_per_span_axial_peaks_equal_enumeration(member: Member) -> None:
-    """Largest tension and compression N / A over stations and every arrangement: superposed against
-    every arrangement evaluated; the named arrangement reaches each at the station given."""
-    solution = solve_member(member, None, None)
-    xs, sides = stations_of(member)
-    area = 2.0e-3
-    found = superposed_axial(solution.case_actions(xs, sides), switched_combinations(solution), area)
-    names = list(solution.member.combinations)
-    stress = solution.weighted_actions(solution.combination_weights(names), xs, sides)[..., 0] / area  # (A, n)
-    scale = 1e-9 * (np.abs(stress).max() + 1.0)
-    for which, values in (("tension", stress), ("compression", -stress)):
-        peak = found[which]
-        if values.max() <= scale:
-            assert peak is None or peak.value <= scale
-            continue
-        assert peak.value == pytest.approx(values.max(), abs=scale)
-        assert values[names.index(peak.combination), peak.station] == pytest.approx(peak.value, abs=scale)
+    value, on = convex_maximum(fixed, parts, measure)
+    every = np.array([[bits >> k & 1 for k in range(count)] for bits in range(2**count)], dtype=float).reshape(2**count, count)
+    assert value == pytest.approx(measure(fixed + every @ parts).max(), rel=1e-12, abs=1e-12)
+    assert measure(fixed + on.astype(float) @ parts) == pytest.approx(value, rel=1e-12, abs=1e-12)
 
 
-@pytest.mark.parametrize("uplift", [0.0, 6000.0])
-def test_the_axial_and_bending_checks_by_superposition_equal_every_arrangements_row(uplift: float, monkeypatch: pytest.MonkeyPatch) -> None:
-    """`sizer check` on a three-bay purlin with two patterned cases (64 arrangements), a patterned
-    axial pull and push among them: the axial and bending checks found by per-span superposition
-    equal the ones taking every arrangement's row (value and position; bending's arrangement too,
-    axial's arrangement reaches the value: there spans that add nothing make ties)."""
-    import sizer.checks.design_check as design_check
+# ----------------------------------------------------------------------------------------------
+# every check over every arrangement: the arrangements that govern, checked in full, against every
+# arrangement checked in full (brute force)
+
+def tube_member(bays: list[float], overhang: float, loads: list[str], axial: float) -> str:
+    """A square tube (no weaker axis: no lateral-torsional buckling, so brute force over thousands of
+    arrangements stays fast) pinned then on rollers over the bays, perhaps overhanging; dead load and
+    an axial force varying along it (unpatterned), and the patterned loads given; one combination uses both
+    patterned cases."""
+    ends = [float(x) for x in np.concatenate([[0.0], np.cumsum(bays)])]
+    length = ends[-1] + overhang
+    supports = "".join(f'[[supports]]\nat = "{x!r} m"\ntype = "{"pin" if i == 0 else "roller"}"\n' for i, x in enumerate(ends))
+    return (f'[member]\nlength = "{length!r} m"\nmaterial = "mild-steel"\nsection = "SHS 80x80x5"\n{supports}'
+            '[[loads]]\ntype = "line"\ncase = "dead"\nwy = "-0.6 kN/m"\n'
+            f'[[loads]]\ntype = "point"\ncase = "dead"\nat = "{length!r} m"\nfx = "{axial!r} N"\n'
+            f'[[loads]]\ntype = "line"\ncase = "dead"\nwx = "{-axial / length / 2!r} N/m"\n' + "".join(loads)
+            + '[combinations]\n"dead + imposed + snow" = { dead = 1.2, imposed = 1.5, snow = 0.75 }\n'
+            '[checks]\ndeflection_limit = 200\nsecond_order = false\n')
+
+
+@st.composite
+def tube_members(draw: st.DrawFn) -> str:
+    """Up to 6 bays (or 5 and an overhang), two patterned cases of line loads (in and out of plane,
+    over part of the member) and point forces; up to 4^6 arrangements."""
+    bays = draw(st.lists(st.integers(10, 30).map(lambda tenths: tenths / 10), min_size=1, max_size=6))
+    overhang = draw(st.sampled_from([0.0, 0.8])) if len(bays) < 6 else 0.0
+    length = float(np.concatenate([[0.0], np.cumsum(bays)])[-1]) + overhang
+    position = st.floats(0.0, 1.0).map(lambda t: min(round(t * length, 3), length))
+    force = st.floats(-4000.0, 4000.0).map(lambda v: round(v, 1))
+    loads = []
+    for case in ("imposed", "snow"):
+        a, b = sorted((draw(position), draw(position)))
+        if b - a < 0.05:
+            a, b = 0.0, length
+        loads.append(f'[[loads]]\ntype = "line"\ncase = "{case}"\nfrom = "{a!r} m"\nto = "{b!r} m"\n'
+                     f'wy = "{draw(force)!r} N/m"\nwz = "{draw(force) / 3!r} N/m"\npattern = true\n')
+        loads.append(f'[[loads]]\ntype = "point"\ncase = "{case}"\nat = "{draw(position)!r} m"\n'
+                     f'fy = "{draw(force)!r} N"\nfz = "{draw(force) / 2!r} N"\npattern = true\n')
+    return tube_member(bays, overhang, loads, draw(st.sampled_from([0.0, 20e3, -20e3])))
+
+
+@settings(max_examples=8, deadline=None, suppress_health_check=[HealthCheck.too_slow, HealthCheck.function_scoped_fixture],
+          phases=[Phase.explicit, Phase.reuse, Phase.generate, Phase.target])  # no shrinking: each example checks thousands of arrangements
+@given(text=tube_members())
+def test_every_check_over_the_arrangements_equals_checking_every_arrangement(text: str, monkeypatch: pytest.MonkeyPatch) -> None:
+    """Each check's utilization and demand, from the arrangements found to govern (per-span
+    superposition, the corners of the convex measures, analysis.superposition), equal those of
+    checking every arrangement in full (the empty one included), and the arrangement named reaches
+    the value."""
+    import sizer.analysis.superposition as superposition
     from sizer import api
-    from test_patterns import purlin
 
-    text = purlin([4.0, 3.0, 5.0], 900.0, 1400.0, uplift) + (
-        '[[loads]]\ntype = "point"\ncase = "snow"\nat = "12 m"\nfx = "30 kN"\npattern = true\n'
-        '[[loads]]\ntype = "point"\ncase = "imposed"\nat = "5.5 m"\nfx = "-45 kN"\npattern = true\n')
-    member = api.member_from_text(text, "purlin.toml")
-    outcome = api.check(member, reserve=False)
-    superposed = {c.check: c for c in outcome.checks}
+    member = api.member_from_text(text, "tube.toml")
+    found = api.check(member, reserve=False)
     with monkeypatch.context() as patch:
-        patch.setattr(design_check, "_superposed", lambda *args: None)
-        rows = {c.check: c for c in api.check(member, reserve=False).checks}
-    for check in ("axial", "bending"):
-        assert superposed[check].made and superposed[check].demand == pytest.approx(rows[check].demand, rel=1e-9), check
-        assert superposed[check].at == pytest.approx(rows[check].at, abs=1e-9), check
-    assert superposed["bending"].combination == rows["bending"].combination  # no tie in bending on these loads
-    axial = superposed["axial"]  # ties (a span's part adds exactly nothing at that station): the arrangement named reaches it
-    n = [outcome.design.solution.actions(axial.combination, [axial.at], side)[0, 0] for side in ("left", "right")]
-    assert max(abs(value) for value in n) / outcome.design.props.area == pytest.approx(axial.demand, rel=1e-9)
+        patch.setattr(superposition, "superposable", lambda solution: False)  # every arrangement a row of its own
+        every = api.check(every_arrangement(member), reserve=False)
+    assert len(found.design.member.combinations) <= len(every.design.member.combinations)
+    for a, b in zip(found.checks, every.checks, strict=True):
+        assert a.check == b.check and a.made == b.made, a.check
+        if a.made:
+            assert a.utilization == pytest.approx(b.utilization, rel=1e-9, abs=1e-12), a.check
+            assert a.demand == pytest.approx(b.demand, rel=1e-9, abs=1e-12), a.check
+            assert a.combination in every.design.member.combinations

@@ -6,7 +6,7 @@ is the unit-rigidity one rescaled (displacements scale as 1 / rigidity).
 from __future__ import annotations
 
 from types import EllipsisType
-from typing import Sequence
+from typing import Iterable, Mapping, Sequence
 
 import numpy as np
 from numpy.typing import ArrayLike
@@ -16,7 +16,7 @@ from sizer.analysis.cuts import as_stations, right_side, section_actions
 from sizer.analysis.displacements import combine_fields, field_displacements
 from sizer.analysis.layout import position_tolerance
 from sizer.analysis.loads import self_weight_load
-from sizer.analysis.patterns import expand_patterns
+from sizer.analysis.patterns import expand_patterns, with_arrangements
 from sizer.analysis.solve import solve_columns
 from sizer.errors import InputError
 from sizer.model import Load, Member, Stiffness
@@ -68,6 +68,14 @@ class MemberSolution:
         moved = MemberSolution(self.member, cases, self_weight, mass_per_length, stiffness, self._self_weight_error)
         moved._factor_table = self._factors()  # the same combinations and cases
         return moved
+
+    def with_arrangements(self, added: Mapping[str, Iterable[frozenset[int]]]) -> "MemberSolution":
+        """This solution with the pattern arrangements `added` (given combination -> sets of switches
+        on, analysis.patterns.with_arrangements) among its combinations; itself when none is new."""
+        member = with_arrangements(self.member, added)
+        if member is self.member:
+            return self
+        return MemberSolution(member, self.cases, self.self_weight, self.mass_per_length, self.stiffness, self._self_weight_error)
 
     def _factors(self) -> tuple[np.ndarray, np.ndarray]:
         """(n_combinations, n_cases) each combination's factor on each case, and (n_combinations,) its
@@ -177,7 +185,8 @@ def solve_member(member: Member, stiffness: Stiffness | None, mass_per_length: f
     """Solve every case in member.cases (loads grouped by case; cases named only in combinations
     too, as zero) and the unit self-weight case. A mechanism under the self weight alone is raised
     only when the self weight is counted (mass_per_length given, or later in weights()). Patterned
-    loads are expanded first (analysis.patterns): the solution's member is the expanded one."""
+    loads are expanded first (analysis.patterns): the solution's member is the expanded one, with the
+    arrangements that govern some action, reaction or displacement among its combinations."""
     member = expand_patterns(member)
     names = _case_names(member)
     load_sets: list[list[Load]] = [[load for load in member.loads if load.case == name] for name in names]
@@ -198,4 +207,20 @@ def solve_member(member: Member, stiffness: Stiffness | None, mass_per_length: f
             self_weight_error.problem += " (self weight)"
             if mass_per_length is not None:
                 raise self_weight_error
-    return MemberSolution(member, cases, self_weight, mass_per_length, stiffness, self_weight_error)
+    solution = MemberSolution(member, cases, self_weight, mass_per_length, stiffness, self_weight_error)
+    patterning = member.patterning
+    whole = patterning is not None and set(member.combinations) == set(patterning.origins)  # not some arrangements alone (a reserve factor's)
+    return with_governing_arrangements(solution) if whole else solution
+
+
+def with_governing_arrangements(solution: MemberSolution) -> MemberSolution:
+    """The solution with, among its combinations, the arrangements that make some action, reaction or
+    displacement largest or smallest at the stations where their envelopes peak (the stations of
+    analysis.stations, which include the envelope's stationary points): analysis.superposition."""
+    from sizer.analysis.stations import extreme_positions, stations
+    from sizer.analysis.superposition import candidate_arrangements
+
+    xs, sides = stations(solution.member)
+    extra = extreme_positions(solution, solution.combination_names)
+    xs, sides = np.concatenate([xs, extra]), np.concatenate([sides, np.full(extra.size, "right")])
+    return solution.with_arrangements(candidate_arrangements(solution, xs, sides))

@@ -1,5 +1,5 @@
-"""Pattern loading (`pattern = true` on a load): every arrangement of loaded and unloaded spans is a
-combination of its own, made by superposition of one solve per span.
+"""Pattern loading (`pattern = true` on a load): every arrangement of loaded and unloaded spans is
+checked, by superposition of one solve per span, without a combination per arrangement.
 
 Spans: the stretches between the supports that hold (rigidly or by a spring) uy or uz; the part
 beyond the outer such support at either end (an overhang) is a span too. They are numbered from 1
@@ -11,29 +11,27 @@ belongs to the span it is on (exactly on a support: the span to its right; at en
 span). The parts of one case on span k form the load case "<case> @ span k", so n spans cost n
 solves, however many arrangements there are.
 
-Arrangements: a combination that uses a case with patterned loads (a factor other than zero)
-becomes one combination per arrangement of that case: each subset of the spans its patterned loads
-reach, all loaded first, then fewer and fewer, and last the empty one: the case absent everywhere
-is an arrangement too (a load on an overhang relieves the back span; without it the back span sags
-most). The patterned loads of one case switch together; a case's unpatterned loads stay in every
-arrangement. Two patterned cases in one combination: every pair of arrangements (2^n x 2^m), and
-so on. Each arrangement keeps the combination's factors and is named by it in words:
-"dead + imposed (imposed on spans 1 and 3)". A combination that uses no patterned case keeps its
-name. At most MAX_ARRANGEMENTS arrangements per combination; beyond that the input is refused.
+Switches and arrangements: in a combination that uses a case with patterned loads (a factor other
+than zero), each part of that case on one span is a switch, on or off, with the case's factor; an
+arrangement is any set of switches on (the patterned loads of one case on one span switch
+together; a case's unpatterned loads stay in every arrangement), the empty one included (a load on
+an overhang relieves the back span; without it the back span sags most). Two patterned cases in
+one combination: every pair (2^n x 2^m arrangements). The arrangements are not listed: the
+expanded member holds, for each such combination, a few arrangements as combinations of their own
+(all switches on, none on, and those that the analysis and the checks find to govern some
+quantity, analysis.superposition), each named in words: "dead + imposed (imposed on spans 1 and
+3)". A combination that uses no patterned case keeps its name.
 """
 
 from __future__ import annotations
 
 from dataclasses import dataclass, replace
-from itertools import combinations as subsets_of_size
-from itertools import product
-from typing import Sequence
+from typing import Iterable, Mapping, Sequence
 
 from sizer.analysis.layout import position_tolerance
 from sizer.errors import InputError
 from sizer.model import CheckSettings, LineLoad, Load, Member, Patterning, PointLoad, Pressure
 
-MAX_ARRANGEMENTS = 4096  # per combination (docs/member-file.md)
 PART_MARK = " @ span "  # "<case> @ span <k>": the part of a patterned case on span k
 
 
@@ -117,66 +115,109 @@ def span_words(numbers: Sequence[int]) -> str:
     return "spans " + ", ".join(map(str, numbers[:-1])) + f" and {numbers[-1]}"
 
 
-def case_arrangements(reached: Sequence[int]) -> list[tuple[int, ...]]:
-    """The loaded spans of each arrangement of a case whose patterned loads reach `reached` spans:
-    all of them first, then every smaller subset (in order), the empty one last."""
-    sizes = range(len(reached), -1, -1)
-    return [subset for size in sizes for subset in subsets_of_size(reached, size)]
+MAX_SWITCHES = 400  # per combination: patterned cases x spans (docs/member-file.md); the searches over arrangements grow with their square
 
 
 def expand_patterns(member: Member) -> Member:
-    """The member with its patterned loads split into per-span load cases and every combination
-    that uses them made into one combination per arrangement (see the module docstring); the
-    member itself when it has no patterned load or is expanded already. InputError when a
-    combination would have more than MAX_ARRANGEMENTS arrangements, or a name made here is taken."""
+    """The member with its patterned loads split into per-span load cases and each combination that
+    uses them given its switches and two arrangements, all on and none on (see the module
+    docstring; more are added by with_arrangements); the member itself when it has no patterned
+    load or is expanded already. InputError when a combination would have more than MAX_SWITCHES
+    switches, or a name made here is taken."""
     if member.patterning is not None or not any(load.pattern for load in member.loads):
         return member
     span_list, tol = pattern_spans(member), position_tolerance(member)
     loads: list[Load] = []
-    reached: dict[str, set[int]] = {}
+    reached: dict[str, list[int]] = {}
     for load in member.loads:
         if not load.pattern:
             loads.append(load)
             continue
         for number, part in parts_by_span(load, span_list, tol):
             loads.append(replace(part, case=f"{load.case}{PART_MARK}{number}"))
-            reached.setdefault(load.case, set()).add(number)
+            if number not in reached.setdefault(load.case, []):
+                reached[load.case].append(number)
     _refuse_taken_case_names(member, loads)
-    choices = {case: case_arrangements(sorted(numbers)) for case, numbers in reached.items()}
+    switches: dict[str, tuple[tuple[str, float], ...]] = {}
+    for name, factors in member.combinations.items():
+        found = tuple((f"{case}{PART_MARK}{number}", factors[case]) for case in reached if factors.get(case, 0.0) != 0.0
+                      for number in sorted(reached[case]))
+        if len(found) > MAX_SWITCHES:
+            raise InputError(member.source, _combination_key(member, name),
+                             f"combination {name!r} patterns {len(found)} case parts over the spans, more than the {MAX_SWITCHES} sizer handles",
+                             "pattern fewer spans (pattern = true on loads over fewer spans), or fewer cases in one combination")
+        if found:
+            switches[name] = found
+    patterning = Patterning(member.loads, member.combinations, tuple((s.start, s.end) for s in span_list), {}, switches)
+    expanded = replace(member, loads=tuple(loads), combinations={}, patterning=patterning, checks=_named_deflection_combinations(member))
+    first = {name: [frozenset(range(len(found))), frozenset()] for name, found in switches.items()}
+    return with_arrangements(expanded, first)
+
+
+def arrangement_name(member: Member, origin: str, loaded: frozenset[int]) -> str:
+    """The name of the arrangement of given combination `origin` with the switches `loaded` on:
+    "<origin> (imposed on spans 1 and 3; snow on no span)"."""
+    assert member.patterning is not None
+    switches = member.patterning.switches[origin]
+    cases: dict[str, list[int]] = {}
+    for index, (part, _) in enumerate(switches):
+        case, number = part.rsplit(PART_MARK, 1)
+        cases.setdefault(case, [])
+        if index in loaded:
+            cases[case].append(int(number))
+    return f"{origin} ({'; '.join(f'{case} on {span_words(numbers)}' for case, numbers in cases.items())})"
+
+
+def _order_key(member: Member, origin: str, loaded: frozenset[int]) -> tuple:
+    """Arrangements of one combination in order: for each case in turn, more spans loaded first,
+    then by the spans loaded (all on first, none on last)."""
+    assert member.patterning is not None
+    cases: dict[str, list[int]] = {}
+    for index, (part, _) in enumerate(member.patterning.switches[origin]):
+        cases.setdefault(part.rsplit(PART_MARK, 1)[0], []).append(index)
+    return tuple(item for indices in cases.values() for item in (-len(loaded.intersection(indices)), tuple(sorted(loaded.intersection(indices)))))
+
+
+def with_arrangements(member: Member, added: Mapping[str, Iterable[frozenset[int]]]) -> Member:
+    """The expanded member with the arrangements `added` (given combination -> sets of switches
+    on) among its combinations, beside those it has; each combination's arrangements in order
+    (_order_key). The member itself when nothing is new."""
+    patterning = member.patterning
+    assert patterning is not None
+    held: dict[str, set[frozenset[int]]] = {}
+    for name, loaded in patterning.loaded.items():
+        held.setdefault(member.origin(name), set()).add(loaded)
+    new = {origin: {frozenset(s) for s in sets} - held.get(origin, set()) for origin, sets in added.items()}
+    if patterning.origins and not any(new.values()):
+        return member
     combinations: dict[str, dict[str, float]] = {}
     origins: dict[str, str] = {}
-    for name, factors in member.combinations.items():
-        for arranged, arranged_factors in _arrangements(member, name, factors, choices):
-            if arranged in combinations:
-                raise InputError(member.source, _combination_key(member, name), f"two combinations would be named {arranged!r}",
+    loaded_by_name: dict[str, frozenset[int]] = {}
+    for origin, factors in patterning.combinations.items():
+        switches = patterning.switches.get(origin)
+        if switches is None:
+            combinations[origin], origins[origin] = dict(factors), origin
+            continue
+        for loaded in sorted(held.get(origin, set()) | new.get(origin, set()), key=lambda on: _order_key(member, origin, on)):
+            name = arrangement_name(member, origin, loaded)
+            if name in combinations or name in patterning.combinations:
+                raise InputError(member.source, _combination_key(member, origin), f"two combinations would be named {name!r}",
                                  "rename the combination, so that its pattern arrangements get names of their own")
-            combinations[arranged], origins[arranged] = arranged_factors, name
-    patterning = Patterning(member.loads, member.combinations, tuple((s.start, s.end) for s in span_list), origins)
-    return replace(member, loads=tuple(loads), combinations=combinations, patterning=patterning, checks=_named_deflection_combinations(member))
+            arranged = dict(factors)
+            arranged.update({switches[k][0]: switches[k][1] for k in loaded})
+            combinations[name], origins[name], loaded_by_name[name] = arranged, origin, loaded
+    return replace(member, combinations=combinations, patterning=replace(patterning, origins=origins, loaded=loaded_by_name))
 
 
-def _arrangements(member: Member, name: str, factors: dict[str, float], choices: dict[str, list[tuple[int, ...]]]) -> list[tuple[str, dict[str, float]]]:
-    """(name, factors) of each arrangement of one combination: its patterned cases' arrangements
-    taken together."""
-    used = [case for case in choices if factors.get(case, 0.0) != 0.0]
-    count = 1
-    for case in used:
-        count *= len(choices[case])
-    if count > MAX_ARRANGEMENTS:
-        sizes = " x ".join(str(len(choices[case])) for case in used)
-        raise InputError(member.source, _combination_key(member, name),
-                         f"combination {name!r} would be checked in {count} pattern arrangements ({sizes}), more than the {MAX_ARRANGEMENTS} sizer allows",
-                         "pattern fewer spans (pattern = true on loads over fewer spans), or split a patterned case into cases of a few spans each")
-    found = []
-    for picked in product(*(choices[case] for case in used)):
-        arranged = dict(factors)
-        words = []
-        for case, loaded in zip(used, picked):
-            arranged.update({f"{case}{PART_MARK}{number}": factors[case] for number in loaded})
-            if len(choices[case]) > 1:
-                words.append(f"{case} on {span_words(loaded)}")
-        found.append((f"{name} ({'; '.join(words)})" if words else name, arranged))
-    return found
+def every_arrangement(member: Member) -> Member:
+    """The expanded member with every arrangement of every combination as a combination of its own
+    (2^switches each): the brute-force reference the superposition is tested against; only for a
+    few switches."""
+    expanded = expand_patterns(member)
+    if expanded.patterning is None:
+        return expanded
+    return with_arrangements(expanded, {origin: [frozenset(k for k in range(len(found)) if bits >> k & 1) for bits in range(2 ** len(found))]
+                                        for origin, found in expanded.patterning.switches.items()})
 
 
 def _combination_key(member: Member, name: str) -> str:
@@ -220,9 +261,14 @@ def pattern_notes(member: Member) -> list[str]:
     for name in member.combinations:
         origin = member.origin(name)
         counts[origin] = counts.get(origin, 0) + 1
-    expanded = ", ".join(f"'{name}' in {count} arrangements" for name, count in counts.items() if count > 1) or "none"
+    expanded = ", ".join(f"'{name}' over all {2 ** len(found)} arrangements ({counts.get(name, 0)} of them evaluated in full)"
+                         for name, found in patterning.switches.items()) or "none"
     cases = sorted({load.case for load in patterning.loads if load.pattern})
     return [f"Pattern loading of case{'s' if len(cases) > 1 else ''} {', '.join(repr(c) for c in cases)}: spans (overhangs count) {numbered}. "
             "Each patterned load is split by span and each span solved once; every arrangement of loaded and unloaded spans "
-            "is a combination of its own, with the same factors (unpatterned loads of a case stay in every arrangement; "
-            f"self-weight is never patterned). Arrangements checked: {expanded}."]
+            "(the case on no span included) is checked with the combination's factors (unpatterned loads of a case stay in every "
+            "arrangement; self-weight is never patterned): quantities linear in the loads (actions, stresses at each mesh node, "
+            "displacements) at their exact worst arrangement per station by per-span superposition; von Mises, combined shear and "
+            "deflection magnitude at each station and node over every arrangement exactly (the corners of the set of their linear "
+            "parts); lateral-torsional buckling by branch and bound. The arrangements that govern are evaluated in full and named. "
+            f"Arrangements: {expanded}."]

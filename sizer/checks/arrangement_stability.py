@@ -21,44 +21,54 @@ from __future__ import annotations
 
 import heapq
 import math
+from dataclasses import dataclass, field
 from typing import Callable
 
 import numpy as np
 
+from sizer.analysis.superposition import linear_extremes
+from sizer.checks.results import ZERO_ACTION
 from sizer.stability import Buckling
 from sizer.stability.problem import SectionStability
 
 BOUND_SLACK = 1e-9  # relative: a bound lowered by this much covers the round-off between the two ways of solving
-LEAF_ROWS = 4  # a set of this many arrangements or fewer is solved one by one (where bounds are loose the search costs at most ~1.5 solves an arrangement)
+LEAF_SWITCHES = 0  # a set with this many free switches or fewer is solved one arrangement at a time (4 solves)
 
 
-def lateral_over_arrangements(solver: SectionStability, loads: np.ndarray, demand: np.ndarray,
-                              utilization: Callable[[np.ndarray, float], np.ndarray],
-                              allowance: float = 1.0) -> dict[int, tuple[Buckling, bool]] | None:
-    """For the arrangements of one combination, weights `loads` (A, columns) with self-weight: row ->
-    (Buckling, exact?) for the rows with `demand` True; `utilization(rows, load_factor)` gives those
-    rows' lateral-torsional utilizations at that load factor. The bounds are made on the solver's
-    base mesh and multiplied by `allowance` (sizer.checks.stability.refinement_allowance) to hold for
-    converged load factors; the arrangements solved are solved converged. None when the bound does
-    not apply (K with free movements, or a sparse base mesh)."""
-    varying = np.flatnonzero(np.ptp(loads, axis=0) > 0)
-    bits = loads[:, varying] != 0.0  # (A, J) which parts each arrangement loads
-    off = np.flatnonzero(~bits.any(axis=1))
-    if not off.size:
-        return None
-    base = loads[off[0]]
-    switches = []
-    for k, column in enumerate(varying):
-        weights = np.zeros(loads.shape[1])
-        weights[column] = loads[np.flatnonzero(bits[:, k])[0], column]
-        switches.append(weights)
+@dataclass
+class LateralSearch:
+    """What the branch and bound found for one given combination: the exact load factor of each
+    arrangement it solved (switches on -> Buckling), the proven lower bound of every set it bounded
+    (the switches fixed on or off -> load factor), and the arrangement of the largest utilization."""
+
+    exact: dict[frozenset[int], Buckling] = field(default_factory=dict)
+    bounds: list[tuple[dict[int, bool], float]] = field(default_factory=list)
+    best: frozenset[int] | None = None
+
+    def load_factor(self, on: frozenset[int]) -> tuple[Buckling, bool]:
+        """(Buckling, exact?) of one arrangement: solved, or the highest bound of the sets it is in."""
+        if on in self.exact:
+            return self.exact[on], True
+        factor = max((value for fixed, value in self.bounds if all((k in on) == state for k, state in fixed.items())), default=0.0)
+        return Buckling(factor, None), math.isinf(factor)
+
+
+def lateral_over_arrangements(solver: SectionStability, fixed: np.ndarray, switches: np.ndarray, moments: tuple[np.ndarray, np.ndarray],
+                              utilization: Callable[[float, float, float], float], allowance: float = 1.0) -> LateralSearch | None:
+    """Branch and bound over the arrangements of one combination: `fixed` (columns,) the weights in
+    every arrangement (self-weight included), `switches` (K, columns) each switch's; `moments` the
+    major-axis moment Mz (section axes) at the stations, fixed part (n,) and each switch's (K, n);
+    `utilization(peak |Mz|, its sign, load factor)` the lateral-torsional utilization, which rises
+    with the moment. The bounds are made on the solver's base mesh and multiplied by `allowance`
+    (sizer.checks.stability.refinement_allowance) to hold for converged load factors; the
+    arrangements solved are solved converged. None when the bound does not apply (K with free
+    movements, or a sparse base mesh)."""
     if not hasattr(solver.reduced, "standard_forms"):  # a sparse level: each arrangement is solved on its own
         return None
-    forms = solver.reduced.standard_forms([solver.load_matrix("lateral", w) for w in [base] + switches])
+    forms = solver.reduced.standard_forms([solver.load_matrix("lateral", w) for w in [fixed, *switches]])
     if forms is None:
         return None
-    search = _Search(solver, loads, bits, demand, utilization, forms, allowance)
-    return search.run()
+    return _Search(solver, fixed, switches, moments, utilization, forms, allowance).run()
 
 
 class _Search:
@@ -66,13 +76,13 @@ class _Search:
     most to the bound along its buckled shape (the loaded span that drives the mode), which closes the
     bound in few splits where the mode is local to a span or two."""
 
-    def __init__(self, solver: SectionStability, loads: np.ndarray, bits: np.ndarray, demand: np.ndarray,
-                 utilization: Callable[[np.ndarray, float], np.ndarray], forms: list[np.ndarray], allowance: float) -> None:
-        self.solver, self.loads, self.bits, self.demand, self.utilization = solver, loads, bits, demand, utilization
-        self.allowance = allowance
+    def __init__(self, solver: SectionStability, fixed: np.ndarray, switches: np.ndarray, moments: tuple[np.ndarray, np.ndarray],
+                 utilization: Callable[[float, float, float], float], forms: list[np.ndarray], allowance: float) -> None:
+        self.solver, self.fixed, self.switches, self.utilization, self.allowance = solver, fixed, switches, utilization, allowance
+        self.moment, self.moment_parts = moments
         self.base, self.parts = forms[0], forms[1:]
         self.positive = [_positive_part(c) for c in self.parts]
-        self.exact: dict[int, tuple[Buckling, bool]] = {}
+        self.found = LateralSearch()
 
     def bound(self, fixed: dict[int, bool]) -> tuple[float, np.ndarray | None]:
         """A lower bound (or math.inf) of the load factor of every arrangement agreeing with `fixed`,
@@ -90,51 +100,59 @@ class _Search:
         top = float(values[-1])
         return (self.allowance / top * (1 - BOUND_SLACK), vectors[:, -1]) if top > 0 else (math.inf, None)
 
-    def node(self, fixed: dict[int, bool]) -> tuple[float, dict[int, bool], np.ndarray, float, np.ndarray | None]:
-        """(upper bound of the utilization, fixed switches, rows, load-factor bound, its shape) of one set."""
-        rows = np.flatnonzero(self.demand & np.all([self.bits[:, j] == on for j, on in fixed.items()] or [np.ones(len(self.bits), bool)], axis=0))
-        factor, shape = self.bound(fixed) if rows.size else (math.inf, None)
-        upper = float(self.utilization(rows, factor).max(initial=-math.inf)) if math.isfinite(factor) else 0.0
-        return upper, fixed, rows, factor, shape
+    def peaks(self, fixed: dict[int, bool]) -> list[tuple[float, float]]:
+        """(peak, sign) bounds of the largest sagging and hogging |Mz| over the arrangements agreeing with `fixed`."""
+        on = [k for k, state in fixed.items() if state]
+        free = [k for k in range(len(self.switches)) if k not in fixed]
+        base = self.moment + self.moment_parts[on].sum(axis=0)
+        if not free:  # one arrangement: the sign where |Mz| is largest, as the check takes it
+            at = int(np.argmax(np.abs(base))) if base.size else 0
+            return [(abs(float(base[at])), -1.0 if base.size and base[at] < 0 else 1.0)] if base.size else []
+        high, low = linear_extremes(base, self.moment_parts[free]) if free else (base, base)
+        return [(float(high.max(initial=0.0)), 1.0), (float(-low.min(initial=0.0)), -1.0)]
 
-    def branch(self, fixed: dict[int, bool], rows: np.ndarray, shape: np.ndarray) -> int:
-        """The free switch to split on: of those the set's arrangements differ in, the one whose
-        positive part adds most to the bound along its shape (it tightens the bound most)."""
-        free = [k for k in range(self.bits.shape[1]) if k not in fixed and self.bits[rows, k].any() and not self.bits[rows, k].all()]
-        return max(free, key=lambda k: float(shape @ self.positive[k] @ shape))
+    def node(self, fixed: dict[int, bool]) -> tuple[float, dict[int, bool], float, np.ndarray | None]:
+        """(upper bound of the utilization, fixed switches, load-factor bound, its shape) of one set."""
+        factor, shape = self.bound(fixed)
+        self.found.bounds.append((fixed, factor))
+        upper = max((self.utilization(peak, sign, factor) for peak, sign in self.peaks(fixed) if peak > ZERO_ACTION), default=0.0) \
+            if math.isfinite(factor) else 0.0
+        return upper, fixed, factor, shape
 
-    def run(self) -> dict[int, tuple[Buckling, bool]]:
+    def run(self) -> LateralSearch:
         best, counter = -math.inf, 0
-        heap: list = []
-        heapq.heappush(heap, (-self.node({})[0], counter, *self.node({})[1:]))
+        upper, *rest = self.node({})
+        heap: list = [(-upper, counter, *rest)]
         while heap and -heap[0][0] >= best:
-            _, _, fixed, rows, factor, shape = heapq.heappop(heap)
-            if not rows.size:
+            _, _, fixed, factor, shape = heapq.heappop(heap)
+            if math.isinf(factor):  # none of them can buckle sideways
                 continue
-            if math.isinf(factor):  # none of them can buckle sideways: exact
-                for row in rows.tolist():
-                    self.exact[row] = (Buckling(math.inf, None), True)
+            free = [k for k in range(len(self.switches)) if k not in fixed]
+            if len(free) <= LEAF_SWITCHES:  # a few arrangements: solving each costs no more than splitting further
+                for bits in range(2 ** len(free)):
+                    on = frozenset([k for k, state in fixed.items() if state] + [k for i, k in enumerate(free) if bits >> i & 1])
+                    value = self.solve(on)
+                    if value > best:
+                        best, self.found.best = value, on
                 continue
-            if rows.size <= LEAF_ROWS:  # a few arrangements: solving each costs no more than splitting further
-                for row in rows.tolist():
-                    found = self.solve(row)
-                    self.exact[row] = (found, True)
-                    if math.isfinite(found.load_factor):
-                        best = max(best, float(self.utilization(np.array([row]), found.load_factor)[0]))
-                continue
-            j = self.branch(fixed, rows, shape)
-            for on in (True, False):
+            j = max(free, key=lambda k: float(shape @ self.positive[k] @ shape))
+            for state in (True, False):
                 counter += 1
-                upper, *rest = self.node({**fixed, j: on})
+                upper, *rest = self.node({**fixed, j: state})
                 heapq.heappush(heap, (-upper, counter, *rest))
-        for _, _, _, rows, factor, _ in heap:
-            for row in rows.tolist():
-                self.exact[row] = (Buckling(factor, None), math.isinf(factor))
-        return self.exact
+        return self.found
 
-    def solve(self, row: int) -> Buckling:
-        """The lowest load factor of one arrangement's load set, converged from this level's mesh."""
-        return self.solver.lateral(self.loads[row])
+    def solve(self, on: frozenset[int]) -> float:
+        """Solve one arrangement converged; its lateral-torsional utilization (-inf without moment)."""
+        weights = self.fixed + self.switches[sorted(on)].sum(axis=0)
+        moments = self.moment + self.moment_parts[sorted(on)].sum(axis=0)
+        found = self.solver.load_set("lateral", weights)
+        self.found.exact[on] = found
+        at = int(np.argmax(np.abs(moments)))
+        peak = abs(float(moments[at]))
+        if peak <= ZERO_ACTION or not math.isfinite(found.load_factor):
+            return -math.inf
+        return self.utilization(peak, -1.0 if moments[at] < 0 else 1.0, found.load_factor)
 
 
 def _positive_part(c: np.ndarray) -> np.ndarray:

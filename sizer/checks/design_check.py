@@ -12,14 +12,14 @@ from sizer.analysis.section_axes import to_section_axes
 from sizer.checks.bracing import brace_demands, brace_notes
 from sizer.checks.buckling import BucklingAxis, buckling_check, column_buckling, given_length_axes
 from sizer.checks.deflection import deflection_check, deflection_limits
-from sizer.checks.field import ArrangedPeak, FieldPeaks, superposed_axial, superposed_bending
+from sizer.checks.field import FieldPeaks
 from sizer.checks.lateral import LateralBuckling, lateral_buckling, lateral_check
 from sizer.checks.local import ASSUMPTIONS as LOCAL_ASSUMPTIONS
 from sizer.checks.local import local_check
 from sizer.checks.reduction import PLATEAU_WORDS, TRANSITION_WORDS
 from sizer.checks.results import CheckReport, CheckResult
 from sizer.checks.second_order import second_order_actions, second_order_check, second_order_notes, with_amplification
-from sizer.checks.stability import StabilityReport, stability_mass, stability_report
+from sizer.checks.stability import StabilityReport, lateral_not_applicable, stability_mass, stability_report
 from sizer.checks.stations import check_stations, member_actions
 from sizer.checks.web import web_check, web_notes
 from sizer.checks.torsion import check_across, torsion_actions, torsion_note, torsion_summary
@@ -31,12 +31,17 @@ from sizer.stability import MemberStability
 from sizer.stability.boundary import warping_held
 
 if TYPE_CHECKING:
+    from sizer.checks.arrangement_stability import LateralSearch
     from sizer.sections.fields import UnitStressField
+    from sizer.stability.problem import SectionStability
 
 
-SUPERPOSED_NOTE = ("Axial force and bending stress over the pattern arrangements by per-span superposition: at every station (and mesh "
-                   "node) each patterned case's part on each span is found once; the worst arrangement is the fixed part plus the "
-                   "contributions of one sign (exact; the arrangement with the case on no span included).")
+PATTERN_SECOND_ORDER_NOTE = (
+    "Second order with pattern loading: the arrangements are found from first-order quantities (per-span superposition holds "
+    "only there) and lateral-torsional buckling; the second-order actions are solved for each arrangement evaluated in full "
+    "(those that govern some first-order quantity, deflection or lateral-torsional buckling, and all or no span loaded). An "
+    "arrangement that governs none of these in first order is not solved in second order: where the axial force is patterned "
+    "or the amplification is large, check such arrangements as combinations of their own.")
 
 
 def check_design(design: Design, unit_field: UnitStressField, n_even: int = 200, stability: MemberStability | None = None,
@@ -46,6 +51,7 @@ def check_design(design: Design, unit_field: UnitStressField, n_even: int = 200,
     `validate_across` a load placed across the section beyond it is bad input (sizing checks every
     candidate with the load where given, as on a bracket). `scaled`: the stability report of this
     section on the member as given and the factor on its loads (see stability_report)."""
+    design, stability, searches, solver = _governing_arrangements(design, unit_field, n_even, stability)
     xs, sides = check_stations(design, n_even)
     names = design.solution.combination_names
     if validate_across:
@@ -57,8 +63,7 @@ def check_design(design: Design, unit_field: UnitStressField, n_even: int = 200,
     actions = to_section_axes(first if second is None else second.actions, design.member.orientation)
     warping = torsion.warping() if second is None else torsion.warping() + second.warping
     stress = FieldPeaks(actions, unit_field, design.props.area, warping)
-    arranged = None if second is not None else _superposed(design, xs, sides, unit_field, warping)  # second order: not a weighted sum
-    report = stability_report(design, to_section_axes(first, design.member.orientation), xs, stability, scaled)
+    report = stability_report(design, to_section_axes(first, design.member.orientation), xs, stability, searches, solver, scaled)
     given = given_length_axes(design.member, design.props, design.known_material)
     columns = column_buckling(design, report, given)
     fb = _bending_allowable(design, report)
@@ -67,8 +72,8 @@ def check_design(design: Design, unit_field: UnitStressField, n_even: int = 200,
         report.solve_exactly(stale, design, stability_mass(design))
         interaction, lateral = _lateral_checks(design, report, stress, xs, columns, fb)
     checks = [
-        axial_check(stress, xs, names, design, arranged),
-        bending_check(stress, xs, names, design, arranged["bending"] if arranged else None),
+        axial_check(stress, xs, names, design),
+        bending_check(stress, xs, names, design),
         interaction,
         shear_check(stress, xs, names, design),
         equivalent_check(stress, xs, names, design),
@@ -84,34 +89,48 @@ def check_design(design: Design, unit_field: UnitStressField, n_even: int = 200,
     nodes = np.asarray(unit_field.sigma).shape[1]
     notes = check_notes(design, report, given, len(xs), len(names), nodes, {c.check for c in checks if c.made})
     notes += second_order_notes(design, second)
+    if second is not None and design.member.patterning is not None and design.member.patterning.switches:
+        notes.append(PATTERN_SECOND_ORDER_NOTE)
     notes.insert(1, torsion_note(design))
-    if arranged is not None:
-        notes.append(SUPERPOSED_NOTE)
     braces = brace_demands(design, actions, xs)
     notes += brace_notes(braces)
     return CheckReport(design.spec.name, checks, notes, len(xs), nodes, stability=report, restraints=braces,
-                       torsion=torsion_summary(design, torsion, xs), second_order=second)
+                       torsion=torsion_summary(design, torsion, xs), second_order=second, design=design)
 
 
-def _superposed(design: Design, xs: np.ndarray, sides: np.ndarray, unit_field: UnitStressField, warping: np.ndarray) -> dict[str, ArrangedPeak | None] | None:
-    """The peak bending stress ("bending") and axial tension and compression ("tension",
-    "compression") over every pattern arrangement by per-span superposition (exact, one row per span
-    and case instead of one per arrangement); None where the arrangements are not weighted sums of
-    the case solutions (analysis.superposition.superposable) or the solution holds only some
-    arrangements: the checks then take every arrangement's row. Not called where second-order
-    actions replace the first-order ones (they are not weighted sums of the cases' actions). "bending" is None also where a
-    bimoment adds warping normal stress (not split by span here) or nothing bends."""
-    from sizer.analysis.superposition import every_arrangement, superposable, switched_combinations
+def _governing_arrangements(design: Design, unit_field: UnitStressField, n_even: int,
+                            stability: MemberStability | None) -> tuple[Design, MemberStability | None, dict[str, LateralSearch], SectionStability | None]:
+    """The design with the pattern arrangements that govern its stress and lateral-torsional checks
+    among its combinations (sizer.checks.arrangements, sizer.checks.stability.lateral_searches), the
+    stability model for it, the lateral searches and the section's solves they used; the design as
+    it is where its arrangements are not superposable (analysis.superposition.superposable)."""
+    from sizer.analysis.superposition import superposable
+    from sizer.checks.arrangements import deflection_arrangements, stress_arrangements, with_arrangements
+    from sizer.checks.stability import lateral_searches
+    from sizer.stability import stability_section
 
-    if not superposable(design.solution):
-        return None
-    switched = switched_combinations(design.solution)
-    if not every_arrangement(switched):
-        return None
-    each = to_section_axes(design.solution.case_actions(xs, sides), design.member.orientation)
-    found = superposed_axial(each, switched, design.props.area)
-    found["bending"] = None if np.any(warping[..., 0]) else superposed_bending(each, switched, unit_field)
-    return found
+    if not superposable(design.solution) or design.material is None:
+        return design, stability, {}, None
+    xs, sides = check_stations(design, n_even)
+    warping = torsion_actions(design, xs, sides).warping()
+    first = to_section_axes(member_actions(design, xs, sides), design.member.orientation)
+    added = stress_arrangements(design, xs, sides, unit_field, first) if not np.any(warping) else {}
+    for origin, found in deflection_arrangements(design).items():
+        added.setdefault(origin, set()).update(found)
+    model = stability or MemberStability(design.member, design.solution)
+    section = stability_section(design.props, design.known_material.elastic_modulus, design.known_material.shear_modulus)
+    searches: dict[str, LateralSearch] = {}
+    solver: SectionStability | None = None
+    if not lateral_not_applicable(design, section, first[..., 5]):
+        solver = model.for_section(section)
+        searches = lateral_searches(design, xs, sides, solver)
+        for origin, search in searches.items():
+            if search.best is not None:
+                added.setdefault(origin, set()).add(search.best)
+    extended = with_arrangements(design, added)
+    if solver is not None:
+        solver.model = solver.model.for_solution(extended.solution)  # its solves so far kept: the same load cases
+    return extended, model.for_solution(extended.solution), searches, solver
 
 
 def with_warping_compression(actions: np.ndarray, warping: np.ndarray, unit_field: UnitStressField, area: float) -> np.ndarray:

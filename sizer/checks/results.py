@@ -14,6 +14,7 @@ if TYPE_CHECKING:
     from sizer.checks.second_order import SecondOrderActions
     from sizer.checks.stability import StabilityReport
     from sizer.checks.torsion import TorsionSummary
+    from sizer.design import Design
 
 CHECK_NAMES = ("axial", "bending", "interaction", "shear", "equivalent", "deflection", "buckling", "lateral-torsional", "local", "web",
                "second-order")
@@ -69,6 +70,7 @@ class CheckReport:
     torsion: TorsionSummary | None = None  # peaks of T, Tw, B; None when nothing twists the member
     reserve: Reserve | None = None  # where found (check, size, schedules)
     second_order: SecondOrderActions | None = None  # None: first order only
+    design: Design | None = None  # the design the checks used: the one checked, with the pattern arrangements that govern among its combinations
 
     @property
     def made(self) -> list[CheckResult]:

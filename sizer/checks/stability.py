@@ -23,6 +23,7 @@ from sizer.stability import Buckling, MemberStability, StabilitySection, minor_a
 from sizer.stability.section import has_weaker_axis
 
 if TYPE_CHECKING:
+    from sizer.checks.arrangement_stability import LateralSearch
     from sizer.stability.problem import SectionStability
 
 N, MZ = 0, 5
@@ -91,14 +92,17 @@ def lateral_not_applicable(design: Design, section: StabilitySection, moments: n
 
 
 def stability_report(design: Design, actions: np.ndarray, xs: np.ndarray, model: MemberStability | None = None,
+                     searches: dict[str, LateralSearch] | None = None, solver: SectionStability | None = None,
                      scaled: tuple[StabilityReport, float] | None = None) -> StabilityReport:
     """The stability of the design's section under every combination; `actions` (C, S, 6) in the
     section's axes at the check stations `xs` (m). `model`: a MemberStability of this member to
-    reuse (its section-independent parts), else one is built. `scaled`: (the report of this section
-    on the member as given, factor) where each combination of the design is the one of that name
-    there with every load (self-weight included) times factor (the reserve factor's checks): its
-    load factors are those divided by factor (the same load shape: K d = lam B d with B times
-    factor), solved again only where that report lacks them."""
+    reuse (its section-independent parts), else one is built; `searches`: given combination ->
+    LateralSearch over its pattern arrangements (lateral_searches), whose load factors the
+    arrangements take; `solver`: the section's solves (model.for_section) where made already.
+    `scaled`: (the report of this section on the member as given, factor) where each combination
+    of the design is the one of that name there with every load (self-weight included) times
+    factor (the reserve factor's checks): its load factors are those divided by factor (the same
+    load shape: K d = lam B d with B times factor), solved again only where that report lacks them."""
     if scaled is not None:
         found = _scaled_report(design, actions, xs, *scaled)
         if found is not None:
@@ -108,9 +112,9 @@ def stability_report(design: Design, actions: np.ndarray, xs: np.ndarray, model:
     reason = lateral_not_applicable(design, section, actions[..., MZ])
     report = StabilityReport(model, section, reason)
     mass = stability_mass(design)
-    solver = model.for_section(section)
+    solver = solver if solver is not None and solver.model.solution is design.solution else model.for_section(section)
     report.solver = solver
-    patterned = {} if reason else pattern_laterals(design, actions, xs, solver, mass)
+    patterned = {} if reason else searched_laterals(design, searches or {})
     for c, name in enumerate(design.solution.combination_names):
         compression = np.maximum(-actions[c, :, N], 0.0)
         moments = np.abs(actions[c, :, MZ])
@@ -171,38 +175,50 @@ def stability_mass(design: Design) -> float:
     return (design.mass_per_length or 0.0) if design.member.self_weight_case else 0.0
 
 
-def pattern_laterals(design: Design, actions: np.ndarray, xs: np.ndarray, solver: SectionStability, mass: float) -> dict[int, tuple[Buckling, bool]]:
-    """combination -> (lateral Buckling, exact?) for the pattern arrangements of each combination,
-    by branch and bound (sizer.checks.arrangement_stability): exact where it could give the largest
-    lateral-torsional utilization, a proven lower bound of the load factor elsewhere. Empty without
-    pattern arrangements or a bending allowable."""
+def lateral_searches(design: Design, xs: np.ndarray, sides: np.ndarray, solver: SectionStability) -> dict[str, LateralSearch]:
+    """Given combination -> LateralSearch (sizer.checks.arrangement_stability): lateral-torsional
+    buckling over every pattern arrangement of each combination with switches, by branch and bound;
+    empty without them or a bending allowable, or where the member cannot buckle sideways."""
+    from sizer.analysis.section_axes import to_section_axes
+    from sizer.analysis.superposition import switched_combinations
     from sizer.checks.arrangement_stability import lateral_over_arrangements
     from sizer.checks.lateral import lateral_allowables
 
     fb = design.known_material.allowable.bending
-    names = design.solution.combination_names
-    groups: dict[str, list[int]] = {}
-    for c, name in enumerate(names):
-        groups.setdefault(design.solution.member.origin(name), []).append(c)
-    if fb is None or all(len(rows) == 1 for rows in groups.values()):
+    mass = stability_mass(design)
+    switched = switched_combinations(design.solution, mass)
+    if fb is None or not switched:
         return {}
-    loads, per_mass = solver.model.rows
-    moments = np.abs(actions[..., MZ])
-    at = moments.argmax(axis=1)
-    peak = moments[np.arange(len(names)), at]
-    sign = np.where(actions[np.arange(len(names)), at, MZ] < 0, -1.0, 1.0)
-    found: dict[int, tuple[Buckling, bool]] = {}
-    for rows in (np.array(rows) for rows in groups.values() if len(rows) > 1):
-        def utilization(picked: np.ndarray, factor: float, rows: np.ndarray = rows) -> np.ndarray:
-            """The lateral-torsional utilization (sizer.checks.lateral) of arrangements `picked` at this load factor."""
-            c = rows[picked]
-            if not math.isfinite(factor):
-                return np.zeros(len(c))
-            return peak[c] * design.props.sigma_peak[2] / lateral_allowables(design, fb, peak[c], sign[c], factor)[2]
+    each = to_section_axes(design.solution.case_actions(xs, sides), design.member.orientation)[..., MZ]  # (columns, n)
 
-        weights = loads[rows] + mass * per_mass[rows]
-        solved = lateral_over_arrangements(solver, weights, peak[rows] > ZERO_ACTION, utilization, refinement_allowance(solver, weights))
-        found.update({int(rows[row]): value for row, value in (solved or {}).items()})
+    def utilization(peak: float, sign: float, factor: float) -> float:
+        """The lateral-torsional utilization (sizer.checks.lateral) at this peak moment and load factor."""
+        if not math.isfinite(factor):
+            return 0.0
+        allowed = lateral_allowables(design, fb, np.array([peak]), np.array([sign]), factor)[2]
+        return float(peak * design.props.sigma_peak[2] / allowed[0])
+
+    found: dict[str, LateralSearch] = {}
+    for combination in switched:
+        heaviest = combination.fixed + np.maximum(combination.switches, 0.0).sum(axis=0)
+        moments = (combination.fixed @ each, combination.switches @ each)
+        search = lateral_over_arrangements(solver, combination.fixed, combination.switches, moments, utilization,
+                                           refinement_allowance(solver, heaviest[None, :]))
+        if search is not None:
+            found[combination.origin] = search
+    return found
+
+
+def searched_laterals(design: Design, searches: dict[str, LateralSearch]) -> dict[int, tuple[Buckling, bool]]:
+    """combination -> (lateral Buckling, exact?) of the pattern arrangements the searches cover."""
+    patterning = design.member.patterning
+    found: dict[int, tuple[Buckling, bool]] = {}
+    if patterning is None or not searches:
+        return found
+    for c, name in enumerate(design.solution.combination_names):
+        search = searches.get(design.member.origin(name))
+        if search is not None and name in patterning.loaded:
+            found[c] = search.load_factor(patterning.loaded[name])
     return found
 
 
@@ -214,7 +230,7 @@ def refinement_allowance(solver: SectionStability, weights: np.ndarray) -> float
     of these arrangements is allowed, and 1e-4 more for the convergence tolerance."""
     heaviest = weights[int(np.argmax(np.abs(weights).sum(axis=1)))]
     coarse = solver.reduced.modes(solver.load_matrix_full("lateral", heaviest), 1)[0].load_factor
-    fine = solver.lateral(heaviest).load_factor
+    fine = solver.load_set("lateral", heaviest).load_factor
     if not (math.isfinite(coarse) and math.isfinite(fine)) or coarse <= 0.0:
         return 1.0 - 1e-4
     return max(0.0, 1.0 - 2.0 * max(0.0, 1.0 - fine / coarse) - 1e-4)

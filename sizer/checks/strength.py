@@ -8,7 +8,7 @@ import math
 
 import numpy as np
 
-from sizer.checks.field import ArrangedPeak, FieldPeaks
+from sizer.checks.field import FieldPeaks
 from sizer.checks.reduction import PLATEAU_SHEAR
 from sizer.checks.results import ZERO_ACTION, CheckResult
 from sizer.checks.web import shear_panels, shear_slenderness
@@ -38,19 +38,12 @@ def needs_allowable(member: Member, material: Material, which: str, check: str) 
     return value
 
 
-def axial_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], design: Design,
-                arranged: dict[str, ArrangedPeak | None] | None = None) -> CheckResult:
-    """N / A against the tension or compression allowable, whichever governs; `arranged`: the
-    largest tension and compression over every pattern arrangement by per-span superposition
-    (None: from every row of `stress`)."""
+def axial_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], design: Design) -> CheckResult:
+    """N / A against the tension or compression allowable, whichever governs."""
     member, material = design.member, design.known_material
     results = []
     for sense, which in ((1.0, "tension"), (-1.0, "compression")):
-        if arranged is not None:
-            peak = arranged[which]
-            value, at, combination = (0.0, 0.0, "") if peak is None else (peak.value, float(xs[peak.station]), peak.combination)
-        else:
-            value, at, combination = _locate(np.maximum(sense * stress.axial, 0.0), xs, names)
+        value, at, combination = _locate(np.maximum(sense * stress.axial, 0.0), xs, names)
         if value * design.props.area <= ZERO_ACTION:
             continue
         allowable = needs_allowable(member, material, which, "axial")
@@ -60,17 +53,12 @@ def axial_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], desi
     return max(results, key=lambda r: r.made_utilization)
 
 
-def bending_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], design: Design, arranged: ArrangedPeak | None = None) -> CheckResult:
-    """Peak bending stress from My and Mz together (full field) against the bending allowable;
-    `arranged`: that peak over every pattern arrangement found by per-span superposition (None:
-    from every row of `stress`)."""
+def bending_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], design: Design) -> CheckResult:
+    """Peak bending stress from My and Mz together (full field) against the bending allowable."""
     if stress.bending_upper.max() <= 0.0:
         return CheckResult("bending", None, detail="no bending moment")
     allowable = needs_allowable(design.member, design.known_material, "bending", "bending")
-    if arranged is not None:
-        value, at, combination = arranged.value, float(xs[arranged.station]), arranged.combination
-    else:
-        value, at, combination = _place(stress.largest(stress.bending_upper, lambda rows, exact: exact[:, 0]), xs, names)
+    value, at, combination = _place(stress.largest(stress.bending_upper, lambda rows, exact: exact[:, 0]), xs, names)
     return CheckResult("bending", value / allowable, value, allowable, at, combination, detail="My and Mz together")
 
 

@@ -17,7 +17,7 @@ from sizer.checks import CheckReport, CheckResult, spans
 from sizer.design import Design
 from sizer.render.basis import basis_text, combination_text
 from sizer.render.axis_names import inertia_pair
-from sizer.render.common import CAUTIONS, cautions_panel, notes_panel, reactions_without_round_off
+from sizer.render.common import CAUTIONS, cautions_panel, notes_panel, patterned, reactions_without_round_off
 from sizer.render.forces import REACTION_NAMES, plural, reactions_ledger_values
 from sizer.render.text import Column, Heading, Ledger, Paragraph
 
@@ -222,7 +222,7 @@ def reactions_ledger(design: Design, system: str) -> Ledger:
     from rich.markup import escape
 
     names = design.solution.combination_names
-    if len(names) > REACTIONS_LISTED:
+    if len(names) > REACTIONS_LISTED or patterned(design.member):
         from sizer.render.forces import reaction_envelope_table
 
         return reaction_envelope_table(design.solution, list(names), system)

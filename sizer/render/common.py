@@ -73,6 +73,18 @@ def notes_panel(notes: list[str], title: str = "Assumptions made", system: str =
                  title_align="left", border_style="cyan", expand=True)
 
 
+def patterned(member: Member) -> bool:
+    """Whether the member's combinations are pattern arrangements (some of them, the ones that govern)."""
+    return member.patterning is not None and bool(member.patterning.switches)
+
+
+def combinations_words(member: Member, count: int) -> str:
+    """"7 combinations", or for pattern arrangements "every pattern arrangement (7 evaluated in full)"."""
+    if patterned(member):
+        return f"every pattern arrangement ({count} evaluated in full)"
+    return f"{count} combination{'' if count == 1 else 's'}"
+
+
 def member_notes(member: Member) -> list[str]:
     """Assumptions that follow from the member file alone."""
     from sizer.analysis.patterns import pattern_notes

@@ -20,7 +20,7 @@ from sizer.analysis import (
     reaction_envelope,
 )
 from sizer.model import ACTIONS, LineLoad, Member, PointLoad
-from sizer.render.common import CAUTIONS, cautions_panel, notes_panel, reactions_without_round_off, without_round_off
+from sizer.render.common import CAUTIONS, cautions_panel, combinations_words, notes_panel, reactions_without_round_off, without_round_off
 from sizer.render.text import Column, Heading, Ledger, Paragraph
 
 if TYPE_CHECKING:
@@ -357,7 +357,7 @@ def reaction_envelope_table(solution: MemberSolution, combinations: list[str], s
 
     found = reaction_envelope(solution, combinations)
     shown = [k for k in range(6) if any(abs(e.largest[k][0]) > TINY_FORCE or abs(e.smallest[k][0]) > TINY_FORCE for e in found)] or [1]
-    ledger = Ledger(f"Reactions: largest and smallest over {plural(len(combinations), 'combination')} (support on member)", [
+    ledger = Ledger(f"Reactions: largest and smallest over {combinations_words(solution.member, len(combinations))} (support on member)", [
         Column("support"), Column(_header("at", "length", system), right=True), Column("reaction"),
         Column("largest", right=True), Column("smallest", right=True)])
     for entry in found:

@@ -224,4 +224,4 @@ def design_for(member: Member, material: Material, candidate: Candidate, base: M
     stiffness = oriented_stiffness(candidate.props, material, member.orientation)
     mass = candidate.mass_per_length if member.self_weight_case else None
     solution = base.for_section(stiffness, mass) if base is not None else solve_member(member, stiffness, mass)
-    return Design(member, solution, material, candidate.spec, candidate.props, stiffness, candidate.mass_per_length)
+    return Design(solution.member, solution, material, candidate.spec, candidate.props, stiffness, candidate.mass_per_length)

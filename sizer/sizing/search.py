@@ -91,6 +91,7 @@ class Search:
             design = design_for(self.member, self.material, candidate, self.base)
             candidate.design = design
             candidate.report = check_design(design, unit_stress_field(candidate.spec), stability=self.model, validate_across=False)
+            candidate.design = candidate.report.design
             if learn and self.stability is not None and candidate.report.stability is not None:
                 self.stability.add(candidate.report.stability)
         return candidate.report

@@ -51,7 +51,9 @@ class StabilityBounds:
         if self.basis is None:
             self.basis = admissible_basis(self.model.mesh.size, strict_rows(self.model))
         self.epoch += 1
-        for c, entry in enumerate(report.combinations):
+        rows = {name: c for c, name in enumerate(self.model.solution.combination_names)}
+        for entry in report.combinations:
+            c = rows.get(entry.combination, -1)  # a pattern arrangement the full check added has no row here
             for kind, found in (("axial", entry.axial), ("lateral", entry.lateral)):
                 if (kind, c) in self.wanted and found is not None and found.mode is not None:
                     self.shapes[(kind, c)].append(self.basis @ (self.basis.T @ found.mode))

@@ -1,13 +1,13 @@
 """The member of one span-table trial, written as member-file TOML text (supports of the layout,
-restraints at the spacing, the loads and, for continuous layouts, every arrangement of loaded spans
-as a combination) and read with the normal reader, so every value meets the normal checks.
+restraints at the spacing, the loads, for continuous layouts the imposed load patterned over the
+spans: analysis.patterns checks every arrangement of loaded spans, the case on none included) and
+read with the normal reader, so every value meets the normal checks.
 """
 
 from __future__ import annotations
 
 import json
 import math
-from itertools import combinations as subsets
 from typing import TYPE_CHECKING, Any
 
 from sizer.errors import InputError
@@ -28,10 +28,10 @@ def member_document(spec: SpanTableSpec, section: str, span: float, imposed: App
         "supports": _supports(spec.layout, span, count),
         "restraints": _restraints(spec, span),
         "loads": _loads(spec, span, imposed),
-        "combinations": expanded_combinations(spec),
+        "combinations": user_combinations(spec),
     }
     if spec.checks:
-        document["checks"] = _expanded_checks(spec)
+        document["checks"] = dict(spec.checks)
     if spec.materials:
         document["materials"] = spec.materials
     return {key: value for key, value in document.items() if value != []}
@@ -69,22 +69,19 @@ def _restraints(spec: SpanTableSpec, span: float) -> list[dict]:
     return [{"at": _metres(x), "hold": hold, "height": "top"} for x in restraint_positions(spec, span)]
 
 
-def _imposed_case(spec: SpanTableSpec, index: int) -> str:
-    return f"{IMPOSED} span {index + 1}" if spec.spans > 1 else IMPOSED
-
-
 def _loads(spec: SpanTableSpec, span: float, imposed: AppliedLoad) -> list[dict]:
     loads = []
     if spec.dead_load is not None:
         loads.append({"type": "line", "case": DEAD, "wy": f"{spec.dead_load!r} N/m"})
+    patterned: dict[str, Any] = {"pattern": True} if spec.spans > 1 else {}
     for index in range(spec.spans):
         start = index * span
         if imposed.kind == "line":
-            loads.append({"type": "line", "case": _imposed_case(spec, index), "from": _metres(start), "to": _metres(start + span),
-                          "wy": f"{imposed.value!r} N/m"})
+            loads.append({"type": "line", "case": IMPOSED, "from": _metres(start), "to": _metres(start + span),
+                          "wy": f"{imposed.value!r} N/m", **patterned})
         else:
             at = span if spec.layout == "cantilever" else start + span / 2
-            loads.append({"type": "point", "case": _imposed_case(spec, index), "at": _metres(at), "fy": f"{imposed.value!r} N"})
+            loads.append({"type": "point", "case": IMPOSED, "at": _metres(at), "fy": f"{imposed.value!r} N", **patterned})
     return loads
 
 
@@ -101,45 +98,6 @@ def user_combinations(spec: SpanTableSpec) -> dict[str, dict]:
         return spec.combinations
     cases = _cases(spec)
     return {" + ".join(cases): {case: 1.0 for case in cases}}
-
-
-def _arrangements(spans: int) -> list[tuple[int, ...]]:
-    """Every non-empty set of loaded spans (0-based), all spans first."""
-    return [tuple(chosen) for size in range(spans, 0, -1) for chosen in subsets(range(spans), size)]
-
-
-def _arrangement_name(name: str, loaded: tuple[int, ...], spans: int) -> str:
-    if len(loaded) == spans:
-        return f"{name} (imposed on all spans)"
-    return f"{name} (imposed on span{'s' if len(loaded) > 1 else ''} {', '.join(str(i + 1) for i in loaded)})"
-
-
-def expanded_combinations(spec: SpanTableSpec) -> dict[str, dict]:
-    """The combinations of the member file: for a continuous layout, each one that has the imposed case
-    once for every arrangement of loaded spans (pattern loading)."""
-    combinations = user_combinations(spec)
-    if spec.spans == 1:
-        return combinations
-    expanded: dict[str, dict] = {}
-    for name, factors in combinations.items():
-        if not isinstance(factors, dict) or IMPOSED not in factors:
-            expanded[name] = factors
-            continue
-        others = {case: factor for case, factor in factors.items() if case != IMPOSED}
-        for loaded in _arrangements(spec.spans):
-            expanded[_arrangement_name(name, loaded, spec.spans)] = {**others, **{_imposed_case(spec, i): factors[IMPOSED] for i in loaded}}
-    return expanded
-
-
-def _expanded_checks(spec: SpanTableSpec) -> dict:
-    """[span_table.checks] with deflection_combinations expanded like the combinations."""
-    checks = dict(spec.checks)
-    chosen = checks.get("deflection_combinations")
-    if spec.spans > 1 and isinstance(chosen, list):
-        combinations = expanded_combinations(spec)
-        checks["deflection_combinations"] = [name for wanted in chosen for name in combinations
-                                             if name == wanted or (isinstance(wanted, str) and name.startswith(wanted + " (imposed on "))] or chosen
-    return checks
 
 
 def toml_text(document: dict) -> str:

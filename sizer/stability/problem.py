@@ -11,6 +11,7 @@ Two solves per load set (a combination, with its self-weight):
 
 from __future__ import annotations
 
+import copy
 import math
 from functools import cached_property
 from typing import Any, Callable, Iterable
@@ -45,7 +46,7 @@ class MemberStability:
         self.springs = spring_diagonal(member, self.mesh, self.orientation)
         self.supports = support_rows(member, self.mesh, self.orientation)
         self.cases = list(solution.cases)
-        self._terms: dict[tuple[str, int], tuple[dict[str, np.ndarray], dict[str, np.ndarray]]] = {}
+        self._terms: dict[tuple[str, bytes, bytes], tuple[dict[str, np.ndarray], dict[str, np.ndarray]]] = {}
         self._columns: dict[tuple[str, int, bool], dict[str, np.ndarray]] = {}
         self._live: dict[str, frozenset[int]] = {}
         self._meshes: dict[bytes, MemberStability] = {}
@@ -57,7 +58,17 @@ class MemberStability:
             return self
         if key not in self._meshes:
             self._meshes[key] = MemberStability(self.member, self.solution, mesh=mesh)
-        return self._meshes[key]
+        return self._meshes[key].for_solution(self.solution)
+
+    def for_solution(self, solution: MemberSolution) -> "MemberStability":
+        """This model for another solution of the same load cases (more pattern arrangements among
+        its combinations): everything but the combinations' rows shared, the meshes and terms too."""
+        if solution is self.solution:
+            return self
+        moved = copy.copy(self)
+        moved.member, moved.solution = solution.member, solution
+        moved.__dict__.pop("rows", None)
+        return moved
 
     def refined(self) -> "MemberStability":
         """This member on its mesh with every element cut in two."""
@@ -101,9 +112,9 @@ class MemberStability:
     def combination_terms(self, kind: str, combination: int) -> tuple[dict[str, np.ndarray], dict[str, np.ndarray]]:
         """The term matrices of a combination's loads alone and per kg/m of self-weight (made once):
         the combination with mass m has G = G_loads + m G_per_mass."""
-        key = (kind, combination)
+        loads, per_mass = self.rows
+        key = (kind, loads[combination].tobytes(), per_mass[combination].tobytes())  # by content: shared by models of other solutions (for_solution)
         if key not in self._terms:
-            loads, per_mass = self.rows
             self._terms[key] = (self.weighted_terms(kind, loads[combination]), self.weighted_terms(kind, per_mass[combination]))
         return self._terms[key]
 
@@ -292,9 +303,13 @@ class SectionStability:
         in the lateral solve, say) counts as absent, and a combination that only scales another
         (0.6 x dead) is solved once."""
         loads, per_mass = self.model.rows
+        return self.load_set(kind, loads[combination] + mass * per_mass[combination])
+
+    def load_set(self, kind: str, weights: np.ndarray) -> Buckling:
+        """The lowest load factor of a load set (weights as a row of MemberSolution.weights, self-weight
+        included) for `kind`, converged, from the load cases' own matrices (as `combination`)."""
         live = self.model.live_columns(kind)
-        shape, scale = load_shape((column, weight) for column, weight in enumerate(loads[combination] + mass * per_mass[combination])
-                                  if column in live)
+        shape, scale = load_shape((column, weight) for column, weight in enumerate(weights) if column in live)
         if not shape:
             return Buckling(math.inf, None)
         found = self._converged(lambda level: level._shape_solve(kind, shape))

@@ -31,7 +31,7 @@ factor on the whole load set is at most 1) has no second-order equilibrium: `bey
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from typing import Any, Sequence, TypeVar
 
 import numpy as np
@@ -332,14 +332,19 @@ def shared_model(member: Member, solution: MemberSolution, per_length: int) -> t
     if member.has_springs:
         model = MemberStability(member, solution, per_length)
         return model, load_vectors(model, member, member.orientation)
-    key = (id(member), per_length)
+    key = (id(member.loads), per_length)  # the loads: shared by the member's pattern arrangements' variants (analysis.patterns)
     found = _SHARED.get(key)
-    if found is None or found[0] is not member:
+    if found is None or not _same_but_combinations(found[0], member):
         if len(_SHARED) >= SHARED_MOST:
             _SHARED.pop(next(iter(_SHARED)))
         model = MemberStability(member, solution, per_length)
         found = _SHARED[key] = (member, model, load_vectors(model, member, member.orientation))
-    return found[1], found[2]
+    return found[1].for_solution(solution), found[2]
+
+
+def _same_but_combinations(kept: Member, member: Member) -> bool:
+    """Whether two members differ at most in their combinations (pattern arrangements)."""
+    return kept is member or (kept.loads is member.loads and replace(kept, combinations=member.combinations, patterning=member.patterning) == member)
 
 
 class SecondOrder:

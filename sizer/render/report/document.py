@@ -18,7 +18,7 @@ from sizer.design import Design
 from sizer.errors import InputError
 from sizer.files import check_output, write_atomic
 from sizer.render.check import check_json
-from sizer.render.common import CAUTIONS, dumps
+from sizer.render.common import CAUTIONS, combinations_words, dumps, patterned
 from sizer.render.forces import is_planar
 from sizer.render.plots.figure import build_figure
 from sizer.render.basis import basis_text
@@ -147,12 +147,11 @@ def _diagrams_section(design: Design, report: CheckReport, combination: str, sys
                "The dash-dot line marks the governing station; the largest deflection is marked with its direction.")
     every = ""
     names = list(design.solution.combination_names)
-    if 1 < len(names) <= COMBINATIONS_DRAWN:
+    if 1 < len(names) <= COMBINATIONS_DRAWN and not patterned(design.member):  # pattern arrangements: their envelope only
         every = _figure(build_combinations_figure(design, system), "Every combination: the internal actions and the deflected "
                         "shape of each, one line style per combination.")
     if len(names) > 1 and (design.member.patterning is not None or len(names) > COMBINATIONS_DRAWN):
-        every += _figure(build_envelope_figure(design, names, system), f"The envelope of all {len(names)} combinations (pattern "
-                         "arrangements included): the largest and smallest value at each station, with the combination that gives "
+        every += _figure(build_envelope_figure(design, names, system), f"The envelope over {combinations_words(design.member, len(names))}: the largest and smallest value at each station, with the combination that gives "
                          "each extreme.")
     planar = is_planar(design.member)
     convention = ("Beam convention for this in-plane member: V = -Vy is positive when it turns its segment clockwise, "

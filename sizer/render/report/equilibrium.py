@@ -13,7 +13,7 @@ import numpy as np
 from sizer import units
 from sizer.checks import CheckReport
 from sizer.design import Design
-from sizer.render.common import without_round_off
+from sizer.render.common import combinations_words, patterned, without_round_off
 from sizer.render.forces import REACTION_KINDS, REACTION_NAMES, is_planar
 from sizer.render.plots.free_body import build_free_body_figure
 from sizer.render.report.markup import _cell, _e, _figure, _fmt, _num, _row, _table
@@ -33,10 +33,9 @@ REACTIONS_LISTED = 12  # combinations whose reactions are listed one by one; bey
 
 def reactions_section(design: Design, document: dict[str, Any], combination: str, system: str) -> str:
     reactions = document["reactions"]
-    if len(reactions) > REACTIONS_LISTED:
+    if len(reactions) > REACTIONS_LISTED or patterned(design.member):
         return ('<section id="reactions"><h2>2. Reactions</h2><p>Forces and moments that each support exerts on the member, '
-                f"along and about +x, +y, +z, at their largest and smallest over the {len(reactions)} combinations (factored; pattern "
-                "arrangements included), with the combination that gives each; every combination's reactions are in the embedded "
+                f"along and about +x, +y, +z, at their largest and smallest over {combinations_words(design.member, len(reactions))} (factored), with the combination that gives each; every combination's reactions are in the embedded "
                 "data.</p>" + _reaction_bounds(design, system) + _overall_equilibrium(design, combination, system) + "</section>")
     shown = [i for i, name in enumerate(REACTION_NAMES)
              if any(abs(entry[name]) > 1e-9 for entries in reactions.values() for entry in entries)] or [1]
