@@ -11,7 +11,7 @@ from typing import Any
 
 import numpy as np
 
-SPARSE_FROM = 300  # freedoms: above this the matrices are sparse and the eigen-solve iterative (scipy's import, some 0.2 s, then)
+SPARSE_FROM = 600  # freedoms: above this the matrices are sparse and the eigen-solve iterative (scipy's import, some 0.2 s, then); a dense solve of 600 is some 0.06 s
 
 
 def is_sparse(size: int) -> bool:
