@@ -18,6 +18,7 @@ from typing import Sequence
 import numpy as np
 from numpy.typing import ArrayLike
 
+from sizer.analysis.layout import distinct
 from sizer.analysis.member_solution import MemberSolution
 from sizer.analysis.stations import EXTREME_ACTIONS, extreme_positions, segment_ends, stations
 
@@ -143,7 +144,7 @@ def largest_deflection(solution: MemberSolution, combinations: Sequence[str], n:
     None without the member's stiffness (a section)."""
     if not solution.has_displacements:
         return None
-    xs = np.unique(np.concatenate([np.linspace(0.0, solution.member.length, n), segment_ends(solution.member)]))
+    xs = distinct(np.concatenate([np.linspace(0.0, solution.member.length, n), segment_ends(solution.member)]))
     best: LargestDeflection | None = None
     for start in range(0, len(combinations), CHUNK):
         names = list(combinations[start:start + CHUNK])

@@ -23,6 +23,7 @@ from typing import Sequence
 
 import numpy as np
 
+from sizer.analysis.layout import distinct
 from sizer.analysis.loads import self_weight_load
 from sizer.model import LineLoad, Load, Member, PointLoad
 
@@ -213,7 +214,7 @@ class TorsionSolution:
         inner = self.nodes[1:-1]
         element = np.where(right, np.searchsorted(inner, xs + self._tol, side="right"), np.searchsorted(inner, xs - self._tol, side="left"))
         eiw = self.gj * self.a**2
-        for e in np.unique(element):
+        for e in distinct(element):
             where = element == e
             lo, item = self.nodes[e], self._elements[e]
             s = np.clip(xs[where] - lo, 0.0, item.length)
@@ -252,7 +253,7 @@ def solve_torsion(member: Member, loads: TorqueLoads, gj: float, eiw: float, tol
     a = float(np.sqrt(eiw / gj)) if eiw > 0 else 0.0
     support_at = np.array([s.at for s in member.supports], dtype=float)
     marks = np.concatenate([[0.0, member.length], support_at, loads.at, loads.start, loads.end])
-    nodes = np.unique(np.clip(np.round(marks / tol) * tol if tol > 0 else marks, 0.0, member.length))
+    nodes = distinct(np.clip(np.round(marks / tol) * tol if tol > 0 else marks, 0.0, member.length))
     n, columns = len(nodes), loads.columns
     node_of = lambda x: int(np.argmin(np.abs(nodes - x)))  # noqa: E731
     stiffness, force = np.zeros((2 * n, 2 * n)), np.zeros((2 * n, columns))

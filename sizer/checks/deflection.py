@@ -20,7 +20,7 @@ from weakref import WeakKeyDictionary
 
 import numpy as np
 
-from sizer.analysis import MemberSolution, segment_ends
+from sizer.analysis import MemberSolution, distinct, segment_ends
 from sizer.analysis.patterns import Span, arrangements_of, spans
 from sizer.checks.results import CheckResult
 from sizer.design import Design
@@ -150,7 +150,7 @@ def second_order_deflections(solution: MemberSolution, span_list: list[Span], na
     the polynomial that span_peak finds exactly."""
     found = []
     for span, (_, peak_at, _) in zip(span_list, first):
-        xs = np.unique(np.append(np.linspace(span.start, span.end, n), peak_at))
+        xs = distinct(np.append(np.linspace(span.start, span.end, n), peak_at))
         reference = np.array([span.base] if span.overhang else [span.start, span.end])
         points = np.concatenate([xs, reference])
         moved = solution.weighted_displacements(solution.combination_weights(names), points)[..., 1:3]
