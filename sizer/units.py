@@ -257,7 +257,8 @@ def _write_unit_cache(factors: dict[str, float | None]) -> None:
     from sizer.files import write_atomic
 
     try:
-        write_atomic(_unit_cache_path(), json.dumps({"digest": keyed_digest(_factors_text(factors)), "factors": factors}, sort_keys=True))
+        write_atomic(_unit_cache_path(), json.dumps({"digest": keyed_digest(_factors_text(factors)), "factors": factors}, sort_keys=True),
+                     durable=False)  # checked when read (its digest): no fsync
     except OSError:
         pass  # a read-only cache folder only costs speed
 

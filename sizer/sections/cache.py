@@ -184,8 +184,8 @@ def write_entry(key: str, scalars: dict[str, float], arrays: dict[str, np.ndarra
     entry = {"key": key, "schema": SCHEMA_VERSION, "arrays_sha256": hashlib.sha256(payload).hexdigest(), "scalars": scalars}
     entry["digest"] = keyed_digest(_entry_text(entry))
     try:
-        write_atomic(arrays_path, payload)
-        write_atomic(json_path, json.dumps(entry))
+        write_atomic(arrays_path, payload, durable=False)  # checked when read (sha256): no fsync
+        write_atomic(json_path, json.dumps(entry), durable=False)
     except OSError:
         return False
     return True
@@ -218,7 +218,7 @@ def write_table(key: str, table: np.ndarray) -> bool:
     np.save(buffer, np.asarray(table, dtype=np.float64), allow_pickle=False)
     payload = buffer.getvalue()
     try:
-        write_atomic(_table_path(key), keyed_digest(payload).encode() + b"\n" + payload)
+        write_atomic(_table_path(key), keyed_digest(payload).encode() + b"\n" + payload, durable=False)
     except OSError:
         return False
     return True

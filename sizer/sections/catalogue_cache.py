@@ -130,7 +130,7 @@ def write_parsed(path: Path, digest: str | None, parsed: ParsedFile) -> None:
         spec.geometry_key()
     payload = pickle.dumps(parsed, protocol=pickle.HIGHEST_PROTOCOL)
     try:
-        write_atomic(slot_path(path), slot_bytes(digest, payload))
+        write_atomic(slot_path(path), slot_bytes(digest, payload), durable=False)  # checked when read: no fsync
     except OSError:
         pass
 
