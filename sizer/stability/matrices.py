@@ -26,9 +26,8 @@ def assemble(shape: tuple[int, int], rows: np.ndarray, columns: np.ndarray, valu
         from scipy.sparse import coo_matrix
 
         return coo_matrix((values, (rows, columns)), shape=shape).tocsr()
-    out = np.zeros(shape)
-    np.add.at(out, (rows, columns), values)
-    return out
+    flat = np.asarray(rows, dtype=np.intp) * shape[1] + columns  # summed in the order given, as np.add.at does, and faster
+    return np.bincount(flat, weights=values, minlength=shape[0] * shape[1]).astype(float, copy=False).reshape(shape)
 
 
 def diagonal(values: np.ndarray) -> Any:

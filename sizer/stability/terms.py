@@ -86,5 +86,9 @@ def weighted_sum(terms: dict[str, np.ndarray], coefficients: dict[str, Coefficie
     out: np.ndarray | float = 0.0
     for name, matrix in terms.items():
         if name in coefficients:
-            out = out + float(coefficients[name]) * matrix
+            term = float(coefficients[name]) * matrix
+            if isinstance(out, np.ndarray) and isinstance(term, np.ndarray):
+                out += term  # in place: the same sums, one array fewer per term
+            else:
+                out = out + term
     return out
