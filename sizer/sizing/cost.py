@@ -17,6 +17,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from functools import lru_cache
 from typing import Any
 
 from sizer.sections.purchase import Purchase
@@ -51,6 +52,7 @@ class BarOrder:
         return sum(count for _, count in self.bars)
 
 
+@lru_cache(maxsize=256)  # a catalogue's families share a few sets of stock lengths: one search each
 def bars_for(piece_length: float, pieces: int, stock_lengths: tuple[float, ...] | None) -> BarOrder | None:
     """The cheapest bars for `pieces` pieces of `piece_length` (m) from `stock_lengths` (m): fewest
     metres bought, then fewest bars. None when the piece is longer than every stock length (no splice).
