@@ -77,6 +77,15 @@ class MemberSolution:
             return self
         return MemberSolution(member, self.cases, self.self_weight, self.mass_per_length, self.stiffness, self._self_weight_error)
 
+    def with_mass(self, mass_per_length: float | None) -> "MemberSolution":
+        """This solution with another self-weight mass per length (kg/m, None: no self weight), the
+        same case solutions and rigidities (for_section on the same stiffness, without copying them)."""
+        if mass_per_length is not None and self._self_weight_error is not None:
+            raise self._self_weight_error
+        moved = MemberSolution(self.member, self.cases, self.self_weight, mass_per_length, self.stiffness, self._self_weight_error)
+        moved._factor_table = self._factors()
+        return moved
+
     def _factors(self) -> tuple[np.ndarray, np.ndarray]:
         """(n_combinations, n_cases) each combination's factor on each case, and (n_combinations,) its
         factor on the self-weight case (0 without one); made once (many pattern arrangements)."""

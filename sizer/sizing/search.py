@@ -152,7 +152,7 @@ class Search:
         if no_web_reason(candidate.spec.shape) or self.base is None:
             return 0.0
         mass = candidate.mass_per_length if self.member.self_weight_case else None
-        solution = self.base.for_section(Stiffness.unit(), mass)
+        solution = self.base.with_mass(mass)  # the unit-rigidity solution: its reactions are the section's
         design = Design(self.member, solution, self.material, candidate.spec, mass_per_length=candidate.mass_per_length)
         return web_check(design).utilization or 0.0
 
