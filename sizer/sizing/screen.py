@@ -95,7 +95,8 @@ def twisted_by_second_order(member: Member, table: CandidateTable) -> np.ndarray
     deflection somewhere, so the screen's first-order values bound nothing for them."""
     if not member.checks.second_order:
         return np.zeros(len(table.specs), bool)
-    return np.array([may_twist(member, spec.shape) for spec in table.specs], bool)
+    twists = {shape: may_twist(member, shape) for shape in {spec.shape for spec in table.specs}}  # once per shape
+    return np.array([twists[spec.shape] for spec in table.specs], bool)
 
 
 def _axial_only(actions: np.ndarray, lowered: np.ndarray) -> np.ndarray:
