@@ -20,6 +20,7 @@ from sizer.sizing.cost import Ranking
 from sizer.sizing.screen import Screen, local_lower_bound, prove_lower_bounds, rescreen, screen
 from sizer.sizing.stability_bounds import StabilityBounds
 from sizer.stability import MemberStability
+from sizer.stability.second_order import share_first_level
 
 if TYPE_CHECKING:
     from sizer.sections.catalogue import Catalogue
@@ -309,4 +310,6 @@ def prepare_screen(search: Search, table: CandidateTable) -> None:
         for check, values in search.found.exact.items():
             candidate.raise_bound(check, values[candidate.index])
     search.model = MemberStability(member, search.base)
+    if search.base.member is member:  # no pattern expanded: the second-order solves start from this model's mesh
+        share_first_level(member, search.model)
     search.stability = StabilityBounds(search.model, search.base, table, search.found, member, material)

@@ -40,7 +40,7 @@ from sizer.analysis import MemberSolution
 from sizer.analysis.section_axes import to_member_axes, to_section_axes
 from sizer.model import LineLoad, Member, PointLoad
 from sizer.stability.elements import Quadrature, hermite
-from sizer.stability.mesh import Mesh
+from sizer.stability.mesh import ELEMENTS_PER_LENGTH, Mesh
 from sizer.stability.problem import MemberStability, term_coefficients
 from sizer.stability.section import StabilitySection
 from sizer.stability.solve import Reduced
@@ -345,6 +345,18 @@ def shared_model(member: Member, solution: MemberSolution, per_length: int) -> t
 def _same_but_combinations(kept: Member, member: Member) -> bool:
     """Whether two members differ at most in their combinations (pattern arrangements)."""
     return kept is member or (kept.loads is member.loads and replace(kept, combinations=member.combinations, patterning=member.patterning) == member)
+
+
+def share_first_level(member: Member, model: MemberStability) -> None:
+    """Take `model` (the stability model of `member` on its default mesh, from a solution of `member`
+    itself, patterns not expanded, without springs) as the first level of the second-order solves of
+    every section of `member`: the same mesh and internal actions, so its term matrices, made for the
+    buckling solves, are made once for both."""
+    if member.has_springs or model.member is not member or FIRST_LEVEL != ELEMENTS_PER_LENGTH:
+        return
+    if len(_SHARED) >= SHARED_MOST:
+        _SHARED.pop(next(iter(_SHARED)))
+    _SHARED[(id(member), FIRST_LEVEL)] = (member, model, load_vectors(model, member, member.orientation))
 
 
 class SecondOrder:
