@@ -86,6 +86,14 @@ class MemberSolution:
         moved._factor_table = self._factors()
         return moved
 
+    def with_combinations(self, member: Member, mass_per_length: float | None) -> "MemberSolution":
+        """This solution for `member`, which differs from this one's member in its combinations alone
+        (the same loads, supports and rigidities; no pattern expanded): the case solutions reused, the
+        combinations `member`'s, self-weight of `mass_per_length` kg/m (None: none)."""
+        if mass_per_length is not None and self._self_weight_error is not None:
+            raise self._self_weight_error
+        return MemberSolution(member, self.cases, self.self_weight, mass_per_length, self.stiffness, self._self_weight_error)
+
     def _factors(self) -> tuple[np.ndarray, np.ndarray]:
         """(n_combinations, n_cases) each combination's factor on each case, and (n_combinations,) its
         factor on the self-weight case (0 without one); made once (many pattern arrangements)."""

@@ -67,12 +67,15 @@ def governing_combination(report: CheckReport) -> str | None:
 
 def scaled_design(design: Design, combination: str, factor: float) -> Design:
     """The design with `combination` alone, every factor of it (self-weight's case included) times
-    `factor`, solved again."""
+    `factor`: the design's case solutions with these combinations (solved again where patterns were expanded)."""
     member = design.member
     scaled = {case: value * factor for case, value in member.combinations[combination].items()}
     alone = replace(member, combinations={combination: scaled})
     mass = design.mass_per_length if member.self_weight_case else None
-    solution = solve_member(alone, design.stiffness, mass)
+    if design.solution.member is member:  # no pattern expanded: the same case solutions, nothing solved again
+        solution = design.solution.with_combinations(alone, mass)
+    else:
+        solution = solve_member(alone, design.stiffness, mass)
     return Design(alone, solution, design.material, design.spec, design.props, design.stiffness, design.mass_per_length)
 
 

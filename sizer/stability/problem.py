@@ -51,6 +51,23 @@ class MemberStability:
         self._live: dict[str, frozenset[int]] = {}
         self._meshes: dict[bytes, MemberStability] = {}
 
+    def same_columns(self, other: "MemberStability") -> bool:
+        """Whether `other`'s load-case columns give this model's term matrices exactly: the same mesh,
+        orientation, loads and restraints, and the same case solutions (the same objects: a member
+        that differs from this one in its combinations alone, solved once, as the reserve factor's
+        scaled members are)."""
+        mine, theirs = self.solution, other.solution
+        return (other is not self and self.orientation == other.orientation and self.mesh.size == other.mesh.size
+                and self.mesh.nodes.tobytes() == other.mesh.nodes.tobytes()
+                and self.member.loads == other.member.loads and self.member.restraints == other.member.restraints
+                and list(mine.cases) == list(theirs.cases) and all(mine.cases[name] is theirs.cases[name] for name in mine.cases)
+                and mine.self_weight is theirs.self_weight)
+
+    def share_columns(self, other: "MemberStability | None") -> None:
+        """Use `other`'s load-case column matrices (made once for both; see same_columns)."""
+        if other is not None:
+            self._columns, self._live = other._columns, other._live
+
     def on_mesh(self, mesh: Mesh) -> "MemberStability":
         """This member on another mesh (made once per set of nodes)."""
         key = mesh.nodes.tobytes()

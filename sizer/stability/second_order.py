@@ -338,6 +338,7 @@ def shared_model(member: Member, solution: MemberSolution, per_length: int) -> t
         if len(_SHARED) >= SHARED_MOST:
             _SHARED.pop(next(iter(_SHARED)))
         model = MemberStability(member, solution, per_length)
+        model.share_columns(next((other for _, other, _ in _SHARED.values() if other.same_columns(model)), None))
         found = _SHARED[key] = (member, model, load_vectors(model, member, member.orientation))
     return found[1].for_solution(solution), found[2]
 
