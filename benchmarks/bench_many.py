@@ -113,7 +113,7 @@ def write_schedule(folder: Path, members: int, name: str = "schedule.toml") -> P
 
 
 def forget_kept_rows() -> None:
-    from sizer.files import cache_root
+    from sizer.cache_store import cache_root
     from sizer.parallel import RUNS_FOLDER
 
     shutil.rmtree(cache_root() / RUNS_FOLDER, ignore_errors=True)
@@ -167,7 +167,7 @@ def machine_ceiling(copies: int) -> tuple[float, float]:
 def workload_ceiling(folder: Path, schedule: Path, copies: int) -> float:
     """`copies` x the wall time of one `schedule --jobs 1` alone / that of `copies` run at once, each
     with its own copy of the cache folder (so that none takes another's kept rows)."""
-    from sizer.files import cache_root
+    from sizer.cache_store import cache_root
     from sizer.parallel import RUNS_FOLDER
 
     caches = [folder / f"cache-{k}" for k in range(copies)]

@@ -106,7 +106,8 @@ def run_schedule_command(file: Path, catalogue: list[Path], jobs: int | None, cl
     """Read, run, then write every output; exit 2 with bad rows (--keep-going), else 1 when a member fails."""
     from sizer.render.common import console, dumps
     from sizer.render.schedule import schedule_csv, schedule_renderables
-    from sizer.files import check_record_folder, require_writable_cache, write_all
+    from sizer.cache_store import require_writable_cache
+    from sizer.files import check_record_folder, write_all
     from sizer.schedule import read_schedule, run_schedule, schedule_json
 
     inputs = [file, *catalogue]
@@ -155,7 +156,8 @@ def run_span_table_command(file: Path, catalogue: list[Path], families: list[str
     """Read, run every cell, then write every output; exit 0 (a span table has nothing to fail)."""
     from sizer.render.common import console, dumps
     from sizer.render.schedule import span_plot_bytes, span_table_csv, span_table_document, span_table_renderables
-    from sizer.files import require_writable_cache, write_all
+    from sizer.cache_store import require_writable_cache
+    from sizer.files import write_all
     from sizer.span_table import read_span_table, run_span_table
 
     inputs = [file, *catalogue]

@@ -140,11 +140,10 @@ def build_sections(
             raise InputError("", "--workers", f"{workers} is not a number of processes", "give 1 or more")
         loaded = _catalogue(catalogue)
         specs = list(loaded.sections.values())
-        from sizer.render.common import progress_bar
+        from sizer.progress import ProgressBar
 
-        with progress_bar("Building") as bar:
-            task = bar.add_task("Building", total=None, section="")
-            summary = build_catalogue(specs, workers, lambda done, total, name: bar.update(task, completed=done, total=total, section=name))
+        with ProgressBar("Building", transient=False) as bar:
+            summary = build_catalogue(specs, workers, bar.report)
         typer.echo(f"{summary.sections} sections ({summary.geometries} distinct shapes): {summary.computed} computed "
                    f"with {summary.workers} process(es), {summary.from_cache} already cached; {summary.seconds:.1f} s. "
                    f"Cache: {cache_folder()}")

@@ -6,50 +6,12 @@ from __future__ import annotations
 import errno
 import os
 import stat
-from functools import lru_cache
 from pathlib import Path
 from typing import Iterable
 
 from sizer.errors import InputError
 
 _ANY_WRITE = stat.S_IWUSR | stat.S_IWGRP | stat.S_IWOTH
-
-
-def cache_root() -> Path:
-    """The folder for sizer's caches: $SIZER_CACHE_DIR, else the user's cache folder (platformdirs)."""
-    return Path(_cache_root(os.environ.get("SIZER_CACHE_DIR", "")))
-
-
-def cache_error(error: OSError) -> InputError:
-    """The one line for a cache folder sizer cannot write, naming SIZER_CACHE_DIR and the fix."""
-    where = error.filename or str(cache_root())
-    return InputError("", "SIZER_CACHE_DIR", f"cannot write sizer's cache folder {str(cache_root())!r} "
-                      f"({error.strerror or error} at {str(where)!r})",
-                      "set the environment variable SIZER_CACHE_DIR to a folder you can write, e.g. SIZER_CACHE_DIR=/tmp/sizer-cache")
-
-
-def require_writable_cache() -> Path:
-    """The cache folder, made if missing, once a file can be written there; else cache_error. For the
-    commands that keep results and catalogue copies there (schedules, span tables)."""
-    import tempfile
-
-    root = cache_root()
-    try:
-        root.mkdir(parents=True, exist_ok=True)
-        with tempfile.TemporaryFile(dir=root):
-            pass
-    except OSError as error:
-        raise cache_error(error) from None
-    return root
-
-
-@lru_cache(maxsize=8)
-def _cache_root(override: str) -> str:
-    if override:
-        return override
-    import platformdirs
-
-    return platformdirs.user_cache_dir("sizer")
 
 
 def check_output(path: str | Path, option: str, inputs: Iterable[str | Path] = ()) -> Path:

@@ -24,7 +24,9 @@ from sizer.errors import InputError
 from sizer.files import read_text
 from sizer.printable import find_control
 from sizer.model import LineLoad, Member, PointLoad
-from sizer.parallel import Job, JobFailed, RunSummary, ShippedCatalogue, Workers, code_fingerprint, content_hash, error_result, result_error, ship_catalogue
+from sizer.cache_store import content_hash
+from sizer.parallel import Job, JobFailed, RunSummary, ShippedCatalogue, run_jobs, ship_catalogue
+from sizer.workers import Workers, error_result, result_error
 
 if TYPE_CHECKING:
     from sizer.api import CheckOutcome
@@ -292,9 +294,9 @@ def row_task(schedule: Schedule, row: ScheduleRow, catalogue: Sequence[Path], re
 
 def row_key(task: RowTask) -> str:
     """The content hash of a row's work: the member as read (not its file's path), the action, the
-    section, the catalogue's text, whether a record is made, and sizer's code."""
-    return content_hash("schedule-row", replace(task.member, source=""), task.do, task.section, task.catalogue.digest, task.record,
-                        code_fingerprint())
+    section, the catalogue's text and whether a record is made (sizer's code is in the kept file's
+    seal: sizer.cache_store)."""
+    return content_hash("schedule-row", replace(task.member, source=""), task.do, task.section, task.catalogue.digest, task.record)
 
 
 # ----------------------------------------------------------------------------------------------
@@ -386,7 +388,7 @@ def run_schedule(schedule: Schedule, catalogue: Sequence[Path] = (), jobs: int |
 
     with Workers(jobs, cluster) as workers:
         try:
-            results, summary = workers.run(work_row, jobs_as_read(), "Members", stop_on_error=not keep_going,
+            results, summary = run_jobs(workers, work_row, jobs_as_read(), "Members", stop_on_error=not keep_going,
                                            show_progress=show_progress, total=len(schedule.rows))
         except JobFailed as failed:
             raise row_error(schedule, tasks[failed.index][0], failed.error) from None

@@ -78,7 +78,7 @@ _UNIT_TOKEN = re.compile(r"\s*(?:(?P<name>[^\W\d_][^\W\d]*)|(?P<power>(?:\^|\*\*
                          r"|(?P<op>[*/·])|(?P<open>\()|(?P<close>\)))")
 MAX_UNIT_TEXT = 40  # characters
 _UNIT_FACTORS: dict[str, float | None] | None = None  # "unit|kind" -> factor to SI, None: not a unit of that kind
-UNIT_CACHE_NAME = "units-v2.json"
+UNIT_CACHE_NAME = "unit-factors"  # a sealed file of the cache store (sizer.cache_store)
 
 
 def parse(value: object, kind: str, file: str = "", key: str = "", line: int | None = None) -> float:
@@ -88,7 +88,7 @@ def parse(value: object, kind: str, file: str = "", key: str = "", line: int | N
     Only a number and a unit are read, never arithmetic. Raises InputError naming file, key and line
     for a bare number, a unit without a number, an unknown unit, the wrong dimension, a value that is
     not finite or outside LIMITS. The factor of each unit comes from pint once and is remembered on
-    disk (with a digest), so a warm run needs no pint.
+    disk (sealed: sizer.cache_store), so a warm run needs no pint.
     """
     _, words, example = KINDS[kind]
     if isinstance(value, bool) or not isinstance(value, (str, int, float)):
@@ -219,31 +219,24 @@ def _unit_problem(shown: str, unit: str, kind: str) -> str:
 
 
 def _unit_cache_path() -> Path:
-    from sizer.files import cache_root
+    from sizer.cache_store import cache_root
 
     return cache_root() / UNIT_CACHE_NAME
 
 
-def _factors_text(factors: dict[str, float | None]) -> bytes:
-    """The factors' JSON text (sorted keys): what the file's keyed digest (sizer.digests) covers."""
-    import json
-
-    return json.dumps(factors, sort_keys=True).encode()
-
-
 def _read_unit_cache() -> dict[str, float | None]:
-    """The remembered unit factors when the file is whole and its digest matches its factors, and
-    every factor is a positive finite number or null; else none (pint computes them again)."""
+    """The remembered unit factors when the file's seal matches and every factor is a positive finite
+    number or null; else none (pint computes them again)."""
     import json
 
-    try:
-        data = json.loads(_unit_cache_path().read_text(encoding="utf-8"))
-        factors, digest = data["factors"], data["digest"]
-    except (OSError, ValueError, TypeError, KeyError):
-        return {}
-    from sizer.digests import digest_matches
+    from sizer.cache_store import read_sealed
 
-    if not isinstance(factors, dict) or not digest_matches(_factors_text(factors), digest):
+    body = read_sealed(_unit_cache_path())
+    try:
+        factors = json.loads(body) if body is not None else None
+    except ValueError:
+        return {}
+    if not isinstance(factors, dict):
         return {}
     if not all(isinstance(k, str) and (v is None or (type(v) is float and math.isfinite(v) and v > 0)) for k, v in factors.items()):
         return {}
@@ -253,12 +246,10 @@ def _read_unit_cache() -> dict[str, float | None]:
 def _write_unit_cache(factors: dict[str, float | None]) -> None:
     import json
 
-    from sizer.digests import keyed_digest
-    from sizer.files import write_atomic
+    from sizer.cache_store import write_sealed
 
     try:
-        write_atomic(_unit_cache_path(), json.dumps({"digest": keyed_digest(_factors_text(factors)), "factors": factors}, sort_keys=True),
-                     durable=False)  # checked when read (its digest): no fsync
+        write_sealed(_unit_cache_path(), json.dumps(factors, sort_keys=True).encode())
     except OSError:
         pass  # a read-only cache folder only costs speed
 

@@ -12,7 +12,6 @@ if TYPE_CHECKING:
     from sizer.analysis import MemberSolution
     from rich.console import Console
     from rich.panel import Panel
-    from rich.progress import Progress
 
 CAUTIONS: tuple[str, ...] = (
     "These results rest on the allowable stresses entered by the user and on linear elastic, "
@@ -40,14 +39,6 @@ def console(stderr: bool = False) -> Console:
     piped = not (hasattr(stream, "isatty") and stream.isatty())
     width = PIPED_WIDTH if piped and not os.environ.get("COLUMNS", "").isdigit() else None
     return safe_console(stderr=stderr, highlight=False, soft_wrap=False, width=width)
-
-
-def progress_bar(description: str, transient: bool = False) -> Progress:
-    """A rich progress bar on stderr (kept off stdout so JSON and TOML stay clean)."""
-    from rich.progress import BarColumn, MofNCompleteColumn, Progress, TextColumn, TimeElapsedColumn
-
-    return Progress(TextColumn(description), BarColumn(), MofNCompleteColumn(), TimeElapsedColumn(),
-                    TextColumn("{task.fields[section]}", markup=False), console=safe_console(stderr=True), transient=transient)
 
 
 def cautions_panel() -> Panel:

@@ -232,23 +232,9 @@ def write_section_plot(spec: SectionSpec, props: SectionProperties, path: Path, 
 
 
 def with_build_progress(description: str, work: Callable[[Callable[[int, int, str], None]], T]) -> T:
-    """work(progress) with a progress bar on stderr for the section properties it computes (shown
-    only when there is something to compute; it goes when the work is done)."""
-    from sizer.render.common import progress_bar
+    """work(progress) with the progress bar (sizer.progress) for the section properties it computes
+    (shown only when there is something to compute; it goes when the work is done)."""
+    from sizer.progress import ProgressBar
 
-    shown: dict[str, Any] = {}
-
-    def report(done: int, total: int, name: str) -> None:
-        if "bar" not in shown:
-            if done >= total:
-                return
-            shown["bar"] = progress_bar(description, transient=True)
-            shown["bar"].start()
-            shown["task"] = shown["bar"].add_task(description, total=total, section="")
-        shown["bar"].update(shown["task"], completed=done, total=total, section=name)
-
-    try:
-        return work(report)
-    finally:
-        if "bar" in shown:
-            shown["bar"].stop()
+    with ProgressBar(description) as bar:
+        return work(bar.report)

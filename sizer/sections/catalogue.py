@@ -227,15 +227,12 @@ def _catalogue_file(path: Path, from_folder: bool) -> ParsedFile:
     are unchanged, else parsed now and remembered: in this process (a schedule reads the same
     catalogue for every row) and in the cache folder. `foreign` only for a file `from_folder`."""
     text = read_text(path, fix="check the path and that it is a UTF-8 text file")
-    digest = catalogue_cache.content_digest(path, text)
-    if digest is None:  # no code fingerprint: nothing is remembered
-        return _parse_file(path, text, from_folder)
-    return _remembered_file(path, text, digest, from_folder)
+    return _remembered_file(path, text, catalogue_cache.content_digest(path, text), from_folder)
 
 
 @lru_cache(maxsize=64)
 def _remembered_file(path: Path, text: str, digest: str, from_folder: bool) -> ParsedFile:
-    """The parse of `text` (read from `path`, with the digest of both and the code) from the cache
+    """The parse of `text` (read from `path`, with the digest of both) from the cache
     folder, else parsed now and written there; kept in memory for this process's later reads."""
     remembered = catalogue_cache.read_parsed(path, digest)
     if remembered is not None and (from_folder or not remembered.foreign):

@@ -52,8 +52,6 @@ mesh is refined; give radii where they exist.
 
 from __future__ import annotations
 
-import os
-import sys
 import time
 from collections import OrderedDict
 from dataclasses import dataclass, field
@@ -69,6 +67,7 @@ from sizer.sections.geometric import GEOMETRIC_NAMES, geometric_scalars
 from sizer.sections.spec import SectionSpec
 from sizer.sections.warping import WARPING_NAMES
 from sizer.sections.warping import compute as compute_warping
+from sizer.workers import Workers, error_result, result_error
 
 SCALAR_NAMES: tuple[str, ...] = (
     "area", "centroid_y", "centroid_z", "Iz", "Iy", "Iyz", "I11", "I22", "principal_angle",
@@ -342,44 +341,36 @@ class BuildSummary:
     seconds: float
 
 
-def _in_worker_process() -> bool:
-    """Whether this process is a multiprocessing worker (of a schedule, or of these workers): then its
-    sections are computed in it, never in workers of its own. A worker always has multiprocessing
-    loaded, so a process that has not loaded it is none (and need not pay for the import)."""
-    module = sys.modules.get("multiprocessing")
-    return module is not None and module.parent_process() is not None
+SECTION_MODULES = ("cytriangle", "scipy.sparse.linalg", "shapely.geometry")  # what a worker needs to compute sections
 
 
 class AnalysisWorkers:
-    """Local worker processes (spawn, one per core by default) that compute warping tiers and stress
-    fields, kept for a whole run. `wait` makes sure that some sections are done: in this process
-    while fewer than PARALLEL_FROM are missing (two, when the number of workers is given) and no
-    workers run, else on the workers, which start then and stay for the rest of the run. A process
-    that is itself a worker never starts more. `progress(done, total, name)` hears of every section
+    """The warping tiers and stress fields of sections computed on the worker pool (sizer.workers),
+    kept for a whole run. `wait` makes sure that some sections are done: in this process while fewer
+    than PARALLEL_FROM are missing (two, when the number of workers is given) and the pool is not
+    running, else on the pool, which starts then and stays for the rest of the run. A process that is
+    itself a worker never starts more. `progress(done, total, name)` hears of every section
     computed, counted over the whole run."""
 
     def __init__(self, workers: int | None = None, progress: Callable[[int, int, str], None] | None = None) -> None:
-        self.count = 1 if _in_worker_process() else max(1, workers or _cores())
+        self.pool = Workers(workers, warm=SECTION_MODULES)
         self.from_count = 2 if workers else PARALLEL_FROM  # workers asked for by number are used for any two sections
         self.progress = progress
-        self.pool: Any = None
         self.asked = self.done = 0
 
     def __enter__(self) -> "AnalysisWorkers":
         return self
 
     def __exit__(self, *exc: Any) -> None:
-        self.close()
+        self.pool.close()
+
+    @property
+    def count(self) -> int:
+        return self.pool.count
 
     @property
     def started(self) -> bool:
-        return self.pool is not None
-
-    def close(self) -> None:
-        """Stop the workers (work not begun is dropped)."""
-        if self.pool is not None:
-            self.pool.shutdown(wait=True, cancel_futures=True)
-            self.pool = None
+        return self.pool.started
 
     def wait(self, specs: Sequence[SectionSpec], finished: Callable[[SectionSpec], None] | None = None, recompute: bool = False) -> None:
         """Make sure the warping tier and stress fields of every spec are kept (with `recompute`, the
@@ -391,7 +382,7 @@ class AnalysisWorkers:
             return
         self.asked += len(missing)
         self._report("")
-        if self.pool is None and (self.count == 1 or len(missing) < self.from_count):
+        if not self.pool.started and (self.pool.count == 1 or len(missing) < self.from_count):
             for spec in missing:
                 _compute_and_store(spec)
                 self._finish(spec, finished)
@@ -400,23 +391,22 @@ class AnalysisWorkers:
                 self._finish(spec, finished)
 
     def _on_workers(self, specs: list[SectionSpec]) -> Iterator[SectionSpec]:
-        """Compute `specs` on the workers (started now if not yet); each spec as it is kept."""
-        from concurrent.futures import ProcessPoolExecutor, as_completed
-
-        if self.pool is None:
-            # spawn: safe beside threads (a rich progress bar) and the same on every platform
-            import multiprocessing
-
-            self.pool = ProcessPoolExecutor(max_workers=self.count, mp_context=multiprocessing.get_context("spawn"), initializer=_warm_worker)
-        futures = {self.pool.submit(_worker, spec, dict(zip(GEOMETRIC_NAMES, geometric_row(spec)))): spec for spec in specs}
-        for future in as_completed(futures):
-            scalars, arrays, error = future.result()
-            if error is not None:
-                for other in futures:
-                    other.cancel()
-                raise InputError(*error)
-            _keep(futures[future], scalars, arrays)
-            yield futures[future]
+        """Compute `specs` on the pool (started now if not yet); each spec as it is kept. Local workers
+        keep the entries themselves; a cluster's are kept here."""
+        self.pool.start()
+        keeps = self.pool.keeps_here
+        futures = {self.pool.submit(_worker, spec, dict(zip(GEOMETRIC_NAMES, geometric_row(spec))), keeps,
+                                    key=f"sizer-section-{spec.geometry_key()}"): spec for spec in specs}
+        for future in self.pool.completed(futures):
+            result = future.result()
+            if (error := result_error(result)) is not None:
+                self.pool.cancel(list(futures))
+                raise error
+            spec = futures[future]
+            if not keeps:
+                cache.write_entry(cache.entry_key(spec), result["scalars"], result["arrays"])
+            _keep(spec, result["scalars"], result["arrays"])
+            yield spec
 
     def _finish(self, spec: SectionSpec, finished: Callable[[SectionSpec], None] | None) -> None:
         self.done += 1
@@ -429,18 +419,11 @@ class AnalysisWorkers:
             self.progress(self.done, self.asked, name)
 
 
-def _cores() -> int:
-    try:
-        return len(os.sched_getaffinity(0))
-    except AttributeError:  # pragma: no cover - not on Linux
-        return os.cpu_count() or 1
-
-
 def build_catalogue(specs: Sequence[SectionSpec], workers: int | None = None,
                     progress: Callable[[int, int, str], None] | None = None, check_arrays: bool = True) -> BuildSummary:
-    """Make sure every section's tiers are cached, computing the missing ones in parallel (one
-    process per core by default, in this process when fewer than PARALLEL_FROM are missing; or
-    `workers` processes for any two or more).
+    """Make sure every section's tiers are cached, computing the missing ones in parallel on the
+    worker pool (one process per core by default, in this process when fewer than PARALLEL_FROM are
+    missing; or `workers` processes, at most one per core, for any two or more).
     `progress(done, total, name)` is called as geometries finish. `check_arrays`: also verify each
     cached entry's stress arrays (else only its scalars)."""
     start = time.perf_counter()
@@ -479,22 +462,13 @@ def _entry_ready(spec: SectionSpec, check_arrays: bool) -> bool:
     return True
 
 
-def _warm_worker() -> None:
-    """When a worker process starts: leave Ctrl-C to the parent, import what the work needs now."""
-    import signal
-
-    signal.signal(signal.SIGINT, signal.SIG_IGN)
-    import cytriangle  # noqa: F401
-    import scipy.sparse.linalg  # noqa: F401
-    import shapely.geometry  # noqa: F401
-
-
-def _worker(spec: SectionSpec, geometric: dict[str, float]) -> tuple[dict | None, dict | None, tuple | None]:
-    """Process-pool task: compute and store one section's warping tier and fields. Bad input comes
-    back as InputError fields (the dataclass exception does not survive pickling)."""
+def _worker(spec: SectionSpec, geometric: dict[str, float], keep: bool) -> dict[str, Any]:
+    """Pool task: one section's warping tier and fields ({"scalars", "arrays"}), stored in the cache
+    when `keep` (a local worker); bad input as data (sizer.workers.error_result)."""
     try:
         scalars, arrays = compute_warping(spec, geometric)
     except InputError as error:
-        return None, None, (error.file, error.key, error.problem, error.fix, error.line)
-    cache.write_entry(cache.entry_key(spec), scalars, arrays)
-    return scalars, arrays, None
+        return error_result(error)
+    if keep:
+        cache.write_entry(cache.entry_key(spec), scalars, arrays)
+    return {"scalars": scalars, "arrays": arrays}

@@ -12,7 +12,9 @@ from pathlib import Path
 from typing import Any, Callable, Sequence
 
 from sizer.errors import InputError
-from sizer.parallel import Job, JobFailed, RunSummary, Workers, code_fingerprint, content_hash, error_result, result_error, ship_catalogue
+from sizer.cache_store import content_hash
+from sizer.parallel import Job, JobFailed, RunSummary, run_jobs, ship_catalogue
+from sizer.workers import Workers, error_result, result_error
 from sizer.span_table.members import span_table_error, trial_member, user_combinations
 from sizer.span_table.spec import DEAD, FIRST_SPAN, LOAD_GRID, LOAD_STEP, AppliedLoad, CellTask, SpanTableResult, SpanTableSpec, Trial
 
@@ -224,9 +226,9 @@ def settings_digest(spec: SpanTableSpec) -> str:
 
 def cell_key(task: CellTask, settings: str) -> str:
     """The content hash of a cell's work: the table's settings (their digest `settings`), the
-    section, the column, the catalogue's text and sizer's code (each cell's key costs the same
-    however many columns the table has)."""
-    return content_hash("span-table-cell", settings, task.section, task.column, task.catalogue.digest, code_fingerprint())
+    section, the column and the catalogue's text (each cell's key costs the same however many columns
+    the table has; sizer's code is in the kept file's seal: sizer.cache_store)."""
+    return content_hash("span-table-cell", settings, task.section, task.column, task.catalogue.digest)
 
 
 def run_span_table(spec: SpanTableSpec, catalogue: Sequence[Path] = (), families: Sequence[str] = (), jobs: int | None = None,
@@ -239,7 +241,7 @@ def run_span_table(spec: SpanTableSpec, catalogue: Sequence[Path] = (), families
         tasks = (CellTask(spec, name, column, shipped) for name, _ in sections for column in range(spec.columns))
         work = (Job(cell_key(task, settings), task, task.section) for task in tasks)  # the first cell starts at once
         try:
-            results, summary = workers.run(work_cell, work, "Cells", show_progress=show_progress, total=len(sections) * spec.columns)
+            results, summary = run_jobs(workers, work_cell, work, "Cells", show_progress=show_progress, total=len(sections) * spec.columns)
         except JobFailed as failed:
             raise failed.error from None
     for result in results:
