@@ -33,7 +33,7 @@ Code fingerprint (`code_fingerprint`): the sha256 of
     (a schedule row is the whole pipeline's output, down to its HTML record) and a hand-kept list of
     modules would go stale unseen;
   - the Python version;
-  - the installed versions of sizer itself and of the libraries whose numbers are kept: sectionproperties (the
+  - the installed versions of the libraries whose numbers are kept: sectionproperties (the
     formulation of the warping tier), cytriangle (its mesh), numpy and scipy (the solves) and pint
     (the unit factors).
 So any edit of sizer's code, or an upgrade of one of those libraries, invalidates every kept file by
@@ -60,7 +60,7 @@ from sizer.files import write_atomic
 
 SECRET_NAME = "secret.key"
 SECRET_BYTES = 32
-CACHED_LIBRARIES = ("sizer", "sectionproperties", "cytriangle", "numpy", "scipy", "pint")
+CACHED_LIBRARIES = ("sectionproperties", "cytriangle", "numpy", "scipy", "pint")
 
 
 # ----------------------------------------------------------------------------------------------
@@ -205,7 +205,7 @@ def _metadata_version(distribution: str) -> str:
 
 
 # ----------------------------------------------------------------------------------------------
-# content hashes and keyed digests
+# content hashes
 
 def content_hash(*parts: Any) -> str:
     """sha256 of the parts' canonical JSON: sorted keys, dataclasses as their fields, sets sorted, so the
@@ -223,16 +223,6 @@ def _canonical(value: Any) -> Any:
     if isinstance(value, Path):
         return str(value)
     raise TypeError(f"no canonical form for {type(value).__name__}")
-
-
-def keyed_digest(data: bytes) -> str:
-    """HMAC-SHA256 (hex) of `data` under the cache's secret."""
-    return hmac.new(cache_secret(), data, hashlib.sha256).hexdigest()
-
-
-def digest_matches(data: bytes, digest: object) -> bool:
-    """True when `digest` is the keyed digest of `data` (compared in constant time)."""
-    return isinstance(digest, str) and hmac.compare_digest(keyed_digest(data), digest)
 
 
 # ----------------------------------------------------------------------------------------------

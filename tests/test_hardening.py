@@ -28,7 +28,8 @@ from sizer.analysis import solve_case
 from sizer.cli import app
 from sizer.errors import InputError
 from sizer.model import Member, PointLoad, Stiffness, Support
-from sizer.sections import cache, catalogue_cache
+from sizer.cache_store import read_sealed
+from sizer.sections import cache
 from sizer.sections.properties import clear_memory
 from tests.steel import STEEL_TOML
 
@@ -230,12 +231,13 @@ def test_a_changed_unit_factor_is_not_believed(folder: Path, monkeypatch: pytest
     path = member(folder, BEAM.replace('"-10 kN"', '"-1000 daN"'))  # a unit pint is asked for (not one of the common ones built in)
     assert _reaction(folder, path) == pytest.approx(5e3, rel=1e-12)  # P / 2
     memory = tmp_path / "cache" / units.UNIT_CACHE_NAME
-    data = json.loads(memory.read_text(encoding="utf-8"))
-    data["factors"]["daN|force"] = 18.0  # daN as 18 N; the digest is left as it was
-    memory.write_text(json.dumps(data), encoding="utf-8")
+    seal, _, body = memory.read_bytes().partition(b"\n")
+    data = json.loads(body)
+    data["daN|force"] = 18.0  # daN as 18 N; the seal is left as it was
+    memory.write_bytes(seal + b"\n" + json.dumps(data, sort_keys=True).encode())
     monkeypatch.setattr(units, "_UNIT_FACTORS", None)
     assert _reaction(folder, path) == pytest.approx(5e3, rel=1e-12)
-    assert json.loads(memory.read_text(encoding="utf-8"))["factors"]["daN|force"] == 10.0  # rewritten
+    assert json.loads(read_sealed(memory))["daN|force"] == 10.0  # rewritten
 
 
 def _iz(folder: Path, key: str = "Iz") -> float:
@@ -250,10 +252,11 @@ def test_a_changed_section_scalar_is_not_believed(folder: Path, monkeypatch: pyt
     good = _iz(folder)
     assert good == pytest.approx(B * D**3 / 12, rel=1e-6)
     torsion = _iz(folder, "J")  # an entry holds the warping tier (the geometric tier comes from the outline)
-    [entry] = (tmp_path / "cache" / "sections").glob("*.json")
-    data = json.loads(entry.read_text(encoding="utf-8"))
-    data["scalars"]["J"] *= 10.0
-    entry.write_text(json.dumps(data), encoding="utf-8")
+    [entry] = (tmp_path / "cache" / "sections").glob("*.entry")
+    seal, _, body = entry.read_bytes().partition(b"\n")
+    data = json.loads(body)
+    data["scalars"]["J"] *= 10.0  # the seal is left as it was
+    entry.write_bytes(seal + b"\n" + json.dumps(data).encode())
     clear_memory()
     assert _iz(folder, "J") == torsion and _iz(folder) == good
 
@@ -282,11 +285,11 @@ def test_a_changed_parsed_catalogue_is_not_believed(folder: Path, monkeypatch: p
     good = first_combination(run("forces", path, "--json"))["deflection"]["max"]
     assert good == pytest.approx(10e3 * 6.0**3 / (48 * EI), rel=1e-3)  # P L^3 / (48 EI)
     [slot] = (tmp_path / "cache" / "catalogues").glob("*.pickle")
-    header, payload = slot.read_bytes().split(b"\n", 1)
+    seal, digest, payload = slot.read_bytes().split(b"\n", 2)
     parsed = pickle.loads(payload)
     spec = parsed.sections[0]
-    object.__setattr__(spec, "dims", {**spec.dims, "depth": 0.3})  # ten times deeper; the digests are left as they were
-    slot.write_bytes(header + b"\n" + pickle.dumps(parsed))
+    object.__setattr__(spec, "dims", {**spec.dims, "depth": 0.3})  # ten times deeper; the seal and digest are left as they were
+    slot.write_bytes(seal + b"\n" + digest + b"\n" + pickle.dumps(parsed))
     clear_memory()
     assert first_combination(run("forces", path, "--json"))["deflection"]["max"] == good
 

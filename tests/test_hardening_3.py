@@ -23,12 +23,15 @@ import pytest
 import typer
 from typer.testing import CliRunner
 
-from sizer import digests, units
+from sizer import cache_store, units
 from sizer.cli import app
 from sizer.cli_common import run_guarded
 from sizer.cli_many import jobs_option
-from sizer.files import MAX_INPUT_BYTES, cache_root, write_all
-from sizer.parallel import RUNS_FOLDER, Workers, _kept_path, cluster_host_port, default_jobs, keep, read_kept
+from sizer.cache_store import cache_root
+from sizer.files import MAX_INPUT_BYTES, write_all
+from sizer.cluster import cluster_host_port
+from sizer.parallel import RUNS_FOLDER, _kept_path, keep, read_kept
+from sizer.workers import Workers, default_jobs
 from sizer.printable import printable, safe_console
 from tests.steel import STEEL_TOML
 
@@ -176,26 +179,31 @@ def test_a_schedule_quantity_and_a_span_table_width_are_bounded(tmp_path: Path) 
 # ----------------------------------------------------------------------------------------------
 # 2. keyed digests
 
-def test_the_cache_secret_is_owner_only_and_digests_are_hmac(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
+def test_the_cache_secret_is_owner_only_and_seals_are_hmac(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
     monkeypatch.setenv("SIZER_CACHE_DIR", str(tmp_path / "cache"))
-    digest = digests.keyed_digest(b"payload")
-    secret = tmp_path / "cache" / digests.SECRET_NAME
+    path = tmp_path / "cache" / "runs" / "kept.json"
+    cache_store.write_sealed(path, b"payload")
+    secret = tmp_path / "cache" / cache_store.SECRET_NAME
     assert stat.S_IMODE(secret.stat().st_mode) == 0o600
     import hmac
 
-    assert digest == hmac.new(secret.read_bytes(), b"payload", hashlib.sha256).hexdigest()  # RFC 2104 HMAC-SHA256
-    assert digest != hashlib.sha256(b"payload").hexdigest()  # not a plain hash anyone can remake
-    assert digests.digest_matches(b"payload", digest) and not digests.digest_matches(b"payload!", digest)
+    seal, _, body = path.read_bytes().partition(b"\n")
+    message = f"{cache_store.code_fingerprint()}\0runs/kept.json\0".encode() + b"payload"
+    assert seal.decode() == hmac.new(secret.read_bytes(), message, hashlib.sha256).hexdigest()  # RFC 2104 HMAC-SHA256
+    assert seal.decode() != hashlib.sha256(message).hexdigest()  # not a plain hash anyone can remake
+    assert cache_store.read_sealed(path) == b"payload"
+    path.write_bytes(seal + b"\npayload!")
+    assert cache_store.read_sealed(path) is None
 
 
 def test_a_secret_others_can_read_is_replaced(tmp_path: Path) -> None:
     root = tmp_path / "cache"
     root.mkdir()
-    shared = root / digests.SECRET_NAME
-    shared.write_bytes(b"k" * digests.SECRET_BYTES)
+    shared = root / cache_store.SECRET_NAME
+    shared.write_bytes(b"k" * cache_store.SECRET_BYTES)
     shared.chmod(0o644)
-    made = digests._secret_of(str(root))
-    assert made != b"k" * digests.SECRET_BYTES
+    made = cache_store._secret_of(str(root))
+    assert made != b"k" * cache_store.SECRET_BYTES
     assert stat.S_IMODE(shared.stat().st_mode) == 0o600 and shared.read_bytes() == made
 
 
@@ -204,10 +212,11 @@ def test_a_unit_factor_changed_with_a_plain_digest_is_not_believed(folder: Path,
     monkeypatch.setattr(units, "_UNIT_FACTORS", None)
     assert units.parse("12 daN", "force") == pytest.approx(120.0)  # a unit pint is asked for (1 daN = 10 N)
     memory = tmp_path / "cache" / units.UNIT_CACHE_NAME
-    data = json.loads(memory.read_text(encoding="utf-8"))
-    data["factors"]["daN|force"] = 15.0  # x1.5, with a digest remade as the old plain sha256 was
-    data["digest"] = hashlib.sha256(json.dumps(data["factors"], sort_keys=True).encode()).hexdigest()
-    memory.write_text(json.dumps(data), encoding="utf-8")
+    _, _, body = memory.read_bytes().partition(b"\n")
+    factors = json.loads(body)
+    factors["daN|force"] = 15.0  # x1.5, with the seal remade as a plain sha256 anyone can make
+    body = json.dumps(factors, sort_keys=True).encode()
+    memory.write_bytes(hashlib.sha256(body).hexdigest().encode() + b"\n" + body)
     monkeypatch.setattr(units, "_UNIT_FACTORS", None)
     assert units.parse("12 daN", "force") == pytest.approx(120.0)  # 1 daN = 10 N (SI prefix deca)
 
@@ -217,7 +226,7 @@ def test_a_kept_result_changed_with_its_digest_remade_is_redone(tmp_path: Path, 
     key = "ab" + "0" * 62
     keep(key, {"passes": False, "utilization": 1.208})
     assert read_kept(key) == {"passes": False, "utilization": 1.208}
-    body = json.dumps({"key": key, "result": {"passes": True, "utilization": 0.5}}).encode()
+    body = json.dumps({"passes": True, "utilization": 0.5}).encode()
     _kept_path(key).write_bytes(hashlib.sha256(body).hexdigest().encode() + b"\n" + body)  # "ok", with a plain digest
     assert read_kept(key) is None
     _kept_path(key).write_bytes(body)  # the old form: no digest at all

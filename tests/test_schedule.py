@@ -18,7 +18,7 @@ from hypothesis import strategies as st
 from typer.testing import CliRunner
 
 from sizer.cli import app
-from sizer.files import cache_root
+from sizer.cache_store import cache_root
 from sizer.parallel import RUNS_FOLDER
 from sizer.schedule import read_schedule, run_schedule, scaled_member, schedule_totals
 from tests.steel import STEEL_TOML
@@ -271,11 +271,13 @@ def test_progress_bar_starts_once_every_worker_has_a_job(monkeypatch):
     """The bar (rich, about 20 ms to import) starts once as many jobs have started as there are
     workers, so that its imports hold up no worker; with fewer jobs than workers, before the wait
     for them; a run of kept results only shows none (common practice: nothing is running)."""
-    from sizer.parallel import Job, Workers, _progress
+    from sizer.parallel import Job, run_jobs
+    from sizer.progress import ProgressBar
+    from sizer.workers import Workers
 
     forget_kept_rows()
     events: list[str] = []
-    monkeypatch.setattr(_progress, "begin", lambda self: events.append("bar") if "bar" not in events else None)
+    monkeypatch.setattr(ProgressBar, "begin", lambda self: events.append("bar") if "bar" not in events else None)
 
     def work(payload: int) -> dict:
         events.append(f"job {payload}")
@@ -283,7 +285,7 @@ def test_progress_bar_starts_once_every_worker_has_a_job(monkeypatch):
 
     def run(count: int, keys: list[str]) -> list[dict]:
         events.clear()
-        results, _ = Workers(count).run(work, [Job(key, k) for k, key in enumerate(keys)], show_progress=True)
+        results, _ = run_jobs(Workers(count), work, [Job(key, k) for k, key in enumerate(keys)], show_progress=True)
         return results
 
     assert run(2, ["bar-a", "bar-b", "bar-c"]) == [{"value": 0}, {"value": 1}, {"value": 2}]
@@ -313,11 +315,13 @@ def test_local_workers_get_jobs_in_pairs_but_the_last_singly(monkeypatch):
     """Jobs go to the pool in pairs (half the round trips), the last two per worker singly so that the
     workers finish together; every result comes back to its own job, in the jobs' order, and is kept
     (common practice: batching short tasks, as `Executor.map(chunksize=)` does)."""
-    from sizer.parallel import Job, Workers, _progress, read_kept
+    from sizer.parallel import Job, read_kept, run_jobs
+    from sizer.progress import ProgressBar
+    from sizer.workers import Workers
 
     forget_kept_rows()
     events: list[str] = []
-    monkeypatch.setattr(_progress, "begin", lambda self: events.append("bar") if "bar" not in events else None)
+    monkeypatch.setattr(ProgressBar, "begin", lambda self: events.append("bar") if "bar" not in events else None)
 
     def work(payload: int) -> dict:
         events.append(f"job {payload}")
@@ -326,7 +330,7 @@ def test_local_workers_get_jobs_in_pairs_but_the_last_singly(monkeypatch):
     workers = Workers(2)
     workers.pool = _InlinePool(events)
     keys = [f"pair-{k}" for k in range(9)]
-    results, summary = workers.run(work, [Job(key, k) for k, key in enumerate(keys)], show_progress=True)
+    results, summary = run_jobs(workers, work, [Job(key, k) for k, key in enumerate(keys)], show_progress=True)
     assert results == [{"value": k * k} for k in range(9)] and (summary.ran, summary.resumed) == (9, 0)
     assert [event for event in events if event.startswith("task")] == ["task of 2"] * 2 + ["task of 1"] * 5
     assert events.index("bar") == events.index("job 3") + 1  # once both workers have work
@@ -340,7 +344,7 @@ def test_local_workers_are_forked_only_where_that_is_safe():
     import sys
     import threading
 
-    from sizer.parallel import local_context
+    from sizer.workers import local_context
 
     expected = "fork" if sys.platform.startswith("linux") and threading.active_count() == 1 else "spawn"
     assert local_context().get_start_method() == expected

@@ -1,5 +1,4 @@
-"""The section cache: keys follow the geometry (and stay those of earlier versions), damaged entries
-are rebuilt, warm look-ups need no sectionproperties, catalogues build in parallel.
+"""The section cache: keys follow the geometry, damaged entries are rebuilt, warm look-ups need no sectionproperties, catalogues build in parallel.
 
 Check values: rectangle A = bh, I = bh^3/12 (elementary beam theory, any mechanics of materials
 text, e.g. Gere & Timoshenko, from memory); mass per length = A x density with steel at 7850 kg/m^3
@@ -18,7 +17,7 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from sizer.digests import keyed_digest
+from sizer.cache_store import read_sealed, write_sealed
 from sizer.sections import build_catalogue, section_properties, unit_stress_field
 from sizer.sections import cache
 from sizer.errors import InputError
@@ -44,38 +43,19 @@ def test_key_follows_geometry_not_name() -> None:
     assert cache.entry_key(deeper) != cache.entry_key(FLAT)
 
 
-def test_key_is_the_one_earlier_caches_were_written_under() -> None:
-    from importlib.metadata import version
-
+def test_key_is_the_geometry_and_the_mesh_settings() -> None:
+    """The code and the libraries' versions are in each file's seal (sizer.cache_store), not the key:
+    an entry from other code is rebuilt in place."""
     from sizer.sections.geometry import mesh_settings
 
-    text = json.dumps({"geometry": FLAT.geometry_key(), "mesh": mesh_settings(), "schema": cache.SCHEMA_VERSION,
-                       "sectionproperties": version("sectionproperties")}, sort_keys=True)
+    text = json.dumps({"geometry": FLAT.geometry_key(), "mesh": mesh_settings()}, sort_keys=True)
     assert cache.entry_key(FLAT) == hashlib.sha256(text.encode()).hexdigest()[:32]
-
-
-def test_version_is_read_from_the_dist_info_folder(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
-    from importlib.metadata import version
-
-    assert cache.sectionproperties_version() == version("sectionproperties")
-    empty, plain, egg, twice = (tmp_path / name for name in ("empty", "plain", "egg", "twice"))
-    for folder, names in ((empty, ["numpy-2.0.0.dist-info"]), (plain, ["sectionproperties-9.8.7.dist-info"]),
-                          (egg, ["sectionproperties-1.0.egg-info"]),
-                          (twice, ["sectionproperties-1.0.dist-info", "sectionproperties-2.0.dist-info"])):
-        for name in names:
-            (folder / name).mkdir(parents=True)
-    find = cache._version_from_dist_info
-    assert find("sectionproperties", [str(tmp_path / "absent"), str(empty), str(plain), str(egg)]) == "9.8.7"
-    assert find("sectionproperties", [str(egg), str(plain)]) is None  # importlib.metadata decides
-    assert find("sectionproperties", [str(twice)]) is None and find("sectionproperties", [str(empty)]) is None
-    monkeypatch.setattr(cache, "_version_from_dist_info", lambda *args: None)
-    assert cache.sectionproperties_version.__wrapped__() == version("sectionproperties")  # the metadata fallback
 
 
 def test_entry_is_written_whole_and_read_back(cache_dir: Path) -> None:
     first = section_properties(FLAT)
     key = cache.entry_key(FLAT)
-    assert sorted(path.name for path in cache_dir.iterdir()) == [f"{key}.f64", f"{key}.json"]  # no temporary files left
+    assert sorted(path.name for path in cache_dir.iterdir()) == [f"{key}.entry", f"{key}.f64"]  # no temporary files left
     clear_memory()
     again = section_properties(FLAT)
     assert again.area == first.area == pytest.approx(0.030 * 0.008)  # A = bh
@@ -83,17 +63,33 @@ def test_entry_is_written_whole_and_read_back(cache_dir: Path) -> None:
 
 
 def _rewrite(path: Path, entry: dict) -> None:
-    """Write an entry whose content is wrong but whose digest matches it: the deeper checks must catch it."""
-    entry["digest"] = keyed_digest(cache._entry_text(entry))
-    path.write_text(json.dumps(entry), encoding="utf-8")
+    """Write an entry whose content is wrong but whose seal matches it: the deeper checks must catch it."""
+    write_sealed(path, json.dumps(entry).encode())
+
+
+def _read(path: Path) -> dict:
+    body = read_sealed(path)
+    assert body is not None
+    return json.loads(body)
 
 
 def _damage_json(path: Path) -> None:
     path.write_text("{ not json", encoding="utf-8")
 
 
+def _sealed_not_json(path: Path) -> None:
+    write_sealed(path, b"{ not json")
+
+
+def _one_value_changed_unsealed(path: Path) -> None:
+    """J with a digit put in front, the seal left as it was (someone without the secret)."""
+    data = path.read_bytes()
+    assert b'"J": ' in data
+    path.write_bytes(data.replace(b'"J": ', b'"J": 1', 1))
+
+
 def _nan_in_scalars(path: Path) -> None:
-    entry = json.loads(path.read_text(encoding="utf-8"))
+    entry = _read(path)
     entry["scalars"]["J"] = math.nan
     _rewrite(path, entry)
 
@@ -107,23 +103,23 @@ def _nan_in_arrays_with_matching_checksum(path: Path) -> None:
     values = np.frombuffer(raw.read_bytes(), dtype="<f8").copy()
     values[7] = np.nan
     raw.write_bytes(values.tobytes())
-    entry = json.loads(path.read_text(encoding="utf-8"))
+    entry = _read(path)
     entry["arrays_sha256"] = hashlib.sha256(values.tobytes()).hexdigest()
     _rewrite(path, entry)
 
 
 def _wrong_node_count(path: Path) -> None:
-    entry = json.loads(path.read_text(encoding="utf-8"))
+    entry = _read(path)
     entry["scalars"]["mesh_nodes"] += 1
     _rewrite(path, entry)
 
 
-@pytest.mark.parametrize("damage", [_damage_json, _nan_in_scalars, _truncate_arrays, _nan_in_arrays_with_matching_checksum, _wrong_node_count])
+@pytest.mark.parametrize("damage", [_damage_json, _sealed_not_json, _one_value_changed_unsealed, _nan_in_scalars, _truncate_arrays, _nan_in_arrays_with_matching_checksum, _wrong_node_count])
 def test_damaged_entry_is_recomputed_and_rewritten(cache_dir: Path, damage) -> None:
     good = unit_stress_field(FLAT)
     area = section_properties(FLAT).area
     key = cache.entry_key(FLAT)
-    damage(cache_dir / f"{key}.json")
+    damage(cache_dir / f"{key}.entry")
     clear_memory()
     rebuilt = unit_stress_field(FLAT)
     assert np.array_equal(rebuilt.sigma, good.sigma) and np.array_equal(rebuilt.points, good.points)

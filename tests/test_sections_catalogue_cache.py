@@ -16,6 +16,8 @@ from pathlib import Path
 
 import pytest
 
+from sizer import cache_store
+from sizer.cache_store import write_sealed
 from sizer.errors import InputError
 from sizer.sections import catalogue, catalogue_cache, load_catalogue
 from sizer.sections.catalogue_cache import ParsedFile
@@ -127,23 +129,34 @@ def _garbage(slot: Path) -> None:
 
 
 def _text_digest(slot: Path) -> str:
-    """The slot's digest of the catalogue text (the first of its two digests)."""
-    return slot.read_bytes().split(b" ", 1)[0].decode()
+    """The slot's digest of the catalogue text (the line after its seal)."""
+    return slot.read_bytes().split(b"\n", 2)[1].decode()
+
+
+def _reseal(slot: Path, payload: bytes) -> None:
+    """Write `payload` as the slot's pickle under a matching seal: the deeper checks must catch it."""
+    write_sealed(slot, catalogue_cache.slot_body(_text_digest(slot), payload))
 
 
 def _garbage_after_the_digest(slot: Path) -> None:
-    slot.write_bytes(catalogue_cache.slot_bytes(_text_digest(slot), b"not a pickle at all"))
+    _reseal(slot, b"not a pickle at all")
 
 
 def _wrong_types(slot: Path) -> None:
-    slot.write_bytes(catalogue_cache.slot_bytes(_text_digest(slot), pickle.dumps(ParsedFile(False, ["not a section"], {}))))
+    _reseal(slot, pickle.dumps(ParsedFile(False, ["not a section"], {})))
+
+
+def _one_byte_changed(slot: Path) -> None:
+    data = bytearray(slot.read_bytes())
+    data[-10] ^= 1
+    slot.write_bytes(bytes(data))
 
 
 def _empty(slot: Path) -> None:
     slot.write_bytes(b"")
 
 
-@pytest.mark.parametrize("damage", [_truncate, _garbage, _garbage_after_the_digest, _wrong_types, _empty])
+@pytest.mark.parametrize("damage", [_truncate, _garbage, _garbage_after_the_digest, _wrong_types, _empty, _one_byte_changed])
 def test_damaged_slot_is_ignored_and_rewritten(folder: Path, damage) -> None:
     good = _summary(load_catalogue([folder]))
     [slot] = _slots()
@@ -168,7 +181,7 @@ def test_a_slot_naming_other_classes_runs_nothing(folder: Path, tmp_path: Path) 
     good = _summary(load_catalogue([folder]))
     [slot] = _slots()
     marker = tmp_path / "made by unpickling"
-    slot.write_bytes(catalogue_cache.slot_bytes(_text_digest(slot), pickle.dumps(ParsedFile(False, [], {"steel": _MakesAFolder(marker)}))))
+    _reseal(slot, pickle.dumps(ParsedFile(False, [], {"steel": _MakesAFolder(marker)})))
     assert _summary(load_catalogue([folder])) == good
     assert not marker.exists()
 
@@ -217,23 +230,10 @@ def test_other_code_is_another_digest(folder: Path, monkeypatch: pytest.MonkeyPa
     parsed = []
     parse = catalogue._parse_file
     monkeypatch.setattr(catalogue, "_parse_file", lambda *args: parsed.append(args[0]) or parse(*args))
-    monkeypatch.setattr(catalogue_cache, "code_fingerprint", lambda: "code of another version")
+    monkeypatch.setattr(cache_store, "code_fingerprint", lambda: "code of another version")
     load_catalogue([folder])
     load_catalogue([folder])
     assert parsed == [folder / "stock.toml"]  # parsed once under the new code, then remembered
-
-
-def test_nothing_is_remembered_without_a_fingerprint(folder: Path, monkeypatch: pytest.MonkeyPatch) -> None:
-    monkeypatch.setattr(catalogue_cache, "code_fingerprint", lambda: None)
-    assert len(load_catalogue([folder]).sections) == 3
-    assert _slots() == []
-
-
-def test_fingerprint_follows_the_sources() -> None:
-    fingerprint = catalogue_cache.code_fingerprint()
-    assert fingerprint is not None and len(fingerprint) == 64
-    package = Path(catalogue_cache.__file__).resolve().parent.parent
-    assert all((package / relative).is_file() for relative in catalogue_cache.FINGERPRINT_SOURCES)
 
 
 def test_warm_read_needs_no_toml_parser(folder: Path) -> None:

@@ -18,7 +18,7 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from sizer.digests import keyed_digest
+from sizer.cache_store import write_sealed
 from sizer.sections import cache, peak_unit_stresses, section_properties, section_properties_many, section_table
 from sizer.sections.catalogue import SectionSpec
 from sizer.sections.properties import SCALAR_NAMES, clear_memory
@@ -102,15 +102,15 @@ def test_many_properties_go_through_the_table(cache_dir: Path) -> None:
 
 
 def _load(path: Path) -> np.ndarray:
-    """A table file's array (after its digest line)."""
+    """A table file's array (after its seal line)."""
     return np.load(io.BytesIO(path.read_bytes().split(b"\n", 1)[1]), allow_pickle=True)
 
 
 def _save(path: Path, table: np.ndarray, allow_pickle: bool = False) -> None:
-    """Write `table` as a table file with a matching digest line: only the content is wrong."""
+    """Write `table` as a table file under a matching seal: only the content is wrong."""
     buffer = io.BytesIO()
     np.save(buffer, table, allow_pickle=allow_pickle)
-    path.write_bytes(keyed_digest(buffer.getvalue()).encode() + b"\n" + buffer.getvalue())
+    write_sealed(path, buffer.getvalue())
 
 
 def _truncate(path: Path) -> None:

@@ -24,7 +24,7 @@ from sizer.sections.geometric import GEOMETRIC_NAMES, geometric_scalars, normal_
 from sizer.sections.geometry import MIN_ANGLE, MM, N_CIRCLE, N_RADIUS, max_element_area, mesh, outline, outline_rings
 from sizer.sections.polygon import polygon_moments
 from sizer.sections.properties import AnalysisWorkers, clear_memory, has_warping, unit_stress_field
-from sizer.sections.warping import analyse, compute
+from sizer.sections.warping import WARPING_NAMES, analyse, compute
 from tests.steel import STEEL_TOML
 
 ROUND_OFF = 1e-9  # relative: two exact integrations of the same polygon differ by round-off only
@@ -287,7 +287,7 @@ def fresh_cache(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> Path:
 
 
 def test_workers_compute_what_this_process_computes(fresh_cache: Path) -> None:
-    """Two worker processes (spawn) and this process give bit-identical warping tiers and fields
+    """Two worker processes and this process give bit-identical warping tiers and fields
     (common practice: a result does not depend on where it is computed), and report each section
     to the progress bar once."""
     specs = [SPECS["channel"], SPECS["box"], SPECS["angle"]]
@@ -298,7 +298,7 @@ def test_workers_compute_what_this_process_computes(fresh_cache: Path) -> None:
     clear_memory()
     assert all(has_warping(spec) for spec in specs)
     for spec in specs:
-        from_worker = (json.loads((cache.cache_folder() / f"{cache.entry_key(spec)}.json").read_text())["scalars"], unit_stress_field(spec))
+        from_worker = (cache.read_entry(cache.entry_key(spec), WARPING_NAMES)["scalars"], unit_stress_field(spec))
         here = compute(spec, geometric_scalars(spec))
         assert from_worker[0] == here[0] and np.array_equal(from_worker[1].tau, here[1]["tau"])
     assert seen[0] == (0, 3, "") and sorted(name for _, _, name in seen[1:]) == sorted(spec.name for spec in specs) and seen[-1][:2] == (3, 3)
@@ -369,7 +369,7 @@ def test_a_section_ruled_out_by_bending_alone_never_gets_its_warping_tier(fresh_
     assert len(by_screen) >= 2 and all(entry["governing"] == "bending" and entry["utilization"] > 1.0 for entry in by_screen)
     specs = load_catalogue([catalogue]).sections
     for entry in document["candidates"]:
-        on_disk = (cache.cache_folder() / f"{cache.entry_key(specs[entry['section']])}.json").is_file()
+        on_disk = (cache.cache_folder() / f"{cache.entry_key(specs[entry['section']])}.entry").is_file()
         assert on_disk is (entry["basis"] == "full stress field"), entry["section"]
         if not on_disk:  # a proven lower bound: the closed form's M / S / Fb at the screen's station nearest midspan
             b, d = BARS[entry["section"]]
