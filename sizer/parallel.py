@@ -301,7 +301,7 @@ class _Pooled:
         return future.result() if self.keeps else [future.result()]
 
     def ready(self) -> list[tuple[int, dict]]:
-        done = []
+        done: list[tuple[int, dict]] = []
         while self.front < len(self.started) and self.started[self.front][0].done():
             future, indices = self.started[self.front]
             done.extend(zip(indices, self.results(future)))
