@@ -29,7 +29,7 @@ the secret lives in this process alone (nothing can be kept then anyway).
 
 Code fingerprint (`code_fingerprint`): the sha256 of
   - the source text of every module of the sizer package (each .py file under it, with its path in
-    the package): all of them, not a list, since every kept result comes from most of the package
+    the package; the .pyc files of a build that ships none): all of them, not a list, since every kept result comes from most of the package
     (a schedule row is the whole pipeline's output, down to its HTML record) and a hand-kept list of
     modules would go stale unseen;
   - the Python version;
@@ -145,19 +145,25 @@ def code_fingerprint() -> str:
 
 
 def source_fingerprint(package: Path) -> str:
-    """sha256 of every .py file under `package`: its path relative to `package` and its bytes, files in
-    sorted order (a module added, removed, moved or edited changes it)."""
+    """sha256 of every module file under `package`: its path relative to `package` and its bytes, files
+    in sorted order (a module added, removed, moved or edited changes it). The .py sources; the
+    compiled .pyc files where a build ships no source."""
     digest = hashlib.sha256()
-    for folder, subfolders, names in os.walk(package):
-        subfolders[:] = sorted(name for name in subfolders if name != "__pycache__")
-        for name in sorted(names):
-            if name.endswith(".py"):
-                source = os.path.join(folder, name)
-                with open(source, "rb") as stream:
-                    text = stream.read()
-                digest.update(f"{os.path.relpath(source, package)}\0{len(text)}\0".encode())
-                digest.update(text)
+    for source in _module_files(package, ".py") or _module_files(package, ".pyc"):
+        with open(source, "rb") as stream:
+            text = stream.read()
+        digest.update(f"{os.path.relpath(source, package)}\0{len(text)}\0".encode())
+        digest.update(text)
     return digest.hexdigest()
+
+
+def _module_files(package: Path, suffix: str) -> list[str]:
+    """The files ending in `suffix` under `package`, in sorted order (__pycache__ only for .pyc)."""
+    found: list[str] = []
+    for folder, subfolders, names in os.walk(package):
+        subfolders[:] = sorted(name for name in subfolders if suffix == ".pyc" or name != "__pycache__")
+        found.extend(os.path.join(folder, name) for name in sorted(names) if name.endswith(suffix))
+    return found
 
 
 def installed_versions(distributions: Sequence[str], folders: Sequence[str]) -> dict[str, str]:

@@ -192,3 +192,13 @@ def test_a_stale_or_tampered_kept_result_is_worked_out_again(root: Path, monkeyp
     results, summary = run_jobs(Workers(1), work, jobs, show_progress=False)
     assert results == [{"square": 0}, {"square": 1}, {"square": 4}] and runs == [0, 1, 2, 1]
     assert (summary.resumed, summary.ran) == (2, 1)
+
+
+def test_a_build_without_sources_is_fingerprinted_by_its_compiled_modules(tmp_path: Path) -> None:
+    """Where only .pyc files are shipped, they decide the fingerprint (never a constant shared by every build)."""
+    compiled = tmp_path / "sizer" / "__pycache__"
+    compiled.mkdir(parents=True)
+    (compiled / "model.cpython-311.pyc").write_bytes(b"one build")
+    first = source_fingerprint(tmp_path / "sizer")
+    (compiled / "model.cpython-311.pyc").write_bytes(b"another build")
+    assert source_fingerprint(tmp_path / "sizer") != first
