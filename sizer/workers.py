@@ -119,6 +119,11 @@ class Workers:
         self.close()
 
     @property
+    def parallel(self) -> bool:
+        """Whether starting opens anything (a cluster, or more than one local process)."""
+        return bool(self.cluster) or self.count > 1
+
+    @property
     def started(self) -> bool:
         """Whether tasks go to other processes (local workers or a cluster)."""
         return self.pool is not None or self.client is not None
@@ -138,13 +143,13 @@ class Workers:
 
     def start(self) -> None:
         """Open the pool, once: a cluster's client, or `count` local processes when more than one."""
-        if self.started:
+        if self.started or not self.parallel:
             return
         if self.cluster:
             from sizer.cluster import cluster_client
 
             self.client = cluster_client(self.cluster)
-        elif self.count > 1:
+        else:
             self.pool = self._local_pool()
 
     def _local_pool(self) -> Any:

@@ -304,6 +304,22 @@ def test_workers_compute_what_this_process_computes(fresh_cache: Path) -> None:
     assert seen[0] == (0, 3, "") and sorted(name for _, _, name in seen[1:]) == sorted(spec.name for spec in specs) and seen[-1][:2] == (3, 3)
 
 
+def test_a_dask_cluster_computes_what_this_process_computes(fresh_cache: Path) -> None:
+    """Sections built on a Dask cluster (the worker pool's other kind) are bit-identical to those
+    computed here, and kept in this machine's cache by this process (common practice: a result does
+    not depend on where it is computed)."""
+    distributed = pytest.importorskip("distributed")
+    specs = [SPECS["channel"], SPECS["angle"]]
+    with distributed.LocalCluster(n_workers=1, processes=False, threads_per_worker=1, dashboard_address=None, protocol="tcp://") as cluster:
+        summary = build_catalogue(specs, cluster=cluster.scheduler_address)
+    assert (summary.geometries, summary.computed) == (2, 2)
+    clear_memory()
+    for spec in specs:
+        kept = (cache.read_entry(cache.entry_key(spec), WARPING_NAMES)["scalars"], unit_stress_field(spec))
+        here = compute(spec, geometric_scalars(spec))
+        assert kept[0] == here[0] and np.array_equal(kept[1].tau, here[1]["tau"])
+
+
 # ----------------------------------------------------------------------------------------------
 # the sizing: the warping tier only where a verdict needs it
 

@@ -349,12 +349,14 @@ class AnalysisWorkers:
     kept for a whole run. `wait` makes sure that some sections are done: in this process while fewer
     than PARALLEL_FROM are missing (two, when the number of workers is given) and the pool is not
     running, else on the pool, which starts then and stays for the rest of the run. A process that is
-    itself a worker never starts more. `progress(done, total, name)` hears of every section
-    computed, counted over the whole run."""
+    itself a worker never starts more. `workers` local processes, or the Dask cluster at `cluster`
+    (sizer.workers). `progress(done, total, name)` hears of every section computed, counted over the
+    whole run."""
 
-    def __init__(self, workers: int | None = None, progress: Callable[[int, int, str], None] | None = None) -> None:
-        self.pool = Workers(workers, warm=SECTION_MODULES)
-        self.from_count = 2 if workers else PARALLEL_FROM  # workers asked for by number are used for any two sections
+    def __init__(self, workers: int | None = None, progress: Callable[[int, int, str], None] | None = None,
+                 cluster: str | None = None) -> None:
+        self.pool = Workers(workers, cluster, warm=SECTION_MODULES)
+        self.from_count = 2 if workers or cluster else PARALLEL_FROM  # workers asked for are used for any two sections
         self.progress = progress
         self.asked = self.done = 0
 
@@ -382,7 +384,7 @@ class AnalysisWorkers:
             return
         self.asked += len(missing)
         self._report("")
-        if not self.pool.started and (self.pool.count == 1 or len(missing) < self.from_count):
+        if not self.pool.started and (not self.pool.parallel or len(missing) < self.from_count):
             for spec in missing:
                 _compute_and_store(spec)
                 self._finish(spec, finished)
@@ -420,10 +422,12 @@ class AnalysisWorkers:
 
 
 def build_catalogue(specs: Sequence[SectionSpec], workers: int | None = None,
-                    progress: Callable[[int, int, str], None] | None = None, check_arrays: bool = True) -> BuildSummary:
+                    progress: Callable[[int, int, str], None] | None = None, check_arrays: bool = True,
+                    cluster: str | None = None) -> BuildSummary:
     """Make sure every section's tiers are cached, computing the missing ones in parallel on the
     worker pool (one process per core by default, in this process when fewer than PARALLEL_FROM are
-    missing; or `workers` processes, at most one per core, for any two or more).
+    missing; or `workers` processes, at most one per core, or the Dask cluster at `cluster`, for any
+    two or more).
     `progress(done, total, name)` is called as geometries finish. `check_arrays`: also verify each
     cached entry's stress arrays (else only its scalars)."""
     start = time.perf_counter()
@@ -439,7 +443,7 @@ def build_catalogue(specs: Sequence[SectionSpec], workers: int | None = None,
         if progress:
             progress(done, total, spec.name)
 
-    with AnalysisWorkers(workers and min(workers, max(1, len(missing)))) as runner:
+    with AnalysisWorkers(workers and min(workers, max(1, len(missing))), cluster=cluster) as runner:
         runner.wait(missing, finished, recompute=True)
         used = runner.count if runner.started else 1
     return BuildSummary(len(specs), total, len(missing), total - len(missing), used, time.perf_counter() - start)
