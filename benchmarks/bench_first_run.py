@@ -49,7 +49,7 @@ def timed_run(command: list[str], cache: Path) -> tuple[float, float]:
 def computed_sections(cache: Path) -> int:
     """Sections whose warping tier and stress fields a run computed (entries in the cache)."""
     folder = cache / "sections"
-    return len(list(folder.glob("*.json"))) if folder.is_dir() else 0
+    return len(list(folder.glob("*.entry"))) if folder.is_dir() else 0
 
 
 def cold_and_warm(label: str, command: list[str], runs: int, total: int, target: float) -> None:
