@@ -75,6 +75,7 @@ def warm_up(modules: tuple[str, ...]) -> None:
 
 
 def import_modules(modules: tuple[str, ...]) -> None:
+    """Import `modules` (by name) into this process."""
     import importlib
 
     for name in modules:
