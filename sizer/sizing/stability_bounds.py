@@ -78,7 +78,8 @@ class StabilityBounds:
     def _projections(self, group: Group) -> dict[tuple[str, int], Projection]:
         """The Projection of every load set of a group over its trial shapes: each load-case column's
         geometric terms projected once (per sign of its factor), a load set's the weighted sum of its
-        columns' (the terms are linear in the weights, as MemberStability.weighted_terms)."""
+        columns' (the terms are linear in the weights; a load's default height follows the sign of its
+        factor, so each column is taken at the sign of its weight: MemberStability.column_terms)."""
         kind, origin = group
         trial = orthonormal(np.column_stack(self.shapes[group]))
         elastic, springs = projected_elastic(self.model, trial), (trial.T * self.model.springs) @ trial
