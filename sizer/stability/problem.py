@@ -120,8 +120,7 @@ class MemberStability:
         actions = self.actions(weights)
         if kind == "axial":
             return axial_terms(self.quad, actions[..., N])
-        terms = moment_terms(self.quad, actions[..., MZ], np.zeros_like(actions[..., MZ]))
-        terms = {name: terms[name] for name in ("Mz", "wagner_Mz")}
+        terms = moment_terms(self.quad, actions[..., MZ], np.zeros_like(actions[..., MZ]))  # the major-axis moment alone
         terms.update(height_terms(self.quad, self.member, self.orientation, np.asarray(weights), self.cases))
         return terms
 
