@@ -62,6 +62,7 @@ class Search:
     model: MemberStability | None = None
     bounded: dict[int, int] = field(default_factory=dict)  # candidate index -> stability epoch of its bounds
     reveal_count: int = 1  # candidates revealed together next: doubles while revealed ones keep failing
+    seeded_rows: set[int] = field(default_factory=set)  # candidates whose own shapes the stability bounds took (seeded)
 
     def compute(self, candidates: Sequence[Candidate]) -> None:
         """Make sure the warping tiers and stress fields of `candidates` are cached (on the workers
@@ -172,9 +173,24 @@ class Search:
                 if self.ruled_out(candidate):
                     self.reveal_count = min(2 * self.reveal_count, REVEAL_MOST)
                     return False
+            if self.seeded(candidate) and self.ruled_out(candidate):
+                return False
         passes = self.full_check(candidate, learn).passes
         self.reveal_count = 1 if passes else min(2 * self.reveal_count, REVEAL_MOST)
         return passes
+
+    def seeded(self, candidate: Candidate) -> bool:
+        """Whether the stability bounds took the candidate's own base-mesh buckled shapes now (only
+        where they seed: sizer.sizing.stability_bounds.StabilityBounds.seed), once per candidate."""
+        from sizer.stability import stability_section
+
+        stability = self.stability
+        if stability is None or not stability.seeds or candidate.index in self.seeded_rows:
+            return False
+        self.seeded_rows.add(candidate.index)
+        section = stability_section(candidate.props, self.material.elastic_modulus, self.material.shear_modulus)
+        stability.seed(candidate.index, section, candidate.mass_per_length if self.member.self_weight_case else 0.0)
+        return True
 
     def open_after(self, candidate: Candidate, count: int) -> list[Candidate]:
         """Up to `count` unchecked candidates after this one, within its BATCH, whose warping tier is

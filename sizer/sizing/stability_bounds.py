@@ -25,7 +25,7 @@ from sizer.checks.stability import StabilityReport
 from sizer.model import Material, Member
 from sizer.sizing.candidates import CandidateTable
 from sizer.sizing.screen import Screen
-from sizer.stability import MemberStability, minor_axis_is_weaker
+from sizer.stability import MemberStability, StabilitySection, minor_axis_is_weaker
 from sizer.stability.boundary import admissible_basis
 from sizer.stability.problem import SameLoadSets, load_shape, term_coefficients
 from sizer.stability.ritz import Projection, assemble, largest_inverse, orthonormal, projected, projected_elastic, strict_rows
@@ -50,20 +50,45 @@ class StabilityBounds:
         self.shapes: dict[Group, list[np.ndarray]] = {(kind, self.origin[c]): [] for kind, c in self.wanted}
         self.projections: dict[tuple[str, int], Projection] = {}
         self.stale: set[Group] = set()
-        self.epoch = 0  # counts the full checks whose shapes were taken
+        self.epoch = 0  # counts the full checks and seeds whose shapes were taken
+        self.seeds = bool(member.patterning and member.patterning.switches)  # seed before a full check (see seed)
 
     def add(self, report: StabilityReport) -> None:
         """Take a full check's buckled shapes as trial shapes (projected onto every section's allowed
         shapes), each for every load set of its given combination: its pattern arrangements too."""
-        if self.basis is None:
-            self.basis = admissible_basis(self.model.mesh.size, strict_rows(self.model))
         self.epoch += 1
         for entry in report.combinations:
             origin = report.model.member.origin(entry.combination)
             for kind, found in (("axial", entry.axial), ("lateral", entry.lateral)):
-                if (kind, origin) in self.shapes and found is not None and found.mode is not None:
-                    self.shapes[(kind, origin)].append(self.basis @ (self.basis.T @ found.mode))
-                    self.stale.add((kind, origin))  # a combination that scales this one has the same shape: taken once
+                if found is not None and found.mode is not None:
+                    self._take((kind, origin), found.mode)  # a combination that scales this one has the same shape: taken once
+
+    def seed(self, index: int, section: StabilitySection, mass: float) -> None:
+        """Take the buckled shapes of candidate row `index` (`section`, self-weight `mass` kg/m) on the
+        base mesh, not refined, under every load set bounded here, as trial shapes. The finer meshes
+        hold the base mesh's shapes, so its base-mesh load factors lie above its converged ones, and
+        its own bounds come within the refinement's change of its check's: one small eigen-solve per
+        load set can rule it out where its check would fail on stability (for a member with pattern
+        arrangements, whose full check searches them all)."""
+        self.epoch += 1
+        solver = self.model.for_section(section)
+        loads, per_mass = self.model.rows
+        for kind, c in sorted(self.wanted):
+            if kind == "lateral" and not self.lateral_applies[index]:
+                continue
+            found = solver.reduced.modes(solver.load_matrix_full(kind, loads[c] + mass * per_mass[c]), 1)[0]
+            mode = solver.on_base(found.mode)
+            if mode is not None and not found.free_movement:
+                self._take((kind, self.origin[c]), mode)
+
+    def _take(self, group: Group, mode: np.ndarray) -> None:
+        """A buckled shape on the base mesh as a trial shape of a group (where it has load sets bounded here)."""
+        if group not in self.shapes:
+            return
+        if self.basis is None:
+            self.basis = admissible_basis(self.model.mesh.size, strict_rows(self.model))
+        self.shapes[group].append(self.basis @ (self.basis.T @ mode))
+        self.stale.add(group)
 
     def lower_bounds(self, rows: np.ndarray) -> dict[str, np.ndarray]:
         """check -> (len(rows),) proven lower bound of its utilization for the candidates `rows`, with
