@@ -51,7 +51,8 @@ class StabilityBounds:
         self.projections: dict[tuple[str, int], Projection] = {}
         self.stale: set[Group] = set()
         self.epoch = 0  # counts the full checks and seeds whose shapes were taken
-        self.seeds = bool(member.patterning and member.patterning.switches)  # seed before a full check (see seed)
+        patterning = base.member.patterning
+        self.seeds = bool(patterning and patterning.switches)  # seed before a full check (see seed)
 
     def add(self, report: StabilityReport) -> None:
         """Take a full check's buckled shapes as trial shapes (projected onto every section's allowed
