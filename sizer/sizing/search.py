@@ -294,10 +294,12 @@ def _size(member: Member, catalogue: Catalogue, material: Material, families: Se
     else:
         prepare_screen(search, table)
         solves = "one solve per load case and one unit self-weight solve" if member.self_weight_case else "one solve per load case"
+        seeded = (", and each section's own buckled shapes on the unrefined mesh, whose load factors lie at or above the "
+                  "converged ones") if search.stability is not None and search.stability.seeds else ""
         notes.append(f"Screened all candidates at once ({solves}, "
                      "superposed); a lighter section is ruled out only by a proven lower bound of its full check "
                      "(stability: Rayleigh-Ritz bounds of its buckling load factors from the buckled shapes found "
-                     "so far); every verdict of a section shown in full rests on the full stress-field check.")
+                     f"so far{seeded}); every verdict of a section shown in full rests on the full stress-field check.")
     chosen = search.first_passing()
     if check_runners_up:
         search.confirm_runners_up(chosen, top)
