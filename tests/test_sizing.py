@@ -992,3 +992,44 @@ def test_runners_up_are_not_claimed_to_pass_without_a_full_check(stocks: dict[st
         _, reference = check_json(member, stocks["mixed"], entry["section"])
         assert entry["basis"] == "full stress field" and entry["passes"] is True and reference["passes"] is True
         assert entry["utilization"] == pytest.approx(reference["utilization"], rel=SAME)
+
+
+def test_seeded_stability_bounds_never_exceed_the_check(stocks: dict[str, Path], tmp_path: Path) -> None:
+    """StabilityBounds.seed (pattern loading): every candidate's own base-mesh buckled shapes taken as
+    trial shapes give lower bounds of the buckling and lateral-torsional checks, never above what
+    `sizer check`'s own computation finds over every arrangement (Rayleigh-Ritz: a coarse mesh's load
+    factor is at or above the converged one, common practice), and close to it for the section seeded
+    (its own shapes: the base mesh's load factors)."""
+    from sizer.analysis import solve_member
+    from sizer.checks import check_design
+    from sizer.design import catalogue_for, resolve_material
+    from sizer.inputfile import read_member_file
+    from sizer.model import Stiffness
+    from sizer.sections import unit_stress_field
+    from sizer.sizing import candidate_sections, design_for, screen
+    from sizer.sizing.stability_bounds import StabilityBounds
+    from sizer.stability import MemberStability, stability_section
+
+    member = read_member_file(write_member(tmp_path, PATTERNED_BEAM))
+    catalogue = catalogue_for(member, [stocks["mixed"]])
+    material = resolve_material(member, catalogue)
+    candidates, table = candidate_sections(catalogue, member, material, (), None, None)
+    base = solve_member(member, Stiffness.unit(), None)
+    model = MemberStability(member, base)
+    bounds = StabilityBounds(model, base, table, screen(table, member, material, base), member, material)
+    assert bounds.seeds
+    rows = np.arange(len(candidates))
+    checked = {}
+    for candidate in candidates:
+        report = check_design(design_for(member, material, candidate, base), unit_stress_field(candidate.spec), stability=model)
+        checked[candidate.index] = {result.check: result.utilization or 0.0 for result in report.checks}
+        own = stability_section(candidate.props, material.elastic_modulus, material.shear_modulus)
+        bounds.seed(candidate.index, own, candidate.mass_per_length)
+        alone = bounds.lower_bounds(rows)["lateral-torsional"][candidate.index]
+        if checked[candidate.index]["lateral-torsional"] > 0.05:  # its own shapes: close to its check's (within 0.1 % on the
+            assert alone >= 0.85 * checked[candidate.index]["lateral-torsional"], candidate.name  # I, box, channel; 10 % on angles)
+    found = bounds.lower_bounds(rows)  # every candidate's shapes together: higher bounds, still below every check
+    for candidate in candidates:
+        for name in ("buckling", "lateral-torsional"):
+            assert found[name][candidate.index] <= checked[candidate.index][name] * (1 + SAME) + 1e-12, (candidate.name, name)
+    assert found["lateral-torsional"].max() > 0.0  # the test can tell

@@ -86,6 +86,17 @@ def linear_extremes(fixed: np.ndarray, parts: np.ndarray) -> tuple[np.ndarray, n
     return fixed + np.maximum(parts, 0.0).sum(axis=0), fixed + np.minimum(parts, 0.0).sum(axis=0)
 
 
+def streamed_extremes(fixed: np.ndarray, part: Callable[[int], np.ndarray], count: int) -> tuple[np.ndarray, np.ndarray]:
+    """linear_extremes with the `count` switches' contributions made one at a time by `part(k)` (each
+    shaped as `fixed`): the memory of one contribution, not of all of them."""
+    high, low = np.zeros_like(fixed), np.zeros_like(fixed)
+    for k in range(count):
+        value = part(k)
+        high += np.maximum(value, 0.0)
+        low += np.minimum(value, 0.0)
+    return fixed + high, fixed + low
+
+
 def sign_patterns(parts: np.ndarray) -> np.ndarray:
     """(P, K) bool: the distinct arrangements that make some quantity of `parts` (K, ..., c) largest
     (the switches whose contribution is positive) or smallest (negative); contributions below

@@ -30,6 +30,7 @@ from sizer.analysis.superposition import linear_extremes
 from sizer.checks.results import ZERO_ACTION
 from sizer.stability import Buckling
 from sizer.stability.problem import SectionStability
+from sizer.stability.solve import _largest_eigenpairs as largest_eigenpairs
 
 BOUND_SLACK = 1e-9  # relative: a bound lowered by this much covers the round-off between the two ways of solving
 LEAF_SWITCHES = 0  # a set with this many free switches or fewer is solved one arrangement at a time (4 solves)
@@ -96,9 +97,9 @@ class _Search:
                     total += part
             else:
                 total += positive
-        values, vectors = np.linalg.eigh(total)
-        top = float(values[-1])
-        return (self.allowance / top * (1 - BOUND_SLACK), vectors[:, -1]) if top > 0 else (math.inf, None)
+        values, vectors = largest_eigenpairs(total, 1)  # the largest alone: eigenvalues without vectors, then inverse iteration
+        top = float(values[0])
+        return (self.allowance / top * (1 - BOUND_SLACK), vectors[:, 0]) if top > 0 else (math.inf, None)
 
     def peaks(self, fixed: dict[int, bool]) -> list[tuple[float, float]]:
         """(peak, sign) bounds of the largest sagging and hogging |Mz| over the arrangements agreeing with `fixed`."""

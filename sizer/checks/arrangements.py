@@ -24,7 +24,7 @@ from typing import Any
 import numpy as np
 
 from sizer.analysis.section_axes import to_section_axes
-from sizer.analysis.superposition import convex_maximum, linear_extremes, switched_combinations
+from sizer.analysis.superposition import convex_maximum, linear_extremes, streamed_extremes, switched_combinations
 from sizer.checks.results import CHUNK_VALUES
 from sizer.design import Design
 
@@ -51,9 +51,9 @@ def stress_arrangements(design: Design, xs: np.ndarray, sides: np.ndarray, unit_
         parts = np.tensordot(combination.switches, each, axes=1)  # (K, n, 6)
         picked: set[frozenset[int]] = set()
         for columns, rows in (((4, 5), sigma[1:3]), ((0, 4, 5), sigma)):
-            picked |= _linear_worst(fixed[:, columns] @ rows, parts[..., columns] @ rows)
+            picked |= _linear_worst(fixed[:, columns], parts[..., columns], rows)
         if np.any(fixed[:, 0]) or np.any(parts[..., 0]):  # the interaction: each station's worst bending
-            picked |= _station_worst(fixed[:, 4:6] @ sigma[1:3], parts[..., 4:6] @ sigma[1:3])
+            picked |= _station_worst(fixed[:, 4:6], parts[..., 4:6], sigma[1:3])
         shear = _Stresses(fixed, parts, tau, sigma, with_normal=False)
         equivalent = _Stresses(fixed, parts, tau, sigma, with_normal=True)
         for stresses, best in ((shear, beaten[0]), (equivalent, beaten[1])):
@@ -64,29 +64,29 @@ def stress_arrangements(design: Design, xs: np.ndarray, sides: np.ndarray, unit_
     return found
 
 
-def _linear_worst(fixed: np.ndarray, parts: np.ndarray) -> set[frozenset[int]]:
-    """The arrangements of the largest and of the smallest value of a linear quantity, `fixed` (n, p)
-    and `parts` (K, n, p), over every point and arrangement."""
+def _linear_worst(fixed: np.ndarray, parts: np.ndarray, rows: np.ndarray) -> set[frozenset[int]]:
+    """The arrangements of the largest and of the smallest value of a linear quantity over every point
+    and arrangement: the actions `fixed` (n, c) and `parts` (K, n, c) times the unit values `rows`
+    (c, p) (each switch's (n, p) values made one at a time)."""
     if not parts.size:
         return set()
-    high, low = linear_extremes(fixed, parts)
-    found = set()
-    for values, sense in ((high, 1.0), (low, -1.0)):
-        n, p = np.unravel_index(int(np.argmax(sense * values)), values.shape)
-        found.add(frozenset(np.flatnonzero(sense * parts[:, n, p] > 0.0).tolist()))
-    return found
+    high, low = streamed_extremes(fixed @ rows, lambda k: parts[k] @ rows, len(parts))
+    points = [np.unravel_index(int(np.argmax(sense * values)), values.shape) for values, sense in ((high, 1.0), (low, -1.0))]
+    at = np.array([[(parts[k] @ rows)[n, p] for n, p in points] for k in range(len(parts))])  # (K, 2)
+    return {frozenset(np.flatnonzero(sense * at[:, i] > 0.0).tolist()) for i, sense in enumerate((1.0, -1.0))}
 
 
-def _station_worst(fixed: np.ndarray, parts: np.ndarray) -> set[frozenset[int]]:
+def _station_worst(fixed: np.ndarray, parts: np.ndarray, rows: np.ndarray) -> set[frozenset[int]]:
     """For each station, the arrangement of the largest |value| over the nodes of a linear quantity
-    (`fixed` (n, p), `parts` (K, n, p)): with the axial force and Fb the same in every arrangement,
-    the one of the largest interaction fa/Fa + fb/Fb at that station."""
-    high, low = linear_extremes(fixed, parts)
+    (the actions `fixed` (n, c) and `parts` (K, n, c) times the unit values `rows` (c, p)): with the
+    axial force and Fb the same in every arrangement, the one of the largest interaction fa/Fa +
+    fb/Fb at that station."""
+    high, low = streamed_extremes(fixed @ rows, lambda k: parts[k] @ rows, len(parts))
     size = np.maximum(high, -low)
     node = size.argmax(axis=1)
     stations = np.arange(size.shape[0])
     sense = np.where(high[stations, node] >= -low[stations, node], 1.0, -1.0)
-    signs = sense[None, :] * parts[:, stations, node] > 0.0  # (K, n)
+    signs = np.stack([sense * (parts[k] @ rows)[stations, node] > 0.0 for k in range(len(parts))])  # (K, n)
     return {frozenset(np.flatnonzero(column).tolist()) for column in np.unique(signs.T, axis=0)}
 
 
@@ -117,7 +117,7 @@ class _Stresses:
     def bounds(self, stations: np.ndarray) -> np.ndarray:
         """(len(stations), p) an upper bound over every arrangement of the measure's value at each
         node of these stations: each component at the larger size of its own largest and smallest."""
-        high, low = linear_extremes(self.values(self.fixed[stations]), self.values(self.parts[:, stations]))
+        high, low = streamed_extremes(self.values(self.fixed[stations]), lambda k: self.values(self.parts[k, stations]), len(self.parts))
         return np.sqrt((np.maximum(high, -low) ** 2).sum(axis=-1))
 
     def exact(self, station: int, node: int) -> tuple[float, np.ndarray]:

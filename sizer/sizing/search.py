@@ -62,6 +62,7 @@ class Search:
     model: MemberStability | None = None
     bounded: dict[int, int] = field(default_factory=dict)  # candidate index -> stability epoch of its bounds
     reveal_count: int = 1  # candidates revealed together next: doubles while revealed ones keep failing
+    seeded_rows: set[int] = field(default_factory=set)  # candidates whose own shapes the stability bounds took (seeded)
 
     def compute(self, candidates: Sequence[Candidate]) -> None:
         """Make sure the warping tiers and stress fields of `candidates` are cached (on the workers
@@ -172,9 +173,24 @@ class Search:
                 if self.ruled_out(candidate):
                     self.reveal_count = min(2 * self.reveal_count, REVEAL_MOST)
                     return False
+            if self.seeded(candidate) and self.ruled_out(candidate):
+                return False
         passes = self.full_check(candidate, learn).passes
         self.reveal_count = 1 if passes else min(2 * self.reveal_count, REVEAL_MOST)
         return passes
+
+    def seeded(self, candidate: Candidate) -> bool:
+        """Whether the stability bounds took the candidate's own base-mesh buckled shapes now (only
+        where they seed: sizer.sizing.stability_bounds.StabilityBounds.seed), once per candidate."""
+        from sizer.stability import stability_section
+
+        stability = self.stability
+        if stability is None or not stability.seeds or candidate.index in self.seeded_rows:
+            return False
+        self.seeded_rows.add(candidate.index)
+        section = stability_section(candidate.props, self.material.elastic_modulus, self.material.shear_modulus)
+        stability.seed(candidate.index, section, candidate.mass_per_length if self.member.self_weight_case else 0.0)
+        return True
 
     def open_after(self, candidate: Candidate, count: int) -> list[Candidate]:
         """Up to `count` unchecked candidates after this one, within its BATCH, whose warping tier is
@@ -278,10 +294,12 @@ def _size(member: Member, catalogue: Catalogue, material: Material, families: Se
     else:
         prepare_screen(search, table)
         solves = "one solve per load case and one unit self-weight solve" if member.self_weight_case else "one solve per load case"
+        seeded = (", and each section's own buckled shapes on the unrefined mesh, whose load factors lie at or above the "
+                  "converged ones") if search.stability is not None and search.stability.seeds else ""
         notes.append(f"Screened all candidates at once ({solves}, "
                      "superposed); a lighter section is ruled out only by a proven lower bound of its full check "
                      "(stability: Rayleigh-Ritz bounds of its buckling load factors from the buckled shapes found "
-                     "so far); every verdict of a section shown in full rests on the full stress-field check.")
+                     f"so far{seeded}); every verdict of a section shown in full rests on the full stress-field check.")
     chosen = search.first_passing()
     if check_runners_up:
         search.confirm_runners_up(chosen, top)

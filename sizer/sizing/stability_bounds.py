@@ -7,8 +7,10 @@ it). So the screen's demands (exact at the screen's stations, which the check al
 bound of the check's) with an upper bound of the load factor give a lower bound of the
 utilization. The upper bounds are Rayleigh-Ritz bounds (sizer.stability.ritz) over trial shapes:
 the buckled shapes that the full checks made so far found, projected onto the shapes every section
-allows; each full check adds its shapes, so the bounds close in as the search goes on. Euler loads
-on buckling lengths the user gives are exact bounds from the start.
+allows; each full check adds its shapes, so the bounds close in as the search goes on. A trial
+shape bounds any load set, so the shapes found for one pattern arrangement serve every arrangement
+of its combination (the full check solves arrangements the screen does not hold). Euler loads on
+buckling lengths the user gives are exact bounds from the start.
 """
 
 from __future__ import annotations
@@ -23,10 +25,13 @@ from sizer.checks.stability import StabilityReport
 from sizer.model import Material, Member
 from sizer.sizing.candidates import CandidateTable
 from sizer.sizing.screen import Screen
-from sizer.stability import MemberStability, minor_axis_is_weaker
+from sizer.stability import MemberStability, StabilitySection, minor_axis_is_weaker
 from sizer.stability.boundary import admissible_basis
 from sizer.stability.problem import SameLoadSets, load_shape, term_coefficients
-from sizer.stability.ritz import Projection, assemble, largest_inverse, project, strict_rows
+from sizer.stability.ritz import Projection, assemble, largest_inverse, orthonormal, projected, projected_elastic, strict_rows
+
+Group = tuple[str, str]  # (kind, given combination): the load sets that share trial shapes
+
 
 class StabilityBounds:
     """Lower bounds of the stability checks of every candidate (see the module docstring)."""
@@ -41,34 +46,93 @@ class StabilityBounds:
         self.alias = same_load_sets(model, wanted)
         self.wanted = {key for key, (representative, _) in self.alias.items() if key == representative}
         self.basis: np.ndarray | None = None  # made with the first shapes
-        self.shapes: dict[tuple[str, int], list[np.ndarray]] = {key: [] for key in self.wanted}
+        self.origin = [base.member.origin(name) for name in base.combination_names]
+        self.shapes: dict[Group, list[np.ndarray]] = {(kind, self.origin[c]): [] for kind, c in self.wanted}
         self.projections: dict[tuple[str, int], Projection] = {}
-        self.stale: set[tuple[str, int]] = set()
-        self.epoch = 0  # counts the full checks whose shapes were taken
+        self.stale: set[Group] = set()
+        self.epoch = 0  # counts the full checks and seeds whose shapes were taken
+        patterning = base.member.patterning
+        self.seeds = bool(patterning and patterning.switches)  # seed before a full check (see seed)
 
     def add(self, report: StabilityReport) -> None:
-        """Take a full check's buckled shapes as trial shapes (projected onto every section's allowed shapes)."""
+        """Take a full check's buckled shapes as trial shapes (projected onto every section's allowed
+        shapes), each for every load set of its given combination: its pattern arrangements too."""
+        self.epoch += 1
+        for entry in report.combinations:
+            origin = report.model.member.origin(entry.combination)
+            for kind, found in (("axial", entry.axial), ("lateral", entry.lateral)):
+                if found is not None and found.mode is not None:
+                    self._take((kind, origin), found.mode)  # a combination that scales this one has the same shape: taken once
+
+    def seed(self, index: int, section: StabilitySection, mass: float) -> None:
+        """Take the buckled shapes of candidate row `index` (`section`, self-weight `mass` kg/m) on the
+        base mesh, not refined, under every load set bounded here, as trial shapes. The finer meshes
+        hold the base mesh's shapes, so its base-mesh load factors lie above its converged ones, and
+        its own bounds come within the refinement's change of its check's: one small eigen-solve per
+        load set can rule it out where its check would fail on stability (for a member with pattern
+        arrangements, whose full check searches them all)."""
+        self.epoch += 1
+        solver = self.model.for_section(section)
+        loads, per_mass = self.model.rows
+        for kind, c in sorted(self.wanted):
+            if kind == "lateral" and not self.lateral_applies[index]:
+                continue
+            found = solver.reduced.modes(solver.load_matrix_full(kind, loads[c] + mass * per_mass[c]), 1)[0]
+            mode = solver.on_base(found.mode)
+            if mode is not None and not found.free_movement:
+                self._take((kind, self.origin[c]), mode)
+
+    def _take(self, group: Group, mode: np.ndarray) -> None:
+        """A buckled shape on the base mesh as a trial shape of a group (where it has load sets bounded here)."""
+        if group not in self.shapes:
+            return
         if self.basis is None:
             self.basis = admissible_basis(self.model.mesh.size, strict_rows(self.model))
-        self.epoch += 1
-        rows = {name: c for c, name in enumerate(self.model.solution.combination_names)}
-        for entry in report.combinations:
-            c = rows.get(entry.combination, -1)  # a pattern arrangement the full check added has no row here
-            for kind, found in (("axial", entry.axial), ("lateral", entry.lateral)):
-                if (kind, c) in self.wanted and found is not None and found.mode is not None:
-                    self.shapes[(kind, c)].append(self.basis @ (self.basis.T @ found.mode))
-                    self.stale.add((kind, c))  # a combination that scales this one has the same shape: taken once
+        self.shapes[group].append(self.basis @ (self.basis.T @ mode))
+        self.stale.add(group)
 
     def lower_bounds(self, rows: np.ndarray) -> dict[str, np.ndarray]:
         """check -> (len(rows),) proven lower bound of its utilization for the candidates `rows`, with
         the trial shapes so far."""
-        for key in sorted(self.stale):
-            terms_loads, terms_mass = self.model.combination_terms(*key)  # made once, shared with the full checks
-            self.projections[key] = project(self.model, np.column_stack(self.shapes[key]), terms_loads, terms_mass)
+        for group in sorted(self.stale):
+            self.projections.update(self._projections(group))
         self.stale.clear()
         solved = {key: self._ritz(key, rows) for key in self.projections}
         factors = {key: solved[representative] / scale for key, (representative, scale) in self.alias.items() if representative in solved}
         return {"buckling": self._buckling(rows, factors), "lateral-torsional": self._lateral(rows, factors)}
+
+    def _projections(self, group: Group) -> dict[tuple[str, int], Projection]:
+        """The Projection of every load set of a group over its trial shapes: each load-case column's
+        geometric terms projected once (per sign of its factor), a load set's the weighted sum of its
+        columns' (the terms are linear in the weights; a load's default height follows the sign of its
+        factor, so each column is taken at the sign of its weight: MemberStability.column_terms)."""
+        kind, origin = group
+        trial = orthonormal(np.column_stack(self.shapes[group]))
+        elastic, springs = projected_elastic(self.model, trial), (trial.T * self.model.springs) @ trial
+        loads, per_mass = self.model.rows
+        columns: dict[tuple[int, bool], dict[str, np.ndarray]] = {}
+
+        def summed(weights: np.ndarray) -> dict[str, np.ndarray]:
+            total: dict[str, np.ndarray] = {}
+            for column, weight in enumerate(weights):
+                if weight == 0.0:
+                    continue
+                side = (column, bool(weight > 0))
+                if side not in columns:
+                    terms = self.model.column_terms(kind, *side)
+                    columns[side] = {name: projected(trial, terms, name) for name in terms}
+                for name, matrix in columns[side].items():
+                    total[name] = total[name] + abs(weight) * matrix if name in total else abs(weight) * matrix
+            return total
+
+        found = {}
+        for key in sorted(key for key in self.wanted if key[0] == kind and self.origin[key[1]] == origin):
+            terms_loads, terms_mass = summed(loads[key[1]]), summed(per_mass[key[1]])
+            zero = np.zeros((trial.shape[1],) * 2)
+            names = set(terms_loads) | set(terms_mass)
+            found[key] = Projection(elastic, springs, {name: terms_loads.get(name, zero) for name in names},
+                                    {name: terms_mass.get(name, zero) for name in names})
+        return found
 
     def _ritz(self, key: tuple[str, int], rows: np.ndarray) -> np.ndarray:
         """(len(rows),) upper bounds of the load factors of one combination and kind; infinite (no

@@ -100,8 +100,9 @@ def _add_line(out: "_Sums", quad: Quadrature, factor: float, load: LineLoad, axi
         _add(out, integral(quad, q, (PHI, "value"), (PHI, "value")), load.height, "top")
         return
     # the mesh has a node where q changes sign, so each part is a polynomial on its elements
-    _add(out, integral(quad, np.minimum(q, 0.0), (PHI, "value"), (PHI, "value")), None, "top")
-    _add(out, integral(quad, np.maximum(q, 0.0), (PHI, "value"), (PHI, "value")), None, "bottom")
+    for part, face in ((np.minimum(q, 0.0), "top"), (np.maximum(q, 0.0), "bottom")):
+        if np.any(part):
+            _add(out, integral(quad, part, (PHI, "value"), (PHI, "value")), None, face)
 
 
 def height_coefficients(section: StabilitySection) -> dict[str, Coefficient]:

@@ -46,7 +46,6 @@ class MemberStability:
         self.springs = spring_diagonal(member, self.mesh, self.orientation)
         self.supports = support_rows(member, self.mesh, self.orientation)
         self.cases = list(solution.cases)
-        self._terms: dict[tuple[str, bytes, bytes], tuple[dict[str, np.ndarray], dict[str, np.ndarray]]] = {}
         self._columns: dict[tuple[str, int, bool], dict[str, np.ndarray]] = {}
         self._live: dict[str, frozenset[int]] = {}
         self._meshes: dict[bytes, MemberStability] = {}
@@ -121,37 +120,15 @@ class MemberStability:
         actions = self.actions(weights)
         if kind == "axial":
             return axial_terms(self.quad, actions[..., N])
-        terms = moment_terms(self.quad, actions[..., MZ], np.zeros_like(actions[..., MZ]))
-        terms = {name: terms[name] for name in ("Mz", "wagner_Mz")}
+        terms = moment_terms(self.quad, actions[..., MZ], np.zeros_like(actions[..., MZ]))  # the major-axis moment alone
         terms.update(height_terms(self.quad, self.member, self.orientation, np.asarray(weights), self.cases))
         return terms
-
-    def combination_terms(self, kind: str, combination: int) -> tuple[dict[str, np.ndarray], dict[str, np.ndarray]]:
-        """The term matrices of a combination's loads alone and per kg/m of self-weight (made once):
-        the combination with mass m has G = G_loads + m G_per_mass."""
-        loads, per_mass = self.rows
-        key = (kind, loads[combination].tobytes(), per_mass[combination].tobytes())  # by content: shared by models of other solutions (for_solution)
-        if key not in self._terms:
-            self._terms[key] = (self.weighted_terms(kind, loads[combination]), self.weighted_terms(kind, per_mass[combination]))
-        return self._terms[key]
 
     @cached_property
     def rows(self) -> tuple[np.ndarray, np.ndarray]:
         """(C, n_cases + 1) weights of every combination's loads alone, and per kg/m of self-weight."""
         loads = self.solution.weights(None)
         return loads, self.solution.weights(1.0) - loads
-
-    def weighted_terms(self, kind: str, weights: np.ndarray) -> dict[str, np.ndarray]:
-        """load_set_terms of a load set from those of each load-case column, made once: the terms are
-        linear in the weights, except that a load's default height follows the sign of its factor
-        (so each column is made for +1 and for -1)."""
-        total: dict[str, np.ndarray] = {}
-        for column, weight in enumerate(np.asarray(weights, dtype=float)):
-            if weight == 0.0:
-                continue
-            for name, matrix in self.column_terms(kind, column, weight > 0).items():
-                total[name] = total[name] + abs(weight) * matrix if name in total else abs(weight) * matrix
-        return total
 
     def live_columns(self, kind: str) -> frozenset[int]:
         """The load-case columns that give some geometric term of this kind (a sideways wind gives

@@ -49,18 +49,14 @@ class Projection:
     per_mass: dict[str, np.ndarray]
 
 
-def project(model: MemberStability, shapes: np.ndarray, terms_loads: dict[str, np.ndarray], terms_mass: dict[str, np.ndarray]) -> Projection:
-    """The Projection of a member's matrices over the span of `shapes` (n, k'), orthonormalized."""
-    trial = _independent(shapes)
-    names = set(terms_loads) | set(terms_mass)
+def projected_elastic(model: MemberStability, trial: np.ndarray) -> dict[str, np.ndarray]:
+    """D^T M D of every elastic term matrix M over orthonormal trial shapes D (n, k)."""
+    return {name: trial.T @ matrix @ trial for name, matrix in model.elastic.items()}
 
-    def projected(terms: dict[str, np.ndarray], name: str) -> np.ndarray:
-        return trial.T @ terms[name] @ trial if name in terms else np.zeros((trial.shape[1],) * 2)
 
-    return Projection({name: trial.T @ matrix @ trial for name, matrix in model.elastic.items()},
-                      (trial.T * model.springs) @ trial,
-                      {name: projected(terms_loads, name) for name in names},
-                      {name: projected(terms_mass, name) for name in names})
+def projected(trial: np.ndarray, terms: dict[str, np.ndarray], name: str) -> np.ndarray:
+    """D^T M D of the term matrix `name` of `terms` over trial shapes D (n, k); zeros where it is absent."""
+    return trial.T @ terms[name] @ trial if name in terms else np.zeros((trial.shape[1],) * 2)
 
 
 def assemble(projection: Projection, sections: StabilitySection, masses: np.ndarray,
@@ -82,7 +78,7 @@ def assemble(projection: Projection, sections: StabilitySection, masses: np.ndar
     return stiffness, geometric
 
 
-def _independent(shapes: np.ndarray) -> np.ndarray:
+def orthonormal(shapes: np.ndarray) -> np.ndarray:
     """An orthonormal basis of the columns' span (nearly dependent columns dropped)."""
     q, r = np.linalg.qr(shapes)
     keep = np.abs(np.diag(r)) > 1e-8 * np.abs(np.diag(r)).max()

@@ -6,7 +6,7 @@ For one section and one load set: K the elastic matrix (EIz, EIy, EIyz, GJ, EIw 
 springs, on the freedoms the supports and restraints leave free) and G the load set's geometric
 matrix, the terms of the buckling solves (sizer.stability.terms): the axial force N(x) (P-delta in
 both bending planes, and the flexural-torsional terms), the major-axis moment Mz(x) with its Wagner
-term (the coupling of sideways bending and twist) and the loads' heights (see geometric_matrix).
+term (the coupling of sideways bending and twist) and the loads' heights (see SectionSolver.geometric).
 The first-order solve K u1 = f and the second-order solve (K + G) u2 = f - G u0 (u0: the initial
 bow, a multiple of the lowest buckling mode, or zero) give the increment of the actions, u2's minus
 u1's on the same mesh: added to the exact first-order actions of sizer.analysis, most of the mesh's
@@ -40,6 +40,7 @@ from sizer.analysis import MemberSolution
 from sizer.analysis.section_axes import to_member_axes, to_section_axes
 from sizer.model import LineLoad, Member, PointLoad
 from sizer.stability.elements import Quadrature, hermite
+from sizer.stability.matrices import as_matrix
 from sizer.stability.mesh import ELEMENTS_PER_LENGTH, Mesh
 from sizer.stability.problem import MemberStability, term_coefficients
 from sizer.stability.section import StabilitySection
@@ -174,24 +175,6 @@ def _add_line_load(out: np.ndarray, model: MemberStability, quad: Quadrature, lo
         np.add.at(out, mesh.element_freedoms(field), blocks)
 
 
-def geometric_matrix(model: MemberStability, section: StabilitySection, combination: int, mass: float) -> np.ndarray:
-    """G (size, size) of a combination of the model's solution with self-weight of `mass` kg/m: the
-    second-order work of its axial force and of its major-axis moment Mz with its Wagner term and
-    its loads' heights (the terms of the buckling solves); K + lam G is singular at buckling. The
-    minor-axis moment's term My v'' phi is left out: with v'' the in-plane curvature under the
-    major-axis loads it is the prebuckling curvature's effect, which lowers the sideways response and
-    which classical theory neglects. The loads' and the self-weight's matrices are made once per
-    combination (MemberStability.combination_terms) and shared by every section."""
-    out = np.zeros((model.mesh.size, model.mesh.size))
-    for kind in ("axial", "lateral"):
-        coefficients = axial_coefficients(section) if kind == "axial" else term_coefficients(kind, section)
-        loads, per_mass = model.combination_terms(kind, combination)
-        out = out + dense(weighted_sum(loads, coefficients))
-        if mass:
-            out = out + mass * dense(weighted_sum(per_mass, coefficients))
-    return out
-
-
 def dense(matrix: Any) -> np.ndarray:  # an ndarray or a scipy sparse matrix (scipy is untyped)
     """A stability matrix as a dense array (long meshes assemble sparse ones: sizer.stability.matrices);
     the second-order solves here are dense, on meshes of a few hundred freedoms."""
@@ -208,6 +191,34 @@ class SectionSolver:
         self.reduced = Reduced(self.K, dense(model.basis(section)))
         free = self.reduced.free
         self.keep = None if free is None else _complement(free)
+        self._columns: dict[tuple[int, bool], Any] = {}
+
+    def geometric(self, weights: np.ndarray) -> np.ndarray:
+        """G (size, size) of a load set (weights as a row of MemberSolution.weights, self-weight
+        included): the second-order work of its axial force and of its major-axis moment Mz with its
+        Wagner term and its loads' heights (the terms of the buckling solves); K + lam G is singular
+        at buckling. The minor-axis moment's term My v'' phi is left out: with v'' the in-plane
+        curvature under the major-axis loads it is the prebuckling curvature's effect, which lowers
+        the sideways response and which classical theory neglects. The sum of its load-case columns'
+        matrices (the terms are linear in the weights; a load's default height follows the sign of
+        its factor), each made once for this section; the columns' term matrices are the model's,
+        shared by every section."""
+        out = np.zeros((self.model.mesh.size,) * 2)
+        for column, weight in enumerate(np.asarray(weights, dtype=float)):
+            if weight != 0.0:
+                out += abs(weight) * dense(self._column(column, bool(weight > 0)))
+        return out
+
+    def _column(self, column: int, positive: bool) -> Any:
+        """G of one load-case column at weight +1 or -1 for this section (made once)."""
+        key = (column, positive)
+        if key not in self._columns:
+            total = as_matrix(0.0, self.model.mesh.size)
+            for kind in ("axial", "lateral"):
+                coefficients = axial_coefficients(self.section) if kind == "axial" else term_coefficients(kind, self.section)
+                total = total + weighted_sum(self.model.column_terms(kind, column, positive), coefficients)
+            self._columns[key] = total
+        return self._columns[key]
 
     def _project(self, matrix: np.ndarray) -> np.ndarray:
         m = self.reduced.project(matrix)
@@ -387,8 +398,9 @@ class SecondOrder:
 
     def _respond(self, per_length: int, combination: int) -> LoadSetResponse:
         model, solver, loads = self._level(per_length)
-        f = self.solution.weights(self.mass)[combination] @ loads
-        G = geometric_matrix(model, self.section, combination, self.mass)
+        weights = self.solution.weights(self.mass)[combination]
+        f = weights @ loads
+        G = solver.geometric(weights)
         u0, factor = (None, None)
         if self.bow > 0.0 and np.any(G):
             u0, factor = bow_shape(solver.reduced, solver.K, model.mesh, self.section, G, f, self.bow)

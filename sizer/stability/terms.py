@@ -49,7 +49,9 @@ def elastic_terms(quad: Quadrature) -> dict[str, np.ndarray]:
 
 def axial_terms(quad: Quadrature, N: np.ndarray) -> dict[str, np.ndarray]:
     """Matrices of the axial-force terms for N (E, G) at the Gauss points, weighted by 1, z0, -y0 and
-    r0^2 respectively (see axial_coefficients)."""
+    r0^2 respectively (see axial_coefficients); none where N is zero everywhere."""
+    if not np.any(N):
+        return {}
     return {
         "flexure": integral(quad, N, (V, "slope"), (V, "slope")) + integral(quad, N, (W, "slope"), (W, "slope")),
         "z0": integral(quad, N, (V, "slope"), (PHI, "slope")),
@@ -60,13 +62,15 @@ def axial_terms(quad: Quadrature, N: np.ndarray) -> dict[str, np.ndarray]:
 
 def moment_terms(quad: Quadrature, Mz: np.ndarray, My: np.ndarray) -> dict[str, np.ndarray]:
     """Matrices of the bending-moment terms for Mz, My (E, G) at the Gauss points, weighted by 1, 1,
-    dW/dMz and dW/dMy (see moment_coefficients)."""
-    return {
-        "Mz": integral(quad, Mz, (W, "curvature"), (PHI, "value")),
-        "My": integral(quad, My, (V, "curvature"), (PHI, "value")),
-        "wagner_Mz": integral(quad, Mz, (PHI, "slope"), (PHI, "slope")),
-        "wagner_My": integral(quad, My, (PHI, "slope"), (PHI, "slope")),
-    }
+    dW/dMz and dW/dMy (see moment_coefficients); none for a moment that is zero everywhere."""
+    terms: dict[str, np.ndarray] = {}
+    if np.any(Mz):
+        terms["Mz"] = integral(quad, Mz, (W, "curvature"), (PHI, "value"))
+        terms["wagner_Mz"] = integral(quad, Mz, (PHI, "slope"), (PHI, "slope"))
+    if np.any(My):
+        terms["My"] = integral(quad, My, (V, "curvature"), (PHI, "value"))
+        terms["wagner_My"] = integral(quad, My, (PHI, "slope"), (PHI, "slope"))
+    return terms
 
 
 def elastic_coefficients(section: StabilitySection) -> dict[str, Coefficient]:
