@@ -11,7 +11,9 @@ from typing import Any
 
 import numpy as np
 
-SPARSE_FROM = 600  # freedoms: above this the matrices are sparse and the eigen-solve iterative (scipy's import, some 0.2 s, then); a dense solve of 600 is some 0.06 s
+SPARSE_FROM = 300  # freedoms: above this the matrices are sparse and the eigen-solve iterative (scipy's import, some 0.2 s,
+# then). 600 saved that import on the demo's refined meshes but a ten-span patterned purlin kept some 900 dense
+# per-switch matrices of 300-600 freedoms: 81 s and 2.7 GB against 2.8 s and 157 MB at 300
 
 
 def is_sparse(size: int) -> bool:
