@@ -149,6 +149,7 @@ def test_command_writes_json_csv_and_plot(tmp_path):
     ('loads = ["-1 kN"]\n[span_table.checks]\ndeflection_limt = 360\n', "span_table.checks.deflection_limt"),
     ('mode = "load"\nlengths = ["2 m"]\nresolution = "5 mm"\n', "span_table.resolution"),
     ('loads = ["-1 kPa"]\n', "span_table.loads[1]"),
+    ('loads = ["-1 kN/m"]\n[span_table.checks]\ndeflection_limit = 1979-05-27\n', "span_table.checks.deflection_limit"),  # a date: once a traceback
 ])
 def test_bad_input_is_one_line_naming_file_and_key(tmp_path, body, key):
     path = table_file(tmp_path, body)

@@ -17,6 +17,7 @@ from sizer.inputfile.member import (
     RESTRAINT_KEYS,
     SUPPORT_KEYS,
     TOP_KEYS,
+    member_from_tables,
     parse_member_text,
     read_member_file,
 )
@@ -25,5 +26,5 @@ from sizer.inputfile.reader import LARGEST_NUMBER, KeyLines, Reader, parse_toml,
 __all__ = [
     "ALLOWABLE_KEYS", "AREA_COMPONENTS", "CHECK_KEYS", "DEFLECTION_KEYS", "GRAVITY_DIRECTIONS", "LARGEST_NUMBER", "LINE_COMPONENTS",
     "LOAD_KEYS", "MATERIAL_KEYS", "MEMBER_KEYS", "RESTRAINT_KEYS", "SINGLE_DEFLECTION_KEYS", "SUPPORT_KEYS", "TOP_KEYS", "KeyLines",
-    "Reader", "parse_material", "parse_member_text", "parse_toml", "read_height", "read_member_file",
+    "Reader", "member_from_tables", "parse_material", "parse_member_text", "parse_toml", "read_height", "read_member_file",
 ]

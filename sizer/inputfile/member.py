@@ -12,7 +12,7 @@ from sizer.files import read_text
 from sizer.inputfile.checks_table import read_checks
 from sizer.inputfile.loads import read_loads
 from sizer.inputfile.materials import parse_material
-from sizer.inputfile.reader import Reader, array_of_tables, parse_toml, read_bearing, read_height
+from sizer.inputfile.reader import Reader, array_of_tables, parse_toml, read_bearing, read_height, refuse_control_characters
 from sizer.model import DEFAULT_COMBINATION, FREEDOMS, RESTRAINT_HOLDS, SUPPORT_TYPES, WARPING_CHOICES, Hinge, Load, Member, Restraint, Support
 
 GRAVITY_DIRECTIONS = {"-x": (0, -1), "+x": (0, 1), "-y": (1, -1), "+y": (1, 1), "-z": (2, -1), "+z": (2, 1)}
@@ -42,8 +42,18 @@ def read_member_file(path: str | Path) -> Member:
 def parse_member_text(text: str, path: Path) -> Member:
     """Parse member-file text (docs/design.md section 3) read from `path`."""
     text = text.removeprefix("\ufeff")
-    data = parse_toml(text, path)
-    reader = Reader(path, text)
+    return _read_member(parse_toml(text, path), Reader(path, text))
+
+
+def member_from_tables(data: dict, path: Path) -> Member:
+    """A Member from member-file tables made in code (the values as tomllib reads them from a file),
+    through every check a file's values meet; errors name `path` and the key, without a line."""
+    refuse_control_characters(data, path, "")
+    return _read_member(data, Reader(path, ""))
+
+
+def _read_member(data: dict, reader: Reader) -> Member:
+    """The Member of a member file's parsed tables; `reader` names the file and finds the lines."""
     reader.known_keys(data, TOP_KEYS, "")
     if "member" not in data:
         raise reader.error("member", "the [member] table is missing", 'add [member] with length = "6 m"')
@@ -77,7 +87,7 @@ def parse_member_text(text: str, path: Path) -> Member:
         checks=read_checks(reader, data.get("checks", {}), length, combinations),
         materials=materials,
         title=_optional_string(reader, data, "title", "") or "",
-        source=str(path),
+        source=reader.file,
         combinations_given=given,
     )
 

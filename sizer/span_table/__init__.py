@@ -2,9 +2,9 @@
 (mode "span"), or the largest load it carries at each span (mode "load").
 
 Each cell (one section, one load or one span) is its own job (sizer.parallel). A trial builds the
-member as member-file text and reads it with `sizer.api.member_from_text`, so every value goes
-through the normal reader and its errors, then runs the full check `sizer.api.check` (every
-check `sizer check` makes, stability included). The boundary is found on a grid: spans are
+member as the tables of a member file and reads them with `sizer.inputfile.member_from_tables`, so
+every value goes through the normal reader and its errors, then runs the full check
+`sizer.api.check` (every check `sizer check` makes, stability included). The boundary is found on a grid: spans are
 multiples of the resolution; loads are the given load times 1.005^k (0.5 % steps). The search
 brackets the boundary, then narrows the bracket with a guess from the trials so far (utilization
 against span on log scales, against load on linear scales), checks the grid point next to the guess,

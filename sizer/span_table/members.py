@@ -1,24 +1,22 @@
-"""The member of one span-table trial, written as member-file TOML text (supports of the layout,
+"""The member of one span-table trial, made as the tables of a member file (supports of the layout,
 restraints at the spacing, the loads, for continuous layouts the imposed load patterned over the
 spans: analysis.patterns checks every arrangement of loaded spans, the case on none included) and
-read with the normal reader, so every value meets the normal checks.
+read with the normal reader (`inputfile.member_from_tables`), so every value meets the checks of a
+member file; no text is written in between.
 """
 
 from __future__ import annotations
 
-import json
-import math
-from typing import TYPE_CHECKING, Any
+from pathlib import Path
+from typing import Any
 
 from sizer.errors import InputError
+from sizer.model import Member
 from sizer.span_table.spec import DEAD, IMPOSED, AppliedLoad, SpanTableSpec
-
-if TYPE_CHECKING:
-    from sizer.model import Member
 
 
 def member_document(spec: SpanTableSpec, section: str, span: float, imposed: AppliedLoad) -> dict:
-    """The member file (as a TOML-ready dict) for `section` at span `span` (m) under `imposed`."""
+    """The member file's tables (as tomllib would read them) for `section` at span `span` (m) under `imposed`."""
     count = spec.spans
     length = span * count
     document: dict[str, Any] = {
@@ -100,48 +98,13 @@ def user_combinations(spec: SpanTableSpec) -> dict[str, dict]:
     return {" + ".join(cases): {case: 1.0 for case in cases}}
 
 
-def toml_text(document: dict) -> str:
-    """A small TOML writer for member documents: top-level tables, arrays of tables, inline values."""
-    lines: list[str] = []
-    for key, value in document.items():
-        if not isinstance(value, (dict, list)) or (isinstance(value, list) and not all(isinstance(item, dict) for item in value)):
-            lines.append(f"{_toml_key(key)} = {_toml_value(value)}")
-    for key, value in document.items():
-        if isinstance(value, dict):
-            lines.append(f"\n[{_toml_key(key)}]")
-            lines.extend(f"{_toml_key(name)} = {_toml_value(item)}" for name, item in value.items())
-        elif isinstance(value, list) and value and all(isinstance(item, dict) for item in value):
-            for item in value:
-                lines.append(f"\n[[{_toml_key(key)}]]")
-                lines.extend(f"{_toml_key(name)} = {_toml_value(entry)}" for name, entry in item.items())
-    return "\n".join(lines) + "\n"
-
-
-def _toml_key(key: str) -> str:
-    return key if key.replace("_", "").replace("-", "").isalnum() and key.isascii() else json.dumps(key)
-
-
-def _toml_value(value: Any) -> str:
-    if isinstance(value, bool):
-        return "true" if value else "false"
-    if isinstance(value, (int, float)):
-        return repr(value) if math.isfinite(value) else ("nan" if math.isnan(value) else ("inf" if value > 0 else "-inf"))
-    if isinstance(value, str):
-        return json.dumps(value, ensure_ascii=False)
-    if isinstance(value, list):
-        return "[" + ", ".join(_toml_value(item) for item in value) + "]"
-    if isinstance(value, dict):
-        return "{ " + ", ".join(f"{_toml_key(name)} = {_toml_value(item)}" for name, item in value.items()) + " }"
-    raise TypeError(f"no TOML form for {type(value).__name__}")
-
-
 def trial_member(spec: SpanTableSpec, section: str, span: float, imposed: AppliedLoad) -> Member:
-    """The trial's Member, read from its member-file text by the normal reader; an error in a value
+    """The trial's Member, read from its member-file tables by the normal reader; an error in a value
     that came from the span-table file names that file, its key and line."""
-    from sizer import api
+    from sizer.inputfile import member_from_tables
 
     try:
-        return api.member_from_text(toml_text(member_document(spec, section, span, imposed)), spec.path)
+        return member_from_tables(member_document(spec, section, span, imposed), Path(spec.path))
     except InputError as error:
         raise span_table_error(spec, error) from None
 
