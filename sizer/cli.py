@@ -9,7 +9,7 @@ from typing import Any, List, Optional
 
 import typer
 
-from sizer.cli_common import run_guarded, unit_system
+from sizer.cli_common import CATALOGUE_OPTION, FAMILY_OPTION, JSON_OPTION, guarded, unit_system, units_option
 
 app = typer.Typer(
     name="sizer",
@@ -21,8 +21,7 @@ app = typer.Typer(
 
 
 FILE_ARGUMENT = typer.Argument(..., help="Member file (TOML).", show_default=False)
-CATALOGUE_OPTION = typer.Option(None, "--catalogue", help="Catalogue file or folder; may repeat.")
-UNITS_OPTION = typer.Option("si", "--units", help="Display units: si (kN, m, MPa) or us (kip, ft, ksi).")
+UNITS_OPTION = units_option("kN, m, MPa", "kip, ft, ksi")
 
 
 def _show_version(value: bool) -> None:
@@ -49,57 +48,52 @@ def parse_cuts(values: list[str] | None) -> list[float]:
 
 
 @app.command()
+@guarded
 def forces(
     file: Path = FILE_ARGUMENT,
     at: Optional[List[str]] = typer.Option(None, "--at", help='A cut position with its unit ("2.5m", "1500 mm"); may repeat. '
                                            "Gives the actions there, and with a section the displacements and twist."),
     combination: Optional[str] = typer.Option(None, "--combination", help="Only this combination (with all its pattern arrangements)."),
     catalogue: Optional[List[Path]] = CATALOGUE_OPTION,
-    json_output: bool = typer.Option(False, "--json", help="JSON in SI base units on stdout."),
+    json_output: bool = JSON_OPTION,
     plot: Optional[Path] = typer.Option(None, "--plot", help="Draw the diagrams to a PNG or SVG file."),
     envelope: bool = typer.Option(False, "--envelope", help="The largest and smallest of each action, reaction and deflection "
                                   "over every combination and pattern arrangement, with the combination that gives each."),
     second_order: bool = typer.Option(False, "--second-order", help="Actions and displacements of a second-order elastic solve "
                                       "(as `check` uses; needs a section); default first order (linear, superposable)."),
     units_system: str = UNITS_OPTION,
-) -> None:
+) -> int:
     """Reactions, internal actions and displacements at cuts, extremes and deflections for every
     combination (pattern arrangements included); --envelope for their largest and smallest."""
+    from sizer.commands import run_forces
 
-    def work() -> int:
-        from sizer.commands import run_forces
-
-        return run_forces(file, parse_cuts(at), combination, catalogue or [], json_output, plot, unit_system(units_system), envelope,
-                          second_order)
-
-    run_guarded(work)
+    return run_forces(file, parse_cuts(at), combination, catalogue or [], json_output, plot, unit_system(units_system), envelope,
+                      second_order)
 
 
 @app.command()
+@guarded
 def check(
     file: Path = FILE_ARGUMENT,
     section: Optional[str] = typer.Option(None, "--section", help="Check this catalogue section instead of the member file's."),
     catalogue: Optional[List[Path]] = CATALOGUE_OPTION,
-    json_output: bool = typer.Option(False, "--json", help="JSON in SI base units on stdout."),
+    json_output: bool = JSON_OPTION,
     plot: Optional[Path] = typer.Option(None, "--plot", help="Draw the diagrams to a PNG or SVG file."),
     units_system: str = UNITS_OPTION,
-) -> None:
+) -> int:
     """Every check for one section: demand, allowable, utilization, the governing case and the verdict.
     Exit 0 passes, 1 fails, 2 bad input."""
+    from sizer.commands import run_check
 
-    def work() -> int:
-        from sizer.commands import run_check
-
-        return run_check(file, section, catalogue or [], json_output, plot, unit_system(units_system))
-
-    run_guarded(work)
+    return run_check(file, section, catalogue or [], json_output, plot, unit_system(units_system))
 
 
 @app.command()
+@guarded
 def size(
     file: Path = FILE_ARGUMENT,
     catalogue: Optional[List[Path]] = CATALOGUE_OPTION,
-    family: Optional[List[str]] = typer.Option(None, "--family", help="Only sections of this family; may repeat."),
+    family: Optional[List[str]] = FAMILY_OPTION,
     max_depth: Optional[str] = typer.Option(None, "--max-depth", help='Largest depth as installed, e.g. "300 mm".'),
     max_width: Optional[str] = typer.Option(None, "--max-width", help='Largest width as installed, e.g. "150 mm".'),
     top: int = typer.Option(3, "--top", help="How many runners-up to show on each side of the choice."),
@@ -108,56 +102,46 @@ def size(
     by: str = typer.Option("mass", "--by", help="Rank by mass (per length), cost (of the bars the member takes) or depth."),
     include_unstocked: bool = typer.Option(False, "--include-unstocked", help="Rank sections not stocked, or longer than every "
                                            "stock length, with the others (default: after them)."),
-    json_output: bool = typer.Option(False, "--json", help="JSON in SI base units on stdout."),
+    json_output: bool = JSON_OPTION,
     report_out: Optional[Path] = typer.Option(None, "--report", help="Also write the calculation record of the chosen section (.html)."),
     units_system: str = UNITS_OPTION,
-) -> None:
+) -> int:
     """The lightest (or cheapest, or shallowest) catalogue section that passes every check, and why
     each one ranked before it fails. Exit 0 found, 1 nothing passes, 2 bad input."""
+    from sizer.commands import run_size
 
-    def work() -> int:
-        from sizer.commands import run_size
-
-        return run_size(file, catalogue or [], family or [], max_depth, max_width, top, json_output, unit_system(units_system),
-                        report_out, by, include_unstocked, check_runners_up)
-
-    run_guarded(work)
+    return run_size(file, catalogue or [], family or [], max_depth, max_width, top, json_output, unit_system(units_system),
+                    report_out, by, include_unstocked, check_runners_up)
 
 
 @app.command()
+@guarded
 def report(
     file: Path = FILE_ARGUMENT,
     out: Path = typer.Option(..., "-o", "--out", help="The calculation record to write (.html)."),
     section: Optional[str] = typer.Option(None, "--section", help="Report this catalogue section instead of the member file's."),
     catalogue: Optional[List[Path]] = CATALOGUE_OPTION,
     units_system: str = UNITS_OPTION,
-) -> None:
+) -> int:
     """A self-contained HTML calculation record for a reviewer. Exit 0 passes, 1 fails, 2 bad input."""
+    from sizer.commands import run_report
 
-    def work() -> int:
-        from sizer.commands import run_report
-
-        return run_report(file, out, section, catalogue or [], unit_system(units_system))
-
-    run_guarded(work)
+    return run_report(file, out, section, catalogue or [], unit_system(units_system))
 
 
 @app.command()
+@guarded
 def init(
     out: Path = typer.Option(Path("member.toml"), "-o", "--out", help="The member file to write (never overwritten)."),
     layout: str = typer.Option("simple", "--layout", help="The layout: simple, cantilever, continuous or post."),
     units_system: str = typer.Option("si", "--units", help="Units of the values written: si (m, kN, MPa) or us (ft, kip, ksi)."),
-) -> None:
+) -> int:
     """Write a commented starter member file for a common layout, to edit and run."""
+    from sizer.starter import write_starter
 
-    def work() -> int:
-        from sizer.starter import write_starter
-
-        written = write_starter(out, layout, unit_system(units_system))
-        typer.echo(f"Wrote {written} ({layout} layout). Edit it, then run: sizer check {written}")
-        return 0
-
-    run_guarded(work)
+    written = write_starter(out, layout, unit_system(units_system))
+    typer.echo(f"Wrote {written} ({layout} layout). Edit it, then run: sizer check {written}")
+    return 0
 
 
 def _mount_optional_commands() -> None:

@@ -1,8 +1,15 @@
-"""What every command shares: one line and exit code 2 for bad input, the unit-system option."""
+"""What every command shares: the options several commands take (defined here once), the unit-system
+check, and the guard that gives one line and exit code 2 for bad input.
+
+The convention: a command is one plain typed function, its options as parameters, that reads them,
+calls the API (or the command bodies of sizer.commands) and returns the exit code; `guarded` runs it
+and turns its errors into one line.
+"""
 
 from __future__ import annotations
 
-from typing import Callable
+import functools
+from typing import Any, Callable, ParamSpec
 
 import typer
 
@@ -10,12 +17,39 @@ from sizer.errors import InputError
 
 UNIT_SYSTEMS = ("si", "us")
 
+Options = ParamSpec("Options")
+
+
+def catalogue_option(more: str = "") -> Any:
+    """--catalogue (may repeat); `more` ends the help (a default, say)."""
+    return typer.Option(None, "--catalogue", help="Catalogue file or folder; may repeat." + more)
+
+
+def units_option(si: str, us: str, more: str = "") -> Any:
+    """--units, the display units: `si` and `us` name the units shown; `more` ends the help."""
+    return typer.Option("si", "--units", help=f"Display units: si ({si}) or us ({us}){more}.")
+
+
+CATALOGUE_OPTION = catalogue_option()
+JSON_OPTION = typer.Option(False, "--json", help="JSON in SI base units on stdout.")
+FAMILY_OPTION = typer.Option(None, "--family", help="Only sections of this family; may repeat.")
+
 
 def unit_system(value: str) -> str:
     """The --units value ("si" or "us"); InputError (one line) for anything else."""
     if value not in UNIT_SYSTEMS:
         raise InputError("", "--units", f"unknown unit system {value[:40]!r}", "use --units si or --units us")
     return value
+
+
+def guarded(command: Callable[Options, int]) -> Callable[Options, None]:
+    """The command as typer runs it: `command` (options in, exit code out) under run_guarded."""
+
+    @functools.wraps(command)
+    def run(*args: Options.args, **kwargs: Options.kwargs) -> None:
+        run_guarded(functools.partial(command, *args, **kwargs))
+
+    return run
 
 
 def run_guarded(work: Callable[[], int]) -> None:

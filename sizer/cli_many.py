@@ -6,20 +6,18 @@ from __future__ import annotations
 
 import sys
 from pathlib import Path
-from typing import List, Optional
+from typing import Any, Callable, List, Optional
 
 import typer
 
-from sizer.cli_common import run_guarded, unit_system
+from sizer.cli_common import CATALOGUE_OPTION, FAMILY_OPTION, JSON_OPTION, guarded, unit_system, units_option
 from sizer.errors import InputError
 
-CATALOGUE_OPTION = typer.Option(None, "--catalogue", help="Catalogue file or folder; may repeat.")
 JOBS_OPTION = typer.Option(None, "--jobs", help="Local processes to use (default and at most: every core).", show_default=False)
 CLUSTER_OPTION = typer.Option(None, "--cluster", help="Run on the Dask scheduler at this address, e.g. tcp://10.0.0.5:8786 "
                               "(pip install 'sizer\\[cluster]'; the workers need sizer installed).")
-JSON_OPTION = typer.Option(False, "--json", help="JSON in SI base units on stdout.")
 CSV_OPTION = typer.Option(None, "--csv", help="Also write the rows as CSV (SI base units) to this file.")
-UNITS_OPTION = typer.Option("si", "--units", help="Display units: si (m, kN, kg) or us (ft, kip, lb); JSON and CSV stay in SI.")
+UNITS_OPTION = units_option("m, kN, kg", "ft, kip, lb", "; JSON and CSV stay in SI")
 
 
 def register(app: typer.Typer) -> None:
@@ -56,6 +54,7 @@ def _records_folder(out: Path) -> Path:
     return out.with_name(out.stem + "_records")
 
 
+@guarded
 def schedule(
     file: Path = typer.Argument(..., help="Schedule file (TOML, or CSV with a header row).", show_default=False),
     catalogue: Optional[List[Path]] = CATALOGUE_OPTION,
@@ -66,101 +65,54 @@ def schedule(
     csv_out: Optional[Path] = CSV_OPTION,
     out: Optional[Path] = typer.Option(None, "-o", "--out", help="Write an HTML record of the schedule, linking each member's calculation record."),
     units_system: str = UNITS_OPTION,
-) -> None:
+) -> int:
     """Size or check every member of a schedule: one table, totals by section, the cautions.
     Exit 0 all pass, 1 a member fails, 2 bad input."""
+    from sizer.cache_store import require_writable_cache
+    from sizer.files import check_record_folder
+    from sizer.render.schedule import schedule_csv, schedule_renderables
+    from sizer.schedule import read_schedule, run_schedule, schedule_json
 
-    def work() -> int:
-        return run_schedule_command(file, catalogue or [], jobs_option(jobs), cluster, keep_going, json_output, csv_out, out,
-                                    unit_system(units_system))
+    processes, system, catalogues = jobs_option(jobs), unit_system(units_system), catalogue or []
+    inputs = [file, *catalogues]
+    written = [(csv_out, (".csv",), "--csv"), (out, (".html", ".htm"), "-o")]
+    _check_outputs(written, inputs)
+    if out is not None:
+        check_record_folder(_records_folder(out), "-o")
+    require_writable_cache()
+    plan = read_schedule(file)
+    _check_outputs(written, inputs + [plan.path.parent / row.file for row in plan.rows])
+    result = run_schedule(plan, catalogues, processes, cluster, keep_going, record=out is not None)
+    document = schedule_json(result)
+    outputs: list[tuple[Path, str | bytes]] = [(csv_out, schedule_csv(document))] if csv_out is not None else []
+    if out is not None:
+        outputs += _schedule_record(out, document, result.records, system)
+    _write_and_show(outputs, document, json_output, lambda width: schedule_renderables(document, system))
+    if result.errors:
+        return 2
+    return 0 if document["totals"]["passes"] else 1
 
-    run_guarded(work)
 
-
+@guarded
 def span_table(
     file: Path = typer.Argument(..., help="Span-table file (TOML).", show_default=False),
     catalogue: Optional[List[Path]] = CATALOGUE_OPTION,
-    family: Optional[List[str]] = typer.Option(None, "--family", help="Only sections of this family; may repeat."),
+    family: Optional[List[str]] = FAMILY_OPTION,
     jobs: Optional[str] = JOBS_OPTION,
     cluster: Optional[str] = CLUSTER_OPTION,
     json_output: bool = JSON_OPTION,
     csv_out: Optional[Path] = CSV_OPTION,
     plot: Optional[Path] = typer.Option(None, "--plot", help="Draw load against span, one curve per section, to a PNG or SVG file."),
     units_system: str = UNITS_OPTION,
-) -> None:
+) -> int:
     """For each catalogue section, the longest span for each load, or the largest load at each span,
     found on the full check. Exit 0 done, 2 bad input."""
-
-    def work() -> int:
-        return run_span_table_command(file, catalogue or [], family or [], jobs_option(jobs), cluster, json_output, csv_out, plot,
-                                      unit_system(units_system))
-
-    run_guarded(work)
-
-
-# ----------------------------------------------------------------------------------------------
-# bodies
-
-def run_schedule_command(file: Path, catalogue: list[Path], jobs: int | None, cluster: str | None, keep_going: bool,
-                         json_output: bool, csv_out: Path | None, out: Path | None, system: str) -> int:
-    """Read, run, then write every output; exit 2 with bad rows (--keep-going), else 1 when a member fails."""
-    from sizer.render.common import console, dumps
-    from sizer.render.schedule import schedule_csv, schedule_renderables
     from sizer.cache_store import require_writable_cache
-    from sizer.files import check_record_folder, write_all
-    from sizer.schedule import read_schedule, run_schedule, schedule_json
-
-    inputs = [file, *catalogue]
-    _check_outputs([(csv_out, (".csv",), "--csv"), (out, (".html", ".htm"), "-o")], inputs)
-    if out is not None:
-        check_record_folder(_records_folder(out), "-o")
-    require_writable_cache()
-    plan = read_schedule(file)
-    members = [plan.path.parent / row.file for row in plan.rows]
-    _check_outputs([(csv_out, (".csv",), "--csv"), (out, (".html", ".htm"), "-o")], inputs + members)
-    result = run_schedule(plan, catalogue, jobs, cluster, keep_going, record=out is not None)
-    document = schedule_json(result)
-    outputs = [(csv_out, schedule_csv(document))] if csv_out is not None else []
-    if out is not None:
-        outputs += _schedule_record(out, document, result.records, system)
-    write_all(outputs)
-    if json_output:
-        sys.stdout.write(dumps(document) + "\n")
-    else:
-        terminal = console()
-        for part in schedule_renderables(document, system):
-            terminal.print(part)
-    if result.errors:
-        return 2
-    return 0 if document["totals"]["passes"] else 1
-
-
-def _check_outputs(outputs: list[tuple[Path | None, tuple[str, ...], str]], inputs: list[Path]) -> None:
-    """_check_output on each (path, suffixes, option)."""
-    for path, suffixes, option in outputs:
-        _check_output(path, suffixes, option, inputs)
-
-
-def _schedule_record(out: Path, document: dict, records: dict[str, str], system: str) -> list[tuple[Path, str]]:
-    """(path, text) of each member's calculation record in OUT_records/, then of OUT.html itself."""
-    from sizer.render.schedule import record_names, schedule_html
-
-    folder = _records_folder(out)
-    names = record_names([row["mark"] for row in document["members"] if row["mark"] in records])
-    written = [(folder / name, records[mark]) for mark, name in names.items()]
-    return written + [(out, schedule_html(document, {mark: f"{folder.name}/{name}" for mark, name in names.items()}, system))]
-
-
-def run_span_table_command(file: Path, catalogue: list[Path], families: list[str], jobs: int | None, cluster: str | None,
-                           json_output: bool, csv_out: Path | None, plot: Path | None, system: str) -> int:
-    """Read, run every cell, then write every output; exit 0 (a span table has nothing to fail)."""
-    from sizer.render.common import console, dumps
     from sizer.render.schedule import span_plot_bytes, span_table_csv, span_table_document, span_table_renderables
-    from sizer.cache_store import require_writable_cache
-    from sizer.files import write_all
     from sizer.span_table import read_span_table, run_span_table
 
-    inputs = [file, *catalogue]
+    processes, system, catalogues = jobs_option(jobs), unit_system(units_system), catalogue or []
+    inputs = [file, *catalogues]
     _check_output(csv_out, (".csv",), "--csv", inputs)
     if plot is not None:
         from sizer.files import check_output
@@ -170,16 +122,41 @@ def run_span_table_command(file: Path, catalogue: list[Path], families: list[str
         check_output(plot, "--plot", inputs)
     require_writable_cache()
     spec = read_span_table(file)
-    result = run_span_table(spec, catalogue, families, jobs, cluster)
+    result = run_span_table(spec, catalogues, family or [], processes, cluster)
     document = span_table_document(spec.title, spec.mode, result.sections, result.notes, spec.resolution)
-    outputs: list[tuple[Path, bytes | str]] = [(csv_out, span_table_csv(document))] if csv_out is not None else []
+    outputs: list[tuple[Path, str | bytes]] = [(csv_out, span_table_csv(document))] if csv_out is not None else []
     if plot is not None:
         outputs.append((plot, span_plot_bytes(document, check_plot_path(plot), system)))
+    _write_and_show(outputs, document, json_output, lambda width: span_table_renderables(document, width, system))
+    return 0
+
+
+def _check_outputs(outputs: list[tuple[Path | None, tuple[str, ...], str]], inputs: list[Path]) -> None:
+    """_check_output on each (path, suffixes, option)."""
+    for path, suffixes, option in outputs:
+        _check_output(path, suffixes, option, inputs)
+
+
+def _schedule_record(out: Path, document: dict, records: dict[str, str], system: str) -> list[tuple[Path, str | bytes]]:
+    """(path, text) of each member's calculation record in OUT_records/, then of OUT.html itself."""
+    from sizer.render.schedule import record_names, schedule_html
+
+    folder = _records_folder(out)
+    names = record_names([row["mark"] for row in document["members"] if row["mark"] in records])
+    written: list[tuple[Path, str | bytes]] = [(folder / name, records[mark]) for mark, name in names.items()]
+    return written + [(out, schedule_html(document, {mark: f"{folder.name}/{name}" for mark, name in names.items()}, system))]
+
+
+def _write_and_show(outputs: list[tuple[Path, str | bytes]], document: dict, json_output: bool, parts: Callable[[int], list[Any]]) -> None:
+    """Write every output file (none left behind if one fails), then show the document: JSON on
+    stdout, or on the terminal the `parts` for its width."""
+    from sizer.files import write_all
+    from sizer.render.common import console, dumps
+
     write_all(outputs)
     if json_output:
         sys.stdout.write(dumps(document) + "\n")
-    else:
-        terminal = console()
-        for part in span_table_renderables(document, terminal.width, system):
-            terminal.print(part)
-    return 0
+        return
+    terminal = console()
+    for part in parts(terminal.width):
+        terminal.print(part)

@@ -90,6 +90,63 @@ def test_every_code_name_the_guide_gives_exists(name: str) -> None:
     _resolve(name)
 
 
+RECIPE_TITLES = {"a load type", "a shape", "a check", "an output format"}
+
+
+def _recipes() -> dict[str, list[str]]:
+    """Each recipe of the guide ("### How to add X") as its numbered steps (a step with its
+    continuation lines)."""
+    section = GUIDE[GUIDE.index("\n## Recipes"):]
+    section = section[:section.find("\n## ", 1)] if "\n## " in section[1:] else section
+    recipes = {}
+    for part in re.split(r"^### How to add ", section, flags=re.M)[1:]:
+        title, _, body = part.partition("\n")
+        recipes[title.strip()] = re.split(r"^\d+\. ", body, flags=re.M)[1:]
+    return recipes
+
+
+def _top_level_names(path: Path) -> set[str]:
+    """What a module defines at its top level: functions, classes and assigned names."""
+    import ast
+
+    names = set()
+    for node in ast.parse(path.read_text(encoding="utf-8")).body:
+        if isinstance(node, (ast.FunctionDef, ast.AsyncFunctionDef, ast.ClassDef)):
+            names.add(node.name)
+        elif isinstance(node, (ast.Assign, ast.AnnAssign)):
+            targets = node.targets if isinstance(node, ast.Assign) else [node.target]
+            names.update(target.id for target in targets if isinstance(target, ast.Name))
+    return names
+
+
+def _step_names() -> list[tuple[str, str, list[Path]]]:
+    """(recipe, bare name, the sizer modules its step names) for every name without a dot or a slash
+    that a recipe step gives in backticks: a function, class or table of one of those modules."""
+    found = []
+    for title, steps in _recipes().items():
+        for step in steps:
+            names = re.findall(r"`([A-Za-z_][\w./]*)`", step)
+            modules = [ROOT / "sizer" / name for name in names if name.endswith(".py") and (ROOT / "sizer" / name).is_file()]
+            found += [(title, name, modules) for name in names if "." not in name and "/" not in name]
+    return found
+
+
+def test_the_guide_has_the_four_recipes_each_naming_its_modules() -> None:
+    recipes = _recipes()
+    assert set(recipes) == RECIPE_TITLES
+    for title, steps in recipes.items():
+        named = [name for step in steps for name in re.findall(r"`([\w/]+\.py)`", step) if not name.startswith("tests/")]
+        assert len(named) >= 2, f"the recipe for {title} names fewer than two modules"
+
+
+@pytest.mark.parametrize("title, name, modules", _step_names(), ids=lambda value: value if isinstance(value, str) else "")
+def test_every_name_a_recipe_step_gives_is_in_a_module_of_that_step(title: str, name: str, modules: list[Path]) -> None:
+    """A recipe's function or table exists where its step says: renamed or moved, the recipe is stale."""
+    assert modules, f"the step of '{title}' naming {name!r} names no module of sizer/"
+    assert any(name in _top_level_names(path) for path in modules), (
+        f"DEVELOPERS.md, how to add {title}: {name!r} is not in {', '.join(str(p.relative_to(ROOT)) for p in modules)}")
+
+
 def test_nothing_in_the_repository_points_outside_it() -> None:
     """The contract and the sources live in docs/design.md and docs/references.md."""
     for folder in ("sizer", "tests", "benchmarks", "docs", "examples", "section_library"):
