@@ -22,6 +22,7 @@ app = typer.Typer(
 
 FILE_ARGUMENT = typer.Argument(..., help="Member file (TOML).", show_default=False)
 UNITS_OPTION = units_option("kN, m, MPa", "kip, ft, ksi")
+PLOT_OPTION = typer.Option(None, "--plot", help="Draw the diagrams to a PNG or SVG file.")
 
 
 def _show_version(value: bool) -> None:
@@ -56,7 +57,7 @@ def forces(
     combination: Optional[str] = typer.Option(None, "--combination", help="Only this combination (with all its pattern arrangements)."),
     catalogue: Optional[List[Path]] = CATALOGUE_OPTION,
     json_output: bool = JSON_OPTION,
-    plot: Optional[Path] = typer.Option(None, "--plot", help="Draw the diagrams to a PNG or SVG file."),
+    plot: Optional[Path] = PLOT_OPTION,
     envelope: bool = typer.Option(False, "--envelope", help="The largest and smallest of each action, reaction and deflection "
                                   "over every combination and pattern arrangement, with the combination that gives each."),
     second_order: bool = typer.Option(False, "--second-order", help="Actions and displacements of a second-order elastic solve "
@@ -78,7 +79,7 @@ def check(
     section: Optional[str] = typer.Option(None, "--section", help="Check this catalogue section instead of the member file's."),
     catalogue: Optional[List[Path]] = CATALOGUE_OPTION,
     json_output: bool = JSON_OPTION,
-    plot: Optional[Path] = typer.Option(None, "--plot", help="Draw the diagrams to a PNG or SVG file."),
+    plot: Optional[Path] = PLOT_OPTION,
     units_system: str = UNITS_OPTION,
 ) -> int:
     """Every check for one section: demand, allowable, utilization, the governing case and the verdict.

@@ -25,7 +25,7 @@ from typer.testing import CliRunner
 
 from sizer import cache_store, units
 from sizer.cli import app
-from sizer.cli_common import run_guarded
+from sizer.cli_common import guarded, run_guarded
 from sizer.cli_many import jobs_option
 from sizer.cache_store import cache_root
 from sizer.files import MAX_INPUT_BYTES, write_all
@@ -459,6 +459,24 @@ def test_memory_error_is_one_line_and_exit_2(capsys: pytest.CaptureFixture) -> N
     assert stopped.value.exit_code == 2
     lines = capsys.readouterr().err.strip().splitlines()
     assert len(lines) == 1 and lines[0].startswith("sizer: the request needs more memory")
+
+
+def _callbacks(typer_app: typer.Typer) -> list[object]:
+    """The function of every command of `typer_app` and of its command groups."""
+    found: list[object] = [info.callback for info in typer_app.registered_commands]
+    for group in typer_app.registered_groups:
+        assert group.typer_instance is not None
+        found += _callbacks(group.typer_instance)
+    return found
+
+
+def test_every_command_runs_under_the_guard() -> None:
+    """Each command is a plain function run by cli_common.guarded, so bad input anywhere is one line
+    and exit 2 (common practice: one convention, no command left out)."""
+    callbacks = _callbacks(app)
+    assert len(callbacks) == 12  # forces, check, size, report, init, schedule, span-table; sections list, show, build, add, import
+    guard = guarded(lambda: 0).__code__
+    assert all(getattr(callback, "__code__", None) is guard and hasattr(callback, "__wrapped__") for callback in callbacks)
 
 
 def test_a_span_table_starts_its_first_cell_before_making_every_key(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
