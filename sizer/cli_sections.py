@@ -8,7 +8,7 @@ from __future__ import annotations
 
 import sys
 from pathlib import Path
-from typing import TYPE_CHECKING, Any, List, Optional
+from typing import TYPE_CHECKING, List, Optional
 
 import typer
 
@@ -16,9 +16,13 @@ from sizer.cli_common import FAMILY_OPTION, JSON_OPTION, catalogue_option, guard
 from sizer.errors import InputError
 
 if TYPE_CHECKING:
-    from sizer.sections.spec import SectionSpec
     from rich.console import Console
+
     from sizer.sections.catalogue import Catalogue
+    from sizer.sections.properties import SectionProperties
+    from sizer.sections.spec import SectionSpec
+
+    MassRow = tuple[SectionSpec, SectionProperties, str | None, str]  # spec, properties with its mass, material name, note
 
 app = typer.Typer(
     help="Keep the section catalogue: list, show, add, build (precompute), import a CSV stock list.",
@@ -32,6 +36,7 @@ UNITS_OPTION = units_option("mm, kg/m, MPa", "in, lb/ft, ksi")
 
 
 def _catalogue(paths: list[Path] | None) -> Catalogue:
+    """The catalogue files `paths` name, else the default ones (./section_library/, else the shipped one)."""
     from sizer.sections import default_catalogue_paths, load_catalogue
 
     return load_catalogue(paths or default_catalogue_paths(None))
@@ -44,7 +49,7 @@ def _console() -> Console:
     return console()
 
 
-def _with_mass(catalogue: Catalogue, specs: list[Any]) -> list[tuple[Any, Any, Any, str]]:
+def _with_mass(catalogue: Catalogue, specs: list[SectionSpec]) -> list[MassRow]:
     """(spec, properties with the mass of its material, material name or None, note) per spec."""
     from sizer.sections import section_properties
 
