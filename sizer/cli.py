@@ -1,5 +1,6 @@
-"""The `sizer` command: a thin typer layer. Heavy modules are imported inside the commands so that
-`sizer --help` starts at once. Every InputError becomes one line on stderr and exit code 2."""
+"""The `sizer` command: a thin typer layer. Each command is a plain typed function, its options in and
+its exit code out, run by `cli_common.guarded`: every InputError becomes one line on stderr and exit
+code 2. Heavy modules are imported inside the commands so that `sizer --help` starts at once."""
 
 from __future__ import annotations
 
