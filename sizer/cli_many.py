@@ -117,7 +117,9 @@ def run_schedule_command(file: Path, catalogue: list[Path], jobs: int | None, cl
     plan = read_schedule(file)
     members = [plan.path.parent / row.file for row in plan.rows]
     _check_outputs([(csv_out, (".csv",), "--csv"), (out, (".html", ".htm"), "-o")], inputs + members)
-    result = run_schedule(plan, catalogue, jobs, cluster, keep_going, record=out is not None)
+    from sizer.render.report import report_html
+
+    result = run_schedule(plan, catalogue, jobs, cluster, keep_going, record=report_html if out is not None else None)
     document = schedule_json(result)
     outputs = [(csv_out, schedule_csv(document))] if csv_out is not None else []
     if out is not None:
@@ -154,7 +156,8 @@ def run_span_table_command(file: Path, catalogue: list[Path], families: list[str
                            json_output: bool, csv_out: Path | None, plot: Path | None, system: str) -> int:
     """Read, run every cell, then write every output; exit 0 (a span table has nothing to fail)."""
     from sizer.render.common import console, dumps
-    from sizer.render.schedule import span_plot_bytes, span_table_csv, span_table_document, span_table_renderables
+    from sizer.render.schedule import span_plot_bytes, span_table_csv, span_table_renderables
+    from sizer.results.schedule import span_table_document
     from sizer.files import require_writable_cache, write_all
     from sizer.span_table import read_span_table, run_span_table
 
@@ -168,7 +171,9 @@ def run_span_table_command(file: Path, catalogue: list[Path], families: list[str
         check_output(plot, "--plot", inputs)
     require_writable_cache()
     spec = read_span_table(file)
-    result = run_span_table(spec, catalogue, families, jobs, cluster)
+    from sizer.render.sections import with_build_progress
+
+    result = run_span_table(spec, catalogue, families, jobs, cluster, build_progress=with_build_progress)
     document = span_table_document(spec.title, spec.mode, result.sections, result.notes, spec.resolution)
     outputs: list[tuple[Path, bytes | str]] = [(csv_out, span_table_csv(document))] if csv_out is not None else []
     if plot is not None:
