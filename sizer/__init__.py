@@ -1,7 +1,8 @@
 """sizer: internal forces, stresses, allowable-stress checks and sizing of one straight member.
 
 The Python API (sizer.api) is reached from here and imported on first use, so that the command line
-starts at once:
+starts at once; forces, check and size here return results that also show themselves in a terminal
+and a notebook (sizer.commands.notebook):
 
     import sizer
     member = sizer.read_member("examples/platform_joist.toml")
@@ -19,11 +20,18 @@ API_NAMES = (
     "CandidateSummary", "CheckOutcome", "ForcesOutcome", "SizeOutcome",
     "as_member", "check", "forces", "member_from_text", "read_member", "size",
 )
+SHOWN_NAMES = ("check", "forces", "size")  # their results show themselves
 __all__ = ["__version__", *API_NAMES]
 
 
 def __getattr__(name: str) -> Any:
-    """The API names, imported from sizer.api when first asked for."""
+    """The API names, imported from sizer.api when first asked for (the functions of SHOWN_NAMES
+    through sizer.commands.notebook) and kept."""
+    if name in SHOWN_NAMES:
+        from sizer.commands import notebook
+
+        globals()[name] = found = notebook(name)
+        return found
     if name in API_NAMES:
         from sizer import api
 

@@ -4,8 +4,10 @@ catalogue.
 
 Inputs: a Member (sizer.model), a member file's path, or member-file text through member_from_text;
 lengths as SI floats (m) or strings with their unit ("300 mm"). Results are plain dataclasses in SI
-(m, N, N*m, Pa, kg/m) that show themselves as rich text in a terminal (`rich.print(result)`) and as
-HTML in a notebook; `to_json()` gives the same document as the command's `--json`.
+(m, N, N*m, Pa, kg/m); `to_json()` gives the same document as the command's `--json` (sizer.results).
+This module never shows anything: `sizer.forces`, `sizer.check` and `sizer.size` (the package's
+names, sizer/__init__.py) return the same results made to show themselves as rich text in a
+terminal (`rich.print(result)`) and as HTML in a notebook (render.outcomes, at the edge).
 """
 
 from __future__ import annotations
@@ -15,11 +17,10 @@ from pathlib import Path
 from typing import TYPE_CHECKING, Any, Callable, Sequence, overload
 
 from sizer.model import Member
-from sizer.render.common import CAUTIONS
+from sizer.results.notes import CAUTIONS
 
 if TYPE_CHECKING:
     from sizer.sizing import SizingResult
-    from rich.console import Console, ConsoleOptions, RenderResult
     from sizer.checks import CheckReport
     from sizer.design import Design
 
@@ -94,7 +95,7 @@ class ForcesOutcome:
 
     def reactions(self, combination: str | None = None) -> list[dict[str, float]]:
         """Each support's reactions on the member: at (m), Fx, Fy, Fz (N), Mx, My, Mz (N*m)."""
-        from sizer.render.forces import REACTION_NAMES
+        from sizer.results.forces import REACTION_NAMES
 
         values = self.design.solution.reactions(combination or self.combinations[0])
         return [{"at": support.at, **{name: float(v) for name, v in zip(REACTION_NAMES, row)}}
@@ -105,7 +106,7 @@ class ForcesOutcome:
         `envelope` also the envelope over the combinations (`--envelope`)."""
         import numpy as np
 
-        from sizer.render.forces import default_cuts, forces_json
+        from sizer.results.forces import default_cuts, forces_json
 
         xs = np.asarray(cuts, dtype=float) if cuts is not None else default_cuts(self.member)
         return forces_json(self.design.solution, list(self.combinations), xs, self.notes, envelope)
@@ -117,17 +118,6 @@ class ForcesOutcome:
 
         return action_envelope(self.design.solution, list(self.combinations))
 
-    def __rich_console__(self, console: Console, options: ConsoleOptions) -> RenderResult:
-        from sizer.render.forces import forces_renderables
-
-        yield from forces_renderables(self.design.solution, list(self.combinations), None, self.notes, self.units,
-                                      self.section or "none (forces only)")
-
-    def _repr_html_(self) -> str:
-        from sizer.render.report import forces_summary_html
-
-        return forces_summary_html(self.design, list(self.combinations), self.notes, self.units)
-
 
 def forces(member: MemberLike, section: str | None = None, catalogue: Sequence[str | Path] = (),
            combination: str | None = None, units: str = "si", second_order: bool = False) -> ForcesOutcome:
@@ -136,7 +126,7 @@ def forces(member: MemberLike, section: str | None = None, catalogue: Sequence[s
     `second_order`: then each combination's actions and displacements include the second-order
     increments of `check` (a section is needed; the reactions stay first order)."""
     from sizer.design import prepare
-    from sizer.render.common import member_notes, small_deflection_cautions
+    from sizer.results.notes import member_notes, small_deflection_cautions
 
     member = as_member(member)
     chosen_combinations(member, combination)  # bad input before solving
@@ -210,19 +200,9 @@ class CheckOutcome:
 
     def to_json(self) -> dict[str, Any]:
         """The `sizer check --json` document."""
-        from sizer.render.check import check_json
+        from sizer.results.check import check_json
 
         return check_json(self.design, self.report, self.notes)
-
-    def __rich_console__(self, console: Console, options: ConsoleOptions) -> RenderResult:
-        from sizer.render.check import check_renderables
-
-        yield from check_renderables(self.design, self.report, self.notes, self.units)
-
-    def _repr_html_(self) -> str:
-        from sizer.render.report import check_summary_html
-
-        return check_summary_html(self.design, self.report, self.notes, self.units)
 
 
 def check_outcome(design: Design, report: CheckReport, notes: list[str], units: str = "si") -> CheckOutcome:
@@ -243,7 +223,7 @@ def check(member: MemberLike, section: str | None = None, catalogue: Sequence[st
     cross-section stress field; with `reserve`, its reserve factor too (a few more full checks)."""
     from sizer.checks import check_design
     from sizer.design import prepare
-    from sizer.render.common import member_notes, small_deflection_cautions
+    from sizer.results.notes import member_notes, small_deflection_cautions
     from sizer.sections import unit_stress_field
 
     member = as_member(member)
@@ -307,19 +287,9 @@ class SizeOutcome:
 
     def to_json(self) -> dict[str, Any]:
         """The `sizer size --json` document."""
-        from sizer.render.size import size_json
+        from sizer.results.size import size_json
 
         return size_json(self.result, self.notes)
-
-    def __rich_console__(self, console: Console, options: ConsoleOptions) -> RenderResult:
-        from sizer.render.size import size_renderables
-
-        yield from size_renderables(self.result, self.notes, self.top, self.units)
-
-    def _repr_html_(self) -> str:
-        from sizer.render.report import size_summary_html
-
-        return size_summary_html(self.result, self.notes, self.top, self.units)
 
 
 def size(member: MemberLike, catalogue: Sequence[str | Path] = (), families: Sequence[str] = (),
@@ -336,8 +306,8 @@ def size(member: MemberLike, catalogue: Sequence[str | Path] = (), families: Seq
     checked in full")."""
     from sizer.design import catalogue_for, resolve_material
     from sizer.errors import InputError
-    from sizer.render.common import member_notes, small_deflection_cautions
-    from sizer.render.size import candidate_entry, shown_candidates
+    from sizer.results.notes import member_notes, small_deflection_cautions
+    from sizer.results.size import candidate_entry, shown_candidates
     from sizer.sizing import size_member
     from sizer.sizing.cost import RANKINGS, Ranking
 

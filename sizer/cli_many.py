@@ -82,7 +82,9 @@ def schedule(
     require_writable_cache()
     plan = read_schedule(file)
     _check_outputs(written, inputs + [plan.path.parent / row.file for row in plan.rows])
-    result = run_schedule(plan, catalogues, processes, cluster, keep_going, record=out is not None)
+    from sizer.render.report import report_html
+
+    result = run_schedule(plan, catalogues, processes, cluster, keep_going, record=report_html if out is not None else None)
     document = schedule_json(result)
     outputs: list[tuple[Path, str | bytes]] = [(csv_out, schedule_csv(document))] if csv_out is not None else []
     if out is not None:
@@ -108,7 +110,8 @@ def span_table(
     """For each catalogue section, the longest span for each load, or the largest load at each span,
     found on the full check. Exit 0 done, 2 bad input."""
     from sizer.cache_store import require_writable_cache
-    from sizer.render.schedule import span_plot_bytes, span_table_csv, span_table_document, span_table_renderables
+    from sizer.render.schedule import span_plot_bytes, span_table_csv, span_table_renderables
+    from sizer.results.schedule import span_table_document
     from sizer.span_table import read_span_table, run_span_table
 
     processes, system, catalogues = jobs_option(jobs), unit_system(units_system), catalogue or []
@@ -122,7 +125,9 @@ def span_table(
         check_output(plot, "--plot", inputs)
     require_writable_cache()
     spec = read_span_table(file)
-    result = run_span_table(spec, catalogues, family or [], processes, cluster)
+    from sizer.render.sections import with_build_progress
+
+    result = run_span_table(spec, catalogues, family or [], processes, cluster, build_progress=with_build_progress)
     document = span_table_document(spec.title, spec.mode, result.sections, result.notes, spec.resolution)
     outputs: list[tuple[Path, str | bytes]] = [(csv_out, span_table_csv(document))] if csv_out is not None else []
     if plot is not None:

@@ -1,11 +1,12 @@
 """Command bodies: each calls the Python API (sizer.api) and renders its result; the CLI module only
-parses options. Every function returns the exit code (0 done and passing, 1 done and failing)."""
+parses options. Every function returns the exit code (0 done and passing, 1 done and failing).
+`notebook` gives the package's API functions whose results show themselves (sizer/__init__.py)."""
 
 from __future__ import annotations
 
 import sys
 from pathlib import Path
-from typing import TYPE_CHECKING, Sequence
+from typing import TYPE_CHECKING, Any, Callable, Sequence
 
 from sizer.errors import InputError
 
@@ -142,3 +143,20 @@ def run_report(file: Path, out: Path, section: str | None, catalogue: Sequence[P
     detail = f" (governing: {governing.check}, utilization {governing.utilization:.3f})" if governing else ""
     sys.stdout.write(f"{outcome.section} {verdict}{detail}. Calculation record: {', '.join(map(str, written))}\n")
     return 0 if outcome.passes else 1
+
+
+def notebook(name: str) -> Callable[..., Any]:
+    """The API function `name` of sizer.api ("forces", "check" or "size") returning its result made to
+    show itself in a terminal and a notebook (render.outcomes)."""
+    from functools import wraps
+
+    from sizer import api
+    from sizer.render.outcomes import shown
+
+    function = getattr(api, name)
+
+    @wraps(function)
+    def call(*args: Any, **options: Any) -> Any:
+        return shown(function(*args, **options))
+
+    return call

@@ -15,6 +15,8 @@ from typing import TYPE_CHECKING, Any, Sequence
 from sizer.analysis import MemberSolution, solve_member
 from sizer.errors import InputError
 from sizer.model import Material, Member, Stiffness
+from sizer.phrase import phrase, q
+from sizer.units import GRAVITY
 
 if TYPE_CHECKING:
     from sizer.sections.catalogue import Catalogue
@@ -125,7 +127,8 @@ def prepare(member: Member, catalogue_paths: Sequence[Path] = (), section: str |
     notes = [f"Section {spec.name} ({spec.shape}) in {member.orientation} orientation, material {material.name} "
              f"(E, G, density from {Path(material.source).name or 'the member file'})."]
     if member.self_weight_case:
-        notes.append(f"Self-weight {mass:.3g} kg/m x g = 9.80665 m/s² applied along {_gravity_text(member)} in case '{member.self_weight_case}'.")
+        notes.append(phrase("Self-weight ", q("mass_per_length", mass, "kg/m", ".3g"), " x g = ", q("g", GRAVITY, "m/s²"),
+                            f" applied along {_gravity_text(member)} in case '{member.self_weight_case}'."))
     else:
         notes.append("Self-weight is not included (self_weight = false).")
     notes.append("Deflections by Euler-Bernoulli beam theory (no shear deformation), small displacements.")

@@ -18,7 +18,7 @@ import csv
 import io
 from dataclasses import dataclass, field, replace
 from pathlib import Path
-from typing import TYPE_CHECKING, Any, Iterator, Literal, Sequence, overload
+from typing import Any, Callable, Iterator, Literal, Sequence, overload
 
 from sizer.errors import InputError
 from sizer.files import read_text
@@ -28,14 +28,12 @@ from sizer.cache_store import content_hash
 from sizer.parallel import Job, JobFailed, RunSummary, ShippedCatalogue, run_jobs, ship_catalogue
 from sizer.workers import Workers, error_result, result_error
 
-if TYPE_CHECKING:
-    from sizer.api import CheckOutcome
-
 TOP_KEYS = ("title", "members")
 MAX_QUANTITY = 1_000_000  # members of one row, at most (docs/limits.md)
 MAX_ROWS = 100_000  # rows of one schedule, at most
 ROW_KEYS = ("mark", "file", "do", "quantity", "length", "section", "material")
 DO_CHOICES = ("size", "check")
+RecordMaker = Callable[[Any, Any, list[str], str], str]  # (design, report, notes, units) -> a calculation record (HTML), e.g. render.report.report_html
 TEXT_EXAMPLES = {"mark": 'give e.g. mark = "B1"', "file": 'give the member file, e.g. file = "beams/b1.toml"', "do": 'write do = "size" or "check"',
                  "section": 'give a catalogue name, e.g. section = "IPE 200"', "material": 'give e.g. material = "mild-steel"'}
 
@@ -65,13 +63,13 @@ class Schedule:
 @dataclass(frozen=True)
 class RowTask:
     """What a worker needs for one row: the member (overrides applied), what to do, the catalogue's
-    text, and whether to make the member's calculation record (HTML)."""
+    text, and what makes the member's calculation record (HTML; None: no record)."""
 
     do: str
     member: Member
     section: str | None
     catalogue: ShippedCatalogue
-    record: bool = False
+    record: RecordMaker | None = None
 
 
 @dataclass
@@ -244,14 +242,15 @@ def scaled_member(member: Member, length: float) -> Member:
 
 def row_member(schedule: Schedule, row: ScheduleRow) -> tuple[Member, list[str]]:
     """The row's member with its overrides, and a note for each override."""
-    from sizer import api, units
+    from sizer import api
+    from sizer.phrase import fq, phrase
 
     member = api.read_member(schedule.path.parent / row.file)
-    notes = []
+    notes: list[str] = []
     if row.length is not None and abs(row.length - member.length) > 1e-12 * member.length:
-        notes.append(f"{row.mark}: length {units.fmt(row.length, 'length')} from the schedule instead of "
-                     f"{units.fmt(member.length, 'length')} in {row.file}: supports, hinges, loads and restraints moved in proportion "
-                     f"(x {row.length / member.length:.4g}); buckling lengths in [checks] kept as written.")
+        notes.append(phrase(f"{row.mark}: length ", fq("length", row.length, "length"), " from the schedule instead of ",
+                            fq("file_length", member.length, "length"), f" in {row.file}: supports, hinges, loads and restraints moved in "
+                            f"proportion (x {row.length / member.length:.4g}); buckling lengths in [checks] kept as written."))
         member = scaled_member(member, row.length)
     if row.material is not None and row.material != member.material:
         notes.append(f"{row.mark}: material {row.material!r} from the schedule instead of {member.material!r}.")
@@ -266,7 +265,7 @@ def row_action(row: ScheduleRow, member: Member) -> str:
     return row.do or ("check" if (row.section or member.section) else "size")
 
 
-def row_task(schedule: Schedule, row: ScheduleRow, catalogue: Sequence[Path], record: bool,
+def row_task(schedule: Schedule, row: ScheduleRow, catalogue: Sequence[Path], record: RecordMaker | None,
              catalogues: dict[tuple, tuple[Any, ShippedCatalogue]]) -> tuple[RowTask, list[str]]:
     """The row's task, with its section and material looked up now (so bad input shows before any work)."""
     from sizer.design import catalogue_for, resolve_material
@@ -296,7 +295,7 @@ def row_key(task: RowTask) -> str:
     """The content hash of a row's work: the member as read (not its file's path), the action, the
     section, the catalogue's text and whether a record is made (sizer's code is in the kept file's
     seal: sizer.cache_store)."""
-    return content_hash("schedule-row", replace(task.member, source=""), task.do, task.section, task.catalogue.digest, task.record)
+    return content_hash("schedule-row", replace(task.member, source=""), task.do, task.section, task.catalogue.digest, task.record is not None)
 
 
 # ----------------------------------------------------------------------------------------------
@@ -322,12 +321,13 @@ def work_row(task: RowTask) -> dict:
                      "reserve_factor": checked.reserve_factor}
             notes = checked.notes
         found["purchase"] = _purchase(task.member, paths, found["section"])
-        record = _record_html(checked) if task.record and checked is not None else None
+        record = task.record(checked.design, checked.report, checked.notes, checked.units) if task.record and checked is not None else None
     except InputError as error:
         return error_result(error)
-    from sizer.render.common import to_jsonable
+    from sizer.results.jsonable import to_jsonable
+    from sizer.phrase import phrase_json
 
-    return to_jsonable({**found, "assumptions": notes, "record": record})
+    return to_jsonable({**found, "assumptions": [phrase_json(note) for note in notes], "record": record})
 
 
 def _purchase(member: Member, paths: Sequence[Path], section: str | None) -> dict | None:
@@ -335,22 +335,16 @@ def _purchase(member: Member, paths: Sequence[Path], section: str | None) -> dic
     if section is None:
         return None
     from sizer.design import catalogue_for
-    from sizer.render.cost import purchase_json
+    from sizer.results.cost import purchase_json
 
     catalogue = catalogue_for(member, paths)
     return purchase_json(catalogue.purchase(catalogue.get(section)), catalogue.currency)
 
 
-def _record_html(checked: CheckOutcome) -> str:
-    from sizer.render.report import report_html
-
-    return report_html(checked.design, checked.report, checked.notes, checked.units)
-
-
 # ----------------------------------------------------------------------------------------------
 # the whole schedule
 
-def prepare_tasks(schedule: Schedule, catalogue: Sequence[Path], record: bool, keep_going: bool,
+def prepare_tasks(schedule: Schedule, catalogue: Sequence[Path], record: RecordMaker | None, keep_going: bool,
                   errors: list[RowError]) -> Iterator[tuple[ScheduleRow, RowTask, list[str]]]:
     """Every row's task, rows in order, each as soon as it is read (so that the work on the first rows
     starts while the later ones are read); a bad row raises, or with keep_going is added to `errors`."""
@@ -375,7 +369,7 @@ def row_error(schedule: Schedule, row: ScheduleRow, error: InputError) -> InputE
 
 
 def run_schedule(schedule: Schedule, catalogue: Sequence[Path] = (), jobs: int | None = None, cluster: str | None = None,
-                 keep_going: bool = False, record: bool = False, show_progress: bool = True) -> ScheduleResult:
+                 keep_going: bool = False, record: RecordMaker | None = None, show_progress: bool = True) -> ScheduleResult:
     """Size or check every row (in parallel); rows in the schedule's order. InputError for the first bad
     row, unless keep_going (then the bad rows are in `errors` and the rest still run)."""
     tasks: list[tuple[ScheduleRow, RowTask, list[str]]] = []
@@ -408,6 +402,7 @@ def schedule_entry(row: ScheduleRow, task: RowTask, result: dict, notes: list[st
     """A row of the JSON document (docs/design.md section 11): the member's result with the schedule's mark,
     quantity and length; total mass = mass per length x length x quantity (kg); the reserve factor;
     the cost of its pieces and their bars (sizer.schedule_cost)."""
+    from sizer.phrase import phrase_from_json
     from sizer.schedule_cost import row_cost
 
     mass = result["mass_per_length"]
@@ -419,7 +414,7 @@ def schedule_entry(row: ScheduleRow, task: RowTask, result: dict, notes: list[st
         "total_mass": mass * length * row.quantity if mass is not None else None,
         "reserve_factor": result.get("reserve_factor"), "purchase": result.get("purchase"),
         **row_cost(result, length, row.quantity),
-        "assumptions": notes + result["assumptions"],
+        "assumptions": notes + [phrase_from_json(note) for note in result["assumptions"]],
     }
 
 
@@ -454,7 +449,7 @@ def schedule_notes(result: ScheduleResult) -> list[str]:
 
 def schedule_json(result: ScheduleResult) -> dict:
     """The `sizer schedule --json` document (docs/design.md section 11)."""
-    from sizer.render.schedule import schedule_document
+    from sizer.results.schedule import schedule_document
 
     order = {row.mark: index for index, row in enumerate(result.schedule.rows)}
     errors = [{"mark": error.mark, "where": error.where, "message": error.message} for error in sorted(result.errors, key=lambda e: order[e.mark])]

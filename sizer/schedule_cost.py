@@ -11,6 +11,7 @@ from __future__ import annotations
 from typing import Any
 
 from sizer.sections.purchase import Purchase
+from sizer.phrase import joined, phrase, q
 from sizer.sizing.cost import BarOrder, bars_for
 
 ORDER_NOTE = ("Bars to order: the pieces of one section and one length (over every row) are cut from the mix of stock lengths that "
@@ -35,7 +36,7 @@ def order_cost(order: BarOrder | None, mass_per_length: float | None, terms: Pur
 
 def row_cost(result: dict, length: float, quantity: int) -> dict[str, Any]:
     """A row's cost entries: "cost" (its pieces cut together), "currency", "bars" (render.cost.bars_json)."""
-    from sizer.render.cost import bars_json
+    from sizer.results.cost import bars_json
 
     if result.get("section") is None:
         return {"cost": None, "currency": None, "bars": None}
@@ -99,6 +100,6 @@ def cost_notes(totals: dict) -> list[str]:
         notes.append("The total cost leaves out the sections without a price (cost_per_kg): " + ", ".join(unpriced) + ".")
     for entry in totals["by_section"]:
         if entry.get("not_available"):
-            lengths = ", ".join(f"{length:g} m" for length in entry["not_available"])
-            notes.append(f"{entry['section']}: pieces of {lengths} are longer than every stock length (no splice): not in the bars to order.")
+            lengths = joined(", ", (phrase(q("length", length, "m")) for length in entry["not_available"]))
+            notes.append(phrase(f"{entry['section']}: pieces of ", lengths, " are longer than every stock length (no splice): not in the bars to order."))
     return notes

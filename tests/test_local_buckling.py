@@ -29,18 +29,14 @@ from hypothesis import strategies as st
 from sizer.analysis.section_axes import to_section_axes
 from sizer.api import member_from_text
 from sizer.checks.local import (
-    INTERNAL,
-    OUTSTAND,
-    Wall,
     local_check,
     local_utilizations,
-    no_walls_reason,
     plate_coefficient,
-    section_walls,
     table_of_walls,
     wall_stresses,
     wall_table,
 )
+from sizer.checks.local_walls import INTERNAL, OUTSTAND, Wall, no_walls_reason, section_walls
 from sizer.checks.stations import check_stations, member_actions
 from sizer.design import prepare
 from sizer.errors import InputError

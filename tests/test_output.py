@@ -497,15 +497,19 @@ def test_wrapping_never_parts_a_number_from_its_unit_nor_runs_over(parts: list[t
 
 @settings(max_examples=60, deadline=None)
 @given(st.floats(1e-3, 1e5), st.sampled_from(["m", "mm", "kN", "kN·m", "MPa", "kg/m"]))
-def test_si_sentences_are_rewritten_to_us_units_exactly(value: float, symbol: str) -> None:
-    """The rewritten value, read back, is the SI value to the 4 figures shown (NIST SP 811 factors)."""
-    from sizer.render.si_text import SI_SYMBOLS, in_display_units
+def test_sentence_quantities_show_in_us_units_exactly(value: float, symbol: str) -> None:
+    """A sentence's quantity shown in US units, read back, is the SI value to the 4 figures shown
+    (NIST SP 811 factors); the SI text and the JSON value stay SI; the words are untouched."""
+    from sizer.phrase import BASE_UNITS, SI_UNITS, in_unit, phrase, q, values_json
+    from sizer.render.phrases import in_display_units
 
-    text = f"at {value:.6g} {symbol};"
-    assert in_display_units(text, "si") == text
-    rewritten = in_display_units(text, "us")
-    assert not SI_AFTER_NUMBER.search(rewritten)
-    number, label = re.match(r"at (\S+) (\S+);", rewritten).groups()
-    kind, factor = SI_SYMBOLS[symbol]
+    kind, factor = SI_UNITS[symbol]
+    sentence = phrase("at ", q("x", value * factor, symbol, ".6g"), ";")
+    assert in_display_units(sentence, "si") == sentence == f"at {in_unit(value * factor, symbol):.6g} {symbol};"
+    shown = in_display_units(sentence, "us")
+    assert not SI_AFTER_NUMBER.search(shown)
+    number, label = re.match(r"at (\S+) (\S+);", shown).groups()
     assert label == units.unit_label(kind, "us")
-    assert float(number) * units.DISPLAY["us"][kind].factor == pytest.approx(float(f"{value:.6g}") * factor, rel=6e-4)
+    assert float(number) * units.DISPLAY["us"][kind].factor == pytest.approx(value * factor, rel=6e-4)
+    assert values_json(sentence) == {"x": {"value": value * factor, "unit": BASE_UNITS[kind]}}
+    assert in_display_units("at 3 m;", "us") == "at 3 m;"  # plain text is never rewritten

@@ -27,8 +27,9 @@ from sizer.checks import check_design
 from sizer.design import prepare
 from sizer.errors import InputError
 from sizer.model import SUPPORT_TYPES, LineLoad, Member, PointLoad, Restraint, Support
-from sizer.render.check import check_json
-from sizer.render.common import CAUTIONS, member_notes, to_jsonable
+from sizer.results.check import check_json
+from sizer.results.notes import CAUTIONS, member_notes
+from sizer.results.jsonable import to_jsonable
 from sizer.render.plots import DPI, FIG_WIDTH, build_figure, check_plot_path, plot_member
 from sizer.render.report import report_html, section_outline, segment_balance, write_report
 from sizer.commands import run_report

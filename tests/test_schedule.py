@@ -138,6 +138,14 @@ def test_finished_rows_are_kept_and_not_redone(project):
     second = run_schedule(read_schedule(project / "schedule.toml"), [project / "catalogue.toml"], jobs=1, show_progress=False)
     assert (second.summary.ran, second.summary.resumed) == (1, 4)
     assert second.rows[:4] == first.rows
+    from sizer.render.phrases import in_display_units
+
+    def shown_in_us(rows: list[dict]) -> list[list[str]]:
+        return [[in_display_units(note, "us") for note in row["assumptions"]] for row in rows]
+
+    # the rows taken from the cache keep the numbers of their notes: a US run shows them in US units
+    assert shown_in_us(second.rows[:4]) == shown_in_us(first.rows)
+    assert any(" ft" in note for notes in shown_in_us(second.rows[:4]) for note in notes)
 
 
 def test_csv_schedule_gives_the_same_rows(project):

@@ -31,6 +31,7 @@ from typing import Iterable, Mapping, Sequence
 from sizer.analysis.layout import position_tolerance
 from sizer.errors import InputError
 from sizer.model import CheckSettings, LineLoad, Load, Member, Patterning, PointLoad, Pressure
+from sizer.phrase import joined, phrase, q
 
 PART_MARK = " @ span "  # "<case> @ span <k>": the part of a patterned case on span k
 
@@ -256,7 +257,7 @@ def pattern_notes(member: Member) -> list[str]:
     patterning = member.patterning
     if patterning is None:
         return []
-    numbered = "; ".join(f"{k}: {a:g}–{b:g} m" for k, (a, b) in enumerate(patterning.spans, start=1))
+    numbered = joined("; ", (phrase(f"{k}: ", q(f"span_{k}", (a, b), "m")) for k, (a, b) in enumerate(patterning.spans, start=1)))
     counts: dict[str, int] = {}
     for name in member.combinations:
         origin = member.origin(name)
@@ -264,11 +265,11 @@ def pattern_notes(member: Member) -> list[str]:
     expanded = ", ".join(f"'{name}' over all {2 ** len(found)} arrangements ({counts.get(name, 0)} of them evaluated in full)"
                          for name, found in patterning.switches.items()) or "none"
     cases = sorted({load.case for load in patterning.loads if load.pattern})
-    return [f"Pattern loading of case{'s' if len(cases) > 1 else ''} {', '.join(repr(c) for c in cases)}: spans (overhangs count) {numbered}. "
-            "Each patterned load is split by span and each span solved once; every arrangement of loaded and unloaded spans "
-            "(the case on no span included) is checked with the combination's factors (unpatterned loads of a case stay in every "
-            "arrangement; self-weight is never patterned): quantities linear in the loads (actions, stresses at each mesh node, "
-            "displacements) at their exact worst arrangement per station by per-span superposition; von Mises, combined shear and "
-            "deflection magnitude at each station and node over every arrangement exactly (the corners of the set of their linear "
-            "parts); lateral-torsional buckling by branch and bound. The arrangements that govern are evaluated in full and named. "
-            f"Arrangements: {expanded}."]
+    return [phrase(f"Pattern loading of case{'s' if len(cases) > 1 else ''} {', '.join(repr(c) for c in cases)}: spans (overhangs count) ",
+                   numbered, ". Each patterned load is split by span and each span solved once; every arrangement of loaded and unloaded "
+                   "spans (the case on no span included) is checked with the combination's factors (unpatterned loads of a case stay in "
+                   "every arrangement; self-weight is never patterned): quantities linear in the loads (actions, stresses at each mesh "
+                   "node, displacements) at their exact worst arrangement per station by per-span superposition; von Mises, combined shear "
+                   "and deflection magnitude at each station and node over every arrangement exactly (the corners of the set of their "
+                   "linear parts); lateral-torsional buckling by branch and bound. The arrangements that govern are evaluated in full and "
+                   f"named. Arrangements: {expanded}.")]

@@ -27,6 +27,7 @@ import numpy as np
 from sizer.checks.results import ZERO_ACTION
 from sizer.design import Design
 from sizer.model import Restraint
+from sizer.phrase import phrase, q
 
 OMEGA_BRACE = 2.00  # AISC 360-16 Appendix 6, allowable strength design (from memory)
 RULE = ("AISC 360-16 Appendix 6 (stability bracing, from memory): a point brace carries 2 % of the compression flange force "
@@ -82,8 +83,9 @@ def _braced_points(design: Design) -> list[float]:
 
 
 def _label(restraint: Restraint, index: int) -> str:
-    where = f"{restraint.start:g} m" if not restraint.continuous else f"{restraint.start:g} m to {restraint.end:g} m"
-    return f"restraint {index} at {where}"
+    where = phrase(q("at", restraint.start, "m")) if not restraint.continuous else \
+        phrase(q("from", restraint.start, "m"), " to ", q("to", restraint.end, "m"))
+    return phrase(f"restraint {index} at ", where)
 
 
 def brace_demands(design: Design, actions: np.ndarray, xs: np.ndarray) -> list[BraceDemand]:
@@ -136,15 +138,17 @@ def brace_notes(demands: list[BraceDemand]) -> list[str]:
         return []
     lines = [f"Restraints must carry, by {RULE}:"]
     for d in demands:
-        basis = f"M_r = {d.moment / 1e3:.4g} kN·m, P_r = {d.compression / 1e3:.4g} kN, h_o = {d.lever * 1e3:.4g} mm"
+        basis = phrase("M_r = ", q("M_r", d.moment, "kN·m", ".4g"), ", P_r = ", q("P_r", d.compression, "kN", ".4g"), ", h_o = ",
+                       q("h_o", d.lever, "mm", ".4g"))
         if d.kind == "lateral point":
-            assert d.stiffness is not None  # assessed for a point lateral brace
-            lines.append(f"{d.restraint}, sideways: force {d.force / 1e3:.3g} kN, stiffness {d.stiffness / 1e6:.3g} kN/mm "
-                         f"({basis}, L_br = {d.braced_length:.4g} m, C_d = {d.cd:g}; combination {d.combination}).")
+            assert d.stiffness is not None and d.braced_length is not None  # assessed for a point lateral brace
+            lines.append(phrase(d.restraint, ", sideways: force ", q("force", d.force, "kN", ".3g"), ", stiffness ",
+                                q("stiffness", d.stiffness, "kN/mm", ".3g"), " (", basis, ", L_br = ", q("L_br", d.braced_length, "m", ".4g"),
+                                f", C_d = {d.cd:g}; combination {d.combination})."))
         elif d.kind == "lateral continuous":
-            lines.append(f"{d.restraint}, sideways: shear {d.force / 1e3:.3g} kN along it ({basis}, C_d = {d.cd:g}; "
-                         f"combination {d.combination}); stiffness not assessed.")
+            lines.append(phrase(d.restraint, ", sideways: shear ", q("shear", d.force, "kN", ".3g"), " along it (", basis,
+                                f", C_d = {d.cd:g}; combination {d.combination}); stiffness not assessed."))
         else:
-            lines.append(f"{d.restraint}, twist: moment {d.force / 1e3:.3g} kN·m (M_r = {d.moment / 1e3:.4g} kN·m; "
-                         f"combination {d.combination}); stiffness not assessed.")
+            lines.append(phrase(d.restraint, ", twist: moment ", q("moment", d.force, "kN·m", ".3g"), " (M_r = ", q("M_r", d.moment, "kN·m", ".4g"),
+                                f"; combination {d.combination}); stiffness not assessed."))
     return lines

@@ -21,6 +21,7 @@ from sizer.checks.results import CheckResult
 from sizer.checks.stability import StabilityReport
 from sizer.design import Design
 from sizer.model import Material, Member
+from sizer.phrase import phrase, q
 
 if TYPE_CHECKING:
     from sizer.sections.properties import SectionProperties
@@ -128,7 +129,7 @@ def column_buckling(design: Design, report: StabilityReport, given: list[Bucklin
         for axis in given:
             euler = math.pi**2 * material.elastic_modulus * axis.radius**2 * area / axis.length**2
             if euler < load:
-                load, mode = euler, f"flexural {axis.axis} (given length {axis.length:g} m)"
+                load, mode = euler, phrase(f"flexural {axis.axis} (given length ", q("L", axis.length, "m"), ")")
         elastic = load / area
         stress = float(johnson(elastic, material.yield_strength))
         formula = "Euler" if stress == elastic else "Johnson"
@@ -144,7 +145,7 @@ def buckling_check(columns: list[ColumnBuckling | None], design: Design) -> Chec
         return CheckResult("buckling", None, detail="no axial compression")
     worst = max(made, key=lambda column: column.utilization)
     factor = design.member.checks.buckling_safety_factor
-    detail = (f"{worst.mode}, P_cr = {worst.critical_load / 1e3:.4g} kN ({worst.formula}: "
-              f"{worst.stress / 1e6:.4g} MPa), safety factor {factor:g}")
+    detail = phrase(worst.mode, ", P_cr = ", q("P_cr", worst.critical_load, "kN", ".4g"), f" ({worst.formula}: ",
+                    q("stress", worst.stress, "MPa", ".4g"), f"), safety factor {factor:g}")
     return CheckResult("buckling", worst.utilization, worst.compression, worst.allowable, worst.at, worst.combination, quantity="force",
                        detail=detail, extra={"critical_load": worst.critical_load, "mode": worst.mode})

@@ -25,6 +25,7 @@ from sizer.analysis.patterns import Span, arrangements_of, spans
 from sizer.checks.results import CheckResult
 from sizer.design import Design
 from sizer.model import CheckSettings, DeflectionLimit, Member
+from sizer.phrase import phrase, q
 
 if TYPE_CHECKING:
     from sizer.checks.second_order import SecondOrderActions
@@ -245,7 +246,7 @@ def entry_results(design: Design, entry: DeflectionLimit, label: str, second_ord
     for (span, limit), (value, at, name) in zip(pairs, found):
         allowable = span.length / limit
         where = "" if entry.relative_to_supports else ", from the original position"
-        detail = f"{'overhang' if span.overhang else 'span'} {span.start:g}–{span.end:g} m, limit L/{limit:g}{where}{label}"
+        detail = phrase(f"{'overhang' if span.overhang else 'span'} ", q("span", (span.start, span.end), "m"), f", limit L/{limit:g}{where}", label)
         results.append(CheckResult("deflection", value / allowable, value, allowable, at, name, quantity="deflection", detail=detail,
                                    extra={"limit": limit}))
     return results

@@ -27,6 +27,7 @@ from sizer.checks.strength import (axial_check, bending_check, compression_allow
                                    shear_check)
 from sizer.design import Design
 from sizer.model import Member, PointLoad
+from sizer.phrase import joined, phrase, q
 from sizer.stability import MemberStability
 from sizer.stability.boundary import warping_held
 
@@ -224,8 +225,8 @@ def stability_note(design: Design, report: StabilityReport, given: list[Buckling
     if not report.converged:
         text += "; where 5 halvings did not reach that, the last value less its last change (on the safe side)"
     if report.warping_elements:
-        text += (f"; warping held where the supports hold it, the mesh graded to {report.warping_elements * 1e3:.0f} mm elements "
-                 "next to them (the section's warping length sqrt(E Iw / G J) is shorter than the default elements)")
+        text += phrase("; warping held where the supports hold it, the mesh graded to ", q("element_length", report.warping_elements, "mm", ".0f"),
+                       " elements next to them (the section's warping length sqrt(E Iw / G J) is shorter than the default elements)")
     text += "."
     bounded = sum(entry.lateral_bound for entry in report.combinations)
     if bounded:
@@ -239,32 +240,33 @@ def stability_note(design: Design, report: StabilityReport, given: list[Buckling
                  "principal second moments I11, I22; the solves take the bending coupling E Iyz, the shear centre and the Wagner "
                  "(monosymmetry) term in the section's axes, which is the principal-axis formulation written in those axes.")
     if given:
-        text += " Euler loads on the given buckling lengths (" + ", ".join(f"{a.axis} {a.length:g} m" for a in given) + ") are kept beside them; the lower governs."
+        text += phrase(" Euler loads on the given buckling lengths (", joined(", ", (phrase(f"{a.axis} ", q(f"L_{a.axis}", a.length, "m")) for a in given)),
+                       ") are kept beside them; the lower governs.")
     return text
 
 
 def restraint_notes(design: Design) -> list[str]:
     """The restraints, load heights and support conditions the stability solves used."""
     member = design.member
-    notes = []
-    supports = ", ".join(f"{s.label} at {s.at:g} m (warping {'held' if warping_held(s) else 'free'})" for s in member.supports)
+    notes: list[str] = []
+    supports = joined(", ", (phrase(f"{s.label} at ", q("at", s.at, "m"), f" (warping {'held' if warping_held(s) else 'free'})") for s in member.supports))
     forks = any(s.label in ("pin", "roller") for s in member.supports)
-    notes.append(f"Supports for stability: {supports}" + ("; pins and rollers are forks (sideways movement and twist held)." if forks else "."))
+    notes.append(phrase("Supports for stability: ", supports, "; pins and rollers are forks (sideways movement and twist held)." if forks else "."))
     if member.restraints:
         parts = []
         for r in member.restraints:
             holds = " and ".join(name for name, on in (("lateral", r.lateral), ("twist", r.twist)) if on)
-            where = f"{r.start:g} m" if not r.continuous else f"{r.start:g} m to {r.end:g} m (continuous)"
-            height = f" at height {_height_text(r.height)}" if r.lateral else ""
-            parts.append(f"{holds} at {where}{height}")
-        notes.append("Restraints: " + "; ".join(parts) + ".")
+            where = phrase(q("at", r.start, "m")) if not r.continuous else phrase(q("from", r.start, "m"), " to ", q("to", r.end, "m"), " (continuous)")
+            height = phrase(" at height ", _height_text(r.height)) if r.lateral else ""
+            parts.append(phrase(f"{holds} at ", where, height))
+        notes.append(phrase("Restraints: ", joined("; ", parts), "."))
     else:
         notes.append("Restraints: none given: the member is held against buckling at its supports only.")
     notes += free_end_couple_notes(member)
     heights = sorted({_height_text(load.height) for load in member.loads if hasattr(load, "height") and load.height is not None})
     text = "Load heights: transverse loads act on the face they push on (top for a downward load) unless given"
     weight = "; self-weight at the centroid" if member.self_weight_case else ""
-    notes.append(text + (f" ({', '.join(heights)} given)" if heights else "") + weight + ".")
+    notes.append(phrase(text, phrase(" (", joined(", ", heights), " given)") if heights else "", weight, "."))
     return notes
 
 
@@ -275,12 +277,12 @@ def free_end_couple_notes(member: Member) -> list[str]:
                     for x in ends if abs(load.at - x) <= 1e-9 * member.length})
     if not found:
         return []
-    where = " and ".join(f"{x:g} m" for x in found)
-    return [f"Couple at the free end ({where}): taken as in the published case of a cantilever under an end couple "
+    where = joined(" and ", (phrase(q("at", x, "m")) for x in found))
+    return [phrase("Couple at the free end (", where, "): taken as in the published case of a cantilever under an end couple "
             "(Timoshenko & Gere, ch. 6), turning with the end section (quasi-tangential): the cantilever buckles as half "
             "of a simply supported beam of twice its length under uniform moment; a couple applied through a fixed-axis "
-            "lever is not covered."]
+            "lever is not covered.")]
 
 
 def _height_text(height: str | float) -> str:
-    return height if isinstance(height, str) else f"{height * 1e3:+g} mm"
+    return height if isinstance(height, str) else phrase(q("height", height, "mm", "+g"))

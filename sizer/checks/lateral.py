@@ -21,6 +21,7 @@ from sizer.checks.reduction import PLATEAU_LATERAL, reduced_allowable, slenderne
 from sizer.checks.results import CheckResult
 from sizer.checks.stability import StabilityReport
 from sizer.design import Design
+from sizer.phrase import phrase, q
 
 
 @dataclass(frozen=True)
@@ -85,8 +86,9 @@ def lateral_check(entries: list[LateralBuckling | None], report: StabilityReport
         return CheckResult("lateral-torsional", None, detail="no bending about the section's major axis")
     worst = max(made, key=lambda entry: entry.utilization)
     factor = design.member.checks.buckling_safety_factor
-    detail = (f"load factor {worst.load_factor:.3g} on the combination, M_cr = {worst.critical_moment / 1e3:.4g} kN·m, "
-              f"σcr = {worst.critical_stress / 1e6:.4g} MPa, Fb_LT = {worst.allowable / 1e6:.4g} MPa (safety factor {factor:g})")
+    detail = phrase(f"load factor {worst.load_factor:.3g} on the combination, M_cr = ", q("M_cr", worst.critical_moment, "kN·m", ".4g"),
+                    ", σcr = ", q("sigma_cr", worst.critical_stress, "MPa", ".4g"), ", Fb_LT = ", q("Fb_LT", worst.allowable, "MPa", ".4g"),
+                    f" (safety factor {factor:g})")
     extra = {"critical_moment": worst.critical_moment, "load_factor": worst.load_factor, "mode": "lateral-torsional",
              "plateau_slenderness": PLATEAU_LATERAL}
     fy = design.known_material.yield_strength

@@ -21,6 +21,7 @@ import numpy as np
 from sizer.analysis import MemberSolution
 from sizer.checks.results import ZERO_ACTION, CheckResult
 from sizer.design import Design
+from sizer.phrase import phrase, q
 
 MY, MZ = 4, 5
 
@@ -156,15 +157,15 @@ def second_order_notes(design: Design, found: SecondOrderActions | None) -> list
         return ["Second order: no combination has an axial force, a sideways load, a torque or a bow, so the first-order "
                 "actions are the second-order ones (the major-axis moment's geometric terms act on sideways bending and twist "
                 "only, which nothing drives)."]
-    bow = (f"an initial bow of {found.bow * 1e3:.3g} mm ({_bow_text(design)}) in each combination's lowest buckling mode, "
-           "on the side the loads push") if found.bow > 0 else "no initial bow (imperfection not given)"
-    return [f"Second order: each combination solved with the member's geometric stiffness (its axial force in both bending planes, "
-            f"its moments coupling sideways bending and twist, the loads' heights) on {found.elements} thin-walled beam elements per "
-            f"member length, {bow}; the increment over first order is added to the exact first-order actions; tension lowers "
-            "the moments. Bending, interaction, shear, equivalent, local and deflection checks use these actions; the buckling "
-            "and lateral-torsional checks use the first-order actions (their load factors scale the combination as it is). "
-            "Twist: the increments of the torque, the warping torque and the bimoment join the first-order ones in the "
-            "stress field; loads across the section add their torques to the solve."]
+    bow = phrase("an initial bow of ", q("bow", found.bow, "mm", ".3g"), f" ({_bow_text(design)}) in each combination's lowest buckling mode, "
+                 "on the side the loads push") if found.bow > 0 else "no initial bow (imperfection not given)"
+    return [phrase("Second order: each combination solved with the member's geometric stiffness (its axial force in both bending "
+                   f"planes, its moments coupling sideways bending and twist, the loads' heights) on {found.elements} thin-walled beam "
+                   "elements per member length, ", bow, "; the increment over first order is added to the exact first-order actions; "
+                   "tension lowers the moments. Bending, interaction, shear, equivalent, local and deflection checks use these actions; "
+                   "the buckling and lateral-torsional checks use the first-order actions (their load factors scale the combination as "
+                   "it is). Twist: the increments of the torque, the warping torque and the bimoment join the first-order ones in the "
+                   "stress field; loads across the section add their torques to the solve.")]
 
 
 def _bow_text(design: Design) -> str:

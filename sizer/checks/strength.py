@@ -15,6 +15,7 @@ from sizer.checks.web import shear_panels, shear_slenderness
 from sizer.design import Design
 from sizer.errors import InputError
 from sizer.model import Material, Member
+from sizer.phrase import phrase, q
 
 
 def _place(found: tuple[float, tuple[int, int]], xs: np.ndarray, names: tuple[str, ...]) -> tuple[float, float, str]:
@@ -92,8 +93,8 @@ def interaction_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...]
     c, s = found[1]
     fb = float(stress.exact(np.array([c * stations + s]))[0, 0])
     fa_used = compression[c, s] if stress.axial[c, s] < 0 else (tension if tension is not None else math.inf)
-    detail = (f"fa = {stress.axial[c, s] / 1e6:.3g} MPa, fb = {fb / 1e6:.3g} MPa, Fa = {fa_used / 1e6:.4g} MPa, "
-              f"Fb = {fb_allowed[c] / 1e6:.4g} MPa")
+    detail = phrase("fa = ", q("fa", stress.axial[c, s], "MPa", ".3g"), ", fb = ", q("fb", fb, "MPa", ".3g"), ", Fa = ",
+                    q("Fa", fa_used, "MPa", ".4g"), ", Fb = ", q("Fb", fb_allowed[c], "MPa", ".4g"))
     return CheckResult("interaction", value, value, 1.0, at, combination, quantity="ratio", detail=detail)
 
 
@@ -125,10 +126,11 @@ def shear_check(stress: FieldPeaks, xs: np.ndarray, names: tuple[str, ...], desi
                  "element": "web" if axis == 0 else "walls across the depth", "plateau_slenderness": PLATEAU_SHEAR}
         if lam is not None:
             extra["slenderness"] = lam
-        detail += (f"; web shear buckling: h = {panels.h[axis] * 1e3:.4g} mm, t = {panels.t[axis] * 1e3:.4g} mm, "
-                   f"a = {panels.length[s]:.4g} m, k_tau = {panels.k_tau[axis, s]:.3g}, tau_cr = {critical / 1e6:.4g} MPa, "
-                   + (f"lambda_w = {lam:.3g} (no reduction up to {PLATEAU_SHEAR:g}), " if lam is not None else "")
-                   + f"Fv reduced to {fv / 1e6:.4g} MPa (SF {design.member.checks.buckling_safety_factor:g})")
+        detail += phrase("; web shear buckling: h = ", q("h", panels.h[axis], "mm", ".4g"), ", t = ", q("t", panels.t[axis], "mm", ".4g"),
+                         ", a = ", q("a", panels.length[s], "m", ".4g"), f", k_tau = {panels.k_tau[axis, s]:.3g}, tau_cr = ",
+                         q("tau_cr", critical, "MPa", ".4g"), ", ",
+                         f"lambda_w = {lam:.3g} (no reduction up to {PLATEAU_SHEAR:g}), " if lam is not None else "",
+                         "Fv reduced to ", q("Fv", fv, "MPa", ".4g"), f" (SF {design.member.checks.buckling_safety_factor:g})")
     return CheckResult("shear", float(utilization), float(demand), fv, float(xs[s]), names[c], detail=detail, extra=extra)
 
 

@@ -14,6 +14,7 @@ from sizer.analysis.torsion import TwistFree, member_torque_columns, solve_torsi
 from sizer.design import Design
 from sizer.errors import InputError
 from sizer.model import Member, PointLoad
+from sizer.phrase import joined, phrase, q
 
 WARPING_SIZE_RATIO = 1.0  # a below this x the section's size: uniform torsion (see warping_rigidity)
 SYMMETRIC_SHAPES = frozenset({"rectangle", "round", "rectangular_tube", "round_tube", "i_beam"})  # shear centre at the centroid
@@ -149,23 +150,26 @@ def torsion_note(design: Design) -> str:
     """How torsion was found, and where across the section the loads act."""
     props = design.props
     dy, dz = member_axes_offset(design)
-    places = sorted({load.across if isinstance(load.across, str) else f"{load.across * 1e3:+g} mm" for load in design.member.given_loads
+    places = sorted({load.across if isinstance(load.across, str) else phrase(q("across", load.across, "mm", "+g")) for load in design.member.given_loads
                      if not (isinstance(load, PointLoad) and not any(load.force))})
+    offset: str
     if dy or dz:
-        offset = f"centroid {1e3 * dz:+.3g} mm along z" + (f", {1e3 * dy:+.3g} mm along y" if dy else "") + " from the shear centre"
+        offset = phrase("centroid ", q("dz", dz, "mm", "+.3g"), " along z", phrase(", ", q("dy", dy, "mm", "+.3g"), " along y") if dy else "",
+                        " from the shear centre")
     else:
         offset = "the centroid is the shear centre"
     weight = "self-weight at the centroid; " if design.member.self_weight_case else ""
-    text = (f"Torsion: loads act across the section at {', '.join(places) or 'the centroid'} ({offset}); {weight}"
-            "each transverse load's torque about the shear centre is added to the given torques; the elastic critical values are "
-            "not changed by these torques (no geometric stiffness from a first-order torque in the linear buckling solve). ")
+    text = phrase("Torsion: loads act across the section at ", joined(", ", places) or "the centroid", " (", offset, f"); {weight}"
+                  "each transverse load's torque about the shear centre is added to the given torques; the elastic critical values are "
+                  "not changed by these torques (no geometric stiffness from a first-order torque in the linear buckling solve). ")
     eiw = warping_rigidity(design)
     if eiw:
         a = np.sqrt(eiw / design.known_stiffness.GJ)
-        return text + (f"Non-uniform torsion (G J and E Iw, torsion parameter a = {a:.3g} m): warping held at fixed supports or as "
-                       "given, free at pins and rollers; bimoment B and warping torque Tw give the warping normal stress B omega / Iw and "
-                       "the warping shear stress in the full field; local wall checks add the peak warping stress as uniform compression.")
+        return text + phrase("Non-uniform torsion (G J and E Iw, torsion parameter a = ", q("a", a, "m", ".3g"), "): warping held at "
+                             "fixed supports or as given, free at pins and rollers; bimoment B and warping torque Tw give the warping "
+                             "normal stress B omega / Iw and the warping shear stress in the full field; local wall checks add the peak "
+                             "warping stress as uniform compression.")
     a = np.sqrt(design.known_material.elastic_modulus * props.Iw / design.known_stiffness.GJ)
-    return text + (f"Uniform torsion (G J only): the section's torsion parameter a = sqrt(E Iw / G J) = {a:.3g} m is below its size, so "
-                   "warping settles within about a section size of where it is held and is left out (common practice for closed, solid, "
-                   "angle and tee shapes).")
+    return text + phrase("Uniform torsion (G J only): the section's torsion parameter a = sqrt(E Iw / G J) = ", q("a", a, "m", ".3g"),
+                         " is below its size, so warping settles within about a section size of where it is held and is left out "
+                         "(common practice for closed, solid, angle and tee shapes).")

@@ -47,6 +47,7 @@ from sizer.checks.results import ZERO_ACTION, CheckResult
 from sizer.design import Design
 from sizer.errors import InputError
 from sizer.model import Member, PointLoad
+from sizer.phrase import joined, phrase, q
 
 METHOD = ("AISC 360-16 J10.2 (web local yielding: bearing at the toe of the fillet), J10.3 (web crippling) and J10.5 "
           "(web compression buckling under a load directly over a support)")
@@ -155,7 +156,7 @@ def concentrated_forces(design: Design) -> list[Concentrated]:
         group = [load for load in loads if abs(load.at - at) <= tol]
         forces = np.array([[sum(member.combinations[name].get(load.case, 0.0) * load.force[i] for load in group) for i in range(3)]
                            for name in names])
-        found.append(Concentrated(f"point load at {at:.4g} m", at, turn(forces), min(load.bearing for load in group),
+        found.append(Concentrated(phrase("point load at ", q("at", at, "m", ".4g")), at, turn(forces), min(load.bearing for load in group),
                                   all(load.stiffened for load in group)))
     return found
 
@@ -228,11 +229,11 @@ def _web_result(design: Design, item: Concentrated, web: Web, force: np.ndarray,
     c = int(np.argmax(force))
     governs = "web local yielding" if yielding <= crippling else "web crippling"
     where = "end formulas" if crippling_end else "end formula for yielding (within d of the end)" if yield_end else "interior formulas"
-    bearing = f"lb = {item.bearing * 1e3:.4g} mm" if item.bearing > 0 else "lb = 0 (knife edge)"
+    bearing = phrase("lb = ", q("lb", item.bearing, "mm", ".4g")) if item.bearing > 0 else "lb = 0 (knife edge)"
     walls = "two side walls" if web.webs == 2 else "web"
-    detail = (f"{item.what}, {walls} tw = {web.tw * 1e3:.4g} mm, k = {web.k * 1e3:.4g} mm, {bearing}, {where}: "
-              f"yielding Rn/Ω = {yielding / 1e3:.4g} kN, crippling Rn/Ω = {crippling / 1e3:.4g} kN; {governs} governs "
-              f"(AISC 360-16 J10.2 and J10.3, Fy = {fy / 1e6:.4g} MPa)")
+    detail = phrase(item.what, f", {walls} tw = ", q("tw", web.tw, "mm", ".4g"), ", k = ", q("k", web.k, "mm", ".4g"), ", ", bearing,
+                    f", {where}: yielding Rn/Ω = ", q("yielding", yielding, "kN", ".4g"), ", crippling Rn/Ω = ", q("crippling", crippling, "kN", ".4g"),
+                    f"; {governs} governs (AISC 360-16 J10.2 and J10.3, Fy = ", q("Fy", fy, "MPa", ".4g"), ")")
     extra = {"method": METHOD, "element": item.what, "web_local_yielding": yielding, "web_crippling": crippling,
              "bearing": item.bearing, "yield_strength": fy, "governing_limit": governs}
     return CheckResult("web", float(force[c] / allowable), float(force[c]), allowable, item.at, design.solution.combination_names[c],
@@ -253,10 +254,11 @@ def _pair_result(design: Design, load: Concentrated, support: Concentrated, web:
     end = min(load.at, design.member.length - load.at)
     allowable = web_compression_buckling(web, design.known_material.elastic_modulus, fy, end < web.depth / 2) / OMEGA_COMPRESSION
     c = int(np.argmax(force))
-    detail = (f"{load.what} over {support.what}: web compression buckling (AISC 360-16 J10.5) under the smaller of the two "
-              f"opposed forces, h = d - 2k = {(web.depth - 2 * web.k) * 1e3:.4g} mm, Rn/Ω = {allowable / 1e3:.4g} kN"
-              + (" (half: within d/2 of the end)" if end < web.depth / 2 else "") + f", Fy = {fy / 1e6:.4g} MPa")
-    extra = {"method": METHOD, "element": f"{load.what} over {support.what}", "web_compression_buckling": allowable,
+    element = phrase(load.what, " over ", support.what)
+    detail = phrase(element, ": web compression buckling (AISC 360-16 J10.5) under the smaller of the two opposed forces, h = d - 2k = ",
+                    q("h", web.depth - 2 * web.k, "mm", ".4g"), ", Rn/Ω = ", q("Rn_over_omega", allowable, "kN", ".4g"),
+                    " (half: within d/2 of the end)" if end < web.depth / 2 else "", ", Fy = ", q("Fy", fy, "MPa", ".4g"))
+    extra = {"method": METHOD, "element": element, "web_compression_buckling": allowable,
              "bearing": min(load.bearing, support.bearing), "yield_strength": fy, "governing_limit": "web compression buckling"}
     return CheckResult("web", float(force[c] / allowable), float(force[c]), allowable, load.at, design.solution.combination_names[c],
                        quantity="force", detail=detail, extra=extra)
@@ -269,10 +271,10 @@ def web_notes(design: Design) -> list[str]:
     items = concentrated_forces(design)
     if not items:
         return []
-    parts = [f"{item.what}: " + ("stiffened, not checked" if item.stiffened else
-                                   f"bearing {item.bearing * 1e3:.4g} mm" if item.bearing > 0 else "knife edge (bearing 0 mm, the default)")
-             for item in items]
-    return [ASSUMPTIONS + " " + "; ".join(parts) + "."]
+    parts = [phrase(item.what, ": ", "stiffened, not checked" if item.stiffened else
+                    phrase("bearing ", q("bearing", item.bearing, "mm", ".4g")) if item.bearing > 0 else
+                    phrase("knife edge (bearing ", q("bearing", 0.0, "mm"), ", the default)")) for item in items]
+    return [phrase(ASSUMPTIONS, " ", joined("; ", parts), ".")]
 
 
 # ----------------------------------------------------------------------------------------------

@@ -11,7 +11,7 @@ import math
 from sizer import units
 from sizer.checks import CheckReport, CheckResult
 from sizer.design import Design
-from sizer.render.si_text import in_display_units
+from sizer.render.phrases import in_display_units
 
 WHAT = {
     "bending": "peak stress of My, Mz and the bimoment (warping) together, full section field",
@@ -86,7 +86,7 @@ def safety_text(design: Design) -> str:
 def buckling_basis(result: CheckResult, design: Design, system: str) -> str:
     """Mode, load factor and critical load, and the allowable load sigma A / SF with its formula."""
     critical = float(result.extra.get("critical_load") or math.inf)
-    mode = in_display_units(str(result.extra.get("mode", "")), system)
+    mode = in_display_units(result.extra.get("mode", ""), system)
     factor = critical / result.demand if result.demand else math.inf
     area, sf = design.props.area, design.member.checks.buckling_safety_factor
     assert result.allowable is not None  # a made buckling check has its allowable load

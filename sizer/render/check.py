@@ -1,5 +1,5 @@
-"""`sizer check` output: the verdict, the checks, the reactions, assumptions and cautions (terminal
-and JSON).
+"""`sizer check` output: the verdict, the checks, the reactions, assumptions and cautions in the
+terminal (the JSON document is sizer.results.check).
 
 The terminal look is our own: each check is one row of numbers with its basis as a dim line under
 it (render.basis); a neutral gauge (no colour scale) shows the utilization against a mark at 1.0; a
@@ -17,88 +17,19 @@ from sizer.checks import CheckReport, CheckResult, spans
 from sizer.design import Design
 from sizer.render.basis import basis_text, combination_text
 from sizer.render.axis_names import inertia_pair
-from sizer.render.common import CAUTIONS, cautions_panel, notes_panel, patterned, reactions_without_round_off
-from sizer.render.forces import REACTION_NAMES, plural, reactions_ledger_values
+from sizer.render.common import cautions_panel, notes_panel, patterned
+from sizer.render.forces import plural, reactions_ledger_values
+from sizer.results.jsonable import reactions_without_round_off
 from sizer.render.text import Column, Heading, Ledger, Paragraph
+from sizer.results.check import second_order_json
 
 if TYPE_CHECKING:
-    from sizer.checks.torsion import TorsionSummary
     from rich.console import Console, ConsoleOptions, RenderResult
 
 QUANTITY_KINDS = {"stress": "stress", "deflection": "deflection", "force": "force"}
 GAUGE_WIDTH = 6  # cells from 0 to a utilization of 1.0
 REACTIONS_LISTED = 12  # combinations whose reactions are listed one by one; beyond, their largest and smallest
 PASSES, FAILS = "passes", "fails"  # the one pair of status words of every output
-
-
-def check_json(design: Design, report: CheckReport, notes: list[str]) -> dict[str, Any]:
-    """docs/design.md section 6 `check` document (SI base units)."""
-    governing = report.governing
-    return {
-        "section": report.section,
-        "passes": report.passes,
-        "utilization": report.utilization,
-        "governing": governing.check if governing else None,
-        "checks": [check_entry(c) for c in report.checks],
-        "reserve_factor": report.reserve.factor if report.reserve is not None else None,
-        "reserve_combination": report.reserve.combination if report.reserve is not None else None,
-        "reserve_self_weight": report.reserve.self_weight if report.reserve is not None else None,
-        "reactions": reactions_json(design),
-        "restraints": [demand.to_json() for demand in report.restraints],
-        "torsion": torsion_json(report.torsion),
-        "second_order": second_order_json(report),
-        "mass_per_length": design.mass_per_length,
-        "units": "SI base units (m, N, N*m, Pa, kg/m)",
-        "assumptions": notes,
-        "cautions": list(CAUTIONS),
-    }
-
-
-def check_entry(result: CheckResult) -> dict[str, Any]:
-    return {
-        "check": result.check,
-        "utilization": result.utilization,
-        "demand": result.demand,
-        "allowable": result.allowable,
-        "at": result.at,
-        "combination": result.combination,
-        "made": result.made,
-        "quantity": result.quantity,
-        "detail": result.detail,
-        **result.extra,
-    }
-
-
-def torsion_json(summary: TorsionSummary | None) -> dict[str, Any] | None:
-    """The torsion peaks (SI: N*m, N*m^2, m), or None when nothing twists the member."""
-    if summary is None:
-        return None
-    return {"torsion_parameter": summary.parameter, "centroid_from_shear_centre": list(summary.centroid_offset),
-            "peaks": {peak.name: {"value": peak.value, "at": peak.at, "combination": peak.combination} for peak in summary.peaks}}
-
-
-def second_order_json(report: CheckReport) -> dict[str, Any] | None:
-    """Each combination's amplification (second-order peak moment / first-order peak moment, N*m),
-    or None when the member file turns second order off."""
-    found = report.second_order
-    if found is None:
-        return None
-    from sizer.checks.second_order import peak_moment
-
-    rows = []
-    for c, (name, amplification, response) in enumerate(zip(found.names, found.amplification, found.responses)):
-        rows.append({"combination": name, "amplification": amplification, "first_order_moment": peak_moment(found.first[c]),
-                     "moment": peak_moment(found.actions[c]), "beyond_buckling": response.beyond, "load_factor": response.load_factor})
-    return {"elements_per_length": found.elements, "bow": found.bow, "combinations": rows}
-
-
-def reactions_json(design: Design) -> dict[str, list[dict[str, float | str]]]:
-    out: dict[str, list[dict[str, float | str]]] = {}
-    for name in design.solution.combination_names:
-        reactions = reactions_without_round_off(design.solution.reactions(name), design.member.length)
-        out[name] = [{"at": s.at, "type": s.label, **{k: float(v) for k, v in zip(REACTION_NAMES, reactions[i])}}
-                     for i, s in enumerate(design.member.supports)]
-    return out
 
 
 # ----------------------------------------------------------------------------------------------

@@ -1,10 +1,9 @@
 """`sizer forces` output: reactions, actions and displacements at cuts, extremes and deflections
-(terminal and JSON), and with --envelope the largest and smallest of each over every combination
+(terminal; the JSON document is sizer.results.forces), and with --envelope the largest and smallest of each over every combination
 (pattern arrangements included)."""
 
 from __future__ import annotations
 
-from dataclasses import dataclass
 from typing import TYPE_CHECKING, Any
 
 import numpy as np
@@ -19,186 +18,35 @@ from sizer.analysis import (
     largest_deflection,
     reaction_envelope,
 )
-from sizer.model import ACTIONS, LineLoad, Member, PointLoad
-from sizer.render.common import CAUTIONS, cautions_panel, combinations_words, notes_panel, reactions_without_round_off, without_round_off
+from sizer.model import ACTIONS, Member
+from sizer.render.common import cautions_panel, combinations_words, notes_panel
+from sizer.results.jsonable import reactions_without_round_off
+from sizer.results.forces import (
+    DISPLACEMENT_KINDS,
+    DISPLACEMENT_NAMES,
+    REACTION_NAMES,
+    TINY_FORCE,
+    Cut,
+    action_dict,
+    clean_force,
+    concentrated_positions,
+    cut_displacements,
+    cuts_for,
+    deflection_summary,
+    direction_words,
+    displacement_words,
+    is_planar,
+    shown_actions,
+)
 from sizer.render.text import Column, Heading, Ledger, Paragraph
 
 if TYPE_CHECKING:
     from rich.console import Console
 
 ACTION_KINDS = {"N": "force", "Vy": "force", "Vz": "force", "T": "moment", "My": "moment", "Mz": "moment", "V": "force", "M": "moment"}
-REACTION_NAMES = ("Fx", "Fy", "Fz", "Mx", "My", "Mz")
 REACTION_KINDS = ("force", "force", "force", "moment", "moment", "moment")
-DISPLACEMENT_NAMES = ("ux", "uy", "uz", "rx")  # reported at cuts: the translations and the twist
-DISPLACEMENT_KINDS = ("deflection", "deflection", "deflection", "rotation")
-TINY_FORCE = 1e-9  # N; smaller values are shown as zero (round-off)
 MANY_COMBINATIONS = 12  # beyond this many combinations the terminal points to --envelope
 EXTREME_COLUMNS = {name: k for k, name in enumerate(ACTIONS + ("V", "M"))}  # columns of analysis.envelope_curves
-
-
-def is_planar(member: Member) -> bool:
-    """True when every load acts in the x-y plane (so V and M in the beam convention apply)."""
-    if member.self_weight_case and member.gravity[0] == 2:
-        return False
-    for load in member.loads:
-        if isinstance(load, PointLoad) and (load.force[2] or load.moment[0] or load.moment[1]):
-            return False
-        if isinstance(load, LineLoad) and (load.q_start[2] or load.q_end[2] or load.q_start[3] or load.q_end[3]):
-            return False
-    return True
-
-
-def concentrated_positions(member: Member) -> np.ndarray:
-    """Positions (m) where a point load, moment or support makes the actions jump."""
-    xs = [load.at for load in member.loads if isinstance(load, PointLoad)] + [support.at for support in member.supports]
-    return np.unique(np.asarray(xs, dtype=float))
-
-
-def default_cuts(member: Member) -> np.ndarray:
-    """Cuts shown when the user names none: ends, supports, hinges, point loads, line-load ends."""
-    xs = [0.0, member.length] + [s.at for s in member.supports] + [h.at for h in member.hinges]
-    for load in member.loads:
-        xs += [load.at] if isinstance(load, PointLoad) else [load.start, load.end]
-    return np.unique(np.round(np.asarray(xs, dtype=float), 12))
-
-
-@dataclass(frozen=True)
-class Cut:
-    """Actions at one cut; `left`/`right` differ only on a concentrated load or support."""
-
-    at: float
-    left: np.ndarray  # (6,) N, Vy, Vz, T, My, Mz just left of the cut
-    right: np.ndarray  # (6,) just right
-    jump: bool
-
-
-def cuts_for(solution: MemberSolution, combination: str, xs: np.ndarray) -> list[Cut]:
-    """Actions at each x, both sides."""
-    jumps = concentrated_positions(solution.member)
-    left = solution.actions(combination, xs, side="left")
-    right = solution.actions(combination, xs, side="right")
-    scale = max(solution.member.length, 1.0) * 1e-12
-    return [Cut(float(x), left[i], right[i], bool(np.any(np.abs(jumps - x) <= scale))) for i, x in enumerate(xs)]
-
-
-def _action_dict(values: np.ndarray) -> dict[str, float]:
-    out = {name: float(value) for name, value in zip(ACTIONS, values)}
-    out["V"] = -out["Vy"]
-    out["M"] = out["Mz"]
-    return out
-
-
-def deflection_summary(solution: MemberSolution, combination: str, n: int = 801) -> dict[str, float] | None:
-    """Largest transverse deflection sqrt(uy^2 + uz^2) (m) and where; None without a section."""
-    if not solution.has_displacements:
-        return None
-    xs = np.linspace(0.0, solution.member.length, n)
-    for support in solution.member.supports:
-        xs = np.append(xs, support.at)
-    xs = np.unique(xs)
-    moved = solution.displacements(combination, xs)
-    transverse = np.hypot(moved[:, 1], moved[:, 2])
-    index = int(np.argmax(transverse))
-    return {"max": float(transverse[index]), "at": float(xs[index]), "uy": float(moved[index, 1]), "uz": float(moved[index, 2])}
-
-
-def forces_document(solution: MemberSolution, combination: str, xs: np.ndarray) -> dict[str, Any]:
-    """docs/design.md section 6 `forces` object for one combination (SI base units)."""
-    reactions = reactions_without_round_off(solution.reactions(combination), solution.member.length)
-    document: dict[str, Any] = {
-        "combination": combination,
-        "reactions": [
-            {"at": support.at, "type": support.label, **{name: float(v) for name, v in zip(REACTION_NAMES, reactions[i])}}
-            for i, support in enumerate(solution.member.supports)
-        ],
-        "cuts": [],
-        "deflection": deflection_summary(solution, combination),
-    }
-    end = solution.member.length * (1 - 1e-12)
-    for cut in cuts_for(solution, combination, xs):
-        on_member = cut.left if cut.at >= end else cut.right  # at end B the x+ side is off the member
-        entry: dict[str, Any] = {"at": cut.at, **_action_dict(on_member)}
-        if cut.jump:
-            entry["left"] = _action_dict(cut.left)
-            entry["right"] = _action_dict(cut.right)
-        document["cuts"].append(entry)
-    if solution.has_displacements and len(xs):
-        for entry, moved in zip(document["cuts"], cut_displacements(solution, combination, xs)):
-            entry["displacements"] = {**dict(zip(DISPLACEMENT_NAMES, moved)),
-                                      "directions": {name: displacement_words(solution.member, name, value)
-                                                     for name, value in zip(DISPLACEMENT_NAMES, moved) if value != 0}}
-    return document
-
-
-def cut_displacements(solution: MemberSolution, combination: str, xs: np.ndarray) -> list[list[float]]:
-    """ux, uy, uz (m) and the twist rx (rad) of a combination at each cut (on the member at end B),
-    round-off set to zero; needs a section."""
-    length = solution.member.length
-    sides = np.where(xs >= length * (1 - 1e-12), "left", "right")
-    moved = solution.displacements(combination, xs, sides)
-    translation, rotation = np.abs(moved[:, :3]).max(initial=0.0), np.abs(moved[:, 3:]).max(initial=0.0)
-    shifts = without_round_off(moved[:, :3], max(translation, rotation * length))
-    twist = without_round_off(moved[:, 3:4], max(rotation, translation / length))
-    return np.column_stack([shifts, twist]).tolist()
-
-
-def displacement_words(member: Member, freedom: str, value: float) -> str:
-    """Which way a displacement at a cut goes, in words: up or down where gravity is along its axis;
-    ux towards end A or B; the twist rx clockwise or counter-clockwise seen from end B (looking
-    towards A; positive about +x by the right-hand rule); else along +y, -z and so on."""
-    if freedom == "rx":
-        return ("counter-clockwise" if value > 0 else "clockwise") + " seen from end B"
-    if freedom == "ux" and member.gravity[0] != 0:
-        return "towards end B (along +x)" if value > 0 else "towards end A (along -x)"
-    return direction_words(member, freedom, value)
-
-
-def extremes_json(solution: MemberSolution, combination: str, planar: bool) -> list[dict[str, Any]]:
-    """The largest and smallest value of each action along the member and where (N, N*m, m)."""
-    found = extremes(solution, combination)
-    return [{"action": name, "max": found[name].max_value, "max_at": found[name].max_at,
-             "min": found[name].min_value, "min_at": found[name].min_at} for name in _shown_actions(planar)]
-
-
-def forces_json(solution: MemberSolution, combinations: list[str], xs: np.ndarray, notes: list[str], envelope: bool = False) -> dict[str, Any]:
-    """The whole --json document (docs/design.md section 6): {"combinations": [one object per combination,
-    always a list], ["envelope": over those combinations,] "units", "assumptions", "cautions"}."""
-    planar = is_planar(solution.member)
-    documents = []
-    for name in combinations:
-        document = forces_document(solution, name, xs)
-        document["extremes"] = extremes_json(solution, name, planar)
-        documents.append(document)
-    out: dict[str, Any] = {"combinations": documents}
-    if envelope:
-        out["envelope"] = envelope_json(solution, combinations, planar)
-    return {**out, "units": "SI base units (m, N, N*m, Pa, kg/m)", "assumptions": notes, "cautions": list(CAUTIONS)}
-
-
-def envelope_json(solution: MemberSolution, combinations: list[str], planar: bool) -> dict[str, Any]:
-    """The envelope over `combinations`: for each action the largest and smallest along the member
-    with where and which combination; each support's reactions likewise; the largest deflection."""
-    found = action_envelope(solution, combinations)
-    actions = {name: {"max": found[name].largest.value, "max_at": found[name].largest.at, "max_combination": found[name].largest.combination,
-                      "min": found[name].smallest.value, "min_at": found[name].smallest.at, "min_combination": found[name].smallest.combination}
-               for name in (ACTIONS + ("V", "M") if planar else ACTIONS)}
-    member = solution.member
-    reactions = []
-    for entry in reaction_envelope(solution, combinations):
-        support = member.supports[entry.support]
-        item: dict[str, Any] = {"at": support.at, "type": support.label}
-        for k, name in enumerate(REACTION_NAMES):
-            (high, high_name), (low, low_name) = entry.largest[k], entry.smallest[k]
-            item[name] = {"max": _clean(high), "max_combination": high_name, "min": _clean(low), "min_combination": low_name}
-        reactions.append(item)
-    deflection = largest_deflection(solution, combinations)
-    return {"combinations": len(combinations), "actions": actions, "reactions": reactions,
-            "deflection": None if deflection is None else {"max": deflection.value, "at": deflection.at, "combination": deflection.combination,
-                                                           "uy": deflection.uy, "uz": deflection.uz}}
-
-
-def _clean(value: float) -> float:
-    return 0.0 if abs(value) < TINY_FORCE else value
 
 
 # ----------------------------------------------------------------------------------------------
@@ -216,10 +64,6 @@ def _number(value: float, kind: str, system: str) -> str:
 
 def _header(name: str, kind: str, system: str) -> str:
     return f"{name} ({units.unit_label(kind, system)})"
-
-
-def _shown_actions(planar: bool) -> tuple[str, ...]:
-    return ("N", "V", "M") if planar else ACTIONS
 
 
 def reactions_ledger_values(title: str, member: Member, values: dict[str, np.ndarray], system: str, grouped: bool,
@@ -250,7 +94,7 @@ def reactions_table(solution: MemberSolution, combination: str, system: str) -> 
 def cuts_table(cuts: list[Cut], planar: bool, system: str, length: float = np.inf) -> Ledger:
     """Actions at the requested cuts (both sides where a concentrated item makes them jump); the
     unit of each column is in its header."""
-    names = _shown_actions(planar)
+    names = shown_actions(planar)
     columns = [Column(_header("x", "length", system), right=True), Column("side")]
     columns += [Column(_header(name, ACTION_KINDS[name], system), right=True) for name in names]
     ledger = Ledger("Internal actions at cuts (+x face of the left segment)", columns)
@@ -261,7 +105,7 @@ def cuts_table(cuts: list[Cut], planar: bool, system: str, length: float = np.in
         else:
             sides = (("", cut.left if cut.at >= length * (1 - 1e-12) else cut.right),)
         for label, values in sides:
-            actions = _action_dict(values)
+            actions = action_dict(values)
             ledger.add_row(_number(cut.at, "length", system), label, *[_number(actions[n], ACTION_KINDS[n], system) for n in names])
     return ledger
 
@@ -271,7 +115,7 @@ def extremes_table(solution: MemberSolution, combination: str, planar: bool, sys
     length = units.unit_label("length", system)
     ledger = Ledger("Extremes along the member", [Column("action"), Column("largest", right=True), Column(f"at ({length})", right=True),
                                                   Column("smallest", right=True), Column(f"at ({length})", right=True)])
-    for name in _shown_actions(planar):
+    for name in shown_actions(planar):
         extreme = found[name]
         kind = ACTION_KINDS[name]
         ledger.add_row(name, units.fmt(0.0 if abs(extreme.max_value) < TINY_FORCE else extreme.max_value, kind, system),
@@ -279,18 +123,6 @@ def extremes_table(solution: MemberSolution, combination: str, planar: bool, sys
                        units.fmt(0.0 if abs(extreme.min_value) < TINY_FORCE else extreme.min_value, kind, system),
                        _number(extreme.min_at, "length", system))
     return ledger
-
-
-def direction_words(member: Member, freedom: str, value: float, short: bool = False) -> str:
-    """Which way a displacement uy or uz goes: "down (along -y)" where that axis is the direction of
-    gravity (member.gravity), else "along -y"; `short`: "down" alone where it applies."""
-    axis = freedom[-1]
-    sense = "+" if value > 0 else "-"
-    gravity_axis, gravity_sign = member.gravity
-    if gravity_axis == "xyz".index(axis):
-        word = "down" if value * gravity_sign > 0 else "up"
-        return word if short else f"{word} (along {sense}{axis})"
-    return f"along {sense}{axis}"
 
 
 def deflection_line(solution: MemberSolution, combination: str, system: str) -> str | None:
@@ -341,11 +173,11 @@ def envelope_table(solution: MemberSolution, combinations: list[str], planar: bo
     ledger = Ledger("Internal actions along the member: largest and smallest", [
         Column("action"), Column("largest", right=True), Column(f"at ({length})", right=True),
         Column("smallest", right=True), Column(f"at ({length})", right=True)])
-    for name in _shown_actions(planar):
+    for name in shown_actions(planar):
         high, low = found[name].largest, found[name].smallest
         kind = ACTION_KINDS[name]
-        ledger.add_row(name, units.fmt(_clean(high.value), kind, system), _number(high.at, "length", system),
-                       units.fmt(_clean(low.value), kind, system), _number(low.at, "length", system),
+        ledger.add_row(name, units.fmt(clean_force(high.value), kind, system), _number(high.at, "length", system),
+                       units.fmt(clean_force(low.value), kind, system), _number(low.at, "length", system),
                        note=_bounds_note(high.value, high.combination, low.value, low.combination, escape))
     return ledger
 
@@ -365,14 +197,14 @@ def reaction_envelope_table(solution: MemberSolution, combinations: list[str], s
         for k in shown:
             (high, high_name), (low, low_name) = entry.largest[k], entry.smallest[k]
             ledger.add_row(f"S{entry.support + 1} {escape(support.label)}", _number(support.at, "length", system), REACTION_NAMES[k],
-                           units.fmt(_clean(high), REACTION_KINDS[k], system), units.fmt(_clean(low), REACTION_KINDS[k], system),
+                           units.fmt(clean_force(high), REACTION_KINDS[k], system), units.fmt(clean_force(low), REACTION_KINDS[k], system),
                            note=_bounds_note(high, high_name, low, low_name, escape))
     return ledger
 
 
 def _bounds_note(high: float, high_name: str, low: float, low_name: str, escape: Any) -> str:
     """The line under an envelope row: which combination gives each bound (none when both are zero)."""
-    if _clean(high) == 0 and _clean(low) == 0:
+    if clean_force(high) == 0 and clean_force(low) == 0:
         return "zero in every combination"
     if high_name == low_name:
         return f"both in {escape(high_name)}"
@@ -382,7 +214,7 @@ def _bounds_note(high: float, high_name: str, low: float, low_name: str, escape:
 def cut_envelope_table(solution: MemberSolution, combinations: list[str], xs: np.ndarray, planar: bool, system: str) -> Ledger:
     """The largest and smallest of each action at each cut over the combinations (both sides where
     a concentrated item makes them jump)."""
-    names = _shown_actions(planar)
+    names = shown_actions(planar)
     columns = [Column(_header("x", "length", system), right=True), Column("side"), Column("bound")]
     columns += [Column(_header(name, ACTION_KINDS[name], system), right=True) for name in names]
     ledger = Ledger("Internal actions at cuts: largest and smallest over the combinations", columns)

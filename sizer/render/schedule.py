@@ -15,15 +15,15 @@ from typing import TYPE_CHECKING, Any, Sequence
 
 from sizer import units
 from sizer.printable import printable
-from sizer.render.common import CAUTIONS, cautions_panel, notes_panel
-from sizer.render.si_text import in_display_units
+from sizer.render.common import cautions_panel, notes_panel
+from sizer.results.notes import CAUTIONS
+from sizer.render.phrases import in_display_units
 
 if TYPE_CHECKING:
     from sizer.render.text import Ledger
     from rich.table import Table
     from rich.console import JustifyMethod
 
-UNITS_NOTE = "SI base units (m, N, N*m, Pa, kg/m, kg)"
 SCHEDULE_CSV_COLUMNS = (("mark", "mark"), ("file", "file"), ("do", "do"), ("section", "section"), ("passes", "passes"),
                         ("utilization", "utilization"), ("governing", "governing"), ("mass_per_length", "mass_per_length_kg_per_m"),
                         ("quantity", "quantity"), ("length", "length_m"), ("total_mass", "total_mass_kg"), ("reserve_factor", "reserve_factor"),
@@ -36,12 +36,6 @@ CHECK_SHORT = {"axial": "axial", "bending": "bend", "interaction": "inter", "she
 
 # ----------------------------------------------------------------------------------------------
 # schedule: documents
-
-def schedule_document(title: str, rows: list[dict], totals: dict, errors: list[dict], notes: list[str]) -> dict:
-    """docs/design.md section 11 `schedule` document: members, totals, bad rows, assumptions and cautions."""
-    return {"title": title, "members": rows, "totals": totals, "bad_rows": errors, "units": UNITS_NOTE,
-            "assumptions": notes, "cautions": list(CAUTIONS)}
-
 
 def schedule_csv(document: dict) -> str:
     """One line per member (SI base units; the column names carry the units), then the cautions as
@@ -267,19 +261,6 @@ def _member_html_row(row: dict, link: str | None, system: str) -> str:
 
 # ----------------------------------------------------------------------------------------------
 # span table
-
-def span_table_document(title: str, mode: str, sections: list[dict], notes: list[str], resolution: float | None) -> dict:
-    """docs/design.md section 11 `span-table` document; `resolution` (m) is the span step of mode "span"."""
-    return {"title": title, "mode": mode, "resolution": resolution if mode == "span" else None,
-            "sections": [_public_section(entry, mode) for entry in sections], "units": UNITS_NOTE, "assumptions": notes,
-            "cautions": list(CAUTIONS)}
-
-
-def _public_section(entry: dict, mode: str) -> dict:
-    keys = ("load", "kind", "longest_span", "governing", "beyond_limit", "checks_made") if mode == "span" else \
-        ("length", "kind", "largest_load", "governing", "beyond_limit", "checks_made")
-    return {"section": entry["section"], "mass_per_length": entry["mass_per_length"], "rows": [{key: row[key] for key in keys} for row in entry["rows"]]}
-
 
 def _load_text(value: float, kind: str, system: str) -> str:
     return units.fmt(value, "force_per_length" if kind == "line" else "force", system, digits=3)

@@ -10,7 +10,7 @@ from typing import TYPE_CHECKING, Any, Callable, TypeVar
 
 from sizer import units
 from sizer.files import write_atomic
-from sizer.render.common import CAUTIONS
+from sizer.results.notes import CAUTIONS
 from sizer.render.axis_names import axis_words, named
 from sizer.sections import SectionProperties, SectionSpec
 
@@ -147,7 +147,7 @@ def show_renderables(spec: SectionSpec, props: SectionProperties, mass_note: str
 
 def section_json(spec: SectionSpec, props: SectionProperties, mass_material: str | None, mass_note: str, catalogue: Catalogue | None = None) -> dict[str, Any]:
     """`sections show --json`: SI base units."""
-    from sizer.render.cost import purchase_json
+    from sizer.results.cost import purchase_json
 
     data: dict[str, Any] = {
         "name": spec.name, "shape": spec.shape, "family": spec.family, "material": spec.material,
@@ -180,7 +180,7 @@ def section_json(spec: SectionSpec, props: SectionProperties, mass_material: str
 def list_json(items: list[tuple[SectionSpec, SectionProperties, str | None]], catalogue: Catalogue | None = None) -> dict[str, Any]:
     """`sections list --json`: {"sections": one small record per section, "cautions"}, SI base units;
     with the `catalogue`, each section's purchase terms too."""
-    from sizer.render.cost import purchase_json
+    from sizer.results.cost import purchase_json
 
     rows = [{"name": spec.name, "shape": spec.shape, "family": spec.family, "dimensions": dict(spec.dims),
              "mass_per_length": props.mass_per_length, "mass_material": mass_material,

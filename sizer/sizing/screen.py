@@ -112,7 +112,8 @@ def local_lower_bound(found: Screen, index: int, member: Member, material: Mater
     wall and row where its upper bound is largest: a lower bound of the check's, which looks at every
     wall, station and moment peak between them. None when it cannot be made here (no allowable for the
     walls: the check says why; a section that second order may twist, see twisted_by_second_order)."""
-    from sizer.checks.local import local_utilizations, poisson_ratio, section_walls, table_of_walls, wall_allowable
+    from sizer.checks.local import local_utilizations, poisson_ratio, table_of_walls, wall_allowable
+    from sizer.checks.local_walls import section_walls
     from sizer.errors import InputError
 
     if member.checks.second_order and may_twist(member, found.table.specs[index].shape):

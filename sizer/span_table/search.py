@@ -18,6 +18,9 @@ from sizer.workers import Workers, error_result, result_error
 from sizer.span_table.members import span_table_error, trial_member, user_combinations
 from sizer.span_table.spec import DEAD, FIRST_SPAN, LOAD_GRID, LOAD_STEP, AppliedLoad, CellTask, SpanTableResult, SpanTableSpec, Trial
 
+BuildProgress = Callable[[str, Callable[[Any], Any]], Any]  # (description, work) -> work(progress), progress shown
+BUILD_DESCRIPTION = "Section properties (first use of these shapes)"
+
 
 def run_trial(spec: SpanTableSpec, section: str, span: float, imposed: AppliedLoad, catalogue: Sequence[Path]) -> Trial:
     """The full check (`sizer check`) of one trial member."""
@@ -195,7 +198,8 @@ def largest_load(spec: SpanTableSpec, section: str, span: float, catalogue: Sequ
 # ----------------------------------------------------------------------------------------------
 # the whole table
 
-def table_sections(spec: SpanTableSpec, catalogue: Sequence[Path], families: Sequence[str]) -> tuple[list[tuple[str, float]], Any]:
+def table_sections(spec: SpanTableSpec, catalogue: Sequence[Path], families: Sequence[str],
+                   build_progress: BuildProgress | None = None) -> tuple[list[tuple[str, float]], Any]:
     """(name, mass per length in kg/m) of every catalogue section after the family filter, lightest
     first, and the catalogue; the material is looked up now (bad input before any work)."""
     from sizer.design import catalogue_for, resolve_material
@@ -211,9 +215,10 @@ def table_sections(spec: SpanTableSpec, catalogue: Sequence[Path], families: Seq
     if not specs:
         raise InputError(", ".join(map(str, loaded.files)) or "the catalogue", "sections", "the catalogue holds no sections",
                          "add [[sections]] entries, or pass --catalogue with a stock list")
-    from sizer.render.sections import with_build_progress
+    def build(progress: Any) -> Any:
+        return section_table(specs, progress=progress)
 
-    table = with_build_progress("Section properties (first use of these shapes)", lambda progress: section_table(specs, progress=progress))
+    table = build_progress(BUILD_DESCRIPTION, build) if build_progress is not None else build(None)
     areas = table[:, SCALAR_NAMES.index("area")]
     masses = [(spec_.name, float(area) * material.density) for spec_, area in zip(specs, areas)]
     return sorted(masses, key=lambda item: (item[1], item[0])), loaded
@@ -232,10 +237,11 @@ def cell_key(task: CellTask, settings: str) -> str:
 
 
 def run_span_table(spec: SpanTableSpec, catalogue: Sequence[Path] = (), families: Sequence[str] = (), jobs: int | None = None,
-                   cluster: str | None = None, show_progress: bool = True) -> SpanTableResult:
-    """Every section's cells (in parallel), sections by mass per length."""
+                   cluster: str | None = None, show_progress: bool = True, build_progress: BuildProgress | None = None) -> SpanTableResult:
+    """Every section's cells (in parallel), sections by mass per length; `build_progress(description,
+    work)` runs work(progress) showing the section properties computed first (render.sections)."""
     with Workers(jobs, cluster) as workers:
-        sections, loaded = table_sections(spec, catalogue, families)
+        sections, loaded = table_sections(spec, catalogue, families, build_progress)
         shipped = ship_catalogue(loaded.files)
         settings = settings_digest(spec)
         tasks = (CellTask(spec, name, column, shipped) for name, _ in sections for column in range(spec.columns))
@@ -254,20 +260,21 @@ def run_span_table(spec: SpanTableSpec, catalogue: Sequence[Path] = (), families
 
 def span_table_notes(spec: SpanTableSpec, summary: RunSummary) -> list[str]:
     """Every assumption the table rests on, in words."""
-    from sizer import units
+    from sizer.phrase import fq, phrase
 
     layout = {"simple": "simply supported (pin at end A, roller at end B)", "cantilever": "cantilever (fixed at end A, tip free)",
               "continuous": f"continuous over {spec.spans} equal spans (pin at end A, rollers at the other supports)"}[spec.layout]
     restraint = {"continuous": "held sideways and against twist at the top all along (a deck)",
-                 "supports": "held sideways and against twist only at the supports"}.get(spec.restraint) if isinstance(spec.restraint, str) else \
-        f"held sideways and against twist at the top by point restraints every {units.fmt(spec.restraint, 'length')} from each span's start"
+                 "supports": "held sideways and against twist only at the supports"}[spec.restraint] if isinstance(spec.restraint, str) else \
+        phrase("held sideways and against twist at the top by point restraints every ", fq("spacing", spec.restraint, "length"),
+               " from each span's start")
     notes = [f"Layout: {layout}; the section in {spec.orientation} orientation, material {spec.material}.",
-             f"Restraint: {restraint}.",
+             phrase("Restraint: ", restraint, "."),
              "Loads act along y (negative: downward); a uniform load is on every span, a point load at the middle of each span"
              + (" (at the tip)" if spec.layout == "cantilever" else "") + ".",
              "Self-weight " + (f"in case '{spec.self_weight}'." if spec.self_weight else "left out (self_weight = false).")]
     if spec.dead_load is not None:
-        notes.append(f"Dead load {units.fmt(spec.dead_load, 'force_per_length')} on every span in case '{DEAD}'.")
+        notes.append(phrase("Dead load ", fq("dead_load", spec.dead_load, "force_per_length"), f" on every span in case '{DEAD}'."))
     combos = user_combinations(spec)
     notes.append("Combinations: " + "; ".join(f"{name} = " + " + ".join(f"{factor:g} x {case}" for case, factor in factors.items())
                                                for name, factors in combos.items() if isinstance(factors, dict)) + ".")
@@ -275,8 +282,8 @@ def span_table_notes(spec: SpanTableSpec, summary: RunSummary) -> list[str]:
         notes.append(f"Pattern loading: each combination with the imposed load is checked for every arrangement of loaded spans "
                      f"({2 ** spec.spans - 1} arrangements).")
     if spec.mode == "span":
-        notes.append(f"Longest span found on a {units.fmt(spec.resolution, 'dimension')} grid up to {units.fmt(spec.max_span, 'length')}: "
-                     "it passes every check and the next step fails. Spans are each span's length.")
+        notes.append(phrase("Longest span found on a ", fq("resolution", spec.resolution, "dimension"), " grid up to ",
+                            fq("max_span", spec.max_span, "length"), ": it passes every check and the next step fails. Spans are each span's length."))
     else:
         notes.append("Largest load found in 0.5 % steps: it passes every check and 0.5 % more fails.")
     notes.append("Every trial is the full check of `sizer check`; the search assumes the utilization rises with span (or load) and "

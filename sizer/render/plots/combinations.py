@@ -12,7 +12,7 @@ import numpy as np
 
 from sizer import units
 from sizer.design import Design
-from sizer.render.forces import is_planar
+from sizer.results.forces import is_planar
 from sizer.render.plots.diagrams import TITLES, diagram_samples
 from sizer.render.plots.style import DIAGRAM_HEIGHT, FIG_WIDTH, GAP, LEFT, style
 

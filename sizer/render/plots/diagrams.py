@@ -17,7 +17,7 @@ from sizer.analysis import extremes
 from sizer.checks import check_stations
 from sizer.design import Design
 from sizer.model import Member
-from sizer.render.forces import direction_words
+from sizer.results.forces import direction_words
 from sizer.render.plots.style import (
     FILL_NEGATIVE,
     FILL_POSITIVE,

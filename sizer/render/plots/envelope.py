@@ -18,7 +18,7 @@ from sizer.analysis import EXTREME_ACTIONS, action_envelope, displacement_bounds
 from sizer.checks import check_stations
 from sizer.design import Design
 from sizer.files import write_atomic
-from sizer.render.forces import is_planar
+from sizer.results.forces import is_planar
 from sizer.render.plots.diagrams import TITLES
 from sizer.render.plots.style import (
     BOTTOM,

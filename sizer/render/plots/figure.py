@@ -16,7 +16,7 @@ from sizer.design import Design
 from sizer.files import write_atomic
 from sizer.model import Member
 from sizer.render.check import status_word
-from sizer.render.forces import is_planar
+from sizer.results.forces import is_planar
 from sizer.render.plots.buckled_shape import buckling_pick, draw_buckled_shape
 from sizer.render.plots.combination_loads import factored_loads
 from sizer.render.plots.diagrams import draw_diagrams, mark_governing

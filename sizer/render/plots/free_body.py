@@ -13,7 +13,7 @@ import numpy as np
 from sizer import units
 from sizer.design import Design
 from sizer.model import Support
-from sizer.render.forces import is_planar
+from sizer.results.forces import is_planar
 from sizer.render.plots.combination_loads import DrawnLine, DrawnPoint, factored_loads
 from sizer.render.plots.load_symbols import (
     draw_axial_force,

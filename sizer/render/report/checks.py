@@ -11,7 +11,7 @@ from typing import Any
 from sizer import units
 from sizer.render.check import FAILS, PASSES
 from sizer.render.report.markup import _cell, _e, _fmt, _row, _table
-from sizer.render.si_text import in_display_units
+from sizer.render.phrases import in_display_units
 
 QUANTITY_KINDS = {"stress": "stress", "deflection": "deflection", "force": "force"}
 

@@ -17,9 +17,10 @@ from sizer.checks import CheckReport
 from sizer.design import Design
 from sizer.errors import InputError
 from sizer.files import check_output, write_atomic
-from sizer.render.check import check_json
-from sizer.render.common import CAUTIONS, combinations_words, dumps, patterned
-from sizer.render.forces import is_planar
+from sizer.render.common import combinations_words, dumps, patterned
+from sizer.results.check import check_json
+from sizer.results.forces import is_planar
+from sizer.results.notes import CAUTIONS
 from sizer.render.plots.figure import build_figure
 from sizer.render.basis import basis_text
 from sizer.render.report.by_hand import by_hand_section
@@ -29,7 +30,7 @@ from sizer.render.report.inputs import inputs_section
 from sizer.render.report.markup import STYLE, _e, _figure
 from sizer.render.report.segment import governing_cut
 from sizer.render.report.stability import stability_section
-from sizer.render.si_text import in_display_units
+from sizer.render.phrases import in_display_units
 
 REPORT_SUFFIXES = (".html", ".htm", ".pdf")
 

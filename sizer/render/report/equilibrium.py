@@ -13,8 +13,10 @@ import numpy as np
 from sizer import units
 from sizer.checks import CheckReport
 from sizer.design import Design
-from sizer.render.common import combinations_words, patterned, without_round_off
-from sizer.render.forces import REACTION_KINDS, REACTION_NAMES, is_planar
+from sizer.render.common import combinations_words, patterned
+from sizer.render.forces import REACTION_KINDS
+from sizer.results.forces import REACTION_NAMES, is_planar
+from sizer.results.jsonable import without_round_off
 from sizer.render.plots.free_body import build_free_body_figure
 from sizer.render.report.markup import _cell, _e, _figure, _fmt, _num, _row, _table
 from sizer.render.report.segment import (

@@ -17,7 +17,7 @@ from sizer import units
 from sizer.checks import CheckReport
 from sizer.design import Design
 from sizer.render.report.markup import _e, _fmt
-from sizer.render.si_text import in_display_units
+from sizer.render.phrases import in_display_units
 
 TEXTBOOK_K = ((0.5, "both ends fixed"), (0.699, "one end fixed, one pinned"), (1.0, "both ends pinned"),
               (2.0, "a free-standing cantilever"))  # Euler's four cases (Timoshenko & Gere, section 2.1)
@@ -72,7 +72,7 @@ def column_items(design: Design, report: CheckReport, system: str) -> list[str]:
                      if formula == "Johnson" else " ≤ KL/r, so Euler's load applies")
         lines.append(text)
     lines.append(f"The lowest mode of the full eigen-solve (with twist): P_cr = {_fmt(buckling.extra.get('critical_load'), 'force', s)} "
-                 f"({in_display_units(str(buckling.extra.get('mode', '')), s)}) in combination {buckling.combination}; the buckling "
+                 f"({in_display_units(buckling.extra.get('mode', ''), s)}) in combination {buckling.combination}; the buckling "
                  "check uses it. It equals the lower of the two lines above unless the member twists as it buckles; P_cr is the peak "
                  "compression at buckling, so where the axial force varies along the member (self-weight of a post) KL is the "
                  "length that gives that peak in Euler's formula.")

@@ -8,11 +8,12 @@ from typing import TYPE_CHECKING
 
 from sizer import units
 from sizer.render.basis import basis_text
-from sizer.render.check import check_json, status_word
-from sizer.render.common import CAUTIONS
+from sizer.render.check import status_word
+from sizer.results.check import check_json
+from sizer.results.notes import CAUTIONS
 from sizer.render.report.checks import checks_section, verdict_box
 from sizer.render.report.markup import STYLE, _e, _row, _table
-from sizer.render.si_text import in_display_units
+from sizer.render.phrases import in_display_units
 
 if TYPE_CHECKING:
     from sizer.sizing import SizingResult
@@ -44,7 +45,7 @@ def check_summary_html(design: Design, report: CheckReport, notes: list[str], sy
 
 def size_summary_html(result: SizingResult, notes: list[str], top: int, system: str = "si") -> str:
     """The lightest passing section and the candidates around it."""
-    from sizer.render.size import shown_candidates
+    from sizer.results.size import shown_candidates
 
     chosen = result.chosen
     if chosen is not None:
@@ -64,7 +65,8 @@ def size_summary_html(result: SizingResult, notes: list[str], top: int, system: 
 def forces_summary_html(design: Design, combinations: list[str], notes: list[str], system: str = "si") -> str:
     """Each combination's reactions and the extremes of its internal actions."""
     from sizer.analysis import extremes
-    from sizer.render.forces import ACTION_KINDS, REACTION_KINDS, REACTION_NAMES
+    from sizer.render.forces import ACTION_KINDS, REACTION_KINDS
+    from sizer.results.forces import REACTION_NAMES
 
     parts = []
     for name in combinations:

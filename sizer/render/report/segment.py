@@ -14,7 +14,7 @@ import numpy as np
 from sizer import units
 from sizer.checks import CheckReport
 from sizer.design import Design
-from sizer.render.common import without_round_off
+from sizer.results.jsonable import without_round_off
 from sizer.render.forces import governing_moment
 
 CHECK_ACTIONS = {"axial": (0,), "buckling": (0,), "bending": (4, 5), "shear": (1, 2, 3)}  # actions that drive a check
