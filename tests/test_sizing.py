@@ -831,6 +831,7 @@ AGREEMENT_MEMBERS = {
 }
 
 
+@pytest.mark.slow  # every section of every agreement member checked in full (the full suite runs it)
 @pytest.mark.parametrize("variant", list(AGREEMENT_MEMBERS))
 def test_size_agrees_with_check_on_every_section(stocks: dict[str, Path], tmp_path: Path, variant: str) -> None:
     """`sizer check --section` on every catalogue section is the reference (common practice: the
@@ -888,6 +889,7 @@ def test_size_agrees_with_check_on_every_section(stocks: dict[str, Path], tmp_pa
         assert listed == set(by_mass)
 
 
+@pytest.mark.slow  # every section of every agreement member checked in full (the full suite runs it)
 @pytest.mark.parametrize("variant", [name for name in AGREEMENT_MEMBERS if "springs" not in name])
 def test_screen_matches_the_full_check_on_every_section(stocks: dict[str, Path], tmp_path: Path, variant: str) -> None:
     """The screen against `sizer check`'s own computation (checks.check_design on a section solved on
@@ -994,6 +996,7 @@ def test_runners_up_are_not_claimed_to_pass_without_a_full_check(stocks: dict[st
         assert entry["utilization"] == pytest.approx(reference["utilization"], rel=SAME)
 
 
+@pytest.mark.slow  # full checks over every arrangement (the full suite runs it)
 def test_seeded_stability_bounds_never_exceed_the_check(stocks: dict[str, Path], tmp_path: Path) -> None:
     """StabilityBounds.seed (pattern loading): every candidate's own base-mesh buckled shapes taken as
     trial shapes give lower bounds of the buckling and lateral-torsional checks, never above what
