@@ -251,7 +251,7 @@ def test_largest_eigenpair_by_inverse_iteration_matches_numpy_eigh(size: int, se
     full symmetric eigen-solver (LAPACK syevd), the reference: the value to round-off, the vector to
     1e-8 up to its sign, on symmetric matrices whose largest eigenvalue stands `gap` (relative) above
     the next, with eigenvalues of both signs (as C = L^-1 B L^-T has)."""
-    from sizer.stability.solve import _largest_eigenpairs
+    from sizer.stability.solve import largest_eigenpairs
 
     rng = np.random.default_rng(seed)
     q, _ = np.linalg.qr(rng.standard_normal((size, size)))
@@ -259,7 +259,7 @@ def test_largest_eigenpair_by_inverse_iteration_matches_numpy_eigh(size: int, se
     values[-1] = values[-2] + gap * max(1.0, abs(values[-2]))  # the largest stands apart by `gap`
     c = (q * values) @ q.T
     c = (c + c.T) / 2
-    found, vectors = _largest_eigenpairs(c, 1)
+    found, vectors = largest_eigenpairs(c, 1)
     reference_values, reference_vectors = np.linalg.eigh(c)
     assert found[0] == pytest.approx(reference_values[-1], rel=1e-12, abs=1e-12)
     vector, reference = vectors[:, 0], reference_vectors[:, -1]

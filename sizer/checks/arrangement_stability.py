@@ -30,7 +30,7 @@ from sizer.analysis.superposition import linear_extremes
 from sizer.checks.results import ZERO_ACTION
 from sizer.stability import Buckling
 from sizer.stability.problem import SectionStability
-from sizer.stability.solve import _largest_eigenpairs as largest_eigenpairs
+from sizer.stability.solve import largest_eigenpairs
 
 BOUND_SLACK = 1e-9  # relative: a bound lowered by this much covers the round-off between the two ways of solving
 LEAF_SWITCHES = 0  # a set with this many free switches or fewer is solved one arrangement at a time (4 solves)

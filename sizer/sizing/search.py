@@ -224,31 +224,35 @@ class Search:
         out are skipped); their buckled shapes are not added to the trial shapes (each new shape would
         have the bounds of the sections ahead made again, for a walk that is nearly over). The lighter
         ones shown need nothing more: the walk either checked each in full or proved it fails."""
-        if chosen is None:
-            return
-        heavier = 0
-        for candidate in self.candidates[self.candidates.index(chosen) + 1:]:
-            if heavier >= top:
-                break
-            heavier += self.passes_in_full(candidate, learn=False)
+        self._walk_heavier(chosen, top, lambda candidate: self.passes_in_full(candidate, learn=False))
 
     def runners_up_from_bounds(self, chosen: Candidate | None, top: int) -> None:
         """Mark the `top` heavier sections that no proven lower bound rules out (from what the walk
         knows: their geometric tier, the stability bounds of the shapes found) as runners-up shown
         without a full check (`unchecked`): whether they pass is not known, and is not claimed."""
+        self._walk_heavier(chosen, top, self._shown_from_bounds)
+
+    def _shown_from_bounds(self, candidate: Candidate) -> bool:
+        """True when `candidate` is shown as a runner-up: it passed its full check, or no proven lower
+        bound rules it out (then marked `unchecked`, with its stress checks' bounds proven too)."""
+        if candidate.report is not None:
+            return candidate.report.passes
+        if self.found is not None and self.ruled_out(candidate):
+            return False
+        if self.found is not None:  # its stress checks' bounds too, not only those estimated to fail
+            prove_lower_bounds(candidate, self.found, self.material, self.member, above=0.0)
+        candidate.unchecked = True
+        return True
+
+    def _walk_heavier(self, chosen: Candidate | None, top: int, shown: Callable[[Candidate], bool]) -> None:
+        """Take the sections heavier than `chosen` in turn through `shown` until `top` of them are shown."""
         if chosen is None:
             return
-        shown = 0
+        count = 0
         for candidate in self.candidates[self.candidates.index(chosen) + 1:]:
-            if shown >= top:
+            if count >= top:
                 break
-            if candidate.report is not None:
-                shown += candidate.report.passes
-            elif self.found is None or not self.ruled_out(candidate):
-                if self.found is not None:  # its stress checks' bounds too, not only those estimated to fail
-                    prove_lower_bounds(candidate, self.found, self.material, self.member, above=0.0)
-                candidate.unchecked = True
-                shown += 1
+            count += shown(candidate)
 
     def unavailable_ahead(self, chosen: Candidate | None, top: int) -> list[Candidate]:
         """Up to `top` sections not available (not stocked, or longer than every stock length) that rank

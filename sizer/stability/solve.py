@@ -110,7 +110,7 @@ class Reduced:
         inverse, coupling = self._factor(active)
         baa = b[np.ix_(active, active)]
         standard = inverse @ baa @ inverse.T
-        mu, vectors = _largest_eigenpairs((standard + standard.T) / 2, count)
+        mu, vectors = largest_eigenpairs((standard + standard.T) / 2, count)
         vectors = inverse.T @ vectors
         threshold = NO_BUCKLING * np.abs(baa).max()
         found = []
@@ -282,7 +282,7 @@ def _negative_pivots(matrix: Any) -> tuple[Any, int]:
     return factors, int(np.sum(factors.U.diagonal() < 0))
 
 
-def _largest_eigenpairs(c: np.ndarray, count: int) -> tuple[np.ndarray, np.ndarray]:
+def largest_eigenpairs(c: np.ndarray, count: int) -> tuple[np.ndarray, np.ndarray]:
     """The `count` largest eigenvalues of the symmetric `c`, largest first, and their unit vectors (as
     columns). For one: all eigenvalues without vectors (numpy's eigvalsh, about 2.5 times faster
     than eigh), then the vector by inverse iteration with the shift just above the largest value
