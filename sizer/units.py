@@ -294,6 +294,7 @@ DISPLAY: dict[str, dict[str, DisplayUnit]] = {
         "density": DisplayUnit("kg/m³", 1.0),
         "translational_stiffness": DisplayUnit("kN/mm", 1e6),
         "rotational_stiffness": DisplayUnit("kN·m/rad", 1e3),
+        "acceleration": DisplayUnit("m/s²", 1.0),
     },
     "us": {
         "length": DisplayUnit("ft", _FOOT),
@@ -317,6 +318,7 @@ DISPLAY: dict[str, dict[str, DisplayUnit]] = {
         "density": DisplayUnit("lb/ft³", _POUND_MASS / _FOOT**3),
         "translational_stiffness": DisplayUnit("kip/in", _KIP / _INCH),
         "rotational_stiffness": DisplayUnit("kip·ft/rad", _KIP * _FOOT),
+        "acceleration": DisplayUnit("ft/s²", _FOOT),
     },
 }
 

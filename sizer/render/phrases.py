@@ -7,7 +7,6 @@ from __future__ import annotations
 from sizer import units
 from sizer.phrase import SI_UNITS, Phrase, Quantity, finite_number
 
-FOOT_PER_SECOND_SQUARED = 0.3048  # m/s² per ft/s² (exact, NIST SP 811)
 
 
 def in_display_units(text: object, system: str) -> str:
@@ -25,12 +24,8 @@ def shown_quantity(quantity: Quantity, system: str) -> str:
         return quantity.si_text()
     factor = SI_UNITS[quantity.unit][1]
     values = [float(number) * factor for number in numbers]
-    if quantity.kind == "acceleration":
-        shown = [units.fmt_number(value / FOOT_PER_SECOND_SQUARED) for value in values]
-        label = "ft/s²"
-    else:
-        shown = [units.fmt_number(units.to_display(value, quantity.kind, system)) for value in values]
-        label = units.unit_label(quantity.kind, system)
+    shown = [units.fmt_number(units.to_display(value, quantity.kind, system)) for value in values]
+    label = units.unit_label(quantity.kind, system)
     if numbers[0].startswith("+") and not shown[0].startswith("-"):
         shown[0] = "+" + shown[0]
     return "–".join(shown) + " " + label
