@@ -10,10 +10,8 @@ and the small-deflection fraction are sizer's own stated rules (docs/design.md s
 
 from __future__ import annotations
 
-import hashlib
 import io
 import json
-import os
 import pickle
 import re
 import stat
@@ -21,16 +19,15 @@ from pathlib import Path
 
 import numpy as np
 import pytest
-from typer.testing import CliRunner
 
 from sizer import units
 from sizer.analysis import solve_case
-from sizer.cli import app
 from sizer.errors import InputError
 from sizer.model import Member, PointLoad, Stiffness, Support
 from sizer.cache_store import read_sealed
 from sizer.sections import cache
 from sizer.sections.properties import clear_memory
+from tests.cli_runs import bad_input, run
 from tests.steel import STEEL_TOML
 
 E = 200e9  # Pa (tests/steel.py)
@@ -64,22 +61,6 @@ type = "point"
 at = "3 m"
 fy = "-10 kN"
 """
-
-
-def run(*args: str | Path) -> object:
-    return CliRunner().invoke(app, [str(arg) for arg in args])
-
-
-def bad_input(result: object, *words: str) -> str:
-    """Exit 2, one line on stderr holding `words`, nothing on stdout, no traceback."""
-    assert result.exit_code == 2, (result.exit_code, result.stdout, result.stderr)
-    assert result.exception is None or isinstance(result.exception, SystemExit), result.exception
-    lines = result.stderr.strip().splitlines()
-    assert len(lines) == 1 and lines[0].startswith("sizer: "), result.stderr
-    assert "Traceback" not in result.stderr and result.stdout == ""
-    for word in words:
-        assert word in lines[0], (word, lines[0])
-    return lines[0]
 
 
 def files_in(folder: Path) -> set[str]:

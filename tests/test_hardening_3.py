@@ -21,7 +21,6 @@ from pathlib import Path
 
 import pytest
 import typer
-from typer.testing import CliRunner
 
 from sizer import cache_store, units
 from sizer.cli import app
@@ -33,6 +32,7 @@ from sizer.cluster import cluster_host_port
 from sizer.parallel import RUNS_FOLDER, _kept_path, keep, read_kept
 from sizer.workers import Workers, default_jobs
 from sizer.printable import printable, safe_console
+from tests.cli_runs import bad_input, run
 from tests.steel import STEEL_TOML
 
 CATALOGUE = STEEL_TOML + """
@@ -68,22 +68,6 @@ type = "point"
 at = "1 m"
 fy = "-0.2 kN"
 """
-
-
-def run(*args: str | Path) -> object:
-    return CliRunner().invoke(app, [str(arg) for arg in args])
-
-
-def bad_input(result: object, *words: str) -> str:
-    """Exit 2, one line on stderr holding `words`, nothing on stdout, no traceback."""
-    assert result.exit_code == 2, (result.exit_code, result.stdout, result.stderr)
-    assert result.exception is None or isinstance(result.exception, SystemExit), result.exception
-    lines = result.stderr.strip().splitlines()
-    assert len(lines) == 1 and lines[0].startswith("sizer: "), result.stderr
-    assert "Traceback" not in result.stderr and result.stdout == ""
-    for word in words:
-        assert word in lines[0], (word, lines[0])
-    return lines[0]
 
 
 @pytest.fixture
