@@ -543,3 +543,26 @@ def test_stock_lists_read_as_other_inputs(tmp_path: Path) -> None:
     stock.write_bytes(b"\xef\xbb\xbfname,depth,width\nF1,30 mm,8 mm\n")  # with a byte-order mark
     result = run("sections", "import", stock, "--shape", "rectangle")
     assert result.exit_code == 0 and 'name = "F1"' in result.stdout
+
+
+@pytest.mark.parametrize("mark, kept", [("=HYPERLINK(\"http://x\")", False), ("+1+cmd", False), ("-2+3", False), ("@SUM(A1)", False),
+                                        ("B-1", True), ("-1.5", True), ("1e3", True), ("Beam 3", True)])
+def test_a_csv_text_cell_never_starts_a_formula(mark: str, kept: bool) -> None:
+    """A text cell starting with = + - or @ that is not a number is written with a leading apostrophe
+    (OWASP, "CSV Injection", from memory); numbers and other text as they are."""
+    from sizer.render.schedule import _TextOnlyWriter
+
+    buffer = io.StringIO()
+    _TextOnlyWriter(buffer).writerow([mark, -2.5])
+    first, number = next(csv.reader(io.StringIO(buffer.getvalue())))
+    assert first == (mark if kept else "'" + mark) and float(number) == -2.5
+
+
+def test_a_schedule_csv_writes_a_formula_like_mark_as_text(folder: Path) -> None:
+    member(folder, with_section(BEAM))
+    schedule = folder / "s.csv"
+    schedule.write_text('mark,file\n"=1+2",m.toml\n', encoding="utf-8")
+    out = folder / "out.csv"
+    run("schedule", schedule, "--jobs", "1", "--csv", out)
+    rows = list(csv.reader(out.open(encoding="utf-8")))
+    assert rows[1][0] == "'=1+2"

@@ -76,13 +76,30 @@ def bars_to_order_text(entry: dict, system: str = "si") -> str:
 
 class _TextOnlyWriter:
     """A CSV writer whose text cells have their control characters written as visible escapes
-    (sizer.printable): a mark or name cannot send escape sequences to whoever prints the file."""
+    (sizer.printable): a mark or name cannot send escape sequences to whoever prints the file; nor
+    can it become a spreadsheet formula (`inert`)."""
 
     def __init__(self, out: io.StringIO) -> None:
         self.writer = csv.writer(out, lineterminator="\n")
 
     def writerow(self, cells: Sequence[Any]) -> None:
-        self.writer.writerow([printable(cell) if isinstance(cell, str) else cell for cell in cells])
+        self.writer.writerow([inert(printable(cell)) if isinstance(cell, str) else cell for cell in cells])
+
+
+FORMULA_STARTS = ("=", "+", "-", "@")  # what makes a spreadsheet read a cell as a formula (OWASP, CSV injection)
+
+
+def inert(text: str) -> str:
+    """A text cell that a spreadsheet opening the CSV file shows as text: one that starts as a formula
+    would ("=", "+", "-", "@") and is not a number gets a leading apostrophe (OWASP's advice on CSV
+    injection); numbers (a negative value's "-1.5") and other text are kept as they are."""
+    if not text.startswith(FORMULA_STARTS):
+        return text
+    try:
+        float(text)
+    except ValueError:
+        return "'" + text
+    return text
 
 
 def _csv_value(value: Any) -> Any:
