@@ -174,13 +174,18 @@ flow_help(app)
 
 def main() -> None:
     """Console entry point. The linear algebra here is many small matrices, where a multi-threaded
-    BLAS only spins: one thread each unless the user's environment says otherwise."""
+    BLAS only spins: one thread each unless the user's environment says otherwise. The methods of
+    the dataclasses it imports are compiled once and kept (sizer.method_cache)."""
+    from sizer import method_cache
+
     single_threaded_blas()
     fewer_collections()
+    methods = method_cache.install()
     try:
         code = run_app()
     finally:
         gc.freeze()  # the command is done: its objects end with the process, without a last full collection
+        method_cache.save(methods)
     raise SystemExit(code)
 
 
