@@ -2,7 +2,8 @@
 what is worked on, the bar, the count done, the time taken, an estimate of the time left and the
 name of the last item done. It appears only once `begin()` is called (so that rich's imports, some
 20 ms, delay no work, and a run with nothing to do shows none) and goes when the work is done,
-unless asked to stay (`transient=False`).
+unless asked to stay (`transient=False`); a bar that goes is not made at all where nobody sees it
+(stderr a file or a pipe).
 """
 
 from __future__ import annotations
@@ -29,15 +30,20 @@ class ProgressBar:
             self.bar.stop()
 
     def begin(self) -> None:
-        """Show the bar (once)."""
+        """Show the bar (once). A bar that goes when done draws nothing where stderr is neither a
+        terminal nor a notebook (rich writes a live display only there): then none is made."""
         if self.shown and self.bar is None:
-            from rich.progress import BarColumn, MofNCompleteColumn, Progress, TextColumn, TimeElapsedColumn, TimeRemainingColumn
-
             from sizer.printable import safe_console
+
+            console = safe_console(stderr=True)
+            if self.transient and not (console.is_terminal or console.is_jupyter):
+                self.shown = False
+                return
+            from rich.progress import BarColumn, MofNCompleteColumn, Progress, TextColumn, TimeElapsedColumn, TimeRemainingColumn
 
             self.bar = Progress(TextColumn(self.description), BarColumn(), MofNCompleteColumn(), TimeElapsedColumn(),
                                 TextColumn("left"), TimeRemainingColumn(), TextColumn("{task.fields[label]}", markup=False),
-                                console=safe_console(stderr=True), transient=self.transient)
+                                console=console, transient=self.transient)
             self.bar.start()
             self.task = self.bar.add_task(self.description, total=self.total, completed=self.done, label="")
 
