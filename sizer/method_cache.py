@@ -3,8 +3,8 @@ modules. Python 3.11 and 3.12 write each dataclass's __init__, __repr__, __eq__,
 __setattr__ and __delattr__ as source text and compile it at import, one compile per method: some
 500 compiles, about 40 ms of a `sizer size` run. `install()` has the dataclasses module compile each
 distinct text once and keep the code object; `save()` writes the code objects beside the package's
-compiled modules (its __pycache__ folder, or sys.pycache_prefix), so the next run reads them
-instead (about 1 ms).
+compiled modules (its __pycache__ folder, or sys.pycache_prefix; one file per top-level package of
+the classes: sizer, rich ...), so the next run reads them instead (about 2 ms for sizer's 500).
 
 Every class comes out exactly as the dataclasses module makes it: the code object of a text is what
 compiling that text gives (the same file name "<string>", no __future__ flags, the interpreter's
@@ -25,18 +25,19 @@ import sys
 from contextlib import suppress
 from pathlib import Path
 from types import CodeType
-from typing import Any
+from typing import Any, Callable
 
-MAX_ENTRIES = 5000  # beyond this many kept texts (old versions of edited classes), a save keeps only this run's
+MAX_ENTRIES = 5000  # beyond this many kept texts in a file (old versions of edited classes), a save keeps only this run's
 
 
-def cache_file() -> Path | None:
-    """Where the compiled methods are kept: sizer/__pycache__/dataclass_methods.<tag>.marshal (under
-    sys.pycache_prefix when set), or None when this interpreter keeps no bytecode (no cache tag)."""
+def cache_file(package: str) -> Path | None:
+    """Where the compiled methods of the classes of `package` (a top-level package: sizer, rich ...)
+    are kept: sizer/__pycache__/dataclass_methods_<package>.<tag>.marshal (under sys.pycache_prefix
+    when set), or None when this interpreter keeps no bytecode (no cache tag)."""
     from importlib.util import cache_from_source
 
     try:
-        compiled = cache_from_source(str(Path(__file__).with_name("dataclass_methods.py")))
+        compiled = cache_from_source(str(Path(__file__).with_name(f"dataclass_methods_{package}.py")))
     except NotImplementedError:  # sys.implementation.cache_tag is None
         return None
     return Path(compiled).with_suffix(".marshal")
@@ -49,25 +50,44 @@ def _magic() -> bytes:
 
 
 class MethodCache:
-    """Code objects by source text: the ones read from `path` and the ones compiled in this run."""
+    """Code objects by source text, one table per top-level package of the classes (each read from
+    its file when a class of that package is first made, so `sizer --help` reads only the few it
+    needs), and the tables this run added to."""
 
-    def __init__(self, path: Path | None) -> None:
-        self.path = path
-        self.codes: dict[str, CodeType] = read_codes(path) if path is not None else {}
-        self.used: set[str] = set()
-        self.added = 0
+    def __init__(self, where: Callable[[str], Path | None] = cache_file) -> None:
+        self.where = where
+        self.tables: dict[str, dict[str, CodeType]] = {}
+        self.used: dict[str, set[str]] = {}
+        self.grown: set[str] = set()
 
     def exec(self, source: Any, globals: Any = None, locals: Any = None, /, **options: Any) -> None:
-        """builtins.exec, with a source text compiled once and its code object kept."""
+        """builtins.exec, with a source text compiled once and its code object kept (`globals`, the
+        class's module namespace, names the package)."""
         if not isinstance(source, str) or options:
             builtins.exec(source, globals, locals, **options)
             return
-        code = self.codes.get(source)
+        package = _package(globals)
+        table = self.table(package)
+        code = table.get(source)
         if code is None:
-            code = self.codes[source] = compile(source, "<string>", "exec", dont_inherit=True)
-            self.added += 1
-        self.used.add(source)
+            code = table[source] = compile(source, "<string>", "exec", dont_inherit=True)
+            self.grown.add(package)
+        self.used.setdefault(package, set()).add(source)
         builtins.exec(code, globals, locals)
+
+    def table(self, package: str) -> dict[str, CodeType]:
+        """The code objects of `package`'s classes, read from its file on first use."""
+        if package not in self.tables:
+            path = self.where(package)
+            self.tables[package] = read_codes(path) if path is not None else {}
+        return self.tables[package]
+
+
+def _package(namespace: Any) -> str:
+    """The top-level package of a module namespace ("_" when it names none)."""
+    name = namespace.get("__name__") if isinstance(namespace, dict) else None
+    first = name.partition(".")[0] if isinstance(name, str) else ""
+    return first if first.isidentifier() else "_"
 
 
 def read_codes(path: Path) -> dict[str, CodeType]:
@@ -84,26 +104,33 @@ def read_codes(path: Path) -> dict[str, CodeType]:
     return {text: code for text, code in found.items() if isinstance(text, str) and isinstance(code, CodeType)}
 
 
-def install(path: Path | None = None) -> MethodCache:
-    """Have the dataclasses module compile through a MethodCache of `path` (default: cache_file())."""
+def install(where: Callable[[str], Path | None] = cache_file) -> MethodCache:
+    """Have the dataclasses module compile through a MethodCache whose files `where` names."""
     import dataclasses
 
-    cache = MethodCache(path if path is not None else cache_file())
+    cache = MethodCache(where)
     setattr(dataclasses, "exec", cache.exec)  # the module's global name, found before the builtin
     return cache
 
 
 def save(cache: MethodCache) -> None:
-    """Write the cache's code objects when this run compiled any (atomically: a temporary file, then a
-    rename); nothing when Python writes no bytecode or the folder cannot be written."""
-    if not cache.added or cache.path is None or sys.dont_write_bytecode:
+    """Write the tables this run added to (each atomically: a temporary file, then a rename); nothing
+    when Python writes no bytecode or where a folder cannot be written."""
+    if sys.dont_write_bytecode:
         return
-    kept = cache.codes if len(cache.codes) <= MAX_ENTRIES else {text: cache.codes[text] for text in cache.used}
-    temporary = cache.path.with_name(f"{cache.path.name}.{os.getpid()}.tmp")
+    for package in sorted(cache.grown):
+        path = cache.where(package)
+        if path is not None:
+            table = cache.tables[package]
+            _write(path, table if len(table) <= MAX_ENTRIES else {text: table[text] for text in cache.used[package]})
+
+
+def _write(path: Path, table: dict[str, CodeType]) -> None:
+    temporary = path.with_name(f"{path.name}.{os.getpid()}.tmp")
     try:
-        cache.path.parent.mkdir(parents=True, exist_ok=True)
-        temporary.write_bytes(_magic() + marshal.dumps(kept))
-        os.replace(temporary, cache.path)
+        path.parent.mkdir(parents=True, exist_ok=True)
+        temporary.write_bytes(_magic() + marshal.dumps(table))
+        os.replace(temporary, path)
     except (OSError, ValueError):
         with suppress(OSError):
             temporary.unlink(missing_ok=True)
