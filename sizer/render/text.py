@@ -21,12 +21,13 @@ INDENT = 2  # cells before a row's second line
 GAP = 2  # cells between ledger columns
 
 _UNIT_LABELS = sorted({unit.label for system in units.DISPLAY.values() for unit in system.values()} | {"%"}, key=len, reverse=True)
-_NUMBER_UNIT = re.compile(r"(?<=[\d.])( )(?=(?:" + "|".join(map(re.escape, _UNIT_LABELS)) + r")(?![\w⁰-⁹²³¹]))")
-_SYMBOL_EQUALS = re.compile(r"(?<=\S)( )(=)( )(?=\S)")
-_RANGE = re.compile(r"(?<=\d)( )(to)( )(?=[-+\d])")
-_OPERATOR = re.compile(r"(?<=\S)( )([/x×])( )(?=\S)")
-_AXIS_WORD = re.compile(r"(?<=\w)( )(?=\((?:major|minor)\))|(?<=\bEN)( )(?=[xyz]-[xyz])|(?<=AISC)( )(?=[xyz]-[xyz])")
-# "Iz (major)" and "EN y-y" stay on one line
+_NUMBER_UNIT = re.compile(r" (?<=[\d.] )(?=(?:" + "|".join(map(re.escape, _UNIT_LABELS)) + r")(?![\w⁰-⁹²³¹]))")
+_SYMBOL_EQUALS = re.compile(r" (?<=\S )= (?=\S)")
+_RANGE = re.compile(r" (?<=\d )to (?=[-+\d])")
+_OPERATOR = re.compile(r" (?<=\S )([/x×]) (?=\S)")
+_AXIS_WORD = re.compile(r" (?:(?<=\w )(?=\((?:major|minor)\))|(?<=\bEN )(?=[xyz]-[xyz])|(?<=AISC )(?=[xyz]-[xyz]))")
+# "Iz (major)" and "EN y-y" stay on one line. Each pattern starts with its space (then looks behind it), so
+# that the regular-expression engine finds its candidates by a fast search for the space.
 
 
 def glued(plain: str) -> str:
@@ -36,7 +37,7 @@ def glued(plain: str) -> str:
     text = _NUMBER_UNIT.sub("\xa0", plain)
     text = _AXIS_WORD.sub("\xa0", text)
     text = _SYMBOL_EQUALS.sub("\xa0=\xa0", text)
-    text = _OPERATOR.sub(lambda match: "\xa0" + match.group(2) + "\xa0", text)
+    text = _OPERATOR.sub(lambda match: "\xa0" + match.group(1) + "\xa0", text)
     text = text.replace(" ·", "\xa0·")
     return _RANGE.sub("\xa0to\xa0", text)
 
@@ -65,7 +66,10 @@ def _cell_offsets(plain: str) -> list[int]:
 
     if plain.isascii():
         return list(range(len(plain) + 1))
-    return list(accumulate((cell_len(character) for character in plain), initial=0))
+    widths = {character: cell_len(character) for character in set(plain)}
+    if all(width == 1 for width in widths.values()):
+        return list(range(len(plain) + 1))
+    return list(accumulate((widths[character] for character in plain), initial=0))
 
 
 def _line_breaks(plain: str, width: int, first: int, rest: int) -> list[tuple[int, int]]:
@@ -100,10 +104,11 @@ def wrap(text: Any, width: int, hang: int = 0) -> list[Any]:
     from rich.text import Text
 
     body = Text.from_markup(text) if isinstance(text, str) else text
-    plain = body.plain
+    breaks = _line_breaks(body.plain, width, width, width - hang)
+    pieces = body.divide([offset for line in breaks for offset in line])  # the lines, and what lies between them
     lines = []
-    for index, (start, end) in enumerate(_line_breaks(plain, width, width, width - hang)):
-        line = body[start:end]
+    for index in range(len(breaks)):
+        line = pieces[2 * index + 1]
         if index and hang:
             line = Text(" " * hang) + line
         lines.append(line)
@@ -185,24 +190,28 @@ class Ledger:
     def add_group(self, text: str) -> None:
         self.rows.append(Row([], group=text))
 
-    def _widths(self, shown: list[int]) -> dict[int, int]:
-        from rich.cells import cell_len
+    def _cells(self) -> list[list[Any]]:
+        """Each row's cells as rich Text (measured, then drawn: the markup is parsed once)."""
         from rich.text import Text
 
-        widths = {}
-        for i in shown:
-            cells = [cell_len(Text.from_markup(row.cells[i]).plain) for row in self.rows if not row.group]
-            widths[i] = max([cell_len(self.columns[i].header)] + cells)
-        return widths
+        return [[Text.from_markup(cell) for cell in row.cells] for row in self.rows]
 
-    def layout(self, width: int) -> tuple[list[int], dict[int, int]]:
-        """The columns kept on the row line and their widths: foldable columns leave from the right
-        until the rest fits; then wrap columns narrow (to no less than their header and 12 cells);
-        then, on a very narrow terminal, any column but the first leaves."""
+    def _widths(self, cells: list[list[Any]]) -> dict[int, int]:
+        """Each column's width: its widest cell or its header."""
+        from rich.cells import cell_len
+
+        lines = [row_cells for row, row_cells in zip(self.rows, cells) if not row.group]
+        return {i: max([cell_len(column.header)] + [cell_len(row_cells[i].plain) for row_cells in lines])
+                for i, column in enumerate(self.columns)}
+
+    def layout(self, width: int, cells: list[list[Any]]) -> tuple[list[int], dict[int, int]]:
+        """The columns kept on the row line and their widths (`cells`: the rows' cells as Text): foldable
+        columns leave from the right until the rest fits; then wrap columns narrow (to no less than
+        their header and 12 cells); then, on a very narrow terminal, any column but the first leaves."""
         from rich.cells import cell_len
 
         shown = list(range(len(self.columns)))
-        widths = self._widths(shown)
+        widths = self._widths(cells)
 
         def excess() -> int:
             return sum(widths[i] for i in shown) + GAP * (len(shown) - 1) - width
@@ -222,17 +231,18 @@ class Ledger:
         from rich.text import Text
 
         width = options.max_width
-        shown, widths = self.layout(width)
+        parsed = self._cells()
+        shown, widths = self.layout(width, parsed)
         folded = [i for i in range(len(self.columns)) if i not in shown]
         yield Paragraph(f"[bold]{self.title}[/]")
         header = [Text(self.columns[i].header, style="dim") for i in shown]
         yield from self._line(header, shown, widths, "")
         yield Text("─" * min(width, sum(widths[i] for i in shown) + GAP * (len(shown) - 1)), style="dim")
-        for row in self.rows:
+        for row, row_cells in zip(self.rows, parsed):
             if row.group:
                 yield Paragraph(f"[italic]{row.group}[/]")
                 continue
-            cells = [Text.from_markup(row.cells[i]) for i in shown]
+            cells = [row_cells[i] for i in shown]
             yield from self._line(cells, shown, widths, row.style)
             extra = " · ".join(f"{self.columns[i].header} {row.cells[i]}" for i in folded if row.cells[i])
             note = " · ".join(part for part in (row.note, extra) if part)
