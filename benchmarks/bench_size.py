@@ -43,8 +43,10 @@ from sizer.sections import shipped_library  # noqa: E402
 
 VENV_BIN = Path(sys.executable).parent
 SIZER = str(VENV_BIN / "sizer")
-# what `sizer size` imports before it sizes anything (the command line, the api, the renderer of its output)
-SIZE_IMPORTS = ("import sizer.cli, sizer.api, sizer.commands, sizer.inputfile, sizer.render.size, sizer.render.sections, sizer.sizing, "
+# what `sizer size` imports before it sizes anything (the command line, the api, the renderer of its output), as the
+# command does it: the command line first, then (sizer.cli.main) the kept compiled methods of dataclasses, then the rest
+SIZE_IMPORTS = ("import sizer.cli; from sizer import method_cache; method_cache.install(); "
+                "import sizer.api, sizer.commands, sizer.inputfile, sizer.render.size, sizer.render.sections, sizer.sizing, "
                 "rich.console, rich.panel")
 
 # An invented member: a mezzanine edge beam continuous over three supports with a short overhang,
