@@ -262,9 +262,12 @@ class Ledger:
             for n, (lines, i, column) in enumerate(zip(wrapped, shown, columns)):
                 cell = lines[k] if k < len(lines) else Text("")
                 pad = " " * max(0, widths[i] - cell.cell_len)
-                line += Text(pad) + cell if column.right else cell + Text(pad)
+                if column.right:
+                    line.append(pad).append(cell)
+                else:
+                    line.append(cell + pad)  # the cell's own style reaches over its padding
                 if n < len(shown) - 1:
-                    line += Text(" " * GAP)
+                    line.append(" " * GAP)
             line.rstrip()
             if style:
                 line.stylize(style)
