@@ -65,8 +65,6 @@ def run_forces(file: Path, cuts: list[float], combination: str | None, catalogue
 def run_check(file: Path, section: str | None, catalogue: Sequence[Path], json_output: bool, plot: Path | None, system: str) -> int:
     """`sizer check`: exit 0 when the section passes every check, 1 when it fails."""
     from sizer import api
-    from sizer.render.check import print_check
-    from sizer.render.common import console
 
     _check_plot(plot, [file, *catalogue])
     outcome = api.check(file, section, catalogue, system)
@@ -79,6 +77,9 @@ def run_check(file: Path, section: str | None, catalogue: Sequence[Path], json_o
     if json_output:
         _print_document(outcome.to_json())
     else:
+        from sizer.render.check import print_check
+        from sizer.render.common import console
+
         print_check(console(), outcome.design, outcome.report, outcome.notes, system)
     return 0 if outcome.passes else 1
 
@@ -89,9 +90,7 @@ def run_size(file: Path, catalogue: Sequence[Path], families: list[str], max_dep
     """`sizer size`: exit 0 when a section passes, 1 when none does. `report_out`: also write the
     calculation record of the chosen section there (a line on stderr says where, or why not)."""
     from sizer import api
-    from sizer.render.common import console
     from sizer.render.sections import with_build_progress
-    from sizer.render.size import print_size
 
     if report_out is not None:
         from sizer.render.report import check_report_path
@@ -108,6 +107,9 @@ def run_size(file: Path, catalogue: Sequence[Path], families: list[str], max_dep
     if json_output:
         _print_document(outcome.to_json())
     else:
+        from sizer.render.common import console
+        from sizer.render.size import print_size  # the terminal's renderers only where drawn
+
         print_size(console(), outcome.result, outcome.notes, top, system)
     if report_out is not None:
         _write_chosen_record(outcome, report_out, system)
