@@ -47,7 +47,6 @@ import hashlib
 import hmac
 import json
 import os
-import secrets
 import stat
 import sys
 from dataclasses import fields, is_dataclass
@@ -245,6 +244,8 @@ def _secret_of(root: str) -> bytes:
     found = _trusted_secret(path)
     if found is not None:
         return found
+    import secrets  # only when a secret is made (random and base64 with it, 1.4 ms)
+
     made = secrets.token_bytes(SECRET_BYTES)
     try:
         _store_secret(path, made)
@@ -275,6 +276,8 @@ def _trusted_secret(path: Path) -> bytes | None:
 def _store_secret(path: Path, secret: bytes) -> None:
     """Write the secret owner-only, whole: a temporary file (mode 0600) moved into place. A secret
     another process stored meanwhile is kept when it is trusted (both then read the same one)."""
+    import secrets
+
     path.parent.mkdir(parents=True, exist_ok=True)
     temporary = path.with_name(f".{SECRET_NAME}.{os.getpid()}.{secrets.token_hex(4)}")
     descriptor = os.open(temporary, os.O_WRONLY | os.O_CREAT | os.O_EXCL, 0o600)
