@@ -4,7 +4,9 @@ __setattr__ and __delattr__ as source text and compile it at import, one compile
 500 compiles, about 40 ms of a `sizer size` run. `install()` has the dataclasses module compile each
 distinct text once and keep the code object; `save()` writes the code objects beside the package's
 compiled modules (its __pycache__ folder, or sys.pycache_prefix; one file per top-level package of
-the classes: sizer, rich ...), so the next run reads them instead (about 2 ms for sizer's 500).
+the classes: sizer, rich ...), so the next run reads them instead (about 2 ms for sizer's 500). A
+module that made classes in a run keeps just the texts it used, so an edited class's old methods go
+when the new ones are written, as a module's old .pyc does.
 
 Every class comes out exactly as the dataclasses module makes it: the code object of a text is what
 compiling that text gives (the same file name "<string>", no __future__ flags, the interpreter's
@@ -27,7 +29,7 @@ from pathlib import Path
 from types import CodeType
 from typing import Any, Callable
 
-MAX_ENTRIES = 5000  # beyond this many kept texts in a file (old versions of edited classes), a save keeps only this run's
+Table = dict[str, dict[str, CodeType]]  # module name -> source text -> code object
 
 
 def cache_file(package: str) -> Path | None:
@@ -50,49 +52,55 @@ def _magic() -> bytes:
 
 
 class MethodCache:
-    """Code objects by source text, one table per top-level package of the classes (each read from
-    its file when a class of that package is first made, so `sizer --help` reads only the few it
-    needs), and the tables this run added to."""
+    """Code objects by module and source text, one table per top-level package of the classes (each
+    read from its file when a class of that package is first made, so `sizer --help` reads only the
+    few it needs); the texts each module used in this run, and the packages whose table grew."""
 
     def __init__(self, where: Callable[[str], Path | None] = cache_file) -> None:
         self.where = where
-        self.tables: dict[str, dict[str, CodeType]] = {}
+        self.tables: dict[str, Table] = {}
         self.used: dict[str, set[str]] = {}
         self.grown: set[str] = set()
 
     def exec(self, source: Any, globals: Any = None, locals: Any = None, /, **options: Any) -> None:
         """builtins.exec, with a source text compiled once and its code object kept (`globals`, the
-        class's module namespace, names the package)."""
+        class's module namespace, names the module)."""
         if not isinstance(source, str) or options:
             builtins.exec(source, globals, locals, **options)
             return
-        package = _package(globals)
-        table = self.table(package)
-        code = table.get(source)
+        module = _module(globals)
+        package = module.partition(".")[0]
+        codes = self.table(package).setdefault(module, {})
+        code = codes.get(source)
         if code is None:
-            code = table[source] = compile(source, "<string>", "exec", dont_inherit=True)
+            code = codes[source] = compile(source, "<string>", "exec", dont_inherit=True)
             self.grown.add(package)
-        self.used.setdefault(package, set()).add(source)
+        self.used.setdefault(module, set()).add(source)
         builtins.exec(code, globals, locals)
 
-    def table(self, package: str) -> dict[str, CodeType]:
-        """The code objects of `package`'s classes, read from its file on first use."""
+    def table(self, package: str) -> Table:
+        """The code objects of `package`'s classes by module, read from its file on first use."""
         if package not in self.tables:
             path = self.where(package)
-            self.tables[package] = read_codes(path) if path is not None else {}
+            self.tables[package] = read_table(path) if path is not None else {}
         return self.tables[package]
 
+    def kept(self, package: str) -> Table:
+        """What to write for `package`: for each module that made classes in this run, the texts it
+        used (an edited class's old text goes, as a module's old .pyc does); the others as read."""
+        return {module: {text: codes[text] for text in self.used[module]} if module in self.used else codes
+                for module, codes in self.tables[package].items()}
 
-def _package(namespace: Any) -> str:
-    """The top-level package of a module namespace ("_" when it names none)."""
+
+def _module(namespace: Any) -> str:
+    """The module a namespace belongs to ("_" when it names none, or not as a dotted name)."""
     name = namespace.get("__name__") if isinstance(namespace, dict) else None
-    first = name.partition(".")[0] if isinstance(name, str) else ""
-    return first if first.isidentifier() else "_"
+    return name if isinstance(name, str) and all(part.isidentifier() for part in name.split(".")) else "_"
 
 
-def read_codes(path: Path) -> dict[str, CodeType]:
-    """The kept code objects of `path`; empty when the file is missing, damaged or of another
-    interpreter."""
+def read_table(path: Path) -> Table:
+    """The kept code objects of `path` by module; empty when the file is missing, damaged or of
+    another interpreter."""
     magic = _magic()
     try:
         data = path.read_bytes()
@@ -101,7 +109,8 @@ def read_codes(path: Path) -> dict[str, CodeType]:
         return {}
     if not isinstance(found, dict):
         return {}
-    return {text: code for text, code in found.items() if isinstance(text, str) and isinstance(code, CodeType)}
+    return {module: {text: code for text, code in codes.items() if isinstance(text, str) and isinstance(code, CodeType)}
+            for module, codes in found.items() if isinstance(module, str) and isinstance(codes, dict)}
 
 
 def install(where: Callable[[str], Path | None] = cache_file) -> MethodCache:
@@ -114,18 +123,17 @@ def install(where: Callable[[str], Path | None] = cache_file) -> MethodCache:
 
 
 def save(cache: MethodCache) -> None:
-    """Write the tables this run added to (each atomically: a temporary file, then a rename); nothing
-    when Python writes no bytecode or where a folder cannot be written."""
+    """Write the tables this run added to (MethodCache.kept; each atomically: a temporary file, then
+    a rename); nothing when Python writes no bytecode or where a folder cannot be written."""
     if sys.dont_write_bytecode:
         return
     for package in sorted(cache.grown):
         path = cache.where(package)
         if path is not None:
-            table = cache.tables[package]
-            _write(path, table if len(table) <= MAX_ENTRIES else {text: table[text] for text in cache.used[package]})
+            _write(path, cache.kept(package))
 
 
-def _write(path: Path, table: dict[str, CodeType]) -> None:
+def _write(path: Path, table: Table) -> None:
     temporary = path.with_name(f"{path.name}.{os.getpid()}.tmp")
     try:
         path.parent.mkdir(parents=True, exist_ok=True)

@@ -71,7 +71,23 @@ def test_a_second_run_reads_the_kept_methods_and_compiles_none(tmp_path: Path, r
     assert [path.name for path in tmp_path.iterdir()] == [f"{package}.marshal"]
     second = method_cache.install(lambda name: tmp_path / f"{name}.marshal")
     assert behaviour(*make_classes()) == reference
-    assert second.grown == set() and second.used[package] == set(second.tables[package]) == set(first.tables[package])
+    assert second.grown == set() and second.used[__name__] == set(second.tables[package][__name__]) == first.used[__name__]
+
+
+def test_an_edited_class_leaves_no_old_methods_behind(tmp_path: Path, restored: None, monkeypatch: pytest.MonkeyPatch) -> None:
+    monkeypatch.setattr(sys, "dont_write_bytecode", False)
+    package = __name__.partition(".")[0]
+
+    def made(field_name: str) -> method_cache.MethodCache:
+        """One run: the module makes one class whose field is `field_name` (an edit between runs)."""
+        cache = method_cache.install(lambda name: tmp_path / f"{name}.marshal")
+        dataclasses.make_dataclass("Edited", [(field_name, float)], frozen=True, namespace={"__module__": __name__})
+        method_cache.save(cache)
+        return cache
+
+    before, after = made("length"), made("span")
+    kept = method_cache.read_table(tmp_path / f"{package}.marshal")[__name__]
+    assert set(kept) == after.used[__name__] and not set(kept) & before.used[__name__]
 
 
 def test_nothing_is_written_when_python_writes_no_bytecode(tmp_path: Path, restored: None, monkeypatch: pytest.MonkeyPatch) -> None:
@@ -86,7 +102,7 @@ def test_nothing_is_written_when_python_writes_no_bytecode(tmp_path: Path, resto
 def test_a_damaged_or_foreign_file_reads_as_empty(tmp_path: Path, content: bytes) -> None:
     path = tmp_path / "methods.marshal"
     path.write_bytes(content)
-    assert method_cache.read_codes(path) == {}
+    assert method_cache.read_table(path) == {}
 
 
 def test_a_file_of_the_right_interpreter_holding_other_data_reads_as_empty(tmp_path: Path) -> None:
@@ -95,9 +111,9 @@ def test_a_file_of_the_right_interpreter_holding_other_data_reads_as_empty(tmp_p
 
     path = tmp_path / "methods.marshal"
     path.write_bytes(MAGIC_NUMBER + marshal.dumps(["a list", "not a table"]))
-    assert method_cache.read_codes(path) == {}
+    assert method_cache.read_table(path) == {}
     path.write_bytes(MAGIC_NUMBER + marshal.dumps({"text": "not code", 3: compile("x = 1", "<string>", "exec")}))
-    assert method_cache.read_codes(path) == {}
+    assert method_cache.read_table(path) == {}
 
 
 def test_a_folder_that_cannot_be_written_is_no_error(tmp_path: Path, restored: None, monkeypatch: pytest.MonkeyPatch) -> None:
