@@ -104,15 +104,22 @@ def wrap(text: Any, width: int, hang: int = 0) -> list[Any]:
     from rich.text import Text
 
     body = Text.from_markup(text) if isinstance(text, str) else text
-    breaks = _line_breaks(body.plain, width, width, width - hang)
-    pieces = body.divide([offset for line in breaks for offset in line])  # the lines, and what lies between them
     lines = []
-    for index in range(len(breaks)):
-        line = pieces[2 * index + 1]
+    for index, line in enumerate(_sliced(body, _line_breaks(body.plain, width, width, width - hang))):
         if index and hang:
             line = Text(" " * hang) + line
         lines.append(line)
     return lines
+
+
+def _sliced(body: Any, breaks: list[tuple[int, int]]) -> list[Any]:
+    """body[start:end] for each (start, end) of `breaks`: by one division of the text at every break
+    (the lines, and what lies between them) where the breaks run in order, else slice by slice."""
+    offsets = [offset for line in breaks for offset in line]
+    if any(later < earlier for earlier, later in zip(offsets, offsets[1:])):
+        return [body[start:end] for start, end in breaks]
+    pieces = body.divide(offsets)
+    return [pieces[2 * index + 1] for index in range(len(breaks))]
 
 
 class Paragraph:
