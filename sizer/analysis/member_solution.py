@@ -189,6 +189,27 @@ class MemberSolution:
         stack.append(self.self_weight.reactions if self.self_weight is not None else np.zeros((len(self.member.supports), 6)))
         return np.tensordot(self.combination_weights(combinations), np.stack(stack), axes=1) + 0.0
 
+    def section_reactions(self, masses: np.ndarray | None) -> np.ndarray:
+        """(S, n_combinations, n_supports, 6) the reactions of every combination with each self-weight
+        mass per length of `masses` (S,) (kg/m; None: no self weight, S = 1): for each mass the same
+        product as combination_reactions on with_mass(mass), without a solution object per mass (the
+        reactions of a member without springs do not depend on its uniform rigidities)."""
+        if masses is not None and self._self_weight_error is not None:
+            raise self._self_weight_error
+        stack = [case.reactions for case in self.cases.values()]
+        stack.append(self.self_weight.reactions if self.self_weight is not None else np.zeros((len(self.member.supports), 6)))
+        each = np.stack(stack).reshape(len(stack), -1)
+        cases, weight = self._factors()
+        table = np.zeros((len(cases), len(stack)))  # weights(mass), one mass at a time
+        table[:, :-1] = cases
+        found = np.empty((1 if masses is None else len(masses), len(cases), each.shape[1]))
+        for k, mass in enumerate([] if masses is None else np.asarray(masses, dtype=float).tolist()):
+            table[:, -1] = weight * mass * GRAVITY
+            found[k] = np.dot(table, each)  # np.tensordot's product in combination_reactions, the same operands
+        if masses is None:
+            found[0] = np.dot(table, each)
+        return found.reshape(len(found), len(cases), -1, 6) + 0.0
+
     def displacements(self, combination: str, x: ArrayLike, side: str | ArrayLike = "right") -> np.ndarray:
         """(n, 6) ux, uy, uz, rx, ry, rz of one combination; ValueError without stiffness."""
         return self.weighted_displacements(self._row(combination)[None, :], x, side)[0]

@@ -39,6 +39,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, replace
+from typing import TYPE_CHECKING, Callable, Iterable, Sequence
 
 import numpy as np
 
@@ -46,8 +47,12 @@ from sizer.checks.reduction import PLATEAU_SHEAR, reduced_allowable, slenderness
 from sizer.checks.results import ZERO_ACTION, CheckResult
 from sizer.design import Design
 from sizer.errors import InputError
-from sizer.model import Member, PointLoad
+from sizer.model import Material, Member, PointLoad
 from sizer.phrase import joined, phrase, q
+
+if TYPE_CHECKING:
+    from sizer.analysis import MemberSolution
+    from sizer.sections.spec import SectionSpec
 
 METHOD = ("AISC 360-16 J10.2 (web local yielding: bearing at the toe of the fillet), J10.3 (web crippling) and J10.5 "
           "(web compression buckling under a load directly over a support)")
@@ -139,13 +144,20 @@ class Concentrated:
 def concentrated_forces(design: Design) -> list[Concentrated]:
     """Every support's reaction and every point load position, forces in section axes."""
     solution = design.solution
-    member = solution.member
     names = solution.combination_names
-    turn = (lambda f: np.stack([f[:, 0], f[:, 2], -f[:, 1]], axis=1)) if member.orientation == "minor" else (lambda f: f)
+    reactions = solution.combination_reactions(names)[..., :3] if solution.member.supports else np.zeros((len(names), 0, 3))
+    return concentrated_on(solution.member, names, reactions)
+
+
+def concentrated_on(member: Member, names: Sequence[str], reactions: np.ndarray) -> list[Concentrated]:
+    """Every support's reaction and every point load position of `member` in the combinations `names`,
+    forces in section axes; `reactions` (..., C, n_supports, 3) along member x, y, z (a leading axis
+    for many sections gives each support's forces that axis too; a point load's are (C, 3))."""
+    turn = (lambda f: np.stack([f[..., 0], f[..., 2], -f[..., 1]], axis=-1)) if member.orientation == "minor" else (lambda f: f)
     found = []
-    reactions = solution.combination_reactions(names)[..., :3].transpose(1, 0, 2) if member.supports else np.zeros((0, len(names), 3))
     for index, support in enumerate(member.supports):
-        found.append(Concentrated(f"support S{index + 1} ({support.label})", support.at, turn(reactions[index]), support.bearing, support.stiffened))
+        found.append(Concentrated(f"support S{index + 1} ({support.label})", support.at, turn(reactions[..., index, :]), support.bearing,
+                                  support.stiffened))
     tol = 1e-9 * member.length
     loads = [load for load in member.loads if isinstance(load, PointLoad) and any(load.force)]
     positions: list[float] = []
@@ -164,13 +176,17 @@ def concentrated_forces(design: Design) -> list[Concentrated]:
 def web_yield_strength(design: Design) -> tuple[float, str]:
     """Fy for the web formulas (Pa) and how it was found; bad input when neither a yield strength nor
     an allowable stress is given."""
-    material = design.known_material
+    return yield_strength_for_webs(design.known_material, design.member.source)
+
+
+def yield_strength_for_webs(material: Material, source: str) -> tuple[float, str]:
+    """Fy of `material` for the web formulas (Pa) and how it was found (see web_yield_strength)."""
     if material.yield_strength:
         return material.yield_strength, "yield strength"
     allow = material.allowable
     given = [v for v in (allow.tension, allow.compression, allow.bending, allow.shear, allow.equivalent) if v is not None]
     if not given:
-        raise InputError(material.source or design.member.source, f"materials.{material.name}.yield_strength",
+        raise InputError(material.source or source, f"materials.{material.name}.yield_strength",
                          "the web check under concentrated forces needs the yield strength, which is not given",
                          f'add yield_strength = "... MPa" under [materials.{material.name}]')
     return max(given), "no yield strength given: Fy taken as the largest allowable stress (the safe side)"
@@ -262,6 +278,90 @@ def _pair_result(design: Design, load: Concentrated, support: Concentrated, web:
              "bearing": min(load.bearing, support.bearing), "yield_strength": fy, "governing_limit": "web compression buckling"}
     return CheckResult("web", float(force[c] / allowable), float(force[c]), allowable, load.at, design.solution.combination_names[c],
                        quantity="force", detail=detail, extra=extra)
+
+
+@dataclass(frozen=True)
+class WebColumns:
+    """The webs along one axis of many sections, as arrays (S,) (see Web; `has`: the section has webs
+    along that axis, the other columns 1 where not); the powers of the formulas taken in Python
+    floats, as the one-web formulas take them (numpy's vectorized powers may round otherwise)."""
+
+    has: np.ndarray
+    depth: np.ndarray
+    tw: np.ndarray
+    tf: np.ndarray
+    k: np.ndarray
+    webs: np.ndarray
+    thin: np.ndarray  # (tw / tf)^1.5
+    tw2: np.ndarray  # tw^2
+    tw3: np.ndarray  # tw^3
+
+
+def web_columns(webs: Sequence[list[Web]], axis: int) -> WebColumns:
+    """WebColumns along `axis` (1: section y; 2: section z) of sections with the webs `webs` (section_webs)."""
+    found = [next((web for web in each if web.axis == axis), None) for each in webs]
+    kept = [web or Web(axis, 1.0, 1.0, 1.0, 0.0, 1, 1.0) for web in found]
+    def column(values: Iterable[float]) -> np.ndarray:
+        return np.fromiter(values, float, len(kept))
+    return WebColumns(np.array([web is not None for web in found], bool), column(w.depth for w in kept), column(w.tw for w in kept),
+                      column(w.tf for w in kept), column(w.k for w in kept), column(w.webs for w in kept),
+                      column((w.tw / w.tf) ** 1.5 for w in kept), column(w.tw**2 for w in kept), column(w.tw**3 for w in kept))
+
+
+def web_utilizations(solution: MemberSolution, material: Material, specs: Sequence[SectionSpec], masses: np.ndarray | None) -> np.ndarray:
+    """(S,) the utilization web_check finds for each section of `specs` (0 where it makes none), each
+    with its self-weight of `masses` (S,) kg/m (None: no self weight) on `solution`, a solution of the
+    member without springs (its reactions do not depend on the section's rigidities): the same AISC
+    360-16 J10 formulas as the one-web functions above (eqs. J10-2, J10-3, J10-4, J10-5a, J10-5b,
+    J10-8, see docs/references.md), elementwise over the sections, for a screen of many. NaN where
+    the check needs a yield strength that is not given (web_check says so)."""
+    member, names = solution.member, solution.combination_names
+    each = [section_webs(spec.shape, spec.dims) for spec in specs]
+    axes = sorted({web.axis for webs in each for web in webs})
+    reactions = solution.section_reactions(masses)[..., :3] if member.supports and axes else np.zeros((1, len(names), 0, 3))
+    items = [item for item in concentrated_on(member, names, reactions) if not item.stiffened] if axes else []
+    demands = []  # (webs along one axis, the force (S,) over every combination, the allowable as a function of Fy)
+    for axis in axes:
+        webs = web_columns(each, axis)
+        for item in items:
+            force = np.broadcast_to(np.abs(item.forces[..., axis]), (len(specs), len(names))).max(axis=1)
+            demands.append((webs, force, _bearing_allowable(webs, item, member.length, material.elastic_modulus)))
+        for load, support in opposed_pairs(items, member.length):
+            pushed, held = load.forces[..., axis], support.forces[..., axis]
+            force = np.broadcast_to(np.where(pushed * held < 0, np.minimum(np.abs(pushed), np.abs(held)), 0.0), (len(specs), len(names)))
+            demands.append((webs, force.max(axis=1), _buckling_allowable(webs, load, member.length, material.elastic_modulus)))
+    made = [(webs.has & (force > ZERO_ACTION), force, allowable) for webs, force, allowable in demands]
+    found = np.zeros(len(specs))
+    if not any(where.any() for where, _, _ in made):
+        return found
+    try:
+        fy = yield_strength_for_webs(material, member.source)[0]
+    except InputError:
+        return np.where(np.logical_or.reduce([where for where, _, _ in made]), np.nan, found)
+    for where, force, allowable in made:
+        found = np.where(where, np.maximum(found, force / np.where(where, allowable(fy), 1.0)), found)
+    return found
+
+
+def _bearing_allowable(webs: WebColumns, item: Concentrated, length: float, E: float) -> Callable[[float], np.ndarray]:
+    """Fy -> (S,) min(web local yielding, web crippling) / Omega under one concentrated force (as _web_result)."""
+    end = min(item.at, length - item.at)
+    yield_end, crippling_end = end <= webs.depth, end < webs.depth / 2
+    ratio = item.bearing / webs.depth
+    factor = np.where(~crippling_end, 0.80 * (1 + 3 * ratio * webs.thin),
+                      np.where(ratio <= 0.2, 0.40 * (1 + 3 * ratio * webs.thin), 0.40 * (1 + (4 * ratio - 0.2) * webs.thin)))
+    def allowable(fy: float) -> np.ndarray:
+        yielding = webs.webs * fy * webs.tw * (np.where(yield_end, 2.5, 5.0) * webs.k + item.bearing) / OMEGA_YIELDING  # eqs. J10-2, J10-3
+        crippling = webs.webs * factor * webs.tw2 * np.sqrt(E * fy * webs.tf / webs.tw) / OMEGA_CRIPPLING  # eqs. J10-4, J10-5a, J10-5b
+        return np.minimum(yielding, crippling)
+    return allowable
+
+
+def _buckling_allowable(webs: WebColumns, load: Concentrated, length: float, E: float) -> Callable[[float], np.ndarray]:
+    """Fy -> (S,) web compression buckling / Omega under a load over a support (as _pair_result; eq. J10-8)."""
+    end = min(load.at, length - load.at)
+    half = np.where(end < webs.depth / 2, 0.5, 1.0)
+    return lambda fy: webs.webs * 24.0 * webs.tw3 * math.sqrt(E * fy) / (webs.depth - 2 * webs.k) * half / OMEGA_COMPRESSION
 
 
 def web_notes(design: Design) -> list[str]:

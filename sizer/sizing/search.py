@@ -63,6 +63,7 @@ class Search:
     bounded: dict[int, int] = field(default_factory=dict)  # candidate index -> stability epoch of its bounds
     reveal_count: int = 1  # candidates revealed together next: doubles while revealed ones keep failing
     seeded_rows: set[int] = field(default_factory=set)  # candidates whose own shapes the stability bounds took (seeded)
+    webs: np.ndarray | None = None  # each candidate's web check (sizer.checks.web), -1 until made (see web_utilization)
 
     def compute(self, candidates: Sequence[Candidate]) -> None:
         """Make sure the warping tiers and stress fields of `candidates` are cached (on the workers
@@ -147,16 +148,22 @@ class Search:
     def web_utilization(self, candidate: Candidate) -> float:
         """The full check's own web check under concentrated forces (sizer.checks.web): it needs the
         section's dimensions and the reactions alone, which do not depend on its rigidities (the
-        unit-rigidity solution with its self-weight), so it is exact here (0 where not made)."""
-        from sizer.checks.web import no_web_reason, web_check
-        from sizer.design import Design
+        unit-rigidity solution with its self-weight), so it is exact here (0 where not made). Made for
+        the BATCH of candidates from this one at once, when first asked for."""
+        from sizer.checks.web import yield_strength_for_webs, web_utilizations
 
-        if no_web_reason(candidate.spec.shape) or self.base is None:
+        if self.base is None:
             return 0.0
-        mass = candidate.mass_per_length if self.member.self_weight_case else None
-        solution = self.base.with_mass(mass)  # the unit-rigidity solution: its reactions are the section's
-        design = Design(self.member, solution, self.material, candidate.spec, mass_per_length=candidate.mass_per_length)
-        return web_check(design).utilization or 0.0
+        if self.webs is None:
+            self.webs = np.full(len(self.candidates), -1.0)
+        if self.webs[candidate.index] < 0.0:
+            rows = slice(candidate.index, candidate.index + BATCH)
+            masses = self.table.mass[rows] if self.member.self_weight_case else None
+            self.webs[rows] = web_utilizations(self.base, self.material, self.table.specs[rows], masses)
+        value = float(self.webs[candidate.index])
+        if np.isnan(value):  # the check needs a yield strength that is not given: its own error
+            yield_strength_for_webs(self.material, self.member.source)
+        return value
 
     def passes_in_full(self, candidate: Candidate, learn: bool = True) -> bool:
         """False at once when a proven lower bound rules the candidate out, first from the geometric
