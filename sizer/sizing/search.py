@@ -17,7 +17,7 @@ from sizer.model import Material, Member, Stiffness
 from sizer.sections.properties import AnalysisWorkers
 from sizer.sizing.candidates import Candidate, CandidateTable, candidate_sections, design_for
 from sizer.sizing.cost import Ranking
-from sizer.sizing.screen import Screen, local_lower_bound, prove_lower_bounds, rescreen, screen
+from sizer.sizing.screen import Screen, local_lower_bounds, local_rows, prove_lower_bounds, rescreen, screen
 from sizer.sizing.stability_bounds import StabilityBounds
 from sizer.stability import MemberStability
 from sizer.stability.second_order import share_first_level
@@ -64,6 +64,7 @@ class Search:
     reveal_count: int = 1  # candidates revealed together next: doubles while revealed ones keep failing
     seeded_rows: set[int] = field(default_factory=set)  # candidates whose own shapes the stability bounds took (seeded)
     webs: np.ndarray | None = None  # each candidate's web check (sizer.checks.web), -1 until made (see web_utilization)
+    locals: dict[int, tuple[tuple[int, ...], float | None]] = field(default_factory=dict)  # candidate -> (its rows, local bound) made
 
     def compute(self, candidates: Sequence[Candidate]) -> None:
         """Make sure the warping tiers and stress fields of `candidates` are cached (on the workers
@@ -140,10 +141,24 @@ class Search:
             if candidate.certainly_fails:
                 return True
         if "local" not in candidate.bounds:
-            local = local_lower_bound(found, candidate.index, self.member, self.material)
+            local = self.local_bound(candidate)
             if local is not None:
                 candidate.raise_bound("local", local)
         return candidate.certainly_fails
+
+    def local_bound(self, candidate: Candidate) -> float | None:
+        """local_lower_bound of the candidate (sizer.sizing.screen), made together for it and the open
+        candidates of the BATCH after it, each kept with the rows it looked at (a reveal may move a
+        candidate's worst rows: its value is then made again)."""
+        found = self.found
+        assert found is not None
+        made = self.locals.get(candidate.index)
+        if made is None or made[0] != tuple(local_rows(found, candidate.index)):
+            open_ = [c.index for c in self.candidates[candidate.index:candidate.index + BATCH]
+                     if c is candidate or (c.report is None and "local" not in c.bounds and not c.certainly_fails)]
+            for index, value in zip(open_, local_lower_bounds(found, open_, self.member, self.material)):
+                self.locals[index] = (tuple(local_rows(found, index)), value)
+        return self.locals[candidate.index][1]
 
     def web_utilization(self, candidate: Candidate) -> float:
         """The full check's own web check under concentrated forces (sizer.checks.web): it needs the

@@ -1,10 +1,17 @@
-"""The web check of many sections at once (sizer.checks.web.web_utilizations, the sizing's web bound)
+"""The sizing's bounds made for many candidates at once against the same bound of one candidate.
+
+The web check of many sections at once (sizer.checks.web.web_utilizations, the sizing's web bound)
 against the check of one section (web_check on a Design of that section), on the examples' members and
 catalogues and on random members (hypothesis). The formulas are AISC 360-16 J10 eqs. J10-2, J10-3,
 J10-4, J10-5a, J10-5b and J10-8 (from memory; docs/references.md); both sides use them, so the test is
 that the sections' arrays reproduce the one-section check to 1e-12 (relative), every branch included
 (end and interior formulas, lb/d on either side of 0.2, a load over a support, stiffeners, tubes,
 minor orientation, self-weight); tests/test_webs.py holds the one-section check to worked values.
+
+The local-buckling bound of many candidates at once (sizer.sizing.screen.local_lower_bounds) against
+each candidate's alone (local_lower_bound), before and after some candidates' warping tiers are
+revealed (which moves their worst rows): the rows of each padded with copies of its first, which may
+not change any value (exact equality).
 """
 
 from __future__ import annotations
@@ -22,7 +29,11 @@ from sizer.checks.web import web_check, web_utilizations
 from sizer.design import Design, catalogue_for, resolve_material
 from sizer.model import Material, Member, Stiffness
 from sizer.sections.geometric import geometric_scalars
+from sizer.sections.properties import AnalysisWorkers
 from sizer.sections.spec import SectionSpec
+from sizer.sizing.candidates import candidate_sections
+from sizer.sizing.screen import local_lower_bound, local_lower_bounds
+from sizer.sizing.search import Search, prepare_screen
 from tests.steel import STEEL_TOML
 
 EXAMPLES = sorted(path for path in (Path(__file__).parent.parent / "examples").rglob("*.toml") if "\n[member]" in path.read_text())
@@ -118,3 +129,24 @@ def test_web_bounds_without_a_yield_strength_are_nan_where_the_check_refuses() -
     specs = [i_section("I", "i_beam", 0.3, 0.15, 0.0107, 0.0071, 0.015), SectionSpec("R", "rectangle", {"depth": 0.1, "width": 0.02})]
     found = at_once(member, member.materials["steel"], specs, None)
     assert np.isnan(found[0]) and found[1] == 0.0
+
+
+@pytest.mark.parametrize("path", [path for path in EXAMPLES if path.stem in ("platform_joist", "main_beam", "edge_beam")], ids=lambda path: path.stem)
+def test_local_bounds_of_many_candidates_equal_each_alone(path: Path) -> None:
+    member = read_member(path)
+    catalogue = catalogue_for(member, [])
+    material = resolve_material(member, catalogue)
+    with AnalysisWorkers() as workers:
+        candidates, table = candidate_sections(catalogue, member, material, (), None, None, lazy=True)
+        search = Search(member, material, candidates, table, workers)
+        prepare_screen(search, table)
+        found = search.found
+        assert found is not None
+        every = list(range(len(candidates)))
+        for step in range(2):
+            alone = [local_lower_bound(found, index, member, material) for index in every]
+            assert local_lower_bounds(found, every, member, material) == alone
+            assert local_lower_bounds(found, every[::-1], member, material) == alone[::-1]
+            assert sum(value is not None and value > 0 for value in alone) >= 10  # sections with walls in compression
+            if step == 0:
+                search.reveal(candidates[3:9])  # their shear estimates: other worst rows
