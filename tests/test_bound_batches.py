@@ -12,10 +12,15 @@ The local-buckling bound of many candidates at once (sizer.sizing.screen.local_l
 each candidate's alone (local_lower_bound), before and after some candidates' warping tiers are
 revealed (which moves their worst rows): the rows of each padded with copies of its first, which may
 not change any value (exact equality).
+
+The lazy screen (the stress estimates of a block of sections made when the search first asks for one
+of them) against the screen made all at once: the same estimates and worst rows, also where some
+candidates were revealed (their estimates made again) before their block was made.
 """
 
 from __future__ import annotations
 
+import sys
 from pathlib import Path
 
 import numpy as np
@@ -32,7 +37,7 @@ from sizer.sections.geometric import geometric_scalars
 from sizer.sections.properties import AnalysisWorkers
 from sizer.sections.spec import SectionSpec
 from sizer.sizing.candidates import candidate_sections
-from sizer.sizing.screen import local_lower_bound, local_lower_bounds
+from sizer.sizing.screen import local_lower_bound, local_lower_bounds, rescreen, screen
 from sizer.sizing.search import Search, prepare_screen
 from tests.steel import STEEL_TOML
 
@@ -150,3 +155,27 @@ def test_local_bounds_of_many_candidates_equal_each_alone(path: Path) -> None:
             assert sum(value is not None and value > 0 for value in alone) >= 10  # sections with walls in compression
             if step == 0:
                 search.reveal(candidates[3:9])  # their shear estimates: other worst rows
+
+
+@pytest.mark.parametrize("path", [path for path in EXAMPLES if path.stem in ("platform_joist", "main_beam", "sign_post")], ids=lambda path: path.stem)
+def test_a_lazy_screen_makes_the_same_estimates_as_one_made_at_once(path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
+    monkeypatch.setattr(sys.modules["sizer.sizing.screen"], "SCREEN_BLOCK", 2048)  # blocks of a few sections: several blocks in a shipped catalogue
+    member = read_member(path)
+    catalogue = catalogue_for(member, [])
+    material = resolve_material(member, catalogue)
+    candidates, table = candidate_sections(catalogue, member, material, (), None, None, lazy=True)
+    base = solve_member(member, Stiffness.unit(), None)
+    eager, lazy = screen(table, member, material, base), screen(table, member, material, base, lazy=True)
+    assert lazy.rows is not None and 1 < lazy.rows.step < len(candidates) // 2
+    revealed = [1, len(candidates) - 2]
+    table.reveal(revealed)  # as Search.reveal: the warping tier, then the estimates of those rows again
+    rescreen(eager, revealed, material)
+    rescreen(lazy, revealed, material)
+    for index in range(len(candidates)):
+        lazy.estimate_rows(index)
+    assert set(lazy.estimate) == set(eager.estimate) and lazy.estimate
+    for name in eager.estimate:
+        np.testing.assert_array_equal(lazy.estimate[name], eager.estimate[name])
+        np.testing.assert_array_equal(lazy.worst[name], eager.worst[name])
+    for name in eager.exact:
+        np.testing.assert_array_equal(lazy.exact[name], eager.exact[name])

@@ -13,7 +13,7 @@ at which station; the proof is the full stress field at that station (prove_lowe
 from __future__ import annotations
 
 from dataclasses import dataclass
-from typing import Any, Callable, Iterator, Sequence
+from typing import Any, Callable, Iterable, Iterator, Sequence
 
 import numpy as np
 
@@ -36,9 +36,24 @@ SINGLE = np.float32
 N, MZ = 0, 5
 
 
+@dataclass(frozen=True)
+class ScreenRows:
+    """The screen's actions as the stress estimates take them: per action (N, Vy, Vz, T, My, Mz) the
+    (2, C x K) pair [loads; per kg/m] in double and in single precision, which actions are present
+    anywhere, the stress checks estimated and the sections per block."""
+
+    pairs64: list[np.ndarray]
+    pairs: list[np.ndarray]
+    present: list[bool]
+    wanted: list[str]
+    step: int
+
+
 @dataclass
 class Screen:
-    """What the screen found for every candidate (rows as in CandidateTable)."""
+    """What the screen found for every candidate (rows as in CandidateTable). A lazy screen makes the
+    stress estimates of a block of sections when the search first asks for one of them
+    (estimate_rows): the same blocks, hence the same values, as made all at once."""
 
     exact: dict[str, np.ndarray]  # check -> (S,) the check's own value at the screen's stations: axial, deflection
     estimate: dict[str, np.ndarray]  # stress check -> (S,) largest utilization from the peaks (single precision)
@@ -49,6 +64,25 @@ class Screen:
     per_mass: np.ndarray  # (C x K, 6) actions per kg/m of self weight, section axes
     table: CandidateTable
     fa_allowed: np.ndarray  # (S,) upper bound of Fa for the interaction: compression allowable, reduced on given lengths
+    rows: ScreenRows | None = None  # the actions of `loads` and `per_mass` as the estimates take them (a lazy screen)
+    material: Material | None = None  # the member's (a lazy screen)
+    pending: np.ndarray | None = None  # (S,) True where the stress estimates are still to be made (a lazy screen)
+
+    def estimate_rows(self, index: int) -> None:
+        """Make the stress estimates of the block of sections holding row `index` where they are still
+        to be made (a row made again after a reveal, see rescreen, keeps its own)."""
+        if self.pending is None or not self.pending[index]:
+            return
+        assert self.rows is not None and self.material is not None
+        start = index // self.rows.step * self.rows.step
+        block = slice(start, min(start + self.rows.step, len(self.pending)))
+        waiting = np.flatnonzero(self.pending[block])
+        estimate = {name: np.zeros(len(self.pending)) for name in self.estimate}
+        worst = {name: np.zeros(len(self.pending), int) for name in self.worst}
+        estimate_blocks(self.table, self.rows, self.material, self.fa_allowed, estimate, worst, [start])
+        for name in self.estimate:
+            self.estimate[name][start + waiting], self.worst[name][start + waiting] = estimate[name][start + waiting], worst[name][start + waiting]
+        self.pending[block] = False
 
 
 def load_and_weight_factors(base: MemberSolution) -> np.ndarray:
@@ -58,23 +92,30 @@ def load_and_weight_factors(base: MemberSolution) -> np.ndarray:
     return np.vstack([loads, base.weights(1.0) - loads])
 
 
-def screen(table: CandidateTable, member: Member, material: Material, base: MemberSolution, n_even: int = 200) -> Screen:
+def screen(table: CandidateTable, member: Member, material: Material, base: MemberSolution, n_even: int = 200,
+           lazy: bool = False) -> Screen:
     """Exact axial, deflection and stability demands, and the stress estimates, of every candidate
-    at the section-independent stations (all of which the full check also uses)."""
+    at the section-independent stations (all of which the full check also uses); with `lazy`, the
+    stress estimates of a block of sections only when first asked for (Screen.estimate_rows)."""
     xs, sides = stations(member, n_even)
     loads, per_mass = (to_section_axes(part, member.orientation).reshape(-1, 6)
                        for part in np.split(base.weighted_actions(load_and_weight_factors(base), xs, sides), 2))
     fa_allowed = given_length_compression(table, member, material)
     combinations = len(base.combination_names)
     lowered = lowered_by_second_order(member, loads, per_mass, combinations)
-    exact, estimate, worst, compression, moment = stress_screen(table, loads, per_mass, material, fa_allowed, combinations)
+    exact, compression, moment = exact_screen(table, screen_rows(loads, per_mass, material), material, combinations)
     if lowered.any():  # their first-order stresses bound nothing: only their axial force is kept for the estimates and proofs
         loads, per_mass = (_axial_only(part, lowered) for part in (loads, per_mass))
-        _, estimate, worst, _, _ = stress_screen(table, loads, per_mass, material, fa_allowed, combinations)
+    rows = screen_rows(loads, per_mass, material)
+    count = len(table.mass)
+    estimate, worst = {name: np.zeros(count) for name in rows.wanted}, {name: np.zeros(count, int) for name in rows.wanted}
+    if not lazy:
+        estimate_blocks(table, rows, material, fa_allowed, estimate, worst, range(0, count, rows.step))
     deflection = deflection_screen(table, member, material, base, ~lowered)
     if deflection is not None:
         exact["deflection"] = np.where(twisted_by_second_order(member, table), 0.0, deflection)
-    return Screen(exact, estimate, worst, compression, moment, loads, per_mass, table, fa_allowed)
+    return Screen(exact, estimate, worst, compression, moment, loads, per_mass, table, fa_allowed, rows, material,
+                  np.full(count, True) if lazy else None)
 
 
 def lowered_by_second_order(member: Member, loads: np.ndarray, per_mass: np.ndarray, combinations: int) -> np.ndarray:
@@ -118,6 +159,7 @@ def local_lower_bound(found: Screen, index: int, member: Member, material: Mater
 def local_rows(found: Screen, index: int) -> list[int]:
     """The screen's rows (combination x station) where local_lower_bound looks for one candidate: the
     worst rows of its stress checks' estimates (every row when there is none)."""
+    found.estimate_rows(index)
     return sorted({int(worst[index]) for worst in found.worst.values()}) or list(range(len(found.loads)))
 
 
@@ -167,45 +209,59 @@ def _scaled(coefficient: np.ndarray, mass: np.ndarray, pair: np.ndarray) -> np.n
     return np.column_stack([coefficient, coefficient * mass]).astype(pair.dtype) @ pair
 
 
-def stress_screen(table: CandidateTable, loads: np.ndarray, per_mass: np.ndarray, material: Material, fa_allowed: np.ndarray,
-                  combinations: int) -> tuple[dict[str, np.ndarray], dict[str, np.ndarray], dict[str, np.ndarray], np.ndarray, np.ndarray]:
-    """(axial utilization at the stations, stress-check estimates, their worst rows, and per combination
-    (C, S) the peak compression and the peak |Mz|) of every candidate; loads and per_mass (K, 6) in
-    section axes, combination by combination. Blocks of sections keep each array in cache."""
-    allow = material.allowable
-    count, rows = len(table.mass), loads.shape[0]
+def screen_rows(loads: np.ndarray, per_mass: np.ndarray, material: Material) -> ScreenRows:
+    """ScreenRows of the actions `loads` and `per_mass` (C x K, 6), section axes."""
     pairs64 = [np.stack([loads[:, j], per_mass[:, j]]) for j in range(6)]
     present = [bool(np.any(pair)) for pair in pairs64]
-    pairs = [pair.astype(SINGLE) for pair in pairs64]
-    wanted = [name for name in STRESS_CHECKS if _allowable(allow, name)]
+    wanted = [name for name in STRESS_CHECKS if _allowable(material.allowable, name)]
     if not present[0] or not (present[4] or present[5]):
         wanted = [name for name in wanted if name != "interaction"]  # the check needs axial force and bending together
+    return ScreenRows(pairs64, [pair.astype(SINGLE) for pair in pairs64], present, wanted, max(1, SCREEN_BLOCK // max(loads.shape[0], 1)))
+
+
+def exact_screen(table: CandidateTable, rows: ScreenRows, material: Material,
+                 combinations: int) -> tuple[dict[str, np.ndarray], np.ndarray, np.ndarray]:
+    """(axial utilization at the stations, and per combination (C, S) the peak compression and the
+    peak |Mz|) of every candidate, in double precision, combination by combination. Blocks of
+    sections keep each array in cache."""
+    allow = material.allowable
+    count = len(table.mass)
     n_max, n_min = np.empty(count), np.empty(count)
     compression, moment = np.zeros((combinations, count)), np.zeros((combinations, count))
-    estimate = {name: np.zeros(count) for name in wanted}
-    worst = {name: np.zeros(count, int) for name in wanted}
-    step = max(1, SCREEN_BLOCK // max(rows, 1))
-    sigma_peak, tau_peak = table.sigma_peak, table.tau_peak
-    for start in range(0, count, step):
-        block = slice(start, min(start + step, count))
+    for start in range(0, count, rows.step):
+        block = slice(start, min(start + rows.step, count))
         mass = table.mass[block]
-        if present[0]:
-            axial = _scaled(np.ones(len(mass)), mass, pairs64[0])  # N, exact
+        if rows.present[0]:
+            axial = _scaled(np.ones(len(mass)), mass, rows.pairs64[0])  # N, exact
             n_max[block], n_min[block] = axial.max(axis=1), axial.min(axis=1)
             compression[:, block] = np.maximum(-axial.reshape(len(mass), combinations, -1).min(axis=2), 0.0).T
         else:
             n_max[block] = n_min[block] = 0.0
-        if present[MZ]:
-            moment[:, block] = np.abs(_scaled(np.ones(len(mass)), mass, pairs64[MZ])).reshape(len(mass), combinations, -1).max(axis=2).T
-        fa = _scaled(1.0 / table.area[block], mass, pairs[0])
-        fb = _peak_sum(sigma_peak[block], [1, 2], [4, 5], mass, pairs, present)
-        fv = _peak_sum(tau_peak[block], [0, 1, 2], [1, 2, 3], mass, pairs, present)
-        for name, (values, scale) in _stress_estimates(fa, fb, fv, allow, fa_allowed[block], wanted):
-            at = values.argmax(axis=1)
-            estimate[name][block], worst[name][block] = scale(values[np.arange(len(at)), at]), at
+        if rows.present[MZ]:
+            moment[:, block] = np.abs(_scaled(np.ones(len(mass)), mass, rows.pairs64[MZ])).reshape(len(mass), combinations, -1).max(axis=2).T
     tension, compression_stress = np.maximum(n_max, 0.0) / table.area, np.maximum(-n_min, 0.0) / table.area
     exact = {"axial": np.maximum(tension / (allow.tension or np.inf), compression_stress / (allow.compression or np.inf))}
-    return exact, estimate, worst, compression, moment
+    return exact, compression, moment
+
+
+def estimate_blocks(table: CandidateTable, rows: ScreenRows, material: Material, fa_allowed: np.ndarray, estimate: dict[str, np.ndarray],
+                    worst: dict[str, np.ndarray], starts: Iterable[int]) -> None:
+    """The stress-check estimates and their worst rows, into `estimate` and `worst` (S,), of the blocks
+    of rows.step sections from each of `starts`, in single precision."""
+    from sizer.sections.properties import SIGMA_PEAK_NAMES, TAU_PEAK_NAMES
+
+    count = len(table.mass)
+    for start in starts:
+        block = slice(start, min(start + rows.step, count))
+        mass = table.mass[block]
+        sigma_peak = np.column_stack([table.column[name][block] for name in SIGMA_PEAK_NAMES])
+        tau_peak = np.column_stack([table.column[name][block] for name in TAU_PEAK_NAMES])
+        fa = _scaled(1.0 / table.area[block], mass, rows.pairs[0])
+        fb = _peak_sum(sigma_peak, [1, 2], [4, 5], mass, rows.pairs, rows.present)
+        fv = _peak_sum(tau_peak, [0, 1, 2], [1, 2, 3], mass, rows.pairs, rows.present)
+        for name, (values, scale) in _stress_estimates(fa, fb, fv, material.allowable, fa_allowed[block], rows.wanted):
+            at = values.argmax(axis=1)
+            estimate[name][block], worst[name][block] = scale(values[np.arange(len(at)), at]), at
 
 
 def _allowable(allow: Any, check: str) -> float | None:
@@ -308,6 +364,7 @@ def prove_lower_bounds(candidate: Candidate, found: Screen, material: Material, 
     from sizer.sections import unit_stress_field
     from sizer.sections.geometric import normal_stress_field
 
+    found.estimate_rows(candidate.index)
     wanted = [name for name, values in found.estimate.items() if values[candidate.index] > above and name not in candidate.bounds]
     if not wanted or may_twist(member, candidate.spec.shape):
         return  # torsion of this section (warping, torques across it) is not in the screen's stations: no proof from them
@@ -325,9 +382,13 @@ def rescreen(found: Screen, rows: list[int], material: Material) -> None:
     """The stress estimates of `rows` made again, now that their warping tier (the peak shear
     stresses per unit action) is known."""
     part = found.table.subset(rows)
-    _, estimate, worst, _, _ = stress_screen(part, found.loads, found.per_mass, material, found.fa_allowed[rows], found.compression.shape[0])
+    actions = screen_rows(found.loads, found.per_mass, material)
+    estimate, worst = {name: np.zeros(len(rows)) for name in actions.wanted}, {name: np.zeros(len(rows), int) for name in actions.wanted}
+    estimate_blocks(part, actions, material, found.fa_allowed[rows], estimate, worst, range(0, len(rows), actions.step))
     for name, values in estimate.items():
         found.estimate[name][rows], found.worst[name][rows] = values, worst[name]
+    if found.pending is not None:
+        found.pending[rows] = False
 
 
 def stress_utilization(name: str, stress: StationStresses, k: int, allow: Any, compression_allowable: float) -> float:

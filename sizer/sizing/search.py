@@ -349,7 +349,7 @@ def prepare_screen(search: Search, table: CandidateTable) -> None:
     """The unit-rigidity solution, the screen and the stability bounds of every candidate."""
     member, material = search.member, search.material
     search.base = solve_member(member, Stiffness.unit(), None)
-    search.found = screen(table, member, material, search.base)
+    search.found = screen(table, member, material, search.base, lazy=True)
     for candidate in search.candidates:
         for check, values in search.found.exact.items():
             candidate.raise_bound(check, values[candidate.index])
