@@ -204,9 +204,10 @@ def given_length_compression(table: CandidateTable, member: Member, material: Ma
     return np.minimum(allowable, johnson(load / table.area, material.yield_strength) / member.checks.buckling_safety_factor)
 
 
-def _scaled(coefficient: np.ndarray, mass: np.ndarray, pair: np.ndarray) -> np.ndarray:
-    """(S, K) coefficient_s * (loads_k + mass_s * per_mass_k) as one matrix product; pair is (2, K)."""
-    return np.column_stack([coefficient, coefficient * mass]).astype(pair.dtype) @ pair
+def _scaled(coefficient: np.ndarray, mass: np.ndarray, pair: np.ndarray, out: np.ndarray | None = None) -> np.ndarray:
+    """(S, K) coefficient_s * (loads_k + mass_s * per_mass_k) as one matrix product; pair is (2, K);
+    into `out` (S, K) when given."""
+    return np.matmul(np.column_stack([coefficient, coefficient * mass]).astype(pair.dtype), pair, out=out)
 
 
 def screen_rows(loads: np.ndarray, per_mass: np.ndarray, material: Material) -> ScreenRows:
@@ -228,17 +229,19 @@ def exact_screen(table: CandidateTable, rows: ScreenRows, material: Material,
     count = len(table.mass)
     n_max, n_min = np.empty(count), np.empty(count)
     compression, moment = np.zeros((combinations, count)), np.zeros((combinations, count))
+    buffer = np.empty((min(rows.step, count), rows.pairs64[0].shape[1]))  # one block's values, reused (no fresh pages per block)
     for start in range(0, count, rows.step):
         block = slice(start, min(start + rows.step, count))
         mass = table.mass[block]
         if rows.present[0]:
-            axial = _scaled(np.ones(len(mass)), mass, rows.pairs64[0])  # N, exact
+            axial = _scaled(np.ones(len(mass)), mass, rows.pairs64[0], buffer[:len(mass)])  # N, exact
             n_max[block], n_min[block] = axial.max(axis=1), axial.min(axis=1)
             compression[:, block] = np.maximum(-axial.reshape(len(mass), combinations, -1).min(axis=2), 0.0).T
         else:
             n_max[block] = n_min[block] = 0.0
         if rows.present[MZ]:
-            moment[:, block] = np.abs(_scaled(np.ones(len(mass)), mass, rows.pairs64[MZ])).reshape(len(mass), combinations, -1).max(axis=2).T
+            mz = np.abs(_scaled(np.ones(len(mass)), mass, rows.pairs64[MZ], buffer[:len(mass)]), out=buffer[:len(mass)])
+            moment[:, block] = mz.reshape(len(mass), combinations, -1).max(axis=2).T
     tension, compression_stress = np.maximum(n_max, 0.0) / table.area, np.maximum(-n_min, 0.0) / table.area
     exact = {"axial": np.maximum(tension / (allow.tension or np.inf), compression_stress / (allow.compression or np.inf))}
     return exact, compression, moment
@@ -251,15 +254,17 @@ def estimate_blocks(table: CandidateTable, rows: ScreenRows, material: Material,
     from sizer.sections.properties import SIGMA_PEAK_NAMES, TAU_PEAK_NAMES
 
     count = len(table.mass)
+    buffers = [np.empty((min(rows.step, count), rows.pairs[0].shape[1]), SINGLE) for _ in range(5)]  # reused by every block
     for start in starts:
         block = slice(start, min(start + rows.step, count))
         mass = table.mass[block]
+        fa_, fb_, fv_, one, two = (buffer[:len(mass)] for buffer in buffers)
         sigma_peak = np.column_stack([table.column[name][block] for name in SIGMA_PEAK_NAMES])
         tau_peak = np.column_stack([table.column[name][block] for name in TAU_PEAK_NAMES])
-        fa = _scaled(1.0 / table.area[block], mass, rows.pairs[0])
-        fb = _peak_sum(sigma_peak, [1, 2], [4, 5], mass, rows.pairs, rows.present)
-        fv = _peak_sum(tau_peak, [0, 1, 2], [1, 2, 3], mass, rows.pairs, rows.present)
-        for name, (values, scale) in _stress_estimates(fa, fb, fv, material.allowable, fa_allowed[block], rows.wanted):
+        fa = _scaled(1.0 / table.area[block], mass, rows.pairs[0], fa_)
+        fb = _peak_sum(sigma_peak, [1, 2], [4, 5], mass, rows.pairs, rows.present, fb_, one)
+        fv = _peak_sum(tau_peak, [0, 1, 2], [1, 2, 3], mass, rows.pairs, rows.present, fv_, one)
+        for name, (values, scale) in _stress_estimates(fa, fb, fv, material.allowable, fa_allowed[block], rows.wanted, one, two):
             at = values.argmax(axis=1)
             estimate[name][block], worst[name][block] = scale(values[np.arange(len(at)), at]), at
 
@@ -269,26 +274,29 @@ def _allowable(allow: Any, check: str) -> float | None:
 
 
 def _peak_sum(peaks_: np.ndarray, peak_columns: list[int], action_columns: list[int], mass: np.ndarray, pairs: list[np.ndarray],
-              present: list[bool]) -> np.ndarray:
-    """(S, K) sum over the given actions of |action| * the section's peak stress per unit action."""
-    total = np.zeros((len(mass), pairs[0].shape[1]), SINGLE)
+              present: list[bool], total: np.ndarray, scratch: np.ndarray) -> np.ndarray:
+    """(S, K) sum over the given actions of |action| * the section's peak stress per unit action, into
+    `total` (scratch: another (S, K) array to work in)."""
+    total.fill(0.0)
     for peak, action in zip(peak_columns, action_columns):
         if present[action]:
-            total += np.abs(_scaled(peaks_[:, peak], mass, pairs[action]))
+            total += np.abs(_scaled(peaks_[:, peak], mass, pairs[action], scratch), out=scratch)
     return total
 
 
-def _stress_estimates(fa: np.ndarray, fb: np.ndarray, fv: np.ndarray, allow: Any, fa_allow: np.ndarray,
-                      wanted: list[str]) -> Iterator[tuple[str, tuple[np.ndarray, Callable[[np.ndarray], np.ndarray]]]]:
+def _stress_estimates(fa: np.ndarray, fb: np.ndarray, fv: np.ndarray, allow: Any, fa_allow: np.ndarray, wanted: list[str],
+                      one: np.ndarray, two: np.ndarray) -> Iterator[tuple[str, tuple[np.ndarray, Callable[[np.ndarray], np.ndarray]]]]:
     """For each wanted stress check: (S, K) values whose largest marks the worst row, and the map from
-    that value to the utilization estimate (same formulas as the checks). Consumes fa, fb and fv."""
+    that value to the utilization estimate (same formulas as the checks). Consumes fa, fb and fv, and
+    works in `one` and `two` ((S, K) each), each value taken before the next is asked for."""
     if "bending" in wanted:
         yield "bending", (fb, lambda value: value / allow.bending)
     if "shear" in wanted:
         yield "shear", (fv, lambda value: value / allow.shear)
     if "interaction" in wanted:
-        interaction = np.maximum(fa * SINGLE(1.0 / (allow.tension or np.inf)), fa * (-1.0 / fa_allow).astype(SINGLE)[:, None])
-        interaction += fb * SINGLE(1.0 / allow.bending)
+        interaction = np.maximum(np.multiply(fa, SINGLE(1.0 / (allow.tension or np.inf)), out=one),
+                                 np.multiply(fa, (-1.0 / fa_allow).astype(SINGLE)[:, None], out=two), out=one)
+        interaction += np.multiply(fb, SINGLE(1.0 / allow.bending), out=two)
         yield "interaction", (interaction, lambda value: value)
     if "equivalent" in wanted:  # (|fa| + fb)^2 + 3 fv^2, in place
         normal = np.abs(fa, out=fa)
