@@ -23,6 +23,7 @@ tests/test_sections_properties.py holds IPE 300 and an angle to 1 %), and a sect
 from __future__ import annotations
 
 from dataclasses import dataclass
+from functools import lru_cache
 from typing import Any
 
 import numpy as np
@@ -76,8 +77,17 @@ def _arc(centre: tuple[float, float], r: float, theta: float, clockwise: bool = 
     when r = 0), as sectionproperties' draw_radius places them."""
     if r == 0:
         return np.array([centre], dtype=float)
+    cos, sin = _quarter_turn(theta, clockwise, n)
+    return np.column_stack([centre[0] + r * cos, centre[1] + r * sin])
+
+
+@lru_cache(maxsize=64)
+def _quarter_turn(theta: float, clockwise: bool, n: int) -> tuple[np.ndarray, np.ndarray]:
+    """cos and sin of the n angles of a quarter turn from theta (read only: shared by every arc of that turn)."""
     turn = (-1 if clockwise else 1) * np.arange(n) * 1.0 / max(1, n - 1) * (np.pi * 0.5) + theta
-    return np.column_stack([centre[0] + r * np.cos(turn), centre[1] + r * np.sin(turn)])
+    cos, sin = np.cos(turn), np.sin(turn)
+    cos.flags.writeable = sin.flags.writeable = False
+    return cos, sin
 
 
 def _circle(radius: float) -> Ring:
