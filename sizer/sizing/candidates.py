@@ -165,8 +165,7 @@ def candidate_sections(catalogue: Catalogue, member: Member, material: Material,
         raise InputError(files, "sections", "the catalogue holds no sections", "add [[sections]] entries, or pass --catalogue with a stock list")
     if lazy:
         geometric = geometric_table(specs)
-        column = {name: np.full(len(specs), np.nan) for name in SCALAR_NAMES}
-        column.update({name: geometric[:, k] for k, name in enumerate(GEOMETRIC_NAMES)})
+        column = {name: geometric[:, k] for k, name in enumerate(GEOMETRIC_NAMES)}  # the other tiers NaN (below)
     else:
         table = section_table(specs, progress=progress)
         column = {name: table[:, k] for k, name in enumerate(SCALAR_NAMES)}
@@ -188,8 +187,9 @@ def candidate_sections(catalogue: Catalogue, member: Member, material: Material,
     order = sorted(kept, key=keys.__getitem__)
     candidates = [Candidate(specs[i].name, specs[i], float(mass[i]), material.density, k, costing=costs[i], rank=keys[i])
                   for k, i in enumerate(order)]
-    return candidates, CandidateTable({name: values[order] for name, values in column.items()}, mass[order], tuple(specs[i] for i in order),
-                                      np.full(len(order), not lazy))
+    rows = np.array(order, dtype=int)
+    ordered = {name: column[name][rows] if name in column else np.full(len(rows), np.nan) for name in SCALAR_NAMES}
+    return candidates, CandidateTable(ordered, mass[rows], tuple(specs[i] for i in order), np.full(len(order), not lazy))
 
 
 def _holding_the_heights(specs: Sequence[Any], member: Member, keep: np.ndarray,
