@@ -389,8 +389,12 @@ def prove_lower_bounds(candidate: Candidate, found: Screen, material: Material, 
 def rescreen(found: Screen, rows: list[int], material: Material) -> None:
     """The stress estimates of `rows` made again, now that their warping tier (the peak shear
     stresses per unit action) is known."""
-    part = found.table.subset(rows)
-    actions = screen_rows(found.loads, found.per_mass, material)
+    from sizer.sections.properties import SIGMA_PEAK_NAMES, TAU_PEAK_NAMES
+
+    index = np.array(rows, dtype=int)
+    part = CandidateTable({name: found.table.column[name][index] for name in ("area", *SIGMA_PEAK_NAMES, *TAU_PEAK_NAMES)},
+                          found.table.mass[index])  # the columns the estimates read
+    actions = found.rows or screen_rows(found.loads, found.per_mass, material)
     estimate, worst = {name: np.zeros(len(rows)) for name in actions.wanted}, {name: np.zeros(len(rows), int) for name in actions.wanted}
     estimate_blocks(part, actions, material, found.fa_allowed[rows], estimate, worst, range(0, len(rows), actions.step))
     for name, values in estimate.items():
