@@ -64,7 +64,7 @@ class Search:
     reveal_count: int = 1  # candidates revealed together next: doubles while revealed ones keep failing
     seeded_rows: set[int] = field(default_factory=set)  # candidates whose own shapes the stability bounds took (seeded)
     webs: np.ndarray | None = None  # each candidate's web check (sizer.checks.web), -1 until made (see web_utilization)
-    locals: dict[int, tuple[tuple[int, ...], float | None]] = field(default_factory=dict)  # candidate -> (its rows, local bound) made
+    local_values: dict[int, tuple[tuple[int, ...], float | None]] = field(default_factory=dict)  # candidate -> (its rows, local bound) made
 
     def compute(self, candidates: Sequence[Candidate]) -> None:
         """Make sure the warping tiers and stress fields of `candidates` are cached (on the workers
@@ -152,13 +152,13 @@ class Search:
         candidate's worst rows: its value is then made again)."""
         found = self.found
         assert found is not None
-        made = self.locals.get(candidate.index)
+        made = self.local_values.get(candidate.index)
         if made is None or made[0] != tuple(local_rows(found, candidate.index)):
             open_ = [c.index for c in self.candidates[candidate.index:candidate.index + BATCH]
                      if c is candidate or (c.report is None and "local" not in c.bounds and not c.certainly_fails)]
             for index, value in zip(open_, local_lower_bounds(found, open_, self.member, self.material)):
-                self.locals[index] = (tuple(local_rows(found, index)), value)
-        return self.locals[candidate.index][1]
+                self.local_values[index] = (tuple(local_rows(found, index)), value)
+        return self.local_values[candidate.index][1]
 
     def web_utilization(self, candidate: Candidate) -> float:
         """The full check's own web check under concentrated forces (sizer.checks.web): it needs the
