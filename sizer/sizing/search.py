@@ -350,9 +350,9 @@ def prepare_screen(search: Search, table: CandidateTable) -> None:
     member, material = search.member, search.material
     search.base = solve_member(member, Stiffness.unit(), None)
     search.found = screen(table, member, material, search.base, lazy=True)
-    for candidate in search.candidates:
-        for check, values in search.found.exact.items():
-            candidate.raise_bound(check, values[candidate.index])
+    for check, values in search.found.exact.items():  # each candidate's in the same order: axial, then deflection
+        for candidate, value in zip(search.candidates, values.tolist()):  # candidates in row order
+            candidate.raise_bound(check, value)
     search.model = MemberStability(member, search.base)
     if search.base.member is member:  # no pattern expanded: the second-order solves start from this model's mesh
         share_first_level(member, search.model)
