@@ -66,6 +66,12 @@ def test_longer_than_every_stock_length_is_not_available_and_no_stock_lengths_is
     assert bars_for(12.5, 1, (6.0, 12.0)) is None  # no splice
     too_long = costing(Purchase(1.4, None, (6.0, 12.0)), 20.0, 12.5)
     assert too_long.cost is None and not too_long.available and "longer than every stock length" in too_long.unavailable
+    # the longest stock length is a quantity of the sentence, shown in the run's units: 12 m = 39.37 ft
+    # (1 ft = 0.3048 m exactly, NIST SP 811)
+    from sizer.render.phrases import in_display_units
+
+    assert "(longest 12 m; no splice)" in too_long.unavailable
+    assert "(longest 39.37 ft; no splice)" in in_display_units(too_long.unavailable, "us")
     loose = costing(Purchase(1.4), 20.0, 12.5)  # no stock lengths: bought cut to length, 12.5 x 20 x 1.4 = 350
     assert loose.order.cut_to_length and loose.cost == pytest.approx(350.0)
     unstocked = costing(Purchase(1.4, False, (6.0,)), 20.0, 5.0)

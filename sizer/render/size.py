@@ -10,6 +10,7 @@ from sizer.render.check import FAILS, PASSES, VerdictBlock, checks_ledger, secon
 from sizer.render.common import cautions_panel, notes_panel
 from sizer.render.cost import bars_text, money, reserve_sentence
 from sizer.render.forces import plural
+from sizer.render.phrases import in_display_units
 from sizer.render.text import Column, Heading, Ledger, Paragraph
 from sizer.results.size import shown_candidates
 from sizer.sizing import Candidate, SizingResult
@@ -57,8 +58,8 @@ def candidates_ledger(result: SizingResult, top: int, system: str) -> Ledger:
         if costs and candidate.costing.order is not None:
             notes.append(escape(bars_text(candidate.costing.order, system)))
         if not candidate.costing.available:
-            notes.append(escape(candidate.costing.unavailable) + ": ranked after the available sections"
-                         if not ranking.include_unstocked else escape(candidate.costing.unavailable))
+            unavailable = escape(in_display_units(candidate.costing.unavailable, system))
+            notes.append(unavailable + ": ranked after the available sections" if not ranking.include_unstocked else unavailable)
         depth_cell = [units.fmt(candidate.rank[1], "dimension", system)] if by == "depth" else []  # the rank's depth as installed
         ledger.add_row(escape(candidate.name), *depth_cell, units.fmt(candidate.mass_per_length, "mass_per_length", system), *cost_cell,
                        (">=" if bound else "  ") + cell, escape(candidate.governing or ""), status,

@@ -20,6 +20,7 @@ from dataclasses import dataclass
 from functools import lru_cache
 from typing import Any
 
+from sizer.phrase import joined, phrase, q
 from sizer.sections.purchase import Purchase
 
 RANKINGS = ("mass", "cost", "depth")
@@ -115,14 +116,14 @@ class Costing:
 def costing(terms: Purchase, mass_per_length: float, piece_length: float, pieces: int = 1) -> Costing:
     """The cost of `pieces` pieces of `piece_length` (m) of a section of `mass_per_length` (kg/m)."""
     order = bars_for(piece_length, pieces, terms.stock_lengths)
-    reasons = []
+    reasons: list[str] = []
     if not terms.is_stocked:
         reasons.append("not stocked")
     if order is None:
         longest = max(terms.stock_lengths or (0.0,))
-        reasons.append(f"longer than every stock length (longest {longest:g} m; no splice)")
+        reasons.append(phrase("longer than every stock length (longest ", q("longest", longest, "m"), "; no splice)"))
     cost = order.metres * mass_per_length * terms.cost_per_kg if order is not None and terms.cost_per_kg is not None else None
-    return Costing(terms, order, cost, "; ".join(reasons))
+    return Costing(terms, order, cost, joined("; ", reasons))
 
 
 @dataclass(frozen=True)

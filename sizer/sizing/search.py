@@ -14,6 +14,7 @@ from sizer.analysis import MemberSolution, solve_member
 from sizer.checks import CheckReport, check_design
 from sizer.design import given_heights
 from sizer.model import Material, Member, Stiffness
+from sizer.phrase import phrase
 from sizer.sections.properties import AnalysisWorkers
 from sizer.sizing.candidates import Candidate, CandidateTable, candidate_sections, design_for
 from sizer.sizing.cost import Ranking
@@ -337,7 +338,7 @@ def _size(member: Member, catalogue: Catalogue, material: Material, families: Se
                          "`sizer size --check-runners-up`, to know).")
     unavailable = search.unavailable_ahead(chosen, top)
     if chosen is not None and not chosen.costing.available:
-        notes.append(f"No available section passes: the choice {chosen.name} is {chosen.costing.unavailable}.")
+        notes.append(phrase(f"No available section passes: the choice {chosen.name} is ", chosen.costing.unavailable, "."))
     strongest = None
     if chosen is None:
         search.stability_bounds(candidates)
