@@ -87,7 +87,7 @@ class StabilityBounds:
         if group not in self.shapes:
             return
         if self.basis is None:
-            self.basis = admissible_basis(self.model.mesh.size, strict_rows(self.model))
+            self.basis = admissible_basis(self.model.mesh.size, strict_rows(self.model), self.model.mesh.sparse)
         self.shapes[group].append(self.basis @ (self.basis.T @ mode))
         self.stale.add(group)
 

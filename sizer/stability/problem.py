@@ -107,12 +107,12 @@ class MemberStability:
 
     def stiffness(self, section: StabilitySection) -> np.ndarray:
         """K (size, size): the elastic matrices weighted by the section's rigidities, plus springs."""
-        return weighted_sum(self.elastic, elastic_coefficients(section)) + diagonal(self.springs)
+        return weighted_sum(self.elastic, elastic_coefficients(section)) + diagonal(self.springs, self.mesh.sparse)
 
     def basis(self, section: StabilitySection) -> np.ndarray:
         """The admissible freedoms: supports and restraints (heights and warping holds depend on the section)."""
         rows = self.supports + warping_rows(self.member, self.mesh) + restraint_rows(self.member, self.mesh, section)
-        return admissible_basis(self.mesh.size, rows)
+        return admissible_basis(self.mesh.size, rows, self.mesh.sparse)
 
     def load_set_terms(self, kind: str, weights: np.ndarray) -> dict[str, np.ndarray]:
         """The geometric term matrices G_t of a load set (weights (n_cases + 1,)): for "axial" its
@@ -244,24 +244,23 @@ class SectionStability:
         return self._finer
 
     def axial(self, weights: np.ndarray) -> Buckling:
-        return self._converged(lambda level: level.reduced.modes(level.model.geometry("axial", level.section, weights), 1)[0])
+        return self._converged(lambda level, hint: level.reduced.modes(level.model.geometry("axial", level.section, weights), 1, hint)[0])
 
     def lateral(self, weights: np.ndarray) -> Buckling:
-        return self._converged(lambda level: level.reduced.modes(level.model.geometry("lateral", level.section, weights), 1)[0])
+        return self._converged(lambda level, hint: level.reduced.modes(level.model.geometry("lateral", level.section, weights), 1, hint)[0])
 
-    def _converged(self, solve: Callable[["SectionStability"], Buckling]) -> Buckling:
-        """The converged load factor of `solve` on this mesh and its halvings (see the class
+    def _converged(self, solve: Callable[["SectionStability", float], Buckling]) -> Buckling:
+        """The converged load factor of `solve` (on a level, with a hint: the coarser level's load
+        factor, at or above the finer one's) on this mesh and its halvings (see the class
         docstring), with the buckled shape on the base mesh."""
-        level, found, previous = self, solve(self), math.inf
+        level, found, previous = self, solve(self, math.inf), math.inf
         if found.free_movement:
             return Buckling(found.load_factor, level.on_base(found.mode), True)
         for _ in range(HALVINGS):
             if level.model.mesh.size * 2 > SIZE_LIMIT:
                 break
             finer = level.finer()
-            if hasattr(finer.reduced, "hint"):  # the sparse solve starts its search there
-                finer.reduced.hint = found.load_factor
-            fine = solve(finer)
+            fine = solve(finer, found.load_factor)
             if fine.free_movement or _agree(found.load_factor, fine.load_factor):
                 self.elements = max(self.elements, len(finer.model.mesh.nodes) - 1)
                 return Buckling(fine.load_factor, finer.on_base(fine.mode), fine.free_movement)
@@ -306,15 +305,16 @@ class SectionStability:
         shape, scale = load_shape((column, weight) for column, weight in enumerate(weights) if column in live)
         if not shape:
             return Buckling(math.inf, None)
-        found = self._converged(lambda level: level._shape_solve(kind, shape))
+        found = self._converged(lambda level, hint: level._shape_solve(kind, shape, hint))
         return Buckling(found.load_factor / scale, found.mode, found.free_movement)
 
-    def _shape_solve(self, kind: str, shape: "LoadShape") -> Buckling:
-        """The lowest load factor of a load shape on this level's mesh (made once per shape)."""
+    def _shape_solve(self, kind: str, shape: "LoadShape", hint: float) -> Buckling:
+        """The lowest load factor of a load shape on this level's mesh (made once per shape; `hint`:
+        see Reduced.modes)."""
         found = self._solved[kind].find(shape)
         if found is None:
             b = sum(share * self._column(kind, column, positive) for column, positive, share in shape)
-            found = self.reduced.modes(b, 1)[0]
+            found = self.reduced.modes(b, 1, hint)[0]
             self._solved[kind].add(shape, found)
         return found
 
@@ -336,7 +336,7 @@ class SectionStability:
         key = (kind, column, positive)
         if key not in self._columns:
             terms = self.model.column_terms(kind, column, positive)
-            self._columns[key] = as_matrix(-weighted_sum(terms, term_coefficients(kind, self.section)), self.model.mesh.size)
+            self._columns[key] = as_matrix(-weighted_sum(terms, term_coefficients(kind, self.section)), self.model.mesh.size, self.model.mesh.sparse)
         return self._columns[key]
 
 
