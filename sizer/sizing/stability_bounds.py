@@ -51,8 +51,7 @@ class StabilityBounds:
         self.projections: dict[tuple[str, int], Projection] = {}
         self.stale: set[Group] = set()
         self.epoch = 0  # counts the full checks and seeds whose shapes were taken
-        patterning = base.member.patterning
-        self.seeds = bool(patterning and patterning.switches)  # seed before a full check (see seed)
+        self.seeds = True  # seed before every full check (see seed): measured to pay for members with and without pattern arrangements
 
     def add(self, report: StabilityReport) -> None:
         """Take a full check's buckled shapes as trial shapes (projected onto every section's allowed
@@ -69,8 +68,9 @@ class StabilityBounds:
         base mesh, not refined, under every load set bounded here, as trial shapes. The finer meshes
         hold the base mesh's shapes, so its base-mesh load factors lie above its converged ones, and
         its own bounds come within the refinement's change of its check's: one small eigen-solve per
-        load set can rule it out where its check would fail on stability (for a member with pattern
-        arrangements, whose full check searches them all)."""
+        load set can rule it out where its check would fail on stability, in place of its full check
+        (the converged solves of every combination, its pattern arrangements too, the second-order
+        actions and the stress field)."""
         self.epoch += 1
         solver = self.model.for_section(section)
         loads, per_mass = self.model.rows

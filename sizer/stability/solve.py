@@ -28,7 +28,8 @@ HINT_ABOVE = 1e-9  # the sparse solve's first bracket: from the hint times (1 - 
 HINT_BELOW = 1e-2
 INVERSE_SHIFT = 1e-9  # inverse iteration's shift above the largest eigenvalue, as a fraction of the largest |eigenvalue|
 NEAR_SHIFT = 1e-6  # the dense solve near a hint: its first shift, the hint times (1 + NEAR_SHIFT), above the load factor sought
-NEAR_STEPS = 6  # ... at most this many Rayleigh quotient iterations
+NEAR_STEPS = 8  # ... at most this many steps
+NEAR_BAND = 0.5  # ... each step's shift the last Rayleigh quotient where that lies within this (relative) of the hint, else the first
 NEAR_SETTLED = 1e-10  # ... stopped when the Rayleigh quotient changes by at most this (relative; it settles to some 1e-12 in two or three)
 CERTIFIED = 1e-7  # ... the load factor taken where K - lam (1 - CERTIFIED) B is positive definite: no lower one lies more than this below
 
@@ -113,12 +114,12 @@ class Reduced:
             keep = _complement(free)
             found = Reduced(self.k, keep).modes(b, count)
             return [item if item.mode is None else Buckling(item.load_factor, self._full(item.mode)) for item in found]
-        active = np.abs(b).max(axis=1) > ZERO_GEOMETRY * size
-        baa = b[np.ix_(active, active)]
         if count == 1 and 0.0 < hint < math.inf:
-            near = self._near_hint(baa, active, hint)
+            near = self.near_hint(b, hint)
             if near is not None:
                 return [near]
+        active = np.abs(b).max(axis=1) > ZERO_GEOMETRY * size
+        baa = b[np.ix_(active, active)]
         inverse, coupling = self._factor(active)
         standard = inverse @ baa @ inverse.T
         mu, vectors = largest_eigenpairs((standard + standard.T) / 2, count)
@@ -131,33 +132,37 @@ class Reduced:
             found.append(Buckling(1.0 / float(value), self._on_all(active, coupling, vector)))
         return found or [Buckling(math.inf, None)]
 
-    def _near_hint(self, baa: np.ndarray, active: np.ndarray, hint: float) -> Buckling | None:
-        """The lowest positive load factor of K d = lam B d, B projected and taken on the freedoms
-        `active` it touches (`baa`, K condensed onto them), found near `hint`, or None where it is not
-        proven so. Rayleigh quotient iteration (each step one solve of (K - shift B) x = B x with the
-        shift the last Rayleigh quotient d^T K d / d^T B d, the first the hint times 1 + NEAR_SHIFT)
-        converges to the load factor nearest the hint; the Rayleigh quotient lam of any shape with
-        d^T B d > 0 is at or above the lowest load factor (K positive definite), and where
-        K - lam (1 - CERTIFIED) B is positive definite (a Cholesky factorization) no load factor lies
-        in (0, lam (1 - CERTIFIED)] (Sylvester's law of inertia), so lam is the lowest to within
-        CERTIFIED below it. Some three solves and one factorization, against the inverse Cholesky
-        factor of K and a full eigen-solve of the standard form."""
+    def near_hint(self, b: np.ndarray, hint: float) -> Buckling | None:
+        """The lowest positive load factor of K d = lam B d (B projected, not zero; K without free
+        movements) found near `hint`, or None where it is not proven so; on the freedoms B touches,
+        K condensed onto them exactly, as in the full solve. Rayleigh quotient iteration (each step
+        one solve of (K - shift B) x = B x, the shift the last Rayleigh quotient d^T K d / d^T B d
+        once that lies near the hint, the hint times 1 + NEAR_SHIFT before: inverse iteration, which
+        draws the shape towards the modes nearest the hint first) converges to a load factor near it. The
+        Rayleigh quotient lam of any shape with d^T B d > 0 is at or above the lowest load factor (K
+        positive definite), and where K - lam (1 - CERTIFIED) B is positive definite (a Cholesky
+        factorization) no load factor lies in (0, lam (1 - CERTIFIED)] (Sylvester's law of
+        inertia): lam is then the lowest, to within CERTIFIED above it. Some three solves and one
+        factorization, against K's inverse Cholesky factor and a full eigen-solve of the standard form."""
+        active = np.abs(b).max(axis=1) > ZERO_GEOMETRY * np.abs(b).max()
         k, coupling = self._condensed(active)
-        b = baa
+        b = b[np.ix_(active, active)]
         shape = _start_vector(len(k))
-        value, quotient = hint * (1.0 + NEAR_SHIFT), math.nan
+        shift, value = hint * (1.0 + NEAR_SHIFT), math.nan
         for _ in range(NEAR_STEPS):
             try:
-                shape = np.linalg.solve(k - value * b, b @ shape)
+                shape = np.linalg.solve(k - shift * b, b @ shape)
             except np.linalg.LinAlgError:  # exactly singular at the shift: left to the full solve
                 return None
             shape /= np.linalg.norm(shape)
             work = float(shape @ b @ shape)
-            if not work > 0.0:
-                return None
-            quotient, value = value, float(shape @ k @ shape) / work
-            if abs(quotient - value) <= NEAR_SETTLED * value:
+            quotient = float(shape @ k @ shape) / work if work > 0.0 else math.inf
+            settled = abs(quotient - value) <= NEAR_SETTLED * quotient
+            value = quotient
+            if settled:
                 break
+            if abs(quotient - hint) <= NEAR_BAND * hint:  # the shape is near the mode sought: its quotient the next shift
+                shift = quotient
         if not (math.isfinite(value) and value > 0.0) or not _positive_definite(k - value * (1.0 - CERTIFIED) * b):
             return None
         return Buckling(value, self._on_all(active, coupling, shape))
