@@ -155,7 +155,7 @@ class MemberStability:
 
     def geometry(self, kind: str, section: StabilitySection, weights: np.ndarray) -> np.ndarray | float:
         """B = -G of a load set for a section."""
-        return -weighted_sum(self.load_set_terms(kind, weights), term_coefficients(kind, section))
+        return as_matrix(-weighted_sum(self.load_set_terms(kind, weights), term_coefficients(kind, section)), self.mesh.size, self.mesh.sparse)
 
     def axial_buckling(self, section: StabilitySection, weights: np.ndarray) -> Buckling:
         """The lowest load factor of a load set's axial force (flexural, torsional, flexural-torsional)."""
