@@ -72,12 +72,12 @@ class StabilityBounds:
         (the converged solves of every combination, its pattern arrangements too, the second-order
         actions and the stress field)."""
         self.epoch += 1
-        solver = self.model.for_section(section)
+        solver = self.model.for_section(section, keep=True)  # its solves then start the section's full check
         loads, per_mass = self.model.rows
         for kind, c in sorted(self.wanted):
             if kind == "lateral" and not self.lateral_applies[index]:
                 continue
-            found = solver.reduced.modes(solver.load_matrix_full(kind, loads[c] + mass * per_mass[c]), 1)[0]
+            found = solver.unrefined(kind, loads[c] + mass * per_mass[c])
             mode = solver.on_base(found.mode)
             if mode is not None and not found.free_movement:
                 self._take((kind, self.origin[c]), mode)

@@ -49,6 +49,7 @@ class MemberStability:
         self._columns: dict[tuple[str, int, bool], dict[str, np.ndarray]] = {}
         self._live: dict[str, frozenset[int]] = {}
         self._meshes: dict[bytes, MemberStability] = {}
+        self._kept: tuple[tuple[float, ...], SectionStability] | None = None  # see for_section
 
     def same_columns(self, other: "MemberStability") -> bool:
         """Whether `other`'s load-case columns give this model's term matrices exactly: the same mesh,
@@ -165,12 +166,21 @@ class MemberStability:
         """The lowest load factor of a load set's major-axis bending (lateral-torsional)."""
         return self.for_section(section).lateral(weights)
 
-    def for_section(self, section: StabilitySection) -> "SectionStability":
+    def for_section(self, section: StabilitySection, keep: bool = False) -> "SectionStability":
         """The solves of one section, its stiffness and admissible freedoms made once: on this mesh
         graded towards the warping holds for the section, refined until converged (SectionStability);
-        the buckled shapes are given on this mesh."""
+        the buckled shapes are given on this mesh. `keep`: kept for the next call for the same
+        section (values equal) on this model, which takes it with the solves made so far (a sizing
+        seed's unrefined solves, then the section's full check)."""
+        key = _section_key(section)
+        kept, self._kept = self._kept, None
+        if kept is not None and kept[0] == key and kept[1].model.solution is self.solution and kept[1].base is self.mesh:
+            return kept[1]
         model = self.graded_for(section)
-        return SectionStability(model, section, model.stiffness(section), model.basis(section), self.mesh)
+        found = SectionStability(model, section, model.stiffness(section), model.basis(section), self.mesh)
+        if keep and key is not None:
+            self._kept = (key, found)
+        return found
 
     def energy_shares(self, section: StabilitySection, mode: np.ndarray) -> dict[str, float]:
         """Share of a buckled shape's strain energy in each field: "v" (bending in the depth plane),
@@ -308,6 +318,17 @@ class SectionStability:
         found = self._converged(lambda level, hint: level._shape_solve(kind, shape, hint))
         return Buckling(found.load_factor / scale, found.mode, found.free_movement)
 
+    def unrefined(self, kind: str, weights: np.ndarray) -> Buckling:
+        """The lowest load factor of a load set (as in load_set) on this level's mesh alone, not
+        converged (at or above the converged one: the finer meshes hold this one's shapes), with its
+        shape on this level's mesh; the solve is the one load_set starts from (made once per shape)."""
+        live = self.model.live_columns(kind)
+        shape, scale = load_shape((column, weight) for column, weight in enumerate(weights) if column in live)
+        if not shape:
+            return Buckling(math.inf, None)
+        found = self._shape_solve(kind, shape, math.inf)
+        return Buckling(found.load_factor / scale, found.mode, found.free_movement)
+
     def _shape_solve(self, kind: str, shape: "LoadShape", hint: float) -> Buckling:
         """The lowest load factor of a load shape on this level's mesh (made once per shape; `hint`:
         see Reduced.modes)."""
@@ -394,6 +415,12 @@ class SameLoadSets:
 
 def _columns_and_signs(shape: LoadShape) -> tuple[tuple[int, bool], ...]:
     return tuple((column, positive) for column, positive, _ in shape)
+
+
+def _section_key(section: StabilitySection) -> tuple[float, ...] | None:
+    """A section's values as a key (None for a batch of sections: arrays)."""
+    values = tuple(getattr(section, name) for name in section.__dataclass_fields__)
+    return tuple(float(value) for value in values) if all(np.ndim(value) == 0 for value in values) else None
 
 
 def term_coefficients(kind: str, section: StabilitySection) -> dict[str, Coefficient]:
