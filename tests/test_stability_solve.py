@@ -125,3 +125,23 @@ def test_dense_limit_follows_the_load_case_columns() -> None:
     assert dense_limit(4) == DENSE_MOST
     assert dense_limit(22) == DENSE_LEAST
     assert all(dense_limit(n) >= dense_limit(n + 1) for n in range(1, 40))
+
+
+def test_a_kept_section_solver_is_handed_over_once_and_solves_the_same() -> None:
+    """A sizing seed's solver (for_section keep=True) is taken by the next call for the same section
+    on the same model, once; its unrefined load factor lies at or above the converged one (Galerkin
+    eigenvalues lie above the exact ones: Strang & Fix ch. 6, from memory), and its converged value is
+    a fresh solver's and the Timoshenko & Gere value."""
+    length, moment = 6.0, 10e3
+    model, weights = uniform_moment(length, moment)
+    kept = model.for_section(ipe300(), keep=True)
+    unrefined = kept.unrefined("lateral", weights)
+    assert model.for_section(replace(ipe300())) is kept
+    fresh = model.for_section(ipe300())
+    assert fresh is not kept
+    converged = kept.load_set("lateral", weights).load_factor
+    assert converged == fresh.load_set("lateral", weights).load_factor
+    assert unrefined.load_factor >= converged
+    s = IPE300
+    timoshenko = math.pi / length * math.sqrt(E * s["Iy"] * G * s["J"] * (1 + math.pi**2 * E * s["Iw"] / (G * s["J"] * length**2)))
+    assert converged * moment == pytest.approx(timoshenko, rel=1e-4)
