@@ -51,8 +51,7 @@ class StabilityBounds:
         self.projections: dict[tuple[str, int], Projection] = {}
         self.stale: set[Group] = set()
         self.epoch = 0  # counts the full checks and seeds whose shapes were taken
-        patterning = base.member.patterning
-        self.seeds = bool(patterning and patterning.switches)  # seed before a full check (see seed)
+        self.seeds = True  # seed before every full check (see seed): measured to pay for members with and without pattern arrangements
 
     def add(self, report: StabilityReport) -> None:
         """Take a full check's buckled shapes as trial shapes (projected onto every section's allowed
@@ -69,15 +68,16 @@ class StabilityBounds:
         base mesh, not refined, under every load set bounded here, as trial shapes. The finer meshes
         hold the base mesh's shapes, so its base-mesh load factors lie above its converged ones, and
         its own bounds come within the refinement's change of its check's: one small eigen-solve per
-        load set can rule it out where its check would fail on stability (for a member with pattern
-        arrangements, whose full check searches them all)."""
+        load set can rule it out where its check would fail on stability, in place of its full check
+        (the converged solves of every combination, its pattern arrangements too, the second-order
+        actions and the stress field)."""
         self.epoch += 1
-        solver = self.model.for_section(section)
+        solver = self.model.for_section(section, keep=True)  # its solves then start the section's full check
         loads, per_mass = self.model.rows
         for kind, c in sorted(self.wanted):
             if kind == "lateral" and not self.lateral_applies[index]:
                 continue
-            found = solver.reduced.modes(solver.load_matrix_full(kind, loads[c] + mass * per_mass[c]), 1)[0]
+            found = solver.unrefined(kind, loads[c] + mass * per_mass[c])
             mode = solver.on_base(found.mode)
             if mode is not None and not found.free_movement:
                 self._take((kind, self.origin[c]), mode)
@@ -87,7 +87,7 @@ class StabilityBounds:
         if group not in self.shapes:
             return
         if self.basis is None:
-            self.basis = admissible_basis(self.model.mesh.size, strict_rows(self.model))
+            self.basis = admissible_basis(self.model.mesh.size, strict_rows(self.model), self.model.mesh.sparse)
         self.shapes[group].append(self.basis @ (self.basis.T @ mode))
         self.stale.add(group)
 

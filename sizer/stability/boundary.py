@@ -127,7 +127,7 @@ def spring_diagonal(member: Member, mesh: Mesh, orientation: str) -> np.ndarray:
     return out
 
 
-def admissible_basis(size: int, rows: list[Row]) -> np.ndarray:
+def admissible_basis(size: int, rows: list[Row], sparse: bool) -> np.ndarray:
     """(size, k) orthonormal basis (dense or sparse: sizer.stability.matrices) of the freedoms that
     satisfy every row (its null space), built
     group by group: rows that share no freedom are independent, so each group of rows linked by
@@ -150,7 +150,7 @@ def admissible_basis(size: int, rows: list[Row]) -> np.ndarray:
         count += k
     values = np.concatenate([np.ones(len(free))] + [null.ravel() for null in nulls])
     return assemble((size, count), np.concatenate([free, np.array(dofs, int)]),
-                    np.concatenate([np.arange(len(free)), np.array(columns, int)]), values)
+                    np.concatenate([np.arange(len(free)), np.array(columns, int)]), values, sparse)
 
 
 def _group_matrix(group_rows: list[Row], group_dofs: list[int]) -> np.ndarray:

@@ -67,7 +67,7 @@ def integral(quad: Quadrature, f: np.ndarray, first: tuple[int, str], second: tu
     blocks = np.einsum("eg,egi,egj->eij", f * quad.weight, a, b)
     da, db = quad.mesh.element_freedoms(fa), quad.mesh.element_freedoms(fb)
     rows, columns = np.broadcast_arrays(da[:, :, None], db[:, None, :])
-    out = assemble((quad.mesh.size, quad.mesh.size), rows, columns, blocks)
+    out = assemble((quad.mesh.size, quad.mesh.size), rows, columns, blocks, quad.mesh.sparse)
     if symmetric and first != second:
         out = out + out.T
     return out

@@ -37,7 +37,7 @@ def height_terms(quad: Quadrature, member: Member, orientation: str, weights: np
     """The load-height matrices of one load set: `weights` (n_cases + 1,) factors on `cases` and, last,
     on the unit self-weight (N/m along gravity), as MemberSolution.weights gives them."""
     axis = depth_axis(orientation)
-    out = _Sums(quad.mesh.size)
+    out = _Sums(quad.mesh.size, quad.mesh.sparse)
     factor = dict(zip(cases, weights[:-1]))
     for load in member.loads:
         f = float(factor.get(load.case, 0.0))
@@ -56,13 +56,13 @@ def height_terms(quad: Quadrature, member: Member, orientation: str, weights: np
 class _Sums:
     """Matrices by height key, made on first use (dense or sparse: sizer.stability.matrices)."""
 
-    def __init__(self, size: int) -> None:
-        self.size = size
+    def __init__(self, size: int, sparse: bool) -> None:
+        self.size, self.sparse = size, sparse
         self.sums: dict[str, np.ndarray] = {}
 
     def __getitem__(self, key: str) -> np.ndarray:
         if key not in self.sums:
-            self.sums[key] = as_matrix(0.0, self.size)
+            self.sums[key] = as_matrix(0.0, self.size, self.sparse)
         return self.sums[key]
 
     def __setitem__(self, key: str, value: np.ndarray) -> None:
@@ -86,7 +86,7 @@ def _add_point(out: "_Sums", quad: Quadrature, force: float, at: float, height: 
     key = ("top" if force < 0 else "bottom") if height is None else (height if isinstance(height, str) else "fixed")
     scale = height if isinstance(height, float) else 1.0
     dof = np.array([quad.mesh.value[quad.mesh.node_at(at), PHI]])
-    out[key] += assemble((out.size, out.size), dof, dof, np.array([force * scale]))
+    out[key] += assemble((out.size, out.size), dof, dof, np.array([force * scale]), out.sparse)
 
 
 def _add_line(out: "_Sums", quad: Quadrature, factor: float, load: LineLoad, axis: int) -> None:

@@ -1,8 +1,12 @@
 """The stability solver's matrices: dense numpy arrays for small meshes, scipy.sparse (CSR) ones for
-meshes of more than SPARSE_FROM freedoms: the refined meshes of the convergence check (a banded
-shift-invert solve is much faster than a dense one there) and members with many restraints (a node
-at each: thousands of freedoms whose dense matrices would take gigabytes). scipy is imported only
-then.
+large meshes: the refined meshes of the convergence check (a banded shift-invert solve is much
+faster than a dense one there) and members with many restraints (a node at each: thousands of
+freedoms whose dense matrices would take gigabytes). scipy is imported only then.
+
+Where a mesh turns sparse depends on what its member keeps: each load-case column's geometric
+matrices are made once and kept (for every section's solves, and a patterned member's branch and
+bound keeps each switch's), so a member with many load-case columns (a patterned one: a column per
+span and patterned case) keeps many matrices, and its meshes turn sparse sooner (dense_limit).
 """
 
 from __future__ import annotations
@@ -11,20 +15,27 @@ from typing import Any
 
 import numpy as np
 
-SPARSE_FROM = 300  # freedoms: above this the matrices are sparse and the eigen-solve iterative (scipy's import, some 0.2 s,
-# then). 600 saved that import on the demo's refined meshes but a ten-span patterned purlin kept some 900 dense
-# per-switch matrices of 300-600 freedoms: 81 s and 2.7 GB against 2.8 s and 157 MB at 300
+DENSE_MOST = 600  # freedoms: a mesh larger than this is sparse whatever its member
+DENSE_LEAST = 300  # ... and one of at most this many is dense
+DENSE_BYTES = 12e6  # in between, a mesh is dense while one dense matrix per load-case column fits in this (bytes)
+# Measured (2 cores): a member of 4 columns (3 load cases and the self-weight) stays dense to 600 freedoms, which saves
+# scipy's import (some 0.1 s) on the refined meshes of the convergence check; a ten-span purlin with two patterned cases
+# (22 columns) kept some 900 dense per-switch matrices of 300-600 freedoms at a fixed limit of 600: 81 s and 2.7 GB
+# against 1.6 s and 150 MB with its meshes above 300 freedoms sparse, which this limit keeps.
 
 
-def is_sparse(size: int) -> bool:
-    """True when a mesh of `size` freedoms gets sparse matrices."""
-    return size > SPARSE_FROM
+def dense_limit(columns: int) -> int:
+    """The most freedoms of a mesh with dense matrices, for a member of `columns` load-case columns
+    (its load cases and the self-weight): one (n, n) float matrix per column within DENSE_BYTES,
+    and within DENSE_LEAST..DENSE_MOST."""
+    fits = int(np.sqrt(DENSE_BYTES / (8.0 * max(columns, 1))))
+    return min(max(fits, DENSE_LEAST), DENSE_MOST)
 
 
-def assemble(shape: tuple[int, int], rows: np.ndarray, columns: np.ndarray, values: np.ndarray) -> Any:
-    """The matrix with `values` summed at (`rows`, `columns`): sparse when shape[0] is large."""
+def assemble(shape: tuple[int, int], rows: np.ndarray, columns: np.ndarray, values: np.ndarray, sparse: bool) -> Any:
+    """The matrix with `values` summed at (`rows`, `columns`): scipy.sparse (CSR) when `sparse`."""
     rows, columns, values = np.ravel(rows), np.ravel(columns), np.ravel(values)
-    if is_sparse(shape[0]):
+    if sparse:
         from scipy.sparse import coo_matrix
 
         return coo_matrix((values, (rows, columns)), shape=shape).tocsr()
@@ -32,10 +43,10 @@ def assemble(shape: tuple[int, int], rows: np.ndarray, columns: np.ndarray, valu
     return np.bincount(flat, weights=values, minlength=shape[0] * shape[1]).astype(float, copy=False).reshape(shape)
 
 
-def diagonal(values: np.ndarray) -> Any:
+def diagonal(values: np.ndarray, sparse: bool) -> Any:
     """The diagonal matrix of `values`."""
     index = np.arange(len(values))
-    return assemble((len(values), len(values)), index, index, values)
+    return assemble((len(values), len(values)), index, index, values, sparse)
 
 
 def largest_entry(matrix: Any) -> float:
@@ -45,8 +56,8 @@ def largest_entry(matrix: Any) -> float:
     return float(np.abs(matrix).max(initial=0.0))
 
 
-def as_matrix(value: Any, size: int) -> Any:
+def as_matrix(value: Any, size: int, sparse: bool) -> Any:
     """A weighted sum that may be the number 0 (no terms) as a (size, size) matrix."""
     if isinstance(value, (int, float)):
-        return assemble((size, size), np.zeros(0, int), np.zeros(0, int), np.zeros(0))
+        return assemble((size, size), np.zeros(0, int), np.zeros(0, int), np.zeros(0), sparse)
     return value

@@ -19,6 +19,7 @@ import numpy as np
 
 from sizer.analysis.layout import merge_positions, position_tolerance
 from sizer.model import LineLoad, Member, PointLoad
+from sizer.stability.matrices import dense_limit
 
 ELEMENTS_PER_LENGTH = 8  # elements over the member length, at least
 ELEMENTS_PER_BAY = 6  # elements between neighbouring supports or restraints, at least (a buckled half-wave fits in a bay)
@@ -38,6 +39,7 @@ class Mesh:
     slope_right: np.ndarray  # (m, 3) int
     size: int
     tol: float
+    sparse: bool = False  # its matrices sparse (sizer.stability.matrices.dense_limit)
 
     @property
     def lengths(self) -> np.ndarray:
@@ -115,7 +117,7 @@ def mesh_on_nodes(member: Member, nodes: np.ndarray, tol: float) -> Mesh:
             count += 3
         else:
             right[i] = left[i]
-    return Mesh(nodes, value, left, right, count, tol)
+    return Mesh(nodes, value, left, right, count, tol, count > dense_limit(len(member.cases) + 1))
 
 
 def halved(member: Member, mesh: Mesh) -> Mesh:

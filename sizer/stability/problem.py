@@ -49,6 +49,7 @@ class MemberStability:
         self._columns: dict[tuple[str, int, bool], dict[str, np.ndarray]] = {}
         self._live: dict[str, frozenset[int]] = {}
         self._meshes: dict[bytes, MemberStability] = {}
+        self._kept: tuple[tuple[float, ...], SectionStability] | None = None  # see for_section
 
     def same_columns(self, other: "MemberStability") -> bool:
         """Whether `other`'s load-case columns give this model's term matrices exactly: the same mesh,
@@ -107,12 +108,12 @@ class MemberStability:
 
     def stiffness(self, section: StabilitySection) -> np.ndarray:
         """K (size, size): the elastic matrices weighted by the section's rigidities, plus springs."""
-        return weighted_sum(self.elastic, elastic_coefficients(section)) + diagonal(self.springs)
+        return weighted_sum(self.elastic, elastic_coefficients(section)) + diagonal(self.springs, self.mesh.sparse)
 
     def basis(self, section: StabilitySection) -> np.ndarray:
         """The admissible freedoms: supports and restraints (heights and warping holds depend on the section)."""
         rows = self.supports + warping_rows(self.member, self.mesh) + restraint_rows(self.member, self.mesh, section)
-        return admissible_basis(self.mesh.size, rows)
+        return admissible_basis(self.mesh.size, rows, self.mesh.sparse)
 
     def load_set_terms(self, kind: str, weights: np.ndarray) -> dict[str, np.ndarray]:
         """The geometric term matrices G_t of a load set (weights (n_cases + 1,)): for "axial" its
@@ -155,7 +156,7 @@ class MemberStability:
 
     def geometry(self, kind: str, section: StabilitySection, weights: np.ndarray) -> np.ndarray | float:
         """B = -G of a load set for a section."""
-        return -weighted_sum(self.load_set_terms(kind, weights), term_coefficients(kind, section))
+        return as_matrix(-weighted_sum(self.load_set_terms(kind, weights), term_coefficients(kind, section)), self.mesh.size, self.mesh.sparse)
 
     def axial_buckling(self, section: StabilitySection, weights: np.ndarray) -> Buckling:
         """The lowest load factor of a load set's axial force (flexural, torsional, flexural-torsional)."""
@@ -165,12 +166,21 @@ class MemberStability:
         """The lowest load factor of a load set's major-axis bending (lateral-torsional)."""
         return self.for_section(section).lateral(weights)
 
-    def for_section(self, section: StabilitySection) -> "SectionStability":
+    def for_section(self, section: StabilitySection, keep: bool = False) -> "SectionStability":
         """The solves of one section, its stiffness and admissible freedoms made once: on this mesh
         graded towards the warping holds for the section, refined until converged (SectionStability);
-        the buckled shapes are given on this mesh."""
+        the buckled shapes are given on this mesh. `keep`: kept for the next call for the same
+        section (values equal) on this model, which takes it with the solves made so far (a sizing
+        seed's unrefined solves, then the section's full check)."""
+        key = _section_key(section)
+        kept, self._kept = self._kept, None
+        if kept is not None and kept[0] == key and kept[1].model.solution is self.solution and kept[1].base is self.mesh:
+            return kept[1]
         model = self.graded_for(section)
-        return SectionStability(model, section, model.stiffness(section), model.basis(section), self.mesh)
+        found = SectionStability(model, section, model.stiffness(section), model.basis(section), self.mesh)
+        if keep and key is not None:
+            self._kept = (key, found)
+        return found
 
     def energy_shares(self, section: StabilitySection, mode: np.ndarray) -> dict[str, float]:
         """Share of a buckled shape's strain energy in each field: "v" (bending in the depth plane),
@@ -244,24 +254,23 @@ class SectionStability:
         return self._finer
 
     def axial(self, weights: np.ndarray) -> Buckling:
-        return self._converged(lambda level: level.reduced.modes(level.model.geometry("axial", level.section, weights), 1)[0])
+        return self._converged(lambda level, hint: level.reduced.modes(level.model.geometry("axial", level.section, weights), 1, hint)[0])
 
     def lateral(self, weights: np.ndarray) -> Buckling:
-        return self._converged(lambda level: level.reduced.modes(level.model.geometry("lateral", level.section, weights), 1)[0])
+        return self._converged(lambda level, hint: level.reduced.modes(level.model.geometry("lateral", level.section, weights), 1, hint)[0])
 
-    def _converged(self, solve: Callable[["SectionStability"], Buckling]) -> Buckling:
-        """The converged load factor of `solve` on this mesh and its halvings (see the class
+    def _converged(self, solve: Callable[["SectionStability", float], Buckling]) -> Buckling:
+        """The converged load factor of `solve` (on a level, with a hint: the coarser level's load
+        factor, at or above the finer one's) on this mesh and its halvings (see the class
         docstring), with the buckled shape on the base mesh."""
-        level, found, previous = self, solve(self), math.inf
+        level, found, previous = self, solve(self, math.inf), math.inf
         if found.free_movement:
             return Buckling(found.load_factor, level.on_base(found.mode), True)
         for _ in range(HALVINGS):
             if level.model.mesh.size * 2 > SIZE_LIMIT:
                 break
             finer = level.finer()
-            if hasattr(finer.reduced, "hint"):  # the sparse solve starts its search there
-                finer.reduced.hint = found.load_factor
-            fine = solve(finer)
+            fine = solve(finer, found.load_factor)
             if fine.free_movement or _agree(found.load_factor, fine.load_factor):
                 self.elements = max(self.elements, len(finer.model.mesh.nodes) - 1)
                 return Buckling(fine.load_factor, finer.on_base(fine.mode), fine.free_movement)
@@ -306,15 +315,27 @@ class SectionStability:
         shape, scale = load_shape((column, weight) for column, weight in enumerate(weights) if column in live)
         if not shape:
             return Buckling(math.inf, None)
-        found = self._converged(lambda level: level._shape_solve(kind, shape))
+        found = self._converged(lambda level, hint: level._shape_solve(kind, shape, hint))
         return Buckling(found.load_factor / scale, found.mode, found.free_movement)
 
-    def _shape_solve(self, kind: str, shape: "LoadShape") -> Buckling:
-        """The lowest load factor of a load shape on this level's mesh (made once per shape)."""
+    def unrefined(self, kind: str, weights: np.ndarray) -> Buckling:
+        """The lowest load factor of a load set (as in load_set) on this level's mesh alone, not
+        converged (at or above the converged one: the finer meshes hold this one's shapes), with its
+        shape on this level's mesh; the solve is the one load_set starts from (made once per shape)."""
+        live = self.model.live_columns(kind)
+        shape, scale = load_shape((column, weight) for column, weight in enumerate(weights) if column in live)
+        if not shape:
+            return Buckling(math.inf, None)
+        found = self._shape_solve(kind, shape, math.inf)
+        return Buckling(found.load_factor / scale, found.mode, found.free_movement)
+
+    def _shape_solve(self, kind: str, shape: "LoadShape", hint: float) -> Buckling:
+        """The lowest load factor of a load shape on this level's mesh (made once per shape; `hint`:
+        see Reduced.modes)."""
         found = self._solved[kind].find(shape)
         if found is None:
             b = sum(share * self._column(kind, column, positive) for column, positive, share in shape)
-            found = self.reduced.modes(b, 1)[0]
+            found = self.reduced.modes(b, 1, hint)[0]
             self._solved[kind].add(shape, found)
         return found
 
@@ -336,7 +357,7 @@ class SectionStability:
         key = (kind, column, positive)
         if key not in self._columns:
             terms = self.model.column_terms(kind, column, positive)
-            self._columns[key] = as_matrix(-weighted_sum(terms, term_coefficients(kind, self.section)), self.model.mesh.size)
+            self._columns[key] = as_matrix(-weighted_sum(terms, term_coefficients(kind, self.section)), self.model.mesh.size, self.model.mesh.sparse)
         return self._columns[key]
 
 
@@ -394,6 +415,12 @@ class SameLoadSets:
 
 def _columns_and_signs(shape: LoadShape) -> tuple[tuple[int, bool], ...]:
     return tuple((column, positive) for column, positive, _ in shape)
+
+
+def _section_key(section: StabilitySection) -> tuple[float, ...] | None:
+    """A section's values as a key (None for a batch of sections: arrays)."""
+    values = tuple(getattr(section, name) for name in section.__dataclass_fields__)
+    return tuple(float(value) for value in values) if all(np.ndim(value) == 0 for value in values) else None
 
 
 def term_coefficients(kind: str, section: StabilitySection) -> dict[str, Coefficient]:

@@ -213,7 +213,7 @@ class SectionSolver:
         """G of one load-case column at weight +1 or -1 for this section (made once)."""
         key = (column, positive)
         if key not in self._columns:
-            total = as_matrix(0.0, self.model.mesh.size)
+            total = as_matrix(0.0, self.model.mesh.size, self.model.mesh.sparse)
             for kind in ("axial", "lateral"):
                 coefficients = axial_coefficients(self.section) if kind == "axial" else term_coefficients(kind, self.section)
                 total = total + weighted_sum(self.model.column_terms(kind, column, positive), coefficients)

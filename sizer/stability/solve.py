@@ -27,6 +27,11 @@ NO_LOAD_FACTOR = 1e15  # the sparse solve looks for load factors up to this (abo
 HINT_ABOVE = 1e-9  # the sparse solve's first bracket: from the hint times (1 - HINT_BELOW) to the hint times (1 + HINT_ABOVE)
 HINT_BELOW = 1e-2
 INVERSE_SHIFT = 1e-9  # inverse iteration's shift above the largest eigenvalue, as a fraction of the largest |eigenvalue|
+NEAR_SHIFT = 1e-6  # the dense solve near a hint: its first shift, the hint times (1 + NEAR_SHIFT), above the load factor sought
+NEAR_STEPS = 8  # ... at most this many steps
+NEAR_BAND = 0.5  # ... each step's shift the last Rayleigh quotient where that lies within this (relative) of the hint, else the first
+NEAR_SETTLED = 1e-10  # ... stopped when the Rayleigh quotient changes by at most this (relative; it settles to some 1e-12 in two or three)
+CERTIFIED = 1e-7  # ... the load factor taken where K - lam (1 - CERTIFIED) B is positive definite: no lower one lies more than this below
 
 
 @dataclass(frozen=True)
@@ -83,18 +88,21 @@ class Reduced:
         self.scale = 1.0 / np.sqrt(diagonal)
         self.k = k * np.outer(self.scale, self.scale)
         self.free = _free_movements(self.k)
+        self._condensations: dict[bytes, tuple[np.ndarray, np.ndarray]] = {}
         self._factors: dict[bytes, tuple[np.ndarray, np.ndarray]] = {}
 
     def project(self, B: np.ndarray) -> np.ndarray:
         """B on the admissible freedoms, scaled as K is (the solves are linear in it)."""
         return self._congruence.of(B) * np.outer(self.scale, self.scale)
 
-    def modes(self, B: np.ndarray, count: int) -> list[Buckling]:
-        """The `count` lowest positive load factors of K d = lam B d and their shapes."""
-        return self.projected_modes(self.project(B), count)
+    def modes(self, B: np.ndarray, count: int, hint: float = math.inf) -> list[Buckling]:
+        """The `count` lowest positive load factors of K d = lam B d and their shapes; `hint`: a load
+        factor at or just above the lowest (a coarser mesh's, whose shapes this mesh holds), where known."""
+        return self.projected_modes(self.project(B), count, hint)
 
-    def projected_modes(self, b: np.ndarray, count: int) -> list[Buckling]:
-        """modes() of a B already projected (Reduced.project)."""
+    def projected_modes(self, b: np.ndarray, count: int, hint: float = math.inf) -> list[Buckling]:
+        """modes() of a B already projected (Reduced.project): the lowest one near the hint where
+        that is proven (near_hint), else from every eigenvalue of the standard form."""
         size = np.abs(b).max(initial=0.0)
         if size == 0.0:
             return [Buckling(math.inf, None)]
@@ -106,9 +114,13 @@ class Reduced:
             keep = _complement(free)
             found = Reduced(self.k, keep).modes(b, count)
             return [item if item.mode is None else Buckling(item.load_factor, self._full(item.mode)) for item in found]
+        if count == 1 and 0.0 < hint < math.inf:
+            near = self.near_hint(b, hint)
+            if near is not None:
+                return [near]
         active = np.abs(b).max(axis=1) > ZERO_GEOMETRY * size
-        inverse, coupling = self._factor(active)
         baa = b[np.ix_(active, active)]
+        inverse, coupling = self._factor(active)
         standard = inverse @ baa @ inverse.T
         mu, vectors = largest_eigenpairs((standard + standard.T) / 2, count)
         vectors = inverse.T @ vectors
@@ -117,11 +129,43 @@ class Reduced:
         for value, vector in zip(mu, vectors.T):
             if value <= threshold:
                 break
-            reduced = np.zeros(self.k.shape[0])
-            reduced[active] = vector
-            reduced[~active] = -coupling @ vector
-            found.append(Buckling(1.0 / float(value), self._full(reduced)))
+            found.append(Buckling(1.0 / float(value), self._on_all(active, coupling, vector)))
         return found or [Buckling(math.inf, None)]
+
+    def near_hint(self, b: np.ndarray, hint: float) -> Buckling | None:
+        """The lowest positive load factor of K d = lam B d (B projected, not zero; K without free
+        movements) found near `hint`, or None where it is not proven so; on the freedoms B touches,
+        K condensed onto them exactly, as in the full solve. Rayleigh quotient iteration (each step
+        one solve of (K - shift B) x = B x, the shift the last Rayleigh quotient d^T K d / d^T B d
+        once that lies near the hint, the hint times 1 + NEAR_SHIFT before: inverse iteration, which
+        draws the shape towards the modes nearest the hint first) converges to a load factor near it. The
+        Rayleigh quotient lam of any shape with d^T B d > 0 is at or above the lowest load factor (K
+        positive definite), and where K - lam (1 - CERTIFIED) B is positive definite (a Cholesky
+        factorization) no load factor lies in (0, lam (1 - CERTIFIED)] (Sylvester's law of
+        inertia): lam is then the lowest, to within CERTIFIED above it. Some three solves and one
+        factorization, against K's inverse Cholesky factor and a full eigen-solve of the standard form."""
+        active = np.abs(b).max(axis=1) > ZERO_GEOMETRY * np.abs(b).max()
+        k, coupling = self._condensed(active)
+        b = b[np.ix_(active, active)]
+        shape = _start_vector(len(k))
+        shift, value = hint * (1.0 + NEAR_SHIFT), math.nan
+        for _ in range(NEAR_STEPS):
+            try:
+                shape = np.linalg.solve(k - shift * b, b @ shape)
+            except np.linalg.LinAlgError:  # exactly singular at the shift: left to the full solve
+                return None
+            shape /= np.linalg.norm(shape)
+            work = float(shape @ b @ shape)
+            quotient = float(shape @ k @ shape) / work if work > 0.0 else math.inf
+            settled = abs(quotient - value) <= NEAR_SETTLED * quotient
+            value = quotient
+            if settled:
+                break
+            if abs(quotient - hint) <= NEAR_BAND * hint:  # the shape is near the mode sought: its quotient the next shift
+                shift = quotient
+        if not (math.isfinite(value) and value > 0.0) or not _positive_definite(k - value * (1.0 - CERTIFIED) * b):
+            return None
+        return Buckling(value, self._on_all(active, coupling, shape))
 
     def standard_forms(self, matrices: list[np.ndarray]) -> list[np.ndarray] | None:
         """Each B (already projected) in standard form C = L^-1 B L^-T on the freedoms any of them
@@ -142,11 +186,11 @@ class Reduced:
             forms.append((c + c.T) / 2)
         return forms
 
-    def _factor(self, active: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-        """For the freedoms `active` that B touches: the inverse Cholesky factor of K condensed onto
-        them (exact: the others carry no geometric term) and the condensation (others = -coupling @ active)."""
+    def _condensed(self, active: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        """For the freedoms `active` that B touches: K condensed onto them (exact: the others carry no
+        geometric term) and the condensation (others = -coupling @ active)."""
         key = active.tobytes()
-        if key not in self._factors:
+        if key not in self._condensations:
             k, passive = self.k, ~active
             kaa = k[np.ix_(active, active)]
             coupling = np.zeros((int(passive.sum()), int(active.sum())))
@@ -155,8 +199,24 @@ class Reduced:
                 if np.abs(kap).max(initial=0.0) > 0.0:
                     coupling = np.linalg.solve(k[np.ix_(passive, passive)], kap.T)
                     kaa = kaa - kap @ coupling
+            self._condensations[key] = (kaa, coupling)
+        return self._condensations[key]
+
+    def _factor(self, active: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        """For the freedoms `active` that B touches: the inverse Cholesky factor of K condensed onto
+        them and the condensation (see _condensed)."""
+        key = active.tobytes()
+        if key not in self._factors:
+            kaa, coupling = self._condensed(active)
             self._factors[key] = (np.linalg.inv(np.linalg.cholesky(kaa)), coupling)
         return self._factors[key]
+
+    def _on_all(self, active: np.ndarray, coupling: np.ndarray, vector: np.ndarray) -> np.ndarray:
+        """A shape on the freedoms `active` (and the others by the condensation) on every freedom."""
+        reduced = np.zeros(self.k.shape[0])
+        reduced[active] = vector
+        reduced[~active] = -coupling @ vector
+        return self._full(reduced)
 
     def _full(self, reduced: np.ndarray) -> np.ndarray:
         return _full(self.basis, self.scale, reduced)
@@ -195,22 +255,22 @@ class SparseReduced:
             singular = True
         if singular:
             self.dense = Reduced(self.k.toarray(), np.eye(self.k.shape[0]))
-        self.hint = 1.0  # where the bracket search starts: a load factor expected near the lowest (a coarser mesh's)
         self.offset = 0 if singular else _negative_pivots(self.k)[1]  # K's own (round-off on very fine meshes), not counted
 
     def project(self, B: Any) -> Any:
         """B on the admissible freedoms, scaled as K is."""
         return (self._scaling @ (self.basis.T @ B @ self.basis) @ self._scaling).tocsr()
 
-    def modes(self, B: Any, count: int) -> list[Buckling]:
-        return self.projected_modes(self.project(B), count)
+    def modes(self, B: Any, count: int, hint: float = math.inf) -> list[Buckling]:
+        return self.projected_modes(self.project(B), count, hint)
 
-    def projected_modes(self, b: Any, count: int) -> list[Buckling]:
+    def projected_modes(self, b: Any, count: int, hint: float = math.inf) -> list[Buckling]:
         """modes() of a B already projected: the lowest positive load factor bracketed by the inertia
         of K - sigma B (its negative pivots count the load factors in (0, sigma): Sylvester's law of
         inertia, K positive definite), then found by shift-invert Lanczos iteration about the
         bracket's lower end (scipy's eigsh in buckling mode), where it is the largest transformed
-        eigenvalue, well apart from the others. `count` > 1: the others above it follow."""
+        eigenvalue, well apart from the others. `count` > 1: the others above it follow. `hint`: where
+        the bracket search starts (see _bracket; 1 where not finite)."""
         from scipy.sparse.linalg import LinearOperator, eigsh
 
         size = float(abs(b).max()) if b.nnz else 0.0
@@ -219,7 +279,7 @@ class SparseReduced:
         if self.dense is not None:
             found = self.dense.projected_modes(b.toarray(), count)
             return [item if item.mode is None else Buckling(item.load_factor, self._full(item.mode), item.free_movement) for item in found]
-        bracket = self._bracket(b)
+        bracket = self._bracket(b, hint)
         if bracket is None:
             return [Buckling(math.inf, None)]
         sigma, factors = bracket
@@ -230,16 +290,17 @@ class SparseReduced:
         order = np.argsort(values)
         return [Buckling(float(values[i]), self._full(vectors[:, i])) for i in order if values[i] > 0]
 
-    def _bracket(self, b: Any) -> tuple[float, Any] | None:
+    def _bracket(self, b: Any, hint: float) -> tuple[float, Any] | None:
         """(sigma, LU factors of K - sigma B) with no load factor in (0, sigma] and the lowest within
         (sigma, BRACKET sigma]; None when there is none below NO_LOAD_FACTOR (no buckling). Tried
         first: the narrow bracket HINT_BELOW under the hint (a coarser mesh's load factor, which the
         finer one's lies just under), two factorizations; the search below where that fails."""
-        if math.isfinite(self.hint) and self.hint > 0 and self._inertia(b, self.hint * (1 + HINT_ABOVE))[1]:
-            factors, below = self._inertia(b, self.hint * (1 - HINT_BELOW))
+        hinted = math.isfinite(hint) and hint > 0
+        if hinted and self._inertia(b, hint * (1 + HINT_ABOVE))[1]:
+            factors, below = self._inertia(b, hint * (1 - HINT_BELOW))
             if not below:
-                return self.hint * (1 - HINT_BELOW), factors
-        sigma = self.hint if math.isfinite(self.hint) and self.hint > 0 else 1.0
+                return hint * (1 - HINT_BELOW), factors
+        sigma = hint if hinted else 1.0
         factors, below = self._inertia(b, sigma)
         if below:
             while below:
@@ -309,6 +370,15 @@ def _start_vector(size: int) -> np.ndarray:
     vector = np.sin(2.399963229728653 * np.arange(1, size + 1))
     vector.flags.writeable = False
     return vector
+
+
+def _positive_definite(matrix: np.ndarray) -> bool:
+    """Whether the symmetric `matrix` has a Cholesky factor (is positive definite)."""
+    try:
+        np.linalg.cholesky(matrix)
+    except np.linalg.LinAlgError:
+        return False
+    return True
 
 
 def _free_movements(k: np.ndarray) -> np.ndarray | None:

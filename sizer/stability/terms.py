@@ -86,10 +86,12 @@ def moment_coefficients(section: StabilitySection) -> dict[str, Coefficient]:
 
 
 def weighted_sum(terms: dict[str, np.ndarray], coefficients: dict[str, Coefficient]) -> np.ndarray | float:
-    """sum of coefficient x matrix over the terms present in both (0.0 when there are none)."""
+    """sum of coefficient x matrix over the terms present in both (0.0 when there are none); a term
+    whose coefficient is the number 0 (z0 and y0 of a doubly symmetric section, say) adds nothing and
+    is left out."""
     out: np.ndarray | float = 0.0
     for name, matrix in terms.items():
-        if name in coefficients:
+        if name in coefficients and not (np.ndim(coefficients[name]) == 0 and coefficients[name] == 0.0):
             term = float(coefficients[name]) * matrix
             if isinstance(out, np.ndarray) and isinstance(term, np.ndarray):
                 out += term  # in place: the same sums, one array fewer per term
