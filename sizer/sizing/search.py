@@ -197,6 +197,7 @@ class Search:
                     self.reveal_count = min(2 * self.reveal_count, REVEAL_MOST)
                     return False
             if self.seeded(candidate) and self.ruled_out(candidate):
+                self.reveal_count = min(2 * self.reveal_count, REVEAL_MOST)  # a failure, as a failed full check is
                 return False
         passes = self.full_check(candidate, learn).passes
         self.reveal_count = 1 if passes else min(2 * self.reveal_count, REVEAL_MOST)
