@@ -17,7 +17,7 @@ Units: stresses in Pa, forces in N, lengths in m. Utilization = demand / allowab
 from sizer.analysis.section_axes import to_section_axes
 from sizer.checks.buckling import BucklingAxis, ColumnBuckling, column_buckling, given_euler_loads, given_length_axes
 from sizer.checks.deflection import Span, deflection_check, relative_to_supports, span_deflections, span_points, spans
-from sizer.checks.design_check import check_design, check_notes
+from sizer.checks.design_check import check_design, check_notes, stress_checks
 from sizer.checks.field import FieldPeaks, StationStresses, full_field_stresses
 from sizer.checks.results import CHECK_NAMES, ZERO_ACTION, CheckReport, CheckResult
 from sizer.checks.stations import check_stations, member_actions
@@ -27,7 +27,7 @@ from sizer.checks.strength import compression_allowables
 
 __all__ = [
     "CHECK_NAMES", "ZERO_ACTION", "BucklingAxis", "CheckReport", "CheckResult", "ColumnBuckling", "FieldPeaks", "LateralBuckling", "Span",
-    "StabilityReport", "StationStresses", "check_design", "check_notes", "check_stations", "column_buckling",
+    "StabilityReport", "StationStresses", "check_design", "check_notes", "stress_checks", "check_stations", "column_buckling",
     "compression_allowables", "deflection_check", "given_length_axes", "lateral_buckling", "stability_report",
     "full_field_stresses", "member_actions", "relative_to_supports", "span_deflections", "span_points", "spans",
     "to_section_axes", "given_euler_loads",

@@ -4,6 +4,7 @@
 from __future__ import annotations
 
 import math
+from dataclasses import dataclass
 from typing import TYPE_CHECKING
 
 import numpy as np
@@ -33,6 +34,8 @@ from sizer.stability.boundary import warping_held
 
 if TYPE_CHECKING:
     from sizer.checks.arrangement_stability import LateralSearch
+    from sizer.checks.second_order import SecondOrderActions
+    from sizer.checks.torsion import TorsionActions
     from sizer.sections.fields import UnitStressField
     from sizer.stability.problem import SectionStability
 
@@ -45,16 +48,27 @@ PATTERN_SECOND_ORDER_NOTE = (
     "or the amplification is large, check such arrangements as combinations of their own.")
 
 
-def check_design(design: Design, unit_field: UnitStressField, n_even: int = 200, stability: MemberStability | None = None,
-                 validate_across: bool = True, scaled: tuple[StabilityReport, float] | None = None) -> CheckReport:
-    """Every check of docs/design.md section 7 for the design's section, on the full stress field. `stability`:
-    the member's MemberStability to reuse (sizing checks many sections of one member). With
-    `validate_across` a load placed across the section beyond it is bad input (sizing checks every
-    candidate with the load where given, as on a bracket). `scaled`: the stability report of this
-    section on the member as given and the factor on its loads (see stability_report)."""
-    design, stability, searches, solver = _governing_arrangements(design, unit_field, n_even, stability)
+@dataclass
+class StressState:
+    """What the stress-field checks of one design read: the check stations (m) and their sides, the
+    torsion solve, the first-order actions (C, S, 6) in member axes, the second-order actions (None
+    with second order off), the actions (C, S, 6) and warping actions in section axes the stress
+    field is made from, and its peaks."""
+
+    xs: np.ndarray
+    sides: np.ndarray
+    torsion: TorsionActions
+    first: np.ndarray
+    second: SecondOrderActions | None
+    actions: np.ndarray
+    warping: np.ndarray
+    stress: FieldPeaks
+
+
+def stress_state(design: Design, unit_field: UnitStressField, n_even: int = 200, validate_across: bool = True) -> StressState:
+    """The design's actions and stress field at its check stations, first and (where on) second order:
+    the full check's own (see check_design); no stability solve is made for them."""
     xs, sides = check_stations(design, n_even)
-    names = design.solution.combination_names
     if validate_across:
         check_across(design, np.asarray(unit_field.points))
     torsion = torsion_actions(design, xs, sides)
@@ -64,6 +78,55 @@ def check_design(design: Design, unit_field: UnitStressField, n_even: int = 200,
     actions = to_section_axes(first if second is None else second.actions, design.member.orientation)
     warping = torsion.warping() if second is None else torsion.warping() + second.warping
     stress = FieldPeaks(actions, unit_field, design.props.area, warping)
+    return StressState(xs, sides, torsion, first, second, actions, warping, stress)
+
+
+def field_checks(design: Design, unit_field: UnitStressField, state: StressState) -> dict[str, CheckResult]:
+    """The checks that need no stability solve, by name: axial, bending, shear, equivalent,
+    deflection, local and web, each the full check's own (check_design lists these same results)."""
+    stress, xs, names = state.stress, state.xs, design.solution.combination_names
+    return {
+        "axial": axial_check(stress, xs, names, design),
+        "bending": bending_check(stress, xs, names, design),
+        "shear": shear_check(stress, xs, names, design),
+        "equivalent": equivalent_check(stress, xs, names, design),
+        "deflection": deflection_check(design, state.second),
+        "local": local_check(design, with_warping_compression(state.actions, state.warping, unit_field, design.props.area), xs, names),
+        "web": web_check(design),
+    }
+
+
+def stress_checks(design: Design, unit_field: UnitStressField, n_even: int = 200,
+                  validate_across: bool = True) -> tuple[StressState, dict[str, CheckResult]] | None:
+    """The full check's own stress-field checks (field_checks) and the state they came from, without
+    its stability solves: each value equals check_design's for that check, so their largest is a
+    proven lower bound of its utilization. None where check_design would first add the pattern
+    arrangements that govern (a superposable solution: see _governing_arrangements)."""
+    from sizer.analysis.superposition import superposable
+
+    if superposable(design.solution) and design.material is not None:
+        return None
+    state = stress_state(design, unit_field, n_even, validate_across)
+    return state, field_checks(design, unit_field, state)
+
+
+def check_design(design: Design, unit_field: UnitStressField, n_even: int = 200, stability: MemberStability | None = None,
+                 validate_across: bool = True, scaled: tuple[StabilityReport, float] | None = None,
+                 made: tuple[StressState, dict[str, CheckResult]] | None = None) -> CheckReport:
+    """Every check of docs/design.md section 7 for the design's section, on the full stress field. `stability`:
+    the member's MemberStability to reuse (sizing checks many sections of one member). With
+    `validate_across` a load placed across the section beyond it is bad input (sizing checks every
+    candidate with the load where given, as on a bracket). `scaled`: the stability report of this
+    section on the member as given and the factor on its loads (see stability_report). `made`: what
+    stress_checks returned for this design, unit field and `n_even` (not made again)."""
+    given_design = design
+    design, stability, searches, solver = _governing_arrangements(design, unit_field, n_even, stability)
+    names = design.solution.combination_names
+    state, fields = made if made is not None and design is given_design else (None, None)
+    if state is None or fields is None:
+        state = stress_state(design, unit_field, n_even, validate_across)
+        fields = field_checks(design, unit_field, state)
+    xs, sides, first, second, stress = state.xs, state.sides, state.first, state.second, state.stress
     report = stability_report(design, to_section_axes(first, design.member.orientation), xs, stability, searches, solver, scaled)
     given = given_length_axes(design.member, design.props, design.known_material)
     columns = column_buckling(design, report, given)
@@ -73,16 +136,16 @@ def check_design(design: Design, unit_field: UnitStressField, n_even: int = 200,
         report.solve_exactly(stale, design, stability_mass(design))
         interaction, lateral = _lateral_checks(design, report, stress, xs, columns, fb)
     checks = [
-        axial_check(stress, xs, names, design),
-        bending_check(stress, xs, names, design),
+        fields["axial"],
+        fields["bending"],
         interaction,
-        shear_check(stress, xs, names, design),
-        equivalent_check(stress, xs, names, design),
-        deflection_check(design, second),
+        fields["shear"],
+        fields["equivalent"],
+        fields["deflection"],
         buckling_check(columns, design),
         lateral,
-        local_check(design, with_warping_compression(actions, warping, unit_field, design.props.area), xs, names),
-        web_check(design),
+        fields["local"],
+        fields["web"],
     ]
     if second is not None:
         checks = with_amplification(checks, second, design)
@@ -93,10 +156,10 @@ def check_design(design: Design, unit_field: UnitStressField, n_even: int = 200,
     if second is not None and design.member.patterning is not None and design.member.patterning.switches:
         notes.append(PATTERN_SECOND_ORDER_NOTE)
     notes.insert(1, torsion_note(design))
-    braces = brace_demands(design, actions, xs)
+    braces = brace_demands(design, state.actions, xs)
     notes += brace_notes(braces)
     return CheckReport(design.spec.name, checks, notes, len(xs), nodes, stability=report, restraints=braces,
-                       torsion=torsion_summary(design, torsion, xs), second_order=second, design=design)
+                       torsion=torsion_summary(design, state.torsion, xs), second_order=second, design=design)
 
 
 def _governing_arrangements(design: Design, unit_field: UnitStressField, n_even: int,

@@ -11,8 +11,9 @@ from typing import TYPE_CHECKING, Callable, Sequence
 import numpy as np
 
 from sizer.analysis import MemberSolution, solve_member
-from sizer.checks import CheckReport, check_design
-from sizer.design import given_heights
+from sizer.checks import CheckReport, CheckResult, check_design, stress_checks
+from sizer.checks.design_check import StressState
+from sizer.design import Design, given_heights
 from sizer.model import Material, Member, Stiffness
 from sizer.phrase import phrase
 from sizer.sections.properties import AnalysisWorkers
@@ -66,6 +67,7 @@ class Search:
     seeded_rows: set[int] = field(default_factory=set)  # candidates whose own shapes the stability bounds took (seeded)
     webs: np.ndarray | None = None  # each candidate's web check (sizer.checks.web), -1 until made (see web_utilization)
     local_values: dict[int, tuple[tuple[int, ...], float | None]] = field(default_factory=dict)  # candidate -> (its rows, local bound) made
+    made_fields: dict[int, tuple[StressState, dict[str, CheckResult]]] = field(default_factory=dict)  # candidate -> its stress_checks, kept
 
     def compute(self, candidates: Sequence[Candidate]) -> None:
         """Make sure the warping tiers and stress fields of `candidates` are cached (on the workers
@@ -93,13 +95,38 @@ class Search:
 
         if candidate.report is None:
             self.reveal([candidate])
-            design = design_for(self.member, self.material, candidate, self.base)
-            candidate.design = design
-            candidate.report = check_design(design, unit_stress_field(candidate.spec), stability=self.model, validate_across=False)
+            made = self.made_fields.pop(candidate.index, None)
+            candidate.report = check_design(self.design(candidate), unit_stress_field(candidate.spec), stability=self.model,
+                                            validate_across=False, made=made)
             candidate.design = candidate.report.design
             if learn and self.stability is not None and candidate.report.stability is not None:
                 self.stability.add(candidate.report.stability)
         return candidate.report
+
+    def design(self, candidate: Candidate) -> Design:
+        """The candidate's solved design (made once)."""
+        if candidate.design is None:
+            candidate.design = design_for(self.member, self.material, candidate, self.base)
+        return candidate.design
+
+    def fails_on_stress_field(self, candidate: Candidate) -> bool:
+        """Whether the full check's own stress-field checks (sizer.checks.stress_checks: axial, bending,
+        shear, equivalent, deflection, local, web, on its own first- or second-order actions, without
+        its stability solves) prove that the candidate fails: each value is the full check's, so each is
+        a proven lower bound of its utilization, raised onto the candidate. Kept for its full check
+        when they do not. False where they cannot be made apart (pattern arrangements)."""
+        from sizer.sections import unit_stress_field
+
+        made = stress_checks(self.design(candidate), unit_stress_field(candidate.spec), validate_across=False)
+        if made is None:
+            return False
+        for result in made[1].values():
+            if result.made:
+                candidate.raise_bound(result.check, result.made_utilization)
+        if candidate.certainly_fails:
+            return True
+        self.made_fields[candidate.index] = made
+        return False
 
     def stability_bounds(self, candidates: list[Candidate]) -> None:
         """The stability lower bounds, with the trial shapes so far, onto those unchecked candidates
@@ -198,6 +225,8 @@ class Search:
                     return False
             if self.seeded(candidate) and self.ruled_out(candidate):
                 self.reveal_count = min(2 * self.reveal_count, REVEAL_MOST)  # a failure, as a failed full check is
+                return False
+            if self.fails_on_stress_field(candidate):
                 return False
         passes = self.full_check(candidate, learn).passes
         self.reveal_count = 1 if passes else min(2 * self.reveal_count, REVEAL_MOST)
