@@ -50,13 +50,11 @@ PATTERN_SECOND_ORDER_NOTE = (
 
 @dataclass
 class StressState:
-    """What the stress-field checks of one design read: the check stations (m) and their sides, the
-    torsion solve, the first-order actions (C, S, 6) in member axes, the second-order actions (None
+    """What the stress-field checks of one design read: the check stations (m), the torsion solve, the first-order actions (C, S, 6) in member axes, the second-order actions (None
     with second order off), the actions (C, S, 6) and warping actions in section axes the stress
     field is made from, and its peaks."""
 
     xs: np.ndarray
-    sides: np.ndarray
     torsion: TorsionActions
     first: np.ndarray
     second: SecondOrderActions | None
@@ -78,7 +76,7 @@ def stress_state(design: Design, unit_field: UnitStressField, n_even: int = 200,
     actions = to_section_axes(first if second is None else second.actions, design.member.orientation)
     warping = torsion.warping() if second is None else torsion.warping() + second.warping
     stress = FieldPeaks(actions, unit_field, design.props.area, warping)
-    return StressState(xs, sides, torsion, first, second, actions, warping, stress)
+    return StressState(xs, torsion, first, second, actions, warping, stress)
 
 
 def field_checks(design: Design, unit_field: UnitStressField, state: StressState) -> dict[str, CheckResult]:
@@ -126,7 +124,7 @@ def check_design(design: Design, unit_field: UnitStressField, n_even: int = 200,
     if state is None or fields is None:
         state = stress_state(design, unit_field, n_even, validate_across)
         fields = field_checks(design, unit_field, state)
-    xs, sides, first, second, stress = state.xs, state.sides, state.first, state.second, state.stress
+    xs, first, second, stress = state.xs, state.first, state.second, state.stress
     report = stability_report(design, to_section_axes(first, design.member.orientation), xs, stability, searches, solver, scaled)
     given = given_length_axes(design.member, design.props, design.known_material)
     columns = column_buckling(design, report, given)
