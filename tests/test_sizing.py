@@ -1036,3 +1036,26 @@ def test_seeded_stability_bounds_never_exceed_the_check(stocks: dict[str, Path],
         for name in ("buckling", "lateral-torsional"):
             assert found[name][candidate.index] <= checked[candidate.index][name] * (1 + SAME) + 1e-12, (candidate.name, name)
     assert found["lateral-torsional"].max() > 0.0  # the test can tell
+
+
+STRESS_FIELD_CHECKS = {"axial", "bending", "shear", "equivalent", "deflection", "local", "web"}
+
+
+@pytest.mark.parametrize("variant", ["eccentric channel lintel", "angle lintel", "beam-column with a bow"])
+def test_twisting_sections_ruled_out_on_the_full_checks_own_stress_field(stocks: dict[str, Path], tmp_path: Path, variant: str) -> None:
+    """With second order on, the screen's first-order values bound nothing for a channel or an angle
+    whose loads twist it (sizer.sizing.screen.twisted_by_second_order); `sizer size` rules such a
+    section out on its full check's own stress-field checks, made before the stability solves
+    (sizer.checks.stress_checks): the value listed is then `sizer check`'s own for that check (the
+    reference: common practice, the full check is the verdict), which fails."""
+    member = write_member(tmp_path, AGREEMENT_MEMBERS[variant])
+    _, sized = size_json(member, stocks["mixed"], "--top", "1")
+    twisting = [entry for entry in sized["candidates"] if MIXED_SHAPES[entry["section"]][0] in ("channel", "angle")
+                and entry["basis"] == "screen" and entry["governing"] in STRESS_FIELD_CHECKS]
+    assert twisting, "a lighter channel or angle fails on its stress field"
+    for entry in twisting:
+        result = run("check", member, "--catalogue", stocks["mixed"], "--section", entry["section"], "--json")
+        reference = json.loads(result.stdout)
+        named = next(check for check in reference["checks"] if check["check"] == entry["governing"])
+        assert reference["passes"] is False
+        assert entry["utilization"] == pytest.approx(named["utilization"], rel=SAME), entry["section"]
