@@ -67,7 +67,6 @@ class Search:
     seeded_rows: set[int] = field(default_factory=set)  # candidates whose own shapes the stability bounds took (seeded)
     webs: np.ndarray | None = None  # each candidate's web check (sizer.checks.web), -1 until made (see web_utilization)
     local_values: dict[int, tuple[tuple[int, ...], float | None]] = field(default_factory=dict)  # candidate -> (its rows, local bound) made
-    made_fields: dict[int, tuple[StressState, dict[str, CheckResult]]] = field(default_factory=dict)  # candidate -> its stress_checks, kept
 
     def compute(self, candidates: Sequence[Candidate]) -> None:
         """Make sure the warping tiers and stress fields of `candidates` are cached (on the workers
@@ -88,14 +87,14 @@ class Search:
             for row in rows:
                 self.bounded.pop(row, None)  # its stability bounds are made again when next asked for
 
-    def full_check(self, candidate: Candidate, learn: bool = True) -> CheckReport:
+    def full_check(self, candidate: Candidate, learn: bool = True,
+                   made: tuple[StressState, dict[str, CheckResult]] | None = None) -> CheckReport:
         """The full stress-field check of one candidate (the same as `sizer check`); with `learn`, its
-        buckled shapes sharpen the stability bounds of the others."""
+        buckled shapes sharpen the stability bounds of the others. `made`: its stress_checks, if made."""
         from sizer.sections import unit_stress_field
 
         if candidate.report is None:
             self.reveal([candidate])
-            made = self.made_fields.pop(candidate.index, None)
             candidate.report = check_design(self.design(candidate), unit_stress_field(candidate.spec), stability=self.model,
                                             validate_across=False, made=made)
             candidate.design = candidate.report.design
@@ -109,24 +108,19 @@ class Search:
             candidate.design = design_for(self.member, self.material, candidate, self.base)
         return candidate.design
 
-    def fails_on_stress_field(self, candidate: Candidate) -> bool:
-        """Whether the full check's own stress-field checks (sizer.checks.stress_checks: axial, bending,
-        shear, equivalent, deflection, local, web, on its own first- or second-order actions, without
-        its stability solves) prove that the candidate fails: each value is the full check's, so each is
-        a proven lower bound of its utilization, raised onto the candidate. Kept for its full check
-        when they do not. False where they cannot be made apart (pattern arrangements)."""
+    def stress_field_bounds(self, candidate: Candidate) -> tuple[StressState, dict[str, CheckResult]] | None:
+        """The full check's own stress-field checks of the candidate (sizer.checks.stress_checks: axial,
+        bending, shear, equivalent, deflection, local, web, on its own first- or second-order actions,
+        without its stability solves), each raised onto it as a proven lower bound of its utilization
+        (each is the full check's value); returned for its full check. None where they cannot be made
+        apart (pattern arrangements)."""
         from sizer.sections import unit_stress_field
 
         made = stress_checks(self.design(candidate), unit_stress_field(candidate.spec), validate_across=False)
-        if made is None:
-            return False
-        for result in made[1].values():
+        for result in made[1].values() if made is not None else ():
             if result.made:
                 candidate.raise_bound(result.check, result.made_utilization)
-        if candidate.certainly_fails:
-            return True
-        self.made_fields[candidate.index] = made
-        return False
+        return made
 
     def stability_bounds(self, candidates: list[Candidate]) -> None:
         """The stability lower bounds, with the trial shapes so far, onto those unchecked candidates
@@ -214,7 +208,10 @@ class Search:
         only now, for a section the geometric tier cannot rule out); else the verdict of the full
         check. While revealed sections keep failing, the next ones the geometric tier cannot rule out
         either are revealed with it, a growing batch at a time (each would be revealed when the walk
-        reaches it; together, their bounds come in one batch)."""
+        reaches it; together, their bounds come in one batch). Last before the full check, its own
+        stress-field checks (stress_field_bounds): a failure there rules it out without its stability
+        solves; else they are the full check's."""
+        made = None
         if self.found is not None and candidate.report is None:
             if self.ruled_out(candidate):
                 return False
@@ -226,9 +223,10 @@ class Search:
             if self.seeded(candidate) and self.ruled_out(candidate):
                 self.reveal_count = min(2 * self.reveal_count, REVEAL_MOST)  # a failure, as a failed full check is
                 return False
-            if self.fails_on_stress_field(candidate):
+            made = self.stress_field_bounds(candidate)
+            if candidate.certainly_fails:
                 return False
-        passes = self.full_check(candidate, learn).passes
+        passes = self.full_check(candidate, learn, made).passes
         self.reveal_count = 1 if passes else min(2 * self.reveal_count, REVEAL_MOST)
         return passes
 
