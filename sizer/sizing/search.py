@@ -225,6 +225,7 @@ class Search:
                 return False
             made = self.stress_field_bounds(candidate)
             if candidate.certainly_fails:
+                self.reveal_count = min(2 * self.reveal_count, REVEAL_MOST)  # a failure, as a failed full check is
                 return False
         passes = self.full_check(candidate, learn, made).passes
         self.reveal_count = 1 if passes else min(2 * self.reveal_count, REVEAL_MOST)
