@@ -50,9 +50,10 @@ PATTERN_SECOND_ORDER_NOTE = (
 
 @dataclass
 class StressState:
-    """What the stress-field checks of one design read: the check stations (m), the torsion solve, the first-order actions (C, S, 6) in member axes, the second-order actions (None
-    with second order off), the actions (C, S, 6) and warping actions in section axes the stress
-    field is made from, and its peaks."""
+    """What the stress-field checks of one design read: the check stations (m), the torsion solve,
+    the first-order actions (C, S, 6) in member axes, the second-order actions (None with second
+    order off), the actions (C, S, 6) and warping actions in section axes the stress field is made
+    from, and its peaks."""
 
     xs: np.ndarray
     torsion: TorsionActions
