@@ -39,7 +39,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, replace
-from typing import TYPE_CHECKING, Callable, Iterable, Sequence
+from typing import TYPE_CHECKING, Any, Callable, Iterable, Sequence, Union
 
 import numpy as np
 
@@ -80,6 +80,19 @@ class Web:
     webs: int
     h: float
 
+    @property
+    def thin(self) -> float:
+        """(tw / tf)^1.5, as the crippling formulas take it."""
+        return (self.tw / self.tf) ** 1.5
+
+    @property
+    def tw2(self) -> float:
+        return self.tw**2
+
+    @property
+    def tw3(self) -> float:
+        return self.tw**3
+
 
 def section_webs(shape: str, dims: dict[str, float]) -> list[Web]:
     """The webs of a section (empty for shapes without one)."""
@@ -100,30 +113,33 @@ def no_web_reason(shape: str) -> str | None:
 
 
 # ----------------------------------------------------------------------------------------------
-# the published formulas (one web)
+# the published formulas: one web (floats) or the webs of many sections at once (WebColumns, arrays)
 
-def web_yielding(web: Web, fy: float, bearing: float, near_end: bool) -> float:
+Webs = Union["Web", "WebColumns"]
+
+
+def web_yielding(web: Webs, fy: float, bearing: float, near_end: bool | np.ndarray) -> Any:
     """Rn of web local yielding, N (AISC 360-16 eqs. J10-2 and J10-3), all the section's webs."""
-    return web.webs * fy * web.tw * ((2.5 if near_end else 5.0) * web.k + bearing)
+    return _plain(web.webs * fy * web.tw * (np.where(near_end, 2.5, 5.0) * web.k + bearing))
 
 
-def web_crippling(web: Web, E: float, fy: float, bearing: float, near_end: bool) -> float:
+def web_crippling(web: Webs, E: float, fy: float, bearing: float, near_end: bool | np.ndarray) -> Any:
     """Rn of web crippling, N (AISC 360-16 eqs. J10-4, J10-5a, J10-5b, Qf = 1), all the section's webs."""
-    ratio, thin = bearing / web.depth, (web.tw / web.tf) ** 1.5
-    root = math.sqrt(E * fy * web.tf / web.tw)
-    if not near_end:
-        factor = 0.80 * (1 + 3 * ratio * thin)
-    elif ratio <= 0.2:
-        factor = 0.40 * (1 + 3 * ratio * thin)
-    else:
-        factor = 0.40 * (1 + (4 * ratio - 0.2) * thin)
-    return web.webs * factor * web.tw**2 * root
+    ratio, thin = bearing / web.depth, web.thin
+    factor = np.where(near_end, np.where(ratio <= 0.2, 0.40 * (1 + 3 * ratio * thin), 0.40 * (1 + (4 * ratio - 0.2) * thin)),
+                      0.80 * (1 + 3 * ratio * thin))
+    return _plain(web.webs * factor * web.tw2 * np.sqrt(E * fy * web.tf / web.tw))
 
 
-def web_compression_buckling(web: Web, E: float, fy: float, near_end: bool) -> float:
+def web_compression_buckling(web: Webs, E: float, fy: float, near_end: bool | np.ndarray) -> Any:
     """Rn of web compression buckling under a pair of opposed forces, N (AISC 360-16 eq. J10-8, Qf = 1):
     24 tw^3 sqrt(E Fy) / h with h = d - 2k, half within d/2 of the member's end; all the section's webs."""
-    return web.webs * 24.0 * web.tw**3 * math.sqrt(E * fy) / (web.depth - 2 * web.k) * (0.5 if near_end else 1.0)
+    return _plain(web.webs * 24.0 * web.tw3 * math.sqrt(E * fy) / (web.depth - 2 * web.k) * np.where(near_end, 0.5, 1.0))
+
+
+def _plain(value: Any) -> Any:
+    """A float for one web, the array for many."""
+    return float(value) if np.ndim(value) == 0 else value
 
 
 # ----------------------------------------------------------------------------------------------
@@ -305,7 +321,7 @@ def web_columns(webs: Sequence[list[Web]], axis: int) -> WebColumns:
         return np.fromiter(values, float, len(kept))
     return WebColumns(np.array([web is not None for web in found], bool), column(w.depth for w in kept), column(w.tw for w in kept),
                       column(w.tf for w in kept), column(w.k for w in kept), column(w.webs for w in kept),
-                      column((w.tw / w.tf) ** 1.5 for w in kept), column(w.tw**2 for w in kept), column(w.tw**3 for w in kept))
+                      column(w.thin for w in kept), column(w.tw2 for w in kept), column(w.tw3 for w in kept))
 
 
 def web_utilizations(solution: MemberSolution, material: Material, specs: Sequence[SectionSpec], masses: np.ndarray | None) -> np.ndarray:
@@ -346,22 +362,14 @@ def web_utilizations(solution: MemberSolution, material: Material, specs: Sequen
 def _bearing_allowable(webs: WebColumns, item: Concentrated, length: float, E: float) -> Callable[[float], np.ndarray]:
     """Fy -> (S,) min(web local yielding, web crippling) / Omega under one concentrated force (as _web_result)."""
     end = min(item.at, length - item.at)
-    yield_end, crippling_end = end <= webs.depth, end < webs.depth / 2
-    ratio = item.bearing / webs.depth
-    factor = np.where(~crippling_end, 0.80 * (1 + 3 * ratio * webs.thin),
-                      np.where(ratio <= 0.2, 0.40 * (1 + 3 * ratio * webs.thin), 0.40 * (1 + (4 * ratio - 0.2) * webs.thin)))
-    def allowable(fy: float) -> np.ndarray:
-        yielding = webs.webs * fy * webs.tw * (np.where(yield_end, 2.5, 5.0) * webs.k + item.bearing) / OMEGA_YIELDING  # eqs. J10-2, J10-3
-        crippling = webs.webs * factor * webs.tw2 * np.sqrt(E * fy * webs.tf / webs.tw) / OMEGA_CRIPPLING  # eqs. J10-4, J10-5a, J10-5b
-        return np.minimum(yielding, crippling)
-    return allowable
+    return lambda fy: np.minimum(web_yielding(webs, fy, item.bearing, end <= webs.depth) / OMEGA_YIELDING,
+                                 web_crippling(webs, E, fy, item.bearing, end < webs.depth / 2) / OMEGA_CRIPPLING)
 
 
 def _buckling_allowable(webs: WebColumns, load: Concentrated, length: float, E: float) -> Callable[[float], np.ndarray]:
-    """Fy -> (S,) web compression buckling / Omega under a load over a support (as _pair_result; eq. J10-8)."""
+    """Fy -> (S,) web compression buckling / Omega under a load over a support (as _pair_result)."""
     end = min(load.at, length - load.at)
-    half = np.where(end < webs.depth / 2, 0.5, 1.0)
-    return lambda fy: webs.webs * 24.0 * webs.tw3 * math.sqrt(E * fy) / (webs.depth - 2 * webs.k) * half / OMEGA_COMPRESSION
+    return lambda fy: web_compression_buckling(webs, E, fy, end < webs.depth / 2) / OMEGA_COMPRESSION
 
 
 def web_notes(design: Design) -> list[str]:
