@@ -232,12 +232,13 @@ class Search:
         return passes
 
     def seeded(self, candidate: Candidate) -> bool:
-        """Whether the stability bounds took the candidate's own base-mesh buckled shapes now (only
-        where they seed: sizer.sizing.stability_bounds.StabilityBounds.seed), once per candidate."""
+        """Whether the stability bounds took the candidate's own base-mesh buckled shapes now
+        (sizer.sizing.stability_bounds.StabilityBounds.seed: before every full check, measured to pay
+        for members with and without pattern arrangements), once per candidate."""
         from sizer.stability import stability_section
 
         stability = self.stability
-        if stability is None or not stability.seeds or candidate.index in self.seeded_rows:
+        if stability is None or candidate.index in self.seeded_rows:
             return False
         self.seeded_rows.add(candidate.index)
         section = stability_section(candidate.props, self.material.elastic_modulus, self.material.shear_modulus)
@@ -351,7 +352,7 @@ def _size(member: Member, catalogue: Catalogue, material: Material, families: Se
         prepare_screen(search, table)
         solves = "one solve per load case and one unit self-weight solve" if member.self_weight_case else "one solve per load case"
         seeded = (", and each section's own buckled shapes on the unrefined mesh, whose load factors lie at or above the "
-                  "converged ones") if search.stability is not None and search.stability.seeds else ""
+                  "converged ones") if search.stability is not None else ""
         notes.append(f"Screened all candidates at once ({solves}, "
                      "superposed); a lighter section is ruled out only by a proven lower bound of its full check "
                      "(stability: Rayleigh-Ritz bounds of its buckling load factors from the buckled shapes found "

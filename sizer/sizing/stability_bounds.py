@@ -51,7 +51,6 @@ class StabilityBounds:
         self.projections: dict[tuple[str, int], Projection] = {}
         self.stale: set[Group] = set()
         self.epoch = 0  # counts the full checks and seeds whose shapes were taken
-        self.seeds = True  # seed before every full check (see seed): measured to pay for members with and without pattern arrangements
 
     def add(self, report: StabilityReport) -> None:
         """Take a full check's buckled shapes as trial shapes (projected onto every section's allowed
