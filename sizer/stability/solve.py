@@ -118,7 +118,7 @@ class Reduced:
             near = self.near_hint(b, hint)
             if near is not None:
                 return [near]
-        active = np.abs(b).max(axis=1) > ZERO_GEOMETRY * size
+        active = _touched(b, size)
         baa = b[np.ix_(active, active)]
         inverse, coupling = self._factor(active)
         standard = inverse @ baa @ inverse.T
@@ -144,7 +144,7 @@ class Reduced:
         factorization) no load factor lies in (0, lam (1 - CERTIFIED)] (Sylvester's law of
         inertia): lam is then the lowest, to within CERTIFIED above it. Some three solves and one
         factorization, against K's inverse Cholesky factor and a full eigen-solve of the standard form."""
-        active = np.abs(b).max(axis=1) > ZERO_GEOMETRY * np.abs(b).max()
+        active = _touched(b, np.abs(b).max())
         k, coupling = self._condensed(active)
         b = b[np.ix_(active, active)]
         shape = _start_vector(len(k))
@@ -178,7 +178,7 @@ class Reduced:
             return [np.zeros((0, 0)) for _ in matrices]
         active = np.zeros(self.k.shape[0], bool)
         for b in matrices:
-            active |= np.abs(b).max(axis=1) > ZERO_GEOMETRY * size
+            active |= _touched(b, size)
         inverse, _ = self._factor(active)
         forms = []
         for b in matrices:
@@ -370,6 +370,12 @@ def _start_vector(size: int) -> np.ndarray:
     vector = np.sin(2.399963229728653 * np.arange(1, size + 1))
     vector.flags.writeable = False
     return vector
+
+
+def _touched(b: np.ndarray, size: float) -> np.ndarray:
+    """The freedoms a geometric matrix B touches: a row with an entry above ZERO_GEOMETRY times `size`
+    (the largest |entry| considered)."""
+    return np.abs(b).max(axis=1) > ZERO_GEOMETRY * size
 
 
 def _positive_definite(matrix: np.ndarray) -> bool:
