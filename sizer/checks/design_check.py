@@ -101,9 +101,7 @@ def stress_checks(design: Design, unit_field: UnitStressField, n_even: int = 200
     its stability solves: each value equals check_design's for that check, so their largest is a
     proven lower bound of its utilization. None where check_design would first add the pattern
     arrangements that govern (a superposable solution: see _governing_arrangements)."""
-    from sizer.analysis.superposition import superposable
-
-    if superposable(design.solution) and design.material is not None:
+    if has_arrangements_to_add(design):
         return None
     state = stress_state(design, unit_field, n_even, validate_across)
     return state, field_checks(design, unit_field, state)
@@ -121,10 +119,10 @@ def check_design(design: Design, unit_field: UnitStressField, n_even: int = 200,
     given_design = design
     design, stability, searches, solver = _governing_arrangements(design, unit_field, n_even, stability)
     names = design.solution.combination_names
-    state, fields = made if made is not None and design is given_design else (None, None)
-    if state is None or fields is None:
-        state = stress_state(design, unit_field, n_even, validate_across)
-        fields = field_checks(design, unit_field, state)
+    if made is None or design is not given_design:
+        made_state = stress_state(design, unit_field, n_even, validate_across)
+        made = made_state, field_checks(design, unit_field, made_state)
+    state, fields = made
     xs, first, second, stress = state.xs, state.first, state.second, state.stress
     report = stability_report(design, to_section_axes(first, design.member.orientation), xs, stability, searches, solver, scaled)
     given = given_length_axes(design.member, design.props, design.known_material)
@@ -161,18 +159,25 @@ def check_design(design: Design, unit_field: UnitStressField, n_even: int = 200,
                        torsion=torsion_summary(design, state.torsion, xs), second_order=second, design=design)
 
 
+def has_arrangements_to_add(design: Design) -> bool:
+    """Whether check_design first adds the pattern arrangements that govern (_governing_arrangements):
+    where the design's solution superposes its arrangements (analysis.superposition.superposable)."""
+    from sizer.analysis.superposition import superposable
+
+    return superposable(design.solution) and design.material is not None
+
+
 def _governing_arrangements(design: Design, unit_field: UnitStressField, n_even: int,
                             stability: MemberStability | None) -> tuple[Design, MemberStability | None, dict[str, LateralSearch], SectionStability | None]:
     """The design with the pattern arrangements that govern its stress and lateral-torsional checks
     among its combinations (sizer.checks.arrangements, sizer.checks.stability.lateral_searches), the
     stability model for it, the lateral searches and the section's solves they used; the design as
     it is where its arrangements are not superposable (analysis.superposition.superposable)."""
-    from sizer.analysis.superposition import superposable
     from sizer.checks.arrangements import deflection_arrangements, stress_arrangements, with_arrangements
     from sizer.checks.stability import lateral_searches
     from sizer.stability import stability_section
 
-    if not superposable(design.solution) or design.material is None:
+    if not has_arrangements_to_add(design):
         return design, stability, {}, None
     xs, sides = check_stations(design, n_even)
     warping = torsion_actions(design, xs, sides).warping()
